@@ -1,0 +1,3 @@
+module skysheet
+
+go 1.26

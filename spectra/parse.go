@@ -1,0 +1,533 @@
+package spectra
+
+import (
+	"bufio"
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"math"
+	"path"
+	"regexp"
+	"strconv"
+	"strings"
+	"unicode/utf8"
+)
+
+// The errors a reader may return, wrapped in a [ParseError].
+var (
+	ErrHeader         = errors.New("no header line")
+	ErrUnknownUnit    = errors.New("is not a known spectral axis")
+	ErrUnknownColumn  = errors.New("is not a known column")
+	ErrDuplicateCol   = errors.New("appears twice")
+	ErrNoValues       = errors.New("no R, T or A column")
+	ErrFieldCount     = errors.New("wrong number of columns")
+	ErrNotNumber      = errors.New("is not a number")
+	ErrNotFinite      = errors.New("is not finite")
+	ErrOutOfRange     = errors.New("is out of range")
+	ErrDuplicate      = errors.New("repeats an earlier wavelength")
+	ErrNotMonotonic   = errors.New("breaks the order of the spectral axis")
+	ErrNoData         = errors.New("no data")
+	ErrShortSegment   = errors.New("segment has fewer than 2 rows")
+	ErrOverlap        = errors.New("ranges overlap")
+	ErrUnknownFormat  = errors.New("unknown file format")
+	ErrBadMetadata    = errors.New("bad metadata value")
+	ErrEncoding       = errors.New("is not valid UTF-8")
+	ErrEmptyAxisValue = errors.New("empty spectral axis value")
+)
+
+// ParseError reports bad input at a place in a file. Line and Column are
+// 1-based; zero means unknown.
+type ParseError struct {
+	File   string
+	Line   int
+	Column int
+	Name   string // column name, when Column is set
+	Err    error
+}
+
+func (e *ParseError) Error() string {
+	var b strings.Builder
+	b.WriteString(e.File)
+	if e.Line > 0 {
+		fmt.Fprintf(&b, ":%d", e.Line)
+	}
+	b.WriteString(": ")
+	if e.Column > 0 {
+		fmt.Fprintf(&b, "column %d", e.Column)
+		if e.Name != "" {
+			fmt.Fprintf(&b, " (%s)", e.Name)
+		}
+		b.WriteString(": ")
+	}
+	b.WriteString(e.Err.Error())
+	return b.String()
+}
+
+func (e *ParseError) Unwrap() error { return e.Err }
+
+// Read reads the spectrum file name from fsys, choosing the reader by the
+// file's extension: ".jdx", ".dx" and ".jcamp" are JCAMP-DX, everything else
+// the neutral column format.
+func Read(fsys fs.FS, name string) (*Spectrum, error) {
+	data, err := fs.ReadFile(fsys, name)
+	if err != nil {
+		return nil, err
+	}
+	return Decode(data, name)
+}
+
+// Decode reads a spectrum from data, choosing the reader by name's extension
+// as [Read] does.
+func Decode(data []byte, name string) (*Spectrum, error) {
+	switch strings.ToLower(path.Ext(name)) {
+	case ".jdx", ".dx", ".jcamp":
+		if readJCAMP == nil {
+			return nil, &ParseError{File: name, Err: fmt.Errorf("JCAMP-DX: %w", ErrUnknownFormat)}
+		}
+		return readJCAMP(bytes.NewReader(data), name)
+	}
+	return Parse(bytes.NewReader(data), name)
+}
+
+// readJCAMP is set by the JCAMP-DX reader when it is built in.
+var readJCAMP func(r io.Reader, name string) (*Spectrum, error)
+
+// column describes one header cell of the neutral format.
+type column struct {
+	q       Quantity
+	percent bool
+	name    string // as written in the header
+}
+
+// axis is the unit of the spectral axis.
+type axis int
+
+const (
+	axisNM axis = iota
+	axisUM
+	axisWavenumber
+)
+
+var (
+	axisRE = regexp.MustCompile(`^(wavelength|lambda|wavenumber)\s*[_ ]?\s*[(\[]?\s*(nm|um|micron|microns|micrometers?|micrometres?|cm-1|1/cm|cm\^-1)\s*[)\]]?$`)
+	pctRE  = regexp.MustCompile(`(\s*[(\[]\s*%\s*[)\]]|\s*%|_pct|_percent)$`)
+)
+
+// parseAxisHeader returns the unit named by the first header cell.
+func parseAxisHeader(h string) (axis, bool) {
+	h = strings.ToLower(strings.TrimSpace(h))
+	h = strings.NewReplacer("µ", "u", "μ", "u", "⁻¹", "-1").Replace(h)
+	m := axisRE.FindStringSubmatch(h)
+	if m == nil {
+		return 0, false
+	}
+	isWN := m[1] == "wavenumber"
+	switch m[2] {
+	case "nm":
+		return axisNM, !isWN
+	case "cm-1", "1/cm", "cm^-1":
+		return axisWavenumber, isWN
+	default:
+		return axisUM, !isWN
+	}
+}
+
+// parseColumnHeader returns the quantity named by a value header cell.
+func parseColumnHeader(h string) (column, bool) {
+	c := column{name: strings.TrimSpace(h)}
+	s := strings.ToLower(c.name)
+	if loc := pctRE.FindStringIndex(s); loc != nil {
+		c.percent = true
+		s = strings.TrimSpace(s[:loc[0]])
+	}
+	switch s {
+	case "r", "reflectance":
+		c.q = R
+	case "t", "transmittance":
+		c.q = T
+	case "a", "absorptance":
+		c.q = A
+	case "u_r", "u(r)", "ur":
+		c.q = UR
+	case "u_t", "u(t)", "ut":
+		c.q = UT
+	default:
+		return c, false
+	}
+	return c, true
+}
+
+// Parse reads a spectrum in the neutral column format (see the README) from
+// r; name is used in errors and recorded as the source.
+func Parse(r io.Reader, name string) (*Spectrum, error) {
+	p := parser{file: name, s: &Spectrum{Sources: []string{name}}}
+	if err := p.run(r); err != nil {
+		return nil, err
+	}
+	return p.s, nil
+}
+
+type parser struct {
+	file string
+	s    *Spectrum
+	line int
+
+	delim   rune // 0 means runs of spaces
+	unit    axis
+	cols    []column
+	pending *Segment // segment being filled
+	rows    int      // rows read
+	dir     int      // +1 ascending, -1 descending (in the file's own axis), 0 unknown
+	lastX   float64
+	lastLn  int
+	seenX   map[float64]int
+	consts  [numQuantities]float64 // constant uncertainties from metadata, NaN if none
+}
+
+func (p *parser) errf(col int, err error) error {
+	pe := &ParseError{File: p.file, Line: p.line, Err: err}
+	if col > 0 {
+		pe.Column = col
+		if col == 1 {
+			pe.Name = "spectral axis"
+		} else if col-2 < len(p.cols) {
+			pe.Name = p.cols[col-2].name
+		}
+	}
+	return pe
+}
+
+func (p *parser) run(r io.Reader) error {
+	for i := range p.consts {
+		p.consts[i] = math.NaN()
+	}
+	sc := bufio.NewScanner(r)
+	sc.Buffer(make([]byte, 64*1024), 16*1024*1024)
+	header := false
+	for sc.Scan() {
+		p.line++
+		text := sc.Text()
+		if p.line == 1 {
+			text = strings.TrimPrefix(text, "\uFEFF")
+		}
+		text = strings.TrimSuffix(text, "\r")
+		if !utf8.ValidString(text) {
+			return p.errf(0, fmt.Errorf("line %w", ErrEncoding))
+		}
+		trimmed := strings.TrimSpace(text)
+		switch {
+		case strings.HasPrefix(trimmed, "#"):
+			if !header {
+				if err := p.meta(strings.TrimSpace(trimmed[1:])); err != nil {
+					return err
+				}
+			}
+		case trimmed == "":
+			if header {
+				if err := p.closeSegment(); err != nil {
+					return err
+				}
+			}
+		case !header:
+			if err := p.header(text); err != nil {
+				return err
+			}
+			header = true
+		default:
+			if err := p.row(text); err != nil {
+				return err
+			}
+		}
+	}
+	if err := sc.Err(); err != nil {
+		return &ParseError{File: p.file, Line: p.line + 1, Err: err}
+	}
+	p.line = 0
+	if !header {
+		return &ParseError{File: p.file, Err: ErrHeader}
+	}
+	if err := p.closeSegment(); err != nil {
+		return err
+	}
+	if p.rows == 0 {
+		return &ParseError{File: p.file, Err: fmt.Errorf("%w: the header is followed by no rows", ErrNoData)}
+	}
+	if (p.dir < 0) != (p.unit == axisWavenumber) {
+		p.reverse()
+	}
+	p.applyConstantUncertainty()
+	return nil
+}
+
+// meta records a "# key: value" line before the header.
+func (p *parser) meta(s string) error {
+	k, v, ok := strings.Cut(s, ":")
+	if !ok {
+		return nil // a plain comment
+	}
+	k, v = strings.TrimSpace(k), strings.TrimSpace(v)
+	if k == "" || strings.ContainsAny(k, " \t") && len(strings.Fields(k)) > 4 {
+		return nil
+	}
+	p.s.Meta = append(p.s.Meta, Field{Key: k, Value: v})
+	switch normKey(k) {
+	case "u_r", "u(r)":
+		return p.constU(UR, v)
+	case "u_t", "u(t)":
+		return p.constU(UT, v)
+	}
+	return nil
+}
+
+// constU reads a constant standard uncertainty from metadata: a fraction, or
+// a number followed by "%".
+func (p *parser) constU(q Quantity, v string) error {
+	s := strings.TrimSpace(v)
+	scale := 1.0
+	if strings.HasSuffix(s, "%") {
+		scale, s = 0.01, strings.TrimSpace(strings.TrimSuffix(s, "%"))
+	}
+	x, err := strconv.ParseFloat(s, 64)
+	if err != nil || math.IsNaN(x) || math.IsInf(x, 0) || x < 0 || x*scale > 1 {
+		return p.errf(0, fmt.Errorf("%w: %s: %q: want a standard uncertainty such as 0.005 or 0.5 %%", ErrBadMetadata, q, v))
+	}
+	p.consts[q] = x * scale
+	return nil
+}
+
+func normKey(k string) string {
+	return strings.ReplaceAll(strings.ToLower(strings.TrimSpace(k)), " ", "_")
+}
+
+func (p *parser) split(text string) []string {
+	var f []string
+	if p.delim == 0 {
+		f = strings.Fields(text)
+	} else {
+		f = strings.Split(text, string(p.delim))
+	}
+	for i := range f {
+		f[i] = strings.Trim(strings.TrimSpace(f[i]), `"`)
+	}
+	return f
+}
+
+func (p *parser) header(text string) error {
+	switch {
+	case strings.Contains(text, "\t"):
+		p.delim = '\t'
+	case strings.Contains(text, ";"):
+		p.delim = ';'
+	case strings.Contains(text, ","):
+		p.delim = ','
+	}
+	f := p.split(text)
+	for len(f) > 0 && f[len(f)-1] == "" {
+		f = f[:len(f)-1]
+	}
+	u, ok := parseAxisHeader(f[0])
+	if !ok {
+		return p.errf(1, fmt.Errorf("%q %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", f[0], ErrUnknownUnit))
+	}
+	p.unit = u
+	seen := map[Quantity]int{}
+	for i, h := range f[1:] {
+		c, ok := parseColumnHeader(h)
+		if !ok {
+			p.cols = append(p.cols, c)
+			return p.errf(i+2, fmt.Errorf("%q %w: want R, T, A, u_R or u_T, optionally with (%%) or _pct", h, ErrUnknownColumn))
+		}
+		if j, dup := seen[c.q]; dup {
+			p.cols = append(p.cols, c)
+			return p.errf(i+2, fmt.Errorf("%s %w (also column %d)", c.q.Name(), ErrDuplicateCol, j))
+		}
+		seen[c.q] = i + 2
+		p.cols = append(p.cols, c)
+	}
+	if _, r := seen[R]; !r {
+		if _, t := seen[T]; !t {
+			if _, a := seen[A]; !a {
+				return p.errf(0, fmt.Errorf("header %q: %w", strings.TrimSpace(text), ErrNoValues))
+			}
+		}
+	}
+	p.seenX = map[float64]int{}
+	return nil
+}
+
+func (p *parser) number(orig string, col int) (float64, error) {
+	s := orig
+	if (p.delim == '\t' || p.delim == ';') && strings.Count(s, ",") == 1 && !strings.Contains(s, ".") {
+		s = strings.Replace(s, ",", ".", 1)
+	}
+	x, err := strconv.ParseFloat(s, 64)
+	if err != nil {
+		var ne *strconv.NumError
+		if errors.As(err, &ne) && ne.Err == strconv.ErrRange {
+			return 0, p.errf(col, fmt.Errorf("%q %w", orig, ErrNotFinite))
+		}
+		return 0, p.errf(col, fmt.Errorf("%q %w", orig, ErrNotNumber))
+	}
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return 0, p.errf(col, fmt.Errorf("%q %w", orig, ErrNotFinite))
+	}
+	return x, nil
+}
+
+func (p *parser) row(text string) error {
+	f := p.split(text)
+	want := len(p.cols) + 1
+	for len(f) > want && f[len(f)-1] == "" {
+		f = f[:len(f)-1]
+	}
+	if len(f) != want {
+		return p.errf(0, fmt.Errorf("%w: expected %d, found %d", ErrFieldCount, want, len(f)))
+	}
+	if f[0] == "" {
+		return p.errf(1, ErrEmptyAxisValue)
+	}
+	x, err := p.number(f[0], 1)
+	if err != nil {
+		return err
+	}
+	var nm float64
+	switch p.unit {
+	case axisNM:
+		nm = x
+	case axisUM:
+		nm = x * 1000
+	case axisWavenumber:
+		nm = 1e7 / x
+	}
+	if !(x > 0) || math.IsInf(nm, 0) || !(nm > 0) {
+		return p.errf(1, fmt.Errorf("%q %w: the spectral axis must be positive", f[0], ErrOutOfRange))
+	}
+	if ln, dup := p.seenX[x]; dup {
+		return p.errf(1, fmt.Errorf("%s %w (line %d)", f[0], ErrDuplicate, ln))
+	}
+	if p.rows > 0 {
+		d := 1
+		if x < p.lastX {
+			d = -1
+		}
+		if p.dir == 0 {
+			p.dir = d
+		} else if d != p.dir {
+			order := "ascending"
+			if p.dir < 0 {
+				order = "descending"
+			}
+			return p.errf(1, fmt.Errorf("%s %w: the axis is %s but line %d has %g", f[0], ErrNotMonotonic, order, p.lastLn, p.lastX))
+		}
+	}
+	p.seenX[x] = p.line
+	p.lastX, p.lastLn = x, p.line
+	p.rows++
+	if p.pending == nil {
+		p.pending = &Segment{Source: p.file}
+		for _, c := range p.cols {
+			p.pending.Values[c.q] = []float64{}
+		}
+	}
+	g := p.pending
+	g.NM = append(g.NM, nm)
+	for i, c := range p.cols {
+		s := f[i+1]
+		v := math.NaN()
+		if s != "" {
+			v, err = p.number(s, i+2)
+			if err != nil {
+				return err
+			}
+			if err := p.checkRange(v, c, s, i+2); err != nil {
+				return err
+			}
+			if c.percent {
+				v /= 100
+			}
+		}
+		g.Values[c.q] = append(g.Values[c.q], v)
+	}
+	return nil
+}
+
+func (p *parser) checkRange(v float64, c column, s string, col int) error {
+	lo, hi, unit := -0.05, 1.05, "a fraction within -0.05..1.05"
+	if c.q == UR || c.q == UT {
+		lo, hi, unit = 0, 1, "an uncertainty within 0..1"
+	}
+	if c.percent {
+		lo, hi = lo*100, hi*100
+		unit = strings.Replace(unit, "a fraction", "a percentage", 1)
+		unit = strings.Replace(unit, "-0.05..1.05", "-5..105", 1)
+		unit = strings.Replace(unit, "0..1", "0..100", 1)
+	}
+	if v < lo || v > hi {
+		hint := ""
+		if !c.percent && v > 1.05 && v <= 105 {
+			hint = " (percent? mark the header, e.g. \"" + c.q.String() + " (%)\")"
+		}
+		return p.errf(col, fmt.Errorf("%q %w: want %s%s", s, ErrOutOfRange, unit, hint))
+	}
+	return nil
+}
+
+// closeSegment ends the current segment at a blank line or at the end.
+func (p *parser) closeSegment() error {
+	g := p.pending
+	if g == nil {
+		return nil
+	}
+	p.pending = nil
+	if len(g.NM) < 2 {
+		return &ParseError{File: p.file, Line: p.lastLn, Err: fmt.Errorf("%w (segments are separated by blank lines)", ErrShortSegment)}
+	}
+	p.s.Segments = append(p.s.Segments, *g)
+	return nil
+}
+
+// reverse puts a descending file into increasing wavelength order. A
+// wavenumber axis that ascends is descending in wavelength, and vice versa.
+func (p *parser) reverse() {
+	segs := p.s.Segments
+	for i, j := 0, len(segs)-1; i < j; i, j = i+1, j-1 {
+		segs[i], segs[j] = segs[j], segs[i]
+	}
+	for i := range segs {
+		flip(segs[i].NM)
+		for _, v := range segs[i].Values {
+			flip(v)
+		}
+	}
+}
+
+func flip(v []float64) {
+	for i, j := 0, len(v)-1; i < j; i, j = i+1, j-1 {
+		v[i], v[j] = v[j], v[i]
+	}
+}
+
+func (p *parser) applyConstantUncertainty() {
+	for _, q := range []Quantity{UR, UT} {
+		if math.IsNaN(p.consts[q]) {
+			continue
+		}
+		base := R
+		if q == UT {
+			base = T
+		}
+		for i := range p.s.Segments {
+			g := &p.s.Segments[i]
+			if g.Values[q] != nil || g.Values[base] == nil {
+				continue
+			}
+			u := make([]float64, len(g.NM))
+			for j := range u {
+				u[j] = p.consts[q]
+			}
+			g.Values[q] = u
+		}
+	}
+}
