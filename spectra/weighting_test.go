@@ -19,7 +19,7 @@ func TestG173Totals(t *testing.T) {
 		w    Weighting
 		want float64
 	}{
-		{"global tilt", SolarGlobal(), 1000.4}, // ASTM G173-03 total, 280–4000 nm
+		{"global tilt", SolarGlobal(), 1000.4},         // ASTM G173-03 total, 280–4000 nm
 		{"direct + circumsolar", SolarDirect(), 900.1}, // ASTM G173-03 total, 280–4000 nm
 	} {
 		got := WeightIntegral(tt.w, 280, 4000)
