@@ -1,0 +1,29 @@
+package datasheet
+
+// Claim is a figure that a maker or author claims for a material, as written
+// in the material's front matter under "claims:".
+type Claim struct {
+	// Figure is the key of any figure the tool computes, e.g.
+	// "solar_reflectance", "window_emittance", "cooling_power_w_m2".
+	Figure string `yaml:"figure" json:"figure"`
+	// Value is the claimed value, in the figure's own unit (fractions for
+	// reflectance and emittance).
+	Value float64 `yaml:"value" json:"value"`
+	// Tolerance is the claimed ± tolerance; zero means none was given.
+	Tolerance float64 `yaml:"tolerance,omitempty" json:"tolerance,omitempty"`
+	// Basis is what the claimant says the value rests on; empty fields fall
+	// back to the library's defaults.
+	Basis Basis `yaml:"basis,omitempty" json:"basis,omitempty"`
+	// Source says where the claim was made (a product sheet, a paper).
+	Source string `yaml:"source,omitempty" json:"source,omitempty"`
+}
+
+// Basis is the stated basis of a claim. Zero fields mean "not stated".
+type Basis struct {
+	SolarBandNM   []float64 `yaml:"solar_band_nm,omitempty" json:"solar_band_nm,omitempty"`
+	SolarSpectrum string    `yaml:"solar_spectrum,omitempty" json:"solar_spectrum,omitempty"`
+	ThermalBandUM []float64 `yaml:"thermal_band_um,omitempty" json:"thermal_band_um,omitempty"`
+	WindowBandUM  []float64 `yaml:"window_band_um,omitempty" json:"window_band_um,omitempty"`
+	TemperatureK  float64   `yaml:"temperature_k,omitempty" json:"temperature_k,omitempty"`
+	AngleDeg      float64   `yaml:"angle_deg,omitempty" json:"angle_deg,omitempty"`
+}
