@@ -1,0 +1,464 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"fmt"
+	"html"
+	"io"
+	"math"
+	"net/http"
+	"net/http/httptest"
+	"net/url"
+	"os"
+	"path"
+	"regexp"
+	"sort"
+	"strings"
+	"sync"
+	"testing"
+	"time"
+
+	"github.com/chromedp/chromedp"
+)
+
+// chromiumPath is where Debian's chromium package installs the browser.
+const chromiumPath = "/usr/bin/chromium"
+
+// TestBrowser builds the demo library (the repository root) in-process,
+// serves it on 127.0.0.1 and drives headless Chromium through it: the index
+// loads without console errors, the table sorts and filters, a datasheet
+// shows its charts and figure table, every internal link resolves, and each
+// datasheet prints to at most two A4 pages.
+func TestBrowser(t *testing.T) {
+	if _, err := os.Stat(chromiumPath); err != nil {
+		if os.Getenv("CI") != "" {
+			t.Fatalf("%s is missing; .ci/run installs Debian's chromium package before the tests", chromiumPath)
+		}
+		t.Skipf("%s not found: browser test skipped (apt-get install chromium to run it)", chromiumPath)
+	}
+	out := t.TempDir()
+	if code, stdout, stderr := runCLI("build", "-o", out, "../.."); code != 0 {
+		t.Fatalf("skysheet build of the demo library exited %d\nstdout:\n%s\nstderr:\n%s", code, stdout, stderr)
+	}
+	srv := httptest.NewServer(http.FileServer(http.Dir(out)))
+	defer srv.Close()
+
+	// A guard only: the whole test takes a few seconds. The browser's life is
+	// bound to this context, so no shorter timeout is set on it.
+	ctx, cancel := context.WithTimeout(context.Background(), 2*time.Minute)
+	defer cancel()
+	opts := []chromedp.ExecAllocatorOption{
+		chromedp.ExecPath(chromiumPath),
+		chromedp.Headless,
+		chromedp.NoSandbox,
+		chromedp.DisableGPU,
+		chromedp.Flag("disable-background-networking", true),
+		chromedp.Flag("disable-component-update", true),
+		chromedp.NoFirstRun,
+		chromedp.NoDefaultBrowserCheck,
+		chromedp.Flag("disable-dev-shm-usage", true),
+		chromedp.UserDataDir(t.TempDir()),
+		chromedp.WindowSize(1280, 1800),
+	}
+	allocCtx, cancelAlloc := chromedp.NewExecAllocator(ctx, opts...)
+	defer cancelAlloc()
+	bctx, cancelBrowser := chromedp.NewContext(allocCtx)
+	defer cancelBrowser()
+
+	con := &consoleLog{}
+	if err := con.follow(bctx); err != nil {
+		t.Fatalf("starting %s: %v", chromiumPath, err)
+	}
+
+	slugs := indexSlugs(t, bctx, srv.URL, con)
+	if len(slugs) == 0 {
+		t.Fatal("the index table has no rows")
+	}
+	t.Run("Sort", func(t *testing.T) { testSort(t, bctx, srv, slugs) })
+	t.Run("Filter", func(t *testing.T) { testFilter(t, bctx, slugs) })
+	t.Run("Datasheet", func(t *testing.T) { testDatasheet(t, bctx, srv.URL, con) })
+	t.Run("Links", func(t *testing.T) { testLinks(t, srv) })
+	t.Run("PrintPDF", func(t *testing.T) { testPrint(t, bctx, srv.URL, slugs) })
+}
+
+// consoleLog collects console errors, uncaught exceptions and browser log
+// errors (such as failed resource loads) of every page visited.
+type consoleLog struct {
+	mu   sync.Mutex
+	msgs []string
+}
+
+// follow starts the browser and collects its console messages until ctx ends.
+func (c *consoleLog) follow(ctx context.Context) error {
+	if err := chromedp.Do(ctx); err != nil { // starts the browser and opens the tab
+		return err
+	}
+	msgs := chromedp.Console(ctx)
+	go func() {
+		for m, err := range msgs {
+			if err != nil {
+				return
+			}
+			if m.Type != chromedp.ConsoleError && !m.IsException() && m.Type != "assert" {
+				continue
+			}
+			text := m.String()
+			if m.URL != "" {
+				text += fmt.Sprintf(" (%s:%d)", m.URL, m.Line+1)
+			}
+			c.mu.Lock()
+			c.msgs = append(c.msgs, text)
+			c.mu.Unlock()
+		}
+	}()
+	return nil
+}
+
+// take returns and clears the collected messages, after a moment for the
+// last ones to arrive.
+func (c *consoleLog) take() []string {
+	time.Sleep(100 * time.Millisecond)
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	m := c.msgs
+	c.msgs = nil
+	return m
+}
+
+// settle waits until the page has loaded and its scripts have run.
+func settle() chromedp.Action[chromedp.Void] {
+	return chromedp.Steps(
+		chromedp.Poll[chromedp.Void](`document.readyState === "complete"`, chromedp.WithPollingTimeout(15*time.Second)),
+		chromedp.Sleep(100*time.Millisecond),
+	)
+}
+
+// eval evaluates a JavaScript expression on the current page.
+func eval[T any](t *testing.T, ctx context.Context, expr string) T {
+	t.Helper()
+	v, err := chromedp.Run(ctx, chromedp.Evaluate[T](expr))
+	if err != nil {
+		t.Fatalf("evaluating %s: %v", expr, err)
+	}
+	return v
+}
+
+// indexSlugs opens the index, checks it loads without console errors and
+// returns the slugs of its table rows in displayed order.
+func indexSlugs(t *testing.T, ctx context.Context, base string, con *consoleLog) []string {
+	t.Helper()
+	con.take()
+	err := chromedp.Do(ctx,
+		chromedp.Navigate(base+"/index.html"),
+		chromedp.WaitReady(chromedp.CSS("#library-table")),
+		settle(),
+	)
+	if err != nil {
+		t.Fatalf("loading the index: %v", err)
+	}
+	for _, m := range con.take() {
+		t.Errorf("index.html: %s", m)
+	}
+	if n := eval[int](t, ctx, `document.querySelectorAll('input#library-filter').length`); n != 1 {
+		t.Errorf("index.html: want one input#library-filter, found %d", n)
+	}
+	return eval[[]string](t, ctx, rowSlugsJS)
+}
+
+// rowSlugsJS lists the data-slug of every row of the library table in
+// displayed order; visibleSlugsJS only those shown.
+const (
+	rowSlugsJS     = `Array.from(document.querySelectorAll('#library-table tbody tr[data-slug]')).map(r => r.dataset.slug)`
+	visibleSlugsJS = `Array.from(document.querySelectorAll('#library-table tbody tr[data-slug]')).filter(r => r.getClientRects().length > 0 && getComputedStyle(r).visibility !== 'hidden').map(r => r.dataset.slug)`
+)
+
+// figureOf reads one headline figure of a material from its figures.json
+// download (schema of "figures --json").
+func figureOf(t *testing.T, srv *httptest.Server, slug, key string) float64 {
+	t.Helper()
+	res, err := srv.Client().Get(srv.URL + "/m/" + url.PathEscape(slug) + "/figures.json")
+	if err != nil {
+		t.Fatalf("figures.json of %s: %v", slug, err)
+	}
+	defer res.Body.Close()
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("figures.json of %s: %s", slug, res.Status)
+	}
+	var f map[string]json.RawMessage
+	if err := json.NewDecoder(res.Body).Decode(&f); err != nil {
+		t.Fatalf("figures.json of %s: %v", slug, err)
+	}
+	var v *float64
+	if err := json.Unmarshal(f[key], &v); err != nil || v == nil {
+		return math.NaN()
+	}
+	return *v
+}
+
+// monotonic tells whether xs never decreases (dir > 0) or never increases
+// (dir < 0).
+func monotonic(xs []float64, dir float64) bool {
+	for i := 1; i < len(xs); i++ {
+		if dir*(xs[i]-xs[i-1]) < 0 {
+			return false
+		}
+	}
+	return true
+}
+
+func testSort(t *testing.T, ctx context.Context, srv *httptest.Server, slugs []string) {
+	const key = "solar_reflectance"
+	value := map[string]float64{}
+	for _, s := range slugs {
+		value[s] = figureOf(t, srv, s, key)
+		if math.IsNaN(value[s]) {
+			t.Fatalf("%s has no %s in figures.json; the demo library gives every material one", s, key)
+		}
+	}
+	if sorted := sort.SliceIsSorted(slugs, func(i, j int) bool { return value[slugs[i]] < value[slugs[j]] }); sorted {
+		t.Logf("the index starts sorted by %s already; only the reversal is a real test", key)
+	}
+	order := func() ([]string, []float64) {
+		err := chromedp.Do(ctx,
+			chromedp.Click(chromedp.CSS(`#library-table button[data-sort-key="`+key+`"]`)),
+			chromedp.Sleep(100*time.Millisecond),
+		)
+		if err != nil {
+			t.Fatalf("clicking the %s header: %v", key, err)
+		}
+		got := eval[[]string](t, ctx, rowSlugsJS)
+		vals := make([]float64, len(got))
+		for i, s := range got {
+			vals[i] = value[s]
+		}
+		return got, vals
+	}
+	first, v1 := order()
+	if len(first) != len(slugs) {
+		t.Fatalf("sorting changed the number of rows from %d to %d", len(slugs), len(first))
+	}
+	dir := 1.0
+	if v1[0] > v1[len(v1)-1] {
+		dir = -1
+	}
+	if !monotonic(v1, dir) {
+		t.Errorf("after one click on %s the rows are not sorted: %v = %v", key, first, v1)
+	}
+	second, v2 := order()
+	if !monotonic(v2, -dir) || v2[0] == v2[len(v2)-1] {
+		t.Errorf("a second click on %s should reverse the order: %v = %v", key, second, v2)
+	}
+}
+
+func testFilter(t *testing.T, ctx context.Context, slugs []string) {
+	// type into the box as a person would; setValue clears it between cases
+	filter := func(text string) []string {
+		err := chromedp.Do(ctx,
+			chromedp.Evaluate[chromedp.Void](`(() => { const f = document.getElementById('library-filter'); f.value = ''; f.dispatchEvent(new Event('input', {bubbles: true})); })()`),
+			chromedp.SendKeys(chromedp.CSS("#library-filter"), text),
+			chromedp.Sleep(150*time.Millisecond),
+		)
+		if err != nil {
+			t.Fatalf("typing %q into the filter: %v", text, err)
+		}
+		return eval[[]string](t, ctx, visibleSlugsJS)
+	}
+	cases := []struct {
+		text string
+		want []string // nil: every row
+	}{
+		{"BX-7", []string{"bx-7"}},          // product code in one title only
+		{"kestrelweave", []string{"kw-21"}}, // maker name, any case
+		{"zzqx-nothing", []string{}},
+		{"", nil},
+	}
+	for _, c := range cases {
+		got := filter(c.text)
+		want := c.want
+		if want == nil {
+			want = slugs
+		}
+		if strings.Join(got, " ") != strings.Join(want, " ") {
+			t.Errorf("filter %q shows %d rows %v, want %v", c.text, len(got), got, want)
+		}
+	}
+}
+
+func testDatasheet(t *testing.T, ctx context.Context, base string, con *consoleLog) {
+	con.take()
+	err := chromedp.Do(ctx,
+		chromedp.Navigate(base+"/m/bw-93/index.html"),
+		chromedp.WaitReady(chromedp.CSS("table.figures")),
+		settle(),
+	)
+	if err != nil {
+		t.Fatalf("loading a datasheet: %v", err)
+	}
+	charts := eval[int](t, ctx, `document.querySelectorAll('figure.chart').length`)
+	svgs := eval[int](t, ctx, `document.querySelectorAll('figure.chart svg').length`)
+	captions := eval[int](t, ctx, `document.querySelectorAll('figure.chart figcaption').length`)
+	labelled := eval[int](t, ctx, `Array.from(document.querySelectorAll('figure.chart svg')).filter(s => s.closest('[role=img]') || s.closest('[aria-label]')).length`)
+	sizes := eval[[]float64](t, ctx, `Array.from(document.querySelectorAll('figure.chart svg')).map(s => { const r = s.getBoundingClientRect(); return r.width * r.height; })`)
+	rows := eval[int](t, ctx, `document.querySelectorAll('table.figures tbody tr').length`)
+	for _, m := range con.take() {
+		t.Errorf("m/bw-93/index.html: %s", m)
+	}
+	// BW-93 has UV-Vis-NIR and FTIR data: a solar and a thermal chart at least.
+	if svgs < 2 {
+		t.Errorf("datasheet shows %d charts (figure.chart svg), want at least 2 (solar and thermal)", svgs)
+	}
+	if captions < charts {
+		t.Errorf("%d of %d charts have a figcaption (text alternative)", captions, charts)
+	}
+	if labelled < svgs {
+		t.Errorf("%d of %d chart SVGs carry role=img or aria-label", labelled, svgs)
+	}
+	for i, a := range sizes {
+		if a < 100*100 {
+			t.Errorf("chart %d is drawn %g px², too small to read", i+1, a)
+		}
+	}
+	// solar reflectance, transmittance, absorptance, UV, visible, near-IR,
+	// thermal and window emittance at least
+	if rows < 8 {
+		t.Errorf("figure table has %d rows, want at least 8", rows)
+	}
+}
+
+// linkAttr finds the tag, attribute and value of href and src attributes in
+// generated HTML (html/template always double-quotes attribute values).
+var linkAttr = regexp.MustCompile(`<([a-zA-Z]+)\b[^>]*?\s(href|src)\s*=\s*"([^"]*)"`)
+
+// cssURL finds url(...) references in a stylesheet.
+var cssURL = regexp.MustCompile(`url\(\s*['"]?([^'")]+)['"]?\s*\)`)
+
+// testLinks crawls every page reachable from the index with plain HTTP and
+// checks each internal link, script, stylesheet and fragment resolves.
+func testLinks(t *testing.T, srv *httptest.Server) {
+	base, _ := url.Parse(srv.URL + "/")
+	type doc struct {
+		status int
+		ctype  string
+		body   []byte
+	}
+	cache := map[string]*doc{}
+	get := func(u *url.URL) *doc {
+		key := u.Path
+		if d, ok := cache[key]; ok {
+			return d
+		}
+		res, err := srv.Client().Get(base.ResolveReference(&url.URL{Path: strings.TrimPrefix(u.Path, "/")}).String())
+		if err != nil {
+			t.Fatalf("GET %s: %v", u.Path, err)
+		}
+		body, _ := io.ReadAll(res.Body)
+		res.Body.Close()
+		d := &doc{res.StatusCode, res.Header.Get("Content-Type"), body}
+		cache[key] = d
+		return d
+	}
+	queue := []*url.URL{base.ResolveReference(&url.URL{Path: "index.html"})}
+	seen := map[string]bool{queue[0].Path: true}
+	checked := 0
+	for len(queue) > 0 {
+		page := queue[0]
+		queue = queue[1:]
+		d := get(page)
+		if d.status != http.StatusOK {
+			continue // reported where it was linked from
+		}
+		type ref struct{ tag, val string }
+		var refs []ref
+		switch {
+		case strings.HasPrefix(d.ctype, "text/html"):
+			for _, m := range linkAttr.FindAllSubmatch(d.body, -1) {
+				refs = append(refs, ref{strings.ToLower(string(m[1])), html.UnescapeString(string(m[3]))})
+			}
+		case strings.HasPrefix(d.ctype, "text/css"):
+			for _, m := range cssURL.FindAllSubmatch(d.body, -1) {
+				refs = append(refs, ref{"css", string(m[1])})
+			}
+		}
+		for _, r := range refs {
+			ref := r.val
+			if ref == "" || strings.HasPrefix(ref, "data:") {
+				continue
+			}
+			u, err := url.Parse(ref)
+			if err != nil {
+				t.Errorf("%s: link %q does not parse: %v", page.Path, ref, err)
+				continue
+			}
+			if u.Scheme != "" || u.Host != "" {
+				// the site must work offline: it may link out, but load nothing from outside
+				if r.tag != "a" && u.Scheme != "mailto" {
+					t.Errorf("%s: <%s> loads an external resource %q", page.Path, r.tag, ref)
+				}
+				continue
+			}
+			if strings.HasPrefix(u.Path, "/") {
+				t.Errorf("%s: link %q is absolute; site links must be relative", page.Path, ref)
+				continue
+			}
+			target := page.ResolveReference(u)
+			if !strings.HasPrefix(target.Path, base.Path) {
+				t.Errorf("%s: link %q leaves the site", page.Path, ref)
+				continue
+			}
+			checked++
+			td := get(target)
+			if td.status != http.StatusOK {
+				t.Errorf("%s: link %q → %s gives %d", page.Path, ref, target.Path, td.status)
+				continue
+			}
+			if frag := u.Fragment; frag != "" && strings.HasPrefix(td.ctype, "text/html") {
+				if !bytes.Contains(td.body, []byte(`id="`+html.EscapeString(frag)+`"`)) {
+					t.Errorf("%s: link %q: no element with id %q on %s", page.Path, ref, frag, target.Path)
+				}
+			}
+			p := target.Path
+			if strings.HasSuffix(p, "/") {
+				p += "index.html"
+			}
+			if !seen[p] && (path.Ext(p) == ".html" || path.Ext(p) == ".css") {
+				seen[p] = true
+				queue = append(queue, &url.URL{Path: p})
+			}
+		}
+	}
+	if checked < 20 {
+		t.Errorf("only %d internal links found from the index; the crawl is not reaching the site", checked)
+	}
+	t.Logf("checked %d internal links on %d pages and stylesheets", checked, len(seen))
+}
+
+// pageObject matches a page object of a PDF ("/Type /Page"), not the page
+// tree ("/Type /Pages").
+var pageObject = regexp.MustCompile(`/Type\s*/Page[^s]`)
+
+func testPrint(t *testing.T, ctx context.Context, base string, slugs []string) {
+	for _, slug := range slugs {
+		err := chromedp.Do(ctx,
+			chromedp.Navigate(base+"/m/"+slug+"/index.html"),
+			chromedp.WaitReady(chromedp.CSS("table.figures")),
+			settle(),
+		)
+		if err != nil {
+			t.Fatalf("loading m/%s/: %v", slug, err)
+		}
+		// A4 is 210 × 297 mm = 8.27 × 11.69 in (ISO 216)
+		pdf, err := chromedp.Run(ctx, chromedp.PrintToPDF(chromedp.PDFPaper(chromedp.PaperA4)))
+		if err != nil {
+			t.Fatalf("printing m/%s/: %v", slug, err)
+		}
+		n := len(pageObject.FindAll(pdf, -1))
+		switch {
+		case n == 0:
+			t.Errorf("m/%s/: no page objects found in the %d-byte PDF", slug, len(pdf))
+		case n > 2:
+			t.Errorf("m/%s/ prints to %d A4 pages, want at most 2", slug, n)
+		}
+	}
+}
