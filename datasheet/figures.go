@@ -145,6 +145,9 @@ type Figures struct {
 	Assumptions        []string      `json:"assumptions"`
 	Conditions         Conditions    `json:"conditions"`
 	Figures            []Figure      `json:"figures"`
+	// Splices lists every junction where two instruments' data were
+	// spliced, with the mismatch found there; empty when none.
+	Splices []spectra.SpliceRecord `json:"splices"`
 }
 
 // Figure returns the figure with the given key.
@@ -163,7 +166,9 @@ func Compute(s *spectra.Spectrum, c Conditions) (*Figures, error) {
 		return nil, err
 	}
 	o := spectra.Resolve(s, c.ClosureTol)
-	return computeOptics(o, c), nil
+	f := computeOptics(o, c)
+	f.Splices = append([]spectra.SpliceRecord{}, s.Splices...)
+	return f, nil
 }
 
 func computeOptics(o spectra.Optics, c Conditions) *Figures {

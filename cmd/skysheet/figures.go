@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strings"
 	"text/tabwriter"
 
@@ -27,6 +26,9 @@ func runFigures(e *env, args []string) error {
 	fs := newFlags(e, commands["figures"])
 	conditionFlags(fs, &c)
 	asJSON := fs.Bool("json", false, "print one JSON object instead of a table")
+	var so sampleOptions
+	sampleFlags(fs, "splice-", &so)
+	save := fs.String("save-spectrum", "", "also write the joined, corrected spectrum to this file in the neutral format")
 	files, err := parseFlags(fs, args)
 	if err != nil {
 		return err
@@ -37,9 +39,17 @@ func runFigures(e *env, args []string) error {
 	if err := c.Validate(); err != nil {
 		return usagef("%v", err)
 	}
-	s, err := readSample(files)
+	if err := so.validate(); err != nil {
+		return err
+	}
+	s, err := readSampleWith(files, so)
 	if err != nil {
 		return err
+	}
+	if *save != "" {
+		if err := writeSpectrumFile(e.stdout, *save, s); err != nil {
+			return err
+		}
 	}
 	f, err := datasheet.Compute(s, c)
 	if err != nil {
@@ -54,21 +64,13 @@ func runFigures(e *env, args []string) error {
 	return nil
 }
 
-// readSample reads and merges the spectrum files of one sample.
+// readSample reads the spectrum files of one sample and joins them with
+// the default options: each file corrected against the reference standard
+// it names, overlapping files spliced (see readSampleWith).
 func readSample(files []string) (*spectra.Spectrum, error) {
-	parts := make([]*spectra.Spectrum, 0, len(files))
-	for _, name := range files {
-		data, err := os.ReadFile(name)
-		if err != nil {
-			return nil, err
-		}
-		s, err := spectra.Decode(data, name)
-		if err != nil {
-			return nil, err
-		}
-		parts = append(parts, s)
-	}
-	return spectra.Merge(parts...)
+	var o sampleOptions
+	o.splice.Tolerance = spectra.DefaultSpliceTol
+	return readSampleWith(files, o)
 }
 
 // printFigures writes the human-readable report.
@@ -93,6 +95,7 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	default:
 		fmt.Fprintf(w, "Closure: R, T and A were not all measured; R+T ≤ 1 and no negative values, tolerance %g\n", cl.Tolerance)
 	}
+	printSplices(w, f.Splices)
 	fmt.Fprintln(w, "\nAssumptions:")
 	for _, a := range f.Assumptions {
 		fmt.Fprintf(w, "  - %s\n", a)

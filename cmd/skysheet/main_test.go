@@ -1,17 +1,9 @@
 package main
 
 import (
-	"bytes"
 	"strings"
 	"testing"
 )
-
-// runCLI runs one command line in-process and returns exit status and output.
-func runCLI(args ...string) (int, string, string) {
-	var out, errb bytes.Buffer
-	code := run(&env{stdout: &out, stderr: &errb, stdin: strings.NewReader("")}, args)
-	return code, out.String(), errb.String()
-}
 
 func TestExitCodes(t *testing.T) {
 	for _, tt := range []struct {
