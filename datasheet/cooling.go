@@ -144,6 +144,12 @@ type coolGrid struct {
 // newCoolGrid returns the grid for emittance series a, or nil when a does
 // not reach into the band at all.
 func newCoolGrid(a spectra.Series, sky Sky, bandUM [2]float64, ambientK float64) *coolGrid {
+	return newCoolGridStep(a, sky, bandUM, ambientK, referenceStep)
+}
+
+// newCoolGridStep is newCoolGrid with a given relative step of the
+// reference grid.
+func newCoolGridStep(a spectra.Series, sky Sky, bandUM [2]float64, ambientK, step float64) *coolGrid {
 	lo, hi := bandUM[0]*1000, bandUM[1]*1000
 	type cover struct {
 		p      int
@@ -173,7 +179,7 @@ func newCoolGrid(a spectra.Series, sky Sky, bandUM [2]float64, ambientK float64)
 		nodes = append(nodes, (cov[i-1].hi+cov[i].lo)/2)
 	}
 	nodes = append(nodes, sky.skyBreaks(lo, hi)...)
-	nodes = append(nodes, referenceGrid(lo, hi)...)
+	nodes = append(nodes, geometricGrid(lo, hi, step)...)
 	g.nodes = sortUnique(nodes)
 	n := len(g.nodes)
 	g.c1, g.x, g.bAmb = make([]float64, n), make([]float64, n), make([]float64, n)
@@ -192,22 +198,11 @@ func newCoolGrid(a spectra.Series, sky Sky, bandUM [2]float64, ambientK float64)
 		}
 		return lc{p: p, j: j - 1, f: (nm - v[j-1]) / (v[j] - v[j-1])}
 	}
-	hemi := map[float64]float64{}
-	hemiOf := func(e float64) float64 {
-		v, ok := hemi[e]
-		if !ok {
-			v = hemispherical(e)
-			hemi[e] = v
-		}
-		return v
-	}
 	g.spans = make([]coolSpan, n-1)
 	for i := range g.spans {
 		x0, x1 := g.nodes[i], g.nodes[i+1]
 		m := (x0 + x1) / 2
 		sp := coolSpan{a: i}
-		ea, eb := sky.zenithOn(x0, x1)
-		sp.skyL, sp.skyR = hemiOf(ea), hemiOf(eb)
 		inside := -1
 		for ci, cv := range cov {
 			if m > cv.lo && m < cv.hi {
@@ -242,7 +237,36 @@ func newCoolGrid(a spectra.Series, sky Sky, bandUM [2]float64, ambientK float64)
 			g.heldPower += pw
 		}
 	}
+	g.setSky(sky)
 	return g
+}
+
+// setSky sets the hemispherical sky emissivity at the ends of every span.
+// The grid's nodes must include the sky's breakpoints.
+func (g *coolGrid) setSky(sky Sky) {
+	hemi := map[float64]float64{}
+	hemiOf := func(e float64) float64 {
+		v, ok := hemi[e]
+		if !ok {
+			v = hemispherical(e)
+			hemi[e] = v
+		}
+		return v
+	}
+	for i := range g.spans {
+		sp := &g.spans[i]
+		ea, eb := sky.zenithOn(g.nodes[sp.a], g.nodes[sp.a+1])
+		sp.skyL, sp.skyR = hemiOf(ea), hemiOf(eb)
+	}
+}
+
+// withSky returns a copy of g under another clear sky (whose breakpoints,
+// the window edges, are already nodes of g).
+func (g *coolGrid) withSky(sky Sky) *coolGrid {
+	h := *g
+	h.spans = append([]coolSpan(nil), g.spans...)
+	h.setSky(sky)
+	return &h
 }
 
 // fits reports whether the grid was built for series with a's shape.
@@ -306,9 +330,10 @@ func (s *coolState) prad(t float64) float64 {
 		}
 		return math.Pi * sum
 	}
+	inv := 1 / t
 	for i, w := range s.wrad {
 		if w != 0 {
-			sum += w * g.c1[i] / math.Expm1(g.x[i]/t)
+			sum += w * g.c1[i] / (math.Exp(g.x[i]*inv) - 1)
 		}
 	}
 	return math.Pi * sum
@@ -596,13 +621,11 @@ func (m *cooling) sensitivity(a spectra.Series, alpha float64, base coolFigures)
 	}
 	c := m.c
 	row := func(param, unit string, change float64, alt Conditions) {
-		mm := &cooling{c: alt, sun: m.sun}
-		sky, err := skyFor(alt)
-		if err != nil {
-			return
+		mm := &cooling{c: alt, sun: m.sun, sky: m.sky, g: m.g}
+		if alt.DewPointC != c.DewPointC {
+			mm.sky = ClearSky(alt.DewPointC, alt.AmbientK)
+			mm.g = m.g.withSky(mm.sky)
 		}
-		mm.sky = sky
-		mm.g = newCoolGrid(a, sky, alt.ExchangeBandUM, alt.AmbientK)
 		r := mm.evaluate(a, alpha)
 		out = append(out, Sensitivity{Parameter: param, Change: change, Unit: unit,
 			DeltaDayWm2: Num(r.day - base.day), DeltaNightWm2: Num(r.night - base.night),

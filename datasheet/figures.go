@@ -221,11 +221,15 @@ func Compute(s *spectra.Spectrum, c Conditions) (*Figures, error) {
 	f, grads := computeOptics(o, c)
 	m.addCooling(f, o, grads, true)
 	addSRI(f, grads)
-	eval := func(o spectra.Optics) *Figures {
-		f, _ := computeOptics(o, c)
-		m.addCooling(f, o, nil, false)
-		addSRI(f, nil)
-		return f
+	eval := func(o spectra.Optics, lin func(string) float64) map[string]float64 {
+		alpha := float64(f.SolarAbsorptance) + lin("solar_absorptance")
+		eps := float64(f.ThermalEmittance) + lin("thermal_emittance")
+		r := m.evaluate(o.A, alpha)
+		out := map[string]float64{"equilibrium_delta_k": c.AmbientK - r.eqDay, "equilibrium_delta_night_k": c.AmbientK - r.eqNight}
+		for key, hc := range map[string]float64{"sri_low": WindLow, "sri_medium": WindMedium, "sri_high": WindHigh} {
+			out[key] = SolarReflectanceIndex(alpha, eps, hc)
+		}
+		return out
 	}
 	addUncertainty(f, s, o, grads, c.ClosureTol, eval)
 	f.Cautions = Cautions

@@ -116,22 +116,28 @@ func hasUncertainty(s *spectra.Spectrum, q spectra.Quantity) (ok bool, lo, hi fl
 	return ok, lo, hi
 }
 
+// nonlinearEval recomputes the figures that are not linear in the data
+// (equilibria, SRI) from optics o, given the change lin(key) of any linear
+// figure that they build on. It returns them by key.
+type nonlinearEval func(o spectra.Optics, lin func(key string) float64) map[string]float64
+
 // probe is the effect on the resolved optics of moving one measured
-// quantity by its standard uncertainty: the change of every value, and the
-// figures computed with the quantity moved up and down.
+// quantity by its standard uncertainty everywhere at once: the change of
+// every value and the nonlinear figures recomputed with the quantity moved
+// up and down.
 type probe struct {
 	delta      gradient // (o⁺ − o⁻)/2 at every point, indexed like o
 	slot       [3][][]int
 	nslots     int
-	plus, mins *Figures
+	plus, mins map[string]float64
 }
 
 // newProbe moves quantity q of s up and down by its uncertainty and
-// evaluates the figures both ways with eval.
-func newProbe(s *spectra.Spectrum, q spectra.Quantity, o spectra.Optics, tol float64, eval func(spectra.Optics) *Figures) *probe {
+// recomputes the nonlinear figures both ways with eval.
+func newProbe(s *spectra.Spectrum, q spectra.Quantity, o spectra.Optics, tol float64, grads map[string]gradient, eval nonlinearEval) *probe {
 	op := spectra.Resolve(shifted(s, q, +1), tol)
 	om := spectra.Resolve(shifted(s, q, -1), tol)
-	pr := &probe{plus: eval(op), mins: eval(om)}
+	pr := &probe{}
 	// Pointwise changes. Resolve works wavelength by wavelength, so the
 	// change at one point comes from that wavelength's own uncertainty; the
 	// slots group the R, T and A values of one wavelength.
@@ -162,7 +168,33 @@ func newProbe(s *spectra.Spectrum, q spectra.Quantity, o spectra.Optics, tol flo
 		}
 	}
 	pr.nslots = len(slots)
+	// Linear figures move by exactly ±Σ g·δ; the nonlinear ones are
+	// recomputed from the moved optics.
+	lin := func(sign float64) func(string) float64 {
+		return func(key string) float64 { return sign * pr.together(grads[key]) }
+	}
+	pr.plus, pr.mins = eval(op, lin(+1)), eval(om, lin(-1))
 	return pr
+}
+
+// together returns Σ g·δ: the change of a linear figure when the quantity
+// moves by its uncertainty everywhere at once.
+func (pr *probe) together(g gradient) float64 {
+	var sum float64
+	for q := range g {
+		for p, row := range g[q] {
+			if p >= len(pr.delta[q]) || pr.delta[q][p] == nil {
+				continue
+			}
+			d := pr.delta[q][p]
+			for j, c := range row {
+				if j < len(d) {
+					sum += c * d[j]
+				}
+			}
+		}
+	}
+	return sum
 }
 
 // statedMask returns, for every value of o's R, T and A series, whether
@@ -254,14 +286,20 @@ func (pr *probe) uncorrelated(g gradient, buf []float64) float64 {
 
 // addUncertainty sets the uncertainty of every figure in f when s gives
 // standard uncertainties of R or T.
-func addUncertainty(f *Figures, s *spectra.Spectrum, o spectra.Optics, grads map[string]gradient, tol float64, eval func(spectra.Optics) *Figures) {
+//
+// Uncorrelated: u² = Σ_λ (Σ_q ∂F/∂q(λ) δq(λ))², with the gradients grads
+// and δ the pointwise change of the resolved R, T and A when the measured
+// quantity moves by its uncertainty. Correlated: half the difference of F
+// with the quantity moved up and down everywhere at once; for a linear
+// figure that is Σ ∂F/∂q δq exactly, the others are recomputed by eval.
+func addUncertainty(f *Figures, s *spectra.Spectrum, o spectra.Optics, grads map[string]gradient, tol float64, eval nonlinearEval) {
 	var probes []*probe
 	for _, q := range []spectra.Quantity{spectra.R, spectra.T} {
 		ok, lo, hi := hasUncertainty(s, q)
 		if !ok {
 			continue
 		}
-		probes = append(probes, newProbe(s, q, o, tol, eval))
+		probes = append(probes, newProbe(s, q, o, tol, grads, eval))
 		f.Assumptions = append(f.Assumptions, fmt.Sprintf("The standard uncertainty of %s is given over %s–%s nm; "+
 			"elsewhere %s is taken as exact, which understates the uncertainty of figures that reach there.",
 			q, fmtNM(lo), fmtNM(hi), q))
@@ -294,9 +332,10 @@ func addUncertainty(f *Figures, s *spectra.Spectrum, o spectra.Optics, grads map
 		}
 		var u2, c2 float64
 		for _, pr := range probes {
-			xp, _ := pr.plus.Figure(x.Key)
-			xm, _ := pr.mins.Figure(x.Key)
-			c := (float64(xp.Value) - float64(xm.Value)) / 2
+			c := pr.together(g)
+			if xp, ok := pr.plus[x.Key]; ok {
+				c = (xp - pr.mins[x.Key]) / 2
+			}
 			c2 += c * c
 			u := pr.uncorrelated(g, buf)
 			u2 += u * u
