@@ -43,8 +43,9 @@ type Sensitivity struct {
 	DeltaDayWm2   Num     `json:"delta_day_w_m2"`
 	DeltaNightWm2 Num     `json:"delta_night_w_m2"`
 	// Changes of the equilibrium depressions T_amb − T_eq.
-	DeltaEquilibriumDayK   Num `json:"delta_equilibrium_day_k"`
-	DeltaEquilibriumNightK Num `json:"delta_equilibrium_night_k"`
+	DeltaEquilibriumDayK   Num    `json:"delta_equilibrium_day_k"`
+	DeltaEquilibriumNightK Num    `json:"delta_equilibrium_night_k"`
+	Note                   string `json:"note,omitempty"`
 }
 
 // The curve runs from T_amb + curveFromK to T_amb + curveToK in 1 K steps.
@@ -75,8 +76,8 @@ func (c Conditions) validateCooling() error {
 	if !(c.HWm2K >= 0 && c.HWm2K <= 1000) {
 		return fmt.Errorf("heat-transfer coefficient h %g W m⁻² K⁻¹: want 0–1000", c.HWm2K)
 	}
-	if b := c.ExchangeBandUM; !(b[0] > 0 && b[1] > b[0] && b[1] <= 1000) {
-		return fmt.Errorf("exchange band %g–%g µm: want 0 < low < high ≤ 1000", b[0], b[1])
+	if b := c.ExchangeBandUM; !(b[0] >= 0.1 && b[1] > b[0] && b[1] <= 1000) {
+		return fmt.Errorf("exchange band %g–%g µm: want 0.1 ≤ low < high ≤ 1000", b[0], b[1])
 	}
 	if !c.clearSky() {
 		if c.SkySpectrum == nil {
@@ -620,7 +621,7 @@ func (m *cooling) sensitivity(a spectra.Series, alpha float64, base coolFigures)
 		return out
 	}
 	c := m.c
-	row := func(param, unit string, change float64, alt Conditions) {
+	row := func(param, unit string, change float64, alt Conditions, note string) {
 		mm := &cooling{c: alt, sun: m.sun, sky: m.sky, g: m.g}
 		if alt.DewPointC != c.DewPointC {
 			mm.sky = ClearSky(alt.DewPointC, alt.AmbientK)
@@ -630,13 +631,13 @@ func (m *cooling) sensitivity(a spectra.Series, alpha float64, base coolFigures)
 		out = append(out, Sensitivity{Parameter: param, Change: change, Unit: unit,
 			DeltaDayWm2: Num(r.day - base.day), DeltaNightWm2: Num(r.night - base.night),
 			DeltaEquilibriumDayK:   Num(base.eqDay - r.eqDay),
-			DeltaEquilibriumNightK: Num(base.eqNight - r.eqNight)})
+			DeltaEquilibriumNightK: Num(base.eqNight - r.eqNight), Note: note})
 	}
 	for _, dh := range []float64{+1, -1} {
 		alt := c
 		alt.HWm2K += dh
 		if alt.HWm2K >= 0 {
-			row("h_w_m2k", "W m⁻² K⁻¹", dh, alt)
+			row("h_w_m2k", "W m⁻² K⁻¹", dh, alt, "the cooling power at T_s = T_amb does not depend on h")
 		}
 	}
 	if c.clearSky() {
@@ -644,7 +645,11 @@ func (m *cooling) sensitivity(a spectra.Series, alpha float64, base coolFigures)
 			alt := c
 			alt.DewPointC += dd
 			if alt.validateCooling() == nil {
-				row("dew_point_c", "°C", dd, alt)
+				note := ""
+				if alt := ClearSky(alt.DewPointC, alt.AmbientK); m.sky.Clamped && alt.Clamped && alt.WindowEmissivity == m.sky.WindowEmissivity {
+					note = fmt.Sprintf("the window emissivity stays clamped at %g", float64(alt.WindowEmissivity))
+				}
+				row("dew_point_c", "°C", dd, alt, note)
 			}
 		}
 	}

@@ -1,6 +1,7 @@
 package datasheet
 
 import (
+	"bytes"
 	"encoding/json"
 	"math"
 	"os"
@@ -312,4 +313,34 @@ func BenchmarkCompute(b *testing.B) {
 			b.Fatal(err)
 		}
 	}
+}
+
+func FuzzCompute(f *testing.F) {
+	f.Add([]byte(sampleCSV([][2]float64{{250, 0.9}, {2500, 0.9}, {2600, 0.1}, {25000, 0.1}})))
+	f.Add([]byte("wavenumber_cm-1;R (%);T;u_R\n4000;50,5;1;0,01\n400;60;2;0,02\n\n300;10;0;\n200;12;0;\n"))
+	f.Add([]byte("wavelength_um,A,T,u_T\n2.5,0.9,0.01,0.001\n8,0.95,0,0.001\n\n13,0.9,0,\n150,0.5,0,\n"))
+	f.Fuzz(func(t *testing.T, in []byte) {
+		s, err := spectra.Parse(bytes.NewReader(in), "fuzz")
+		if err != nil {
+			return
+		}
+		x, err := Compute(s, DefaultConditions())
+		if err != nil {
+			t.Fatalf("Compute failed on a parsed spectrum: %v", err)
+		}
+		if h := float64(x.CoolingTerms.HeldShare); !math.IsNaN(h) && !(h >= 0 && h <= 1+1e-12) {
+			t.Fatalf("held share %v", h)
+		}
+		for _, fig := range x.Figures {
+			if v := float64(fig.Value); math.IsInf(v, 0) {
+				t.Fatalf("%s infinite", fig.Key)
+			}
+			if u := fig.Uncertainty; u != nil && !(u.Uncorrelated >= 0 && u.Correlated >= 0) {
+				t.Fatalf("%s: uncertainty %+v", fig.Key, *u)
+			}
+		}
+		if _, err := json.Marshal(x); err != nil {
+			t.Fatal(err)
+		}
+	})
 }

@@ -19,6 +19,9 @@ const (
 	SkySpectral = "spectral"
 )
 
+// skyRangeNM bounds the broadband integrals of a spectral sky, nm.
+var skyRangeNM = [2]float64{1000, 1e6}
+
 // SkyWindowUM is the atmospheric window of the clear two-band sky, µm. It is
 // part of the sky model and does not follow the window band of the
 // emittance figures.
@@ -126,11 +129,16 @@ func SpectralSky(s *spectra.Spectrum, name string, ambientK float64) (Sky, error
 	k := Sky{Model: SkySpectral, Source: name, AmbientK: ambientK, DewPointC: Num(math.NaN()),
 		WindowUM: SkyWindowUM, zenith: z}
 	// Broadband figures: ε = 1 outside the file, so only the transmitted
-	// part needs integrating over the file's range.
+	// part needs integrating over the file's range, and only where a
+	// blackbody near ambient emits at all (1 µm to 1 mm: outside, less than
+	// 1e-5 of its power).
 	lo, hi := z.Range()
 	sigmaT4 := spectra.StefanBoltzmann * math.Pow(ambientK, 4)
 	var transZ, transH float64
-	grid := skyGrid(k, lo, hi)
+	var grid []float64
+	if a, b := math.Max(lo, skyRangeNM[0]), math.Min(hi, skyRangeNM[1]); b > a {
+		grid = skyGrid(k, a, b)
+	}
 	for i := 1; i < len(grid); i++ {
 		a, b := grid[i-1], grid[i]
 		ea, eb := k.zenithOn(a, b)

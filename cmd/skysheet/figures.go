@@ -122,7 +122,9 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	printCooling(w, f)
 	fmt.Fprintln(w, "\nAssumptions:")
 	for _, a := range f.Assumptions {
-		fmt.Fprintf(w, "  - %s\n", a)
+		if a != "Sky: "+f.Sky.Description { // printed above
+			fmt.Fprintf(w, "  - %s\n", a)
+		}
 	}
 	c := f.Conditions
 	fmt.Fprintln(w, "\nConditions:")
@@ -153,7 +155,7 @@ func printCooling(w io.Writer, f *datasheet.Figures) {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "  \twith sun\tat night")
 	fmt.Fprintf(tw, "  net cooling power at ambient\t%s\t%s\n", fmtUnit(f.CoolingPowerWm2, "W/m²"), fmtUnit(f.CoolingPowerNightWm2, "W/m²"))
-	fmt.Fprintf(tw, "  settles below ambient by\t%s\t%s\n", fmtUnit(f.EquilibriumDeltaK, "K"), fmtUnit(f.EquilibriumDeltaNightK, "K"))
+	fmt.Fprintf(tw, "  settles at\t%s\t%s\n", fmtDepression(f.EquilibriumDeltaK), fmtDepression(f.EquilibriumDeltaNightK))
 	fmt.Fprintf(tw, "  surface temperature\t%s\t%s\n", fmtUnit(t.EquilibriumK, "K"), fmtUnit(t.EquilibriumNightK, "K"))
 	tw.Flush()
 	fmt.Fprintf(w, "  At ambient the surface radiates %s, absorbs %s from the sky and %s of sunlight.\n",
@@ -165,7 +167,7 @@ func printCooling(w io.Writer, f *datasheet.Figures) {
 	if len(f.Sensitivity) > 0 {
 		fmt.Fprintln(w, "\nSensitivity (change of the figures when one condition changes):")
 		tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-		fmt.Fprintln(tw, "  change\tpower, sun\tpower, night\tbelow ambient, sun\tbelow ambient, night")
+		fmt.Fprintln(tw, "  change\tpower, sun\tpower, night\tbelow ambient, sun\tbelow ambient, night\t")
 		for _, r := range f.Sensitivity {
 			name := r.Parameter
 			switch r.Parameter {
@@ -174,9 +176,9 @@ func printCooling(w io.Writer, f *datasheet.Figures) {
 			case "dew_point_c":
 				name = "dew point"
 			}
-			fmt.Fprintf(tw, "  %s %+g %s\t%s\t%s\t%s\t%s\n", name, r.Change, r.Unit,
+			fmt.Fprintf(tw, "  %s %+g %s\t%s\t%s\t%s\t%s\t%s\n", name, r.Change, r.Unit,
 				fmtSigned(r.DeltaDayWm2, "W/m²"), fmtSigned(r.DeltaNightWm2, "W/m²"),
-				fmtSigned(r.DeltaEquilibriumDayK, "K"), fmtSigned(r.DeltaEquilibriumNightK, "K"))
+				fmtSigned(r.DeltaEquilibriumDayK, "K"), fmtSigned(r.DeltaEquilibriumNightK, "K"), r.Note)
 		}
 		tw.Flush()
 	}
@@ -215,6 +217,17 @@ func fmtUnit(v datasheet.Num, unit string) string {
 		return "n/a"
 	}
 	return fmt.Sprintf("%.1f %s", float64(v), unit)
+}
+
+// fmtDepression says T_amb − T_eq in words.
+func fmtDepression(v datasheet.Num) string {
+	switch d := float64(v); {
+	case math.IsNaN(d):
+		return "n/a"
+	case d < 0:
+		return fmt.Sprintf("%.1f K above ambient", -d)
+	}
+	return fmt.Sprintf("%.1f K below ambient", float64(v))
 }
 
 func fmtSigned(v datasheet.Num, unit string) string {
