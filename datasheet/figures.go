@@ -232,7 +232,7 @@ func Compute(s *spectra.Spectrum, c Conditions) (*Figures, error) {
 		return out
 	}
 	addUncertainty(f, s, o, grads, c.ClosureTol, eval)
-	f.Cautions = Cautions
+	f.Cautions = append([]string(nil), Cautions...)
 	return f, nil
 }
 
