@@ -37,6 +37,7 @@ func TestParseBadInput(t *testing.T) {
 		{"bad utf8", "wavelength_nm,R\n400,0.5\xff\n", ErrEncoding, ""},
 		{"bad metadata u", "# u_R: lots\nwavelength_nm,R\n400,0.5\n500,0.5\n", ErrBadMetadata, ""},
 		{"empty axis", "wavelength_nm,R\n400,0.5\n,0.5\n", ErrEmptyAxisValue, ""},
+		{"quotes only header", "\" \n400,0.5\n", ErrUnknownUnit, ""},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			_, err := Parse(strings.NewReader(tt.in), "w.csv")

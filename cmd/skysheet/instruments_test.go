@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"encoding/json"
 	"math"
 	"os"
@@ -14,12 +13,6 @@ import (
 )
 
 // runCLI runs one command line and returns its exit status and output.
-func runCLI(args ...string) (int, string, string) {
-	var out, errb bytes.Buffer
-	code := run(&env{stdout: &out, stderr: &errb, stdin: strings.NewReader("")}, args)
-	return code, out.String(), errb.String()
-}
-
 var demo = func(name string) string { return filepath.Join("..", "..", "testdata", "jcamp", name) }
 
 func figuresJSON(t *testing.T, args ...string) *datasheet.Figures {

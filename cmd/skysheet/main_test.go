@@ -37,9 +37,7 @@ func TestExitCodes(t *testing.T) {
 }
 
 func TestBadDataMessage(t *testing.T) {
-	dir := t.TempDir()
-	name := dir + "/white.csv"
-	writeFile(t, name, "wavelength_nm;R\n400;0,5\n500;0,9x\n")
+	name := writeFile(t, "white.csv", "wavelength_nm;R\n400;0,5\n500;0,9x\n")
 	code, _, errs := runCLI("figures", name)
 	if code != 1 {
 		t.Errorf("exit %d, want 1", code)
