@@ -13,6 +13,7 @@ import (
 	"net/url"
 	"os"
 	"path"
+	"path/filepath"
 	"regexp"
 	"sort"
 	"strings"
@@ -30,7 +31,8 @@ const chromiumPath = "/usr/bin/chromium"
 // serves it on 127.0.0.1 and drives headless Chromium through it: the index
 // loads without console errors, the table sorts and filters, a datasheet
 // shows its charts and figure table, every internal link resolves, and each
-// datasheet prints to at most two A4 pages.
+// datasheet prints to at most two A4 pages. With SKYSHEET_PRINT_DIR set, the
+// prints are kept there.
 func TestBrowser(t *testing.T) {
 	if _, err := os.Stat(chromiumPath); err != nil {
 		if os.Getenv("CI") != "" {
@@ -343,9 +345,36 @@ func testDatasheet(t *testing.T, ctx context.Context, base string, con *consoleL
 	}
 }
 
-// linkAttr finds the tag, attribute and value of href and src attributes in
-// generated HTML (html/template always double-quotes attribute values).
-var linkAttr = regexp.MustCompile(`<([a-zA-Z]+)\b[^>]*?\s(href|src)\s*=\s*"([^"]*)"`)
+// linkAttr finds the tag name, the whole tag and the value of href and src
+// attributes in generated HTML (html/template always double-quotes
+// attribute values).
+var linkAttr = regexp.MustCompile(`<([a-zA-Z]+)\b([^>]*?\s(?:href|src)\s*=\s*"([^"]*)"[^>]*)>`)
+
+// relAttr finds the rel attribute of a tag.
+var relAttr = regexp.MustCompile(`\srel\s*=\s*"([^"]*)"`)
+
+// loads tells whether a tag with an external URL makes the browser fetch it:
+// scripts, images and frames do; a <link> does for a stylesheet, icon,
+// preload or manifest, but not as a canonical or alternate address.
+func loads(tag, attrs string) bool {
+	switch tag {
+	case "a", "area":
+		return false
+	case "link":
+		m := relAttr.FindStringSubmatch(attrs)
+		if m == nil {
+			return true
+		}
+		for _, rel := range strings.Fields(strings.ToLower(m[1])) {
+			switch rel {
+			case "stylesheet", "icon", "preload", "prefetch", "modulepreload", "manifest", "apple-touch-icon":
+				return true
+			}
+		}
+		return false
+	}
+	return true
+}
 
 // cssURL finds url(...) references in a stylesheet.
 var cssURL = regexp.MustCompile(`url\(\s*['"]?([^'")]+)['"]?\s*\)`)
@@ -385,16 +414,16 @@ func testLinks(t *testing.T, srv *httptest.Server) {
 		if d.status != http.StatusOK {
 			continue // reported where it was linked from
 		}
-		type ref struct{ tag, val string }
+		type ref struct{ tag, attrs, val string }
 		var refs []ref
 		switch {
 		case strings.HasPrefix(d.ctype, "text/html"):
 			for _, m := range linkAttr.FindAllSubmatch(d.body, -1) {
-				refs = append(refs, ref{strings.ToLower(string(m[1])), html.UnescapeString(string(m[3]))})
+				refs = append(refs, ref{strings.ToLower(string(m[1])), string(m[2]), html.UnescapeString(string(m[3]))})
 			}
 		case strings.HasPrefix(d.ctype, "text/css"):
 			for _, m := range cssURL.FindAllSubmatch(d.body, -1) {
-				refs = append(refs, ref{"css", string(m[1])})
+				refs = append(refs, ref{"css", "", string(m[1])})
 			}
 		}
 		for _, r := range refs {
@@ -409,7 +438,7 @@ func testLinks(t *testing.T, srv *httptest.Server) {
 			}
 			if u.Scheme != "" || u.Host != "" {
 				// the site must work offline: it may link out, but load nothing from outside
-				if r.tag != "a" && u.Scheme != "mailto" {
+				if loads(r.tag, r.attrs) {
 					t.Errorf("%s: <%s> loads an external resource %q", page.Path, r.tag, ref)
 				}
 				continue
@@ -483,6 +512,12 @@ func testPrint(t *testing.T, ctx context.Context, base string, slugs []string) {
 		pdf, err := chromedp.Run(ctx, chromedp.PrintToPDF(chromedp.PDFPaper(chromedp.PaperA4)))
 		if err != nil {
 			t.Fatalf("printing m/%s/: %v", slug, err)
+		}
+		if dir := os.Getenv("SKYSHEET_PRINT_DIR"); dir != "" {
+			// keep the prints to look at them (e.g. with pdftoppm)
+			if err := os.WriteFile(filepath.Join(dir, slug+".pdf"), pdf, 0o644); err != nil {
+				t.Error(err)
+			}
 		}
 		n := len(pageObject.FindAll(pdf, -1))
 		switch {
