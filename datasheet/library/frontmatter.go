@@ -31,20 +31,20 @@ type FrontMatter struct {
 
 // SpectrumRef names one spectra file of a material.
 type SpectrumRef struct {
-	File       string `yaml:"file"` // relative to the Markdown file, slash-separated
-	Role       string `yaml:"role"` // free text: solar, thermal, ...
-	Instrument string `yaml:"instrument"`
-	Notes      string `yaml:"notes"`
+	File       string `yaml:"file" json:"file,omitempty"` // relative to the Markdown file, slash-separated
+	Role       string `yaml:"role" json:"role,omitempty"` // free text: solar, thermal, ...
+	Instrument string `yaml:"instrument" json:"instrument,omitempty"`
+	Notes      string `yaml:"notes" json:"notes,omitempty"`
 }
 
 // Measured describes how a material was measured. All fields are free text.
 type Measured struct {
-	Date       string `yaml:"date"`
-	Instrument string `yaml:"instrument"`
-	Angle      string `yaml:"angle"`
-	Reference  string `yaml:"reference"` // reference standard
-	Operator   string `yaml:"operator"`
-	Notes      string `yaml:"notes"`
+	Date       string `yaml:"date" json:"date,omitempty"`
+	Instrument string `yaml:"instrument" json:"instrument,omitempty"`
+	Angle      string `yaml:"angle" json:"angle,omitempty"`
+	Reference  string `yaml:"reference" json:"reference,omitempty"` // reference standard
+	Operator   string `yaml:"operator" json:"operator,omitempty"`
+	Notes      string `yaml:"notes" json:"notes,omitempty"`
 }
 
 // comparisonKeys are the only keys a comparison page may set.
