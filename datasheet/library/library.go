@@ -246,7 +246,12 @@ func readFile(fsys fs.FS, file string, base datasheet.Conditions) fileResult {
 	}
 	fm, fl, d, err := parseFront(file, yamlText)
 	if err != nil {
-		r.err = err
+		// Known by its slug all the same, so that comparisons listing it
+		// do not report it missing on top of its own errors.
+		r.err, r.isCompare = err, len(fm.Compare) > 0
+		if r.slug = fm.Slug; r.slug == "" {
+			r.slug = Slugify(strings.TrimSuffix(path.Base(file), path.Ext(file)))
+		}
 		return r
 	}
 	var errs Errors
