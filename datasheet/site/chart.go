@@ -106,9 +106,15 @@ func (p plot) svg(ariaLabel string) (string, error) {
 	return strings.Replace(out, "<svg ", attrs, 1), nil
 }
 
+// defaultFont loads go-chart's font once: go-chart's own lazy loading is
+// not safe for charts rendered in parallel.
+var defaultFont = sync.OnceValues(chart.GetDefaultFont)
+
 // chart returns the go-chart description of the plot.
 func (p plot) chart() chart.Chart {
+	f, _ := defaultFont() // the font is embedded; a failure leaves nil and go-chart tries again
 	c := chart.Chart{
+		Font:       f,
 		Width:      p.width,
 		Height:     p.height,
 		Background: chart.Style{Padding: chart.Box{Top: 30, Left: 10, Right: 22, Bottom: 6 + p.legendHeight()}, FillColor: drawing.ColorWhite},
