@@ -318,4 +318,3 @@ func (s *server) buildID() string {
 	defer s.mu.RUnlock()
 	return s.id
 }
-
