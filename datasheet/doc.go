@@ -1,9 +1,15 @@
 // Package datasheet turns a measured [spectra.Spectrum] into figures of merit
 // under stated conditions: solar reflectance, transmittance and absorptance,
-// thermal and atmospheric-window emittance, and the closure check.
+// thermal and atmospheric-window emittance, the closure check, and the
+// cooling figures under a stated sky — net cooling power by day and by night,
+// the equilibrium temperature below ambient, the Solar Reflectance Index of
+// ASTM E1980 — with their standard uncertainties when the data give those of
+// R and T.
 //
-// Figures are fractions. Every figure records its band, weighting and the
-// share of the weighting its data cover, so that a reviewer can reproduce it
-// from the definitions in the README. The package writes no HTML: pages,
-// charts and the site live in sub-packages that consume [Figures].
+// Band figures are fractions; cooling powers are in W/m² and temperatures in
+// kelvin. Every figure records its band, weighting (for the cooling figures:
+// the sky, air, h and sun) and the share of the weighting its data cover, so
+// that a reviewer can reproduce it from the definitions in the README and in
+// docs/cooling.md. The package writes no HTML: pages, charts and the site
+// live in sub-packages that consume [Figures].
 package datasheet

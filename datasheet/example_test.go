@@ -15,3 +15,29 @@ func ExampleCompute() {
 	fmt.Printf("R_sol %.3f, ε %.3f\n", f.SolarReflectance, f.ThermalEmittance)
 	// Output: R_sol 0.950, ε 0.960
 }
+
+// The standard black and white surfaces of ASTM E1980 score 0 and 100.
+func ExampleSolarReflectanceIndex() {
+	for _, s := range []struct {
+		name       string
+		alpha, eps float64
+	}{{"black", 0.95, 0.90}, {"white", 0.20, 0.90}, {"bare metal", 0.35, 0.10}} {
+		fmt.Printf("%s: SRI %.1f\n", s.name, datasheet.SolarReflectanceIndex(s.alpha, s.eps, datasheet.WindMedium))
+	}
+	// Output:
+	// black: SRI 0.0
+	// white: SRI 100.0
+	// bare metal: SRI 49.4
+}
+
+// The default clear sky: dew point 10 °C seen from air at 300 K.
+func ExampleClearSky() {
+	k := datasheet.ClearSky(10, 300)
+	fmt.Printf("ε_sky %.4f, F_w %.4f, ε_w %.4f, hemisphere %.4f, clamped %v\n",
+		float64(k.Emissivity), float64(k.WindowFraction), float64(k.WindowEmissivity), float64(k.HemisphericalEmissivity), k.Clamped)
+	dry := datasheet.ClearSky(-20, 300)
+	fmt.Printf("dew point −20 °C: ε_w %.0f, clamped %v\n", float64(dry.WindowEmissivity), dry.Clamped)
+	// Output:
+	// ε_sky 0.7743, F_w 0.3222, ε_w 0.2994, hemisphere 0.8227, clamped false
+	// dew point −20 °C: ε_w 0, clamped true
+}

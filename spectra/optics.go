@@ -50,7 +50,8 @@ func (c Closure) OK() bool { return len(c.Problems) == 0 }
 //   - R = 1 − T − A where only T and A (or only A) are measured.
 //
 // Where R, T and A are all measured it checks |R+T+A−1| ≤ tol; everywhere it
-// checks R+T ≤ 1+tol and that no value is below −tol.
+// checks R+T ≤ 1+tol and that no value is below −tol. The spectrum's
+// processing notes come first among the assumptions.
 func Resolve(s *Spectrum, tol float64) Optics {
 	o := Optics{Closure: Closure{Tolerance: tol, Min: math.Inf(1), Excess: math.Inf(-1)}}
 	c := &o.Closure
@@ -133,6 +134,7 @@ func Resolve(s *Spectrum, tol float64) Optics {
 	o.Derived = [3]bool{!derivedR.empty(), !opaque.empty(), !derivedA.empty()}
 	lo, hi := s.Range()
 	whole := func(sp spans) bool { return sp.first == lo && sp.last == hi && !s.Has(T) }
+	o.Assumptions = append(o.Assumptions, s.Notes...)
 	switch {
 	case opaque.empty():
 	case whole(opaque):

@@ -257,7 +257,7 @@ func (p *parser) run(r io.Reader) error {
 	if (p.dir < 0) != (p.unit == axisWavenumber) {
 		p.reverse()
 	}
-	p.applyConstantUncertainty()
+	applyConstantUncertainty(p.s, &p.consts)
 	return nil
 }
 
@@ -271,19 +271,49 @@ func (p *parser) meta(s string) error {
 	if k == "" || strings.ContainsAny(k, " \t") && len(strings.Fields(k)) > 4 {
 		return nil
 	}
-	p.s.Meta = append(p.s.Meta, Field{Key: k, Value: v})
-	switch normKey(k) {
-	case "u_r", "u(r)":
-		return p.constU(UR, v)
-	case "u_t", "u(t)":
-		return p.constU(UT, v)
+	if err := addMeta(p.s, &p.consts, k, v); err != nil {
+		return p.errf(0, err)
 	}
 	return nil
 }
 
+// addMeta records the metadata field k: v in s, giving their meaning to the
+// keys that have one: u_R and u_T (a constant standard uncertainty, stored in
+// consts and kept as metadata), "processing note" (appended to s.Notes) and
+// "splice" (a [SpliceRecord] in JSON, appended to s.Splices). Readers of
+// every format share it, so that [Write] and [Parse] round-trip all of them.
+func addMeta(s *Spectrum, consts *[numQuantities]float64, k, v string) error {
+	switch normKey(k) {
+	case normKey(noteKey):
+		s.Notes = append(s.Notes, v)
+		return nil
+	case spliceKey:
+		r, err := decodeSpliceRecord(v)
+		if err != nil {
+			return fmt.Errorf("%w: splice: %v", ErrBadMetadata, err)
+		}
+		s.Splices = append(s.Splices, r)
+		return nil
+	}
+	s.Meta = append(s.Meta, Field{Key: k, Value: v})
+	switch normKey(k) {
+	case "u_r", "u(r)":
+		return constU(consts, UR, v)
+	case "u_t", "u(t)":
+		return constU(consts, UT, v)
+	}
+	return nil
+}
+
+// Metadata keys with a meaning of their own (see [addMeta]).
+const (
+	noteKey   = "processing note"
+	spliceKey = "splice"
+)
+
 // constU reads a constant standard uncertainty from metadata: a fraction, or
 // a number followed by "%".
-func (p *parser) constU(q Quantity, v string) error {
+func constU(consts *[numQuantities]float64, q Quantity, v string) error {
 	s := strings.TrimSpace(v)
 	scale := 1.0
 	if strings.HasSuffix(s, "%") {
@@ -291,9 +321,9 @@ func (p *parser) constU(q Quantity, v string) error {
 	}
 	x, err := strconv.ParseFloat(s, 64)
 	if err != nil || math.IsNaN(x) || math.IsInf(x, 0) || x < 0 || x*scale > 1 {
-		return p.errf(0, fmt.Errorf("%w: %s: %q: want a standard uncertainty such as 0.005 or 0.5 %%", ErrBadMetadata, q, v))
+		return fmt.Errorf("%w: %s: %q: want a standard uncertainty such as 0.005 or 0.5 %%", ErrBadMetadata, q, v)
 	}
-	p.consts[q] = x * scale
+	consts[q] = x * scale
 	return nil
 }
 
@@ -512,23 +542,26 @@ func flip(v []float64) {
 	}
 }
 
-func (p *parser) applyConstantUncertainty() {
+// applyConstantUncertainty fills the u_R and u_T columns from constant
+// uncertainties given in metadata, in segments that have R (or T) but no
+// per-point uncertainty.
+func applyConstantUncertainty(s *Spectrum, consts *[numQuantities]float64) {
 	for _, q := range []Quantity{UR, UT} {
-		if math.IsNaN(p.consts[q]) {
+		if math.IsNaN(consts[q]) {
 			continue
 		}
 		base := R
 		if q == UT {
 			base = T
 		}
-		for i := range p.s.Segments {
-			g := &p.s.Segments[i]
+		for i := range s.Segments {
+			g := &s.Segments[i]
 			if g.Values[q] != nil || g.Values[base] == nil {
 				continue
 			}
 			u := make([]float64, len(g.NM))
 			for j := range u {
-				u[j] = p.consts[q]
+				u[j] = consts[q]
 			}
 			g.Values[q] = u
 		}

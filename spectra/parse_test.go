@@ -37,6 +37,7 @@ func TestParseBadInput(t *testing.T) {
 		{"bad utf8", "wavelength_nm,R\n400,0.5\xff\n", ErrEncoding, ""},
 		{"bad metadata u", "# u_R: lots\nwavelength_nm,R\n400,0.5\n500,0.5\n", ErrBadMetadata, ""},
 		{"empty axis", "wavelength_nm,R\n400,0.5\n,0.5\n", ErrEmptyAxisValue, ""},
+		{"quotes only header", "\" \n400,0.5\n", ErrUnknownUnit, ""},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			_, err := Parse(strings.NewReader(tt.in), "w.csv")
@@ -157,6 +158,14 @@ func checkRoundTrip(t *testing.T, s *Spectrum) {
 	}
 	if len(s.Meta) != len(s2.Meta) {
 		t.Errorf("metadata: %d fields, re-read %d", len(s.Meta), len(s2.Meta))
+	}
+	if len(s.Notes) != len(s2.Notes) || len(s.Splices) != len(s2.Splices) {
+		t.Errorf("notes and splices: %d and %d, re-read %d and %d", len(s.Notes), len(s.Splices), len(s2.Notes), len(s2.Splices))
+	}
+	for i := range s.Splices {
+		if i < len(s2.Splices) && s.Splices[i] != s2.Splices[i] {
+			t.Errorf("splice %d: %+v, re-read %+v", i, s.Splices[i], s2.Splices[i])
+		}
 	}
 }
 

@@ -78,6 +78,13 @@ type Spectrum struct {
 	Meta     []Field
 	Sources  []string
 	Segments []Segment
+	// Notes are processing notes, one sentence each (an absorbance
+	// conversion, a splice, a reference correction); [Resolve] reports them
+	// among the assumptions.
+	Notes []string
+	// Splices records every junction where two instruments' data were
+	// spliced (see [Splice]).
+	Splices []SpliceRecord
 }
 
 // Get returns the first metadata value for key (compared without case) and
@@ -146,8 +153,9 @@ func (s *Spectrum) Series(q Quantity) Series {
 // Merge joins spectra of one sample measured over different ranges (say a
 // UV-Vis-NIR file and an FTIR file) into one. Ranges that touch (share an end
 // wavelength) are joined into one segment; ranges with a gap stay separate
-// segments. Overlapping ranges are an error wrapping [ErrOverlap]. Metadata of
-// later spectra is appended after that of earlier ones.
+// segments. Overlapping ranges are an error wrapping [ErrOverlap] (see [Join]
+// to splice them instead). Metadata, notes and splice records of later
+// spectra are appended after those of earlier ones.
 func Merge(parts ...*Spectrum) (*Spectrum, error) {
 	if len(parts) == 0 {
 		return nil, fmt.Errorf("spectra: merge: %w", ErrNoData)
@@ -161,6 +169,8 @@ func Merge(parts ...*Spectrum) (*Spectrum, error) {
 		segs = append(segs, p.Segments...)
 		out.Meta = append(out.Meta, p.Meta...)
 		out.Sources = append(out.Sources, p.Sources...)
+		out.Notes = append(out.Notes, p.Notes...)
+		out.Splices = append(out.Splices, p.Splices...)
 	}
 	sort.SliceStable(segs, func(i, j int) bool { return segs[i].NM[0] < segs[j].NM[0] })
 	for i, g := range segs {

@@ -7,20 +7,11 @@ import (
 	"testing"
 )
 
-func mustParse(t *testing.T, in, name string) *Spectrum {
-	t.Helper()
-	s, err := Parse(strings.NewReader(in), name)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return s
-}
-
 func TestMerge(t *testing.T) {
-	uv := mustParse(t, "wavelength_nm,R,T\n300,0.5,0.1\n2500,0.9,0.0\n", "uv.csv")
-	ir := mustParse(t, "wavelength_um,R\n2.5,0.1\n25,0.05\n", "ir.csv")
-	gap := mustParse(t, "wavelength_um,R\n3,0.1\n25,0.05\n", "gap.csv")
-	over := mustParse(t, "wavelength_um,R\n2.4,0.1\n25,0.05\n", "over.csv")
+	uv := mustParse(t, "uv.csv", "wavelength_nm,R,T\n300,0.5,0.1\n2500,0.9,0.0\n")
+	ir := mustParse(t, "ir.csv", "wavelength_um,R\n2.5,0.1\n25,0.05\n")
+	gap := mustParse(t, "gap.csv", "wavelength_um,R\n3,0.1\n25,0.05\n")
+	over := mustParse(t, "over.csv", "wavelength_um,R\n2.4,0.1\n25,0.05\n")
 
 	s, err := Merge(ir, uv) // order of arguments does not matter
 	if err != nil {
@@ -70,7 +61,7 @@ func TestResolve(t *testing.T) {
 		{"within tolerance", "wavelength_nm,R,T,A\n400,0.5,0.2,0.31\n500,0.6,0.2,0.2\n", 400, 0.5, 0.2, 0.31, "Kirchhoff", true},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
-			o := Resolve(mustParse(t, tt.in, "x"), 0.02)
+			o := Resolve(mustParse(t, "x", tt.in), 0.02)
 			for _, c := range []struct {
 				s    Series
 				want float64

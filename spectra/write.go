@@ -9,7 +9,8 @@ import (
 )
 
 // Write writes s in the neutral column format: metadata as "# key: value"
-// lines, a header "wavelength_nm,R,..." naming the quantities present, one
+// lines, then each processing note as "# processing note: ..." and each
+// splice record as "# splice: {JSON}", a header "wavelength_nm,R,..." naming the quantities present, one
 // row per wavelength with empty cells where a quantity was not measured, and
 // a blank line between segments. Numbers use the shortest form that reads
 // back to the same float64, so [Parse] returns an equal spectrum.
@@ -22,6 +23,16 @@ func Write(w io.Writer, s *Spectrum) error {
 			continue
 		}
 		bw.WriteString("# " + k + ": " + clean.Replace(f.Value) + "\n")
+	}
+	for _, n := range s.Notes {
+		bw.WriteString("# " + noteKey + ": " + clean.Replace(n) + "\n")
+	}
+	for _, r := range s.Splices {
+		j, err := r.MarshalJSON()
+		if err != nil {
+			return err
+		}
+		bw.WriteString("# " + spliceKey + ": " + string(j) + "\n")
 	}
 	var qs []Quantity
 	for _, q := range Quantities {

@@ -3,10 +3,12 @@ package main
 import (
 	"flag"
 	"fmt"
+	"os"
 	"strconv"
 	"strings"
 
 	"skysheet/datasheet"
+	"skysheet/spectra"
 )
 
 // bandFlag is a flag holding a band "LO,HI" (also "LO-HI" or "LO:HI").
@@ -53,4 +55,32 @@ func conditionFlags(fs *flag.FlagSet, c *datasheet.Conditions) {
 	fs.Var(bandFlag{&c.WindowBandUM}, "window-band", "atmospheric-window band in µm, LO,HI")
 	fs.Float64Var(&c.TemperatureK, "temperature", c.TemperatureK, "blackbody temperature for thermal weighting, K")
 	fs.Float64Var(&c.ClosureTol, "closure-tol", c.ClosureTol, "tolerance on |R+T+A-1|, R+T>1 and negative values")
+	fs.Float64Var(&c.AmbientK, "ambient", c.AmbientK, "air temperature for cooling, K")
+	fs.Float64Var(&c.DewPointC, "dew-point", c.DewPointC, "dew point of the clear sky, °C")
+	fs.Float64Var(&c.IrradianceWm2, "irradiance", c.IrradianceWm2, "solar irradiance for cooling with sun, W/m²")
+	fs.Float64Var(&c.HWm2K, "h", c.HWm2K, "non-radiative heat-transfer coefficient, W m⁻² K⁻¹ (a number; -h alone shows this help)")
+	fs.Var(bandFlag{&c.ExchangeBandUM}, "exchange-band", "thermal exchange band of the cooling integrals in µm, LO,HI")
+	fs.StringVar(&c.Sky, "sky", c.Sky, "spectral sky file with a T column (zenith atmospheric transmittance); default: the clear two-band sky")
+}
+
+// loadSky reads the spectral sky file named by c.Sky, if any, into
+// c.SkySpectrum. Verbs that use conditionFlags call it after parsing.
+func loadSky(c *datasheet.Conditions) error {
+	if c.Sky == "" || c.Sky == datasheet.SkyClear {
+		c.SkySpectrum = nil
+		return nil
+	}
+	data, err := os.ReadFile(c.Sky)
+	if err != nil {
+		return fmt.Errorf("sky: %w", err)
+	}
+	s, err := spectra.Decode(data, c.Sky)
+	if err != nil {
+		return err
+	}
+	if _, err := datasheet.SpectralSky(s, c.Sky, c.AmbientK); err != nil {
+		return err
+	}
+	c.SkySpectrum = s
+	return nil
 }

@@ -5,7 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
+	"strconv"
 	"strings"
 	"text/tabwriter"
 
@@ -27,6 +27,9 @@ func runFigures(e *env, args []string) error {
 	fs := newFlags(e, commands["figures"])
 	conditionFlags(fs, &c)
 	asJSON := fs.Bool("json", false, "print one JSON object instead of a table")
+	var so sampleOptions
+	sampleFlags(fs, "splice-", &so)
+	save := fs.String("save-spectrum", "", "also write the joined, corrected spectrum to this file in the neutral format")
 	files, err := parseFlags(fs, args)
 	if err != nil {
 		return err
@@ -34,12 +37,29 @@ func runFigures(e *env, args []string) error {
 	if len(files) == 0 {
 		return usagef("no spectrum files given")
 	}
+	// Bad conditions are bad usage; a bad sky file is bad data.
+	plain := c
+	plain.Sky, plain.SkySpectrum = datasheet.SkyClear, nil
+	if err := plain.Validate(); err != nil {
+		return usagef("%v", err)
+	}
+	if err := loadSky(&c); err != nil {
+		return err
+	}
 	if err := c.Validate(); err != nil {
 		return usagef("%v", err)
 	}
-	s, err := readSample(files)
+	if err := so.validate(); err != nil {
+		return err
+	}
+	s, err := readSampleWith(files, so)
 	if err != nil {
 		return err
+	}
+	if *save != "" {
+		if err := writeSpectrumFile(e.stdout, *save, s); err != nil {
+			return err
+		}
 	}
 	f, err := datasheet.Compute(s, c)
 	if err != nil {
@@ -54,30 +74,38 @@ func runFigures(e *env, args []string) error {
 	return nil
 }
 
-// readSample reads and merges the spectrum files of one sample.
+// readSample reads the spectrum files of one sample and joins them with
+// the default options: each file corrected against the reference standard
+// it names, overlapping files spliced (see readSampleWith).
 func readSample(files []string) (*spectra.Spectrum, error) {
-	parts := make([]*spectra.Spectrum, 0, len(files))
-	for _, name := range files {
-		data, err := os.ReadFile(name)
-		if err != nil {
-			return nil, err
-		}
-		s, err := spectra.Decode(data, name)
-		if err != nil {
-			return nil, err
-		}
-		parts = append(parts, s)
-	}
-	return spectra.Merge(parts...)
+	var o sampleOptions
+	o.splice.Tolerance = spectra.DefaultSpliceTol
+	return readSampleWith(files, o)
 }
 
 // printFigures writes the human-readable report.
 func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	fmt.Fprintf(w, "Sample: %s\n\n", strings.Join(files, " + "))
-	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "Figure\tValue\tBand\tWeighting\tCoverage")
+	withU := false
 	for _, x := range f.Figures {
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", x.Label, fmtValue(x.Value, x.Unit), fmtBand(x.Band, x.BandUnit), x.Weighting, fmtPercent(x.Coverage))
+		withU = withU || x.Uncertainty != nil
+	}
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	if withU {
+		fmt.Fprintln(tw, "Figure\tValue\tu indep.\tu together\tu known for\tBand\tWeighting\tCoverage")
+	} else {
+		fmt.Fprintln(tw, "Figure\tValue\tBand\tWeighting\tCoverage")
+	}
+	for _, x := range f.Figures {
+		fmt.Fprintf(tw, "%s\t%s\t", x.Label, fmtFigure(x, x.Value))
+		if withU {
+			if u := x.Uncertainty; u != nil {
+				fmt.Fprintf(tw, "±%s\t±%s\t%s\t", fmtUncertainty(x, u.Uncorrelated), fmtUncertainty(x, u.Correlated), fmtPercent(u.Reach))
+			} else {
+				fmt.Fprint(tw, "\t\t\t")
+			}
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\n", fmtBand(x.Band, x.BandUnit), x.Weighting, fmtPercent(x.Coverage))
 	}
 	tw.Flush()
 	cl := f.Closure
@@ -93,15 +121,138 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	default:
 		fmt.Fprintf(w, "Closure: R, T and A were not all measured; R+T ≤ 1 and no negative values, tolerance %g\n", cl.Tolerance)
 	}
+	printSplices(w, f.Splices)
+	printCooling(w, f)
 	fmt.Fprintln(w, "\nAssumptions:")
 	for _, a := range f.Assumptions {
-		fmt.Fprintf(w, "  - %s\n", a)
+		if a != "Sky: "+f.Sky.Description { // printed above
+			fmt.Fprintf(w, "  - %s\n", a)
+		}
 	}
 	c := f.Conditions
 	fmt.Fprintln(w, "\nConditions:")
 	fmt.Fprintf(w, "  solar band %g–%g nm, ASTM G173-03 %s spectrum\n", c.SolarBandNM[0], c.SolarBandNM[1], c.SolarSpectrum)
 	fmt.Fprintf(w, "  thermal band %g–%g µm, window band %g–%g µm, blackbody at %g K\n", c.ThermalBandUM[0], c.ThermalBandUM[1], c.WindowBandUM[0], c.WindowBandUM[1], c.TemperatureK)
 	fmt.Fprintf(w, "  closure tolerance %g\n", c.ClosureTol)
+	sky := c.Sky
+	if sky == "" {
+		sky = datasheet.SkyClear
+	}
+	fmt.Fprintf(w, "  cooling: air %g K, dew point %g °C, sun %g W/m², h %g W m⁻² K⁻¹, exchange band %g–%g µm, sky %s\n",
+		c.AmbientK, c.DewPointC, c.IrradianceWm2, c.HWm2K, c.ExchangeBandUM[0], c.ExchangeBandUM[1], sky)
+	if len(f.Cautions) > 0 {
+		fmt.Fprintln(w, "\nCautions:")
+		for _, x := range f.Cautions {
+			fmt.Fprintf(w, "  - %s\n", x)
+		}
+	}
+}
+
+// printCooling writes the sky, the cooling figures, the SRI and the
+// sensitivity table in words.
+func printCooling(w io.Writer, f *datasheet.Figures) {
+	c := f.Conditions
+	fmt.Fprintf(w, "\nSky: %s\n", f.Sky.Description)
+	fmt.Fprintf(w, "\nCooling of a horizontal surface, air at %g K, h %g W m⁻² K⁻¹, sun %g W/m²:\n", c.AmbientK, c.HWm2K, c.IrradianceWm2)
+	t := f.CoolingTerms
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "  \twith sun\tat night")
+	fmt.Fprintf(tw, "  net cooling power at ambient\t%s\t%s\n", fmtUnit(f.CoolingPowerWm2, "W/m²"), fmtUnit(f.CoolingPowerNightWm2, "W/m²"))
+	fmt.Fprintf(tw, "  settles at\t%s\t%s\n", fmtDepression(f.EquilibriumDeltaK), fmtDepression(f.EquilibriumDeltaNightK))
+	fmt.Fprintf(tw, "  surface temperature\t%s\t%s\n", fmtUnit(t.EquilibriumK, "K"), fmtUnit(t.EquilibriumNightK, "K"))
+	tw.Flush()
+	fmt.Fprintf(w, "  At ambient the surface radiates %s, absorbs %s from the sky and %s of sunlight.\n",
+		fmtUnit(t.RadiatedWm2, "W/m²"), fmtUnit(t.AtmosphericWm2, "W/m²"), fmtUnit(t.SolarWm2, "W/m²"))
+	if len(t.HeldBandsUM) > 0 {
+		fmt.Fprintf(w, "  Emittance held constant beyond the data over %s: %s of blackbody power (%s of the band).\n",
+			fmtBands(t.HeldBandsUM), fmtUnit(f.HeldPowerWm2, "W/m²"), fmtPercent(t.HeldShare))
+	}
+	if len(f.Sensitivity) > 0 {
+		fmt.Fprintln(w, "\nSensitivity (change of the figures when one condition changes):")
+		tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+		fmt.Fprintln(tw, "  change\tpower, sun\tpower, night\tbelow ambient, sun\tbelow ambient, night\t")
+		for _, r := range f.Sensitivity {
+			name := r.Parameter
+			switch r.Parameter {
+			case "h_w_m2k":
+				name = "h"
+			case "dew_point_c":
+				name = "dew point"
+			}
+			fmt.Fprintf(tw, "  %s %+g %s\t%s\t%s\t%s\t%s\t%s\n", name, r.Change, r.Unit,
+				fmtSigned(r.DeltaDayWm2, "W/m²"), fmtSigned(r.DeltaNightWm2, "W/m²"),
+				fmtSigned(r.DeltaEquilibriumDayK, "K"), fmtSigned(r.DeltaEquilibriumNightK, "K"), r.Note)
+		}
+		tw.Flush()
+	}
+	s := f.SRI
+	fmt.Fprintf(w, "\nSolar Reflectance Index (ASTM E1980, solar absorptance %s, thermal emittance %s): low wind %s, medium %s, high %s\n",
+		fmtFixed(s.SolarAbsorptance, 4), fmtFixed(s.ThermalEmittance, 4), fmtFixed(s.Low, 1), fmtFixed(s.Medium, 1), fmtFixed(s.High, 1))
+	if s.Translucent {
+		fmt.Fprintln(w, "  NOT APPLICABLE AS IS: solar transmittance above 0.01.")
+	}
+	fmt.Fprintf(w, "  %s\n", s.Note)
+}
+
+// fmtFigure formats a value in the figure's unit.
+func fmtFigure(x datasheet.Figure, v datasheet.Num) string {
+	if strings.HasPrefix(x.Key, "sri_") {
+		return fmtFixed(v, 1)
+	}
+	return fmtValue(v, x.Unit)
+}
+
+// fmtUncertainty formats an uncertainty one digit finer than the value.
+func fmtUncertainty(x datasheet.Figure, v datasheet.Num) string {
+	switch {
+	case math.IsNaN(float64(v)):
+		return "n/a"
+	case x.Unit == "" && !strings.HasPrefix(x.Key, "sri_"):
+		return fmt.Sprintf("%.4f", float64(v))
+	case x.Unit == "":
+		return fmt.Sprintf("%.2f", float64(v))
+	}
+	return fmt.Sprintf("%.2f %s", float64(v), x.Unit)
+}
+
+func fmtUnit(v datasheet.Num, unit string) string {
+	if math.IsNaN(float64(v)) {
+		return "n/a"
+	}
+	return fmt.Sprintf("%.1f %s", float64(v), unit)
+}
+
+// fmtDepression says T_amb − T_eq in words.
+func fmtDepression(v datasheet.Num) string {
+	switch d := float64(v); {
+	case math.IsNaN(d):
+		return "n/a"
+	case d < 0:
+		return fmt.Sprintf("%.1f K above ambient", -d)
+	}
+	return fmt.Sprintf("%.1f K below ambient", float64(v))
+}
+
+func fmtSigned(v datasheet.Num, unit string) string {
+	if math.IsNaN(float64(v)) {
+		return "n/a"
+	}
+	return fmt.Sprintf("%+.2f %s", float64(v), unit)
+}
+
+func fmtFixed(v datasheet.Num, digits int) string {
+	if math.IsNaN(float64(v)) {
+		return "n/a"
+	}
+	return strconv.FormatFloat(float64(v), 'f', digits, 64)
+}
+
+func fmtBands(b [][2]float64) string {
+	parts := make([]string, len(b))
+	for i, x := range b {
+		parts[i] = fmt.Sprintf("%g–%g µm", x[0], x[1])
+	}
+	return strings.Join(parts, ", ")
 }
 
 func fmtValue(v datasheet.Num, unit string) string {

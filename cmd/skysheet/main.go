@@ -15,6 +15,7 @@ import (
 	"io"
 	"os"
 	"sort"
+	"strconv"
 )
 
 // command is one verb of the CLI. Each verb lives in its own file and
@@ -126,7 +127,28 @@ func newFlags(e *env, c *command) *flag.FlagSet {
 
 // parseFlags parses args, turning flag errors into usage errors. Flags may
 // come before or after the positional arguments.
+//
+// When the verb has a flag named "h" (the heat-transfer coefficient), "-h"
+// or "--h" not followed by a number still asks for help.
 func parseFlags(fs *flag.FlagSet, args []string) ([]string, error) {
+	if fs.Lookup("h") != nil {
+		for i, a := range args {
+			if a == "--" {
+				break
+			}
+			if a != "-h" && a != "--h" {
+				continue
+			}
+			if i+1 == len(args) {
+				fs.Usage()
+				return nil, flag.ErrHelp
+			}
+			if _, err := strconv.ParseFloat(args[i+1], 64); err != nil {
+				fs.Usage()
+				return nil, flag.ErrHelp
+			}
+		}
+	}
 	var pos []string
 	for {
 		if err := fs.Parse(args); err != nil {

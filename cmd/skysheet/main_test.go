@@ -1,17 +1,9 @@
 package main
 
 import (
-	"bytes"
 	"strings"
 	"testing"
 )
-
-// runCLI runs one command line in-process and returns exit status and output.
-func runCLI(args ...string) (int, string, string) {
-	var out, errb bytes.Buffer
-	code := run(&env{stdout: &out, stderr: &errb, stdin: strings.NewReader("")}, args)
-	return code, out.String(), errb.String()
-}
 
 func TestExitCodes(t *testing.T) {
 	for _, tt := range []struct {
@@ -45,9 +37,7 @@ func TestExitCodes(t *testing.T) {
 }
 
 func TestBadDataMessage(t *testing.T) {
-	dir := t.TempDir()
-	name := dir + "/white.csv"
-	writeFile(t, name, "wavelength_nm;R\n400;0,5\n500;0,9x\n")
+	name := writeFile(t, "white.csv", "wavelength_nm;R\n400;0,5\n500;0,9x\n")
 	code, _, errs := runCLI("figures", name)
 	if code != 1 {
 		t.Errorf("exit %d, want 1", code)

@@ -1,0 +1,168 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+var white = []string{"../../testdata/white-uvvis.csv", "../../testdata/white-ftir.tsv"}
+
+// runCLI runs one command line in-process.
+func runCLI(args ...string) (code int, stdout, stderr string) {
+	var out, errb bytes.Buffer
+	code = run(&env{stdout: &out, stderr: &errb, stdin: strings.NewReader("")}, args)
+	return code, out.String(), errb.String()
+}
+
+func figuresArgs(extra ...string) []string {
+	return append(append([]string{"figures"}, extra...), white...)
+}
+
+func writeFile(t *testing.T, name, content string) string {
+	t.Helper()
+	p := filepath.Join(t.TempDir(), name)
+	if err := os.WriteFile(p, []byte(content), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+const skyCSV = "# sample: invented sky transmittance (test data)\nwavelength_nm,T\n2500,0\n7900,0\n8000,0.7\n13000,0.7\n13100,0\n100000,0\n"
+
+func TestFiguresExitCodes(t *testing.T) {
+	bad := writeFile(t, "bad.csv", "wavelength_nm,R\n400,0.5\n500,abc\n")
+	sky := writeFile(t, "sky.csv", skyCSV)
+	noT := writeFile(t, "not.csv", "wavelength_nm,R\n8000,0.5\n9000,0.5\n")
+	for _, tt := range []struct {
+		name string
+		args []string
+		code int
+		out  string // expected in stdout or stderr
+	}{
+		{"table", figuresArgs(), 0, "Solar Reflectance Index"},
+		{"json", figuresArgs("--json"), 0, `"cooling_power_w_m2"`},
+		{"conditions", figuresArgs("--ambient", "305", "--dew-point", "5", "--irradiance", "800", "--h", "3", "--exchange-band", "3,50"), 0, "air 305 K"},
+		{"h with equals", figuresArgs("--h=2.5"), 0, "h 2.5 W"},
+		{"spectral sky", figuresArgs("--sky", sky), 0, "Spectral sky from"},
+		{"help", []string{"figures", "-h"}, 0, "-dew-point"},
+		{"help before files", figuresArgs("-h"), 0, "-exchange-band"},
+		{"help verb", []string{"help", "figures"}, 0, "-irradiance"},
+		{"no files", []string{"figures"}, 2, "no spectrum files"},
+		{"negative h", figuresArgs("--h", "-1"), 2, "heat-transfer coefficient"},
+		{"h not a number", figuresArgs("--h=abc"), 2, "invalid value"},
+		{"dew point above air", figuresArgs("--dew-point", "40"), 2, "dew point"},
+		{"ambient in celsius", figuresArgs("--ambient", "25"), 2, "kelvin"},
+		{"reversed band", figuresArgs("--exchange-band", "100,2.5"), 2, "LO < HI"},
+		{"unknown flag", figuresArgs("--sunshine", "3"), 2, "sunshine"},
+		{"bad data", []string{"figures", bad}, 1, "bad.csv:3"},
+		{"missing file", []string{"figures", "nothere.csv"}, 1, "nothere.csv"},
+		{"missing sky", figuresArgs("--sky", "nosky.csv"), 1, "nosky.csv"},
+		{"sky without T", figuresArgs("--sky", noT), 1, "T column"},
+		{"bad sky data", figuresArgs("--sky", bad), 1, "bad.csv:3"},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			code, out, errs := runCLI(tt.args...)
+			if code != tt.code {
+				t.Fatalf("exit %d, want %d\nstdout: %s\nstderr: %s", code, tt.code, out, errs)
+			}
+			if !strings.Contains(out+errs, tt.out) {
+				t.Errorf("output lacks %q\nstdout: %s\nstderr: %s", tt.out, out, errs)
+			}
+		})
+	}
+}
+
+func TestFiguresJSONKeys(t *testing.T) {
+	code, out, errs := runCLI(figuresArgs("--json", "--ambient", "302", "--dew-point", "-5", "--irradiance", "900", "--h", "4")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"cooling_power_w_m2", "cooling_power_night_w_m2", "equilibrium_delta_k", "equilibrium_delta_night_k",
+		"held_power_w_m2", "cooling_terms", "sensitivity", "cautions"} {
+		if _, ok := doc[k]; !ok {
+			t.Errorf("key %q missing", k)
+		}
+	}
+	for _, k := range []string{"cooling_power_w_m2", "cooling_power_night_w_m2", "equilibrium_delta_k", "equilibrium_delta_night_k"} {
+		if _, ok := doc[k].(float64); !ok {
+			t.Errorf("%s = %v, want a number", k, doc[k])
+		}
+	}
+	sub := func(key string, keys ...string) map[string]any {
+		m, ok := doc[key].(map[string]any)
+		if !ok {
+			t.Fatalf("%s is not an object: %v", key, doc[key])
+		}
+		for _, k := range keys {
+			if _, ok := m[k]; !ok {
+				t.Errorf("%s.%s missing", key, k)
+			}
+		}
+		return m
+	}
+	sub("sri", "low", "medium", "high", "note", "translucent")
+	sky := sub("sky", "model", "emissivity", "window_emissivity", "window_fraction", "clamped", "description")
+	if sky["model"] != "clear two-band" {
+		t.Errorf("sky model %v", sky["model"])
+	}
+	cond := sub("conditions", "ambient_k", "dew_point_c", "irradiance_w_m2", "h_w_m2k", "exchange_band_um", "sky")
+	for k, want := range map[string]float64{"ambient_k": 302, "dew_point_c": -5, "irradiance_w_m2": 900, "h_w_m2k": 4} {
+		if cond[k] != want {
+			t.Errorf("conditions.%s = %v, want %v", k, cond[k], want)
+		}
+	}
+	curve, ok := doc["cooling_curve"].([]any)
+	if !ok || len(curve) != 51 {
+		t.Fatalf("cooling_curve: %d points, want 51", len(curve))
+	}
+	p0 := curve[0].(map[string]any)
+	for _, k := range []string{"surface_k", "net_w_m2", "net_night_w_m2"} {
+		if _, ok := p0[k]; !ok {
+			t.Errorf("cooling_curve[0].%s missing", k)
+		}
+	}
+	keys := map[string]map[string]any{}
+	for _, x := range doc["figures"].([]any) {
+		m := x.(map[string]any)
+		keys[m["key"].(string)] = m
+	}
+	for _, k := range []string{"cooling_power_w_m2", "cooling_power_night_w_m2", "equilibrium_delta_k", "equilibrium_delta_night_k", "sri_low", "sri_medium", "sri_high"} {
+		if _, ok := keys[k]; !ok {
+			t.Errorf("figures list lacks %s", k)
+		}
+	}
+	if u, ok := keys["solar_reflectance"]["uncertainty"].(map[string]any); !ok || u["uncorrelated"] == nil || u["correlated"] == nil {
+		t.Errorf("solar_reflectance uncertainty: %v", keys["solar_reflectance"]["uncertainty"])
+	}
+	if w := keys["cooling_power_w_m2"]["weighting"].(string); !strings.Contains(w, "dew point -5 °C") {
+		t.Errorf("cooling power weighting does not state the sky: %q", w)
+	}
+}
+
+func TestFiguresHumanOutput(t *testing.T) {
+	code, out, errs := runCLI(figuresArgs("--dew-point", "-20")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, want := range []string{
+		"Sky: Clear sky, two-band model", "clamped", // the dry sky clamps, in words
+		"net cooling power at ambient", "K below ambient",
+		"Solar Reflectance Index", "opaque, horizontal or low-sloped",
+		"Sensitivity", "dew point +5 °C",
+		"u indep.", "u together", // the white data give u_R
+		"held constant", "Cautions:", "not a certification",
+		"cooling: air 300 K, dew point -20 °C, sun 1000 W/m², h 6 W m⁻² K⁻¹, exchange band 2.5–100 µm, sky clear two-band",
+	} {
+		if !strings.Contains(out, want) {
+			t.Errorf("human output lacks %q", want)
+		}
+	}
+}

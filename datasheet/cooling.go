@@ -1,0 +1,690 @@
+package datasheet
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"skysheet/spectra"
+)
+
+// CurvePoint is one point of the net cooling power against surface
+// temperature, with and without sun.
+type CurvePoint struct {
+	SurfaceK    float64 `json:"surface_k"`
+	NetWm2      Num     `json:"net_w_m2"`
+	NetNightWm2 Num     `json:"net_night_w_m2"`
+}
+
+// CoolingTerms are the parts of the net cooling power at T_s = T_amb and
+// what the held-constant extension of the data carries.
+type CoolingTerms struct {
+	RadiatedWm2       Num `json:"radiated_w_m2"`    // P_rad(T_amb)
+	AtmosphericWm2    Num `json:"atmospheric_w_m2"` // P_atm, absorbed from the sky
+	SolarWm2          Num `json:"solar_w_m2"`       // P_sun, absorbed sunlight
+	EquilibriumK      Num `json:"equilibrium_k"`    // T_eq with sun
+	EquilibriumNightK Num `json:"equilibrium_night_k"`
+	// HeldShare is the share of the exchange band's blackbody power at
+	// T_amb that falls where the emittance is held constant.
+	HeldShare Num `json:"held_share"`
+	// HeldEmittedWm2 is what the sample emits at T_amb over the held part.
+	HeldEmittedWm2 Num          `json:"held_emitted_w_m2"`
+	HeldBandsUM    [][2]float64 `json:"held_bands_um"`
+}
+
+// Sensitivity is one row of the sensitivity table: the change of the
+// cooling figures when one condition changes.
+type Sensitivity struct {
+	Parameter     string  `json:"parameter"` // a key of conditions, e.g. "h_w_m2k"
+	Change        float64 `json:"change"`    // in the parameter's unit
+	Unit          string  `json:"unit"`
+	DeltaDayWm2   Num     `json:"delta_day_w_m2"`
+	DeltaNightWm2 Num     `json:"delta_night_w_m2"`
+	// Changes of the equilibrium depressions T_amb − T_eq.
+	DeltaEquilibriumDayK   Num    `json:"delta_equilibrium_day_k"`
+	DeltaEquilibriumNightK Num    `json:"delta_equilibrium_night_k"`
+	Note                   string `json:"note,omitempty"`
+}
+
+// The curve runs from T_amb + curveFromK to T_amb + curveToK in 1 K steps.
+const (
+	curveFromK = -40
+	curveToK   = 10
+)
+
+// errNoRoot reports that P_net has no zero in the searched range.
+var errNoRoot = errors.New("no surface temperature balances the energy budget between 0.05 and 10 × ambient")
+
+// validateCooling checks the cooling conditions.
+func (c Conditions) validateCooling() error {
+	finite := func(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
+	if !(c.AmbientK >= 150 && c.AmbientK <= 400) {
+		return fmt.Errorf("ambient temperature %g K: want 150–400 K (kelvin, not °C)", c.AmbientK)
+	}
+	if !finite(c.DewPointC) || c.DewPointC < -80 {
+		return fmt.Errorf("dew point %g °C: want a temperature in °C above −80", c.DewPointC)
+	}
+	if c.DewPointC+273.15 > c.AmbientK+1e-9 {
+		return fmt.Errorf("dew point %g °C is above the air temperature %g K (%g °C): the dew point cannot exceed it",
+			c.DewPointC, c.AmbientK, c.AmbientK-273.15)
+	}
+	if !(c.IrradianceWm2 >= 0 && c.IrradianceWm2 <= 2000) {
+		return fmt.Errorf("irradiance %g W/m²: want 0–2000 W/m²", c.IrradianceWm2)
+	}
+	if !(c.HWm2K >= 0 && c.HWm2K <= 1000) {
+		return fmt.Errorf("heat-transfer coefficient h %g W m⁻² K⁻¹: want 0–1000", c.HWm2K)
+	}
+	if b := c.ExchangeBandUM; !(b[0] >= 0.1 && b[1] > b[0] && b[1] <= 1000) {
+		return fmt.Errorf("exchange band %g–%g µm: want 0.1 ≤ low < high ≤ 1000", b[0], b[1])
+	}
+	if !c.clearSky() {
+		if c.SkySpectrum == nil {
+			return fmt.Errorf("sky %q: the spectral sky file was not read (want %q or a file with a T column)", c.Sky, SkyClear)
+		}
+		if !c.SkySpectrum.Has(spectra.T) {
+			return fmt.Errorf("sky %s: %w: a spectral sky needs a T column (zenith atmospheric transmittance)", c.Sky, spectra.ErrNoValues)
+		}
+	}
+	return nil
+}
+
+// clearSky reports whether c asks for the clear two-band sky.
+func (c Conditions) clearSky() bool { return c.Sky == "" || c.Sky == SkyClear }
+
+// skyFor returns the sky of c.
+func skyFor(c Conditions) (Sky, error) {
+	if c.clearSky() {
+		return ClearSky(c.DewPointC, c.AmbientK), nil
+	}
+	return SpectralSky(c.SkySpectrum, c.Sky, c.AmbientK)
+}
+
+// lc is a value of a piece of a series, linear between two of its points:
+// (1−f)·V[j] + f·V[j+1]; f == 0 means V[j] alone.
+type lc struct {
+	p, j int
+	f    float64
+}
+
+func (l lc) eval(s spectra.Series) float64 {
+	v := s.Pieces[l.p].V
+	if l.f == 0 {
+		return v[l.j]
+	}
+	return (1-l.f)*v[l.j] + l.f*v[l.j+1]
+}
+
+// coolSpan is the interval [nodes[a], nodes[a+1]] of the cooling grid.
+type coolSpan struct {
+	a           int
+	left, right lc      // emittance at the two ends, seen from inside
+	skyL, skyR  float64 // hemispherical sky emissivity at the two ends
+	held        bool    // the emittance is held constant here
+}
+
+// coolGrid is the integration grid of the exchange band for one sample's
+// wavelengths, one sky and one air temperature. P_rad and P_atm are sums
+// over its spans by the trapezoid rule; the nodes are the band limits, the
+// data's points, the ends of the data and the middles of gaps between them
+// (where the held value switches), the sky's breakpoints and a geometric
+// reference grid. Planck's factors are precomputed per node.
+type coolGrid struct {
+	ambientK  float64
+	nodes     []float64 // nm
+	c1, x     []float64 // B(λ, T) = c1/expm1(x/T)
+	bAmb      []float64 // B(λ, T_amb), W m⁻² sr⁻¹ nm⁻¹
+	spans     []coolSpan
+	pieceLen  []int        // lengths of the emittance pieces the grid was built for
+	bbPower   float64      // π ∫ B(T_amb) over the band, W/m²
+	heldPower float64      // π ∫ B(T_amb) over the held part, W/m²
+	held      [][2]float64 // held ranges, nm
+}
+
+// newCoolGrid returns the grid for emittance series a, or nil when a does
+// not reach into the band at all.
+func newCoolGrid(a spectra.Series, sky Sky, bandUM [2]float64, ambientK float64) *coolGrid {
+	return newCoolGridStep(a, sky, bandUM, ambientK, referenceStep)
+}
+
+// newCoolGridStep is newCoolGrid with a given relative step of the
+// reference grid.
+func newCoolGridStep(a spectra.Series, sky Sky, bandUM [2]float64, ambientK, step float64) *coolGrid {
+	lo, hi := bandUM[0]*1000, bandUM[1]*1000
+	type cover struct {
+		p      int
+		lo, hi float64
+	}
+	var cov []cover
+	g := &coolGrid{ambientK: ambientK}
+	nodes := []float64{lo, hi}
+	for p, pc := range a.Pieces {
+		g.pieceLen = append(g.pieceLen, len(pc.NM))
+		x, y := math.Max(lo, pc.NM[0]), math.Min(hi, pc.NM[len(pc.NM)-1])
+		if !(y > x) {
+			continue
+		}
+		cov = append(cov, cover{p, x, y})
+		nodes = append(nodes, x, y)
+		for _, nm := range pc.NM {
+			if nm > lo && nm < hi {
+				nodes = append(nodes, nm)
+			}
+		}
+	}
+	if len(cov) == 0 {
+		return nil
+	}
+	for i := 1; i < len(cov); i++ {
+		nodes = append(nodes, (cov[i-1].hi+cov[i].lo)/2)
+	}
+	nodes = append(nodes, sky.skyBreaks(lo, hi)...)
+	nodes = append(nodes, geometricGrid(lo, hi, step)...)
+	g.nodes = sortUnique(nodes)
+	n := len(g.nodes)
+	g.c1, g.x, g.bAmb = make([]float64, n), make([]float64, n), make([]float64, n)
+	const h, c, k = spectra.PlanckConstant, spectra.SpeedOfLight, spectra.Boltzmann
+	for i, nm := range g.nodes {
+		l := nm * 1e-9
+		g.c1[i] = 2 * h * c * c / (l * l * l * l * l) * 1e-9
+		g.x[i] = h * c / (l * k)
+		g.bAmb[i] = g.c1[i] / math.Expm1(g.x[i]/ambientK)
+	}
+	at := func(p int, nm float64) lc {
+		v := a.Pieces[p].NM
+		j := sort.SearchFloat64s(v, nm)
+		if j < len(v) && v[j] == nm {
+			return lc{p: p, j: j}
+		}
+		return lc{p: p, j: j - 1, f: (nm - v[j-1]) / (v[j] - v[j-1])}
+	}
+	g.spans = make([]coolSpan, n-1)
+	for i := range g.spans {
+		x0, x1 := g.nodes[i], g.nodes[i+1]
+		m := (x0 + x1) / 2
+		sp := coolSpan{a: i}
+		inside := -1
+		for ci, cv := range cov {
+			if m > cv.lo && m < cv.hi {
+				inside = ci
+				break
+			}
+		}
+		if inside >= 0 {
+			sp.left, sp.right = at(cov[inside].p, x0), at(cov[inside].p, x1)
+		} else {
+			// Hold the nearest measured value.
+			best := math.Inf(1)
+			for _, cv := range cov {
+				if d := cv.lo - m; d > 0 && d < best {
+					best, sp.left = d, at(cv.p, cv.lo)
+				}
+				if d := m - cv.hi; d > 0 && d < best {
+					best, sp.left = d, at(cv.p, cv.hi)
+				}
+			}
+			sp.right, sp.held = sp.left, true
+			if k := len(g.held) - 1; k >= 0 && g.held[k][1] == x0 {
+				g.held[k][1] = x1
+			} else {
+				g.held = append(g.held, [2]float64{x0, x1})
+			}
+		}
+		g.spans[i] = sp
+		pw := math.Pi * (x1 - x0) / 2 * (g.bAmb[i] + g.bAmb[i+1])
+		g.bbPower += pw
+		if sp.held {
+			g.heldPower += pw
+		}
+	}
+	g.setSky(sky)
+	return g
+}
+
+// setSky sets the hemispherical sky emissivity at the ends of every span.
+// The grid's nodes must include the sky's breakpoints.
+func (g *coolGrid) setSky(sky Sky) {
+	hemi := map[float64]float64{}
+	hemiOf := func(e float64) float64 {
+		v, ok := hemi[e]
+		if !ok {
+			v = hemispherical(e)
+			hemi[e] = v
+		}
+		return v
+	}
+	for i := range g.spans {
+		sp := &g.spans[i]
+		ea, eb := sky.zenithOn(g.nodes[sp.a], g.nodes[sp.a+1])
+		sp.skyL, sp.skyR = hemiOf(ea), hemiOf(eb)
+	}
+}
+
+// withSky returns a copy of g under another clear sky (whose breakpoints,
+// the window edges, are already nodes of g).
+func (g *coolGrid) withSky(sky Sky) *coolGrid {
+	h := *g
+	h.spans = append([]coolSpan(nil), g.spans...)
+	h.setSky(sky)
+	return &h
+}
+
+// fits reports whether the grid was built for series with a's shape.
+func (g *coolGrid) fits(a spectra.Series) bool {
+	if len(a.Pieces) != len(g.pieceLen) {
+		return false
+	}
+	for i, p := range a.Pieces {
+		if len(p.NM) != g.pieceLen[i] {
+			return false
+		}
+	}
+	return true
+}
+
+// coolState is a grid loaded with one emittance series.
+type coolState struct {
+	g        *coolGrid
+	a        spectra.Series
+	wrad     []float64 // per node: Σ (Δλ/2)·ε, so that P_rad(T) = π Σ wrad·B
+	patm     float64   // P_atm, W/m²
+	heldEmit float64   // π ∫ ε B(T_amb) over the held part, W/m²
+}
+
+func (g *coolGrid) load(a spectra.Series) *coolState {
+	s := &coolState{g: g, a: a, wrad: make([]float64, len(g.nodes))}
+	for _, sp := range g.spans {
+		d := (g.nodes[sp.a+1] - g.nodes[sp.a]) / 2
+		el, er := sp.left.eval(a), sp.right.eval(a)
+		s.wrad[sp.a] += d * el
+		s.wrad[sp.a+1] += d * er
+		s.patm += d * (el*sp.skyL*g.bAmb[sp.a] + er*sp.skyR*g.bAmb[sp.a+1])
+		if sp.held {
+			s.heldEmit += d * (el*g.bAmb[sp.a] + er*g.bAmb[sp.a+1])
+		}
+	}
+	s.patm *= math.Pi
+	s.heldEmit *= math.Pi
+	return s
+}
+
+// planck returns B(λ, T) at every node.
+func (g *coolGrid) planck(t float64) []float64 {
+	if t == g.ambientK {
+		return g.bAmb
+	}
+	b := make([]float64, len(g.nodes))
+	for i := range b {
+		b[i] = g.c1[i] / math.Expm1(g.x[i]/t)
+	}
+	return b
+}
+
+// prad returns P_rad(T) = π ∫ ε B(λ, T) dλ over the band, W/m².
+func (s *coolState) prad(t float64) float64 {
+	g := s.g
+	var sum float64
+	if t == g.ambientK {
+		for i, w := range s.wrad {
+			sum += w * g.bAmb[i]
+		}
+		return math.Pi * sum
+	}
+	inv := 1 / t
+	for i, w := range s.wrad {
+		if w != 0 {
+			sum += w * g.c1[i] / (math.Exp(g.x[i]*inv) - 1)
+		}
+	}
+	return math.Pi * sum
+}
+
+// net returns P_net(T) = P_rad(T) − P_atm − P_sun − h (T_amb − T).
+func (s *coolState) net(t, psun, h float64) float64 {
+	return s.prad(t) - s.patm - psun - h*(s.g.ambientK-t)
+}
+
+// equilibrium returns T_eq where P_net(T_eq) = 0, found by bracketing and
+// Brent's method to 1e-9 K. P_net increases with T.
+func (s *coolState) equilibrium(psun, h float64) (float64, error) {
+	f := func(t float64) float64 { return s.net(t, psun, h) }
+	ta := s.g.ambientK
+	return increasingRoot(f, ta, 0.05*ta, 10*ta)
+}
+
+// increasingRoot finds the zero of an increasing function f within
+// [lo, hi], searching outward from x0.
+func increasingRoot(f func(float64) float64, x0, lo, hi float64) (float64, error) {
+	f0 := f(x0)
+	switch {
+	case math.IsNaN(f0):
+		return math.NaN(), errNoRoot
+	case f0 == 0:
+		return x0, nil
+	}
+	a, b, fa, fb := x0, x0, f0, f0
+	for step := 4.0; ; step *= 2 {
+		if f0 > 0 {
+			b, fb = a, fa
+			a = math.Max(lo, x0-step)
+			fa = f(a)
+			if fa <= 0 {
+				break
+			}
+			if a == lo {
+				return math.NaN(), errNoRoot
+			}
+		} else {
+			a, fa = b, fb
+			b = math.Min(hi, x0+step)
+			fb = f(b)
+			if fb >= 0 {
+				break
+			}
+			if b == hi {
+				return math.NaN(), errNoRoot
+			}
+		}
+	}
+	return brent(f, a, b, fa, fb, 1e-9), nil
+}
+
+// brent returns a zero of f in [a, b], where fa = f(a) and fb = f(b) have
+// opposite signs (or one is zero), to within tol (Brent's method).
+func brent(f func(float64) float64, a, b, fa, fb, tol float64) float64 {
+	if fa == 0 {
+		return a
+	}
+	if fb == 0 {
+		return b
+	}
+	c, fc := b, fb
+	var d, e float64
+	for range 300 {
+		if (fb > 0) == (fc > 0) {
+			c, fc = a, fa
+			d = b - a
+			e = d
+		}
+		if math.Abs(fc) < math.Abs(fb) {
+			a, b, c = b, c, b
+			fa, fb, fc = fb, fc, fb
+		}
+		tol1 := 4e-16*math.Abs(b) + tol/2
+		xm := (c - b) / 2
+		if math.Abs(xm) <= tol1 || fb == 0 {
+			return b
+		}
+		if math.Abs(e) >= tol1 && math.Abs(fa) > math.Abs(fb) {
+			s := fb / fa
+			var p, q float64
+			if a == c {
+				p, q = 2*xm*s, 1-s
+			} else {
+				q0, r := fa/fc, fb/fc
+				p = s * (2*xm*q0*(q0-r) - (b-a)*(r-1))
+				q = (q0 - 1) * (r - 1) * (s - 1)
+			}
+			if p > 0 {
+				q = -q
+			}
+			p = math.Abs(p)
+			if 2*p < math.Min(3*xm*q-math.Abs(tol1*q), math.Abs(e*q)) {
+				e, d = d, p/q
+			} else {
+				d, e = xm, xm
+			}
+		} else {
+			d, e = xm, xm
+		}
+		a, fa = b, fb
+		if math.Abs(d) > tol1 {
+			b += d
+		} else {
+			b += math.Copysign(tol1, xm)
+		}
+		fb = f(b)
+	}
+	return b
+}
+
+// gradA returns ∂(P_rad(T) − P_atm)/∂ε at every point of the emittance
+// series, W/m² per unit emittance.
+func (s *coolState) gradA(t float64) [][]float64 {
+	g := s.g
+	bt := g.planck(t)
+	out := make([][]float64, len(s.a.Pieces))
+	put := func(l lc, w float64) {
+		if out[l.p] == nil {
+			out[l.p] = make([]float64, len(s.a.Pieces[l.p].V))
+		}
+		out[l.p][l.j] += (1 - l.f) * w
+		if l.f != 0 {
+			out[l.p][l.j+1] += l.f * w
+		}
+	}
+	for _, sp := range g.spans {
+		d := math.Pi * (g.nodes[sp.a+1] - g.nodes[sp.a]) / 2
+		put(sp.left, d*(bt[sp.a]-sp.skyL*g.bAmb[sp.a]))
+		put(sp.right, d*(bt[sp.a+1]-sp.skyR*g.bAmb[sp.a+1]))
+	}
+	return out
+}
+
+// slope returns ∂P_net/∂T at t, W m⁻² K⁻¹.
+func (s *coolState) slope(t, h float64) float64 {
+	const dt = 0.01
+	return (s.prad(t+dt)-s.prad(t-dt))/(2*dt) + h
+}
+
+// cooling is the cooling computation for one set of conditions.
+type cooling struct {
+	c   Conditions
+	sky Sky
+	sun spectra.Weighting
+	g   *coolGrid // nil: no emittance data in the exchange band
+}
+
+// coolFigures are the scalar results of one evaluation.
+type coolFigures struct {
+	day, night     float64 // P_net(T_amb), W/m²
+	eqDay, eqNight float64 // T_eq, K
+	prad, patm     float64
+	psun           float64
+	state          *coolState
+	errDay, errNgt error
+}
+
+// evaluate computes the cooling figures for emittance a and solar
+// absorptance alpha (NaN when unknown).
+func (m *cooling) evaluate(a spectra.Series, alpha float64) coolFigures {
+	nan := math.NaN()
+	r := coolFigures{day: nan, night: nan, eqDay: nan, eqNight: nan, prad: nan, patm: nan, psun: nan}
+	if m.g == nil {
+		return r
+	}
+	if !m.g.fits(a) {
+		m.g = newCoolGrid(a, m.sky, m.c.ExchangeBandUM, m.c.AmbientK)
+	}
+	s := m.g.load(a)
+	r.state = s
+	r.prad, r.patm = s.prad(m.c.AmbientK), s.patm
+	r.psun = m.c.IrradianceWm2 * alpha
+	r.night = r.prad - r.patm
+	r.day = r.night - r.psun
+	r.eqNight, r.errNgt = s.equilibrium(0, m.c.HWm2K)
+	if !math.IsNaN(alpha) {
+		r.eqDay, r.errDay = s.equilibrium(r.psun, m.c.HWm2K)
+	}
+	return r
+}
+
+// weighting describes the cooling conditions in one line, for the figures
+// table.
+func (m *cooling) weighting(withSun, withH bool) string {
+	c := m.c
+	var out string
+	if m.sky.Model == SkyClear {
+		out = fmt.Sprintf("clear two-band sky, dew point %s °C; air %s K", fmtG(c.DewPointC), fmtG(c.AmbientK))
+	} else {
+		out = fmt.Sprintf("spectral sky %s; air %s K", m.sky.Source, fmtG(c.AmbientK))
+	}
+	if withH {
+		out += fmt.Sprintf("; h %s W m⁻² K⁻¹", fmtG(c.HWm2K))
+	}
+	if withSun {
+		out += fmt.Sprintf("; sun %s W/m², %s shape", fmtG(c.IrradianceWm2), m.sun)
+	} else {
+		out += "; no sun"
+	}
+	return out
+}
+
+// addCooling computes the cooling figures of o into f. grads holds the
+// gradients of the figures already in f and receives those of the new ones;
+// full adds the curve and the sensitivity table (skipped for the perturbed
+// evaluations of the uncertainty).
+func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]gradient, full bool) {
+	c := m.c
+	alpha := float64(f.SolarAbsorptance)
+	r := m.evaluate(o.A, alpha)
+	f.Sky = m.sky
+	f.CoolingPowerWm2, f.CoolingPowerNightWm2 = Num(r.day), Num(r.night)
+	f.EquilibriumDeltaK = Num(c.AmbientK - r.eqDay)
+	f.EquilibriumDeltaNightK = Num(c.AmbientK - r.eqNight)
+	f.CoolingTerms = CoolingTerms{RadiatedWm2: Num(r.prad), AtmosphericWm2: Num(r.patm), SolarWm2: Num(r.psun),
+		EquilibriumK: Num(r.eqDay), EquilibriumNightK: Num(r.eqNight),
+		HeldShare: Num(math.NaN()), HeldEmittedWm2: Num(math.NaN()), HeldBandsUM: [][2]float64{}}
+	f.HeldPowerWm2 = Num(math.NaN())
+	if m.g != nil {
+		f.HeldPowerWm2 = Num(m.g.heldPower)
+		f.CoolingTerms.HeldShare = Num(m.g.heldPower / m.g.bbPower)
+		f.CoolingTerms.HeldEmittedWm2 = Num(r.state.heldEmit)
+		for _, h := range m.g.held {
+			f.CoolingTerms.HeldBandsUM = append(f.CoolingTerms.HeldBandsUM, [2]float64{h[0] / 1000, h[1] / 1000})
+		}
+	}
+	cov := 0.0 // share of the band's blackbody power where the emittance is measured
+	if m.g != nil {
+		cov = 1 - m.g.heldPower/m.g.bbPower
+	}
+	band := c.ExchangeBandUM
+	fig := func(key, label, unit string, v Num, sun, h bool, coverage float64) {
+		f.Figures = append(f.Figures, Figure{Key: key, Label: label, Value: v, Unit: unit, Band: band, BandUnit: "µm",
+			Weighting: m.weighting(sun, h), Coverage: Num(coverage)})
+	}
+	dayCov := math.Min(cov, float64(f.SolarCoverage))
+	fig("cooling_power_w_m2", "Cooling power at ambient, with sun", "W/m²", f.CoolingPowerWm2, true, false, dayCov)
+	fig("cooling_power_night_w_m2", "Cooling power at ambient, at night", "W/m²", f.CoolingPowerNightWm2, false, false, cov)
+	fig("equilibrium_delta_k", "Equilibrium below ambient, with sun", "K", f.EquilibriumDeltaK, true, true, dayCov)
+	fig("equilibrium_delta_night_k", "Equilibrium below ambient, at night", "K", f.EquilibriumDeltaNightK, false, true, cov)
+	if grads != nil && r.state != nil {
+		m.addGradients(grads, r, c)
+	}
+	if !full {
+		return
+	}
+	f.CoolingCurve = []CurvePoint{}
+	if r.state != nil {
+		for d := curveFromK; d <= curveToK; d++ {
+			t := c.AmbientK + float64(d)
+			night := r.state.net(t, 0, c.HWm2K)
+			f.CoolingCurve = append(f.CoolingCurve, CurvePoint{SurfaceK: t, NetWm2: Num(night - r.psun), NetNightWm2: Num(night)})
+		}
+	}
+	f.Sensitivity = m.sensitivity(o.A, alpha, r)
+	f.Assumptions = append(f.Assumptions, m.assumptions(r)...)
+}
+
+// addGradients stores the gradients of the cooling figures.
+func (m *cooling) addGradients(grads map[string]gradient, r coolFigures, c Conditions) {
+	gAlpha := grads["solar_absorptance"]
+	night := gradient{spectra.A: r.state.gradA(c.AmbientK)}
+	grads["cooling_power_night_w_m2"] = night
+	grads["cooling_power_w_m2"] = night.plus(-c.IrradianceWm2, gAlpha)
+	// T_amb − T_eq: ∂/∂x = (∂P_net/∂x)/(∂P_net/∂T) at T_eq.
+	if !math.IsNaN(r.eqNight) {
+		grads["equilibrium_delta_night_k"] = gradient{spectra.A: r.state.gradA(r.eqNight)}.scale(1 / r.state.slope(r.eqNight, c.HWm2K))
+	}
+	if !math.IsNaN(r.eqDay) {
+		g := gradient{spectra.A: r.state.gradA(r.eqDay)}.plus(-c.IrradianceWm2, gAlpha)
+		grads["equilibrium_delta_k"] = g.scale(1 / r.state.slope(r.eqDay, c.HWm2K))
+	}
+}
+
+// sensitivity returns the change of the cooling figures when h or the dew
+// point change.
+func (m *cooling) sensitivity(a spectra.Series, alpha float64, base coolFigures) []Sensitivity {
+	out := []Sensitivity{}
+	if m.g == nil {
+		return out
+	}
+	c := m.c
+	row := func(param, unit string, change float64, alt Conditions, note string) {
+		mm := &cooling{c: alt, sun: m.sun, sky: m.sky, g: m.g}
+		if alt.DewPointC != c.DewPointC {
+			mm.sky = ClearSky(alt.DewPointC, alt.AmbientK)
+			mm.g = m.g.withSky(mm.sky)
+		}
+		r := mm.evaluate(a, alpha)
+		out = append(out, Sensitivity{Parameter: param, Change: change, Unit: unit,
+			DeltaDayWm2: Num(r.day - base.day), DeltaNightWm2: Num(r.night - base.night),
+			DeltaEquilibriumDayK:   Num(base.eqDay - r.eqDay),
+			DeltaEquilibriumNightK: Num(base.eqNight - r.eqNight), Note: note})
+	}
+	for _, dh := range []float64{+1, -1} {
+		alt := c
+		alt.HWm2K += dh
+		if alt.HWm2K >= 0 {
+			row("h_w_m2k", "W m⁻² K⁻¹", dh, alt, "the cooling power at T_s = T_amb does not depend on h")
+		}
+	}
+	if c.clearSky() {
+		for _, dd := range []float64{+5, -5} {
+			alt := c
+			alt.DewPointC += dd
+			if alt.validateCooling() == nil {
+				note := ""
+				if alt := ClearSky(alt.DewPointC, alt.AmbientK); m.sky.Clamped && alt.Clamped && alt.WindowEmissivity == m.sky.WindowEmissivity {
+					note = fmt.Sprintf("the window emissivity stays clamped at %g", float64(alt.WindowEmissivity))
+				}
+				row("dew_point_c", "°C", dd, alt, note)
+			}
+		}
+	}
+	return out
+}
+
+// assumptions states the cooling model in sentences.
+func (m *cooling) assumptions(r coolFigures) []string {
+	c := m.c
+	var out []string
+	out = append(out, "Sky: "+m.sky.Description)
+	if m.g == nil {
+		return append(out, fmt.Sprintf("No emittance data reach into the exchange band %g–%g µm: cooling figures cannot be computed.",
+			c.ExchangeBandUM[0], c.ExchangeBandUM[1]))
+	}
+	out = append(out, fmt.Sprintf("Cooling: P_net(T_s) = P_rad(T_s) − P_atm − P_sun − h (T_amb − T_s) with P_rad and P_atm over %g–%g µm, "+
+		"air at %s K, h = %s W m⁻² K⁻¹, sun %s W/m² × solar absorptance; the cooling power is P_net at T_s = T_amb, "+
+		"where the convective term vanishes.", c.ExchangeBandUM[0], c.ExchangeBandUM[1], fmtG(c.AmbientK), fmtG(c.HWm2K), fmtG(c.IrradianceWm2)))
+	if len(m.g.held) > 0 {
+		var parts []string
+		for _, h := range m.g.held {
+			parts = append(parts, fmt.Sprintf("%s–%s µm", fmtG(h[0]/1000), fmtG(h[1]/1000)))
+		}
+		out = append(out, fmt.Sprintf("The data stop short of the exchange band over %s: the nearest measured emittance is held constant there. "+
+			"That part carries %.1f W/m² of blackbody power at %s K (%.1f %% of the band's), of which the sample emits %.1f W/m².",
+			strings.Join(parts, ", "), m.g.heldPower, fmtG(c.AmbientK), 100*m.g.heldPower/m.g.bbPower, r.state.heldEmit))
+	}
+	if s := c.SolarBandNM[1] / 1000; s > c.ExchangeBandUM[0] {
+		out = append(out, fmt.Sprintf("The solar band reaches %g µm, into the exchange band (from %g µm): absorbed sunlight and thermal exchange overlap there.", s, c.ExchangeBandUM[0]))
+	}
+	if r.errDay != nil && !math.IsNaN(r.psun) {
+		out = append(out, "Equilibrium with sun: "+r.errDay.Error()+".")
+	}
+	if r.errNgt != nil {
+		out = append(out, "Equilibrium at night: "+r.errNgt.Error()+".")
+	}
+	return out
+}

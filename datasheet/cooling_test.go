@@ -1,0 +1,346 @@
+package datasheet
+
+import (
+	"bytes"
+	"encoding/json"
+	"math"
+	"os"
+	"strings"
+	"testing"
+
+	"skysheet/spectra"
+)
+
+// sampleCSV builds a neutral-format file from rows of wavelength (nm) and R.
+func sampleCSV(rows [][2]float64) string {
+	var b strings.Builder
+	b.WriteString("# sample: invented test surface\nwavelength_nm,R\n")
+	for _, r := range rows {
+		b.WriteString(fmtG(r[0]) + "," + strings.TrimSpace(fmtG(r[1])) + "\n")
+	}
+	return b.String()
+}
+
+func mustParse(t testing.TB, text, name string) *spectra.Spectrum {
+	t.Helper()
+	s, err := spectra.Parse(strings.NewReader(text), name)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s
+}
+
+// constSample is an opaque surface of absorptance a over [lo, hi] nm.
+func constSample(a, lo, hi float64) *spectra.Spectrum {
+	s, err := spectra.Parse(strings.NewReader(sampleCSV([][2]float64{{lo, 1 - a}, {hi, 1 - a}})), "const.csv")
+	if err != nil {
+		panic(err)
+	}
+	return s
+}
+
+// whiteSample reads the invented white coating of testdata.
+func whiteSample(t testing.TB) *spectra.Spectrum {
+	t.Helper()
+	var parts []*spectra.Spectrum
+	for _, name := range []string{"white-uvvis.csv", "white-ftir.tsv"} {
+		s, err := spectra.Read(os.DirFS("../testdata"), name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		parts = append(parts, s)
+	}
+	s, err := spectra.Merge(parts...)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s
+}
+
+// selectiveSample is a surface of solar reflectance 0.97 that emits 0.95
+// inside 8–13 µm and 0.05 elsewhere in the infrared.
+func selectiveSample() *spectra.Spectrum {
+	s, err := spectra.Parse(strings.NewReader(sampleCSV([][2]float64{
+		{250, 0.97}, {2500, 0.97}, {2600, 0.95}, {7900, 0.95}, {8000, 0.05}, {13000, 0.05}, {13100, 0.95}, {25000, 0.95},
+	})), "selective.csv")
+	if err != nil {
+		panic(err)
+	}
+	return s
+}
+
+// coolingOf repeats Compute's set-up for the internal checks.
+func coolingOf(t *testing.T, s *spectra.Spectrum, c Conditions) (*Figures, coolFigures) {
+	t.Helper()
+	f, err := Compute(s, c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sky, err := skyFor(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	o := spectra.Resolve(s, c.ClosureTol)
+	m := &cooling{c: c, sky: sky, sun: spectra.SolarGlobal(), g: newCoolGrid(o.A, sky, c.ExchangeBandUM, c.AmbientK)}
+	return f, m.evaluate(o.A, float64(f.SolarAbsorptance))
+}
+
+func TestBlackbodyNetPower(t *testing.T) {
+	for _, tt := range []struct {
+		dp, amb float64
+		band    [2]float64
+	}{
+		{10, 300, [2]float64{2.5, 100}},
+		{-10, 280, [2]float64{2.5, 100}},
+		{20, 310, [2]float64{2.5, 100}},
+		{10, 300, [2]float64{5, 50}},
+		{-20, 300, [2]float64{2.5, 100}}, // clamped window
+	} {
+		c := DefaultConditions()
+		c.DewPointC, c.AmbientK, c.ExchangeBandUM, c.IrradianceWm2 = tt.dp, tt.amb, tt.band, 0
+		f, err := Compute(constSample(1, 1000, 200000), c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		// Independent: ε_sky by the stated correlation, F_w by Simpson
+		// integration of Planck's law, the window's hemispherical emissivity
+		// 1 − 2E₃(τ) (A&S 5.1); for a blackbody at ambient,
+		// P_net = σT⁴ (1 − ε_eff) with ε_eff = 1 − F_w·2E₃(τ) (Stefan–Boltzmann law).
+		sigmaT4 := sigmaCODATA * math.Pow(tt.amb, 4)
+		fw := math.Pi * integrate(func(nm float64) float64 { return planckRef(nm, tt.amb) }, 8000, 13000, 2000) / sigmaT4
+		epsSky := 0.711 + 0.56*tt.dp/100 + 0.73*tt.dp*tt.dp/1e4
+		ew := math.Max(0, math.Min(1, 1-(1-epsSky)/fw))
+		effective := 1 - fw*2*expIntegral3(-math.Log(1-ew))
+		if ew == 0 {
+			effective = 1 - fw
+		}
+		want := sigmaT4 * (1 - effective)
+		if got := float64(f.CoolingPowerNightWm2); math.Abs(got-want) > 0.01 {
+			t.Errorf("T_dp %g °C, T %g K, band %v: P_net = %.4f W/m², want σT⁴(1 − ε_eff) = %.4f", tt.dp, tt.amb, tt.band, got, want)
+		}
+		if got := float64(f.Sky.HemisphericalEmissivity); math.Abs(got-effective) > 1e-7 {
+			t.Errorf("effective sky emissivity %.8f, want %.8f", got, effective)
+		}
+	}
+}
+
+func TestEnergyBalance(t *testing.T) {
+	white := whiteSample(t)
+	for _, tt := range []struct {
+		name string
+		s    *spectra.Spectrum
+		mod  func(*Conditions)
+	}{
+		{"white default", white, func(*Conditions) {}},
+		{"white humid windless", white, func(c *Conditions) { c.DewPointC, c.HWm2K = 20, 0 }},
+		{"grey 0.5", constSample(0.5, 250, 30000), func(*Conditions) {}},
+		{"black hot", constSample(0.98, 250, 30000), func(c *Conditions) { c.AmbientK = 320 }},
+		{"selective dry", selectiveSample(), func(c *Conditions) { c.DewPointC, c.HWm2K = -20, 1 }},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			c := DefaultConditions()
+			tt.mod(&c)
+			f, r := coolingOf(t, tt.s, c)
+			for _, eq := range []struct {
+				name     string
+				teq, sun float64
+				delta    Num
+			}{{"day", r.eqDay, r.psun, f.EquilibriumDeltaK}, {"night", r.eqNight, 0, f.EquilibriumDeltaNightK}} {
+				if p := r.state.net(eq.teq, eq.sun, c.HWm2K); math.Abs(p) > 1e-6 {
+					t.Errorf("%s: P_net(T_eq = %.6f K) = %.3g W/m², want 0 within 1e-6", eq.name, eq.teq, p)
+				}
+				if d := float64(eq.delta) - (c.AmbientK - eq.teq); d != 0 {
+					t.Errorf("%s: equilibrium delta %v, T_amb − T_eq %v", eq.name, float64(eq.delta), c.AmbientK-eq.teq)
+				}
+			}
+			prev := math.Inf(-1)
+			for ts := c.AmbientK - 80; ts <= c.AmbientK+80; ts += 0.25 {
+				p := r.state.net(ts, r.psun, c.HWm2K)
+				if !(p > prev) {
+					t.Fatalf("P_net not increasing: %.6f at %.2f K after %.6f", p, ts, prev)
+				}
+				prev = p
+			}
+			for i := 1; i < len(f.CoolingCurve); i++ {
+				a, b := f.CoolingCurve[i-1], f.CoolingCurve[i]
+				if !(b.NetWm2 > a.NetWm2 && b.NetNightWm2 > a.NetNightWm2) {
+					t.Errorf("curve not increasing at %g K", b.SurfaceK)
+				}
+			}
+		})
+	}
+}
+
+func TestSelectiveEmitterAtNoon(t *testing.T) {
+	// Fact of the trade (common practice, no source): a surface of solar
+	// reflectance ≥ 0.95 emitting mainly in 8–13 µm, under a dry clear sky
+	// (dew point −20 °C) and well insulated (h ≤ 1.5), settles more than
+	// 10 K below ambient at noon.
+	c := DefaultConditions()
+	c.DewPointC, c.HWm2K = -20, 1.5
+	f, err := Compute(selectiveSample(), c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if f.SolarReflectance < 0.95 {
+		t.Fatalf("solar reflectance %.3f, want ≥ 0.95", float64(f.SolarReflectance))
+	}
+	if d := float64(f.EquilibriumDeltaK); !(d > 10) {
+		t.Errorf("settles %.2f K below ambient at noon, want more than 10 K", d)
+	}
+}
+
+func TestGridFineEnough(t *testing.T) {
+	c := DefaultConditions()
+	for _, s := range []*spectra.Spectrum{whiteSample(t), selectiveSample()} {
+		o := spectra.Resolve(s, c.ClosureTol)
+		sky := ClearSky(c.DewPointC, c.AmbientK)
+		var got [2]coolFigures
+		for i, step := range []float64{referenceStep, referenceStep / 4} {
+			m := &cooling{c: c, sky: sky, g: newCoolGridStep(o.A, sky, c.ExchangeBandUM, c.AmbientK, step)}
+			got[i] = m.evaluate(o.A, 0.05)
+		}
+		if d := math.Abs(got[0].night - got[1].night); d > 0.01 {
+			t.Errorf("refining the reference grid moves the cooling power by %.4f W/m²", d)
+		}
+		if d := math.Abs(got[0].eqNight - got[1].eqNight); d > 0.001 {
+			t.Errorf("refining the reference grid moves the equilibrium by %.5f K", d)
+		}
+	}
+}
+
+func TestHeldPart(t *testing.T) {
+	c := DefaultConditions()
+	f, err := Compute(whiteSample(t), c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Blackbody power at 300 K over 25–100 µm by Simpson integration of
+	// Planck's law (the white data stop at 25 µm).
+	want := math.Pi * integrate(func(nm float64) float64 { return planckRef(nm, 300) }, 25000, 100000, 20000)
+	if got := float64(f.HeldPowerWm2); math.Abs(got-want) > 0.01 {
+		t.Errorf("held power %.4f W/m², want %.4f", got, want)
+	}
+	if b := f.CoolingTerms.HeldBandsUM; len(b) != 1 || b[0] != [2]float64{25, 100} {
+		t.Errorf("held bands %v, want [[25 100]]", b)
+	}
+	said := false
+	for _, a := range f.Assumptions {
+		said = said || strings.Contains(a, "held constant") && strings.Contains(a, "25–100 µm")
+	}
+	if !said {
+		t.Errorf("assumptions do not state the held part: %q", f.Assumptions)
+	}
+
+	// A gap between two files is bridged by the nearest value on each side.
+	s := mustParse(t, "wavelength_nm,R\n2500,0.1\n6000,0.1\n\n10000,0.7\n100000,0.7\n", "gap.csv")
+	f, err = Compute(s, c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if b := f.CoolingTerms.HeldBandsUM; len(b) != 1 || b[0] != [2]float64{6, 10} {
+		t.Errorf("held bands %v, want [[6 10]]", b)
+	}
+	want = math.Pi * integrate(func(nm float64) float64 { return planckRef(nm, 300) }, 6000, 10000, 4000)
+	if got := float64(f.HeldPowerWm2); math.Abs(got-want) > 0.01 {
+		t.Errorf("held power over the gap %.4f W/m², want %.4f", got, want)
+	}
+	// Emitted: 0.9 up to 8 µm, 0.3 beyond (the nearest values), by Simpson.
+	emit := func(nm float64) float64 {
+		e := 0.9
+		if nm > 8000 {
+			e = 0.3
+		}
+		return e * planckRef(nm, 300)
+	}
+	want = math.Pi * (integrate(emit, 6000, 8000, 2000) + integrate(emit, 8000, 10000, 2000))
+	if got := float64(f.CoolingTerms.HeldEmittedWm2); math.Abs(got-want) > 0.01 {
+		t.Errorf("emitted over the gap %.4f W/m², want %.4f", got, want)
+	}
+}
+
+func TestCoolingWithoutThermalData(t *testing.T) {
+	s := mustParse(t, sampleCSV([][2]float64{{280, 0.9}, {2500, 0.9}}), "vis.csv")
+	f, err := Compute(s, DefaultConditions())
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, v := range []Num{f.CoolingPowerWm2, f.CoolingPowerNightWm2, f.EquilibriumDeltaK, f.HeldPowerWm2} {
+		if !math.IsNaN(float64(v)) {
+			t.Errorf("cooling figure %v without thermal data, want null", float64(v))
+		}
+	}
+	b, err := json.Marshal(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(b), `"cooling_power_w_m2":null`) {
+		t.Errorf("JSON lacks a null cooling power")
+	}
+}
+
+func TestValidateCooling(t *testing.T) {
+	for _, tt := range []struct {
+		name string
+		mod  func(*Conditions)
+	}{
+		{"ambient in °C", func(c *Conditions) { c.AmbientK = 27 }},
+		{"ambient NaN", func(c *Conditions) { c.AmbientK = math.NaN() }},
+		{"dew point above air", func(c *Conditions) { c.DewPointC = 30 }},
+		{"dew point NaN", func(c *Conditions) { c.DewPointC = math.NaN() }},
+		{"negative sun", func(c *Conditions) { c.IrradianceWm2 = -1 }},
+		{"negative h", func(c *Conditions) { c.HWm2K = -0.5 }},
+		{"infinite h", func(c *Conditions) { c.HWm2K = math.Inf(1) }},
+		{"band reversed", func(c *Conditions) { c.ExchangeBandUM = [2]float64{100, 2.5} }},
+		{"band zero", func(c *Conditions) { c.ExchangeBandUM = [2]float64{0, 100} }},
+	} {
+		c := DefaultConditions()
+		tt.mod(&c)
+		if err := c.Validate(); err == nil {
+			t.Errorf("%s: Validate accepted %+v", tt.name, c)
+		}
+	}
+	if err := DefaultConditions().Validate(); err != nil {
+		t.Errorf("defaults rejected: %v", err)
+	}
+}
+
+func BenchmarkCompute(b *testing.B) {
+	s := whiteSample(b)
+	c := DefaultConditions()
+	for b.Loop() {
+		if _, err := Compute(s, c); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func FuzzCompute(f *testing.F) {
+	f.Add([]byte(sampleCSV([][2]float64{{250, 0.9}, {2500, 0.9}, {2600, 0.1}, {25000, 0.1}})))
+	f.Add([]byte("wavenumber_cm-1;R (%);T;u_R\n4000;50,5;1;0,01\n400;60;2;0,02\n\n300;10;0;\n200;12;0;\n"))
+	f.Add([]byte("wavelength_um,A,T,u_T\n2.5,0.9,0.01,0.001\n8,0.95,0,0.001\n\n13,0.9,0,\n150,0.5,0,\n"))
+	f.Fuzz(func(t *testing.T, in []byte) {
+		s, err := spectra.Parse(bytes.NewReader(in), "fuzz")
+		if err != nil {
+			return
+		}
+		x, err := Compute(s, DefaultConditions())
+		if err != nil {
+			t.Fatalf("Compute failed on a parsed spectrum: %v", err)
+		}
+		if h := float64(x.CoolingTerms.HeldShare); !math.IsNaN(h) && !(h >= 0 && h <= 1+1e-12) {
+			t.Fatalf("held share %v", h)
+		}
+		for _, fig := range x.Figures {
+			if v := float64(fig.Value); math.IsInf(v, 0) {
+				t.Fatalf("%s infinite", fig.Key)
+			}
+			if u := fig.Uncertainty; u != nil && !(u.Uncorrelated >= 0 && u.Correlated >= 0) {
+				t.Fatalf("%s: uncertainty %+v", fig.Key, *u)
+			}
+		}
+		if _, err := json.Marshal(x); err != nil {
+			t.Fatal(err)
+		}
+	})
+}

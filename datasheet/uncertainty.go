@@ -1,0 +1,347 @@
+package datasheet
+
+import (
+	"fmt"
+	"math"
+
+	"skysheet/spectra"
+)
+
+// Uncertainty is the standard uncertainty of a figure, in the figure's unit,
+// propagated from the standard uncertainties of R and T given with the data
+// two ways: as if the errors at different wavelengths were independent
+// (Uncorrelated) and as if they moved together (Correlated). The errors of
+// R and those of T are taken as independent of each other.
+//
+// Reach is the share of the figure's sensitivity, Σ|∂F/∂x| over the
+// wavelengths it rests on, that falls where an uncertainty was stated; below
+// 1 the uncertainty is understated. A figure with less than [minReach] gets
+// no Uncertainty at all.
+type Uncertainty struct {
+	Uncorrelated Num `json:"uncorrelated"`
+	Correlated   Num `json:"correlated"`
+	Reach        Num `json:"reach"`
+}
+
+// minReach is the least reach for which an uncertainty is reported.
+const minReach = 1e-3
+
+// gradient holds the derivative of a figure with respect to every value of
+// the resolved R, T and A series, indexed like their pieces; nil rows mean
+// no dependence.
+type gradient [3][][]float64
+
+// plus returns g + a·h.
+func (g gradient) plus(a float64, h gradient) gradient {
+	var out gradient
+	for q := range out {
+		n := max(len(g[q]), len(h[q]))
+		if n == 0 {
+			continue
+		}
+		out[q] = make([][]float64, n)
+		for p := range n {
+			var x, y []float64
+			if p < len(g[q]) {
+				x = g[q][p]
+			}
+			if p < len(h[q]) {
+				y = h[q][p]
+			}
+			if x == nil && y == nil {
+				continue
+			}
+			row := make([]float64, max(len(x), len(y)))
+			for j := range row {
+				if j < len(x) {
+					row[j] += x[j]
+				}
+				if j < len(y) {
+					row[j] += a * y[j]
+				}
+			}
+			out[q][p] = row
+		}
+	}
+	return out
+}
+
+// scale returns a·g.
+func (g gradient) scale(a float64) gradient { return gradient{}.plus(a, g) }
+
+// shifted returns a copy of s in which quantity q (R or T) is moved by
+// sign × its standard uncertainty at every row where both are given.
+func shifted(s *spectra.Spectrum, q spectra.Quantity, sign float64) *spectra.Spectrum {
+	u := spectra.UR
+	if q == spectra.T {
+		u = spectra.UT
+	}
+	out := &spectra.Spectrum{Meta: s.Meta, Sources: s.Sources, Segments: make([]spectra.Segment, len(s.Segments))}
+	for i, g := range s.Segments {
+		out.Segments[i] = g
+		if g.Values[q] == nil || g.Values[u] == nil {
+			continue
+		}
+		v := make([]float64, len(g.NM))
+		for j, x := range g.Values[q] {
+			v[j] = x + sign*math.Abs(g.Values[u][j]) // NaN stays NaN
+			if math.IsNaN(v[j]) && !math.IsNaN(x) {
+				v[j] = x
+			}
+		}
+		out.Segments[i].Values[q] = v
+	}
+	return out
+}
+
+// hasUncertainty reports whether s gives a standard uncertainty for q
+// somewhere q is measured, and over which wavelengths.
+func hasUncertainty(s *spectra.Spectrum, q spectra.Quantity) (ok bool, lo, hi float64) {
+	u := spectra.UR
+	if q == spectra.T {
+		u = spectra.UT
+	}
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for _, g := range s.Segments {
+		if g.Values[q] == nil || g.Values[u] == nil {
+			continue
+		}
+		for j, nm := range g.NM {
+			if !math.IsNaN(g.Values[q][j]) && !math.IsNaN(g.Values[u][j]) {
+				ok = true
+				lo, hi = math.Min(lo, nm), math.Max(hi, nm)
+			}
+		}
+	}
+	return ok, lo, hi
+}
+
+// nonlinearEval recomputes the figures that are not linear in the data
+// (equilibria, SRI) from optics o, given the change lin(key) of any linear
+// figure that they build on. It returns them by key.
+type nonlinearEval func(o spectra.Optics, lin func(key string) float64) map[string]float64
+
+// probe is the effect on the resolved optics of moving one measured
+// quantity by its standard uncertainty everywhere at once: the change of
+// every value and the nonlinear figures recomputed with the quantity moved
+// up and down.
+type probe struct {
+	delta      gradient // (o⁺ − o⁻)/2 at every point, indexed like o
+	slot       [3][][]int
+	nslots     int
+	plus, mins map[string]float64
+}
+
+// newProbe moves quantity q of s up and down by its uncertainty and
+// recomputes the nonlinear figures both ways with eval.
+func newProbe(s *spectra.Spectrum, q spectra.Quantity, o spectra.Optics, tol float64, grads map[string]gradient, eval nonlinearEval) *probe {
+	op := spectra.Resolve(shifted(s, q, +1), tol)
+	om := spectra.Resolve(shifted(s, q, -1), tol)
+	pr := &probe{}
+	// Pointwise changes. Resolve works wavelength by wavelength, so the
+	// change at one point comes from that wavelength's own uncertainty; the
+	// slots group the R, T and A values of one wavelength.
+	slots := map[float64]int{}
+	for qi, pair := range [3][3]spectra.Series{{o.R, op.R, om.R}, {o.T, op.T, om.T}, {o.A, op.A, om.A}} {
+		base, up, dn := pair[0], pair[1], pair[2]
+		pr.delta[qi] = make([][]float64, len(base.Pieces))
+		pr.slot[qi] = make([][]int, len(base.Pieces))
+		if len(up.Pieces) != len(base.Pieces) || len(dn.Pieces) != len(base.Pieces) {
+			continue // cannot happen: Resolve's shape does not depend on values
+		}
+		for p, pc := range base.Pieces {
+			if len(up.Pieces[p].V) != len(pc.V) || len(dn.Pieces[p].V) != len(pc.V) {
+				continue
+			}
+			d := make([]float64, len(pc.V))
+			sl := make([]int, len(pc.V))
+			for j, nm := range pc.NM {
+				d[j] = (up.Pieces[p].V[j] - dn.Pieces[p].V[j]) / 2
+				k, ok := slots[nm]
+				if !ok {
+					k = len(slots)
+					slots[nm] = k
+				}
+				sl[j] = k
+			}
+			pr.delta[qi][p], pr.slot[qi][p] = d, sl
+		}
+	}
+	pr.nslots = len(slots)
+	// Linear figures move by exactly ±Σ g·δ; the nonlinear ones are
+	// recomputed from the moved optics.
+	lin := func(sign float64) func(string) float64 {
+		return func(key string) float64 { return sign * pr.together(grads[key]) }
+	}
+	pr.plus, pr.mins = eval(op, lin(+1)), eval(om, lin(-1))
+	return pr
+}
+
+// together returns Σ g·δ: the change of a linear figure when the quantity
+// moves by its uncertainty everywhere at once.
+func (pr *probe) together(g gradient) float64 {
+	var sum float64
+	for q := range g {
+		for p, row := range g[q] {
+			if p >= len(pr.delta[q]) || pr.delta[q][p] == nil {
+				continue
+			}
+			d := pr.delta[q][p]
+			for j, c := range row {
+				if j < len(d) {
+					sum += c * d[j]
+				}
+			}
+		}
+	}
+	return sum
+}
+
+// statedMask returns, for every value of o's R, T and A series, whether
+// its uncertainty is known from the data: R and T where u_R or u_T is given;
+// A where it was derived as 1 − R − T and the uncertainties of the measured
+// R and T behind it are given.
+func statedMask(s *spectra.Spectrum, o spectra.Optics) [3][][]bool {
+	type row struct{ r, t, a, ur, ut bool }
+	rows := map[float64]row{}
+	has := func(g spectra.Segment, q spectra.Quantity, j int) bool {
+		return g.Values[q] != nil && !math.IsNaN(g.Values[q][j])
+	}
+	for _, g := range s.Segments {
+		for j, nm := range g.NM {
+			rows[nm] = row{r: has(g, spectra.R, j), t: has(g, spectra.T, j), a: has(g, spectra.A, j),
+				ur: has(g, spectra.UR, j), ut: has(g, spectra.UT, j)}
+		}
+	}
+	var out [3][][]bool
+	for q, x := range [3]spectra.Series{o.R, o.T, o.A} {
+		out[q] = make([][]bool, len(x.Pieces))
+		for p, pc := range x.Pieces {
+			m := make([]bool, len(pc.NM))
+			for j, nm := range pc.NM {
+				w := rows[nm]
+				switch q {
+				case int(spectra.R):
+					m[j] = w.r && w.ur
+				case int(spectra.T):
+					m[j] = w.t && w.ut
+				default:
+					m[j] = !w.a && w.r && w.ur && (!w.t || w.ut)
+				}
+			}
+			out[q][p] = m
+		}
+	}
+	return out
+}
+
+// reachOf returns Σ|g| where the value's uncertainty is known over Σ|g|.
+func reachOf(g gradient, mask [3][][]bool) float64 {
+	var t, c float64
+	for q := range g {
+		for p, row := range g[q] {
+			if p >= len(mask[q]) {
+				continue
+			}
+			for j, v := range row {
+				if j < len(mask[q][p]) {
+					t += math.Abs(v)
+					if mask[q][p][j] {
+						c += math.Abs(v)
+					}
+				}
+			}
+		}
+	}
+	if t == 0 {
+		return 0
+	}
+	return c / t
+}
+
+// uncorrelated returns √Σ (Σ_q g·δ)² over wavelengths: the figure's
+// standard uncertainty when the errors at different wavelengths are
+// independent, by the linearised gradient g.
+func (pr *probe) uncorrelated(g gradient, buf []float64) float64 {
+	clear(buf)
+	for q := range g {
+		for p, row := range g[q] {
+			if row == nil || p >= len(pr.delta[q]) || pr.delta[q][p] == nil {
+				continue
+			}
+			d, sl := pr.delta[q][p], pr.slot[q][p]
+			for j, c := range row {
+				if j < len(d) && d[j] != 0 {
+					buf[sl[j]] += c * d[j]
+				}
+			}
+		}
+	}
+	var sum float64
+	for _, t := range buf {
+		sum += t * t
+	}
+	return math.Sqrt(sum)
+}
+
+// addUncertainty sets the uncertainty of every figure in f when s gives
+// standard uncertainties of R or T.
+//
+// Uncorrelated: u² = Σ_λ (Σ_q ∂F/∂q(λ) δq(λ))², with the gradients grads
+// and δ the pointwise change of the resolved R, T and A when the measured
+// quantity moves by its uncertainty. Correlated: half the difference of F
+// with the quantity moved up and down everywhere at once; for a linear
+// figure that is Σ ∂F/∂q δq exactly, the others are recomputed by eval.
+func addUncertainty(f *Figures, s *spectra.Spectrum, o spectra.Optics, grads map[string]gradient, tol float64, eval nonlinearEval) {
+	var probes []*probe
+	for _, q := range []spectra.Quantity{spectra.R, spectra.T} {
+		ok, lo, hi := hasUncertainty(s, q)
+		if !ok {
+			continue
+		}
+		probes = append(probes, newProbe(s, q, o, tol, grads, eval))
+		f.Assumptions = append(f.Assumptions, fmt.Sprintf("The standard uncertainty of %s is given over %s–%s nm; "+
+			"elsewhere %s is taken as exact, which understates the uncertainty of figures that reach there.",
+			q, fmtNM(lo), fmtNM(hi), q))
+	}
+	if len(probes) == 0 {
+		return
+	}
+	f.Assumptions = append(f.Assumptions, "Uncertainties are standard uncertainties propagated two ways: errors independent "+
+		"from wavelength to wavelength (root-sum-square of the linearised terms) and errors moving together (the figure "+
+		"recomputed with R, then T, moved up and down by their uncertainties everywhere at once); the errors of R and "+
+		"those of T are taken as independent of each other.")
+	n := 0
+	for _, pr := range probes {
+		n = max(n, pr.nslots)
+	}
+	mask := statedMask(s, o)
+	buf := make([]float64, n)
+	for i := range f.Figures {
+		x := &f.Figures[i]
+		if math.IsNaN(float64(x.Value)) {
+			continue
+		}
+		g, ok := grads[x.Key]
+		if !ok {
+			continue
+		}
+		reach := reachOf(g, mask)
+		if reach < minReach {
+			continue
+		}
+		var u2, c2 float64
+		for _, pr := range probes {
+			c := pr.together(g)
+			if xp, ok := pr.plus[x.Key]; ok {
+				c = (xp - pr.mins[x.Key]) / 2
+			}
+			c2 += c * c
+			u := pr.uncorrelated(g, buf)
+			u2 += u * u
+		}
+		x.Uncertainty = &Uncertainty{Uncorrelated: Num(math.Sqrt(u2)), Correlated: Num(math.Sqrt(c2)), Reach: Num(reach)}
+	}
+}
+
+func fmtNM(nm float64) string { return fmtG(math.Round(nm*100) / 100) }
