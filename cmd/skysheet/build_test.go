@@ -110,12 +110,12 @@ func TestBuildAtomic(t *testing.T) {
 	// Bad data: the build stops before writing.
 	md := filepath.Join(lib, "content", "roof", "basalt.md")
 	good, _ := os.ReadFile(md)
-	writeFile(t, md, strings.Replace(string(good), "category:", "categroy:", 1))
+	writeAt(t, md, strings.Replace(string(good), "category:", "categroy:", 1))
 	code, _, stderr := runCLI("build", lib, "-o", out)
 	if code != 1 || strings.Count(stderr, "\n  ") != 1 || !strings.Contains(stderr, "content/roof/basalt.md:5:1: unknown key") || !strings.Contains(stderr, `did you mean "category"?`) {
 		t.Errorf("exit %d, stderr %q", code, stderr)
 	}
-	writeFile(t, md, string(good))
+	writeAt(t, md, string(good))
 
 	// A failure while writing files, midway through the site.
 	failAfter = 10
@@ -153,7 +153,7 @@ func TestBuildAtomic(t *testing.T) {
 func TestBuildRefusesOutput(t *testing.T) {
 	lib := copyLibrary(t)
 	other := t.TempDir()
-	writeFile(t, filepath.Join(other, "notes.txt"), "keep me")
+	writeAt(t, filepath.Join(other, "notes.txt"), "keep me")
 	for _, out := range []string{lib, filepath.Dir(lib), filepath.Join(lib, "content", "site"), other} {
 		code, _, stderr := runCLI("build", lib, "-o", out)
 		if code != 2 {
@@ -207,7 +207,7 @@ func TestBuildEscapesContent(t *testing.T) {
 	lib := copyLibrary(t)
 	md := filepath.Join(lib, "content", "roof", "basalt.md")
 	src, _ := os.ReadFile(md)
-	writeFile(t, md, strings.Replace(string(src), "title: Basalt roof coating (invented)", `title: "<script>alert('x')</script> Basalt"`, 1))
+	writeAt(t, md, strings.Replace(string(src), "title: Basalt roof coating (invented)", `title: "<script>alert('x')</script> Basalt"`, 1))
 	out := filepath.Join(t.TempDir(), "public")
 	if _, err := buildSite(lib, out, "test", &bytes.Buffer{}, false); err != nil {
 		t.Fatal(err)
@@ -225,7 +225,7 @@ func TestBuildEscapesContent(t *testing.T) {
 
 func TestBuildPathEscapes(t *testing.T) {
 	outside := filepath.Join(t.TempDir(), "outside.csv")
-	writeFile(t, outside, "wavelength_nm,R\n280,0.5\n2500,0.5\n")
+	writeAt(t, outside, "wavelength_nm,R\n280,0.5\n2500,0.5\n")
 	for _, tc := range []struct {
 		name, file string
 		link       bool // make content/roof/link.csv a symbolic link to outside
@@ -244,7 +244,7 @@ func TestBuildPathEscapes(t *testing.T) {
 			}
 			md := filepath.Join(lib, "content", "roof", "basalt.md")
 			src, _ := os.ReadFile(md)
-			writeFile(t, md, strings.Replace(string(src), "file: basalt-uvvis.csv", "file: "+tc.file, 1))
+			writeAt(t, md, strings.Replace(string(src), "file: basalt-uvvis.csv", "file: "+tc.file, 1))
 			code, _, stderr := runCLI("build", lib, "-o", filepath.Join(t.TempDir(), "public"))
 			if code != 1 || !strings.Contains(stderr, "content/roof/basalt.md:9:") || !strings.Contains(stderr, tc.want) {
 				t.Errorf("exit %d, stderr %q; want exit 1 naming basalt.md:9 and %q", code, stderr, tc.want)
@@ -256,7 +256,7 @@ func TestBuildPathEscapes(t *testing.T) {
 	if err := os.Symlink("basalt-uvvis.csv", filepath.Join(lib, "content", "roof", "inside.csv")); err == nil {
 		md := filepath.Join(lib, "content", "roof", "basalt.md")
 		src, _ := os.ReadFile(md)
-		writeFile(t, md, strings.Replace(string(src), "file: basalt-uvvis.csv", "file: inside.csv", 1))
+		writeAt(t, md, strings.Replace(string(src), "file: basalt-uvvis.csv", "file: inside.csv", 1))
 		if code, _, stderr := runCLI("build", lib, "-o", filepath.Join(t.TempDir(), "public")); code != 0 {
 			t.Errorf("inside link: exit %d: %s", code, stderr)
 		}
@@ -271,5 +271,13 @@ func TestProgressBar(t *testing.T) {
 	}
 	if !strings.Contains(b.String(), "] 3/3 materials") {
 		t.Errorf("progress %q", b.String())
+	}
+}
+
+// writeAt writes a file at path p.
+func writeAt(t *testing.T, p, data string) {
+	t.Helper()
+	if err := os.WriteFile(p, []byte(data), 0o644); err != nil {
+		t.Fatal(err)
 	}
 }

@@ -93,7 +93,7 @@ func TestServeRebuildsOnChange(t *testing.T) {
 	}
 
 	// A broken file: the id changes again and pages carry the problems.
-	writeFile(t, md, strings.Replace(edited, "category:", "categroy:", 1))
+	writeAt(t, md, strings.Replace(edited, "category:", "categroy:", 1))
 	waitID(id2)
 	_, body = get(t, c, ts.URL+"/m/basalt/index.html")
 	if !strings.Contains(body, "The last build failed") || !strings.Contains(body, "basalt.md:5:1: unknown key") {

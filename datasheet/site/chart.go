@@ -139,14 +139,9 @@ func (p plot) chart() chart.Chart {
 	}
 	for _, b := range p.bands {
 		lo, hi := math.Max(b.lo, p.xLo), math.Min(b.hi, p.xHi)
-		if !(hi > lo) {
-			continue
+		if hi > lo {
+			c.Series = append(c.Series, bandSeries{lo: lo, hi: hi, color: b.color})
 		}
-		c.Series = append(c.Series, chart.ContinuousSeries{
-			YAxis:   chart.YAxisSecondary,
-			XValues: []float64{lo, hi}, YValues: []float64{p.yHi, p.yHi},
-			Style: chart.Style{FillColor: b.color.color(), StrokeColor: b.color.alpha(0).color(), StrokeWidth: 1},
-		})
 	}
 	for _, l := range p.lines {
 		for _, pc := range l.pieces {
@@ -420,6 +415,30 @@ func fitText(r chart.Renderer, s string, w int) string {
 		}
 	}
 	return "…"
+}
+
+// bandSeries shades the full height of the plot between two x values; it
+// is drawn first, behind the curves.
+type bandSeries struct {
+	lo, hi float64
+	color  rgba
+}
+
+func (s bandSeries) GetName() string           { return "" }
+func (s bandSeries) GetYAxis() chart.YAxisType { return chart.YAxisSecondary }
+func (s bandSeries) GetStyle() chart.Style     { return chart.Style{} }
+func (s bandSeries) Validate() error           { return nil }
+func (s bandSeries) Render(r chart.Renderer, box chart.Box, xr, _ chart.Range, _ chart.Style) {
+	x0, x1 := box.Left+xr.Translate(s.lo), box.Left+xr.Translate(s.hi)
+	r.SetFillColor(s.color.color())
+	r.SetStrokeColor(s.color.alpha(0).color())
+	r.SetStrokeWidth(1)
+	r.MoveTo(x0, box.Top)
+	r.LineTo(x1, box.Top)
+	r.LineTo(x1, box.Bottom)
+	r.LineTo(x0, box.Bottom)
+	r.Close()
+	r.Fill()
 }
 
 // pointSeries places the points of a pointSet on the chart: go-chart gives

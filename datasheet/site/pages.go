@@ -15,7 +15,7 @@ import (
 func (b *builder) materialView(m *library.Material, root string, cmps []*library.Comparison) (*materialView, error) {
 	fm, f := m.Front, m.Figures
 	v := &materialView{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
-		Summary: fm.Summary, License: fm.License, Inputs: m.Inputs, Cautions: Cautions,
+		Summary: fm.Summary, License: fm.License, Inputs: m.Inputs, Cautions: cautionsOf(f),
 		Conditions: conditionPairs(m.Conditions), Overridden: fm.Conditions.Keys(),
 		Assumptions: f.Assumptions, Closure: closureOf(f), Measured: measuredPairs(fm.Measured)}
 	if s := library.Slugify(fm.Category); s != "" {
@@ -29,13 +29,18 @@ func (b *builder) materialView(m *library.Material, root string, cmps []*library
 		keyFig{Label: "Solar reflectance", Value: fmtFrac(f.SolarReflectance), Note: fmtBand(c.SolarBandNM, "nm") + ", " + c.SolarSpectrum},
 		keyFig{Label: "Thermal emittance", Value: fmtFrac(f.ThermalEmittance), Note: fmtBand(c.ThermalBandUM, "µm") + ", " + fmtG(c.TemperatureK) + " K"},
 		keyFig{Label: "Window emittance", Value: fmtFrac(f.WindowEmittance), Note: fmtBand(c.WindowBandUM, "µm")},
+		keyFig{Label: "Net cooling, day", Value: fmtValue("cooling_power_w_m2", f.CoolingPowerWm2, ""), Unit: "W/m²",
+			Note: fmt.Sprintf("at air %s K, %s W/m² sun", fmtG(c.AmbientK), fmtG(c.IrradianceWm2))},
 	)
 	if m.Spectrum.Has(spectra.T) {
 		v.Key = append(v.Key, keyFig{Label: "Solar transmittance", Value: fmtFrac(f.SolarTransmittance), Note: fmtBand(c.SolarBandNM, "nm")})
 	}
 	for _, x := range f.Figures {
-		r := figRow{Key: x.Key, Label: x.Label, Value: fmtValue(x.Value, x.Unit), Band: fmtBand(x.Band, x.BandUnit),
-			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage)}
+		r := figRow{Key: x.Key, Label: x.Label, Value: fmtValue(x.Key, x.Value, x.Unit), Band: fmtBand(x.Band, x.BandUnit),
+			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage), Unc: fmtUnc(x.Uncertainty)}
+		if r.Unc != "" {
+			v.HasUnc = true
+		}
 		v.Figures = append(v.Figures, r)
 	}
 	for _, s := range fm.Spectra {
@@ -59,6 +64,15 @@ func (b *builder) materialView(m *library.Material, root string, cmps []*library
 		v.Comparisons = append(v.Comparisons, link{Name: x.Front.Title, Href: root + "compare/" + x.Slug + "/index.html"})
 	}
 	return v, nil
+}
+
+// cautionsOf returns the cautions that come with the figures, or the
+// site's own.
+func cautionsOf(f *datasheet.Figures) []string {
+	if f != nil && len(f.Cautions) > 0 {
+		return f.Cautions
+	}
+	return Cautions
 }
 
 // uniqueTags returns the non-empty tags in order, without repeats.
@@ -86,7 +100,7 @@ func (b *builder) table(id, root string, ms []*library.Material, numbers map[str
 		}
 		for _, col := range tableFigures {
 			x, _ := figureValue(m.Figures, col.Key)
-			r.Cells = append(r.Cells, cell{Key: col.Key, Text: fmtFrac(x), Value: sortValue(x)})
+			r.Cells = append(r.Cells, cell{Key: col.Key, Text: fmtValue(col.Key, x, ""), Value: sortValue(x)})
 		}
 		t.Rows = append(t.Rows, r)
 	}
@@ -242,7 +256,7 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 				r.Cells = append(r.Cells, "—")
 				continue
 			}
-			r.Cells = append(r.Cells, fmtValue(x.Value, x.Unit))
+			r.Cells = append(r.Cells, fmtValue(x.Key, x.Value, x.Unit))
 		}
 		v.Rows = append(v.Rows, r)
 	}

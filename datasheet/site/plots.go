@@ -6,6 +6,7 @@ import (
 	"math"
 	"strings"
 
+	"skysheet/datasheet"
 	"skysheet/datasheet/library"
 	"skysheet/spectra"
 )
@@ -118,7 +119,58 @@ func materialCharts(m *library.Material) ([]chartView, error) {
 		return nil, fmt.Errorf("thermal chart: %w", err)
 	}
 	out = append(out, chartView{ID: "chart-thermal", Title: "Thermal infrared", Caption: caption, SVG: template.HTML(svg)})
+
+	if cv, err := coolingChart(f); err != nil {
+		return nil, fmt.Errorf("cooling chart: %w", err)
+	} else if cv != nil {
+		out = append(out, *cv)
+	}
 	return out, nil
+}
+
+// coolingChart plots the net cooling power against surface temperature,
+// with and without sun, from the figures' cooling curve.
+func coolingChart(f *datasheet.Figures) (*chartView, error) {
+	var day, night spectra.Piece
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, p := range f.CoolingCurve {
+		if !isNaN(p.NetWm2) {
+			day.NM, day.V = append(day.NM, p.SurfaceK), append(day.V, float64(p.NetWm2))
+			lo, hi = math.Min(lo, float64(p.NetWm2)), math.Max(hi, float64(p.NetWm2))
+		}
+		if !isNaN(p.NetNightWm2) {
+			night.NM, night.V = append(night.NM, p.SurfaceK), append(night.V, float64(p.NetNightWm2))
+			lo, hi = math.Min(lo, float64(p.NetNightWm2)), math.Max(hi, float64(p.NetNightWm2))
+		}
+	}
+	if len(day.NM) < 2 && len(night.NM) < 2 {
+		return nil, nil
+	}
+	lo, hi = math.Min(lo, 0), math.Max(hi, 0)
+	step := niceStep((hi - lo) / 6)
+	c := f.Conditions
+	xs := append(append([]float64(nil), day.NM...), night.NM...)
+	xlo, xhi := xs[0], xs[0]
+	for _, x := range xs {
+		xlo, xhi = math.Min(xlo, x), math.Max(xhi, x)
+	}
+	p := plot{width: chartW, height: chartH, xName: "Surface temperature (K)", yName: "Net cooling power (W/m²)",
+		xLo: xlo, xHi: xhi, yLo: math.Floor(lo/step) * step, yHi: math.Ceil(hi/step) * step, xFmt: "0", yFmt: "0"}
+	w := (xhi - xlo) * 0.006
+	p.bands = []band{{name: fmt.Sprintf("Air temperature %s K", fmtG(c.AmbientK)), lo: c.AmbientK - w, hi: c.AmbientK + w, color: rgba{0x6a, 0x72, 0x7e, 0x90}}}
+	p.lines = []line{
+		{color: colAxis, width: 1, pieces: []spectra.Piece{{NM: []float64{xlo, xhi}, V: []float64{0, 0}}}},
+		{name: fmt.Sprintf("With sun (%s W/m²)", fmtG(c.IrradianceWm2)), color: colT, width: 2, pieces: []spectra.Piece{day}},
+		{name: "Night (no sun)", color: colR, width: 2, dash: []float64{5, 3}, pieces: []spectra.Piece{night}},
+	}
+	caption := fmt.Sprintf("Net cooling power (positive: the surface gives off more heat than it takes in) against surface temperature, under the %s sky with air at %s K and h = %s W m⁻² K⁻¹. At air temperature: %s with sun, %s at night. Air minus equilibrium surface temperature: %s with sun, %s at night.",
+		c.Sky, fmtG(c.AmbientK), fmtG(c.HWm2K), fmtValue("", f.CoolingPowerWm2, "W/m²"), fmtValue("", f.CoolingPowerNightWm2, "W/m²"),
+		fmtValue("", f.EquilibriumDeltaK, "K"), fmtValue("", f.EquilibriumDeltaNightK, "K"))
+	svg, err := p.svg("Cooling power chart. " + caption)
+	if err != nil {
+		return nil, err
+	}
+	return &chartView{ID: "chart-cooling", Title: "Net cooling power", Caption: caption, SVG: template.HTML(svg)}, nil
 }
 
 // compareCharts overlays the reflectance (solar range) and emittance

@@ -139,6 +139,7 @@ var tableFigures = []column{
 	{Key: "solar_reflectance", Label: "Solar reflectance", Numeric: true},
 	{Key: "thermal_emittance", Label: "Thermal emittance", Numeric: true},
 	{Key: "window_emittance", Label: "Window emittance", Numeric: true},
+	{Key: "cooling_power_w_m2", Label: "Net cooling, day", Unit: "W/m²", Numeric: true},
 }
 
 // figureValue returns a headline figure of f by JSON key.
@@ -157,6 +158,10 @@ func figureValue(f *datasheet.Figures, key string) (datasheet.Num, bool) {
 		return f.ThermalEmittance, true
 	case "window_emittance":
 		return f.WindowEmittance, true
+	case "cooling_power_w_m2":
+		return f.CoolingPowerWm2, true
+	case "cooling_power_night_w_m2":
+		return f.CoolingPowerNightWm2, true
 	}
 	if x, ok := f.Figure(key); ok {
 		return x.Value, true
@@ -174,15 +179,46 @@ func fmtFrac(v datasheet.Num) string {
 	return strconv.FormatFloat(float64(v), 'f', 3, 64)
 }
 
-// fmtValue formats a figure's value in its unit.
-func fmtValue(v datasheet.Num, unit string) string {
+// fmtValue formats a figure's value in its unit: fractions with three
+// decimals, indices and physical quantities with one.
+func fmtValue(key string, v datasheet.Num, unit string) string {
 	if isNaN(v) {
 		return "—"
 	}
-	if unit == "" {
+	if unit == "" && !notFraction(key) {
 		return fmtFrac(v)
 	}
-	return strconv.FormatFloat(float64(v), 'f', 1, 64) + " " + unit
+	s := strconv.FormatFloat(float64(v), 'f', 1, 64)
+	if unit != "" {
+		s += " " + unit
+	}
+	return s
+}
+
+// notFraction reports whether the figure key names a quantity that is not
+// a fraction (an index, a power, a temperature difference).
+func notFraction(key string) bool {
+	for _, p := range []string{"sri", "cooling_", "equilibrium_", "held_"} {
+		if strings.HasPrefix(key, p) {
+			return true
+		}
+	}
+	return false
+}
+
+// fmtUnc formats a figure's standard uncertainty: independent … correlated
+// errors, two significant digits, with the share of the figure's
+// sensitivity that stated uncertainties reach when below 100 %.
+func fmtUnc(u *datasheet.Uncertainty) string {
+	if u == nil || isNaN(u.Uncorrelated) || isNaN(u.Correlated) {
+		return ""
+	}
+	g := func(x datasheet.Num) string { return strconv.FormatFloat(float64(x), 'g', 2, 64) }
+	s := g(u.Uncorrelated) + " … " + g(u.Correlated)
+	if !isNaN(u.Reach) && float64(u.Reach) < 0.995 {
+		s += " (reaches " + strconv.FormatFloat(100*float64(u.Reach), 'f', 0, 64) + " %)"
+	}
+	return s
 }
 
 func fmtPercent(v datasheet.Num) string {
@@ -231,9 +267,16 @@ func conditionPairs(c datasheet.Conditions) []pair {
 		{"Window band", fmtBand(c.WindowBandUM, "µm")},
 		{"Blackbody temperature", fmtG(c.TemperatureK) + " K"},
 		{"Closure tolerance", fmtG(c.ClosureTol)},
+		{"Air temperature", fmtG(c.AmbientK) + " K"},
+		{"Dew point", fmtG(c.DewPointC) + " °C"},
+		{"Solar irradiance", fmtG(c.IrradianceWm2) + " W/m²"},
+		{"Heat-transfer coefficient h", fmtG(c.HWm2K) + " W m⁻² K⁻¹"},
+		{"Exchange band", fmtBand(c.ExchangeBandUM, "µm")},
+		{"Sky", c.Sky},
 	}
 	known := map[string]bool{"solar_band_nm": true, "solar_spectrum": true, "thermal_band_um": true,
-		"window_band_um": true, "temperature_k": true, "closure_tolerance": true}
+		"window_band_um": true, "temperature_k": true, "closure_tolerance": true, "ambient_k": true,
+		"dew_point_c": true, "irradiance_w_m2": true, "h_w_m2k": true, "exchange_band_um": true, "sky": true}
 	data, err := json.Marshal(c)
 	if err != nil {
 		return ps
