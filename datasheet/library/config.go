@@ -2,6 +2,7 @@ package library
 
 import (
 	"fmt"
+	"io/fs"
 	"net/url"
 	"reflect"
 	"strings"
@@ -9,6 +10,7 @@ import (
 	"gopkg.in/yaml.v3"
 
 	"skysheet/datasheet"
+	"skysheet/spectra"
 )
 
 // ConfigFile is the name of the site configuration at the library root.
@@ -29,6 +31,8 @@ type Config struct {
 	Overrides Overrides
 	// Input is the config file and its SHA-256.
 	Input Input
+	// skyInput is the sky file the config names, if any.
+	skyInput *Input
 }
 
 // configFile is the YAML form of skysheet.yaml.
@@ -72,25 +76,51 @@ func (o Overrides) Keys() []string {
 	return keys
 }
 
-// apply returns base with the overrides set, validated.
-func (d doc) apply(o Overrides, base datasheet.Conditions) (datasheet.Conditions, error) {
+// apply returns base with the overrides set, validated. A sky other than
+// the built-in one names a spectrum file, relative to the document, which
+// is read; its Input is returned.
+func (d doc) apply(o Overrides, base datasheet.Conditions) (datasheet.Conditions, *Input, error) {
 	if o.node == nil || o.node.Kind == yaml.ScalarNode && o.node.Tag == "!!null" {
-		return base, nil
+		return base, nil, nil
 	}
 	if o.node.Kind != yaml.MappingNode {
-		return base, d.at(o.node, ErrType, "conditions: want a mapping such as {temperature_k: 300}, found %s", kindName(o.node))
+		return base, nil, d.at(o.node, ErrType, "conditions: want a mapping such as {temperature_k: 300}, found %s", kindName(o.node))
 	}
 	c := base
 	if err := o.node.Decode(&c); err != nil {
-		return base, d.yamlError(err, ErrType)
+		return base, nil, d.yamlError(err, ErrType)
+	}
+	var sky *Input
+	if n := valueNode(o.node, "sky"); n != o.node && c.Sky != "" && c.Sky != datasheet.SkyClear {
+		c.SkySpectrum = nil
+		p, err := resolvePath(d.file, c.Sky)
+		if err != nil {
+			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("sky file %q: %w (or write %q for the built-in sky)", c.Sky, err, datasheet.SkyClear)}
+		}
+		var data []byte
+		if d.fsys != nil {
+			data, err = fs.ReadFile(d.fsys, p)
+		} else {
+			err = fs.ErrNotExist
+		}
+		if err != nil {
+			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("%w %s: %w (or write %q for the built-in sky)", ErrSpectrum, p, unwrapPath(err), datasheet.SkyClear)}
+		}
+		s, err := spectra.Decode(data, p)
+		if err != nil {
+			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("%w: %w", ErrSpectrum, err)}
+		}
+		c.SkySpectrum = s
+		in := hashInput(p, data)
+		sky = &in
 	}
 	if err := c.Validate(); err != nil {
-		return base, d.at(o.node, ErrConditions, "%v", err)
+		return base, nil, d.at(o.node, ErrConditions, "%v", err)
 	}
 	if err := checkBandLimits(c); err != nil {
-		return base, d.at(o.node, ErrConditions, "%v", err)
+		return base, nil, d.at(o.node, ErrConditions, "%v", err)
 	}
-	return c, nil
+	return c, sky, nil
 }
 
 // MaxBandUM is the longest wavelength, in µm, that a band in the conditions
@@ -113,9 +143,9 @@ func checkBandLimits(c datasheet.Conditions) error {
 	return nil
 }
 
-// parseConfig reads skysheet.yaml.
-func parseConfig(src []byte) (Config, error) {
-	d := doc{file: ConfigFile}
+// parseConfig reads skysheet.yaml; fsys is the library, for a sky file.
+func parseConfig(fsys fs.FS, src []byte) (Config, error) {
+	d := doc{file: ConfigFile, fsys: fsys}
 	cfg := Config{Title: "Material library", Conditions: datasheet.DefaultConditions(), Input: hashInput(ConfigFile, src)}
 	root, err := d.parse(src)
 	if err != nil {
@@ -144,11 +174,11 @@ func parseConfig(src []byte) (Config, error) {
 		}
 	}
 	cfg.Overrides = f.Conditions
-	c, err := d.apply(f.Conditions, cfg.Conditions)
+	c, sky, err := d.apply(f.Conditions, cfg.Conditions)
 	if err != nil {
 		errs = append(errs, err)
 	}
-	cfg.Conditions = c
+	cfg.Conditions, cfg.skyInput = c, sky
 	if len(errs) > 0 {
 		return cfg, errs
 	}

@@ -38,7 +38,7 @@ type Material struct {
 	Spectrum   *spectra.Spectrum
 	Conditions datasheet.Conditions // library conditions with the front matter's overrides
 	Figures    *datasheet.Figures
-	Inputs     []Input // the Markdown file, then each spectra file in front matter order
+	Inputs     []Input // the Markdown file, each spectra file in front matter order, then a sky file if any
 }
 
 // Comparison is a page that overlays several materials.
@@ -98,10 +98,10 @@ func Load(fsys fs.FS) (*Library, error) {
 		} else {
 			add(&Error{File: ConfigFile, Err: err})
 		}
-		lib.Config, _ = parseConfig(nil)
+		lib.Config, _ = parseConfig(fsys, nil)
 		lib.Config.Input = Input{}
 	} else {
-		lib.Config, err = parseConfig(src)
+		lib.Config, err = parseConfig(fsys, src)
 		add(err)
 	}
 
@@ -113,7 +113,7 @@ func Load(fsys fs.FS) (*Library, error) {
 	for range min(runtime.GOMAXPROCS(0), max(len(files), 1)) {
 		wg.Go(func() {
 			for i := range next {
-				results[i] = readFile(fsys, files[i], lib.Config.Conditions)
+				results[i] = readFile(fsys, files[i], lib.Config)
 			}
 		})
 	}
@@ -232,7 +232,7 @@ type fileResult struct {
 }
 
 // readFile reads one content file.
-func readFile(fsys fs.FS, file string, base datasheet.Conditions) fileResult {
+func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 	var r fileResult
 	src, err := fs.ReadFile(fsys, file)
 	if err != nil {
@@ -285,9 +285,14 @@ func readFile(fsys fs.FS, file string, base datasheet.Conditions) fileResult {
 	}
 	m := &Material{Path: file, Slug: r.slug, Front: fm, Body: body, BodyLine: bodyLine, Source: src,
 		Inputs: []Input{hashInput(file, src)}}
-	m.Conditions, err = d.apply(fm.Conditions, base)
+	d.fsys = fsys
+	var sky *Input
+	m.Conditions, sky, err = d.apply(fm.Conditions, cfg.Conditions)
 	if err != nil {
 		errs = append(errs, err)
+	}
+	if sky == nil && m.Conditions.SkySpectrum != nil {
+		sky = cfg.skyInput // the config's sky file
 	}
 	var parts []*spectra.Spectrum
 	for i, ref := range fm.Spectra {
@@ -309,6 +314,9 @@ func readFile(fsys fs.FS, file string, base datasheet.Conditions) fileResult {
 			continue
 		}
 		parts = append(parts, s)
+	}
+	if sky != nil {
+		m.Inputs = append(m.Inputs, *sky)
 	}
 	if len(errs) == 0 {
 		s, err := joinSpectra(parts)

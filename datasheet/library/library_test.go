@@ -449,3 +449,37 @@ func TestSplitFront(t *testing.T) {
 		})
 	}
 }
+
+// skyT is an invented spectral sky (a zenith transmittance column).
+const skyT = "# sample: invented sky transmittance (test data)\nwavelength_nm,T\n2500,0\n7900,0\n8000,0.7\n13000,0.7\n13100,0\n100000,0\n"
+
+func TestSkyFile(t *testing.T) {
+	fsys := baseFS()
+	fsys["skysheet.yaml"] = &fstest.MapFile{Data: []byte("conditions:\n  sky: skies/dry.csv\n")}
+	fsys["skies/dry.csv"] = &fstest.MapFile{Data: []byte(skyT)}
+	lib, err := Load(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := lib.Materials[0]
+	if m.Conditions.SkySpectrum == nil || m.Conditions.Sky != "skies/dry.csv" {
+		t.Fatalf("sky not loaded: %+v", m.Conditions)
+	}
+	if last := m.Inputs[len(m.Inputs)-1]; last != hashInput("skies/dry.csv", []byte(skyT)) {
+		t.Errorf("sky input %+v", last)
+	}
+	// In front matter the path is relative to the Markdown file.
+	fsys["content/flat/sky.csv"] = &fstest.MapFile{Data: []byte(skyT)}
+	fsys["content/flat.md"] = &fstest.MapFile{Data: []byte(strings.Replace(goodMaterial, "{temperature_k: 290}", "{sky: flat/sky.csv}", 1))}
+	lib, err = Load(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if in := lib.Materials[0].Inputs; in[len(in)-1].Path != "content/flat/sky.csv" {
+		t.Errorf("inputs %+v", in)
+	}
+	// A missing sky file is an error at its line.
+	fsys["content/flat.md"] = &fstest.MapFile{Data: []byte(strings.Replace(goodMaterial, "{temperature_k: 290}", "{sky: flat/nosky.csv}", 1))}
+	_, err = Load(fsys)
+	checkErrors(t, err, []errAt{{ErrSpectrum, "content/flat.md", 14, "content/flat/nosky.csv"}})
+}

@@ -3,6 +3,7 @@ package library
 import (
 	"errors"
 	"fmt"
+	"io/fs"
 	"reflect"
 	"regexp"
 	"sort"
@@ -17,6 +18,7 @@ import (
 type doc struct {
 	file   string
 	offset int
+	fsys   fs.FS // for files named in the document (a sky file)
 }
 
 // parse reads the YAML text src into a node. An empty text gives an empty
