@@ -145,6 +145,7 @@ type Figures struct {
 	Assumptions        []string      `json:"assumptions"`
 	Conditions         Conditions    `json:"conditions"`
 	Figures            []Figure      `json:"figures"`
+	Provenance         Provenance    `json:"provenance"`
 }
 
 // Figure returns the figure with the given key.
@@ -163,7 +164,9 @@ func Compute(s *spectra.Spectrum, c Conditions) (*Figures, error) {
 		return nil, err
 	}
 	o := spectra.Resolve(s, c.ClosureTol)
-	return computeOptics(o, c), nil
+	f := computeOptics(o, c)
+	f.Provenance = provenanceOf(s, f)
+	return f, nil
 }
 
 func computeOptics(o spectra.Optics, c Conditions) *Figures {

@@ -78,6 +78,7 @@ type Spectrum struct {
 	Meta     []Field
 	Sources  []string
 	Segments []Segment
+	Inputs   []Input // files read by [Decode], with their SHA-256
 }
 
 // Get returns the first metadata value for key (compared without case) and
@@ -161,6 +162,7 @@ func Merge(parts ...*Spectrum) (*Spectrum, error) {
 		segs = append(segs, p.Segments...)
 		out.Meta = append(out.Meta, p.Meta...)
 		out.Sources = append(out.Sources, p.Sources...)
+		out.Inputs = append(out.Inputs, p.Inputs...)
 	}
 	sort.SliceStable(segs, func(i, j int) bool { return segs[i].NM[0] < segs[j].NM[0] })
 	for i, g := range segs {

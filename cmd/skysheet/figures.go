@@ -102,6 +102,26 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	fmt.Fprintf(w, "  solar band %g–%g nm, ASTM G173-03 %s spectrum\n", c.SolarBandNM[0], c.SolarBandNM[1], c.SolarSpectrum)
 	fmt.Fprintf(w, "  thermal band %g–%g µm, window band %g–%g µm, blackbody at %g K\n", c.ThermalBandUM[0], c.ThermalBandUM[1], c.WindowBandUM[0], c.WindowBandUM[1], c.TemperatureK)
 	fmt.Fprintf(w, "  closure tolerance %g\n", c.ClosureTol)
+	printProvenance(w, f.Provenance)
+}
+
+// printProvenance writes what is needed to reproduce the figures.
+func printProvenance(w io.Writer, p datasheet.Provenance) {
+	fmt.Fprintln(w, "\nProvenance:")
+	fmt.Fprintf(w, "  software: %s\n", p.Software)
+	for _, in := range p.Inputs {
+		fmt.Fprintf(w, "  input: %s sha256 %s\n", in.Name, in.SHA256)
+	}
+	for _, ws := range p.Weightings {
+		fmt.Fprintf(w, "  weighting: %s — %s", ws.Name, ws.Version)
+		if ws.SHA256 != "" {
+			fmt.Fprintf(w, ", sha256 %s", ws.SHA256)
+		}
+		fmt.Fprintln(w)
+	}
+	st := p.Settings
+	fmt.Fprintf(w, "  settings: closure tolerance %g; Planck grid step %g nm; %s; figures schema %d\n",
+		st.ClosureTolerance, st.PlanckStepNM, st.Integration, st.Schema)
 }
 
 func fmtValue(v datasheet.Num, unit string) string {
