@@ -336,6 +336,9 @@ func (p *parser) header(text string) error {
 	for len(f) > 0 && f[len(f)-1] == "" {
 		f = f[:len(f)-1]
 	}
+	if len(f) == 0 {
+		return p.errf(1, fmt.Errorf("%q %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", strings.TrimSpace(text), ErrUnknownUnit))
+	}
 	u, ok := parseAxisHeader(f[0])
 	if !ok {
 		return p.errf(1, fmt.Errorf("%q %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", f[0], ErrUnknownUnit))

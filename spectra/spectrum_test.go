@@ -1,0 +1,90 @@
+package spectra
+
+import (
+	"errors"
+	"math"
+	"strings"
+	"testing"
+)
+
+func mustParse(t *testing.T, in, name string) *Spectrum {
+	t.Helper()
+	s, err := Parse(strings.NewReader(in), name)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s
+}
+
+func TestMerge(t *testing.T) {
+	uv := mustParse(t, "wavelength_nm,R,T\n300,0.5,0.1\n2500,0.9,0.0\n", "uv.csv")
+	ir := mustParse(t, "wavelength_um,R\n2.5,0.1\n25,0.05\n", "ir.csv")
+	gap := mustParse(t, "wavelength_um,R\n3,0.1\n25,0.05\n", "gap.csv")
+	over := mustParse(t, "wavelength_um,R\n2.4,0.1\n25,0.05\n", "over.csv")
+
+	s, err := Merge(ir, uv) // order of arguments does not matter
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(s.Segments) != 1 || s.Len() != 3 {
+		t.Fatalf("touching files: %d segments, %d rows; want 1 and 3", len(s.Segments), s.Len())
+	}
+	if v, _ := s.Series(R).At(2500); v != 0.9 {
+		t.Errorf("R at the shared wavelength = %g, want the first file's 0.9", v)
+	}
+	if tr := s.Series(T); len(tr.Pieces) != 1 || tr.Pieces[0].NM[1] != 2500 {
+		t.Errorf("T should end at 2500 nm: %+v", tr)
+	}
+
+	s, err = Merge(uv, gap)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(s.Segments) != 2 {
+		t.Fatalf("gap: %d segments, want 2", len(s.Segments))
+	}
+	if _, ok := s.Series(R).At(2700); ok {
+		t.Error("a gap between files must not be interpolated")
+	}
+
+	if _, err := Merge(uv, over); !errors.Is(err, ErrOverlap) {
+		t.Errorf("overlap: err = %v, want ErrOverlap", err)
+	}
+}
+
+func TestResolve(t *testing.T) {
+	for _, tt := range []struct {
+		name     string
+		in       string
+		at       float64
+		r, tr, a float64
+		says     string // an assumption that must be stated
+		ok       bool
+	}{
+		{"R only: opaque", "wavelength_nm,R\n400,0.9\n500,0.8\n", 500, 0.8, 0, 0.2, "taken as opaque (T = 0)", true},
+		{"R and T", "wavelength_nm,R,T\n400,0.5,0.3\n500,0.6,0.3\n", 500, 0.6, 0.3, 0.1, "A = 1 − R − T", true},
+		{"T and A", "wavelength_nm,T,A\n400,0.5,0.3\n500,0.6,0.3\n", 500, 0.1, 0.6, 0.3, "R = 1 − T − A", true},
+		{"A only", "wavelength_nm,A\n400,0.5\n500,0.6\n", 500, 0.4, 0, 0.6, "opaque", true},
+		{"R+T above one", "wavelength_nm,R,T\n400,0.9,0.2\n500,0.6,0.3\n", 400, 0.9, 0.2, -0.1, "Kirchhoff", false},
+		{"negative", "wavelength_nm,R\n400,-0.04\n500,0.6\n", 400, -0.04, 0, 1.04, "opaque", false},
+		{"within tolerance", "wavelength_nm,R,T,A\n400,0.5,0.2,0.31\n500,0.6,0.2,0.2\n", 400, 0.5, 0.2, 0.31, "Kirchhoff", true},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			o := Resolve(mustParse(t, tt.in, "x"), 0.02)
+			for _, c := range []struct {
+				s    Series
+				want float64
+			}{{o.R, tt.r}, {o.T, tt.tr}, {o.A, tt.a}} {
+				if v, ok := c.s.At(tt.at); !ok || math.Abs(v-c.want) > 1e-12 {
+					t.Errorf("at %g nm: got %g (%v), want %g", tt.at, v, ok, c.want)
+				}
+			}
+			if !strings.Contains(strings.Join(o.Assumptions, " "), tt.says) {
+				t.Errorf("assumptions %q do not say %q", o.Assumptions, tt.says)
+			}
+			if o.Closure.OK() != tt.ok {
+				t.Errorf("closure ok = %v, want %v: %v", o.Closure.OK(), tt.ok, o.Closure.Problems)
+			}
+		})
+	}
+}
