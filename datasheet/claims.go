@@ -124,7 +124,7 @@ const (
 	DefaultRelUncertainty = 0.05
 	// CoverageFactor k turns the combined standard uncertainty into the
 	// allowed difference (about 95 % for a normal distribution, JCGM
-	// 100:2008 §6.3).
+	// 100:2008 §6.3, section from memory).
 	CoverageFactor = 2.0
 	// SolarStartNM is the wavelength after which solar data start too late.
 	SolarStartNM = 300.0
@@ -289,7 +289,7 @@ func figureUncertainty(fig Figure, claimed float64) (float64, string) {
 
 // roundingUncertainty is the standard uncertainty of a value known only to
 // its last written digit: half a unit of that digit over √3 (a rectangular
-// distribution, JCGM 100:2008 §F.2.2.1). The digits are those of the
+// distribution, JCGM 100:2008 §F.2.2.1, section from memory). The digits are those of the
 // shortest decimal form of v, so 0.95 has two.
 func roundingUncertainty(v float64) float64 {
 	s := strconv.FormatFloat(math.Abs(v), 'f', -1, 64)

@@ -56,7 +56,7 @@ func TestJudge(t *testing.T) {
 	stepMean := (0.9*eg(280, 2400) + 0.2*eg(2600, 4000)) / (eg(280, 2400) + eg(2600, 4000))
 	// Expanded uncertainty with k = 2 of the default 0.005 and a rounding
 	// of half a unit of the last digit over √3: JCGM 100:2008 eq. (10),
-	// §6.2 and §F.2.2.1, closed form.
+	// §6.2 and §F.2.2.1 (sections from memory), closed form.
 	u2 := func(half float64) float64 { return 2 * math.Sqrt(0.005*0.005+half*half/3) }
 
 	for _, tt := range []struct {
@@ -329,7 +329,7 @@ func TestRoundingUncertainty(t *testing.T) {
 	for _, tt := range []struct{ v, half float64 }{
 		{0.95, 0.005}, {0.9, 0.05}, {0.955, 0.0005}, {120, 0.5}, {-3.25, 0.005},
 	} {
-		// half a unit of the last digit over √3: JCGM 100:2008 §F.2.2.1
+		// half a unit of the last digit over √3: JCGM 100:2008 §F.2.2.1 (section from memory)
 		want := tt.half / math.Sqrt(3)
 		if got := roundingUncertainty(tt.v); math.Abs(got-want) > 1e-15 {
 			t.Errorf("roundingUncertainty(%g) = %g, want %g", tt.v, got, want)

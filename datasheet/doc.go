@@ -1,6 +1,7 @@
 // Package datasheet turns a measured [spectra.Spectrum] into figures of merit
 // under stated conditions: solar reflectance, transmittance and absorptance,
-// thermal and atmospheric-window emittance, and the closure check.
+// thermal and atmospheric-window emittance, and the closure check. [Judge]
+// checks a claimed figure against the spectra it rests on.
 //
 // Figures are fractions. Every figure records its band, weighting and the
 // share of the weighting its data cover, so that a reviewer can reproduce it
