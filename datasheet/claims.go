@@ -252,10 +252,15 @@ func Judge(c Claim, m JudgeInput) Verdict {
 
 	diff := computed - c.Value
 	within := math.Abs(diff) <= float64(v.Allowed)+edge
-	if fig.Unit == "" && math.Abs(c.Value) > 1.05 {
+	if fig.Unit == "" && math.Abs(c.Value) > maxFraction {
 		v.Status = NotSupported
-		v.Reason = fmt.Sprintf("The claim %s looks like a percentage: the figure is a fraction, and %g %% is %s against the computed %s.",
-			strconv.FormatFloat(c.Value, 'g', -1, 64), c.Value, fmtNum(c.Value/100, ""), fmtNum(computed, ""))
+		if looksLikePercent(c.Value, fig) {
+			v.Reason = fmt.Sprintf("The claim %s looks like a percentage: the figure is a fraction, and %g %% is %s against the computed %s.",
+				strconv.FormatFloat(c.Value, 'g', -1, 64), c.Value, fmtNum(c.Value/100, ""), fmtNum(computed, ""))
+		} else {
+			v.Reason = fmt.Sprintf("The claim %s is out of range for a fraction (at most %g), and the spectra give %s.",
+				strconv.FormatFloat(c.Value, 'g', -1, 64), maxFraction, fmtNum(computed, ""))
+		}
 		return v
 	}
 	allow := "±" + fmtNum(float64(v.Allowed), fig.Unit) + " (claimed tolerance)"
@@ -402,7 +407,7 @@ func pitfalls(c Claim, fig Figure, kind figureKind, o spectra.Optics, allowed fl
 	add := func(code PitfallCode, format string, a ...any) {
 		out = append(out, Pitfall{Code: code, Text: fmt.Sprintf(format, a...)})
 	}
-	if fig.Unit == "" && math.Abs(c.Value) > 1.05 {
+	if looksLikePercent(c.Value, fig) {
 		add(PitfallPercent, "The claim %s is above 1 for a fraction: it looks like a percentage (%s).",
 			strconv.FormatFloat(c.Value, 'g', -1, 64), fmtNum(c.Value/100, ""))
 	}
@@ -438,6 +443,25 @@ func pitfalls(c Claim, fig Figure, kind figureKind, o spectra.Optics, allowed fl
 		add(PitfallClosure, "The data break closure by more than the claim's ±%s: %s.", fmtNum(limit, ""), what)
 	}
 	return out
+}
+
+// maxFraction is the largest claim read as a fraction, as the readers
+// accept measured fractions up to 1.05.
+const maxFraction = 1.05
+
+// percentNear is how close a claim divided by 100 must come to the computed
+// fraction to be taken for a percentage (common practice, no source).
+const percentNear = 0.05
+
+// looksLikePercent reports whether a claim of a fraction figure is above
+// maxFraction and, read as a percentage, a fraction near the computed
+// value (or any fraction when none was computed).
+func looksLikePercent(v float64, fig Figure) bool {
+	if fig.Unit != "" || !(math.Abs(v) > maxFraction && math.Abs(v) <= 100*maxFraction) {
+		return false
+	}
+	x := float64(fig.Value)
+	return math.IsNaN(x) || math.Abs(v/100-x) <= percentNear
 }
 
 // measuredAngle returns the measurement's angle of incidence in degrees, or
