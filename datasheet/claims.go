@@ -201,11 +201,10 @@ func Judge(c Claim, m JudgeInput) Verdict {
 	}
 	cond, stated := c.Basis.apply(m.Conditions)
 	v.Conditions = cond
-	if err := cond.Validate(); err != nil {
+	f, err := Compute(m.Spectrum, cond)
+	if err != nil {
 		return cannot("The claim's basis cannot be computed: %v.", err)
 	}
-	o := spectra.Resolve(m.Spectrum, cond.ClosureTol)
-	f := computeOptics(o, cond)
 	fig, ok := f.Figure(c.Figure)
 	if !ok {
 		return cannot("skysheet computes no figure %q%s.", c.Figure, suggest(c.Figure, f.Figures))
@@ -213,8 +212,9 @@ func Judge(c Claim, m JudgeInput) Verdict {
 	v.Label, v.Unit, v.Computed = fig.Label, fig.Unit, fig.Value
 	kind := kindOf(fig)
 	v.Basis, v.Defaulted = basisWords(kind, fig, cond, stated, c.Basis.AngleDeg, measuredAngle(m))
-	if !reflect.DeepEqual(cond, m.Conditions) {
-		if d, ok := computeOptics(o, m.Conditions).Figure(c.Figure); ok && !sameBasis(kind, cond, m.Conditions) {
+	if !reflect.DeepEqual(cond, m.Conditions) && !sameBasis(kind, cond, m.Conditions) {
+		df, err := Compute(m.Spectrum, m.Conditions)
+		if d, ok := df.figure(err, c.Figure); ok {
 			v.DefaultBasisValue = d.Value
 			v.BasisNote = fmt.Sprintf("On the default basis (%s) the spectra give %s.",
 				basisShort(kind, d, m.Conditions), fmtNum(float64(d.Value), fig.Unit))
@@ -232,6 +232,7 @@ func Judge(c Claim, m JudgeInput) Verdict {
 		v.AllowedFrom = fmt.Sprintf("expanded uncertainty (k = %g) of the figure's standard uncertainty %s (%s) and the claim's rounding %s",
 			CoverageFactor, fmtNum(uFig, fig.Unit), from, fmtNum(uRound, fig.Unit))
 	}
+	o := spectra.Resolve(m.Spectrum, cond.ClosureTol) // for the pitfalls
 	v.Pitfalls = pitfalls(c, fig, kind, o, float64(v.Allowed))
 
 	computed := float64(fig.Value)
@@ -281,6 +282,14 @@ func Judge(c Claim, m JudgeInput) Verdict {
 	v.Reason = fmt.Sprintf("The spectra give %s, %s %s the claimed %s, outside %s.",
 		fmtNum(computed, fig.Unit), fmtNum(math.Abs(diff), fig.Unit), dir, fmtNum(c.Value, fig.Unit), allow)
 	return v
+}
+
+// figure returns the figure key of f when f was computed without error.
+func (f *Figures) figure(err error, key string) (Figure, bool) {
+	if err != nil || f == nil {
+		return Figure{}, false
+	}
+	return f.Figure(key)
 }
 
 // figureUncertainty returns the standard uncertainty of a figure and where
