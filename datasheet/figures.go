@@ -188,6 +188,7 @@ type Figures struct {
 	Sensitivity            []Sensitivity `json:"sensitivity"`
 	SRI                    SRI           `json:"sri"`
 	Cautions               []string      `json:"cautions"`
+	Provenance             Provenance    `json:"provenance"`
 }
 
 // Cautions go with every set of figures.
@@ -237,6 +238,7 @@ func Compute(s *spectra.Spectrum, c Conditions) (*Figures, error) {
 	}
 	addUncertainty(f, s, o, grads, c.ClosureTol, eval)
 	f.Cautions = append([]string(nil), Cautions...)
+	f.Provenance = provenanceOf(s, f)
 	return f, nil
 }
 
