@@ -127,7 +127,7 @@ func (d doc) apply(o Overrides, base datasheet.Conditions) (datasheet.Conditions
 // may reach. Thermal weightings are sampled every few nm, so an unbounded
 // band would make the figures arbitrarily slow to compute; 1000 µm lies far
 // beyond any thermal band in use.
-const MaxBandUM = 1000
+const MaxBandUM = datasheet.MaxBandUM
 
 // checkBandLimits rejects a µm band (a [2]float64 condition whose YAML key
 // ends in "_um") that reaches past MaxBandUM.

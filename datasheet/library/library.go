@@ -309,6 +309,9 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 		}
 		m.Inputs = append(m.Inputs, hashInput(p, data))
 		s, err := spectra.Decode(data, p)
+		if err == nil {
+			s, err = applyReference(fsys, p, s, m)
+		}
 		if err != nil {
 			errs = append(errs, &Error{File: file, Line: line, Err: fmt.Errorf("%w: %w", ErrSpectrum, err)})
 			continue
@@ -338,9 +341,35 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 	return r
 }
 
-// joinSpectra joins the spectra files of one material into one spectrum.
+// joinSpectra joins the spectra files of one material into one spectrum:
+// files that overlap are spliced with the default options (see
+// spectra.Join), files that touch or leave a gap are merged.
 func joinSpectra(parts []*spectra.Spectrum) (*spectra.Spectrum, error) {
-	return spectra.Merge(parts...)
+	return spectra.Join(parts, spectra.SpliceOptions{})
+}
+
+// applyReference makes the relative reflectance of s (read from file p)
+// absolute when its metadata names a reference-standard file, read from the
+// library relative to p and recorded among the material's inputs.
+func applyReference(fsys fs.FS, p string, s *spectra.Spectrum, m *Material) (*spectra.Spectrum, error) {
+	ref, ok := spectra.ReferenceFile(s)
+	if !ok {
+		return s, nil
+	}
+	rp, err := resolvePath(p, ref)
+	if err != nil {
+		return nil, fmt.Errorf("%s: reference_file %q: %w", p, ref, err)
+	}
+	data, err := fs.ReadFile(fsys, rp)
+	if err != nil {
+		return nil, fmt.Errorf("%s: reference standard %s: %w", p, rp, unwrapPath(err))
+	}
+	m.Inputs = append(m.Inputs, hashInput(rp, data))
+	r, err := spectra.Decode(data, rp)
+	if err != nil {
+		return nil, err
+	}
+	return spectra.ApplyReference(s, r)
 }
 
 // unwrapPath drops the *fs.PathError wrapper, whose path repeats ours.

@@ -330,11 +330,23 @@ func TestLibraryErrors(t *testing.T) {
 			t.Errorf("want the spectrum's ParseError at line 3: %v", err)
 		}
 	})
-	t.Run("overlapping spectra", func(t *testing.T) {
+	t.Run("overlapping spectra are spliced", func(t *testing.T) {
 		fsys := baseFS()
 		fsys["content/flat/thermal.csv"] = &fstest.MapFile{Data: []byte("wavelength_nm,R\n2000,0.05\n25000,0.05\n")}
+		lib, err := Load(fsys)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if s := lib.Materials[0].Spectrum; len(s.Splices) == 0 {
+			t.Errorf("overlapping files were not spliced: %+v", s.Splices)
+		}
+	})
+	t.Run("unreadable reference standard", func(t *testing.T) {
+		fsys := baseFS()
+		f := fsys["content/flat/thermal.csv"]
+		fsys["content/flat/thermal.csv"] = &fstest.MapFile{Data: append([]byte("# reference_file: ../../../outside.csv\n"), f.Data...)}
 		_, err := Load(fsys)
-		checkErrors(t, err, []errAt{{spectra.ErrOverlap, "content/flat.md", 7, ""}})
+		checkErrors(t, err, []errAt{{ErrEscapes, "content/flat.md", 9, ""}})
 	})
 }
 
