@@ -1,10 +1,19 @@
 module skysheet
 
-go 1.26
+go 1.26.0
 
-require github.com/chromedp/chromedp v0.23.0
+require (
+	github.com/chromedp/chromedp v0.23.0
+	github.com/fsnotify/fsnotify v1.10.1
+	github.com/golang/freetype v0.0.0-20170609003504-e2365dfdc4a0
+	github.com/wcharczuk/go-chart/v2 v2.1.2
+	github.com/yuin/goldmark v1.8.7
+	golang.org/x/image v0.48.0
+	gopkg.in/yaml.v3 v3.0.1
+)
 
 require (
 	github.com/chromedp/cdproto v0.159.0 // indirect
 	github.com/go-json-experiment/json v0.0.0-20260213210345-44df1a37e875 // indirect
+	golang.org/x/sys v0.50.0 // indirect
 )

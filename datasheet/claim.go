@@ -1,5 +1,7 @@
 package datasheet
 
+import "encoding/json"
+
 // Claim is a figure that a maker or author claims for a material, as written
 // in the material's front matter under "claims:".
 type Claim struct {
@@ -26,4 +28,38 @@ type Basis struct {
 	WindowBandUM  []float64 `yaml:"window_band_um,omitempty" json:"window_band_um,omitempty"`
 	TemperatureK  float64   `yaml:"temperature_k,omitempty" json:"temperature_k,omitempty"`
 	AngleDeg      float64   `yaml:"angle_deg,omitempty" json:"angle_deg,omitempty"`
+}
+
+// MarshalJSON writes the claim with non-finite numbers as null, so that a
+// malformed claim can still be reported.
+func (c Claim) MarshalJSON() ([]byte, error) {
+	return json.Marshal(struct {
+		Figure    string `json:"figure"`
+		Value     Num    `json:"value"`
+		Tolerance Num    `json:"tolerance,omitempty"`
+		Basis     Basis  `json:"basis,omitzero"`
+		Source    string `json:"source,omitempty"`
+	}{c.Figure, Num(c.Value), Num(c.Tolerance), c.Basis, c.Source})
+}
+
+// MarshalJSON writes the basis with non-finite numbers as null.
+func (b Basis) MarshalJSON() ([]byte, error) {
+	nums := func(x []float64) []Num {
+		if x == nil {
+			return nil
+		}
+		out := make([]Num, len(x))
+		for i, v := range x {
+			out[i] = Num(v)
+		}
+		return out
+	}
+	return json.Marshal(struct {
+		SolarBandNM   []Num  `json:"solar_band_nm,omitempty"`
+		SolarSpectrum string `json:"solar_spectrum,omitempty"`
+		ThermalBandUM []Num  `json:"thermal_band_um,omitempty"`
+		WindowBandUM  []Num  `json:"window_band_um,omitempty"`
+		TemperatureK  Num    `json:"temperature_k,omitempty"`
+		AngleDeg      Num    `json:"angle_deg,omitempty"`
+	}{nums(b.SolarBandNM), b.SolarSpectrum, nums(b.ThermalBandUM), nums(b.WindowBandUM), Num(b.TemperatureK), Num(b.AngleDeg)})
 }

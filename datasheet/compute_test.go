@@ -185,6 +185,7 @@ func TestConditionsValidate(t *testing.T) {
 		{"below G173", func(c *Conditions) { c.SolarBandNM = [2]float64{250, 2500} }, false},
 		{"reversed", func(c *Conditions) { c.ThermalBandUM = [2]float64{25, 2.5} }, false},
 		{"unknown spectrum", func(c *Conditions) { c.SolarSpectrum = "am0" }, false},
+		{"huge thermal band", func(c *Conditions) { c.ThermalBandUM = [2]float64{2.5, 1e9} }, false},
 		{"zero kelvin", func(c *Conditions) { c.TemperatureK = 0 }, false},
 		{"negative tolerance", func(c *Conditions) { c.ClosureTol = -1 }, false},
 	} {

@@ -4,7 +4,7 @@
 // cooling figures under a stated sky — net cooling power by day and by night,
 // the equilibrium temperature below ambient, the Solar Reflectance Index of
 // ASTM E1980 — with their standard uncertainties when the data give those of
-// R and T.
+// R and T. [Judge] checks a claimed figure against the spectra it rests on.
 //
 // Band figures are fractions; cooling powers are in W/m² and temperatures in
 // kelvin. Every figure records its band, weighting (for the cooling figures:

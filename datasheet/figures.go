@@ -67,6 +67,9 @@ func (c Conditions) Validate() error {
 		if !(b[0] > 0 && b[1] > b[0]) || math.IsInf(b[1], 0) {
 			return fmt.Errorf("%s %g–%g %s: want 0 < low < high", name, b[0], b[1], unit)
 		}
+		if unit == "µm" && b[1] > MaxBandUM {
+			return fmt.Errorf("%s %g–%g µm: the upper end may not pass %g µm", name, b[0], b[1], float64(MaxBandUM))
+		}
 		return nil
 	}
 	if err := band("solar band", c.SolarBandNM, "nm"); err != nil {
@@ -92,6 +95,11 @@ func (c Conditions) Validate() error {
 	}
 	return c.validateCooling()
 }
+
+// MaxBandUM is the longest wavelength, in µm, that a thermal, window or
+// exchange band may reach: far beyond any thermal figure, and a bound on the
+// work a Planck-weighted integral may take.
+const MaxBandUM = 1000
 
 // Num is a figure's value; NaN means "not computable" and is written as
 // JSON null.
@@ -188,6 +196,7 @@ type Figures struct {
 	Sensitivity            []Sensitivity `json:"sensitivity"`
 	SRI                    SRI           `json:"sri"`
 	Cautions               []string      `json:"cautions"`
+	Provenance             Provenance    `json:"provenance"`
 }
 
 // Cautions go with every set of figures.
@@ -237,6 +246,7 @@ func Compute(s *spectra.Spectrum, c Conditions) (*Figures, error) {
 	}
 	addUncertainty(f, s, o, grads, c.ClosureTol, eval)
 	f.Cautions = append([]string(nil), Cautions...)
+	f.Provenance = provenanceOf(s, f)
 	return f, nil
 }
 

@@ -79,8 +79,17 @@ func Read(fsys fs.FS, name string) (*Spectrum, error) {
 }
 
 // Decode reads a spectrum from data, choosing the reader by name's extension
-// as [Read] does.
+// as [Read] does. The result's Inputs record name and the SHA-256 of data.
 func Decode(data []byte, name string) (*Spectrum, error) {
+	s, err := decode(data, name)
+	if err != nil {
+		return nil, err
+	}
+	s.Inputs = []Input{inputOf(name, data)}
+	return s, nil
+}
+
+func decode(data []byte, name string) (*Spectrum, error) {
 	switch strings.ToLower(path.Ext(name)) {
 	case ".jdx", ".dx", ".jcamp":
 		if readJCAMP == nil {

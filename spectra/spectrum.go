@@ -85,6 +85,7 @@ type Spectrum struct {
 	// Splices records every junction where two instruments' data were
 	// spliced (see [Splice]).
 	Splices []SpliceRecord
+	Inputs  []Input // files read by [Decode], with their SHA-256
 }
 
 // Get returns the first metadata value for key (compared without case) and
@@ -171,6 +172,7 @@ func Merge(parts ...*Spectrum) (*Spectrum, error) {
 		out.Sources = append(out.Sources, p.Sources...)
 		out.Notes = append(out.Notes, p.Notes...)
 		out.Splices = append(out.Splices, p.Splices...)
+		out.Inputs = append(out.Inputs, p.Inputs...)
 	}
 	sort.SliceStable(segs, func(i, j int) bool { return segs[i].NM[0] < segs[j].NM[0] })
 	for i, g := range segs {

@@ -140,6 +140,7 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	}
 	fmt.Fprintf(w, "  cooling: air %g K, dew point %g °C, sun %g W/m², h %g W m⁻² K⁻¹, exchange band %g–%g µm, sky %s\n",
 		c.AmbientK, c.DewPointC, c.IrradianceWm2, c.HWm2K, c.ExchangeBandUM[0], c.ExchangeBandUM[1], sky)
+	printProvenance(w, f.Provenance)
 	if len(f.Cautions) > 0 {
 		fmt.Fprintln(w, "\nCautions:")
 		for _, x := range f.Cautions {
@@ -253,6 +254,25 @@ func fmtBands(b [][2]float64) string {
 		parts[i] = fmt.Sprintf("%g–%g µm", x[0], x[1])
 	}
 	return strings.Join(parts, ", ")
+}
+
+// printProvenance writes what is needed to reproduce the figures.
+func printProvenance(w io.Writer, p datasheet.Provenance) {
+	fmt.Fprintln(w, "\nProvenance:")
+	fmt.Fprintf(w, "  software: %s\n", p.Software)
+	for _, in := range p.Inputs {
+		fmt.Fprintf(w, "  input: %s sha256 %s\n", in.Name, in.SHA256)
+	}
+	for _, ws := range p.Weightings {
+		fmt.Fprintf(w, "  weighting: %s — %s", ws.Name, ws.Version)
+		if ws.SHA256 != "" {
+			fmt.Fprintf(w, ", sha256 %s", ws.SHA256)
+		}
+		fmt.Fprintln(w)
+	}
+	st := p.Settings
+	fmt.Fprintf(w, "  settings: closure tolerance %g; Planck grid step %g nm; %s; figures schema %d\n",
+		st.ClosureTolerance, st.PlanckStepNM, st.Integration, st.Schema)
 }
 
 func fmtValue(v datasheet.Num, unit string) string {

@@ -1,0 +1,283 @@
+package main
+
+import (
+	"bytes"
+	"flag"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"testing"
+)
+
+var update = flag.Bool("update", false, "rewrite the golden files in testdata/")
+
+// copyLibrary copies the test library to a fresh folder and returns it.
+func copyLibrary(t *testing.T) string {
+	t.Helper()
+	dst := filepath.Join(t.TempDir(), "lib")
+	src := filepath.Join("..", "..", "testdata", "library")
+	err := filepath.WalkDir(src, func(p string, d fs.DirEntry, err error) error {
+		if err != nil {
+			return err
+		}
+		rel, _ := filepath.Rel(src, p)
+		target := filepath.Join(dst, rel)
+		if d.IsDir() {
+			return os.MkdirAll(target, 0o755)
+		}
+		data, err := os.ReadFile(p)
+		if err != nil {
+			return err
+		}
+		return os.WriteFile(target, data, 0o644)
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return dst
+}
+
+// readTree returns every file below dir by slash path.
+func readTree(t *testing.T, dir string) map[string][]byte {
+	t.Helper()
+	out := map[string][]byte{}
+	err := filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {
+		if err != nil || d.IsDir() {
+			return err
+		}
+		data, err := os.ReadFile(p)
+		rel, _ := filepath.Rel(dir, p)
+		out[filepath.ToSlash(rel)] = data
+		return err
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return out
+}
+
+func TestBuildCommand(t *testing.T) {
+	lib := copyLibrary(t)
+	out := filepath.Join(t.TempDir(), "public")
+	code, stdout, stderr := runCLI("build", lib, "-o", out)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	if !strings.Contains(stdout, "3 materials, 1 comparison") {
+		t.Errorf("summary %q", stdout)
+	}
+	if _, err := os.Stat(filepath.Join(out, "m", "frostline", "index.html")); err != nil {
+		t.Error(err)
+	}
+	if code, _, _ := runCLI("build", lib, lib, "-o", out); code != 2 {
+		t.Errorf("two folders: exit %d, want 2", code)
+	}
+	if code, _, _ := runCLI("build", filepath.Join(lib, "nothere"), "-o", out); code != 2 {
+		t.Errorf("missing folder: exit %d, want 2", code)
+	}
+}
+
+func TestBuildDeterministic(t *testing.T) {
+	lib := copyLibrary(t)
+	a, b := filepath.Join(t.TempDir(), "a"), filepath.Join(t.TempDir(), "b")
+	for _, out := range []string{a, b} {
+		if _, err := buildSite(lib, out, "test", &bytes.Buffer{}, false); err != nil {
+			t.Fatal(err)
+		}
+	}
+	ta, tb := readTree(t, a), readTree(t, b)
+	if len(ta) == 0 || len(ta) != len(tb) {
+		t.Fatalf("%d files vs %d", len(ta), len(tb))
+	}
+	for name, data := range ta {
+		if !bytes.Equal(data, tb[name]) {
+			t.Errorf("%s differs between two builds", name)
+		}
+	}
+}
+
+func TestBuildAtomic(t *testing.T) {
+	lib := copyLibrary(t)
+	parent := t.TempDir()
+	out := filepath.Join(parent, "public")
+	if _, err := buildSite(lib, out, "v1", &bytes.Buffer{}, false); err != nil {
+		t.Fatal(err)
+	}
+	before := readTree(t, out)
+
+	// Bad data: the build stops before writing.
+	md := filepath.Join(lib, "content", "roof", "basalt.md")
+	good, _ := os.ReadFile(md)
+	writeAt(t, md, strings.Replace(string(good), "category:", "categroy:", 1))
+	code, _, stderr := runCLI("build", lib, "-o", out)
+	if code != 1 || strings.Count(stderr, "\n  ") != 1 || !strings.Contains(stderr, "content/roof/basalt.md:5:1: unknown key") || !strings.Contains(stderr, `did you mean "category"?`) {
+		t.Errorf("exit %d, stderr %q", code, stderr)
+	}
+	writeAt(t, md, string(good))
+
+	// A failure while writing files, midway through the site.
+	failAfter = 10
+	_, err := buildSite(lib, out, "v2", &bytes.Buffer{}, false)
+	failAfter = 0
+	if err == nil {
+		t.Fatal("injected failure not reported")
+	}
+	after := readTree(t, out)
+	if len(after) != len(before) {
+		t.Fatalf("old site changed: %d files, was %d", len(after), len(before))
+	}
+	for name, data := range before {
+		if !bytes.Equal(data, after[name]) {
+			t.Errorf("%s changed by a failed build", name)
+		}
+	}
+	entries, _ := os.ReadDir(parent)
+	if len(entries) != 1 {
+		var names []string
+		for _, e := range entries {
+			names = append(names, e.Name())
+		}
+		t.Errorf("left behind: %v", names)
+	}
+	// And a good build replaces the old site.
+	if _, err := buildSite(lib, out, "v3", &bytes.Buffer{}, false); err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Contains(readTree(t, out)["index.html"], []byte("skysheet v3")) {
+		t.Error("site not replaced")
+	}
+}
+
+func TestBuildRefusesOutput(t *testing.T) {
+	lib := copyLibrary(t)
+	other := t.TempDir()
+	writeAt(t, filepath.Join(other, "notes.txt"), "keep me")
+	for _, out := range []string{lib, filepath.Dir(lib), filepath.Join(lib, "content", "site"), other} {
+		code, _, stderr := runCLI("build", lib, "-o", out)
+		if code != 2 {
+			t.Errorf("-o %s: exit %d, want 2 (%s)", out, code, stderr)
+		}
+	}
+	if data, _ := os.ReadFile(filepath.Join(other, "notes.txt")); string(data) != "keep me" {
+		t.Error("unrelated folder was touched")
+	}
+}
+
+// svgBody matches the inside of an inline chart.
+var svgBody = regexp.MustCompile(`(?s)(<svg [^>]*>).*?</svg>`)
+
+// normalise keeps a page's HTML but replaces chart drawings (checked by
+// the chart tests) with a marker, so the golden file shows the page.
+func normalise(b []byte) []byte {
+	return svgBody.ReplaceAll(b, []byte("$1…</svg>"))
+}
+
+func TestGoldenDatasheet(t *testing.T) {
+	lib := copyLibrary(t)
+	out := filepath.Join(t.TempDir(), "public")
+	if _, err := buildSite(lib, out, "test", &bytes.Buffer{}, false); err != nil {
+		t.Fatal(err)
+	}
+	got, err := os.ReadFile(filepath.Join(out, "m", "frostline", "index.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	got = normalise(got)
+	golden := filepath.Join("testdata", "datasheet-frostline.golden")
+	if *update {
+		if err := os.MkdirAll("testdata", 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(golden, got, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	want, err := os.ReadFile(golden)
+	if err != nil {
+		t.Fatalf("%v (run go test -update to create it)", err)
+	}
+	if !bytes.Equal(got, want) {
+		t.Errorf("%s differs; check the page and rerun with -update", golden)
+	}
+}
+
+func TestBuildEscapesContent(t *testing.T) {
+	lib := copyLibrary(t)
+	md := filepath.Join(lib, "content", "roof", "basalt.md")
+	src, _ := os.ReadFile(md)
+	writeAt(t, md, strings.Replace(string(src), "title: Basalt roof coating (invented)", `title: "<script>alert('x')</script> Basalt"`, 1))
+	out := filepath.Join(t.TempDir(), "public")
+	if _, err := buildSite(lib, out, "test", &bytes.Buffer{}, false); err != nil {
+		t.Fatal(err)
+	}
+	for name, data := range readTree(t, out) {
+		if strings.HasSuffix(name, ".html") && bytes.Contains(data, []byte("<script>alert")) {
+			t.Errorf("%s holds the title unescaped", name)
+		}
+	}
+	page, _ := os.ReadFile(filepath.Join(out, "m", "basalt", "index.html"))
+	if !bytes.Contains(page, []byte("&lt;script&gt;alert(&#39;x&#39;)&lt;/script&gt; Basalt")) {
+		t.Error("escaped title not found")
+	}
+}
+
+func TestBuildPathEscapes(t *testing.T) {
+	outside := filepath.Join(t.TempDir(), "outside.csv")
+	writeAt(t, outside, "wavelength_nm,R\n280,0.5\n2500,0.5\n")
+	for _, tc := range []struct {
+		name, file string
+		link       bool // make content/roof/link.csv a symbolic link to outside
+		want       string
+	}{
+		{"dot-dot", "../../../outside.csv", false, "path leaves the library folder"},
+		{"absolute", outside, false, "absolute paths are not allowed"},
+		{"symlink out", "link.csv", true, "escapes"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			lib := copyLibrary(t)
+			if tc.link {
+				if err := os.Symlink(outside, filepath.Join(lib, "content", "roof", "link.csv")); err != nil {
+					t.Skip("no symbolic links here:", err)
+				}
+			}
+			md := filepath.Join(lib, "content", "roof", "basalt.md")
+			src, _ := os.ReadFile(md)
+			writeAt(t, md, strings.Replace(string(src), "file: basalt-uvvis.csv", "file: "+tc.file, 1))
+			code, _, stderr := runCLI("build", lib, "-o", filepath.Join(t.TempDir(), "public"))
+			if code != 1 || !strings.Contains(stderr, "content/roof/basalt.md:9:") || !strings.Contains(stderr, tc.want) {
+				t.Errorf("exit %d, stderr %q; want exit 1 naming basalt.md:9 and %q", code, stderr, tc.want)
+			}
+		})
+	}
+	// A symbolic link that stays inside the library is fine.
+	lib := copyLibrary(t)
+	if err := os.Symlink("basalt-uvvis.csv", filepath.Join(lib, "content", "roof", "inside.csv")); err == nil {
+		md := filepath.Join(lib, "content", "roof", "basalt.md")
+		src, _ := os.ReadFile(md)
+		writeAt(t, md, strings.Replace(string(src), "file: basalt-uvvis.csv", "file: inside.csv", 1))
+		if code, _, stderr := runCLI("build", lib, "-o", filepath.Join(t.TempDir(), "public")); code != 0 {
+			t.Errorf("inside link: exit %d: %s", code, stderr)
+		}
+	}
+}
+
+func TestProgressBar(t *testing.T) {
+	var b bytes.Buffer
+	lib := copyLibrary(t)
+	if _, err := buildSite(lib, filepath.Join(t.TempDir(), "p"), "test", &b, true); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(b.String(), "] 3/3 materials") {
+		t.Errorf("progress %q", b.String())
+	}
+}
+
+// writeAt writes a file at path p.
+func writeAt(t *testing.T, p, data string) {
+	t.Helper()
+	if err := os.WriteFile(p, []byte(data), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}

@@ -1,0 +1,213 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io/fs"
+	"os"
+	"sort"
+
+	"skysheet/datasheet"
+	"skysheet/datasheet/library"
+)
+
+func init() {
+	register(&command{
+		name:    "check",
+		args:    "[DIR]",
+		summary: "check a library without building it: read every file and judge every claim against the spectra",
+		run:     runCheck,
+	})
+}
+
+// checkReport is the result of "skysheet check", grouped by file. Its JSON
+// form is printed by --format json.
+type checkReport struct {
+	Library   string          `json:"library"`
+	Software  string          `json:"software"`
+	Strict    bool            `json:"strict"`
+	OK        bool            `json:"ok"`
+	Counts    checkCounts     `json:"counts"`
+	Materials []checkMaterial `json:"materials"`
+}
+
+// checkCounts sums up a report.
+type checkCounts struct {
+	Files        int `json:"files"` // Markdown files and the config
+	InvalidFiles int `json:"invalid_files"`
+	ClosureFails int `json:"closure_failures"`
+	Claims       int `json:"claims"`
+	Supported    int `json:"supported"`
+	NotSupported int `json:"not_supported"`
+	CannotCheck  int `json:"cannot_be_checked"`
+}
+
+// checkMaterial is what was found in one file: a material, or the config or
+// another file that failed to load.
+type checkMaterial struct {
+	Path     string                   `json:"path"`
+	Slug     string                   `json:"slug,omitempty"`
+	Title    string                   `json:"title,omitempty"`
+	Errors   []string                 `json:"errors"` // the file is invalid when not empty
+	Inputs   []library.Input          `json:"inputs"`
+	Closure  *datasheet.ClosureReport `json:"closure,omitempty"`
+	Verdicts []datasheet.Verdict      `json:"verdicts"`
+}
+
+// failed reports whether the file fails the check.
+func (m *checkMaterial) failed(strict bool) bool {
+	if len(m.Errors) > 0 || m.Closure != nil && !m.Closure.OK {
+		return true
+	}
+	for _, v := range m.Verdicts {
+		if v.Status == datasheet.NotSupported || strict && v.Status == datasheet.CannotCheck {
+			return true
+		}
+	}
+	return false
+}
+
+func runCheck(e *env, args []string) error {
+	fl := newFlags(e, commands["check"])
+	format := fl.String("format", "text", "output: text (a report grouped by material), json or junit (JUnit XML)")
+	strict := fl.Bool("strict", false, "also fail when a claim cannot be checked")
+	pos, err := parseFlags(fl, args)
+	if err != nil {
+		return err
+	}
+	write, ok := checkWriters[*format]
+	if !ok {
+		return usagef("--format %q: want text, json or junit", *format)
+	}
+	dir := "."
+	switch len(pos) {
+	case 0:
+	case 1:
+		dir = pos[0]
+	default:
+		return usagef("one library folder at most, got %d arguments", len(pos))
+	}
+	fsys, closeFS, err := openLibrary(dir)
+	if err != nil {
+		return err
+	}
+	defer closeFS()
+	lib, err := library.Load(fsys)
+	r := buildCheck(dir, lib, err, *strict)
+	if err := write(e.stdout, r); err != nil {
+		return err
+	}
+	if !r.OK {
+		return errSilentFailure
+	}
+	return nil
+}
+
+// openLibrary opens dir as a file system that cannot be left, not even by
+// a symbolic link. A missing folder is bad usage.
+func openLibrary(dir string) (fs.FS, func(), error) {
+	st, err := os.Stat(dir)
+	if err != nil || !st.IsDir() {
+		return nil, nil, usagef("%s is not a library folder (want a folder holding skysheet.yaml and content/)", dir)
+	}
+	root, err := os.OpenRoot(dir)
+	if err != nil {
+		return nil, nil, err
+	}
+	return root.FS(), func() { root.Close() }, nil
+}
+
+// buildCheck judges every claim of lib and files the load errors under the
+// file they name.
+func buildCheck(dir string, lib *library.Library, loadErr error, strict bool) *checkReport {
+	r := &checkReport{Library: dir, Software: "skysheet " + datasheet.Version(), Strict: strict}
+	byPath := map[string]*checkMaterial{}
+	get := func(p string) *checkMaterial {
+		if m, ok := byPath[p]; ok {
+			return m
+		}
+		m := &checkMaterial{Path: p, Errors: []string{}, Inputs: []library.Input{}, Verdicts: []datasheet.Verdict{}}
+		byPath[p] = m
+		return m
+	}
+	get(library.ConfigFile)
+	if lib != nil {
+		if in := lib.Config.Input; in.Path != "" {
+			get(library.ConfigFile).Inputs = []library.Input{in}
+		}
+		for _, c := range lib.Comparisons {
+			cm := get(c.Path)
+			cm.Slug, cm.Title = c.Slug, c.Front.Title
+		}
+		for _, mat := range lib.Materials {
+			cm := get(mat.Path)
+			cm.Slug, cm.Title, cm.Inputs = mat.Slug, mat.Front.Title, mat.Inputs
+			if mat.Figures != nil {
+				cl := mat.Figures.Closure
+				cm.Closure = &cl
+			}
+			in := datasheet.JudgeInput{Spectrum: mat.Spectrum, Conditions: mat.Conditions, Angle: mat.Front.Measured.Angle}
+			for i, c := range mat.Front.Claims {
+				if err := c.Validate(); err != nil {
+					cm.Errors = append(cm.Errors, fmt.Sprintf("%s: claim %d: %v", mat.Path, i+1, err))
+				}
+				cm.Verdicts = append(cm.Verdicts, datasheet.Judge(c, in))
+			}
+		}
+	}
+	for _, err := range splitErrors(loadErr) {
+		p := ""
+		var le *library.Error
+		if errors.As(err, &le) {
+			p = le.File
+		}
+		m := get(p)
+		m.Errors = append(m.Errors, err.Error())
+	}
+
+	for _, m := range byPath {
+		r.Materials = append(r.Materials, *m)
+	}
+	sort.Slice(r.Materials, func(i, j int) bool { return r.Materials[i].Path < r.Materials[j].Path })
+	r.OK = true
+	for i := range r.Materials {
+		m := &r.Materials[i]
+		r.Counts.Files++
+		if len(m.Errors) > 0 {
+			r.Counts.InvalidFiles++
+		}
+		if m.Closure != nil && !m.Closure.OK {
+			r.Counts.ClosureFails++
+		}
+		for _, v := range m.Verdicts {
+			r.Counts.Claims++
+			switch v.Status {
+			case datasheet.Supported:
+				r.Counts.Supported++
+			case datasheet.NotSupported:
+				r.Counts.NotSupported++
+			default:
+				r.Counts.CannotCheck++
+			}
+		}
+		if m.failed(strict) {
+			r.OK = false
+		}
+	}
+	return r
+}
+
+// splitErrors returns the single errors inside err.
+func splitErrors(err error) []error {
+	if err == nil {
+		return nil
+	}
+	if es, ok := err.(library.Errors); ok {
+		var out []error
+		for _, e := range es {
+			out = append(out, splitErrors(e)...)
+		}
+		return out
+	}
+	return []error{err}
+}

@@ -1,0 +1,197 @@
+package library
+
+import (
+	"fmt"
+	"io/fs"
+	"net/url"
+	"reflect"
+	"strings"
+
+	"gopkg.in/yaml.v3"
+
+	"skysheet/datasheet"
+	"skysheet/spectra"
+)
+
+// ConfigFile is the name of the site configuration at the library root.
+const ConfigFile = "skysheet.yaml"
+
+// Config is the site configuration read from skysheet.yaml.
+type Config struct {
+	Title       string // site title; "Material library" when not given
+	BaseURL     string // absolute URL the site is published at, ending in "/"; may be empty
+	Description string
+	AllowHTML   bool // let raw HTML in Markdown bodies through (off by default)
+	Lab         string
+	Publisher   string
+	// Conditions are the library defaults: [datasheet.DefaultConditions]
+	// with the config's "conditions:" keys applied.
+	Conditions datasheet.Conditions
+	// Overrides are the condition keys the config itself sets.
+	Overrides Overrides
+	// Input is the config file and its SHA-256.
+	Input Input
+	// skyInput is the sky file the config names, if any.
+	skyInput *Input
+}
+
+// configFile is the YAML form of skysheet.yaml.
+type configFile struct {
+	Title       string    `yaml:"title"`
+	BaseURL     string    `yaml:"base_url"`
+	Description string    `yaml:"description"`
+	AllowHTML   bool      `yaml:"allow_html"`
+	Conditions  Overrides `yaml:"conditions"`
+	Lab         string    `yaml:"lab"`
+	Publisher   string    `yaml:"publisher"`
+}
+
+// Overrides holds the condition keys given under "conditions:" in the config
+// or in front matter. Keys are those of [datasheet.Conditions] in YAML
+// (solar_band_nm, temperature_k, ...); keys not given keep the value they
+// override.
+type Overrides struct {
+	node *yaml.Node
+}
+
+func init() {
+	standIns[reflect.TypeFor[Overrides]()] = reflect.TypeFor[datasheet.Conditions]()
+}
+
+// UnmarshalYAML keeps the node; it is checked and applied by [Load].
+func (o *Overrides) UnmarshalYAML(n *yaml.Node) error {
+	o.node = n
+	return nil
+}
+
+// Keys returns the condition keys set, in the order written.
+func (o Overrides) Keys() []string {
+	if o.node == nil || o.node.Kind != yaml.MappingNode {
+		return nil
+	}
+	var keys []string
+	for i := 0; i+1 < len(o.node.Content); i += 2 {
+		keys = append(keys, o.node.Content[i].Value)
+	}
+	return keys
+}
+
+// apply returns base with the overrides set, validated. A sky other than
+// the built-in one names a spectrum file, relative to the document, which
+// is read; its Input is returned.
+func (d doc) apply(o Overrides, base datasheet.Conditions) (datasheet.Conditions, *Input, error) {
+	if o.node == nil || o.node.Kind == yaml.ScalarNode && o.node.Tag == "!!null" {
+		return base, nil, nil
+	}
+	if o.node.Kind != yaml.MappingNode {
+		return base, nil, d.at(o.node, ErrType, "conditions: want a mapping such as {temperature_k: 300}, found %s", kindName(o.node))
+	}
+	c := base
+	if err := o.node.Decode(&c); err != nil {
+		return base, nil, d.yamlError(err, ErrType)
+	}
+	var sky *Input
+	if n := valueNode(o.node, "sky"); n != o.node && c.Sky != "" && c.Sky != datasheet.SkyClear {
+		c.SkySpectrum = nil
+		p, err := resolvePath(d.file, c.Sky)
+		if err != nil {
+			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("sky file %q: %w (or write %q for the built-in sky)", c.Sky, err, datasheet.SkyClear)}
+		}
+		var data []byte
+		if d.fsys != nil {
+			data, err = fs.ReadFile(d.fsys, p)
+		} else {
+			err = fs.ErrNotExist
+		}
+		if err != nil {
+			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("%w %s: %w (or write %q for the built-in sky)", ErrSpectrum, p, unwrapPath(err), datasheet.SkyClear)}
+		}
+		s, err := spectra.Decode(data, p)
+		if err != nil {
+			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("%w: %w", ErrSpectrum, err)}
+		}
+		c.SkySpectrum = s
+		in := hashInput(p, data)
+		sky = &in
+	}
+	if err := c.Validate(); err != nil {
+		return base, nil, d.at(o.node, ErrConditions, "%v", err)
+	}
+	if err := checkBandLimits(c); err != nil {
+		return base, nil, d.at(o.node, ErrConditions, "%v", err)
+	}
+	return c, sky, nil
+}
+
+// MaxBandUM is the longest wavelength, in µm, that a band in the conditions
+// may reach. Thermal weightings are sampled every few nm, so an unbounded
+// band would make the figures arbitrarily slow to compute; 1000 µm lies far
+// beyond any thermal band in use.
+const MaxBandUM = datasheet.MaxBandUM
+
+// checkBandLimits rejects a µm band (a [2]float64 condition whose YAML key
+// ends in "_um") that reaches past MaxBandUM.
+func checkBandLimits(c datasheet.Conditions) error {
+	v := reflect.ValueOf(c)
+	for i := range v.NumField() {
+		f := v.Type().Field(i)
+		key, _, _ := strings.Cut(f.Tag.Get("yaml"), ",")
+		if b, ok := v.Field(i).Interface().([2]float64); ok && strings.HasSuffix(key, "_um") && b[1] > MaxBandUM {
+			return fmt.Errorf("%s %g–%g µm: the upper end may not pass %d µm", key, b[0], b[1], MaxBandUM)
+		}
+	}
+	return nil
+}
+
+// parseConfig reads skysheet.yaml; fsys is the library, for a sky file.
+func parseConfig(fsys fs.FS, src []byte) (Config, error) {
+	d := doc{file: ConfigFile, fsys: fsys}
+	cfg := Config{Title: "Material library", Conditions: datasheet.DefaultConditions(), Input: hashInput(ConfigFile, src)}
+	root, err := d.parse(src)
+	if err != nil {
+		return cfg, err
+	}
+	var f configFile
+	var errs Errors
+	usable, err := d.decode(root, &f)
+	if err != nil {
+		errs = append(errs, err.(Errors)...)
+	}
+	if !usable {
+		return cfg, errs
+	}
+	if t := strings.TrimSpace(f.Title); t != "" {
+		cfg.Title = t
+	}
+	cfg.Description, cfg.AllowHTML = strings.TrimSpace(f.Description), f.AllowHTML
+	cfg.Lab, cfg.Publisher = strings.TrimSpace(f.Lab), strings.TrimSpace(f.Publisher)
+	if b := strings.TrimSpace(f.BaseURL); b != "" {
+		u, err := url.Parse(b)
+		if err != nil || (u.Scheme != "http" && u.Scheme != "https") || u.Host == "" {
+			errs = append(errs, d.at(valueNode(root, "base_url"), ErrType, "base_url %q: want an absolute http or https URL", b))
+		} else {
+			cfg.BaseURL = strings.TrimSuffix(u.String(), "/") + "/"
+		}
+	}
+	cfg.Overrides = f.Conditions
+	c, sky, err := d.apply(f.Conditions, cfg.Conditions)
+	if err != nil {
+		errs = append(errs, err)
+	}
+	cfg.Conditions, cfg.skyInput = c, sky
+	if len(errs) > 0 {
+		return cfg, errs
+	}
+	return cfg, nil
+}
+
+// valueNode returns the value node of key in mapping m, or m itself when
+// the key is absent.
+func valueNode(m *yaml.Node, key string) *yaml.Node {
+	for i := 0; i+1 < len(m.Content); i += 2 {
+		if m.Content[i].Value == key {
+			return m.Content[i+1]
+		}
+	}
+	return m
+}

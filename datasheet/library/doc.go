@@ -1,0 +1,30 @@
+// Package library reads a library folder: a site configuration
+// (skysheet.yaml), Markdown files with YAML front matter under content/, and
+// the spectra files they name. Each material's spectra are read, joined and
+// turned into [datasheet.Figures] under the library's conditions overridden
+// by the material's own.
+//
+// # Layout
+//
+//	skysheet.yaml          site config: title, base_url, description, allow_html, conditions, lab, publisher
+//	content/**/*.md        one material (or comparison page) per file: front matter, then Markdown
+//	content/**/<spectra>   spectra files named in the front matter, relative to the .md file
+//	templates/*.html       optional template overrides (read by the site package, not here)
+//
+// # Strictness
+//
+// Config and front matter are parsed strictly: an unknown or repeated key, a
+// value of the wrong type, a missing required key or a path that leaves the
+// library is an [*Error] naming the file, line and column, and for an
+// unknown key the nearest known key. [Load] collects the errors of every
+// file and returns them together as [Errors].
+//
+// # Paths
+//
+// Load reads only through the [fs.FS] it is given, which is rooted at the
+// library folder. Spectra paths are slash-separated and relative to the
+// Markdown file; absolute paths, backslashes and paths that climb out of the
+// library with ".." are rejected. Symbolic links that leave the folder must
+// be refused by the file system the caller builds (for example with
+// [os.Root]).
+package library

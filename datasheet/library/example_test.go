@@ -1,0 +1,39 @@
+package library_test
+
+import (
+	"fmt"
+	"testing/fstest"
+
+	"skysheet/datasheet/library"
+)
+
+func ExampleLoad() {
+	fsys := fstest.MapFS{
+		"skysheet.yaml": {Data: []byte("title: Example library\n")},
+		"content/grey.md": {Data: []byte(`---
+title: Grey test panel (invented)
+maker: Example maker (invented)
+spectra:
+  - file: grey.csv
+---
+A flat grey reflector.
+`)},
+		"content/grey.csv": {Data: []byte("wavelength_nm,R\n280,0.5\n2500,0.5\n")},
+	}
+	lib, err := library.Load(fsys)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	m := lib.Materials[0]
+	fmt.Printf("%s: %s, solar reflectance %.3f\n", m.Slug, m.Front.Title, m.Figures.SolarReflectance)
+
+	fsys["content/grey.md"].Data = []byte("---\ntitle: Grey\nmakr: x\n---\n")
+	_, err = library.Load(fsys)
+	fmt.Println(err)
+	// Output:
+	// grey: Grey test panel (invented), solar reflectance 0.500
+	// content/grey.md:3:1: unknown key: "makr" (did you mean "maker"?)
+	// content/grey.md:1: missing required key: maker (or lab: who made or measured the material)
+	// content/grey.md:1: missing required key: spectra (a list of spectra files, each with file:)
+}

@@ -1,0 +1,158 @@
+package library
+
+import (
+	"bytes"
+	"strings"
+
+	"gopkg.in/yaml.v3"
+
+	"skysheet/datasheet"
+)
+
+// FrontMatter is the YAML block at the top of a content file. A material
+// needs title, maker or lab, and at least one spectra entry; a comparison
+// page has title and compare, and may have slug and summary.
+type FrontMatter struct {
+	Title       string            `yaml:"title"`
+	Slug        string            `yaml:"slug"` // default: from the file name
+	Maker       string            `yaml:"maker"`
+	Lab         string            `yaml:"lab"`
+	ProductCode string            `yaml:"product_code"`
+	Category    string            `yaml:"category"` // free text, e.g. paint, film, fabric, membrane
+	Tags        []string          `yaml:"tags"`
+	Summary     string            `yaml:"summary"`
+	License     string            `yaml:"license"` // licence of the data
+	Spectra     []SpectrumRef     `yaml:"spectra"`
+	Measured    Measured          `yaml:"measured"`
+	Conditions  Overrides         `yaml:"conditions"`
+	Claims      []datasheet.Claim `yaml:"claims"`
+	Compare     []string          `yaml:"compare"` // slugs of materials: makes the file a comparison page
+}
+
+// SpectrumRef names one spectra file of a material.
+type SpectrumRef struct {
+	File       string `yaml:"file" json:"file,omitempty"` // relative to the Markdown file, slash-separated
+	Role       string `yaml:"role" json:"role,omitempty"` // free text: solar, thermal, ...
+	Instrument string `yaml:"instrument" json:"instrument,omitempty"`
+	Notes      string `yaml:"notes" json:"notes,omitempty"`
+}
+
+// Measured describes how a material was measured. All fields are free text.
+type Measured struct {
+	Date       string `yaml:"date" json:"date,omitempty"`
+	Instrument string `yaml:"instrument" json:"instrument,omitempty"`
+	Angle      string `yaml:"angle" json:"angle,omitempty"`
+	Reference  string `yaml:"reference" json:"reference,omitempty"` // reference standard
+	Operator   string `yaml:"operator" json:"operator,omitempty"`
+	Notes      string `yaml:"notes" json:"notes,omitempty"`
+}
+
+// comparisonKeys are the only keys a comparison page may set.
+var comparisonKeys = map[string]bool{"title": true, "slug": true, "summary": true, "compare": true}
+
+// splitFront splits a content file into its YAML text and Markdown body.
+// The YAML text starts on file line 2; the body starts on line bodyLine.
+func splitFront(file string, src []byte) (yamlText, body []byte, bodyLine int, err error) {
+	src = bytes.TrimPrefix(src, []byte("\uFEFF"))
+	fence := func(l []byte, marks ...string) bool {
+		t := strings.TrimRight(string(l), " \t\r")
+		for _, m := range marks {
+			if t == m {
+				return true
+			}
+		}
+		return false
+	}
+	nl := bytes.IndexByte(src, '\n')
+	if nl < 0 || !fence(src[:nl], "---") {
+		if fence(src, "---") {
+			return nil, nil, 0, errorf(file, 1, 0, ErrUnclosed, "")
+		}
+		return nil, nil, 0, errorf(file, 1, 0, ErrNoFrontMatter, "")
+	}
+	start, pos, line := nl+1, nl+1, 1
+	for pos < len(src) {
+		end, next := len(src), len(src)
+		if i := bytes.IndexByte(src[pos:], '\n'); i >= 0 {
+			end, next = pos+i, pos+i+1
+		}
+		line++
+		if fence(src[pos:end], "---", "...") {
+			return src[start:pos], src[next:], line + 1, nil
+		}
+		pos = next
+	}
+	return nil, nil, 0, errorf(file, 1, 0, ErrUnclosed, "")
+}
+
+// frontLines records where things are in the front matter, for errors.
+type frontLines struct {
+	root    *yaml.Node
+	spectra []*yaml.Node // one per spectra entry
+	compare []*yaml.Node // one per compare entry
+}
+
+// parseFront reads and checks the front matter of file.
+func parseFront(file string, yamlText []byte) (FrontMatter, frontLines, doc, error) {
+	d := doc{file: file, offset: 1}
+	var fm FrontMatter
+	var fl frontLines
+	root, err := d.parse(yamlText)
+	if err != nil {
+		return fm, fl, d, err
+	}
+	fl.root = root
+	var errs Errors
+	usable, err := d.decode(root, &fm)
+	if err != nil {
+		errs = append(errs, err.(Errors)...)
+	}
+	if !usable {
+		return fm, fl, d, errs
+	}
+	if v := valueNode(root, "spectra"); v != root && v.Kind == yaml.SequenceNode {
+		fl.spectra = v.Content
+	}
+	if v := valueNode(root, "compare"); v != root && v.Kind == yaml.SequenceNode {
+		fl.compare = v.Content
+	}
+	trim := func(s *string) { *s = strings.TrimSpace(*s) }
+	for _, s := range []*string{&fm.Title, &fm.Slug, &fm.Maker, &fm.Lab, &fm.ProductCode, &fm.Category, &fm.Summary, &fm.License} {
+		trim(s)
+	}
+	missing := func(key, what string) {
+		errs = append(errs, errorf(file, 1, 0, ErrMissing, "%s (%s)", key, what))
+	}
+	if fm.Title == "" {
+		missing("title", "the name shown on the page")
+	}
+	if valueNode(root, "compare") != root {
+		for i := 0; i+1 < len(root.Content); i += 2 {
+			if k := root.Content[i]; !comparisonKeys[k.Value] {
+				errs = append(errs, d.at(k, ErrNotAllowed, "%q in a comparison page (it has compare:); allowed: title, slug, summary, compare", k.Value))
+			}
+		}
+		if len(fm.Compare) == 0 {
+			errs = append(errs, d.at(valueNode(root, "compare"), ErrMissing, "compare: want a list of material slugs"))
+		}
+	} else {
+		if fm.Maker == "" && fm.Lab == "" {
+			missing("maker", "or lab: who made or measured the material")
+		}
+		if len(fm.Spectra) == 0 {
+			missing("spectra", "a list of spectra files, each with file:")
+		}
+		for i, s := range fm.Spectra {
+			if strings.TrimSpace(s.File) == "" {
+				errs = append(errs, d.at(fl.spectra[i], ErrMissing, "file (spectra entry %d)", i+1))
+			}
+		}
+	}
+	for i, t := range fm.Tags {
+		fm.Tags[i] = strings.TrimSpace(t)
+	}
+	if len(errs) > 0 {
+		return fm, fl, d, errs
+	}
+	return fm, fl, d, nil
+}

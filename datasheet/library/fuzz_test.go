@@ -1,0 +1,52 @@
+package library
+
+import (
+	"errors"
+	"testing"
+	"testing/fstest"
+)
+
+// FuzzLoad feeds arbitrary bytes as a material file and as the config.
+// Load must not panic; every error must be an *Error or a spectrum's
+// ParseError with a file name; an accepted material must satisfy the
+// documented invariants.
+func FuzzLoad(f *testing.F) {
+	f.Add([]byte(goodMaterial), []byte("title: x\n"))
+	f.Add([]byte("---\ntitle: c\ncompare: [flat]\n---\n"), []byte("conditions: {temperature_k: 280}\n"))
+	f.Add([]byte("---\ntitle: [\n---\n"), []byte("- a\n"))
+	f.Add([]byte("---\n&a x: *a\n---\n"), []byte("base_url: http://x/\n"))
+	f.Fuzz(func(t *testing.T, md, config []byte) {
+		fsys := baseFS()
+		fsys["content/z.md"] = &fstest.MapFile{Data: md}
+		fsys["skysheet.yaml"] = &fstest.MapFile{Data: config}
+		lib, err := Load(fsys)
+		if lib == nil {
+			t.Fatal("Load returned no library")
+		}
+		if err != nil {
+			var es Errors
+			if !errors.As(err, &es) || len(es) == 0 {
+				t.Fatalf("error %v is not a non-empty Errors", err)
+			}
+			for _, e := range es {
+				var le *Error
+				if !errors.As(e, &le) || le.File == "" {
+					t.Fatalf("error %v names no file", e)
+				}
+			}
+		}
+		for _, m := range lib.Materials {
+			if m.Front.Title == "" || m.Slug == "" || Slugify(m.Slug) != m.Slug || m.Figures == nil || m.Spectrum == nil {
+				t.Fatalf("accepted material breaks invariants: %+v", m)
+			}
+			if m.Conditions.Validate() != nil {
+				t.Fatalf("accepted invalid conditions %+v", m.Conditions)
+			}
+		}
+		for _, c := range lib.Comparisons {
+			if c.Front.Title == "" || len(c.Materials) == 0 {
+				t.Fatalf("accepted comparison breaks invariants: %+v", c)
+			}
+		}
+	})
+}

@@ -1,0 +1,187 @@
+package site
+
+import (
+	"bytes"
+	"math"
+	"strings"
+	"testing"
+
+	"github.com/wcharczuk/go-chart/v2"
+
+	"skysheet/spectra"
+)
+
+// testPlot is a chart like a datasheet's: three curves of 2000 points, a
+// shaded band, a shaded curve and a legend.
+func testPlot() plot {
+	var r, a, sun spectra.Piece
+	for i := range 2000 {
+		nm := 300 + float64(i)
+		r.NM, r.V = append(r.NM, nm), append(r.V, 0.9-0.1*math.Sin(nm/90))
+		a.NM, a.V = append(a.NM, nm), append(a.V, 0.1+0.1*math.Sin(nm/90))
+		sun.NM, sun.V = append(sun.NM, nm), append(sun.V, math.Exp(-math.Pow((nm-600)/400, 2)))
+	}
+	return plot{
+		width: 640, height: 380, xName: "Wavelength (nm)", yName: "Fraction",
+		xLo: 300, xHi: 2300, yLo: 0, yHi: 1, yFmt: "1",
+		bands: []band{{name: "Band", lo: 800, hi: 1300, color: colWindow}},
+		lines: []line{
+			{name: "Solar spectrum (relative)", color: colSun, fill: true, pieces: []spectra.Piece{sun}},
+			{name: "Reflectance R", color: colR, width: 2, pieces: []spectra.Piece{r}},
+			{name: "Absorptance A", color: colA, width: 2, dash: []float64{5, 3}, pieces: []spectra.Piece{a}},
+		},
+	}
+}
+
+// TestCachedSVGIdentical checks that caching font faces does not change a
+// single byte of go-chart's SVG output.
+func TestCachedSVGIdentical(t *testing.T) {
+	for _, p := range []plot{testPlot(), axesPlot(), func() plot {
+		p := testPlot()
+		p.yName = "Rotated axis name with more text (W m⁻² nm⁻¹)"
+		return p
+	}()} {
+		var plain, cached bytes.Buffer
+		if err := p.chart().Render(chart.SVG, &plain); err != nil {
+			t.Fatal(err)
+		}
+		if err := p.chart().Render(cachedSVG, &cached); err != nil {
+			t.Fatal(err)
+		}
+		if plain.Len() < 1000 || !bytes.Equal(plain.Bytes(), cached.Bytes()) {
+			t.Errorf("cached renderer output differs (%d vs %d bytes)", plain.Len(), cached.Len())
+		}
+		// Render a second time: a warm cache must give the same bytes too.
+		cached.Reset()
+		if err := p.chart().Render(cachedSVG, &cached); err != nil {
+			t.Fatal(err)
+		}
+		if !bytes.Equal(plain.Bytes(), cached.Bytes()) {
+			t.Errorf("warm cached renderer output differs")
+		}
+	}
+}
+
+// axesPlot is a chart with little to draw but its axes, ticks, names and
+// legend: the cost is nearly all text measurement.
+func axesPlot() plot {
+	p := testPlot()
+	for i := range p.lines {
+		p.lines[i].pieces = []spectra.Piece{{NM: []float64{300, 2300}, V: []float64{0.2, 0.8}}}
+	}
+	return p
+}
+
+func BenchmarkAxesPlainSVG(b *testing.B)  { benchRender(b, axesPlot(), chart.SVG) }
+func BenchmarkAxesCachedSVG(b *testing.B) { benchRender(b, axesPlot(), cachedSVG) }
+
+func benchRender(b *testing.B, p plot, rp chart.RendererProvider) {
+	var buf bytes.Buffer
+	for b.Loop() {
+		buf.Reset()
+		if err := p.chart().Render(rp, &buf); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkChartPlainSVG(b *testing.B) {
+	p := testPlot()
+	var buf bytes.Buffer
+	for b.Loop() {
+		buf.Reset()
+		if err := p.chart().Render(chart.SVG, &buf); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkChartCachedSVG(b *testing.B) {
+	p := testPlot()
+	var buf bytes.Buffer
+	for b.Loop() {
+		buf.Reset()
+		if err := p.chart().Render(cachedSVG, &buf); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func TestEscapedText(t *testing.T) {
+	p := testPlot()
+	p.lines[1].name = `<script>alert("x")</script> & more`
+	out, err := p.svg(`label with "quotes" <b>`)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(out, "<script>") || strings.Contains(out, "<b>") {
+		t.Errorf("unescaped text in SVG")
+	}
+	if !strings.Contains(out, "&lt;script&gt;") || !strings.Contains(out, `aria-label="label with &#34;quotes&#34; &lt;b&gt;"`) {
+		t.Errorf("escaped text missing")
+	}
+}
+
+func TestThin(t *testing.T) {
+	var p spectra.Piece
+	for i := range 10001 {
+		p.NM = append(p.NM, 1000+float64(i)*0.1)
+		p.V = append(p.V, 0.5)
+	}
+	p.V[5000] = 0.99 // a narrow peak must survive
+	p.V[7000] = 0.01 // and a narrow dip
+	got := thin(p, 1000, 2000, 200)
+	if len(got.NM) > 4*201 || len(got.NM) < 200 {
+		t.Errorf("thinned to %d points", len(got.NM))
+	}
+	lo, hi := 1.0, 0.0
+	for i, v := range got.V {
+		lo, hi = math.Min(lo, v), math.Max(hi, v)
+		if i > 0 && !(got.NM[i] > got.NM[i-1]) {
+			t.Fatalf("not increasing at %d", i)
+		}
+	}
+	if lo != 0.01 || hi != 0.99 || got.NM[0] != 1000 || got.NM[len(got.NM)-1] != 2000 {
+		t.Errorf("extremes or ends lost: min %v max %v ends %v %v", lo, hi, got.NM[0], got.NM[len(got.NM)-1])
+	}
+	short := spectra.Piece{NM: []float64{1, 2, 3}, V: []float64{1, 2, 3}}
+	if got := thin(short, 1, 3, 200); len(got.NM) != 3 {
+		t.Errorf("short piece changed")
+	}
+}
+
+func TestClip(t *testing.T) {
+	p := spectra.Piece{NM: []float64{100, 200, 300, 400}, V: []float64{0, 1, 2, 3}}
+	got := clip(p, 150, 350)
+	want := spectra.Piece{NM: []float64{150, 200, 300, 350}, V: []float64{0.5, 1, 2, 2.5}} // linear interpolation by hand
+	if len(got.NM) != len(want.NM) {
+		t.Fatalf("got %+v", got)
+	}
+	for i := range want.NM {
+		if got.NM[i] != want.NM[i] || math.Abs(got.V[i]-want.V[i]) > 1e-12 {
+			t.Errorf("got %+v, want %+v", got, want)
+		}
+	}
+	if got := clip(p, 500, 600); len(got.NM) != 0 {
+		t.Errorf("outside: %+v", got)
+	}
+}
+
+func TestTicks(t *testing.T) {
+	got := ticks(280, 2500, nil, "", 7)
+	var vals []float64
+	for _, tk := range got {
+		vals = append(vals, tk.Value)
+	}
+	// 280 and 2500 always, round steps of 500 between, none too close to
+	// the ends (300 would crowd 280).
+	want := []float64{280, 500, 1000, 1500, 2000, 2500}
+	if len(vals) != len(want) {
+		t.Fatalf("ticks %v, want %v", vals, want)
+	}
+	for i := range want {
+		if vals[i] != want[i] {
+			t.Fatalf("ticks %v, want %v", vals, want)
+		}
+	}
+}

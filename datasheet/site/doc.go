@@ -1,0 +1,30 @@
+// Package site renders a [library.Library] as a static website: a datasheet
+// page per material, a library index with a sortable table and a scatter
+// chart, category and tag listings, comparison pages, catalog.json and the
+// downloads of every material.
+//
+// # Output
+//
+//	index.html                  library index
+//	m/SLUG/index.html           datasheet; beside it spectrum.csv, figures.json, source.md
+//	category/CAT/index.html     materials of one category
+//	tag/TAG/index.html          materials with one tag
+//	compare/SLUG/index.html     comparison pages
+//	catalog.json                every material's metadata and figures
+//	assets/style.css, assets/site.js
+//
+// Links are relative and name index.html, so the site works from file://
+// and under any base path. Nothing is loaded from elsewhere.
+//
+// # Determinism
+//
+// [Build] writes the same bytes for the same library: no clock, no random
+// order (maps are sorted, materials keep library order). Pages are rendered
+// in parallel and written in a fixed order.
+//
+// # Safety
+//
+// Every string from content is escaped by html/template or, inside charts,
+// by the chart renderer. Raw HTML in Markdown bodies is dropped unless the
+// library config sets allow_html.
+package site

@@ -1,0 +1,354 @@
+package site
+
+import (
+	"encoding/json"
+	"fmt"
+	"sort"
+	"strings"
+
+	"skysheet/datasheet"
+	"skysheet/datasheet/library"
+	"skysheet/spectra"
+)
+
+// materialView builds the datasheet data of m for a page at root.
+func (b *builder) materialView(m *library.Material, root string, cmps []*library.Comparison) (*materialView, error) {
+	fm, f := m.Front, m.Figures
+	v := &materialView{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
+		Summary: fm.Summary, License: fm.License, Inputs: m.Inputs, Cautions: cautionsOf(f),
+		Conditions: conditionPairs(m.Conditions), Overridden: fm.Conditions.Keys(),
+		Assumptions: f.Assumptions, Closure: closureOf(f), Measured: measuredPairs(fm.Measured)}
+	if s := library.Slugify(fm.Category); s != "" {
+		v.Category = link{Name: fm.Category, Href: root + "category/" + s + "/index.html"}
+	}
+	for _, t := range uniqueTags(fm.Tags) {
+		v.Tags = append(v.Tags, link{Name: t, Href: root + "tag/" + tagSlug(t) + "/index.html"})
+	}
+	c := m.Conditions
+	v.Key = append(v.Key,
+		keyFig{Label: "Solar reflectance", Value: fmtFrac(f.SolarReflectance), Note: fmtBand(c.SolarBandNM, "nm") + ", " + c.SolarSpectrum},
+		keyFig{Label: "Thermal emittance", Value: fmtFrac(f.ThermalEmittance), Note: fmtBand(c.ThermalBandUM, "µm") + ", " + fmtG(c.TemperatureK) + " K"},
+		keyFig{Label: "Window emittance", Value: fmtFrac(f.WindowEmittance), Note: fmtBand(c.WindowBandUM, "µm")},
+		keyFig{Label: "Net cooling, day", Value: fmtValue("cooling_power_w_m2", f.CoolingPowerWm2, ""), Unit: "W/m²",
+			Note: fmt.Sprintf("at air %s K, %s W/m² sun", fmtG(c.AmbientK), fmtG(c.IrradianceWm2))},
+	)
+	if m.Spectrum.Has(spectra.T) {
+		v.Key = append(v.Key, keyFig{Label: "Solar transmittance", Value: fmtFrac(f.SolarTransmittance), Note: fmtBand(c.SolarBandNM, "nm")})
+	}
+	for _, x := range f.Figures {
+		r := figRow{Key: x.Key, Label: x.Label, Value: fmtValue(x.Key, x.Value, x.Unit), Band: fmtBand(x.Band, x.BandUnit),
+			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage), Unc: fmtUnc(x.Uncertainty)}
+		if r.Unc != "" {
+			v.HasUnc = true
+		}
+		v.Figures = append(v.Figures, r)
+	}
+	for _, s := range fm.Spectra {
+		v.Spectra = append(v.Spectra, spectrumRow{File: s.File, Role: s.Role, Instrument: s.Instrument, Notes: s.Notes})
+	}
+	body, err := b.md.render(m.Body)
+	if err != nil {
+		return nil, err
+	}
+	v.Body = body
+	v.Charts, err = materialCharts(m)
+	if err != nil {
+		return nil, err
+	}
+	v.Downloads = []link{
+		{Name: "spectrum.csv", Href: "spectrum.csv", Note: "the spectrum, normalised to the neutral column format"},
+		{Name: "figures.json", Href: "figures.json", Note: fmt.Sprintf("every figure with its basis (schema %d)", f.Schema)},
+		{Name: "source.md", Href: "source.md", Note: "the Markdown source with its front matter"},
+	}
+	for _, x := range cmps {
+		v.Comparisons = append(v.Comparisons, link{Name: x.Front.Title, Href: root + "compare/" + x.Slug + "/index.html"})
+	}
+	return v, nil
+}
+
+// cautionsOf returns the cautions that come with the figures, or the
+// site's own.
+func cautionsOf(f *datasheet.Figures) []string {
+	if f != nil && len(f.Cautions) > 0 {
+		return f.Cautions
+	}
+	return Cautions
+}
+
+// uniqueTags returns the non-empty tags in order, without repeats.
+func uniqueTags(tags []string) []string {
+	var out []string
+	seen := map[string]bool{}
+	for _, t := range tags {
+		if s := tagSlug(t); t != "" && s != "" && !seen[s] {
+			seen[s] = true
+			out = append(out, t)
+		}
+	}
+	return out
+}
+
+func tagSlug(t string) string { return library.Slugify(t) }
+
+// table builds a material table for a page at root.
+func (b *builder) table(id, root string, ms []*library.Material, numbers map[string]int) tableView {
+	t := tableView{ID: id, Columns: append([]column{{Key: "title", Label: "Material"}, {Key: "category", Label: "Category"}}, tableFigures...)}
+	for _, m := range ms {
+		r := row{N: numbers[m.Slug], Slug: m.Slug, Href: root + materialDir(m.Slug) + "index.html", Title: m.Front.Title, Maker: firstOf(m.Front.Maker, m.Front.Lab)}
+		if s := library.Slugify(m.Front.Category); s != "" {
+			r.Category = link{Name: m.Front.Category, Href: root + "category/" + s + "/index.html"}
+		}
+		for _, col := range tableFigures {
+			x, _ := figureValue(m.Figures, col.Key)
+			r.Cells = append(r.Cells, cell{Key: col.Key, Text: fmtValue(col.Key, x, ""), Value: sortValue(x)})
+		}
+		t.Rows = append(t.Rows, r)
+	}
+	return t
+}
+
+func firstOf(s ...string) string {
+	for _, x := range s {
+		if x != "" {
+			return x
+		}
+	}
+	return ""
+}
+
+// ordered returns the materials sorted by title (then slug), the order of
+// the index; and each material's number in it.
+func (b *builder) ordered() ([]*library.Material, map[string]int) {
+	ms := append([]*library.Material(nil), b.lib.Materials...)
+	sort.SliceStable(ms, func(i, j int) bool {
+		ti, tj := strings.ToLower(ms[i].Front.Title), strings.ToLower(ms[j].Front.Title)
+		if ti != tj {
+			return ti < tj
+		}
+		return ms[i].Slug < ms[j].Slug
+	})
+	n := map[string]int{}
+	for i, m := range ms {
+		n[m.Slug] = i + 1
+	}
+	return ms, n
+}
+
+// groups returns category or tag names by slug, with their materials.
+func (b *builder) groups(tags bool) (slugs []string, names map[string]string, members map[string][]*library.Material) {
+	names, members = map[string]string{}, map[string][]*library.Material{}
+	ms, _ := b.ordered()
+	for _, m := range ms {
+		var keys []string
+		if tags {
+			keys = uniqueTags(m.Front.Tags)
+		} else if m.Front.Category != "" {
+			keys = []string{m.Front.Category}
+		}
+		for _, k := range keys {
+			s := library.Slugify(k)
+			if s == "" {
+				continue
+			}
+			if _, ok := names[s]; !ok {
+				names[s] = k
+				slugs = append(slugs, s)
+			}
+			members[s] = append(members[s], m)
+		}
+	}
+	sort.Strings(slugs)
+	return slugs, names, members
+}
+
+// indexFiles renders index.html and catalog.json.
+func (b *builder) indexFiles(out files) error {
+	p := b.newPage("index", b.site.Title, "index.html")
+	ms, numbers := b.ordered()
+	v := &indexView{Count: len(ms), Table: b.table("library-table", "", ms, numbers)}
+	sc, err := scatterChart(ms, v.Table.Rows)
+	if err != nil {
+		return &library.Error{File: "index.html", Err: fmt.Errorf("scatter chart: %w", err)}
+	}
+	v.Scatter = sc
+	for _, kind := range []string{"category", "tag"} {
+		slugs, names, members := b.groups(kind == "tag")
+		for _, s := range slugs {
+			l := link{Name: names[s], Href: kind + "/" + s + "/index.html", Count: len(members[s])}
+			if kind == "tag" {
+				v.Tags = append(v.Tags, l)
+			} else {
+				v.Categories = append(v.Categories, l)
+			}
+		}
+	}
+	for _, c := range b.lib.Comparisons {
+		v.Comparisons = append(v.Comparisons, link{Name: c.Front.Title, Href: "compare/" + c.Slug + "/index.html", Note: c.Front.Summary})
+	}
+	p.I = v
+	html, err := b.execute("index", p)
+	if err != nil {
+		return &library.Error{File: "index.html", Err: err}
+	}
+	out["index.html"] = html
+	cat, err := b.catalog(ms)
+	if err != nil {
+		return &library.Error{File: "catalog.json", Err: err}
+	}
+	out["catalog.json"] = cat
+	return nil
+}
+
+// listingFiles renders one page per category and per tag.
+func (b *builder) listingFiles(out files) error {
+	_, numbers := b.ordered()
+	for _, kind := range []string{"category", "tag"} {
+		slugs, names, members := b.groups(kind == "tag")
+		for _, s := range slugs {
+			name := kind + "/" + s + "/index.html"
+			label := map[string]string{"category": "Category", "tag": "Tag"}[kind]
+			p := b.newPage("listing", label+": "+names[s], name)
+			p.L = &listingView{Kind: label, Name: names[s], Table: b.table("", p.Root, members[s], numbers)}
+			html, err := b.execute("listing", p)
+			if err != nil {
+				return &library.Error{File: name, Err: err}
+			}
+			out[name] = html
+		}
+	}
+	return nil
+}
+
+// comparisonFiles renders a comparison page.
+func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
+	name := "compare/" + c.Slug + "/index.html"
+	fail := func(err error) error { return &library.Error{File: c.Path, Err: fmt.Errorf("page %s: %w", name, err)} }
+	p := b.newPage("compare", c.Front.Title, name)
+	v := &compareView{Title: c.Front.Title, Summary: c.Front.Summary, Cautions: Cautions}
+	body, err := b.md.render(c.Body)
+	if err != nil {
+		return fail(err)
+	}
+	v.Body = body
+	if v.Charts, err = compareCharts(c.Materials); err != nil {
+		return fail(err)
+	}
+	for i, m := range c.Materials {
+		v.Columns = append(v.Columns, compareCol{Name: m.Front.Title, Href: p.Root + materialDir(m.Slug) + "index.html",
+			Note: firstOf(m.Front.Maker, m.Front.Lab), Color: colPalette[i%len(colPalette)].css()})
+	}
+	// One row per figure key, in the order of the first material.
+	var keys []string
+	labels := map[string]string{}
+	for _, m := range c.Materials {
+		for _, x := range m.Figures.Figures {
+			if _, ok := labels[x.Key]; !ok {
+				labels[x.Key] = x.Label
+				keys = append(keys, x.Key)
+			}
+		}
+	}
+	for _, k := range keys {
+		r := compareRow{Label: labels[k]}
+		for _, m := range c.Materials {
+			x, ok := m.Figures.Figure(k)
+			if !ok {
+				r.Cells = append(r.Cells, "—")
+				continue
+			}
+			r.Cells = append(r.Cells, fmtValue(x.Key, x.Value, x.Unit))
+		}
+		v.Rows = append(v.Rows, r)
+	}
+	cond := compareRow{Label: "Conditions"}
+	for _, m := range c.Materials {
+		cc := m.Conditions
+		cond.Cells = append(cond.Cells, fmt.Sprintf("%s, %s; %s at %s K", fmtBand(cc.SolarBandNM, "nm"), cc.SolarSpectrum, fmtBand(cc.ThermalBandUM, "µm"), fmtG(cc.TemperatureK)))
+	}
+	v.Rows = append(v.Rows, cond)
+	p.C = v
+	html, err := b.execute("compare", p)
+	if err != nil {
+		return fail(err)
+	}
+	out[name] = html
+	return nil
+}
+
+// catalogEntry is one material in catalog.json.
+type catalogEntry struct {
+	Slug        string             `json:"slug"`
+	Title       string             `json:"title"`
+	Maker       string             `json:"maker,omitempty"`
+	Lab         string             `json:"lab,omitempty"`
+	ProductCode string             `json:"product_code,omitempty"`
+	Category    string             `json:"category,omitempty"`
+	Tags        []string           `json:"tags"`
+	Summary     string             `json:"summary,omitempty"`
+	License     string             `json:"license,omitempty"`
+	Measured    library.Measured   `json:"measured"`
+	Page        string             `json:"page"`
+	Spectrum    string             `json:"spectrum"`
+	FiguresFile string             `json:"figures_file"`
+	Source      string             `json:"source"`
+	Inputs      []library.Input    `json:"inputs"`
+	Claims      []datasheet.Claim  `json:"claims"`
+	Figures     *datasheet.Figures `json:"figures"`
+}
+
+// catalog is the JSON of catalog.json.
+type catalog struct {
+	Schema      int                  `json:"schema"`
+	Title       string               `json:"title"`
+	Description string               `json:"description,omitempty"`
+	BaseURL     string               `json:"base_url,omitempty"`
+	Generator   string               `json:"generator"`
+	Conditions  datasheet.Conditions `json:"conditions"`
+	Config      library.Input        `json:"config"`
+	Materials   []catalogEntry       `json:"materials"`
+	Comparisons []catalogCompare     `json:"comparisons"`
+}
+
+type catalogCompare struct {
+	Slug      string   `json:"slug"`
+	Title     string   `json:"title"`
+	Page      string   `json:"page"`
+	Materials []string `json:"materials"`
+}
+
+// CatalogSchema is the version of catalog.json. Keys are only added.
+const CatalogSchema = 1
+
+func (b *builder) catalog(ms []*library.Material) ([]byte, error) {
+	cfg := b.lib.Config
+	c := catalog{Schema: CatalogSchema, Title: cfg.Title, Description: cfg.Description, BaseURL: cfg.BaseURL,
+		Generator: "skysheet " + b.site.Version, Conditions: cfg.Conditions, Config: cfg.Input,
+		Materials: []catalogEntry{}, Comparisons: []catalogCompare{}}
+	for _, m := range ms {
+		fm := m.Front
+		dir := materialDir(m.Slug)
+		e := catalogEntry{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
+			Category: fm.Category, Tags: uniqueTags(fm.Tags), Summary: fm.Summary, License: fm.License, Measured: fm.Measured,
+			Page: dir + "index.html", Spectrum: dir + "spectrum.csv", FiguresFile: dir + "figures.json", Source: dir + "source.md",
+			Inputs: m.Inputs, Claims: fm.Claims, Figures: m.Figures}
+		if e.Tags == nil {
+			e.Tags = []string{}
+		}
+		if e.Claims == nil {
+			e.Claims = []datasheet.Claim{}
+		}
+		c.Materials = append(c.Materials, e)
+	}
+	for _, x := range b.lib.Comparisons {
+		cc := catalogCompare{Slug: x.Slug, Title: x.Front.Title, Page: "compare/" + x.Slug + "/index.html"}
+		for _, m := range x.Materials {
+			cc.Materials = append(cc.Materials, m.Slug)
+		}
+		c.Comparisons = append(c.Comparisons, cc)
+	}
+	data, err := json.MarshalIndent(c, "", "  ")
+	if err != nil {
+		return nil, err
+	}
+	return append(data, '\n'), nil
+}

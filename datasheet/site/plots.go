@@ -1,0 +1,261 @@
+package site
+
+import (
+	"fmt"
+	"html/template"
+	"math"
+	"strings"
+
+	"skysheet/datasheet"
+	"skysheet/datasheet/library"
+	"skysheet/spectra"
+)
+
+// Chart sizes in SVG units; the page scales them to its width.
+const (
+	chartW, chartH     = 640, 400
+	scatterW, scatterH = 760, 480
+)
+
+// scaled returns the pieces with wavelengths divided by div (nm → µm).
+func scaled(s spectra.Series, div float64) []spectra.Piece {
+	out := make([]spectra.Piece, len(s.Pieces))
+	for i, p := range s.Pieces {
+		nm := make([]float64, len(p.NM))
+		for j, x := range p.NM {
+			nm[j] = x / div
+		}
+		out[i] = spectra.Piece{NM: nm, V: p.V}
+	}
+	return out
+}
+
+// weightingShade samples a weighting over [lo, hi] nm, scaled to a peak of
+// 1, with x divided by div.
+func weightingShade(w spectra.Weighting, lo, hi, div float64) spectra.Piece {
+	knots := w.Knots(lo, hi)
+	var p spectra.Piece
+	peak := 0.0
+	for _, nm := range knots {
+		if nm < lo || nm > hi {
+			continue
+		}
+		v := w.At(nm)
+		p.NM, p.V = append(p.NM, nm/div), append(p.V, v)
+		peak = math.Max(peak, v)
+	}
+	if peak > 0 {
+		for i := range p.V {
+			p.V[i] /= peak
+		}
+	}
+	return p
+}
+
+// yRange is 0..1, widened to show values slightly outside (at most
+// −0.05..1.05, the range the readers accept).
+func yRange(ss ...spectra.Series) (lo, hi float64) {
+	lo, hi = 0, 1
+	for _, s := range ss {
+		for _, p := range s.Pieces {
+			for _, v := range p.V {
+				lo, hi = math.Min(lo, v), math.Max(hi, v)
+			}
+		}
+	}
+	return math.Max(lo, -0.05), math.Min(hi, 1.05)
+}
+
+// materialCharts returns the solar and thermal charts of a material.
+func materialCharts(m *library.Material) ([]chartView, error) {
+	c := m.Conditions
+	o := spectra.Resolve(m.Spectrum, c.ClosureTol)
+	f := m.Figures
+	var out []chartView
+
+	// Solar range.
+	lo, hi := c.SolarBandNM[0], c.SolarBandNM[1]
+	sun, err := spectra.Solar(c.SolarSpectrum)
+	if err != nil {
+		return nil, err
+	}
+	sp := plot{width: chartW, height: chartH, xName: "Wavelength (nm)", yName: "Fraction of incident light",
+		xLo: lo, xHi: hi, yFmt: "1"}
+	sp.yLo, sp.yHi = yRange(o.R, o.T, o.A)
+	sp.lines = append(sp.lines, line{name: spectrumName(c.SolarSpectrum) + " (relative)", color: colSun, fill: true,
+		pieces: []spectra.Piece{weightingShade(sun, lo, hi, 1)}})
+	sp.lines = append(sp.lines, line{name: "Reflectance R", color: colR, width: 2, pieces: o.R.Pieces})
+	hasT := m.Spectrum.Has(spectra.T)
+	if hasT {
+		sp.lines = append(sp.lines, line{name: "Transmittance T", color: colT, width: 2, pieces: o.T.Pieces})
+	}
+	sp.lines = append(sp.lines, line{name: "Absorptance A", color: colA, width: 1, dash: []float64{5, 3}, pieces: o.A.Pieces})
+	caption := fmt.Sprintf("Spectral reflectance%s and absorptance from %s to %s nm, over the %s spectrum shaded in yellow (scaled to its peak). Solar-weighted: R = %s%s, A = %s; data cover %s of the weighted band.",
+		map[bool]string{true: ", transmittance", false: ""}[hasT], fmtG(lo), fmtG(hi), spectrumName(c.SolarSpectrum),
+		fmtFrac(f.SolarReflectance), map[bool]string{true: ", T = " + fmtFrac(f.SolarTransmittance), false: ""}[hasT],
+		fmtFrac(f.SolarAbsorptance), fmtPercent(f.SolarCoverage))
+	svg, err := sp.svg("Solar range chart. " + caption)
+	if err != nil {
+		return nil, fmt.Errorf("solar chart: %w", err)
+	}
+	out = append(out, chartView{ID: "chart-solar", Title: "Solar range", Caption: caption, SVG: template.HTML(svg)})
+
+	// Thermal range, in µm.
+	tlo, thi := c.ThermalBandUM[0], c.ThermalBandUM[1]
+	tp := plot{width: chartW, height: chartH, xName: "Wavelength (µm)", yName: "Emittance, reflectance",
+		xLo: tlo, xHi: thi, yFmt: "1"}
+	tp.yLo, tp.yHi = yRange(o.R, o.A)
+	tp.bands = []band{{name: fmt.Sprintf("Atmospheric window %s–%s µm", fmtG(c.WindowBandUM[0]), fmtG(c.WindowBandUM[1])),
+		lo: c.WindowBandUM[0], hi: c.WindowBandUM[1], color: colWindow}}
+	tp.lines = append(tp.lines, line{name: fmt.Sprintf("Blackbody at %s K (relative)", fmtG(c.TemperatureK)), color: colBody, fill: true,
+		pieces: []spectra.Piece{weightingShade(spectra.Blackbody{K: c.TemperatureK}, tlo*1000, thi*1000, 1000)}})
+	tp.lines = append(tp.lines, line{name: "Emittance ε = A", color: colA, width: 2, pieces: scaled(o.A, 1000)})
+	tp.lines = append(tp.lines, line{name: "Reflectance R", color: colR, width: 1, dash: []float64{5, 3}, pieces: scaled(o.R, 1000)})
+	caption = fmt.Sprintf("Spectral emittance (equal to absorptance, Kirchhoff's law) and reflectance from %s to %s µm; the atmospheric window %s–%s µm is shaded in green and the %s K blackbody spectrum in red (scaled to its peak). Thermal emittance %s, window emittance %s.",
+		fmtG(tlo), fmtG(thi), fmtG(c.WindowBandUM[0]), fmtG(c.WindowBandUM[1]), fmtG(c.TemperatureK),
+		fmtFrac(f.ThermalEmittance), fmtFrac(f.WindowEmittance))
+	svg, err = tp.svg("Thermal range chart. " + caption)
+	if err != nil {
+		return nil, fmt.Errorf("thermal chart: %w", err)
+	}
+	out = append(out, chartView{ID: "chart-thermal", Title: "Thermal infrared", Caption: caption, SVG: template.HTML(svg)})
+
+	if cv, err := coolingChart(f); err != nil {
+		return nil, fmt.Errorf("cooling chart: %w", err)
+	} else if cv != nil {
+		out = append(out, *cv)
+	}
+	return out, nil
+}
+
+// coolingChart plots the net cooling power against surface temperature,
+// with and without sun, from the figures' cooling curve.
+func coolingChart(f *datasheet.Figures) (*chartView, error) {
+	var day, night spectra.Piece
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, p := range f.CoolingCurve {
+		if !isNaN(p.NetWm2) {
+			day.NM, day.V = append(day.NM, p.SurfaceK), append(day.V, float64(p.NetWm2))
+			lo, hi = math.Min(lo, float64(p.NetWm2)), math.Max(hi, float64(p.NetWm2))
+		}
+		if !isNaN(p.NetNightWm2) {
+			night.NM, night.V = append(night.NM, p.SurfaceK), append(night.V, float64(p.NetNightWm2))
+			lo, hi = math.Min(lo, float64(p.NetNightWm2)), math.Max(hi, float64(p.NetNightWm2))
+		}
+	}
+	if len(day.NM) < 2 && len(night.NM) < 2 {
+		return nil, nil
+	}
+	lo, hi = math.Min(lo, 0), math.Max(hi, 0)
+	step := niceStep((hi - lo) / 6)
+	c := f.Conditions
+	xs := append(append([]float64(nil), day.NM...), night.NM...)
+	xlo, xhi := xs[0], xs[0]
+	for _, x := range xs {
+		xlo, xhi = math.Min(xlo, x), math.Max(xhi, x)
+	}
+	p := plot{width: chartW, height: chartH, xName: "Surface temperature (K)", yName: "Net cooling power (W/m²)",
+		xLo: xlo, xHi: xhi, yLo: math.Floor(lo/step) * step, yHi: math.Ceil(hi/step) * step, xFmt: "0", yFmt: "0"}
+	w := (xhi - xlo) * 0.006
+	p.bands = []band{{name: fmt.Sprintf("Air temperature %s K", fmtG(c.AmbientK)), lo: c.AmbientK - w, hi: c.AmbientK + w, color: rgba{0x6a, 0x72, 0x7e, 0x90}}}
+	p.lines = []line{
+		{color: colAxis, width: 1, pieces: []spectra.Piece{{NM: []float64{xlo, xhi}, V: []float64{0, 0}}}},
+		{name: fmt.Sprintf("With sun (%s W/m²)", fmtG(c.IrradianceWm2)), color: colT, width: 2, pieces: []spectra.Piece{day}},
+		{name: "Night (no sun)", color: colR, width: 2, dash: []float64{5, 3}, pieces: []spectra.Piece{night}},
+	}
+	caption := fmt.Sprintf("Net cooling power (positive: the surface gives off more heat than it takes in) against surface temperature, under the %s sky with air at %s K and h = %s W m⁻² K⁻¹. At air temperature: %s with sun, %s at night. Air minus equilibrium surface temperature: %s with sun, %s at night.",
+		c.Sky, fmtG(c.AmbientK), fmtG(c.HWm2K), fmtValue("", f.CoolingPowerWm2, "W/m²"), fmtValue("", f.CoolingPowerNightWm2, "W/m²"),
+		fmtValue("", f.EquilibriumDeltaK, "K"), fmtValue("", f.EquilibriumDeltaNightK, "K"))
+	svg, err := p.svg("Cooling power chart. " + caption)
+	if err != nil {
+		return nil, err
+	}
+	return &chartView{ID: "chart-cooling", Title: "Net cooling power", Caption: caption, SVG: template.HTML(svg)}, nil
+}
+
+// compareCharts overlays the reflectance (solar range) and emittance
+// (thermal range) of several materials. The ranges are those of the first
+// material's conditions.
+func compareCharts(ms []*library.Material) ([]chartView, error) {
+	if len(ms) == 0 {
+		return nil, nil
+	}
+	c := ms[0].Conditions
+	sp := plot{width: chartW, height: chartH, xName: "Wavelength (nm)", yName: "Reflectance",
+		xLo: c.SolarBandNM[0], xHi: c.SolarBandNM[1], yLo: 0, yHi: 1, yFmt: "1"}
+	tp := plot{width: chartW, height: chartH, xName: "Wavelength (µm)", yName: "Emittance",
+		xLo: c.ThermalBandUM[0], xHi: c.ThermalBandUM[1], yLo: 0, yHi: 1, yFmt: "1"}
+	tp.bands = []band{{name: fmt.Sprintf("Atmospheric window %s–%s µm", fmtG(c.WindowBandUM[0]), fmtG(c.WindowBandUM[1])),
+		lo: c.WindowBandUM[0], hi: c.WindowBandUM[1], color: colWindow}}
+	var names []string
+	for i, m := range ms {
+		o := spectra.Resolve(m.Spectrum, m.Conditions.ClosureTol)
+		col := colPalette[i%len(colPalette)]
+		var dash []float64
+		if i >= len(colPalette) {
+			dash = []float64{4, 3}
+		}
+		sp.lines = append(sp.lines, line{name: m.Front.Title, color: col, width: 2, dash: dash, pieces: o.R.Pieces})
+		tp.lines = append(tp.lines, line{name: m.Front.Title, color: col, width: 2, dash: dash, pieces: scaled(o.A, 1000)})
+		lo, hi := yRange(o.R, o.A)
+		sp.yLo, sp.yHi = math.Min(sp.yLo, lo), math.Max(sp.yHi, hi)
+		tp.yLo, tp.yHi = sp.yLo, sp.yHi
+		names = append(names, m.Front.Title)
+	}
+	list := strings.Join(names, "; ")
+	capS := fmt.Sprintf("Spectral reflectance of %s from %s to %s nm.", list, fmtG(sp.xLo), fmtG(sp.xHi))
+	capT := fmt.Sprintf("Spectral emittance of %s from %s to %s µm, with the atmospheric window shaded.", list, fmtG(tp.xLo), fmtG(tp.xHi))
+	s1, err := sp.svg("Reflectance overlay. " + capS)
+	if err != nil {
+		return nil, err
+	}
+	s2, err := tp.svg("Emittance overlay. " + capT)
+	if err != nil {
+		return nil, err
+	}
+	return []chartView{
+		{ID: "chart-compare-solar", Title: "Reflectance, solar range", Caption: capS, SVG: template.HTML(s1)},
+		{ID: "chart-compare-thermal", Title: "Emittance, thermal infrared", Caption: capT, SVG: template.HTML(s2)},
+	}, nil
+}
+
+// scatterChart plots solar reflectance against window emittance, one
+// numbered, linked point per material that has both.
+func scatterChart(ms []*library.Material, rows []row) (*chartView, error) {
+	ps := &pointSet{}
+	xmin, ymin := 1.0, 1.0
+	var skipped []string
+	for i, m := range ms {
+		x, y := m.Figures.SolarReflectance, m.Figures.WindowEmittance
+		if isNaN(x) || isNaN(y) {
+			skipped = append(skipped, m.Front.Title)
+			continue
+		}
+		xmin, ymin = math.Min(xmin, float64(x)), math.Min(ymin, float64(y))
+		ps.x, ps.y = append(ps.x, float64(x)), append(ps.y, float64(y))
+		ps.href = append(ps.href, rows[i].Href)
+		ps.slug = append(ps.slug, m.Slug)
+		ps.label = append(ps.label, fmt.Sprint(rows[i].N))
+		ps.title = append(ps.title, fmt.Sprintf("%d. %s: solar reflectance %s, window emittance %s", rows[i].N, m.Front.Title, fmtFrac(x), fmtFrac(y)))
+		ps.colors = append(ps.colors, colPalette[0])
+	}
+	if len(ps.x) == 0 {
+		return nil, nil
+	}
+	lower := func(v float64) float64 { return math.Max(0, math.Floor((v-0.02)*10)/10) }
+	p := plot{width: scatterW, height: scatterH, xName: "Solar reflectance", yName: "Atmospheric-window emittance",
+		xLo: lower(xmin), xHi: 1, yLo: lower(ymin), yHi: 1, xFmt: "2", yFmt: "2", points: ps, noLegend: true}
+	caption := fmt.Sprintf("Each numbered point is a material (numbers as in the table) and links to its datasheet; %d materials shown. Up and to the right is better for daytime radiative cooling.", len(ps.x))
+	if len(skipped) > 0 {
+		caption += " Not shown (a figure is missing): " + strings.Join(skipped, "; ") + "."
+	}
+	var desc []string
+	for _, t := range ps.title {
+		desc = append(desc, t)
+	}
+	svg, err := p.svg("Scatter chart of solar reflectance against window emittance. " + strings.Join(desc, ". ") + ".")
+	if err != nil {
+		return nil, err
+	}
+	return &chartView{ID: "library-scatter", Title: "Solar reflectance against atmospheric-window emittance", Caption: caption, SVG: template.HTML(svg)}, nil
+}

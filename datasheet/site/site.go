@@ -1,0 +1,282 @@
+package site
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"html/template"
+	"io/fs"
+	"path"
+	"runtime"
+	"sort"
+	"sync"
+
+	"skysheet/datasheet/library"
+	"skysheet/spectra"
+	"skysheet/templates"
+)
+
+// Options control a build.
+type Options struct {
+	// Templates is the library's templates/ folder; nil means the embedded
+	// defaults only. Its *.html files are parsed after the defaults, and
+	// its style.css and site.js replace the default assets.
+	Templates fs.FS
+	// Version is the software version printed on every page.
+	Version string
+	// Workers is the number of materials rendered at once; 0 means one per
+	// CPU.
+	Workers int
+	// Progress, if set, is called after each material page with the number
+	// done and the total. It is called from one goroutine at a time.
+	Progress func(done, total int)
+}
+
+// Writer receives the files of the site. Names are slash-separated paths
+// relative to the site root. Build calls WriteFile from one goroutine, in
+// sorted name order.
+type Writer interface {
+	WriteFile(name string, data []byte) error
+}
+
+// Build renders lib and writes every file of the site to out. Page errors
+// are collected: the error, if any, is a [library.Errors] naming each page
+// that failed, and nothing is written then.
+func Build(lib *library.Library, opt Options, out Writer) error {
+	b, err := newBuilder(lib, opt)
+	if err != nil {
+		return err
+	}
+	files, err := b.render()
+	if err != nil {
+		return err
+	}
+	names := make([]string, 0, len(files))
+	for n := range files {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	for _, n := range names {
+		if err := out.WriteFile(n, files[n]); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+type builder struct {
+	lib  *library.Library
+	opt  Options
+	tmpl *template.Template
+	md   markdown
+	site siteInfo
+}
+
+func newBuilder(lib *library.Library, opt Options) (*builder, error) {
+	t, err := parseTemplates(opt.Templates)
+	if err != nil {
+		return nil, err
+	}
+	cfg := lib.Config
+	return &builder{lib: lib, opt: opt, tmpl: t, md: newMarkdown(cfg.AllowHTML),
+		site: siteInfo{Title: cfg.Title, Description: cfg.Description, Lab: cfg.Lab, Publisher: cfg.Publisher,
+			Version: opt.Version, BaseURL: cfg.BaseURL}}, nil
+}
+
+// parseTemplates parses the default templates, then the overrides.
+func parseTemplates(over fs.FS) (*template.Template, error) {
+	t, err := template.New("").ParseFS(templates.FS, "*.html")
+	if err != nil {
+		return nil, fmt.Errorf("default templates: %w", err)
+	}
+	if over == nil {
+		return t, nil
+	}
+	names, err := fs.Glob(over, "*.html")
+	if err != nil || len(names) == 0 {
+		return t, nil
+	}
+	t, err = t.ParseFS(over, "*.html")
+	if err != nil {
+		return nil, fmt.Errorf("templates/: %w", err)
+	}
+	for _, n := range []string{"index", "datasheet", "listing", "compare"} {
+		if t.Lookup(n) == nil {
+			return nil, fmt.Errorf("templates/: the page template %q is missing", n)
+		}
+	}
+	return t, nil
+}
+
+// asset returns a file of the overrides, else the default.
+func (b *builder) asset(name string) ([]byte, error) {
+	if b.opt.Templates != nil {
+		data, err := fs.ReadFile(b.opt.Templates, name)
+		if err == nil {
+			return data, nil
+		}
+		if !errors.Is(err, fs.ErrNotExist) {
+			return nil, fmt.Errorf("templates/%s: %w", name, err)
+		}
+	}
+	return fs.ReadFile(templates.FS, name)
+}
+
+// files maps output names to contents.
+type files map[string][]byte
+
+func (b *builder) render() (files, error) {
+	out := files{}
+	var errs library.Errors
+	mats := b.lib.Materials
+	total := len(mats)
+
+	// Material pages in parallel; results by index, so order is fixed.
+	results := make([]files, total)
+	pageErrs := make([]error, total)
+	workers := b.opt.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	cmpOf := b.comparisonsOf()
+	next := make(chan int)
+	done := make(chan int)
+	var wg sync.WaitGroup
+	for range min(workers, max(total, 1)) {
+		wg.Go(func() {
+			for i := range next {
+				results[i], pageErrs[i] = b.materialFiles(mats[i], cmpOf[mats[i].Slug])
+				done <- i
+			}
+		})
+	}
+	go func() {
+		for i := range mats {
+			next <- i
+		}
+		close(next)
+		wg.Wait()
+		close(done)
+	}()
+	n := 0
+	for range done {
+		n++
+		if b.opt.Progress != nil {
+			b.opt.Progress(n, total)
+		}
+	}
+	for i := range mats {
+		if pageErrs[i] != nil {
+			errs = append(errs, pageErrs[i])
+			continue
+		}
+		for k, v := range results[i] {
+			out[k] = v
+		}
+	}
+
+	if err := b.indexFiles(out); err != nil {
+		errs = append(errs, err)
+	}
+	if err := b.listingFiles(out); err != nil {
+		errs = append(errs, err)
+	}
+	for _, c := range b.lib.Comparisons {
+		if err := b.comparisonFiles(c, out); err != nil {
+			errs = append(errs, err)
+		}
+	}
+	for _, a := range []string{"style.css", "site.js"} {
+		data, err := b.asset(a)
+		if err != nil {
+			errs = append(errs, err)
+			continue
+		}
+		out["assets/"+a] = data
+	}
+	if len(errs) > 0 {
+		return nil, errs
+	}
+	return out, nil
+}
+
+// execute runs a page template.
+func (b *builder) execute(name string, p *page) ([]byte, error) {
+	var buf bytes.Buffer
+	if err := b.tmpl.ExecuteTemplate(&buf, name, p); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
+func (b *builder) newPage(kind, title, outPath string) *page {
+	depth := len(splitPath(path.Dir(outPath)))
+	root := ""
+	for range depth {
+		root += "../"
+	}
+	p := &page{Site: b.site, Root: root, Title: title, Kind: kind}
+	if b.site.BaseURL != "" {
+		p.Canonical = b.site.BaseURL + outPath
+	}
+	return p
+}
+
+func splitPath(p string) []string {
+	if p == "." || p == "" {
+		return nil
+	}
+	var parts []string
+	for p != "." && p != "/" && p != "" {
+		parts = append(parts, path.Base(p))
+		p = path.Dir(p)
+	}
+	return parts
+}
+
+// materialDir is the output folder of a material.
+func materialDir(slug string) string { return "m/" + slug + "/" }
+
+// comparisonsOf maps each material slug to the comparisons listing it.
+func (b *builder) comparisonsOf() map[string][]*library.Comparison {
+	m := map[string][]*library.Comparison{}
+	for _, c := range b.lib.Comparisons {
+		for _, x := range c.Materials {
+			m[x.Slug] = append(m[x.Slug], c)
+		}
+	}
+	return m
+}
+
+// materialFiles renders one material: its page and downloads.
+func (b *builder) materialFiles(m *library.Material, cmps []*library.Comparison) (files, error) {
+	dir := materialDir(m.Slug)
+	fail := func(err error) (files, error) {
+		return nil, &library.Error{File: m.Path, Err: fmt.Errorf("page %sindex.html: %w", dir, err)}
+	}
+	p := b.newPage("datasheet", m.Front.Title, dir+"index.html")
+	v, err := b.materialView(m, p.Root, cmps)
+	if err != nil {
+		return fail(err)
+	}
+	p.M = v
+	html, err := b.execute("datasheet", p)
+	if err != nil {
+		return fail(err)
+	}
+	var csv bytes.Buffer
+	if err := spectra.Write(&csv, m.Spectrum); err != nil {
+		return fail(err)
+	}
+	js, err := json.MarshalIndent(m.Figures, "", "  ")
+	if err != nil {
+		return fail(err)
+	}
+	return files{
+		dir + "index.html":   html,
+		dir + "spectrum.csv": csv.Bytes(),
+		dir + "figures.json": append(js, '\n'),
+		dir + "source.md":    m.Source,
+	}, nil
+}

@@ -1,0 +1,218 @@
+package site
+
+import (
+	"bytes"
+	"encoding/json"
+	"flag"
+	"html"
+	"os"
+	"path"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"testing"
+	"testing/fstest"
+
+	"skysheet/datasheet"
+	"skysheet/datasheet/library"
+	"skysheet/spectra"
+)
+
+var dumpDir = flag.String("dump", "", "write the test library's site to this folder (for looking at it)")
+
+// memWriter keeps a site in memory.
+type memWriter map[string][]byte
+
+func (m memWriter) WriteFile(name string, data []byte) error {
+	m[name] = append([]byte(nil), data...)
+	return nil
+}
+
+// testLibrary loads the repository's test library.
+func testLibrary(t testing.TB) *library.Library {
+	t.Helper()
+	lib, err := library.Load(os.DirFS("../../testdata/library"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return lib
+}
+
+func buildTest(t testing.TB, lib *library.Library, opt Options) memWriter {
+	t.Helper()
+	if opt.Version == "" {
+		opt.Version = "test"
+	}
+	out := memWriter{}
+	if err := Build(lib, opt, out); err != nil {
+		t.Fatal(err)
+	}
+	return out
+}
+
+func TestDump(t *testing.T) {
+	if *dumpDir == "" {
+		t.Skip("no -dump folder")
+	}
+	out := buildTest(t, testLibrary(t), Options{})
+	for name, data := range out {
+		p := filepath.Join(*dumpDir, filepath.FromSlash(name))
+		if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(p, data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+}
+
+func TestBuildDeterministic(t *testing.T) {
+	lib := testLibrary(t)
+	a := buildTest(t, lib, Options{Workers: 1})
+	b := buildTest(t, testLibrary(t), Options{Workers: 4})
+	if len(a) != len(b) {
+		t.Fatalf("%d files vs %d", len(a), len(b))
+	}
+	for name, data := range a {
+		if !bytes.Equal(data, b[name]) {
+			t.Errorf("%s differs between builds", name)
+		}
+	}
+}
+
+func TestBuildFiles(t *testing.T) {
+	out := buildTest(t, testLibrary(t), Options{})
+	for _, name := range []string{
+		"index.html", "catalog.json", "assets/style.css", "assets/site.js",
+		"m/frostline/index.html", "m/frostline/spectrum.csv", "m/frostline/figures.json", "m/frostline/source.md",
+		"category/paint/index.html", "tag/roof/index.html", "compare/whites-vs-dark/index.html",
+	} {
+		if _, ok := out[name]; !ok {
+			t.Errorf("%s missing", name)
+		}
+	}
+	index := string(out["index.html"])
+	for _, want := range []string{
+		`<input id="library-filter" type="search"`, `<table class="materials" id="library-table">`,
+		`<button type="button" data-sort-key="solar_reflectance">`, `<tr data-slug="frostline">`,
+		`<figure class="chart" id="library-scatter">`, `<a href="m/frostline/index.html" data-slug="frostline">`,
+	} {
+		if !strings.Contains(index, want) {
+			t.Errorf("index.html lacks %s", want)
+		}
+	}
+	page := string(out["m/frostline/index.html"])
+	for _, want := range []string{`<table class="figures">`, `<figure class="chart" id="chart-solar">`, `role="img" aria-label="Solar range chart.`,
+		"Computed figures are not a certification", "local codes and licensed professionals", "skysheet test",
+		`<td class="num">0.914</td>`, `<sup id="fnref:1">`, "<table>"} {
+		if !strings.Contains(page, want) {
+			t.Errorf("datasheet lacks %s", want)
+		}
+	}
+	if strings.Contains(page, "<b>raw html") {
+		t.Errorf("raw HTML went through with allow_html off")
+	}
+	// The download is the spectrum in the neutral format: it reads back.
+	s, err := spectra.Parse(bytes.NewReader(out["m/frostline/spectrum.csv"]), "spectrum.csv")
+	if err != nil || s.Len() == 0 {
+		t.Errorf("spectrum.csv does not read back: %v", err)
+	}
+	var f datasheet.Figures
+	if err := json.Unmarshal(out["m/frostline/figures.json"], &f); err != nil || f.Schema != datasheet.SchemaVersion {
+		t.Errorf("figures.json: %v", err)
+	}
+	var cat struct {
+		Materials []struct {
+			Slug    string             `json:"slug"`
+			Figures *datasheet.Figures `json:"figures"`
+		} `json:"materials"`
+	}
+	if err := json.Unmarshal(out["catalog.json"], &cat); err != nil || len(cat.Materials) != 3 {
+		t.Errorf("catalog.json: %v, %d materials", err, len(cat.Materials))
+	}
+}
+
+var linkRE = regexp.MustCompile(`(?:href|src)="([^"#]*)(#[^"]*)?"`)
+
+// TestLinksResolve follows every relative link of every page to a file of
+// the site: no 404 inside the site, and every link names a file (works
+// from file://).
+func TestLinksResolve(t *testing.T) {
+	out := buildTest(t, testLibrary(t), Options{})
+	for name, data := range out {
+		if !strings.HasSuffix(name, ".html") {
+			continue
+		}
+		for _, m := range linkRE.FindAllStringSubmatch(string(data), -1) {
+			href := html.UnescapeString(m[1])
+			if href == "" || strings.Contains(href, "://") || strings.HasPrefix(href, "mailto:") {
+				continue
+			}
+			target := path.Join(path.Dir(name), href)
+			if _, ok := out[target]; !ok {
+				t.Errorf("%s links to %q: %s is not in the site", name, href, target)
+			}
+		}
+	}
+}
+
+func TestEscaping(t *testing.T) {
+	lib := testLibrary(t)
+	m := lib.Materials[0]
+	m.Front.Title = `<script>alert("title")</script>`
+	m.Front.Maker = `Maker & "Sons" <b>`
+	m.Front.Tags = append(m.Front.Tags, `<img src=x onerror=alert(1)>`)
+	m.Front.Measured.Notes = `</dd><script>x</script>`
+	m.Body = []byte("Text <script>alert(1)</script> and [link](javascript:alert(1))\n")
+	out := buildTest(t, lib, Options{})
+	for name, data := range out {
+		if !strings.HasSuffix(name, ".html") {
+			continue
+		}
+		s := string(data)
+		for _, bad := range []string{`<script>alert`, `<script>x`, `<img src=x`, `<b>`, `javascript:alert`} {
+			if strings.Contains(s, bad) {
+				t.Errorf("%s contains unescaped %q", name, bad)
+			}
+		}
+	}
+	page := string(out["m/"+m.Slug+"/index.html"])
+	if !strings.Contains(page, "&lt;script&gt;alert(&#34;title&#34;)&lt;/script&gt;") {
+		t.Errorf("escaped title missing from the datasheet")
+	}
+}
+
+func TestAllowHTML(t *testing.T) {
+	lib := testLibrary(t)
+	lib.Config.AllowHTML = true
+	out := buildTest(t, lib, Options{})
+	if !strings.Contains(string(out["m/frostline/index.html"]), "<b>raw html is dropped</b>") {
+		t.Errorf("allow_html: raw HTML should pass")
+	}
+}
+
+func TestTemplateOverride(t *testing.T) {
+	over := fstest.MapFS{
+		"footer.html": {Data: []byte(`{{define "site-footer"}}<footer>custom footer {{.Site.Title}}</footer>{{end}}`)},
+		"style.css":   {Data: []byte("body{}")},
+	}
+	out := buildTest(t, testLibrary(t), Options{Templates: over})
+	if !strings.Contains(string(out["index.html"]), "<footer>custom footer Northfield Test Bench (invented)</footer>") {
+		t.Errorf("block override not applied")
+	}
+	if string(out["assets/style.css"]) != "body{}" {
+		t.Errorf("asset override not applied")
+	}
+	// A whole default file replaced by one of the same name.
+	over = fstest.MapFS{"listing.html": {Data: []byte(`{{define "listing"}}LISTING {{.L.Name}}{{end}}`)}}
+	out = buildTest(t, testLibrary(t), Options{Templates: over})
+	if got := string(out["tag/roof/index.html"]); got != "LISTING roof" {
+		t.Errorf("file override: %q", got)
+	}
+	// A broken override is an error naming the file.
+	over = fstest.MapFS{"bad.html": {Data: []byte(`{{define "x"}}{{.Nope}`)}}
+	err := Build(testLibrary(t), Options{Templates: over}, memWriter{})
+	if err == nil || !strings.Contains(err.Error(), "bad.html") {
+		t.Errorf("broken template: %v", err)
+	}
+}
