@@ -120,21 +120,14 @@ panel.
 
 ## How it was measured
 
-Hemispherical reflectance from 250 to 2500 nm on a UV-Vis-NIR spectrophotometer with an
-integrating sphere (8° incidence, specular included, relative to a diffuse white standard), and
-from 2.5 to 25 µm on an FTIR with a gold-coated sphere. The panel is opaque, so transmittance was
-not measured and is taken as zero. The stated standard uncertainty of R in the UV-Vis-NIR file is
-0.005.
+Hemispherical reflectance, 250–2500 nm (UV-Vis-NIR, sphere, 8°, white standard, u_R = 0.005) and
+2.5–25 µm (FTIR, gold sphere). The panel is opaque: transmittance is taken as zero.
 
 ## What to look for
 
-- The sharp rise near 400 nm is titanium dioxide's band-gap absorption edge: rutile absorbs the
-  UV, which is why the UV reflectance is low while the visible is high.
-- The reflectance falls slowly through the near infrared as the pigment scatters less; small
-  dips near 1200, 1450, 1720, 1940 and 2300 nm are overtones of the binder's C–H bonds and of
-  water.
-- In the thermal infrared the film is nearly black: the acrylic's C=O band near 5.8 µm and its
-  C–O bands near 8–9 µm make it emit strongly across the atmospheric window.`),
+- The rise near 400 nm is rutile's band-gap edge: low UV, high visible reflectance.
+- Small near-IR dips (1200, 1450, 1720, 1940, 2300 nm) are C–H and water overtones.
+- The acrylic's C=O (5.8 µm) and C–O (8–9 µm) bands make the film emit strongly.`),
 	}
 }
 
@@ -336,19 +329,14 @@ itself does the emitting in the thermal infrared.
 
 ## How it was measured
 
-Reflectance and transmittance from 250 to 2500 nm (UV-Vis-NIR, sphere, 8°) and from 2.5 to 25 µm
-(FTIR, wavelength axis in µm), with the polymer side towards the beam. The silver is opaque:
-transmittance is zero within noise and is shown as measured, not assumed. The UV-Vis-NIR file states
-a constant standard uncertainty of R of 0.3 %.
+R and T from 250 to 2500 nm (UV-Vis-NIR, sphere, 8°, u_R = 0.3 %) and from 2.5 to 25 µm (FTIR, µm
+axis), polymer side towards the beam. The silver is opaque: T is zero as measured, not assumed.
 
 ## What to look for
 
-- The deep dip near 320 nm: silver's reflectance minimum, deepened by the polyester's own UV
-  absorption below about 320 nm.
-- Above 450 nm the reflectance is that of silver seen through clear polymer, 0.9 and higher.
-- In the thermal infrared, strong polyester bands (C=O near 5.8 µm, C–O near 8 and 9 µm, the ring
-  band near 13.8 µm) emit; between them the film is thin enough that the silver shows through, so
-  the emittance is lower than a thick paint's.`),
+- The dip near 320 nm: silver's reflectance minimum plus the polyester's UV absorption.
+- Polyester bands (C=O 5.8 µm, C–O 8–9 µm, ring 13.8 µm) emit; between them the silver shows
+  through, so the emittance is lower than a thick paint's.`),
 	}
 }
 
@@ -411,24 +399,19 @@ func qlse3() material {
 		model: windowEmitter,
 		body: body(`## What it is
 
-QL-SE3 is the invented laboratory's own prototype: a stack of silicon-oxide-like and nitride-like
-layers a few micrometres thick on a silver mirror, designed to emit mainly inside the atmospheric
-window (8–13 µm) and to reflect elsewhere. Such a surface can cool below ambient air more than a
-broadband emitter when the sky is clear and dry, but it gains less from exchange outside the window
-when it is near ambient.
+QL-SE3 is the invented laboratory's own prototype: oxide-like and nitride-like layers a few
+micrometres thick on silver, designed to emit mainly inside the atmospheric window (8–13 µm). Under a
+clear, dry sky it can cool further below ambient than a broadband emitter.
 
 ## How it was measured
 
-UV-Vis-NIR 250–2500 nm and FTIR 2.5–25 µm (wavelength axis in µm), hemispherical, 8° incidence. The
-FTIR file has a per-point standard uncertainty column, larger beyond 18 µm where the detector is
-noisy.
+UV-Vis-NIR 250–2500 nm and FTIR 2.5–25 µm (µm axis), hemispherical, 8°. The FTIR file has a
+per-point u_R column, larger beyond 18 µm where the detector is noisy.
 
 ## What to look for
 
-- High solar reflectance from the silver, with its minimum near 320 nm.
-- A plateau of emittance from 8 to 13 µm with a dip near 9.3 µm: the silicon-oxide layer's
-  reststrahlen band is only partly compensated by the nitride.
-- Low emittance below 8 µm and between 13 and 18 µm; a bending band near 21.5 µm.
+- An emittance plateau from 8 to 13 µm with a dip near 9.3 µm (Si–O reststrahlen, partly
+  compensated); low emittance elsewhere except a bending band near 21.5 µm.
 
 The poster abstract quoted a window emittance higher than these data give; see the review.`),
 	}
