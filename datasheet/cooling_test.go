@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"encoding/json"
 	"math"
-	"os"
 	"strings"
 	"testing"
 
@@ -42,19 +41,7 @@ func constSample(a, lo, hi float64) *spectra.Spectrum {
 // whiteSample reads the invented white coating of testdata.
 func whiteSample(t testing.TB) *spectra.Spectrum {
 	t.Helper()
-	var parts []*spectra.Spectrum
-	for _, name := range []string{"white-uvvis.csv", "white-ftir.tsv"} {
-		s, err := spectra.Read(os.DirFS("../testdata"), name)
-		if err != nil {
-			t.Fatal(err)
-		}
-		parts = append(parts, s)
-	}
-	s, err := spectra.Merge(parts...)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return s
+	return readTestSample(t, "white-uvvis.csv", "white-ftir.tsv")
 }
 
 // selectiveSample is a surface of solar reflectance 0.97 that emits 0.95
