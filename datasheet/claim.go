@@ -1,6 +1,9 @@
 package datasheet
 
-import "encoding/json"
+import (
+	"encoding/json"
+	"strconv"
+)
 
 // Claim is a figure that a maker or author claims for a material, as written
 // in the material's front matter under "claims:".
@@ -62,4 +65,14 @@ func (b Basis) MarshalJSON() ([]byte, error) {
 		TemperatureK  Num    `json:"temperature_k,omitempty"`
 		AngleDeg      Num    `json:"angle_deg,omitempty"`
 	}{nums(b.SolarBandNM), b.SolarSpectrum, nums(b.ThermalBandUM), nums(b.WindowBandUM), Num(b.TemperatureK), Num(b.AngleDeg)})
+}
+
+// Text returns the claimed value as written, with its tolerance when one
+// was claimed: "0.95 ± 0.01". It carries no unit.
+func (c Claim) Text() string {
+	s := strconv.FormatFloat(c.Value, 'g', -1, 64)
+	if c.Tolerance > 0 {
+		s += " ± " + strconv.FormatFloat(c.Tolerance, 'g', -1, 64)
+	}
+	return s
 }

@@ -32,6 +32,42 @@ func (s Status) String() string {
 	return "Status(" + strconv.Itoa(int(s)) + ")"
 }
 
+// Mark returns the neutral sign shown beside a verdict: "=" the spectra
+// agree with the claim, "≠" they disagree, "?" they cannot tell. The sign
+// always goes with the words of String, never instead of them.
+func (s Status) Mark() string {
+	switch s {
+	case Supported:
+		return "="
+	case NotSupported:
+		return "≠"
+	}
+	return "?"
+}
+
+// VerdictCounts counts verdicts by status.
+type VerdictCounts struct {
+	Claims       int `json:"claims"`
+	Supported    int `json:"supported"`
+	NotSupported int `json:"not_supported"`
+	CannotCheck  int `json:"cannot_be_checked"`
+}
+
+// Add counts the verdicts vs.
+func (c *VerdictCounts) Add(vs ...Verdict) {
+	for _, v := range vs {
+		c.Claims++
+		switch v.Status {
+		case Supported:
+			c.Supported++
+		case NotSupported:
+			c.NotSupported++
+		default:
+			c.CannotCheck++
+		}
+	}
+}
+
 // MarshalText writes the status as its String form.
 func (s Status) MarshalText() ([]byte, error) {
 	if s < 0 || int(s) >= len(statusWords) {
@@ -217,7 +253,7 @@ func Judge(c Claim, m JudgeInput) Verdict {
 		if d, ok := df.figure(err, c.Figure); ok {
 			v.DefaultBasisValue = d.Value
 			v.BasisNote = fmt.Sprintf("On the default basis (%s) the spectra give %s.",
-				basisShort(kind, d, m.Conditions), fmtNum(float64(d.Value), fig.Unit))
+				basisShort(kind, d, m.Conditions), FormatValue(float64(d.Value), fig.Unit))
 		}
 	}
 
@@ -230,7 +266,7 @@ func Judge(c Claim, m JudgeInput) Verdict {
 		uRound := roundingUncertainty(c.Value)
 		v.Allowed = Num(CoverageFactor * math.Hypot(uFig, uRound))
 		v.AllowedFrom = fmt.Sprintf("expanded uncertainty (k = %g) of the figure's standard uncertainty %s (%s) and the claim's rounding %s",
-			CoverageFactor, fmtNum(uFig, fig.Unit), from, fmtNum(uRound, fig.Unit))
+			CoverageFactor, FormatValue(uFig, fig.Unit), from, FormatValue(uRound, fig.Unit))
 	}
 	o := spectra.Resolve(m.Spectrum, cond.ClosureTol) // for the pitfalls
 	v.Pitfalls = pitfalls(c, fig, kind, o, float64(v.Allowed))
@@ -253,25 +289,25 @@ func Judge(c Claim, m JudgeInput) Verdict {
 
 	diff := computed - c.Value
 	within := math.Abs(diff) <= float64(v.Allowed)+edge
-	if fig.Unit == "" && math.Abs(c.Value) > maxFraction {
+	if fig.Unit == "" && math.Abs(c.Value) > MaxFraction {
 		v.Status = NotSupported
 		if looksLikePercent(c.Value, fig) {
 			v.Reason = fmt.Sprintf("The claim %s looks like a percentage: the figure is a fraction, and %g %% is %s against the computed %s.",
-				strconv.FormatFloat(c.Value, 'g', -1, 64), c.Value, fmtNum(c.Value/100, ""), fmtNum(computed, ""))
+				strconv.FormatFloat(c.Value, 'g', -1, 64), c.Value, FormatValue(c.Value/100, ""), FormatValue(computed, ""))
 		} else {
 			v.Reason = fmt.Sprintf("The claim %s is out of range for a fraction (at most %g), and the spectra give %s.",
-				strconv.FormatFloat(c.Value, 'g', -1, 64), maxFraction, fmtNum(computed, ""))
+				strconv.FormatFloat(c.Value, 'g', -1, 64), MaxFraction, FormatValue(computed, ""))
 		}
 		return v
 	}
-	allow := "±" + fmtNum(float64(v.Allowed), fig.Unit) + " (claimed tolerance)"
+	allow := "±" + FormatValue(float64(v.Allowed), fig.Unit) + " (claimed tolerance)"
 	if c.Tolerance == 0 {
-		allow = "±" + fmtNum(float64(v.Allowed), fig.Unit) + " (expanded uncertainty; no tolerance was claimed)"
+		allow = "±" + FormatValue(float64(v.Allowed), fig.Unit) + " (expanded uncertainty; no tolerance was claimed)"
 	}
 	if within {
 		v.Status = Supported
 		v.Reason = fmt.Sprintf("The spectra give %s against the claimed %s (difference %s), within %s.",
-			fmtNum(computed, fig.Unit), fmtNum(c.Value, fig.Unit), fmtSigned(diff, fig.Unit), allow)
+			FormatValue(computed, fig.Unit), FormatValue(c.Value, fig.Unit), FormatSigned(diff, fig.Unit), allow)
 		return v
 	}
 	dir := "above"
@@ -280,7 +316,7 @@ func Judge(c Claim, m JudgeInput) Verdict {
 	}
 	v.Status = NotSupported
 	v.Reason = fmt.Sprintf("The spectra give %s, %s %s the claimed %s, outside %s.",
-		fmtNum(computed, fig.Unit), fmtNum(math.Abs(diff), fig.Unit), dir, fmtNum(c.Value, fig.Unit), allow)
+		FormatValue(computed, fig.Unit), FormatValue(math.Abs(diff), fig.Unit), dir, FormatValue(c.Value, fig.Unit), allow)
 	return v
 }
 
@@ -418,7 +454,7 @@ func pitfalls(c Claim, fig Figure, kind figureKind, o spectra.Optics, allowed fl
 	}
 	if looksLikePercent(c.Value, fig) {
 		add(PitfallPercent, "The claim %s is above 1 for a fraction: it looks like a percentage (%s).",
-			strconv.FormatFloat(c.Value, 'g', -1, 64), fmtNum(c.Value/100, ""))
+			strconv.FormatFloat(c.Value, 'g', -1, 64), FormatValue(c.Value/100, ""))
 	}
 	switch kind {
 	case kindSolar, kindTransmittance, kindAbsorptance:
@@ -437,36 +473,37 @@ func pitfalls(c Claim, fig Figure, kind figureKind, o spectra.Optics, allowed fl
 		}
 	}
 	cl := o.Closure
-	worst, what := cl.Excess, fmt.Sprintf("R+T exceeds 1 by %s at %s nm", fmtNum(cl.Excess, ""), fmtHundredths(cl.ExcessNM))
+	worst, what := cl.Excess, fmt.Sprintf("R+T exceeds 1 by %s at %s nm", FormatValue(cl.Excess, ""), fmtHundredths(cl.ExcessNM))
 	if cl.Checked && cl.Residual > worst {
-		worst, what = cl.Residual, fmt.Sprintf("|R+T+A−1| reaches %s at %s nm", fmtNum(cl.Residual, ""), fmtHundredths(cl.ResidualNM))
+		worst, what = cl.Residual, fmt.Sprintf("|R+T+A−1| reaches %s at %s nm", FormatValue(cl.Residual, ""), fmtHundredths(cl.ResidualNM))
 	}
 	if -cl.Min > worst {
-		worst, what = -cl.Min, fmt.Sprintf("%s is %s at %s nm", cl.MinOf, fmtNum(cl.Min, ""), fmtHundredths(cl.MinNM))
+		worst, what = -cl.Min, fmt.Sprintf("%s is %s at %s nm", cl.MinOf, FormatValue(cl.Min, ""), fmtHundredths(cl.MinNM))
 	}
 	limit := allowed
 	if fig.Unit != "" && c.Value != 0 {
 		limit = allowed / math.Abs(c.Value) // relative, for figures with a unit
 	}
 	if worst > limit+edge {
-		add(PitfallClosure, "The data break closure by more than the claim's ±%s: %s.", fmtNum(limit, ""), what)
+		add(PitfallClosure, "The data break closure by more than the claim's ±%s: %s.", FormatValue(limit, ""), what)
 	}
 	return out
 }
 
-// maxFraction is the largest claim read as a fraction, as the readers
-// accept measured fractions up to 1.05.
-const maxFraction = 1.05
+// MaxFraction is the largest claim read as a fraction, as the readers
+// accept measured fractions up to 1.05; a larger claim of a fraction is not
+// supported.
+const MaxFraction = 1.05
 
 // percentNear is how close a claim divided by 100 must come to the computed
 // fraction to be taken for a percentage (common practice, no source).
 const percentNear = 0.05
 
 // looksLikePercent reports whether a claim of a fraction figure is above
-// maxFraction and, read as a percentage, a fraction near the computed
+// MaxFraction and, read as a percentage, a fraction near the computed
 // value (or any fraction when none was computed).
 func looksLikePercent(v float64, fig Figure) bool {
-	if fig.Unit != "" || !(math.Abs(v) > maxFraction && math.Abs(v) <= 100*maxFraction) {
+	if fig.Unit != "" || !(math.Abs(v) > MaxFraction && math.Abs(v) <= 100*MaxFraction) {
 		return false
 	}
 	x := float64(fig.Value)
@@ -623,9 +660,10 @@ func editDistance(a, b string) int {
 	return prev[len(rb)]
 }
 
-// fmtNum formats a value: fractions with 4 decimals, others with 1 and
-// their unit.
-func fmtNum(x float64, unit string) string {
+// FormatValue formats a number of a verdict as its reason writes it:
+// fractions (unit "") with four decimals, figures with a unit with one
+// decimal and the unit; "n/a" for NaN.
+func FormatValue(x float64, unit string) string {
 	if math.IsNaN(x) {
 		return "n/a"
 	}
@@ -635,11 +673,12 @@ func fmtNum(x float64, unit string) string {
 	return strconv.FormatFloat(x, 'f', 1, 64) + " " + unit
 }
 
-// fmtSigned formats x with its sign, and none when it shows as zero.
-func fmtSigned(x float64, unit string) string {
-	s := fmtNum(math.Abs(x), unit)
+// FormatSigned is [FormatValue] with a sign ("+" or "−"), none when x
+// shows as zero or is NaN.
+func FormatSigned(x float64, unit string) string {
+	s := FormatValue(math.Abs(x), unit)
 	switch {
-	case s == fmtNum(0, unit):
+	case math.IsNaN(x), s == FormatValue(0, unit):
 	case x < 0:
 		s = "−" + s
 	default:

@@ -394,3 +394,28 @@ func ExampleJudge() {
 	// The spectra give 0.9300, 0.0200 below the claimed 0.9500, outside ±0.0100 (claimed tolerance).
 	// solar band 280–2500 nm (default), ASTM G173-03 global tilt spectrum (default)
 }
+
+// TestVerdictWords checks the small formatting helpers the site and the
+// check report share: the claim as written, the neutral marks, signed
+// numbers and the counts.
+func TestVerdictWords(t *testing.T) {
+	for _, tt := range []struct{ got, want string }{
+		{Claim{Value: 0.95, Tolerance: 0.01}.Text(), "0.95 ± 0.01"},
+		{Claim{Value: 0.950}.Text(), "0.95"},
+		{Claim{Value: 96}.Text(), "96"},
+		{Supported.Mark() + NotSupported.Mark() + CannotCheck.Mark(), "=≠?"},
+		{FormatSigned(-0.0357, ""), "−0.0357"},
+		{FormatSigned(0.00001, ""), "0.0000"},
+		{FormatSigned(math.NaN(), ""), "n/a"},
+		{FormatSigned(12.34, "W/m²"), "+12.3 W/m²"},
+	} {
+		if tt.got != tt.want {
+			t.Errorf("got %q, want %q", tt.got, tt.want)
+		}
+	}
+	var c VerdictCounts
+	c.Add(Verdict{Status: Supported}, Verdict{Status: NotSupported}, Verdict{Status: CannotCheck}, Verdict{Status: CannotCheck})
+	if c != (VerdictCounts{Claims: 4, Supported: 1, NotSupported: 1, CannotCheck: 2}) {
+		t.Errorf("counts %+v", c)
+	}
+}

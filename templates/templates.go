@@ -5,9 +5,10 @@
 // # Templates
 //
 // The *.html files are html/template sources parsed together. Each page is
-// one named template: "index", "datasheet", "listing" and "compare". They
-// share "top" and "bottom" (layout.html), which in turn call the blocks
-// "head-extra", "site-header" and "site-footer". A file in the library's
+// one named template: "index", "datasheet", "listing", "compare" and
+// "review". They share "top" and "bottom" (layout.html), which in turn call
+// the blocks "head-extra", "site-header" and "site-footer", and the pieces
+// "verdict", "claim-detail" and "pitfall" that show a judged claim. A file in the library's
 // templates/ folder is parsed after the defaults, so a {{define}} in it
 // replaces the default of that name; a file with a default's name (say
 // datasheet.html) replaces the templates that file defines.

@@ -36,10 +36,7 @@ type checkCounts struct {
 	Files        int `json:"files"` // Markdown files and the config
 	InvalidFiles int `json:"invalid_files"`
 	ClosureFails int `json:"closure_failures"`
-	Claims       int `json:"claims"`
-	Supported    int `json:"supported"`
-	NotSupported int `json:"not_supported"`
-	CannotCheck  int `json:"cannot_be_checked"`
+	datasheet.VerdictCounts
 }
 
 // checkMaterial is what was found in one file: a material, or the config or
@@ -146,13 +143,12 @@ func buildCheck(dir string, lib *library.Library, loadErr error, strict bool) *c
 				cl := mat.Figures.Closure
 				cm.Closure = &cl
 			}
-			in := datasheet.JudgeInput{Spectrum: mat.Spectrum, Conditions: mat.Conditions, Angle: mat.Front.Measured.Angle}
 			for i, c := range mat.Front.Claims {
 				if err := c.Validate(); err != nil {
 					cm.Errors = append(cm.Errors, fmt.Sprintf("%s: claim %d: %v", mat.Path, i+1, err))
 				}
-				cm.Verdicts = append(cm.Verdicts, datasheet.Judge(c, in))
 			}
+			cm.Verdicts = mat.Verdicts()
 		}
 	}
 	for _, err := range splitErrors(loadErr) {
@@ -179,17 +175,7 @@ func buildCheck(dir string, lib *library.Library, loadErr error, strict bool) *c
 		if m.Closure != nil && !m.Closure.OK {
 			r.Counts.ClosureFails++
 		}
-		for _, v := range m.Verdicts {
-			r.Counts.Claims++
-			switch v.Status {
-			case datasheet.Supported:
-				r.Counts.Supported++
-			case datasheet.NotSupported:
-				r.Counts.NotSupported++
-			default:
-				r.Counts.CannotCheck++
-			}
-		}
+		r.Counts.Add(m.Verdicts...)
 		if m.failed(strict) {
 			r.OK = false
 		}

@@ -19,24 +19,9 @@ var checkWriters = map[string]func(io.Writer, *checkReport) error{
 	"junit": writeCheckJUnit,
 }
 
-// statusMark is the neutral sign shown before a verdict: the spectra agree
-// with the claim (=), disagree (≠) or cannot tell (?).
-func statusMark(s datasheet.Status) string {
-	switch s {
-	case datasheet.Supported:
-		return "="
-	case datasheet.NotSupported:
-		return "≠"
-	}
-	return "?"
-}
-
 // claimWords describes a claim: "solar_reflectance 0.95 ± 0.01 (source)".
 func claimWords(c datasheet.Claim) string {
-	s := c.Figure + " " + strconv.FormatFloat(c.Value, 'g', -1, 64)
-	if c.Tolerance > 0 {
-		s += " ± " + strconv.FormatFloat(c.Tolerance, 'g', -1, 64)
-	}
+	s := c.Figure + " " + c.Text()
 	if c.Source != "" {
 		s += " (" + c.Source + ")"
 	}
@@ -80,7 +65,7 @@ func writeCheckText(w io.Writer, r *checkReport) error {
 			ew.printf("      no claims\n")
 		}
 		for _, v := range m.Verdicts {
-			ew.printf("  [%s] %s: %s\n", statusMark(v.Status), v.Status, claimWords(v.Claim))
+			ew.printf("  [%s] %s: %s\n", v.Status.Mark(), v.Status, claimWords(v.Claim))
 			ew.printf("      %s\n", v.Reason)
 			if v.Basis != "" {
 				ew.printf("      basis: %s\n", v.Basis)

@@ -1,16 +1,18 @@
 // Package site renders a [library.Library] as a static website: a datasheet
 // page per material, a library index with a sortable table and a scatter
-// chart, category and tag listings, comparison pages, catalog.json and the
+// chart, category and tag listings, comparison pages, a review page of the
+// claims the spectra do not support or cannot check, catalog.json and the
 // downloads of every material.
 //
 // # Output
 //
 //	index.html                  library index
-//	m/SLUG/index.html           datasheet; beside it spectrum.csv, figures.json, source.md
+//	m/SLUG/index.html           datasheet; beside it spectrum.csv, figures.json, claims.json, source.md
 //	category/CAT/index.html     materials of one category
 //	tag/TAG/index.html          materials with one tag
 //	compare/SLUG/index.html     comparison pages
-//	catalog.json                every material's metadata and figures
+//	review/index.html           claims not supported or not checkable
+//	catalog.json                every material's metadata, figures and claims with verdicts
 //	assets/style.css, assets/site.js
 //
 // Links are relative and name index.html, so the site works from file://
@@ -20,7 +22,9 @@
 //
 // [Build] writes the same bytes for the same library: no clock, no random
 // order (maps are sorted, materials keep library order). Pages are rendered
-// in parallel and written in a fixed order.
+// in parallel and written in a fixed order. Each material's claims are
+// judged once, by the worker that renders its datasheet; the review page
+// and catalog.json, built afterwards, reuse those verdicts.
 //
 // # Safety
 //

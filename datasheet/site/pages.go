@@ -12,7 +12,7 @@ import (
 )
 
 // materialView builds the datasheet data of m for a page at root.
-func (b *builder) materialView(m *library.Material, root string, cmps []*library.Comparison) (*materialView, error) {
+func (b *builder) materialView(m *library.Material, vs []datasheet.Verdict, root string, cmps []*library.Comparison) (*materialView, error) {
 	fm, f := m.Front, m.Figures
 	v := &materialView{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
 		Summary: fm.Summary, License: fm.License, Inputs: m.Inputs, Cautions: cautionsOf(f),
@@ -35,9 +35,14 @@ func (b *builder) materialView(m *library.Material, root string, cmps []*library
 	if m.Spectrum.Has(spectra.T) {
 		v.Key = append(v.Key, keyFig{Label: "Solar transmittance", Value: fmtFrac(f.SolarTransmittance), Note: fmtBand(c.SolarBandNM, "nm")})
 	}
+	v.Claims = claimViews(vs)
+	var counts datasheet.VerdictCounts
+	counts.Add(vs...)
+	v.ClaimCounts = countWords(counts)
+	refs := claimRefs(v.Claims)
 	for _, x := range f.Figures {
 		r := figRow{Key: x.Key, Label: x.Label, Value: fmtValue(x.Key, x.Value, x.Unit), Band: fmtBand(x.Band, x.BandUnit),
-			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage), Unc: fmtUnc(x.Uncertainty)}
+			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage), Unc: fmtUnc(x.Uncertainty), Claims: refs[x.Key]}
 		if r.Unc != "" {
 			v.HasUnc = true
 		}
@@ -59,6 +64,9 @@ func (b *builder) materialView(m *library.Material, root string, cmps []*library
 		{Name: "spectrum.csv", Href: "spectrum.csv", Note: "the spectrum, normalised to the neutral column format"},
 		{Name: "figures.json", Href: "figures.json", Note: fmt.Sprintf("every figure with its basis (schema %d)", f.Schema)},
 		{Name: "source.md", Href: "source.md", Note: "the Markdown source with its front matter"},
+	}
+	if len(vs) > 0 {
+		v.Downloads = append(v.Downloads, link{Name: "claims.json", Href: "claims.json", Note: "the verdict on every claim, with its reason and basis"})
 	}
 	for _, x := range cmps {
 		v.Comparisons = append(v.Comparisons, link{Name: x.Front.Title, Href: root + "compare/" + x.Slug + "/index.html"})
@@ -166,6 +174,10 @@ func (b *builder) indexFiles(out files) error {
 	p := b.newPage("index", b.site.Title, "index.html")
 	ms, numbers := b.ordered()
 	v := &indexView{Count: len(ms), Table: b.table("library-table", "", ms, numbers)}
+	for _, m := range ms {
+		v.Claims.Add(b.verdicts[m]...)
+	}
+	v.ClaimWords = countWords(v.Claims)
 	sc, err := scatterChart(ms, v.Table.Rows)
 	if err != nil {
 		return &library.Error{File: "index.html", Err: fmt.Errorf("scatter chart: %w", err)}
@@ -290,9 +302,10 @@ type catalogEntry struct {
 	Page        string             `json:"page"`
 	Spectrum    string             `json:"spectrum"`
 	FiguresFile string             `json:"figures_file"`
+	ClaimsFile  string             `json:"claims_file"`
 	Source      string             `json:"source"`
 	Inputs      []library.Input    `json:"inputs"`
-	Claims      []datasheet.Claim  `json:"claims"`
+	Claims      []catalogClaim     `json:"claims"` // each with its verdict
 	Figures     *datasheet.Figures `json:"figures"`
 }
 
@@ -329,13 +342,10 @@ func (b *builder) catalog(ms []*library.Material) ([]byte, error) {
 		dir := materialDir(m.Slug)
 		e := catalogEntry{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
 			Category: fm.Category, Tags: uniqueTags(fm.Tags), Summary: fm.Summary, License: fm.License, Measured: fm.Measured,
-			Page: dir + "index.html", Spectrum: dir + "spectrum.csv", FiguresFile: dir + "figures.json", Source: dir + "source.md",
-			Inputs: m.Inputs, Claims: fm.Claims, Figures: m.Figures}
+			Page: dir + "index.html", Spectrum: dir + "spectrum.csv", FiguresFile: dir + "figures.json", ClaimsFile: dir + "claims.json",
+			Source: dir + "source.md", Inputs: m.Inputs, Claims: catalogClaims(b.verdicts[m]), Figures: m.Figures}
 		if e.Tags == nil {
 			e.Tags = []string{}
-		}
-		if e.Claims == nil {
-			e.Claims = []datasheet.Claim{}
 		}
 		c.Materials = append(c.Materials, e)
 	}

@@ -12,6 +12,7 @@ import (
 	"sort"
 	"sync"
 
+	"skysheet/datasheet"
 	"skysheet/datasheet/library"
 	"skysheet/spectra"
 	"skysheet/templates"
@@ -71,6 +72,10 @@ type builder struct {
 	tmpl *template.Template
 	md   markdown
 	site siteInfo
+	// verdicts holds each material's verdicts, judged once while its page
+	// is rendered and read by the pages built after: the index, the review
+	// page and catalog.json.
+	verdicts map[*library.Material][]datasheet.Verdict
 }
 
 func newBuilder(lib *library.Library, opt Options) (*builder, error) {
@@ -101,7 +106,7 @@ func parseTemplates(over fs.FS) (*template.Template, error) {
 	if err != nil {
 		return nil, fmt.Errorf("templates/: %w", err)
 	}
-	for _, n := range []string{"index", "datasheet", "listing", "compare"} {
+	for _, n := range []string{"index", "datasheet", "listing", "compare", "review"} {
 		if t.Lookup(n) == nil {
 			return nil, fmt.Errorf("templates/: the page template %q is missing", n)
 		}
@@ -134,6 +139,7 @@ func (b *builder) render() (files, error) {
 
 	// Material pages in parallel; results by index, so order is fixed.
 	results := make([]files, total)
+	judged := make([][]datasheet.Verdict, total)
 	pageErrs := make([]error, total)
 	workers := b.opt.Workers
 	if workers <= 0 {
@@ -146,7 +152,8 @@ func (b *builder) render() (files, error) {
 	for range min(workers, max(total, 1)) {
 		wg.Go(func() {
 			for i := range next {
-				results[i], pageErrs[i] = b.materialFiles(mats[i], cmpOf[mats[i].Slug])
+				judged[i] = judge(mats[i])
+				results[i], pageErrs[i] = b.materialFiles(mats[i], judged[i], cmpOf[mats[i].Slug])
 				done <- i
 			}
 		})
@@ -166,7 +173,9 @@ func (b *builder) render() (files, error) {
 			b.opt.Progress(n, total)
 		}
 	}
-	for i := range mats {
+	b.verdicts = make(map[*library.Material][]datasheet.Verdict, total)
+	for i, m := range mats {
+		b.verdicts[m] = judged[i]
 		if pageErrs[i] != nil {
 			errs = append(errs, pageErrs[i])
 			continue
@@ -186,6 +195,9 @@ func (b *builder) render() (files, error) {
 		if err := b.comparisonFiles(c, out); err != nil {
 			errs = append(errs, err)
 		}
+	}
+	if err := b.reviewFiles(out); err != nil {
+		errs = append(errs, err)
 	}
 	for _, a := range []string{"style.css", "site.js"} {
 		data, err := b.asset(a)
@@ -249,14 +261,15 @@ func (b *builder) comparisonsOf() map[string][]*library.Comparison {
 	return m
 }
 
-// materialFiles renders one material: its page and downloads.
-func (b *builder) materialFiles(m *library.Material, cmps []*library.Comparison) (files, error) {
+// materialFiles renders one material with the verdicts on its claims: its
+// page and downloads.
+func (b *builder) materialFiles(m *library.Material, vs []datasheet.Verdict, cmps []*library.Comparison) (files, error) {
 	dir := materialDir(m.Slug)
 	fail := func(err error) (files, error) {
 		return nil, &library.Error{File: m.Path, Err: fmt.Errorf("page %sindex.html: %w", dir, err)}
 	}
 	p := b.newPage("datasheet", m.Front.Title, dir+"index.html")
-	v, err := b.materialView(m, p.Root, cmps)
+	v, err := b.materialView(m, vs, p.Root, cmps)
 	if err != nil {
 		return fail(err)
 	}
@@ -273,10 +286,15 @@ func (b *builder) materialFiles(m *library.Material, cmps []*library.Comparison)
 	if err != nil {
 		return fail(err)
 	}
+	claims, err := b.claimsJSON(m, vs)
+	if err != nil {
+		return fail(err)
+	}
 	return files{
 		dir + "index.html":   html,
 		dir + "spectrum.csv": csv.Bytes(),
 		dir + "figures.json": append(js, '\n'),
+		dir + "claims.json":  claims,
 		dir + "source.md":    m.Source,
 	}, nil
 }

@@ -70,6 +70,12 @@ func TestBuildDeterministic(t *testing.T) {
 	lib := testLibrary(t)
 	a := buildTest(t, lib, Options{Workers: 1})
 	b := buildTest(t, testLibrary(t), Options{Workers: 4})
+	sameSite(t, a, b)
+}
+
+// sameSite checks that two builds wrote the same files, byte for byte.
+func sameSite(t *testing.T, a, b memWriter) {
+	t.Helper()
 	if len(a) != len(b) {
 		t.Fatalf("%d files vs %d", len(a), len(b))
 	}
@@ -132,25 +138,53 @@ func TestBuildFiles(t *testing.T) {
 	}
 }
 
-var linkRE = regexp.MustCompile(`(?:href|src)="([^"#]*)(#[^"]*)?"`)
+var (
+	linkRE = regexp.MustCompile(`(?:href|src)="([^"#]*)(#[^"]*)?"`)
+	idRE   = regexp.MustCompile(` id="([^"]+)"`)
+)
 
 // TestLinksResolve follows every relative link of every page to a file of
 // the site: no 404 inside the site, and every link names a file (works
 // from file://).
 func TestLinksResolve(t *testing.T) {
-	out := buildTest(t, testLibrary(t), Options{})
+	checkLinks(t, buildTest(t, testLibrary(t), Options{}))
+}
+
+// checkLinks checks that every relative link of every page of out names a
+// file of out and, when it has a fragment into a page, an id on that page.
+func checkLinks(t *testing.T, out memWriter) {
+	t.Helper()
+	ids := map[string]map[string]bool{}
+	idsOf := func(name string) map[string]bool {
+		if m, ok := ids[name]; ok {
+			return m
+		}
+		m := map[string]bool{}
+		for _, x := range idRE.FindAllStringSubmatch(string(out[name]), -1) {
+			m[html.UnescapeString(x[1])] = true
+		}
+		ids[name] = m
+		return m
+	}
 	for name, data := range out {
 		if !strings.HasSuffix(name, ".html") {
 			continue
 		}
 		for _, m := range linkRE.FindAllStringSubmatch(string(data), -1) {
 			href := html.UnescapeString(m[1])
-			if href == "" || strings.Contains(href, "://") || strings.HasPrefix(href, "mailto:") {
+			if strings.Contains(href, "://") || strings.HasPrefix(href, "mailto:") {
 				continue
 			}
-			target := path.Join(path.Dir(name), href)
+			target := name
+			if href != "" {
+				target = path.Join(path.Dir(name), href)
+			}
 			if _, ok := out[target]; !ok {
 				t.Errorf("%s links to %q: %s is not in the site", name, href, target)
+				continue
+			}
+			if frag := strings.TrimPrefix(html.UnescapeString(m[2]), "#"); frag != "" && strings.HasSuffix(target, ".html") && !idsOf(target)[frag] {
+				t.Errorf("%s links to %q: %s has no id %q", name, href+m[2], target, frag)
 			}
 		}
 	}

@@ -18,12 +18,13 @@ type page struct {
 	Site      siteInfo
 	Root      string // relative path from the page to the site root ("" or "../../")
 	Title     string
-	Kind      string // index, datasheet, listing, compare
+	Kind      string // index, datasheet, listing, compare, review
 	Canonical string
 	I         *indexView
 	M         *materialView
 	L         *listingView
 	C         *compareView
+	R         *reviewView
 }
 
 type siteInfo struct {
@@ -40,7 +41,10 @@ type pair struct{ K, V string }
 
 type keyFig struct{ Label, Value, Unit, Note string }
 
-type figRow struct{ Key, Label, Value, Unc, Band, Weighting, Coverage string }
+type figRow struct {
+	Key, Label, Value, Unc, Band, Weighting, Coverage string
+	Claims                                            []claimRef // claims of this figure
+}
 
 type spectrumRow struct{ File, Role, Instrument, Notes string }
 
@@ -62,6 +66,8 @@ type materialView struct {
 	Key                                                    []keyFig
 	Figures                                                []figRow
 	HasUnc                                                 bool
+	Claims                                                 []claimView
+	ClaimCounts                                            string // "3 claims: 1 supported, …"
 	Body                                                   template.HTML
 	Measured                                               []pair
 	Spectra                                                []spectrumRow
@@ -99,6 +105,8 @@ type tableView struct {
 
 type indexView struct {
 	Count       int
+	Claims      datasheet.VerdictCounts // over the whole library
+	ClaimWords  string                  // the counts in words
 	Table       tableView
 	Scatter     *chartView
 	Categories  []link
