@@ -46,6 +46,9 @@ func (b *builder) materialView(m *library.Material, vs []datasheet.Verdict, root
 		if r.Unc != "" {
 			v.HasUnc = true
 		}
+		if x.Key == "solar_transmittance" && !m.Spectrum.Has(spectra.T) {
+			r.Value += " (assumed: no T measured)"
+		}
 		v.Figures = append(v.Figures, r)
 	}
 	for _, s := range fm.Spectra {

@@ -214,17 +214,18 @@ func notFraction(key string) bool {
 	return false
 }
 
-// fmtUnc formats a figure's standard uncertainty: independent … correlated
-// errors, two significant digits, with the share of the figure's
+// fmtUnc formats a figure's standard uncertainty as "±indep. / ±together"
+// (errors independent between wavelengths, errors moving together), two
+// significant digits, marked "partial" with the share of the figure's
 // sensitivity that stated uncertainties reach when below 100 %.
 func fmtUnc(u *datasheet.Uncertainty) string {
 	if u == nil || isNaN(u.Uncorrelated) || isNaN(u.Correlated) {
 		return ""
 	}
-	g := func(x datasheet.Num) string { return strconv.FormatFloat(float64(x), 'g', 2, 64) }
-	s := g(u.Uncorrelated) + " … " + g(u.Correlated)
+	g := func(x datasheet.Num) string { return "±" + strconv.FormatFloat(float64(x), 'g', 2, 64) }
+	s := g(u.Uncorrelated) + " / " + g(u.Correlated)
 	if !isNaN(u.Reach) && float64(u.Reach) < 0.995 {
-		s += " (reaches " + strconv.FormatFloat(100*float64(u.Reach), 'f', 0, 64) + " %)"
+		s += " (partial, " + strconv.FormatFloat(100*float64(u.Reach), 'f', 0, 64) + " %)"
 	}
 	return s
 }
