@@ -2,9 +2,11 @@ package site
 
 import (
 	"bytes"
+	"cmp"
 	"fmt"
 	"html"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"sync"
@@ -37,9 +39,11 @@ var (
 	colT       = rgba{0xc7, 0x84, 0x12, 0xff} // transmittance: amber
 	colA       = rgba{0xa8, 0x32, 0x3e, 0xff} // absorptance / emittance: brick red
 	colSun     = rgba{0xf2, 0xc9, 0x4c, 0x5a} // solar spectrum shading
-	colBody    = rgba{0xd9, 0x8c, 0x8c, 0x48} // blackbody shading
-	colWindow  = rgba{0x7f, 0xbf, 0xb8, 0x40} // atmospheric window band
-	colGrid    = rgba{0xe4, 0xe7, 0xeb, 0xff}
+	colBody    = rgba{0xf4, 0xdf, 0xdf, 0xff} // blackbody shading: opaque, so that the window band does not tint it
+	colWindow  = rgba{0x3f, 0xa3, 0x5f, 0x24} // atmospheric window band: a faint green, its edges carry it
+	colWindowE = rgba{0x1e, 0x6b, 0x4a, 0xff} // atmospheric window edges and label
+	colMark    = rgba{0x3a, 0x42, 0x4d, 0xff} // marker lines (air temperature)
+	colGrid    = rgba{0x1b, 0x23, 0x2e, 0x1c} // translucent: shows over shading too
 	colAxis    = rgba{0x6a, 0x72, 0x7e, 0xff}
 	colText    = rgba{0x3a, 0x42, 0x4d, 0xff}
 	colPalette = []rgba{
@@ -47,6 +51,22 @@ var (
 		{0x6a, 0x4c, 0x9c, 0xff}, {0x1b, 0x23, 0x2e, 0xff}, {0xbf, 0x5b, 0x8a, 0xff}, {0x00, 0x83, 0x8f, 0xff},
 	}
 )
+
+// px is a length in SVG units. A datasheet chart is drawn at about 0.9 of
+// its own size on a desktop page, so text sizes in px are close to the
+// size seen on screen.
+type px float64
+
+// Text sizes of every chart.
+const (
+	textTick   px = 14   // tick labels
+	textName   px = 14.5 // axis titles
+	textLegend px = 14   // legend entries
+	textLabel  px = 13.5 // labels of points and bands
+)
+
+// points converts a size to the points go-chart takes at its DPI.
+func (s px) points() float64 { return float64(s) * 72 / chart.DefaultDPI }
 
 // line is one curve of a plot, possibly in several pieces (gaps between
 // pieces stay gaps).
@@ -59,11 +79,24 @@ type line struct {
 	pieces []spectra.Piece
 }
 
-// band is a vertical shaded band across the plot.
+// band is a vertical shaded band across the plot, optionally with a line
+// at each edge and a short label above the plot.
 type band struct {
 	name   string
 	lo, hi float64
 	color  rgba
+	edge   rgba   // colour of the edge lines; zero alpha for none
+	label  string // written above the plot, centred on the band, where it fits
+}
+
+// rule is a thin straight line across the whole plot: vertical at x = at,
+// or horizontal at y = at.
+type rule struct {
+	name     string // legend entry; "" for none
+	at       float64
+	vertical bool
+	color    rgba
+	dash     []float64
 }
 
 // plot describes a chart.
@@ -75,6 +108,7 @@ type plot struct {
 	xTicks, yTicks []float64 // nil: chosen from the range
 	xFmt, yFmt     string    // strconv 'f' precision; -1 for shortest
 	bands          []band
+	rules          []rule
 	lines          []line
 	points         *pointSet
 	noLegend       bool
@@ -89,7 +123,8 @@ type pointSet struct {
 	title  []string // tooltip
 	slug   []string
 	colors []rgba
-	pix    [][2]int // pixel positions, filled while rendering
+	pix    [][2]int  // pixel positions, filled while rendering
+	box    chart.Box // the plot box, filled while rendering
 }
 
 // svg renders the plot to SVG with role="img" and an aria-label.
@@ -110,39 +145,54 @@ func (p plot) svg(ariaLabel string) (string, error) {
 // not safe for charts rendered in parallel.
 var defaultFont = sync.OnceValues(chart.GetDefaultFont)
 
+// Margins of the chart around the plot and its axes.
+const (
+	padTop, padLeft, padRight, padBottom = 36, 10, 24, 6
+)
+
 // chart returns the go-chart description of the plot.
 func (p plot) chart() chart.Chart {
 	f, _ := defaultFont() // the font is embedded; a failure leaves nil and go-chart tries again
+	lg := p.legendLayout()
+	// The height allows for two rows of legend; a longer legend makes the
+	// chart taller rather than the plot smaller.
+	p.height += max(0, lg.rows-legendRows) * legendRow
 	c := chart.Chart{
 		Font:       f,
 		Width:      p.width,
 		Height:     p.height,
-		Background: chart.Style{Padding: chart.Box{Top: 30, Left: 10, Right: 22, Bottom: 6 + p.legendHeight()}, FillColor: drawing.ColorWhite},
+		Background: chart.Style{Padding: chart.Box{Top: padTop, Left: padLeft, Right: padRight, Bottom: padBottom + lg.height()}, FillColor: drawing.ColorWhite},
 		Canvas:     chart.Style{FillColor: drawing.ColorWhite},
 	}
-	axisStyle := chart.Style{StrokeColor: colAxis.color(), StrokeWidth: 1, FontColor: colText.color(), FontSize: 10}
-	nameStyle := chart.Style{FontColor: colText.color(), FontSize: 10.5}
-	grid := chart.Style{StrokeColor: colGrid.color(), StrokeWidth: 1}
+	axisStyle := chart.Style{StrokeColor: colAxis.color(), StrokeWidth: 1, FontColor: colText.color(), FontSize: textTick.points()}
+	nameStyle := chart.Style{FontColor: colText.color(), FontSize: textName.points()}
 	xt := ticks(p.xLo, p.xHi, p.xTicks, p.xFmt, 7)
 	yt := ticks(p.yLo, p.yHi, p.yTicks, p.yFmt, 6)
-	c.XAxis = chart.XAxis{Name: p.xName, NameStyle: nameStyle, Style: axisStyle, Ticks: xt, GridMajorStyle: grid}
+	c.XAxis = chart.XAxis{Name: p.xName, NameStyle: nameStyle, Style: axisStyle, Ticks: xt}
 	// go-chart draws its primary y axis on the right; ours is on the left
 	// (the secondary axis). The hidden primary axis carries the same ticks
 	// because go-chart sizes the secondary range from the primary ticks.
 	// The y-axis title is written level above the axis (see yTitle).
 	c.YAxis = chart.YAxis{Style: chart.Hidden(), Ticks: yt}
-	c.YAxisSecondary = chart.YAxis{Style: axisStyle, Ticks: yt, GridMajorStyle: grid}
+	c.YAxisSecondary = chart.YAxis{Style: axisStyle, Ticks: yt}
 
 	buckets := p.maxPoints / 4
 	if buckets == 0 {
 		buckets = p.width / 4 // at most 4 points per 4 px: finer than the eye
 	}
+	// Drawing order: shaded bands, shaded curves, grid, band edges and
+	// rules, then the curves, so that no shading hides a line. (go-chart
+	// would draw the grid first, under opaque shading.)
+	var bands []band
 	for _, b := range p.bands {
 		lo, hi := math.Max(b.lo, p.xLo), math.Min(b.hi, p.xHi)
 		if hi > lo {
+			b.lo, b.hi = lo, hi
+			bands = append(bands, b)
 			c.Series = append(c.Series, bandSeries{lo: lo, hi: hi, color: b.color})
 		}
 	}
+	var curves []chart.Series
 	for _, l := range p.lines {
 		for _, pc := range l.pieces {
 			pc = thin(clip(pc, p.xLo, p.xHi), p.xLo, p.xHi, buckets)
@@ -154,28 +204,46 @@ func (p plot) chart() chart.Chart {
 				ys[i] = math.Max(p.yLo, math.Min(p.yHi, v))
 			}
 			st := chart.Style{StrokeColor: l.color.color(), StrokeWidth: l.width, StrokeDashArray: l.dash}
+			s := chart.ContinuousSeries{YAxis: chart.YAxisSecondary, XValues: pc.NM, YValues: ys, Style: st}
 			if l.fill {
-				st.FillColor = l.color.color()
-				st.StrokeColor = l.color.alpha(0).color()
+				s.Style.FillColor = l.color.color()
+				s.Style.StrokeColor = l.color.alpha(0).color()
+				c.Series = append(c.Series, s)
+				continue
 			}
-			c.Series = append(c.Series, chart.ContinuousSeries{YAxis: chart.YAxisSecondary, XValues: pc.NM, YValues: ys, Style: st})
+			curves = append(curves, s)
 		}
 	}
+	// The grid is always there: with nothing else to draw, it keeps the
+	// axes (go-chart draws the left axis only for a series on it).
+	c.Series = append(c.Series, gridSeries{xt: xt, yt: yt})
+	for _, b := range bands {
+		if b.edge.A != 0 {
+			c.Series = append(c.Series, ruleSeries{at: b.lo, vertical: true, color: b.edge}, ruleSeries{at: b.hi, vertical: true, color: b.edge})
+		}
+	}
+	for _, r := range p.rules {
+		lo, hi := p.yLo, p.yHi
+		if r.vertical {
+			lo, hi = p.xLo, p.xHi
+		}
+		if r.at >= lo && r.at <= hi {
+			c.Series = append(c.Series, ruleSeries{at: r.at, vertical: r.vertical, color: r.color, dash: r.dash})
+		}
+	}
+	c.Series = append(c.Series, curves...)
 	if p.points != nil {
 		c.Series = append(c.Series, &pointSeries{set: p.points})
 	}
-	if len(c.Series) == 0 {
-		// Nothing to draw: an empty, invisible series keeps the axes.
-		c.Series = append(c.Series, chart.ContinuousSeries{YAxis: chart.YAxisSecondary,
-			XValues: []float64{p.xLo, p.xHi}, YValues: []float64{p.yLo, p.yLo},
-			Style: chart.Style{StrokeColor: drawing.ColorWhite.WithAlpha(0), StrokeWidth: 1}})
-	}
-	c.Elements = []chart.Renderable{yTitle(p.yName, nameStyle)}
-	if !p.noLegend {
-		c.Elements = append(c.Elements, legend(p))
+	c.Elements = []chart.Renderable{yTitle(p.yName, nameStyle), bandLabels(p, bands)}
+	if len(lg.entries) > 0 {
+		c.Elements = append(c.Elements, lg.draw(p))
 	}
 	return c
 }
+
+// yTitleX is where the y-axis title starts.
+const yTitleX = 10
 
 // yTitle writes the y-axis title level, above the top left of the plot.
 func yTitle(name string, st chart.Style) chart.Renderable {
@@ -187,13 +255,53 @@ func yTitle(name string, st chart.Style) chart.Renderable {
 		r.SetFont(defaults.GetFont())
 		r.SetFontSize(st.FontSize)
 		r.SetFontColor(st.FontColor)
-		r.Text(name, 10, box.Top-12)
+		r.Text(name, yTitleX, box.Top-12)
+	}
+}
+
+// bandLabels writes the labels of the bands above the plot, centred on
+// each band, leaving out a label that would run into the y-axis title,
+// another label or the edge of the chart; the legend names every band in
+// full anyway.
+func bandLabels(p plot, bands []band) chart.Renderable {
+	return func(r chart.Renderer, box chart.Box, defaults chart.Style) {
+		taken := 0
+		if p.yName != "" {
+			taken = yTitleX + textWidth(p.yName, textName) + 10
+		}
+		xr := chart.ContinuousRange{Min: p.xLo, Max: p.xHi, Domain: box.Width()}
+		for _, b := range bands {
+			if b.label == "" {
+				continue
+			}
+			// Centred on the band, or as far left of that as the text
+			// before it needs, within the band.
+			w := textWidth(b.label, textLabel)
+			x0, x1 := box.Left+xr.Translate(b.lo), box.Left+xr.Translate(b.hi)
+			x := max((x0+x1-w)/2, taken)
+			if x+w > max(x1, (x0+x1+w)/2) || x+w > p.width-4 {
+				continue
+			}
+			r.ClearTextRotation()
+			r.SetFont(defaults.GetFont())
+			r.SetFontSize(textLabel.points())
+			col := b.edge
+			if col.A == 0 {
+				col = colText
+			}
+			r.SetFontColor(col.color())
+			r.Text(b.label, x, box.Top-12)
+			taken = x + w + 10
+		}
 	}
 }
 
 // ticks returns axis ticks from lo to hi: the given values, or about n
 // round values, always with lo and hi themselves (go-chart takes the axis
-// range from the outermost ticks).
+// range from the outermost ticks). A labelled tick closer than 8 % of the
+// range to one kept before it is dropped; the ends come first. Where the
+// values are given, an end that is not one of them is kept without a
+// label, so that the axis may end between round values.
 func ticks(lo, hi float64, given []float64, prec string, n int) []chart.Tick {
 	vals := given
 	if vals == nil {
@@ -206,30 +314,36 @@ func ticks(lo, hi float64, given []float64, prec string, n int) []chart.Tick {
 	if prec != "" {
 		p, _ = strconv.Atoi(prec)
 	}
-	label := func(v float64) string { return strconv.FormatFloat(v, 'f', p, 64) }
+	label := func(v float64) string {
+		if v == 0 {
+			v = 0 // not −0, which would be labelled "-0.0"
+		}
+		return strconv.FormatFloat(v, 'f', p, 64)
+	}
 	var out []chart.Tick
-	minGap := (hi - lo) * 0.06
-	add := func(v float64) {
+	minGap := (hi - lo) * 0.08 // on a 200 px axis, 16 px: a line of tick text
+	add := func(v float64, labelled bool) {
 		for _, t := range out {
-			if math.Abs(t.Value-v) < minGap {
+			if t.Value == v || labelled && t.Label != "" && math.Abs(t.Value-v) < minGap {
 				return
 			}
 		}
-		out = append(out, chart.Tick{Value: v, Label: label(v)})
+		t := chart.Tick{Value: v}
+		if labelled {
+			t.Label = label(v)
+		}
+		out = append(out, t)
 	}
-	add(lo)
-	add(hi)
+	for _, end := range []float64{lo, hi} {
+		add(end, given == nil || slices.Contains(given, end))
+	}
 	for _, v := range vals {
 		if v > lo && v < hi {
-			add(v)
+			add(v, true)
 		}
 	}
 	// Sorted for a stable SVG.
-	for i := 1; i < len(out); i++ {
-		for j := i; j > 0 && out[j].Value < out[j-1].Value; j-- {
-			out[j], out[j-1] = out[j-1], out[j]
-		}
-	}
+	slices.SortFunc(out, func(a, b chart.Tick) int { return cmp.Compare(a.Value, b.Value) })
 	return out
 }
 
@@ -316,105 +430,214 @@ func thin(p spectra.Piece, lo, hi float64, n int) spectra.Piece {
 	return out
 }
 
-// legendEntry is one line of a legend.
+// swatch is how a legend entry shows its line or shading.
+type swatch int
+
+const (
+	swatchLine  swatch = iota // a short horizontal line
+	swatchBlock               // a shaded block
+	swatchBand                // a shaded block between two edge lines
+	swatchRule                // a short vertical line
+)
+
+// legendEntry is one entry of a legend.
 type legendEntry struct {
 	name  string
 	color rgba
-	block bool
+	edge  rgba
+	kind  swatch
 	dash  []float64
 }
 
-// legendEntries lists the named bands and lines.
+// legendEntries lists the named bands, rules and lines.
 func (p plot) legendEntries() []legendEntry {
 	var entries []legendEntry
 	if p.noLegend {
 		return nil
 	}
 	for _, b := range p.bands {
-		if b.name != "" {
-			entries = append(entries, legendEntry{b.name, b.color, true, nil})
+		if b.name == "" {
+			continue
+		}
+		e := legendEntry{name: b.name, color: b.color, kind: swatchBlock}
+		if b.edge.A != 0 {
+			e.kind, e.edge = swatchBand, b.edge
+		}
+		entries = append(entries, e)
+	}
+	for _, r := range p.rules {
+		if r.name != "" {
+			kind := swatchLine
+			if r.vertical {
+				kind = swatchRule
+			}
+			entries = append(entries, legendEntry{name: r.name, color: r.color, kind: kind, dash: r.dash})
 		}
 	}
 	for _, l := range p.lines {
 		if l.name != "" {
-			entries = append(entries, legendEntry{l.name, l.color, l.fill, l.dash})
+			kind := swatchLine
+			if l.fill {
+				kind = swatchBlock
+			}
+			entries = append(entries, legendEntry{name: l.name, color: l.color, kind: kind, dash: l.dash})
 		}
 	}
 	return entries
 }
 
-// Legend layout: two columns under the x-axis title.
+// Legend layout: one or two columns under the x-axis title.
 const (
-	legendRow    = 15
-	legendCols   = 2
-	legendBottom = 8
+	legendRow    = 21 // height of a row
+	legendTop    = 8  // space above the first row
+	legendSwatch = 22 // width of a swatch
+	legendGap    = 7  // between swatch and text
+	legendColGap = 16 // between columns
+	legendRows   = 2  // rows that plot.height allows for
 )
 
-// legendHeight is the space the legend takes at the bottom of the chart.
-func (p plot) legendHeight() int {
-	n := len(p.legendEntries())
-	if n == 0 {
+// legendLayout is the arrangement of a legend.
+type legendLayout struct {
+	entries    []legendEntry
+	cols, rows int
+	col2       int // x of the second column
+}
+
+// legendLayout puts the entries in rows of two when the two columns fit
+// side by side across the chart, else in one column.
+func (p plot) legendLayout() legendLayout {
+	lg := legendLayout{entries: p.legendEntries(), cols: 1}
+	if len(lg.entries) == 0 {
+		return legendLayout{}
+	}
+	var w [2]int
+	for i, e := range lg.entries {
+		w[i%2] = max(w[i%2], legendSwatch+legendGap+textWidth(e.name, textLegend))
+	}
+	// Even columns when they fit, else the second column right after the
+	// first.
+	half := (p.legendWidth() + legendColGap) / 2
+	switch {
+	case len(lg.entries) == 1:
+	case max(w[0], w[1])+legendColGap <= half:
+		lg.cols, lg.col2 = 2, padLeft+half
+	case w[0]+legendColGap+w[1] <= p.legendWidth():
+		lg.cols, lg.col2 = 2, padLeft+w[0]+legendColGap
+	}
+	lg.rows = (len(lg.entries) + lg.cols - 1) / lg.cols
+	return lg
+}
+
+// legendWidth is the width the legend may take.
+func (p plot) legendWidth() int { return p.width - padLeft - padRight }
+
+// height is the space the legend takes at the bottom of the chart.
+func (lg legendLayout) height() int {
+	if lg.rows == 0 {
 		return 0
 	}
-	return legendBottom + legendRow*((n+legendCols-1)/legendCols)
+	return legendTop + legendRow*lg.rows
 }
 
-// legend draws the named bands and lines in two columns at the bottom of
-// the chart, below the plot and its axis, so that it never hides a curve.
-func legend(p plot) chart.Renderable {
-	entries := p.legendEntries()
+// draw draws the legend at the bottom of the chart, below the plot and
+// its axis, so that it never hides a curve. Entries run in rows.
+func (lg legendLayout) draw(p plot) chart.Renderable {
 	return func(r chart.Renderer, box chart.Box, defaults chart.Style) {
-		if len(entries) == 0 {
-			return
-		}
 		r.ClearTextRotation()
 		r.SetFont(defaults.GetFont())
-		r.SetFontSize(9)
-		swatch, gap := 18, 6
-		colW := (box.Right - box.Left) / legendCols
-		top := p.height - p.legendHeight()
-		for i, e := range entries {
-			sx := box.Left + (i%legendCols)*colW
-			cy := top + (i/legendCols)*legendRow + legendRow/2
-			if e.block {
-				r.SetFillColor(e.color.alpha(max(e.color.A, 110)).color())
-				r.SetStrokeColor(e.color.alpha(0).color())
-				r.SetStrokeWidth(1)
-				r.MoveTo(sx, cy-5)
-				r.LineTo(sx+swatch, cy-5)
-				r.LineTo(sx+swatch, cy+5)
-				r.LineTo(sx, cy+5)
-				r.Close()
-				r.FillStroke()
-			} else {
-				r.SetFillColor(drawing.Color{})
-				r.SetStrokeColor(e.color.color())
-				r.SetStrokeWidth(2)
-				r.SetStrokeDashArray(e.dash)
-				r.MoveTo(sx, cy)
-				r.LineTo(sx+swatch, cy)
-				r.Stroke()
-				r.SetStrokeDashArray(nil)
+		r.SetFontSize(textLegend.points())
+		top := p.height - padBottom - lg.height() + legendTop
+		for i, e := range lg.entries {
+			sx, w := padLeft, p.legendWidth()
+			if lg.cols == 2 && i%2 == 1 {
+				sx, w = lg.col2, p.width-padRight-lg.col2
 			}
+			cy := top + (i/lg.cols)*legendRow + legendRow/2
+			drawSwatch(r, e, sx, cy)
 			r.SetFontColor(colText.color())
-			r.Text(fitText(r, e.name, colW-swatch-2*gap), sx+swatch+gap, cy+4)
+			r.Text(fitText(e.name, w-legendSwatch-legendGap), sx+legendSwatch+legendGap, cy+5)
 		}
 	}
 }
 
-// fitText shortens s with an ellipsis until it measures at most w pixels.
-func fitText(r chart.Renderer, s string, w int) string {
-	if r.MeasureText(s).Width() <= w {
+// drawSwatch draws the swatch of a legend entry, legendSwatch wide and
+// centred on height cy.
+func drawSwatch(r chart.Renderer, e legendEntry, sx, cy int) {
+	stroke := func(c rgba, width float64, dash []float64, x0, y0, x1, y1 int) {
+		r.SetFillColor(drawing.Color{})
+		r.SetStrokeColor(c.color())
+		r.SetStrokeWidth(width)
+		r.SetStrokeDashArray(dash)
+		r.MoveTo(x0, y0)
+		r.LineTo(x1, y1)
+		r.Stroke()
+		r.SetStrokeDashArray(nil)
+	}
+	switch e.kind {
+	case swatchBlock, swatchBand:
+		fill := e.color
+		if e.kind == swatchBlock {
+			fill.A = max(fill.A, 110) // a faint shade is hard to see in a small block
+		}
+		r.SetFillColor(fill.color())
+		r.SetStrokeColor(e.color.alpha(0).color())
+		r.SetStrokeWidth(1)
+		r.MoveTo(sx, cy-7)
+		r.LineTo(sx+legendSwatch, cy-7)
+		r.LineTo(sx+legendSwatch, cy+7)
+		r.LineTo(sx, cy+7)
+		r.Close()
+		r.FillStroke()
+		if e.kind == swatchBand {
+			stroke(e.edge, 1, nil, sx, cy-8, sx, cy+8)
+			stroke(e.edge, 1, nil, sx+legendSwatch, cy-8, sx+legendSwatch, cy+8)
+		}
+	case swatchRule:
+		stroke(e.color, 1, e.dash, sx+legendSwatch/2, cy-8, sx+legendSwatch/2, cy+8)
+	default:
+		stroke(e.color, 2, e.dash, sx, cy, sx+legendSwatch, cy)
+	}
+}
+
+// fitText shortens s with an ellipsis until it is estimated to take at
+// most w pixels in the legend.
+func fitText(s string, w int) string {
+	if textWidth(s, textLegend) <= w {
 		return s
 	}
 	rs := []rune(s)
 	for n := len(rs) - 1; n > 0; n-- {
 		t := strings.TrimSpace(string(rs[:n])) + "…"
-		if r.MeasureText(t).Width() <= w {
+		if textWidth(t, textLegend) <= w {
 			return t
 		}
 	}
 	return "…"
+}
+
+// fallbackWiden is how much wider than the chart font text may be drawn:
+// the SVG names the chart font, and a browser that lacks it draws a
+// generic sans-serif, some of which run up to about a sixth wider (common
+// practice, no source; checked by eye on the demo site).
+const fallbackWiden = 1.18
+
+// textWidth estimates the width of s drawn at the given size, for layout:
+// measured with the chart font and widened by fallbackWiden.
+func textWidth(s string, size px) int {
+	f, err := defaultFont()
+	if err != nil || s == "" {
+		return 0
+	}
+	k := faceKey{f, size.points(), chart.DefaultDPI}
+	faceCache.Lock()
+	face, ok := faceCache.faces[k]
+	if !ok {
+		face = truetype.NewFace(f, &truetype.Options{DPI: k.dpi, Size: k.size})
+		faceCache.faces[k] = face
+	}
+	w := font.MeasureString(face, s)
+	faceCache.Unlock()
+	return int(math.Ceil(float64(w) / 64 * fallbackWiden))
 }
 
 // bandSeries shades the full height of the plot between two x values; it
@@ -441,6 +664,62 @@ func (s bandSeries) Render(r chart.Renderer, box chart.Box, xr, _ chart.Range, _
 	r.Fill()
 }
 
+// gridSeries draws a grid line at every tick inside the plot.
+type gridSeries struct{ xt, yt []chart.Tick }
+
+func (s gridSeries) GetName() string           { return "" }
+func (s gridSeries) GetYAxis() chart.YAxisType { return chart.YAxisSecondary }
+func (s gridSeries) GetStyle() chart.Style     { return chart.Style{} }
+func (s gridSeries) Validate() error           { return nil }
+func (s gridSeries) Render(r chart.Renderer, box chart.Box, xr, yr chart.Range, _ chart.Style) {
+	r.SetFillColor(drawing.Color{})
+	r.SetStrokeColor(colGrid.color())
+	r.SetStrokeWidth(1)
+	for _, t := range s.xt {
+		if x := box.Left + xr.Translate(t.Value); x > box.Left && x < box.Right {
+			r.MoveTo(x, box.Top)
+			r.LineTo(x, box.Bottom)
+		}
+	}
+	for _, t := range s.yt {
+		if y := box.Bottom - yr.Translate(t.Value); y > box.Top && y < box.Bottom {
+			r.MoveTo(box.Left, y)
+			r.LineTo(box.Right, y)
+		}
+	}
+	r.Stroke()
+}
+
+// ruleSeries draws a rule across the plot.
+type ruleSeries struct {
+	at       float64
+	vertical bool
+	color    rgba
+	dash     []float64
+}
+
+func (s ruleSeries) GetName() string           { return "" }
+func (s ruleSeries) GetYAxis() chart.YAxisType { return chart.YAxisSecondary }
+func (s ruleSeries) GetStyle() chart.Style     { return chart.Style{} }
+func (s ruleSeries) Validate() error           { return nil }
+func (s ruleSeries) Render(r chart.Renderer, box chart.Box, xr, yr chart.Range, _ chart.Style) {
+	r.SetFillColor(drawing.Color{})
+	r.SetStrokeColor(s.color.color())
+	r.SetStrokeWidth(1)
+	r.SetStrokeDashArray(s.dash)
+	if s.vertical {
+		x := box.Left + xr.Translate(s.at)
+		r.MoveTo(x, box.Top)
+		r.LineTo(x, box.Bottom)
+	} else {
+		y := box.Bottom - yr.Translate(s.at)
+		r.MoveTo(box.Left, y)
+		r.LineTo(box.Right, y)
+	}
+	r.Stroke()
+	r.SetStrokeDashArray(nil)
+}
+
 // pointSeries places the points of a pointSet on the chart: go-chart gives
 // it the plot box and ranges, from which it records each point's pixel
 // position. The points themselves are written as links after rendering.
@@ -454,27 +733,101 @@ func (s *pointSeries) Len() int                       { return len(s.set.x) }
 func (s *pointSeries) GetValues(i int) (x, y float64) { return s.set.x[i], s.set.y[i] }
 func (s *pointSeries) Render(r chart.Renderer, box chart.Box, xr, yr chart.Range, _ chart.Style) {
 	s.set.pix = s.set.pix[:0]
+	s.set.box = box
 	for i := range s.set.x {
 		s.set.pix = append(s.set.pix, [2]int{box.Left + xr.Translate(s.set.x[i]), box.Bottom - yr.Translate(s.set.y[i])})
 	}
 }
 
-// anchors returns the points as SVG links.
+// pointRadius is the radius of a point of a pointSet.
+const pointRadius = 6
+
+// anchors returns the points as SVG links, each with its label.
 func (ps *pointSet) anchors() string {
 	var b strings.Builder
+	family := "sans-serif"
+	if f, err := defaultFont(); err == nil {
+		family = "'" + f.Name(truetype.NameIDFontFamily) + "',sans-serif"
+	}
+	spots := ps.labelSpots()
 	for i, p := range ps.pix {
 		col := colPalette[0]
 		if i < len(ps.colors) {
 			col = ps.colors[i]
 		}
-		fmt.Fprintf(&b, `<a href="%s" data-slug="%s"><title>%s</title><circle cx="%d" cy="%d" r="6" style="fill:%s;stroke:#ffffff;stroke-width:1.5"/>`,
-			html.EscapeString(ps.href[i]), html.EscapeString(ps.slug[i]), html.EscapeString(ps.title[i]), p[0], p[1], col.css())
+		fmt.Fprintf(&b, `<a href="%s" data-slug="%s"><title>%s</title><circle cx="%d" cy="%d" r="%d" style="fill:%s;stroke:#ffffff;stroke-width:1.5"/>`,
+			html.EscapeString(ps.href[i]), html.EscapeString(ps.slug[i]), html.EscapeString(ps.title[i]), p[0], p[1], pointRadius, col.css())
 		if ps.label[i] != "" {
-			fmt.Fprintf(&b, `<text x="%d" y="%d" style="font-size:11px;font-family:sans-serif;fill:#3a424d">%s</text>`, p[0]+8, p[1]-6, html.EscapeString(ps.label[i]))
+			fmt.Fprintf(&b, `<text x="%d" y="%d" style="font-size:%gpx;font-family:%s;fill:%s;stroke:#ffffff;stroke-width:3px;stroke-linejoin:round;paint-order:stroke">%s</text>`,
+				spots[i][0], spots[i][1], float64(textLabel), html.EscapeString(family), colText.css(), html.EscapeString(ps.label[i]))
 		}
 		b.WriteString(`</a>`)
 	}
 	return b.String()
+}
+
+// labelSpots places the label of each point, in order, at the first of a
+// few spots around the point that keeps it inside the plot and clear of
+// the points and the labels placed before; where none is clear, at the
+// spot that overlaps least. It returns the start of each label's
+// baseline.
+func (ps *pointSet) labelSpots() [][2]int {
+	type rect struct{ x0, y0, x1, y1 int }
+	overlap := func(a, b rect) int {
+		w := min(a.x1, b.x1) - max(a.x0, b.x0)
+		h := min(a.y1, b.y1) - max(a.y0, b.y0)
+		if w <= 0 || h <= 0 {
+			return 0
+		}
+		return w * h
+	}
+	var taken []rect
+	for _, p := range ps.pix {
+		taken = append(taken, rect{p[0] - pointRadius - 1, p[1] - pointRadius - 1, p[0] + pointRadius + 1, p[1] + pointRadius + 1})
+	}
+	h := int(math.Ceil(float64(textLabel)))
+	asc, desc := h*4/5, h/4 // baseline split of the text height
+	d := pointRadius + 3
+	out := make([][2]int, len(ps.pix))
+	for i, p := range ps.pix {
+		if ps.label[i] == "" {
+			continue
+		}
+		w := textWidth(ps.label[i], textLabel)
+		cx, cy := p[0], p[1]
+		mid := cy + (asc-desc)/2 // baseline that centres the text on the point
+		spots := [][2]int{
+			{cx + d, mid},                      // right
+			{cx - d - w, mid},                  // left
+			{cx + d - 3, cy - d + 1},           // above right
+			{cx + d - 3, cy + d + asc - 1},     // below right
+			{cx - d + 3 - w, cy - d + 1},       // above left
+			{cx - d + 3 - w, cy + d + asc - 1}, // below left
+			{cx - w/2, cy - d - 1},             // above
+			{cx - w/2, cy + d + asc + 1},       // below
+		}
+		best, bestCost := 0, math.MaxInt
+		for k, s := range spots {
+			r := rect{s[0] - 1, s[1] - asc - 1, s[0] + w + 1, s[1] + desc + 1}
+			cost := 0
+			if r.x0 < ps.box.Left || r.x1 > ps.box.Right || r.y0 < ps.box.Top || r.y1 > ps.box.Bottom {
+				cost += 1 << 20 // outside the plot: only as a last resort
+			}
+			for _, t := range taken {
+				cost += overlap(r, t)
+			}
+			if cost < bestCost {
+				best, bestCost = k, cost
+			}
+			if cost == 0 {
+				break
+			}
+		}
+		s := spots[best]
+		out[i] = s
+		taken = append(taken, rect{s[0] - 1, s[1] - asc - 1, s[0] + w + 1, s[1] + desc + 1})
+	}
+	return out
 }
 
 // svgRenderer is the renderer provider of every chart: go-chart's SVG

@@ -3,6 +3,7 @@ package site
 import (
 	"bytes"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -40,7 +41,7 @@ func TestCachedSVGIdentical(t *testing.T) {
 		p := testPlot()
 		p.yName = "Rotated axis name with more text (W m⁻² nm⁻¹)"
 		return p
-	}()} {
+	}(), markedPlot(), pointPlot()} {
 		var plain, cached bytes.Buffer
 		if err := p.chart().Render(chart.SVG, &plain); err != nil {
 			t.Fatal(err)
@@ -60,6 +61,23 @@ func TestCachedSVGIdentical(t *testing.T) {
 			t.Errorf("warm cached renderer output differs")
 		}
 	}
+}
+
+// markedPlot is a chart with a band with edges and a label, rules and a
+// long legend in one column.
+func markedPlot() plot {
+	p := testPlot()
+	p.bands = []band{{name: "Window", lo: 800, hi: 1300, color: colWindow, edge: colWindowE, label: "window"}}
+	p.rules = []rule{{at: 0.5, color: colAxis}, {name: "Marker at 1500", at: 1500, vertical: true, color: colMark, dash: []float64{6, 3}}}
+	p.lines = append(p.lines, line{name: "A rather long legend entry that needs a whole row", color: colT, width: 2, pieces: p.lines[1].pieces})
+	return p
+}
+
+// pointPlot is a scatter chart.
+func pointPlot() plot {
+	ps := &pointSet{x: []float64{0.2, 0.5, 0.52}, y: []float64{0.3, 0.6, 0.61}, href: []string{"a", "b", "c"},
+		label: []string{"A-1", "B-2", "C-3"}, title: []string{"a", "b", "c"}, slug: []string{"a", "b", "c"}}
+	return plot{width: scatterW, height: scatterH, xName: "x", yName: "y", xLo: 0, xHi: 1, yLo: 0, yHi: 1, points: ps, noLegend: true}
 }
 
 // axesPlot is a chart with little to draw but its axes, ticks, names and
@@ -176,12 +194,54 @@ func TestTicks(t *testing.T) {
 	// 280 and 2500 always, round steps of 500 between, none too close to
 	// the ends (300 would crowd 280).
 	want := []float64{280, 500, 1000, 1500, 2000, 2500}
-	if len(vals) != len(want) {
+	if !slices.Equal(vals, want) {
 		t.Fatalf("ticks %v, want %v", vals, want)
 	}
-	for i := range want {
-		if vals[i] != want[i] {
-			t.Fatalf("ticks %v, want %v", vals, want)
-		}
+	// Given values: an end between them is a tick without a label, and
+	// does not push out a labelled tick next to it.
+	got = ticks(-450, 200, []float64{-400, -300, -200, -100, 0, 100, 200}, "0", 7)
+	var labels []string
+	vals = vals[:0]
+	for _, tk := range got {
+		vals, labels = append(vals, tk.Value), append(labels, tk.Label)
+	}
+	if want := []float64{-450, -400, -300, -200, -100, 0, 100, 200}; !slices.Equal(vals, want) {
+		t.Errorf("ticks %v, want %v", vals, want)
+	}
+	if want := []string{"", "-400", "-300", "-200", "-100", "0", "100", "200"}; !slices.Equal(labels, want) {
+		t.Errorf("tick labels %q, want %q", labels, want)
+	}
+}
+
+// TestLegendLayout checks that a legend takes two columns when they fit
+// and one when they do not, and that a longer legend makes the chart
+// taller rather than the plot smaller.
+func TestLegendLayout(t *testing.T) {
+	p := testPlot()
+	if lg := p.legendLayout(); lg.cols != 2 || lg.rows != 2 {
+		t.Errorf("three short entries: %d columns, %d rows; want 2, 2", lg.cols, lg.rows)
+	}
+	m := markedPlot()
+	lg := m.legendLayout()
+	if lg.cols != 1 || lg.rows != 6 {
+		t.Errorf("six entries, one long: %d columns, %d rows; want 1, 6", lg.cols, lg.rows)
+	}
+	if c := m.chart(); c.Height != m.height+4*legendRow {
+		t.Errorf("chart height %d with six legend rows, want %d", c.Height, m.height+4*legendRow)
+	}
+}
+
+// TestEmptyPlot checks that a plot with nothing in range still renders
+// its axes.
+func TestEmptyPlot(t *testing.T) {
+	p := testPlot()
+	p.xLo, p.xHi = 5000, 6000
+	p.bands = nil
+	svg, err := p.svg("empty")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(svg, ">5000</text>") || !strings.Contains(svg, ">6000</text>") || !strings.Contains(svg, ">0.0</text>") || !strings.Contains(svg, ">1.0</text>") {
+		t.Errorf("axes missing from an empty plot")
 	}
 }

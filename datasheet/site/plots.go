@@ -11,10 +11,13 @@ import (
 	"skysheet/spectra"
 )
 
-// Chart sizes in SVG units; the page scales them to its width.
+// Chart sizes in SVG units; the page scales them to its width. A
+// datasheet chart is drawn about 500 px wide beside another on a desktop
+// page, the scatter chart across the page, so that text comes out at
+// about the size of the page's small print (see textTick and friends).
 const (
-	chartW, chartH     = 640, 400
-	scatterW, scatterH = 760, 480
+	chartW, chartH     = 560, 360
+	scatterW, scatterH = 900, 460
 )
 
 // scaled returns the pieces with wavelengths divided by div (nm → µm).
@@ -52,29 +55,62 @@ func weightingShade(w spectra.Weighting, lo, hi, div float64) spectra.Piece {
 	return p
 }
 
-// yRange is 0..1, widened to show values slightly outside (at most
-// −0.05..1.05, the range the readers accept).
+// yRange is 0..1, widened to −0.1 or 1.1 to show values slightly outside
+// (the readers accept −0.05..1.05): ends that one decimal labels exactly.
 func yRange(ss ...spectra.Series) (lo, hi float64) {
 	lo, hi = 0, 1
 	for _, s := range ss {
 		for _, p := range s.Pieces {
 			for _, v := range p.V {
-				lo, hi = math.Min(lo, v), math.Max(hi, v)
+				if v < 0 {
+					lo = -0.1
+				}
+				if v > 1 {
+					hi = 1.1
+				}
 			}
 		}
 	}
-	return math.Max(lo, -0.05), math.Min(hi, 1.05)
+	return lo, hi
 }
 
-// materialCharts returns the solar and thermal charts of a material.
+// materialCharts returns the charts of a material: solar range, thermal
+// infrared and net cooling power, each only where the material has data
+// for it.
 func materialCharts(m *library.Material) ([]chartView, error) {
-	c := m.Conditions
-	o := spectra.Resolve(m.Spectrum, c.ClosureTol)
+	o := spectra.Resolve(m.Spectrum, m.Conditions.ClosureTol)
 	f := m.Figures
 	var out []chartView
+	if cv, err := solarChart(m, o); err != nil {
+		return nil, fmt.Errorf("solar chart: %w", err)
+	} else if cv != nil {
+		out = append(out, *cv)
+	}
+	if cv, err := thermalChart(m, o); err != nil {
+		return nil, fmt.Errorf("thermal chart: %w", err)
+	} else if cv != nil {
+		out = append(out, *cv)
+	}
 
-	// Solar range.
+	if cv, err := coolingChart(f); err != nil {
+		return nil, fmt.Errorf("cooling chart: %w", err)
+	} else if cv != nil {
+		out = append(out, *cv)
+	}
+	return out, nil
+}
+
+// solarChart plots the reflectance, transmittance and absorptance of a
+// material over the solar band of its conditions, the x axis spanning
+// exactly that band. It returns nil when the material has no data there
+// (an FTIR measurement only): there is nothing to draw.
+func solarChart(m *library.Material, o spectra.Optics) (*chartView, error) {
+	c := m.Conditions
+	f := m.Figures
 	lo, hi := c.SolarBandNM[0], c.SolarBandNM[1]
+	if !hasData(lo, hi, o.R, o.T, o.A) {
+		return nil, nil
+	}
 	sun, err := spectra.Solar(c.SolarSpectrum)
 	if err != nil {
 		return nil, err
@@ -96,36 +132,80 @@ func materialCharts(m *library.Material) ([]chartView, error) {
 		fmtFrac(f.SolarAbsorptance), fmtPercent(f.SolarCoverage))
 	svg, err := sp.svg("Solar range chart. " + caption)
 	if err != nil {
-		return nil, fmt.Errorf("solar chart: %w", err)
+		return nil, err
 	}
-	out = append(out, chartView{ID: "chart-solar", Title: "Solar range", Caption: caption, SVG: template.HTML(svg)})
+	return &chartView{ID: "chart-solar", Title: "Solar range", Caption: caption, SVG: template.HTML(svg)}, nil
+}
 
-	// Thermal range, in µm.
+// hasData reports whether any of the series has data within [lo, hi] nm.
+func hasData(lo, hi float64, ss ...spectra.Series) bool {
+	for _, s := range ss {
+		if len(s.Covered(lo, hi)) > 0 {
+			return true
+		}
+	}
+	return false
+}
+
+// windowBand is the atmospheric window of the conditions, marked on the
+// thermal charts (in µm) by a light band between two dark lines.
+func windowBand(c datasheet.Conditions) band {
+	return band{name: fmt.Sprintf("Atmospheric window %s–%s µm", fmtG(c.WindowBandUM[0]), fmtG(c.WindowBandUM[1])),
+		lo: c.WindowBandUM[0], hi: c.WindowBandUM[1], color: colWindow, edge: colWindowE, label: "window"}
+}
+
+// windowWords describes how windowBand looks, for captions.
+const windowWords = "lies between the two dark green lines"
+
+// thermalChart plots the emittance and reflectance of a material over the
+// thermal band. It returns nil when the material has no data there (a
+// UV-Vis-NIR measurement only): there is nothing to draw.
+func thermalChart(m *library.Material, o spectra.Optics) (*chartView, error) {
+	c := m.Conditions
+	f := m.Figures
 	tlo, thi := c.ThermalBandUM[0], c.ThermalBandUM[1]
+	if !hasData(tlo*1000, thi*1000, o.A, o.R) {
+		return nil, nil
+	}
 	tp := plot{width: chartW, height: chartH, xName: "Wavelength (µm)", yName: "Emittance, reflectance",
 		xLo: tlo, xHi: thi, yFmt: "1"}
 	tp.yLo, tp.yHi = yRange(o.R, o.A)
-	tp.bands = []band{{name: fmt.Sprintf("Atmospheric window %s–%s µm", fmtG(c.WindowBandUM[0]), fmtG(c.WindowBandUM[1])),
-		lo: c.WindowBandUM[0], hi: c.WindowBandUM[1], color: colWindow}}
+	tp.bands = []band{windowBand(c)}
 	tp.lines = append(tp.lines, line{name: fmt.Sprintf("Blackbody at %s K (relative)", fmtG(c.TemperatureK)), color: colBody, fill: true,
 		pieces: []spectra.Piece{weightingShade(spectra.Blackbody{K: c.TemperatureK}, tlo*1000, thi*1000, 1000)}})
 	tp.lines = append(tp.lines, line{name: "Emittance ε = A", color: colA, width: 2, pieces: scaled(o.A, 1000)})
 	tp.lines = append(tp.lines, line{name: "Reflectance R", color: colR, width: 1, dash: []float64{5, 3}, pieces: scaled(o.R, 1000)})
-	caption = fmt.Sprintf("Spectral emittance (equal to absorptance, Kirchhoff's law) and reflectance from %s to %s µm; the atmospheric window %s–%s µm is shaded in green and the %s K blackbody spectrum in red (scaled to its peak). Thermal emittance %s, window emittance %s.",
-		fmtG(tlo), fmtG(thi), fmtG(c.WindowBandUM[0]), fmtG(c.WindowBandUM[1]), fmtG(c.TemperatureK),
+	caption := fmt.Sprintf("Spectral emittance (equal to absorptance, Kirchhoff's law) and reflectance from %s to %s µm; the atmospheric window %s–%s µm %s, and the %s K blackbody spectrum is shaded in red (scaled to its peak). Thermal emittance %s, window emittance %s.",
+		fmtG(tlo), fmtG(thi), fmtG(c.WindowBandUM[0]), fmtG(c.WindowBandUM[1]), windowWords, fmtG(c.TemperatureK),
 		fmtFrac(f.ThermalEmittance), fmtFrac(f.WindowEmittance))
-	svg, err = tp.svg("Thermal range chart. " + caption)
+	svg, err := tp.svg("Thermal range chart. " + caption)
 	if err != nil {
-		return nil, fmt.Errorf("thermal chart: %w", err)
+		return nil, err
 	}
-	out = append(out, chartView{ID: "chart-thermal", Title: "Thermal infrared", Caption: caption, SVG: template.HTML(svg)})
+	return &chartView{ID: "chart-thermal", Title: "Thermal infrared", Caption: caption, SVG: template.HTML(svg)}, nil
+}
 
-	if cv, err := coolingChart(f); err != nil {
-		return nil, fmt.Errorf("cooling chart: %w", err)
-	} else if cv != nil {
-		out = append(out, *cv)
+// coolingRange returns a y range and its ticks for values from lo to hi:
+// 0 always included, a margin of 1.5 % of the span beyond the data, the
+// ends rounded out to half the tick step. The ticks are multiples of a
+// round step chosen for about n steps.
+func coolingRange(lo, hi float64, n int) (ylo, yhi float64, ticks []float64) {
+	span := math.Max(hi, 0) - math.Min(lo, 0)
+	if !(span > 0) || math.IsInf(span, 0) {
+		return -1, 1, []float64{-1, 0, 1}
 	}
-	return out, nil
+	step := niceStep(span / float64(n))
+	m := 0.015 * span
+	ylo = math.Floor(math.Min(lo-m, 0)/(step/2)) * step / 2
+	yhi = math.Ceil(math.Max(hi+m, 0)/(step/2)) * step / 2
+	for k := math.Ceil(ylo / step); k*step <= yhi; k++ {
+		v := k * step
+		if v == 0 {
+			v = 0 // not −0, which would be labelled "-0"
+		}
+		ticks = append(ticks, v)
+	}
+	return ylo, yhi, ticks
 }
 
 // coolingChart plots the net cooling power against surface temperature,
@@ -146,8 +226,6 @@ func coolingChart(f *datasheet.Figures) (*chartView, error) {
 	if len(day.NM) < 2 && len(night.NM) < 2 {
 		return nil, nil
 	}
-	lo, hi = math.Min(lo, 0), math.Max(hi, 0)
-	step := niceStep((hi - lo) / 6)
 	c := f.Conditions
 	xs := append(append([]float64(nil), day.NM...), night.NM...)
 	xlo, xhi := xs[0], xs[0]
@@ -155,11 +233,13 @@ func coolingChart(f *datasheet.Figures) (*chartView, error) {
 		xlo, xhi = math.Min(xlo, x), math.Max(xhi, x)
 	}
 	p := plot{width: chartW, height: chartH, xName: "Surface temperature (K)", yName: "Net cooling power (W/m²)",
-		xLo: xlo, xHi: xhi, yLo: math.Floor(lo/step) * step, yHi: math.Ceil(hi/step) * step, xFmt: "0", yFmt: "0"}
-	w := (xhi - xlo) * 0.006
-	p.bands = []band{{name: fmt.Sprintf("Air temperature %s K", fmtG(c.AmbientK)), lo: c.AmbientK - w, hi: c.AmbientK + w, color: rgba{0x6a, 0x72, 0x7e, 0x90}}}
+		xLo: xlo, xHi: xhi, xFmt: "0", yFmt: "0"}
+	p.yLo, p.yHi, p.yTicks = coolingRange(lo, hi, 7)
+	p.rules = []rule{
+		{at: 0, color: colAxis},
+		{name: fmt.Sprintf("Air temperature %s K", fmtG(c.AmbientK)), at: c.AmbientK, vertical: true, color: colMark, dash: []float64{6, 3}},
+	}
 	p.lines = []line{
-		{color: colAxis, width: 1, pieces: []spectra.Piece{{NM: []float64{xlo, xhi}, V: []float64{0, 0}}}},
 		{name: fmt.Sprintf("With sun (%s W/m²)", fmtG(c.IrradianceWm2)), color: colT, width: 2, pieces: []spectra.Piece{day}},
 		{name: "Night (no sun)", color: colR, width: 2, dash: []float64{5, 3}, pieces: []spectra.Piece{night}},
 	}
@@ -185,9 +265,9 @@ func compareCharts(ms []*library.Material) ([]chartView, error) {
 		xLo: c.SolarBandNM[0], xHi: c.SolarBandNM[1], yLo: 0, yHi: 1, yFmt: "1"}
 	tp := plot{width: chartW, height: chartH, xName: "Wavelength (µm)", yName: "Emittance",
 		xLo: c.ThermalBandUM[0], xHi: c.ThermalBandUM[1], yLo: 0, yHi: 1, yFmt: "1"}
-	tp.bands = []band{{name: fmt.Sprintf("Atmospheric window %s–%s µm", fmtG(c.WindowBandUM[0]), fmtG(c.WindowBandUM[1])),
-		lo: c.WindowBandUM[0], hi: c.WindowBandUM[1], color: colWindow}}
+	tp.bands = []band{windowBand(c)}
 	var names []string
+	var anyS, anyT bool
 	for i, m := range ms {
 		o := spectra.Resolve(m.Spectrum, m.Conditions.ClosureTol)
 		col := colPalette[i%len(colPalette)]
@@ -195,34 +275,86 @@ func compareCharts(ms []*library.Material) ([]chartView, error) {
 		if i >= len(colPalette) {
 			dash = []float64{4, 3}
 		}
-		sp.lines = append(sp.lines, line{name: m.Front.Title, color: col, width: 2, dash: dash, pieces: o.R.Pieces})
-		tp.lines = append(tp.lines, line{name: m.Front.Title, color: col, width: 2, dash: dash, pieces: scaled(o.A, 1000)})
+		// A material without data in a range keeps its colour and its
+		// legend entry there, marked as such.
+		nameS, nameT := m.Front.Title, m.Front.Title
+		if hasData(sp.xLo, sp.xHi, o.R) {
+			anyS = true
+		} else {
+			nameS += " (no data here)"
+		}
+		if hasData(tp.xLo*1000, tp.xHi*1000, o.A) {
+			anyT = true
+		} else {
+			nameT += " (no data here)"
+		}
+		sp.lines = append(sp.lines, line{name: nameS, color: col, width: 2, dash: dash, pieces: o.R.Pieces})
+		tp.lines = append(tp.lines, line{name: nameT, color: col, width: 2, dash: dash, pieces: scaled(o.A, 1000)})
 		lo, hi := yRange(o.R, o.A)
 		sp.yLo, sp.yHi = math.Min(sp.yLo, lo), math.Max(sp.yHi, hi)
 		tp.yLo, tp.yHi = sp.yLo, sp.yHi
 		names = append(names, m.Front.Title)
 	}
 	list := strings.Join(names, "; ")
-	capS := fmt.Sprintf("Spectral reflectance of %s from %s to %s nm.", list, fmtG(sp.xLo), fmtG(sp.xHi))
-	capT := fmt.Sprintf("Spectral emittance of %s from %s to %s µm, with the atmospheric window shaded.", list, fmtG(tp.xLo), fmtG(tp.xHi))
-	s1, err := sp.svg("Reflectance overlay. " + capS)
-	if err != nil {
-		return nil, err
+	var out []chartView
+	if anyS {
+		capS := fmt.Sprintf("Spectral reflectance of %s from %s to %s nm.", list, fmtG(sp.xLo), fmtG(sp.xHi))
+		s1, err := sp.svg("Reflectance overlay. " + capS)
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, chartView{ID: "chart-compare-solar", Title: "Reflectance, solar range", Caption: capS, SVG: template.HTML(s1)})
 	}
-	s2, err := tp.svg("Emittance overlay. " + capT)
-	if err != nil {
-		return nil, err
+	if anyT {
+		capT := fmt.Sprintf("Spectral emittance of %s from %s to %s µm; the atmospheric window %s.", list, fmtG(tp.xLo), fmtG(tp.xHi), windowWords)
+		s2, err := tp.svg("Emittance overlay. " + capT)
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, chartView{ID: "chart-compare-thermal", Title: "Emittance, thermal infrared", Caption: capT, SVG: template.HTML(s2)})
 	}
-	return []chartView{
-		{ID: "chart-compare-solar", Title: "Reflectance, solar range", Caption: capS, SVG: template.HTML(s1)},
-		{ID: "chart-compare-thermal", Title: "Emittance, thermal infrared", Caption: capT, SVG: template.HTML(s2)},
-	}, nil
+	return out, nil
+}
+
+// maxLabel is the most runes of a point label made from a slug.
+const maxLabel = 12
+
+// pointLabels returns a short label for each material that does not
+// depend on the order of a table: its product code, or where that is
+// missing or shared with another of the materials, its slug (shortened to
+// maxLabel runes).
+func pointLabels(ms []*library.Material) []string {
+	codes := map[string]int{}
+	for _, m := range ms {
+		codes[strings.TrimSpace(m.Front.ProductCode)]++
+	}
+	out := make([]string, len(ms))
+	for i, m := range ms {
+		code := strings.TrimSpace(m.Front.ProductCode)
+		if code != "" && codes[code] == 1 {
+			out[i] = code
+			continue
+		}
+		r := []rune(m.Slug)
+		if len(r) > maxLabel {
+			r = append(r[:maxLabel-1], '…')
+		}
+		out[i] = string(r)
+	}
+	return out
 }
 
 // scatterChart plots solar reflectance against window emittance, one
-// numbered, linked point per material that has both.
+// labelled, linked point per material that has both.
 func scatterChart(ms []*library.Material, rows []row) (*chartView, error) {
 	ps := &pointSet{}
+	var shown []*library.Material
+	for _, m := range ms {
+		if !isNaN(m.Figures.SolarReflectance) && !isNaN(m.Figures.WindowEmittance) {
+			shown = append(shown, m)
+		}
+	}
+	labels := pointLabels(shown)
 	xmin, ymin := 1.0, 1.0
 	var skipped []string
 	for i, m := range ms {
@@ -235,8 +367,9 @@ func scatterChart(ms []*library.Material, rows []row) (*chartView, error) {
 		ps.x, ps.y = append(ps.x, float64(x)), append(ps.y, float64(y))
 		ps.href = append(ps.href, rows[i].Href)
 		ps.slug = append(ps.slug, m.Slug)
-		ps.label = append(ps.label, fmt.Sprint(rows[i].N))
-		ps.title = append(ps.title, fmt.Sprintf("%d. %s: solar reflectance %s, window emittance %s", rows[i].N, m.Front.Title, fmtFrac(x), fmtFrac(y)))
+		label := labels[len(ps.label)]
+		ps.label = append(ps.label, label)
+		ps.title = append(ps.title, fmt.Sprintf("%s (%s): solar reflectance %s, window emittance %s", m.Front.Title, label, fmtFrac(x), fmtFrac(y)))
 		ps.colors = append(ps.colors, colPalette[0])
 	}
 	if len(ps.x) == 0 {
@@ -245,7 +378,7 @@ func scatterChart(ms []*library.Material, rows []row) (*chartView, error) {
 	lower := func(v float64) float64 { return math.Max(0, math.Floor((v-0.02)*10)/10) }
 	p := plot{width: scatterW, height: scatterH, xName: "Solar reflectance", yName: "Atmospheric-window emittance",
 		xLo: lower(xmin), xHi: 1, yLo: lower(ymin), yHi: 1, xFmt: "2", yFmt: "2", points: ps, noLegend: true}
-	caption := fmt.Sprintf("Each numbered point is a material (numbers as in the table) and links to its datasheet; %d materials shown. Up and to the right is better for daytime radiative cooling.", len(ps.x))
+	caption := fmt.Sprintf("Each point is a material, labelled with its product code (or short name) and linked to its datasheet; %d materials shown. Up and to the right is better for daytime radiative cooling.", len(ps.x))
 	if len(skipped) > 0 {
 		caption += " Not shown (a figure is missing): " + strings.Join(skipped, "; ") + "."
 	}
