@@ -47,7 +47,7 @@ func (b *builder) materialView(m *library.Material, vs []datasheet.Verdict, root
 			v.HasUnc = true
 		}
 		if x.Key == "solar_transmittance" && !m.Spectrum.Has(spectra.T) {
-			r.Value += " (assumed: no T measured)"
+			r.Value += " (assumed)"
 		}
 		v.Figures = append(v.Figures, r)
 	}
