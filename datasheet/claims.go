@@ -3,13 +3,9 @@ package datasheet
 import (
 	"fmt"
 	"math"
-	"reflect"
-	"regexp"
 	"sort"
 	"strconv"
 	"strings"
-
-	"skysheet/spectra"
 )
 
 // Status is the verdict on a claim.
@@ -103,6 +99,10 @@ const (
 	PitfallClosure
 	// PitfallPercent: a fraction claimed as a percentage (96 for 0.96).
 	PitfallPercent
+	// PitfallHeldLarge: a cooling figure for which the emittance is held
+	// constant beyond the data over more than [MaxHeldShare] of the
+	// exchange band's blackbody power.
+	PitfallHeldLarge
 )
 
 var pitfallNames = map[PitfallCode]string{
@@ -110,6 +110,7 @@ var pitfallNames = map[PitfallCode]string{
 	PitfallSolarLateStart: "solar-data-late-start",
 	PitfallClosure:        "closure-exceeds-tolerance",
 	PitfallPercent:        "percent-for-fraction",
+	PitfallHeldLarge:      "held-emittance-large",
 }
 
 // String returns the pitfall's code word, e.g. "percent-for-fraction".
@@ -150,14 +151,37 @@ type Pitfall struct {
 // source). docs/review.md states them for readers.
 const (
 	// MinCoverage is the least share of a figure's weighting the data must
-	// cover for a claim to be checked.
+	// cover for a claim to be checked. For a cooling figure it applies to
+	// the blackbody power over [CoolingCheckLoUM]–[CoolingCheckHiUM] within
+	// the exchange band (and to the solar weighting for figures with sun).
 	MinCoverage = 0.98
 	// DefaultUncertainty is the standard uncertainty assumed for a
 	// fraction figure when no tolerance is claimed and the data give none.
 	DefaultUncertainty = 0.005
-	// DefaultRelUncertainty is the same for a figure with a unit, relative
-	// to the claimed value.
+	// DefaultIndexUncertainty is the same for an index (the SRI), in
+	// index units.
+	DefaultIndexUncertainty = 1.0
+	// DefaultRelUncertainty is the same for a power or a temperature
+	// difference, relative to the claimed value, but never below
+	// DefaultPowerFloorWm2 or DefaultDeltaFloorK.
 	DefaultRelUncertainty = 0.05
+	// DefaultPowerFloorWm2 is the least default standard uncertainty of a
+	// power, W/m².
+	DefaultPowerFloorWm2 = 2.0
+	// DefaultDeltaFloorK is the least default standard uncertainty of a
+	// temperature difference, K.
+	DefaultDeltaFloorK = 0.5
+	// CoolingCheckLoUM and CoolingCheckHiUM bound the part of the exchange
+	// band, µm, that the data must cover for a cooling claim to be
+	// checked: the default thermal band, the reach of usual FTIR data.
+	// Beyond the data the emittance is held constant (docs/cooling.md) and
+	// the verdict says how much blackbody power that part carries.
+	CoolingCheckLoUM = 2.5
+	CoolingCheckHiUM = 25.0
+	// MaxHeldShare is the share of the exchange band's blackbody power at
+	// the air temperature over which the emittance may be held constant
+	// before the verdict names it as a pitfall.
+	MaxHeldShare = 0.25
 	// CoverageFactor k turns the combined standard uncertainty into the
 	// allowed difference (about 95 % for a normal distribution, JCGM
 	// 100:2008 §6.3, section from memory).
@@ -173,27 +197,15 @@ const (
 // allowance, so that rounding in the last bits does not flip a verdict.
 const edge = 1e-9
 
-// JudgeInput is what a claim is judged against.
-type JudgeInput struct {
-	// Spectrum is the material's measured data.
-	Spectrum *spectra.Spectrum
-	// Conditions are the material's defaults: the library's, with the
-	// material's own overrides. A claim's basis overrides them.
-	Conditions Conditions
-	// Angle is the measurement's angle of incidence as written, e.g. "8°".
-	// When empty, the spectrum's "angle of incidence" or "angle" metadata
-	// is used; when none is known the angle is not compared.
-	Angle string
-}
-
 // Verdict is the judgement of one claim against the spectra.
 type Verdict struct {
 	Claim  Claim  `json:"claim"`
 	Status Status `json:"status"`
-	// Label and Unit describe the figure ("" unit for a fraction); empty
-	// when the figure is unknown.
+	// Label, Unit and Kind describe the figure ("" unit for a fraction or
+	// an index); empty when the figure is unknown.
 	Label string `json:"label"`
 	Unit  string `json:"unit"`
+	Kind  Kind   `json:"kind,omitempty"`
 	// Computed is the figure on the claim's basis; Difference is
 	// Computed − claimed. NaN (null) when not computable.
 	Computed   Num `json:"computed"`
@@ -216,126 +228,12 @@ type Verdict struct {
 	Conditions Conditions `json:"conditions"`
 }
 
-// Judge decides whether the spectrum in m supports claim c. It never
-// panics on bad claims or data: those give [CannotCheck] with the reason.
-func Judge(c Claim, m JudgeInput) Verdict {
-	nan := Num(math.NaN())
-	v := Verdict{Claim: c, Status: CannotCheck, Computed: nan, Difference: nan, Allowed: nan,
-		DefaultBasisValue: nan, Pitfalls: []Pitfall{}, Defaulted: []string{}, Conditions: m.Conditions}
-	cannot := func(format string, a ...any) Verdict {
-		v.Status, v.Reason = CannotCheck, fmt.Sprintf(format, a...)
-		return v
-	}
-	if err := c.Validate(); err != nil {
-		return cannot("The claim is malformed: %v.", err)
-	}
-	if m.Spectrum == nil || len(m.Spectrum.Segments) == 0 {
-		return cannot("There are no spectra to check the claim against.")
-	}
-	if err := m.Conditions.Validate(); err != nil {
-		return cannot("The default conditions are not usable: %v.", err)
-	}
-	cond, stated := c.Basis.apply(m.Conditions)
-	v.Conditions = cond
-	f, err := Compute(m.Spectrum, cond)
-	if err != nil {
-		return cannot("The claim's basis cannot be computed: %v.", err)
-	}
-	fig, ok := f.Figure(c.Figure)
-	if !ok {
-		return cannot("skysheet computes no figure %q%s.", c.Figure, suggest(c.Figure, f.Figures))
-	}
-	v.Label, v.Unit, v.Computed = fig.Label, fig.Unit, fig.Value
-	kind := kindOf(fig)
-	v.Basis, v.Defaulted = basisWords(kind, fig, cond, stated, c.Basis.AngleDeg, measuredAngle(m))
-	if !reflect.DeepEqual(cond, m.Conditions) && !sameBasis(kind, cond, m.Conditions) {
-		df, err := Compute(m.Spectrum, m.Conditions)
-		if d, ok := df.figure(err, c.Figure); ok {
-			v.DefaultBasisValue = d.Value
-			v.BasisNote = fmt.Sprintf("On the default basis (%s) the spectra give %s.",
-				basisShort(kind, d, m.Conditions), FormatValue(float64(d.Value), fig.Unit))
-		}
-	}
+// Format writes x as the verdict's reason writes numbers of its figure
+// (see [Kind.Format]).
+func (v Verdict) Format(x float64) string { return v.Kind.Format(x, v.Unit) }
 
-	// The allowance: the claimed tolerance, or the expanded combined
-	// uncertainty of the computed figure and the claim's rounding.
-	if c.Tolerance > 0 {
-		v.Allowed, v.AllowedFrom = Num(c.Tolerance), "claimed tolerance"
-	} else {
-		uFig, from := figureUncertainty(fig, c.Value)
-		uRound := roundingUncertainty(c.Value)
-		v.Allowed = Num(CoverageFactor * math.Hypot(uFig, uRound))
-		v.AllowedFrom = fmt.Sprintf("expanded uncertainty (k = %g) of the figure's standard uncertainty %s (%s) and the claim's rounding %s",
-			CoverageFactor, FormatValue(uFig, fig.Unit), from, FormatValue(uRound, fig.Unit))
-	}
-	o := spectra.Resolve(m.Spectrum, cond.ClosureTol) // for the pitfalls
-	v.Pitfalls = pitfalls(c, fig, kind, o, float64(v.Allowed))
-
-	computed := float64(fig.Value)
-	if math.IsNaN(computed) {
-		return cannot("The data do not reach the %s at all.", bandWords(fig))
-	}
-	v.Difference = Num(computed - c.Value)
-	if cov := float64(fig.Coverage); cov < MinCoverage {
-		return cannot("The data cover only %.1f %% of the %s weighting over the %s (at least %g %% is needed).",
-			100*cov, fig.Weighting, bandWords(fig), 100*MinCoverage)
-	}
-	if kind == kindTransmittance && !m.Spectrum.Has(spectra.T) {
-		return cannot("No transmittance was measured, and the opaque assumption (T = 0) cannot confirm a claimed transmittance.")
-	}
-	if ma := measuredAngle(m); c.Basis.AngleDeg > 0 && !math.IsNaN(ma) && math.Abs(c.Basis.AngleDeg-ma) > MaxAngleDiffDeg {
-		return cannot("The claim is for %g° incidence but the spectra were measured at %g°.", c.Basis.AngleDeg, ma)
-	}
-
-	diff := computed - c.Value
-	within := math.Abs(diff) <= float64(v.Allowed)+edge
-	if fig.Unit == "" && math.Abs(c.Value) > MaxFraction {
-		v.Status = NotSupported
-		if looksLikePercent(c.Value, fig) {
-			v.Reason = fmt.Sprintf("The claim %s looks like a percentage: the figure is a fraction, and %g %% is %s against the computed %s.",
-				strconv.FormatFloat(c.Value, 'g', -1, 64), c.Value, FormatValue(c.Value/100, ""), FormatValue(computed, ""))
-		} else {
-			v.Reason = fmt.Sprintf("The claim %s is out of range for a fraction (at most %g), and the spectra give %s.",
-				strconv.FormatFloat(c.Value, 'g', -1, 64), MaxFraction, FormatValue(computed, ""))
-		}
-		return v
-	}
-	allow := "±" + FormatValue(float64(v.Allowed), fig.Unit) + " (claimed tolerance)"
-	if c.Tolerance == 0 {
-		allow = "±" + FormatValue(float64(v.Allowed), fig.Unit) + " (expanded uncertainty; no tolerance was claimed)"
-	}
-	if within {
-		v.Status = Supported
-		v.Reason = fmt.Sprintf("The spectra give %s against the claimed %s (difference %s), within %s.",
-			FormatValue(computed, fig.Unit), FormatValue(c.Value, fig.Unit), FormatSigned(diff, fig.Unit), allow)
-		return v
-	}
-	dir := "above"
-	if diff < 0 {
-		dir = "below"
-	}
-	v.Status = NotSupported
-	v.Reason = fmt.Sprintf("The spectra give %s, %s %s the claimed %s, outside %s.",
-		FormatValue(computed, fig.Unit), FormatValue(math.Abs(diff), fig.Unit), dir, FormatValue(c.Value, fig.Unit), allow)
-	return v
-}
-
-// figure returns the figure key of f when f was computed without error.
-func (f *Figures) figure(err error, key string) (Figure, bool) {
-	if err != nil || f == nil {
-		return Figure{}, false
-	}
-	return f.Figure(key)
-}
-
-// figureUncertainty returns the standard uncertainty of a figure and where
-// it comes from: the stated defaults until the figures carry their own.
-func figureUncertainty(fig Figure, claimed float64) (float64, string) {
-	if fig.Unit == "" {
-		return DefaultUncertainty, "default for fractions, common practice, no source"
-	}
-	return DefaultRelUncertainty * math.Abs(claimed), fmt.Sprintf("default %g %% of the claim, common practice, no source", 100*DefaultRelUncertainty)
-}
+// FormatSigned is [Verdict.Format] with a sign.
+func (v Verdict) FormatSigned(x float64) string { return v.Kind.FormatSigned(x, v.Unit) }
 
 // roundingUncertainty is the standard uncertainty of a value known only to
 // its last written digit: half a unit of that digit over √3 (a rectangular
@@ -348,35 +246,6 @@ func roundingUncertainty(v float64) float64 {
 		decimals = len(s) - i - 1
 	}
 	return 0.5 * math.Pow(10, -float64(decimals)) / math.Sqrt(3)
-}
-
-// figureKind is what a figure weights and over which band of the
-// conditions.
-type figureKind int
-
-const (
-	kindOther figureKind = iota
-	kindSolar
-	kindTransmittance
-	kindAbsorptance // solar, from R and T
-	kindThermal
-	kindWindow
-)
-
-func kindOf(f Figure) figureKind {
-	switch {
-	case f.Key == "solar_transmittance":
-		return kindTransmittance
-	case f.Key == "solar_absorptance":
-		return kindAbsorptance
-	case f.Key == "thermal_emittance":
-		return kindThermal
-	case f.Key == "window_emittance":
-		return kindWindow
-	case f.BandUnit == "nm":
-		return kindSolar
-	}
-	return kindOther
 }
 
 // apply returns the conditions c with the stated parts of the basis, and
@@ -446,169 +315,10 @@ func (c Claim) Validate() error {
 	return nil
 }
 
-// pitfalls returns the pitfalls found behind claim c of figure fig.
-func pitfalls(c Claim, fig Figure, kind figureKind, o spectra.Optics, allowed float64) []Pitfall {
-	out := []Pitfall{}
-	add := func(code PitfallCode, format string, a ...any) {
-		out = append(out, Pitfall{Code: code, Text: fmt.Sprintf(format, a...)})
-	}
-	if looksLikePercent(c.Value, fig) {
-		add(PitfallPercent, "The claim %s is above 1 for a fraction: it looks like a percentage (%s).",
-			strconv.FormatFloat(c.Value, 'g', -1, 64), FormatValue(c.Value/100, ""))
-	}
-	switch kind {
-	case kindSolar, kindTransmittance, kindAbsorptance:
-		x := o.R
-		if kind == kindTransmittance {
-			x = o.T
-		}
-		if lo, _ := x.Range(); lo > SolarStartNM && lo > fig.Band[0] {
-			add(PitfallSolarLateStart, "The solar data start at %s nm, after %g nm: the ultraviolet from %g to %s nm is not measured.",
-				fmtHundredths(lo), SolarStartNM, fig.Band[0], fmtHundredths(lo))
-		}
-	case kindThermal, kindWindow:
-		if _, hi := o.A.Range(); hi < fig.Band[1]*1000 {
-			add(PitfallInfraredShort, "The infrared data stop at %s µm, before the top of the %g–%g µm band.",
-				fmtHundredths(hi/1000), fig.Band[0], fig.Band[1])
-		}
-	}
-	cl := o.Closure
-	worst, what := cl.Excess, fmt.Sprintf("R+T exceeds 1 by %s at %s nm", FormatValue(cl.Excess, ""), fmtHundredths(cl.ExcessNM))
-	if cl.Checked && cl.Residual > worst {
-		worst, what = cl.Residual, fmt.Sprintf("|R+T+A−1| reaches %s at %s nm", FormatValue(cl.Residual, ""), fmtHundredths(cl.ResidualNM))
-	}
-	if -cl.Min > worst {
-		worst, what = -cl.Min, fmt.Sprintf("%s is %s at %s nm", cl.MinOf, FormatValue(cl.Min, ""), fmtHundredths(cl.MinNM))
-	}
-	limit := allowed
-	if fig.Unit != "" && c.Value != 0 {
-		limit = allowed / math.Abs(c.Value) // relative, for figures with a unit
-	}
-	if worst > limit+edge {
-		add(PitfallClosure, "The data break closure by more than the claim's ±%s: %s.", FormatValue(limit, ""), what)
-	}
-	return out
-}
-
 // MaxFraction is the largest claim read as a fraction, as the readers
 // accept measured fractions up to 1.05; a larger claim of a fraction is not
 // supported.
 const MaxFraction = 1.05
-
-// percentNear is how close a claim divided by 100 must come to the computed
-// fraction to be taken for a percentage (common practice, no source).
-const percentNear = 0.05
-
-// looksLikePercent reports whether a claim of a fraction figure is above
-// MaxFraction and, read as a percentage, a fraction near the computed
-// value (or any fraction when none was computed).
-func looksLikePercent(v float64, fig Figure) bool {
-	if fig.Unit != "" || !(math.Abs(v) > MaxFraction && math.Abs(v) <= 100*MaxFraction) {
-		return false
-	}
-	x := float64(fig.Value)
-	return math.IsNaN(x) || math.Abs(v/100-x) <= percentNear
-}
-
-// measuredAngle returns the measurement's angle of incidence in degrees, or
-// NaN when unknown.
-func measuredAngle(m JudgeInput) float64 {
-	s := m.Angle
-	if s == "" && m.Spectrum != nil {
-		for _, k := range []string{"angle of incidence", "angle"} {
-			if v, ok := m.Spectrum.Get(k); ok {
-				s = v
-				break
-			}
-		}
-	}
-	return parseAngle(s)
-}
-
-var angleRE = regexp.MustCompile(`[0-9]+(\.[0-9]+)?`)
-
-// parseAngle reads the first number in s ("8°", "near-normal, 8 deg").
-func parseAngle(s string) float64 {
-	x, err := strconv.ParseFloat(angleRE.FindString(s), 64)
-	if err != nil || x >= 90 {
-		return math.NaN()
-	}
-	return x
-}
-
-// sameBasis reports whether a and b agree on every condition a figure of
-// the kind depends on.
-func sameBasis(k figureKind, a, b Conditions) bool {
-	switch k {
-	case kindSolar, kindTransmittance, kindAbsorptance:
-		return a.SolarBandNM == b.SolarBandNM && a.SolarSpectrum == b.SolarSpectrum
-	case kindThermal:
-		return a.ThermalBandUM == b.ThermalBandUM && a.TemperatureK == b.TemperatureK
-	case kindWindow:
-		return a.WindowBandUM == b.WindowBandUM && a.TemperatureK == b.TemperatureK
-	}
-	return reflect.DeepEqual(a, b)
-}
-
-// basisWords describes the basis of a figure of the kind, marking each part
-// stated or default, and returns the defaulted yaml keys it depends on.
-func basisWords(k figureKind, fig Figure, c Conditions, stated map[string]bool, claimAngle, measured float64) (string, []string) {
-	var parts []string
-	defaulted := []string{}
-	part := func(key, text string) {
-		if stated[key] {
-			parts = append(parts, text+" (stated)")
-			return
-		}
-		parts = append(parts, text+" (default)")
-		defaulted = append(defaulted, key)
-	}
-	solar := func() {
-		part("solar_band_nm", fmt.Sprintf("solar band %g–%g nm", c.SolarBandNM[0], c.SolarBandNM[1]))
-		part("solar_spectrum", fmt.Sprintf("%s spectrum", fig.Weighting))
-	}
-	thermal := func() {
-		part("thermal_band_um", fmt.Sprintf("thermal band %g–%g µm", c.ThermalBandUM[0], c.ThermalBandUM[1]))
-	}
-	window := func() {
-		part("window_band_um", fmt.Sprintf("window band %g–%g µm", c.WindowBandUM[0], c.WindowBandUM[1]))
-	}
-	temp := func() { part("temperature_k", fmt.Sprintf("blackbody at %g K", c.TemperatureK)) }
-	switch k {
-	case kindSolar, kindTransmittance, kindAbsorptance:
-		solar()
-	case kindThermal:
-		thermal()
-		temp()
-	case kindWindow:
-		window()
-		temp()
-	default:
-		solar()
-		thermal()
-		window()
-		temp()
-	}
-	switch {
-	case claimAngle > 0 && math.IsNaN(measured):
-		parts = append(parts, fmt.Sprintf("angle of incidence %g° (stated; the data's angle is not recorded)", claimAngle))
-	case claimAngle > 0:
-		parts = append(parts, fmt.Sprintf("angle of incidence %g° (stated; measured at %g°)", claimAngle, measured))
-	}
-	return strings.Join(parts, ", "), defaulted
-}
-
-// basisShort describes the conditions a figure of the kind depends on,
-// without marks.
-func basisShort(k figureKind, fig Figure, c Conditions) string {
-	switch k {
-	case kindSolar, kindTransmittance, kindAbsorptance:
-		return fmt.Sprintf("%g–%g nm, %s", c.SolarBandNM[0], c.SolarBandNM[1], fig.Weighting)
-	case kindThermal, kindWindow:
-		return fmt.Sprintf("%g–%g µm, %s", fig.Band[0], fig.Band[1], fig.Weighting)
-	}
-	return "the default conditions"
-}
 
 // bandWords names a figure's band, e.g. "band 2.5–25 µm".
 func bandWords(f Figure) string {

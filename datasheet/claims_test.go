@@ -349,6 +349,9 @@ func FuzzJudge(f *testing.F) {
 	f.Add("solar_reflectance", 0.9, 0.01, 280.0, 2500.0, "global", 300.0, 8.0)
 	f.Add("thermal_emittance", 95.0, 0.0, 0.0, 0.0, "", 0.0, 0.0)
 	f.Add("x", math.Inf(1), -1.0, 2500.0, 280.0, "sideways", -5.0, 100.0)
+	f.Add("sri_low", 110.0, 0.0, 0.0, 0.0, "", 0.0, 0.0)
+	f.Add("cooling_power_w_m2", 600.0, 0.0, 280.0, 4000.0, "direct", 0.0, 0.0)
+	f.Add("equilibrium_delta_night_k", 300.0, 1.0, 0.0, 0.0, "", 320.0, 0.0)
 	s, err := spectra.Merge(mustDecode(f, "a.csv", uvvis320), mustDecode(f, "b.csv", ftir20))
 	if err != nil {
 		f.Fatal(err)

@@ -5,7 +5,9 @@ import (
 	"fmt"
 	"io/fs"
 	"os"
+	"runtime"
 	"sort"
+	"sync"
 
 	"skysheet/datasheet"
 	"skysheet/datasheet/library"
@@ -136,7 +138,8 @@ func buildCheck(dir string, lib *library.Library, loadErr error, strict bool) *c
 			cm := get(c.Path)
 			cm.Slug, cm.Title = c.Slug, c.Front.Title
 		}
-		for _, mat := range lib.Materials {
+		judged := judgeAll(lib.Materials, runtime.GOMAXPROCS(0))
+		for i, mat := range lib.Materials {
 			cm := get(mat.Path)
 			cm.Slug, cm.Title, cm.Inputs = mat.Slug, mat.Front.Title, mat.Inputs
 			if mat.Figures != nil {
@@ -148,7 +151,7 @@ func buildCheck(dir string, lib *library.Library, loadErr error, strict bool) *c
 					cm.Errors = append(cm.Errors, fmt.Sprintf("%s: claim %d: %v", mat.Path, i+1, err))
 				}
 			}
-			cm.Verdicts = mat.Verdicts()
+			cm.Verdicts = judged[i]
 		}
 	}
 	for _, err := range splitErrors(loadErr) {
@@ -181,6 +184,28 @@ func buildCheck(dir string, lib *library.Library, loadErr error, strict bool) *c
 		}
 	}
 	return r
+}
+
+// judgeAll judges the claims of every material with at most workers
+// materials at a time. The verdicts are in the order of ms, whatever the
+// number of workers.
+func judgeAll(ms []*library.Material, workers int) [][]datasheet.Verdict {
+	out := make([][]datasheet.Verdict, len(ms))
+	next := make(chan int)
+	var wg sync.WaitGroup
+	for range max(1, min(workers, len(ms))) {
+		wg.Go(func() {
+			for i := range next {
+				out[i] = ms[i].Verdicts()
+			}
+		})
+	}
+	for i := range ms {
+		next <- i
+	}
+	close(next)
+	wg.Wait()
+	return out
 }
 
 // splitErrors returns the single errors inside err.

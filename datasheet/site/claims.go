@@ -60,18 +60,18 @@ func claimViews(vs []datasheet.Verdict) []claimView {
 		c := v.Claim
 		x := claimView{ID: "claim-" + strconv.Itoa(i+1), Mark: v.Status.Mark(), Status: v.Status.String(),
 			Class: verdictClasses[v.Status], Figure: firstOf(v.Label, c.Figure), Key: c.Figure,
-			Claimed: c.Text(), Source: c.Source, Computed: fmtClaimNum(v.Computed, v.Unit),
-			Difference: fmtSignedNum(v.Difference, v.Unit), Reason: v.Reason, Basis: v.Basis,
+			Claimed: c.Text(), Source: c.Source, Computed: fmtClaimNum(v, v.Computed),
+			Difference: fmtSignedNum(v, v.Difference), Reason: v.Reason, Basis: v.Basis,
 			BasisNote: v.BasisNote, Pitfalls: v.Pitfalls}
 		if v.Unit != "" {
 			x.Claimed += " " + v.Unit
 		}
 		if !isNaN(v.Allowed) {
-			x.Allowed = "±" + fmtClaimNum(v.Allowed, v.Unit)
+			x.Allowed = "±" + fmtClaimNum(v, v.Allowed)
 			x.AllowedFrom = "claimed tolerance"
 			if c.Tolerance == 0 {
 				x.AllowedFrom = "expanded uncertainty"
-				x.Allowance = "±" + fmtClaimNum(v.Allowed, v.Unit) + ", the " + v.AllowedFrom + "."
+				x.Allowance = "±" + fmtClaimNum(v, v.Allowed) + ", the " + v.AllowedFrom + "."
 			}
 		}
 		out[i] = x
@@ -90,19 +90,19 @@ func claimRefs(cs []claimView) map[string][]claimRef {
 
 // fmtClaimNum formats a number of a verdict as the verdict's reason does,
 // "—" when it was not computed.
-func fmtClaimNum(v datasheet.Num, unit string) string {
-	if isNaN(v) {
+func fmtClaimNum(v datasheet.Verdict, x datasheet.Num) string {
+	if isNaN(x) {
 		return "—"
 	}
-	return datasheet.FormatValue(float64(v), unit)
+	return v.Format(float64(x))
 }
 
 // fmtSignedNum is fmtClaimNum with a sign.
-func fmtSignedNum(v datasheet.Num, unit string) string {
-	if isNaN(v) {
+func fmtSignedNum(v datasheet.Verdict, x datasheet.Num) string {
+	if isNaN(x) {
 		return "—"
 	}
-	return datasheet.FormatSigned(float64(v), unit)
+	return v.FormatSigned(float64(x))
 }
 
 // countWords says what the counts hold: "3 claims: 1 supported, 1 not
@@ -219,7 +219,8 @@ type reviewRow struct {
 // reviewRules are the thresholds the review page states, from the
 // constants of [datasheet.Judge].
 type reviewRules struct {
-	Uncertainty, RelUncertainty, K, Coverage, Angle, MaxFraction, SolarStart string
+	Uncertainty, IndexUncertainty, RelUncertainty, PowerFloor, DeltaFloor, K, Coverage, Angle, MaxFraction, SolarStart string
+	CoolingBand, HeldShare                                                                                             string
 }
 
 type reviewView struct {
@@ -239,13 +240,18 @@ const reviewPage = "review/index.html"
 func (b *builder) reviewFiles(out files) error {
 	p := b.newPage("review", "Review of claims", reviewPage)
 	v := &reviewView{Cautions: Cautions, Rules: reviewRules{
-		Uncertainty:    fmtG(datasheet.DefaultUncertainty),
-		RelUncertainty: fmtG(100*datasheet.DefaultRelUncertainty) + " %",
-		K:              fmtG(datasheet.CoverageFactor),
-		Coverage:       fmtG(100*datasheet.MinCoverage) + " %",
-		Angle:          fmtG(datasheet.MaxAngleDiffDeg) + "°",
-		MaxFraction:    fmtG(datasheet.MaxFraction),
-		SolarStart:     fmtG(datasheet.SolarStartNM) + " nm",
+		Uncertainty:      fmtG(datasheet.DefaultUncertainty),
+		IndexUncertainty: fmtG(datasheet.DefaultIndexUncertainty),
+		RelUncertainty:   fmtG(100*datasheet.DefaultRelUncertainty) + " %",
+		PowerFloor:       fmtG(datasheet.DefaultPowerFloorWm2) + " W/m²",
+		DeltaFloor:       fmtG(datasheet.DefaultDeltaFloorK) + " K",
+		K:                fmtG(datasheet.CoverageFactor),
+		Coverage:         fmtG(100*datasheet.MinCoverage) + " %",
+		Angle:            fmtG(datasheet.MaxAngleDiffDeg) + "°",
+		MaxFraction:      fmtG(datasheet.MaxFraction),
+		SolarStart:       fmtG(datasheet.SolarStartNM) + " nm",
+		CoolingBand:      fmtG(datasheet.CoolingCheckLoUM) + "–" + fmtG(datasheet.CoolingCheckHiUM) + " µm",
+		HeldShare:        fmtG(100*datasheet.MaxHeldShare) + " %",
 	}}
 	ms, _ := b.ordered()
 	for _, m := range ms {

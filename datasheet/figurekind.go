@@ -1,0 +1,311 @@
+package datasheet
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"skysheet/spectra"
+)
+
+// Kind is what a figure's number is: it decides how a claim of the figure
+// is read, which values it may take, the allowance when none is claimed
+// and how its numbers are written.
+type Kind int
+
+// The kinds of figures. The zero Kind is unknown (a figure the tool does
+// not compute).
+const (
+	KindUnknown               Kind = iota
+	KindFraction                   // 0..1: reflectances, transmittances, absorptances, emittances
+	KindIndex                      // the Solar Reflectance Index: 0 standard black, 100 standard white
+	KindPower                      // a power per area, W/m²
+	KindTemperatureDifference      // a temperature difference, K
+	KindQuantity                   // any other figure with a unit
+)
+
+var kindWords = [...]string{"", "fraction", "index", "power", "temperature difference", "quantity"}
+
+// String returns the kind in words, e.g. "fraction" ("" when unknown).
+func (k Kind) String() string {
+	if k >= 0 && int(k) < len(kindWords) {
+		return kindWords[k]
+	}
+	return "Kind(" + strconv.Itoa(int(k)) + ")"
+}
+
+// MarshalText writes the kind in words.
+func (k Kind) MarshalText() ([]byte, error) {
+	if k < 0 || int(k) >= len(kindWords) {
+		return nil, fmt.Errorf("datasheet: unknown kind %d", int(k))
+	}
+	return []byte(k.String()), nil
+}
+
+// UnmarshalText reads a kind written by MarshalText.
+func (k *Kind) UnmarshalText(b []byte) error {
+	for i, w := range kindWords {
+		if string(b) == w {
+			*k = Kind(i)
+			return nil
+		}
+	}
+	return fmt.Errorf("datasheet: unknown kind %q: want one of %q", b, kindWords[1:])
+}
+
+// Format writes x as verdicts write numbers of a figure of kind k and the
+// given unit: four decimals for a fraction, one decimal otherwise, followed
+// by the unit when there is one; "n/a" for NaN.
+func (k Kind) Format(x float64, unit string) string {
+	if math.IsNaN(x) {
+		return "n/a"
+	}
+	if k == KindFraction || k == KindUnknown && unit == "" {
+		return strconv.FormatFloat(x, 'f', 4, 64)
+	}
+	s := strconv.FormatFloat(x, 'f', 1, 64)
+	if unit != "" {
+		s += " " + unit
+	}
+	return s
+}
+
+// FormatSigned is [Kind.Format] with a sign ("+" or "−"), none when x
+// shows as zero or is NaN.
+func (k Kind) FormatSigned(x float64, unit string) string {
+	s := k.Format(math.Abs(x), unit)
+	switch {
+	case math.IsNaN(x), s == k.Format(0, unit):
+	case x < 0:
+		s = "−" + s
+	default:
+		s = "+" + s
+	}
+	return s
+}
+
+// condKey names one condition a figure may rest on, by its key under
+// conditions: in skysheet.yaml.
+type condKey string
+
+// The conditions, by their yaml keys.
+const (
+	condSolarBand    condKey = "solar_band_nm"
+	condSolarSpec    condKey = "solar_spectrum"
+	condThermalBand  condKey = "thermal_band_um"
+	condWindowBand   condKey = "window_band_um"
+	condTemperature  condKey = "temperature_k"
+	condSky          condKey = "sky"
+	condDewPoint     condKey = "dew_point_c"
+	condAmbient      condKey = "ambient_k"
+	condH            condKey = "h_w_m2k"
+	condIrradiance   condKey = "irradiance_w_m2"
+	condExchangeBand condKey = "exchange_band_um"
+)
+
+// allConds are every condition, for a figure the table below does not
+// know.
+var allConds = []condKey{condSolarBand, condSolarSpec, condThermalBand, condWindowBand, condTemperature,
+	condSky, condDewPoint, condAmbient, condH, condIrradiance, condExchangeBand}
+
+// same reports whether a and b agree on condition k.
+func (k condKey) same(a, b Conditions) bool {
+	switch k {
+	case condSolarBand:
+		return a.SolarBandNM == b.SolarBandNM
+	case condSolarSpec:
+		return a.SolarSpectrum == b.SolarSpectrum
+	case condThermalBand:
+		return a.ThermalBandUM == b.ThermalBandUM
+	case condWindowBand:
+		return a.WindowBandUM == b.WindowBandUM
+	case condTemperature:
+		return a.TemperatureK == b.TemperatureK
+	case condSky:
+		return a.clearSky() == b.clearSky() && (a.clearSky() || a.Sky == b.Sky && a.SkySpectrum == b.SkySpectrum)
+	case condDewPoint:
+		return a.DewPointC == b.DewPointC
+	case condAmbient:
+		return a.AmbientK == b.AmbientK
+	case condH:
+		return a.HWm2K == b.HWm2K
+	case condIrradiance:
+		return a.IrradianceWm2 == b.IrradianceWm2
+	case condExchangeBand:
+		return a.ExchangeBandUM == b.ExchangeBandUM
+	}
+	return false
+}
+
+// words describes condition k of c, e.g. "solar band 280–2500 nm"; "" when
+// c does not use it (the dew point under a spectral sky).
+func (k condKey) words(c Conditions) string {
+	switch k {
+	case condSolarBand:
+		return fmt.Sprintf("solar band %g–%g nm", c.SolarBandNM[0], c.SolarBandNM[1])
+	case condSolarSpec:
+		if w, err := spectra.Solar(c.SolarSpectrum); err == nil {
+			return w.String() + " spectrum"
+		}
+		return fmt.Sprintf("solar spectrum %q", c.SolarSpectrum)
+	case condThermalBand:
+		return fmt.Sprintf("thermal band %g–%g µm", c.ThermalBandUM[0], c.ThermalBandUM[1])
+	case condWindowBand:
+		return fmt.Sprintf("window band %g–%g µm", c.WindowBandUM[0], c.WindowBandUM[1])
+	case condTemperature:
+		return fmt.Sprintf("blackbody at %g K", c.TemperatureK)
+	case condSky:
+		if c.clearSky() {
+			return "clear two-band sky"
+		}
+		return "spectral sky " + c.Sky
+	case condDewPoint:
+		if !c.clearSky() {
+			return ""
+		}
+		return fmt.Sprintf("dew point %g °C", c.DewPointC)
+	case condAmbient:
+		return fmt.Sprintf("air at %g K", c.AmbientK)
+	case condH:
+		return fmt.Sprintf("h %g W m⁻² K⁻¹", c.HWm2K)
+	case condIrradiance:
+		return fmt.Sprintf("sun %g W/m²", c.IrradianceWm2)
+	case condExchangeBand:
+		return fmt.Sprintf("exchange band %g–%g µm", c.ExchangeBandUM[0], c.ExchangeBandUM[1])
+	}
+	return string(k)
+}
+
+// figureSpec is how claims of one figure are judged.
+type figureSpec struct {
+	kind Kind
+	// conds are the conditions the figure rests on, in the order a
+	// verdict's basis names them.
+	conds []condKey
+	// What the figure is computed from, for the coverage rule and the
+	// pitfalls: solar data (R, or T for a transmittance), infrared
+	// emittance over the thermal or window band, the cooling integrals.
+	solar, transmittance, thermal, window, cooling, sri bool
+	// hc is the convection coefficient of an SRI figure (ASTM E1980
+	// wind class), W m⁻² K⁻¹.
+	hc float64
+}
+
+// The conditions behind the kinds of figures.
+var (
+	solarConds   = []condKey{condSolarBand, condSolarSpec}
+	sriConds     = []condKey{condSolarBand, condSolarSpec, condThermalBand, condTemperature}
+	dayPower     = []condKey{condSky, condDewPoint, condAmbient, condIrradiance, condSolarSpec, condSolarBand, condExchangeBand}
+	nightPower   = []condKey{condSky, condDewPoint, condAmbient, condExchangeBand}
+	dayBalance   = []condKey{condSky, condDewPoint, condAmbient, condH, condIrradiance, condSolarSpec, condSolarBand, condExchangeBand}
+	nightBalance = []condKey{condSky, condDewPoint, condAmbient, condH, condExchangeBand}
+)
+
+// figureSpecs is the one table of how each figure that [Compute] returns is
+// judged. The cooling power at T_s = T_amb does not depend on h
+// (docs/cooling.md), so only the equilibria list it. TestFigureSpecs checks
+// that every computed figure is here, with a kind that fits its unit.
+var figureSpecs = map[string]figureSpec{
+	"solar_reflectance":         {kind: KindFraction, conds: solarConds, solar: true},
+	"solar_transmittance":       {kind: KindFraction, conds: solarConds, solar: true, transmittance: true},
+	"solar_absorptance":         {kind: KindFraction, conds: solarConds, solar: true},
+	"uv_reflectance":            {kind: KindFraction, conds: solarConds, solar: true},
+	"visible_reflectance":       {kind: KindFraction, conds: solarConds, solar: true},
+	"nir_reflectance":           {kind: KindFraction, conds: solarConds, solar: true},
+	"thermal_emittance":         {kind: KindFraction, conds: []condKey{condThermalBand, condTemperature}, thermal: true},
+	"window_emittance":          {kind: KindFraction, conds: []condKey{condWindowBand, condTemperature}, window: true},
+	"cooling_power_w_m2":        {kind: KindPower, conds: dayPower, solar: true, cooling: true},
+	"cooling_power_night_w_m2":  {kind: KindPower, conds: nightPower, cooling: true},
+	"equilibrium_delta_k":       {kind: KindTemperatureDifference, conds: dayBalance, solar: true, cooling: true},
+	"equilibrium_delta_night_k": {kind: KindTemperatureDifference, conds: nightBalance, cooling: true},
+	"sri_low":                   {kind: KindIndex, conds: sriConds, solar: true, thermal: true, sri: true, hc: WindLow},
+	"sri_medium":                {kind: KindIndex, conds: sriConds, solar: true, thermal: true, sri: true, hc: WindMedium},
+	"sri_high":                  {kind: KindIndex, conds: sriConds, solar: true, thermal: true, sri: true, hc: WindHigh},
+}
+
+// specOf returns how claims of figure f are judged: from the table, or,
+// for a figure it lacks, from the figure's unit and band (a fraction over
+// a band in nm rests on the solar conditions; anything else on all of
+// them).
+func specOf(f Figure) figureSpec {
+	if s, ok := figureSpecs[f.Key]; ok {
+		return s
+	}
+	s := figureSpec{kind: kindOfUnit(f.Unit), conds: allConds}
+	if s.kind == KindFraction && f.BandUnit == "nm" {
+		s.conds, s.solar = solarConds, true
+	}
+	return s
+}
+
+// kindOfUnit is the kind a figure's unit implies.
+func kindOfUnit(unit string) Kind {
+	switch unit {
+	case "":
+		return KindFraction
+	case "W/m²":
+		return KindPower
+	case "K":
+		return KindTemperatureDifference
+	}
+	return KindQuantity
+}
+
+// KindOf returns the kind of figure f.
+func KindOf(f Figure) Kind { return specOf(f).kind }
+
+// basisOf describes the conditions c that a figure of spec s rests on,
+// each part marked stated or default (marks false: no marks), and returns
+// the defaulted keys.
+func (s figureSpec) basisOf(c Conditions, stated map[string]bool, marks bool) (string, []string) {
+	var parts []string
+	defaulted := []string{}
+	for _, k := range s.conds {
+		w := k.words(c)
+		if w == "" {
+			continue
+		}
+		switch {
+		case !marks:
+		case stated[string(k)]:
+			w += " (stated)"
+		default:
+			w += " (default)"
+			defaulted = append(defaulted, string(k))
+		}
+		parts = append(parts, w)
+	}
+	if s.sri {
+		w := fmt.Sprintf("ASTM E1980 %s wind, h_c %g W m⁻² K⁻¹", windName(s.hc), s.hc)
+		if marks {
+			w += " (set by the figure)"
+		}
+		parts = append(parts, w)
+	}
+	return strings.Join(parts, ", "), defaulted
+}
+
+// windName names an ASTM E1980 wind class.
+func windName(hc float64) string {
+	switch hc {
+	case WindLow:
+		return "low"
+	case WindMedium:
+		return "medium"
+	case WindHigh:
+		return "high"
+	}
+	return "custom"
+}
+
+// sameBasis reports whether a and b agree on every condition a figure of
+// spec s rests on.
+func (s figureSpec) sameBasis(a, b Conditions) bool {
+	for _, k := range s.conds {
+		if !k.same(a, b) {
+			return false
+		}
+	}
+	return true
+}

@@ -1,0 +1,509 @@
+package datasheet
+
+import (
+	"fmt"
+	"math"
+	"regexp"
+	"strconv"
+	"strings"
+
+	"skysheet/spectra"
+)
+
+// JudgeInput is what a claim is judged against.
+type JudgeInput struct {
+	// Spectrum is the material's measured data.
+	Spectrum *spectra.Spectrum
+	// Conditions are the material's defaults: the library's, with the
+	// material's own overrides. A claim's basis overrides them.
+	Conditions Conditions
+	// Figures, when not nil, are the figures [Compute] returned for
+	// Spectrum under Conditions: claims on those conditions reuse them
+	// instead of computing them again. They are used only when their own
+	// Conditions equal Conditions.
+	Figures *Figures
+	// Angle is the measurement's angle of incidence as written, e.g. "8°".
+	// When empty, the spectrum's "angle of incidence" or "angle" metadata
+	// is used; when none is known the angle is not compared.
+	Angle string
+}
+
+// Judge decides whether the spectrum in m supports claim c. It never
+// panics on bad claims or data: those give [CannotCheck] with the reason.
+func Judge(c Claim, m JudgeInput) Verdict {
+	return newJudge(m).judge(c)
+}
+
+// JudgeAll judges the claims cs against m, in order, as [Judge] does. It
+// computes the figures once for each distinct basis among the claims, and
+// not at all for the material's own conditions when m.Figures holds them.
+// The result is never nil.
+func JudgeAll(cs []Claim, m JudgeInput) []Verdict {
+	j := newJudge(m)
+	out := make([]Verdict, len(cs))
+	for i, c := range cs {
+		out[i] = j.judge(c)
+	}
+	return out
+}
+
+// judge judges the claims of one material, keeping what it computed.
+type judge struct {
+	in     JudgeInput
+	figs   map[Conditions]computed // by basis; Conditions is comparable
+	optics map[float64]spectra.Optics
+	// computes counts the calls of Compute, for the tests.
+	computes int
+}
+
+// computed is the result of Compute on one basis.
+type computed struct {
+	f   *Figures
+	err error
+}
+
+func newJudge(m JudgeInput) *judge {
+	j := &judge{in: m, figs: map[Conditions]computed{}, optics: map[float64]spectra.Optics{}}
+	if m.Figures != nil && m.Figures.Conditions == m.Conditions {
+		j.figs[m.Conditions] = computed{f: m.Figures}
+	}
+	return j
+}
+
+// figures returns the figures of the material's spectrum under c.
+func (j *judge) figures(c Conditions) (*Figures, error) {
+	if r, ok := j.figs[c]; ok {
+		return r.f, r.err
+	}
+	j.computes++
+	f, err := Compute(j.in.Spectrum, c)
+	j.figs[c] = computed{f, err}
+	return f, err
+}
+
+// resolved returns the material's optics with closure tolerance tol.
+func (j *judge) resolved(tol float64) spectra.Optics {
+	if o, ok := j.optics[tol]; ok {
+		return o
+	}
+	o := spectra.Resolve(j.in.Spectrum, tol)
+	j.optics[tol] = o
+	return o
+}
+
+func (j *judge) judge(c Claim) Verdict {
+	m := j.in
+	nan := Num(math.NaN())
+	v := Verdict{Claim: c, Status: CannotCheck, Computed: nan, Difference: nan, Allowed: nan,
+		DefaultBasisValue: nan, Pitfalls: []Pitfall{}, Defaulted: []string{}, Conditions: m.Conditions}
+	cannot := func(format string, a ...any) Verdict {
+		v.Status, v.Reason = CannotCheck, fmt.Sprintf(format, a...)
+		return v
+	}
+	if err := c.Validate(); err != nil {
+		return cannot("The claim is malformed: %v.", err)
+	}
+	if m.Spectrum == nil || len(m.Spectrum.Segments) == 0 {
+		return cannot("There are no spectra to check the claim against.")
+	}
+	if err := m.Conditions.Validate(); err != nil {
+		return cannot("The default conditions are not usable: %v.", err)
+	}
+	cond, stated := c.Basis.apply(m.Conditions)
+	v.Conditions = cond
+	f, err := j.figures(cond)
+	if err != nil {
+		return cannot("The claim's basis cannot be computed: %v.", err)
+	}
+	fig, ok := f.Figure(c.Figure)
+	if !ok {
+		return cannot("skysheet computes no figure %q%s.", c.Figure, suggest(c.Figure, f.Figures))
+	}
+	spec := specOf(fig)
+	v.Label, v.Unit, v.Kind, v.Computed = fig.Label, fig.Unit, spec.kind, fig.Value
+	ma := measuredAngle(m)
+	v.Basis, v.Defaulted = basisWords(spec, cond, stated, c.Basis.AngleDeg, ma)
+	if cond != m.Conditions && !spec.sameBasis(cond, m.Conditions) {
+		df, err := j.figures(m.Conditions)
+		if d, ok := df.figure(err, c.Figure); ok {
+			v.DefaultBasisValue = d.Value
+			v.BasisNote = fmt.Sprintf("On the default basis (%s) the spectra give %s.",
+				basisShort(spec, d, m.Conditions), v.Format(float64(d.Value)))
+		}
+	}
+
+	// The allowance: the claimed tolerance, or the expanded combined
+	// uncertainty of the computed figure and the claim's rounding.
+	if c.Tolerance > 0 {
+		v.Allowed, v.AllowedFrom = Num(c.Tolerance), "claimed tolerance"
+	} else {
+		uFig, from := defaultUncertainty(spec.kind, c.Value, fig.Unit)
+		uRound := roundingUncertainty(c.Value)
+		v.Allowed = Num(CoverageFactor * math.Hypot(uFig, uRound))
+		v.AllowedFrom = fmt.Sprintf("expanded uncertainty (k = %g) of the figure's standard uncertainty %s (%s) and the claim's rounding %s",
+			CoverageFactor, v.Format(uFig), from, v.Format(uRound))
+	}
+	o := j.resolved(cond.ClosureTol) // for the pitfalls
+	v.Pitfalls = pitfalls(c, fig, spec, f, o, float64(v.Allowed))
+
+	computed := float64(fig.Value)
+	if math.IsNaN(computed) {
+		return cannot("The data do not reach the %s at all.", bandWords(fig))
+	}
+	v.Difference = Num(computed - c.Value)
+	// A cooling verdict always says over what the emittance is held
+	// constant beyond the data.
+	held := ""
+	if spec.cooling {
+		held = heldClause(f)
+	}
+	say := func(s Status, format string, a ...any) Verdict {
+		v.Status, v.Reason = s, strings.TrimSuffix(fmt.Sprintf(format, a...), ".")+held+"."
+		return v
+	}
+	if why := coverageShort(spec, fig, f); why != "" {
+		return say(CannotCheck, "%s", why)
+	}
+	if spec.transmittance && !m.Spectrum.Has(spectra.T) {
+		return cannot("No transmittance was measured, and the opaque assumption (T = 0) cannot confirm a claimed transmittance.")
+	}
+	if c.Basis.AngleDeg > 0 && !math.IsNaN(ma) && math.Abs(c.Basis.AngleDeg-ma) > MaxAngleDiffDeg {
+		return say(CannotCheck, "The claim is for %g° incidence but the spectra were measured at %g°.", c.Basis.AngleDeg, ma)
+	}
+	if why := outOfRange(c.Value, spec, fig, cond, v); why != "" {
+		return say(NotSupported, "%s", why)
+	}
+
+	diff := computed - c.Value
+	within := math.Abs(diff) <= float64(v.Allowed)+edge
+	allow := "±" + v.Format(float64(v.Allowed)) + " (claimed tolerance)"
+	if c.Tolerance == 0 {
+		allow = "±" + v.Format(float64(v.Allowed)) + " (expanded uncertainty; no tolerance was claimed)"
+	}
+	if within {
+		return say(Supported, "The spectra give %s against the claimed %s (difference %s), within %s.",
+			v.Format(computed), v.Format(c.Value), v.FormatSigned(diff), allow)
+	}
+	dir := "above"
+	if diff < 0 {
+		dir = "below"
+	}
+	return say(NotSupported, "The spectra give %s, %s %s the claimed %s, outside %s.",
+		v.Format(computed), v.Format(math.Abs(diff)), dir, v.Format(c.Value), allow)
+}
+
+// figure returns the figure key of f when f was computed without error.
+func (f *Figures) figure(err error, key string) (Figure, bool) {
+	if err != nil || f == nil {
+		return Figure{}, false
+	}
+	return f.Figure(key)
+}
+
+// defaultUncertainty returns the standard uncertainty assumed for a figure
+// of kind k when no tolerance is claimed, and where it comes from.
+func defaultUncertainty(k Kind, claimed float64, unit string) (float64, string) {
+	floor := 0.0
+	switch k {
+	case KindFraction:
+		return DefaultUncertainty, "default for fractions, common practice, no source"
+	case KindIndex:
+		return DefaultIndexUncertainty, "default for an index such as the SRI, common practice, no source"
+	case KindPower:
+		floor = DefaultPowerFloorWm2
+	case KindTemperatureDifference:
+		floor = DefaultDeltaFloorK
+	}
+	u := DefaultRelUncertainty * math.Abs(claimed)
+	if u >= floor {
+		return u, fmt.Sprintf("default %g %% of the claim, common practice, no source", 100*DefaultRelUncertainty)
+	}
+	return floor, fmt.Sprintf("default floor %s, as %g %% of the claim is less, common practice, no source",
+		k.Format(floor, unit), 100*DefaultRelUncertainty)
+}
+
+// coverageShort returns why the data cover too little of what figure fig
+// (of f) rests on, or "".
+func coverageShort(spec figureSpec, fig Figure, f *Figures) string {
+	short := func(cov float64, what, rests string) string {
+		if cov >= MinCoverage {
+			return ""
+		}
+		return fmt.Sprintf("The data cover only %.1f %% of %s%s (at least %g %% is needed).", 100*cov, what, rests, 100*MinCoverage)
+	}
+	input := func(key, rests string) string {
+		x, ok := f.Figure(key)
+		if !ok {
+			return ""
+		}
+		return short(float64(x.Coverage), fmt.Sprintf("the %s weighting over the %s", x.Weighting, bandWords(x)), rests)
+	}
+	switch {
+	case spec.cooling:
+		c := f.Conditions
+		lo, hi := coolingCheckBand(c)
+		if s := short(measuredShare(f, lo, hi), fmt.Sprintf("the blackbody power at %g K over %g–%g µm", c.AmbientK, lo, hi),
+			fmt.Sprintf(", the part of the exchange band %g–%g µm that must be measured", c.ExchangeBandUM[0], c.ExchangeBandUM[1])); s != "" {
+			return s
+		}
+		if spec.solar {
+			return input("solar_reflectance", ", on which the absorbed sunlight rests")
+		}
+		return ""
+	case spec.sri:
+		if s := input("solar_reflectance", ", on which the index's solar absorptance rests"); s != "" {
+			return s
+		}
+		return input("thermal_emittance", ", on which the index's thermal emittance rests")
+	}
+	return short(float64(fig.Coverage), fmt.Sprintf("the %s weighting over the %s", fig.Weighting, bandWords(fig)), "")
+}
+
+// coolingCheckBand returns the part of c's exchange band, µm, that the
+// data must cover for a cooling claim: CoolingCheckLoUM–CoolingCheckHiUM
+// within it, or the whole band when they do not overlap.
+func coolingCheckBand(c Conditions) (lo, hi float64) {
+	lo, hi = math.Max(CoolingCheckLoUM, c.ExchangeBandUM[0]), math.Min(CoolingCheckHiUM, c.ExchangeBandUM[1])
+	if !(hi > lo) {
+		return c.ExchangeBandUM[0], c.ExchangeBandUM[1]
+	}
+	return lo, hi
+}
+
+// measuredShare returns the share of the blackbody power at the air
+// temperature over lo–hi µm that falls where f's emittance is measured,
+// not held constant: 1 − (power over the held bands within lo–hi) / (power
+// over lo–hi), with the blackbody fractions of Planck's law.
+func measuredShare(f *Figures, lo, hi float64) float64 {
+	t := f.Conditions.AmbientK
+	total := BlackbodyFraction(lo*1000, hi*1000, t)
+	if !(total > 0) {
+		return 0
+	}
+	var held float64
+	for _, h := range f.CoolingTerms.HeldBandsUM {
+		if a, b := math.Max(h[0], lo), math.Min(h[1], hi); b > a {
+			held += BlackbodyFraction(a*1000, b*1000, t)
+		}
+	}
+	return math.Max(0, math.Min(1, 1-held/total))
+}
+
+// heldClause says, as the end of a sentence, where the emittance of f is
+// held constant beyond the data and what share of the exchange band's
+// blackbody power that part carries.
+func heldClause(f *Figures) string {
+	ct := f.CoolingTerms
+	if len(ct.HeldBandsUM) == 0 {
+		return ", with the emittance measured over the whole exchange band"
+	}
+	return fmt.Sprintf(", with the emittance held constant over %s (%.1f %% of the exchange band's blackbody power at %g K)",
+		heldBands(ct.HeldBandsUM), 100*float64(ct.HeldShare), f.Conditions.AmbientK)
+}
+
+// heldBands lists held bands in µm: "25–100 µm" or "20–21 and 25–100 µm".
+func heldBands(bs [][2]float64) string {
+	parts := make([]string, len(bs))
+	for i, b := range bs {
+		parts[i] = fmtHundredths(b[0]) + "–" + fmtHundredths(b[1])
+	}
+	s := parts[len(parts)-1]
+	if len(parts) > 1 {
+		s = strings.Join(parts[:len(parts)-1], ", ") + " and " + s
+	}
+	return s + " µm"
+}
+
+// alphaPerIndex is the solar absorptance that one SRI unit stands for:
+// the standard black and white differ by 0.75 in absorptance over their
+// 100 index units (ASTM E1980 definition; the index is close to linear in
+// absorptance).
+const alphaPerIndex = (blackAlpha - whiteAlpha) / 100
+
+// outOfRange returns why claim value x lies outside what a figure of its
+// kind can be, whatever the spectra, or "".
+func outOfRange(x float64, spec figureSpec, fig Figure, c Conditions, v Verdict) string {
+	claim := strconv.FormatFloat(x, 'g', -1, 64)
+	got := v.Format(float64(fig.Value))
+	switch spec.kind {
+	case KindFraction:
+		if math.Abs(x) <= MaxFraction {
+			return ""
+		}
+		if looksLikePercent(x, fig, spec) {
+			return fmt.Sprintf("The claim %s looks like a percentage: the figure is a fraction, and %g %% is %s against the computed %s.",
+				claim, x, FormatValue(x/100, ""), got)
+		}
+		return fmt.Sprintf("The claim %s is out of range for a fraction (at most %g), and the spectra give %s.", claim, MaxFraction, got)
+	case KindIndex:
+		if !(spec.hc > 0) {
+			return ""
+		}
+		// The extremes of the index at this wind: no absorption with full
+		// emission, and full absorption with none (ASTM E1980 balance).
+		top, bottom := SolarReflectanceIndex(0, 1, spec.hc), SolarReflectanceIndex(1, 0, spec.hc)
+		switch {
+		case x > top:
+			return fmt.Sprintf("The claim %s is above the largest SRI any surface reaches at %s wind (%s, for solar absorptance 0 and thermal emittance 1), and the spectra give %s.",
+				claim, windName(spec.hc), v.Format(top), got)
+		case x < bottom:
+			return fmt.Sprintf("The claim %s is below the least SRI any surface reaches at %s wind (%s, for solar absorptance 1 and thermal emittance 0), and the spectra give %s.",
+				claim, windName(spec.hc), v.Format(bottom), got)
+		}
+	case KindPower:
+		// P_net(T_amb) = P_rad − P_atm − P_sun, with 0 ≤ P_rad, P_atm ≤ σT⁴
+		// (Stefan–Boltzmann law) and 0 ≤ P_sun ≤ I.
+		bb := spectra.StefanBoltzmann * math.Pow(c.AmbientK, 4)
+		least := -bb
+		if spec.solar {
+			least -= c.IrradianceWm2
+		}
+		switch {
+		case x > bb:
+			return fmt.Sprintf("The claim %s is more than a blackbody radiates at the air temperature of %g K (σT⁴ = %s), and the spectra give %s.",
+				v.Format(x), c.AmbientK, v.Format(bb), got)
+		case x < least:
+			return fmt.Sprintf("The claim %s is below the least any surface can give (%s, with no emission, a black sky and all the sunlight absorbed), and the spectra give %s.",
+				v.Format(x), v.Format(least), got)
+		}
+	case KindTemperatureDifference:
+		if x >= c.AmbientK {
+			return fmt.Sprintf("The claim %s would put the surface at or below absolute zero, the air being at %g K, and the spectra give %s.",
+				v.Format(x), c.AmbientK, got)
+		}
+	}
+	return ""
+}
+
+// percentNear is how close a claim divided by 100 must come to the computed
+// fraction to be taken for a percentage (common practice, no source).
+const percentNear = 0.05
+
+// looksLikePercent reports whether a claim of a fraction figure is above
+// MaxFraction and, read as a percentage, a fraction near the computed
+// value (or any fraction when none was computed).
+func looksLikePercent(v float64, fig Figure, spec figureSpec) bool {
+	if spec.kind != KindFraction || !(math.Abs(v) > MaxFraction && math.Abs(v) <= 100*MaxFraction) {
+		return false
+	}
+	x := float64(fig.Value)
+	return math.IsNaN(x) || math.Abs(v/100-x) <= percentNear
+}
+
+// pitfalls returns the pitfalls found behind claim c of figure fig, one of
+// the figures f computed from the optics o.
+func pitfalls(c Claim, fig Figure, spec figureSpec, f *Figures, o spectra.Optics, allowed float64) []Pitfall {
+	out := []Pitfall{}
+	add := func(code PitfallCode, format string, a ...any) {
+		out = append(out, Pitfall{Code: code, Text: fmt.Sprintf(format, a...)})
+	}
+	cond := f.Conditions
+	if looksLikePercent(c.Value, fig, spec) {
+		add(PitfallPercent, "The claim %s is above 1 for a fraction: it looks like a percentage (%s).",
+			strconv.FormatFloat(c.Value, 'g', -1, 64), FormatValue(c.Value/100, ""))
+	}
+	if spec.solar {
+		x, from := o.R, cond.SolarBandNM[0]
+		if spec.transmittance {
+			x = o.T
+		}
+		if fig.BandUnit == "nm" {
+			from = fig.Band[0]
+		}
+		if lo, _ := x.Range(); lo > SolarStartNM && lo > from {
+			add(PitfallSolarLateStart, "The solar data start at %s nm, after %g nm: the ultraviolet from %g to %s nm is not measured.",
+				fmtHundredths(lo), SolarStartNM, from, fmtHundredths(lo))
+		}
+	}
+	if spec.thermal || spec.window {
+		band := cond.ThermalBandUM
+		if spec.window {
+			band = cond.WindowBandUM
+		}
+		if _, hi := o.A.Range(); hi < band[1]*1000 {
+			add(PitfallInfraredShort, "The infrared data stop at %s µm, before the top of the %g–%g µm band.",
+				fmtHundredths(hi/1000), band[0], band[1])
+		}
+	}
+	if ct := f.CoolingTerms; spec.cooling && float64(ct.HeldShare) > MaxHeldShare {
+		add(PitfallHeldLarge, "The emittance is held constant beyond the data over %s, which carries %.1f %% of the exchange band's blackbody power at %g K (more than %g %%): the figure rests on that assumption.",
+			heldBands(ct.HeldBandsUM), 100*float64(ct.HeldShare), cond.AmbientK, 100*MaxHeldShare)
+	}
+	cl := o.Closure
+	worst, what := cl.Excess, fmt.Sprintf("R+T exceeds 1 by %s at %s nm", FormatValue(cl.Excess, ""), fmtHundredths(cl.ExcessNM))
+	if cl.Checked && cl.Residual > worst {
+		worst, what = cl.Residual, fmt.Sprintf("|R+T+A−1| reaches %s at %s nm", FormatValue(cl.Residual, ""), fmtHundredths(cl.ResidualNM))
+	}
+	if -cl.Min > worst {
+		worst, what = -cl.Min, fmt.Sprintf("%s is %s at %s nm", cl.MinOf, FormatValue(cl.Min, ""), fmtHundredths(cl.MinNM))
+	}
+	// The allowance as a fraction: as it is for a fraction, through the
+	// absorptance an index unit stands for, else relative to the claim.
+	limit, how := allowed, ""
+	switch {
+	case spec.kind == KindFraction || spec.kind == KindUnknown:
+	case spec.kind == KindIndex:
+		limit = allowed * alphaPerIndex
+		how = fmt.Sprintf(" (±%s index units at %g of absorptance per unit)", KindIndex.Format(allowed, ""), alphaPerIndex)
+	case c.Value != 0:
+		limit = allowed / math.Abs(c.Value)
+		how = " (relative to the claimed value)"
+	}
+	if worst > limit+edge {
+		add(PitfallClosure, "The data break closure by more than the claim's ±%s%s: %s.", FormatValue(limit, ""), how, what)
+	}
+	return out
+}
+
+// measuredAngle returns the measurement's angle of incidence in degrees, or
+// NaN when unknown.
+func measuredAngle(m JudgeInput) float64 {
+	s := m.Angle
+	if s == "" && m.Spectrum != nil {
+		for _, k := range []string{"angle of incidence", "angle"} {
+			if v, ok := m.Spectrum.Get(k); ok {
+				s = v
+				break
+			}
+		}
+	}
+	return parseAngle(s)
+}
+
+var angleRE = regexp.MustCompile(`[0-9]+(\.[0-9]+)?`)
+
+// parseAngle reads the first number in s ("8°", "near-normal, 8 deg").
+func parseAngle(s string) float64 {
+	x, err := strconv.ParseFloat(angleRE.FindString(s), 64)
+	if err != nil || x >= 90 {
+		return math.NaN()
+	}
+	return x
+}
+
+// basisWords describes the basis of a figure of spec s: the conditions it
+// rests on, each marked stated or default, and the angle of incidence
+// when the claim states one. It returns the defaulted keys too.
+func basisWords(s figureSpec, c Conditions, stated map[string]bool, claimAngle, measured float64) (string, []string) {
+	words, defaulted := s.basisOf(c, stated, true)
+	switch {
+	case claimAngle > 0 && math.IsNaN(measured):
+		words += fmt.Sprintf(", angle of incidence %g° (stated; the data's angle is not recorded)", claimAngle)
+	case claimAngle > 0:
+		words += fmt.Sprintf(", angle of incidence %g° (stated; measured at %g°)", claimAngle, measured)
+	}
+	return words, defaulted
+}
+
+// basisShort describes the conditions c that figure d of spec s rests on,
+// without marks.
+func basisShort(s figureSpec, d Figure, c Conditions) string {
+	switch {
+	case s.kind == KindFraction && s.solar:
+		return fmt.Sprintf("%g–%g nm, %s", c.SolarBandNM[0], c.SolarBandNM[1], d.Weighting)
+	case s.thermal && !s.sri, s.window:
+		return fmt.Sprintf("%g–%g µm, %s", d.Band[0], d.Band[1], d.Weighting)
+	}
+	w, _ := s.basisOf(c, nil, false)
+	return w
+}
