@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 )
 
 // Quantity names a column of a spectrum.
@@ -187,7 +188,11 @@ func Merge(parts ...*Spectrum) (*Spectrum, error) {
 			return nil, fmt.Errorf("spectra: %s (%g–%g nm) and %s (%g–%g nm): %w",
 				prev.Source, prev.NM[0], end, g.Source, g.NM[0], g.NM[len(g.NM)-1], ErrOverlap)
 		case g.NM[0] == end:
-			*prev = joinTouching(*prev, g)
+			var note string
+			*prev, note = joinTouching(*prev, g)
+			if note != "" {
+				out.Notes = append(out.Notes, note)
+			}
 		default:
 			out.Segments = append(out.Segments, g)
 		}
@@ -195,10 +200,12 @@ func Merge(parts ...*Spectrum) (*Spectrum, error) {
 	return out, nil
 }
 
-// joinTouching joins b after a, where b's first wavelength equals a's last.
+// joinTouching joins b after a, where b's first wavelength equals a's last,
+// and returns a note when both give a different value there.
 // At the shared wavelength a's value is kept where it has one, b's otherwise.
-func joinTouching(a, b Segment) Segment {
+func joinTouching(a, b Segment) (Segment, string) {
 	n := len(a.NM)
+	var differ []string
 	out := Segment{Source: a.Source + "+" + b.Source}
 	out.NM = append(append([]float64{}, a.NM...), b.NM[1:]...)
 	for q := range out.Values {
@@ -213,12 +220,19 @@ func joinTouching(a, b Segment) Segment {
 			vb = nans(len(b.NM))
 		}
 		v := append(append([]float64{}, va...), vb[1:]...)
-		if math.IsNaN(v[n-1]) {
+		switch {
+		case math.IsNaN(v[n-1]):
 			v[n-1] = vb[0]
+		case !math.IsNaN(vb[0]) && vb[0] != v[n-1]:
+			differ = append(differ, fmt.Sprintf("%s %g (kept) against %g", Quantity(q), v[n-1], vb[0]))
 		}
 		out.Values[q] = v
 	}
-	return out
+	if len(differ) == 0 {
+		return out, ""
+	}
+	return out, fmt.Sprintf("%s and %s both give a value at %s nm, where they meet: %s.",
+		a.Source, b.Source, fmtNM(a.NM[n-1]), strings.Join(differ, "; "))
 }
 
 func nans(n int) []float64 {

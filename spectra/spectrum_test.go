@@ -23,6 +23,9 @@ func TestMerge(t *testing.T) {
 	if v, _ := s.Series(R).At(2500); v != 0.9 {
 		t.Errorf("R at the shared wavelength = %g, want the first file's 0.9", v)
 	}
+	if len(s.Notes) != 1 || !strings.Contains(s.Notes[0], "R 0.9 (kept) against 0.1") {
+		t.Errorf("notes = %q, want the differing values at 2500 nm said", s.Notes)
+	}
 	if tr := s.Series(T); len(tr.Pieces) != 1 || tr.Pieces[0].NM[1] != 2500 {
 		t.Errorf("T should end at 2500 nm: %+v", tr)
 	}
