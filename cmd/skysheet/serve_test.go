@@ -75,8 +75,9 @@ func TestServeRebuildsOnChange(t *testing.T) {
 		return ""
 	}
 	// Write until the watcher, which starts in the background, sees it.
-	stopWriting := make(chan struct{})
+	stopWriting, stopped := make(chan struct{}), make(chan struct{})
 	go func() {
+		defer close(stopped)
 		for {
 			os.WriteFile(md, []byte(edited), 0o644)
 			select {
@@ -88,6 +89,7 @@ func TestServeRebuildsOnChange(t *testing.T) {
 	}()
 	id2 := waitID(id)
 	close(stopWriting)
+	<-stopped // no late write of the good version may follow the broken one below
 	if _, body := get(t, c, ts.URL+"/m/basalt/index.html"); !strings.Contains(body, "revised") {
 		t.Error("page not rebuilt")
 	}
