@@ -103,6 +103,10 @@ const (
 	// constant beyond the data over more than [MaxHeldShare] of the
 	// exchange band's blackbody power.
 	PitfallHeldLarge
+	// PitfallSRITranslucent: an SRI claimed for a sample whose solar
+	// transmittance exceeds 0.01; ASTM E1980 defines the index for opaque
+	// surfaces.
+	PitfallSRITranslucent
 )
 
 var pitfallNames = map[PitfallCode]string{
@@ -111,6 +115,7 @@ var pitfallNames = map[PitfallCode]string{
 	PitfallClosure:        "closure-exceeds-tolerance",
 	PitfallPercent:        "percent-for-fraction",
 	PitfallHeldLarge:      "held-emittance-large",
+	PitfallSRITranslucent: "sri-not-opaque",
 }
 
 // String returns the pitfall's code word, e.g. "percent-for-fraction".

@@ -429,6 +429,10 @@ func pitfalls(c Claim, fig Figure, spec figureSpec, f *Figures, o spectra.Optics
 		add(PitfallHeldLarge, "The emittance is held constant beyond the data over %s, which carries %.1f %% of the exchange band's blackbody power at %g K (more than %g %%): the figure rests on that assumption.",
 			heldBands(ct.HeldBandsUM), 100*float64(ct.HeldShare), cond.AmbientK, 100*MaxHeldShare)
 	}
+	if spec.sri && f.SRI.Translucent {
+		add(PitfallSRITranslucent, "The sample transmits %s of sunlight (above 0.01): the SRI of ASTM E1980 is defined for opaque surfaces.",
+			FormatValue(float64(f.SolarTransmittance), ""))
+	}
 	cl := o.Closure
 	worst, what := cl.Excess, fmt.Sprintf("R+T exceeds 1 by %s at %s nm", FormatValue(cl.Excess, ""), fmtHundredths(cl.ExcessNM))
 	if cl.Checked && cl.Residual > worst {

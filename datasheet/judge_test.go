@@ -466,3 +466,30 @@ func BenchmarkJudgeAll(b *testing.B) {
 		})
 	}
 }
+
+// TestSRITranslucentPitfall: ASTM E1980 defines the SRI for opaque surfaces;
+// a sample with constant T = 0.30 over the solar band has solar
+// transmittance 0.30 (closed form: the weighted mean of a constant), so an
+// SRI claim on it must name the pitfall, and an opaque one must not.
+func TestSRITranslucentPitfall(t *testing.T) {
+	for _, tt := range []struct {
+		name, in string
+		want     bool
+	}{
+		{"translucent", "wavelength_nm,R,T\n250,0.5,0.3\n2500,0.5,0.3\n\n2600,0.05,0\n30000,0.05,0\n", true},
+		{"opaque", "wavelength_nm,R,T\n250,0.5,0\n2500,0.5,0\n\n2600,0.05,0\n30000,0.05,0\n", false},
+	} {
+		s, err := spectra.Parse(strings.NewReader(tt.in), "x.csv")
+		if err != nil {
+			t.Fatal(err)
+		}
+		v := Judge(Claim{Figure: "sri_medium", Value: 50}, JudgeInput{Spectrum: s, Conditions: DefaultConditions()})
+		got := false
+		for _, p := range v.Pitfalls {
+			got = got || p.Code == PitfallSRITranslucent
+		}
+		if got != tt.want {
+			t.Errorf("%s: pitfall %v, want %v (pitfalls %+v)", tt.name, got, tt.want, v.Pitfalls)
+		}
+	}
+}
