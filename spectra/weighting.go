@@ -228,11 +228,6 @@ func BandMean(x Series, w Weighting, lo, hi float64) Mean {
 	return m
 }
 
-// Integral returns ∫ x w dλ over the covered part of [lo, hi]; see BandMean.
-func Integral(x Series, w Weighting, lo, hi float64) float64 {
-	return BandMean(x, w, lo, hi).WX
-}
-
 // integrateWeight returns ∫ w dλ over [lo, hi] by the trapezoid rule on w's
 // knots and the limits.
 func integrateWeight(w Weighting, lo, hi float64) float64 {
