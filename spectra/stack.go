@@ -65,11 +65,11 @@ func Stack(layers []Optics) (StackOptics, error) {
 	var work stackWork
 	for _, sp := range common {
 		grid := []float64{sp.Lo, sp.Hi}
-		src := make([][2]Piece, n) // per layer: the R and T pieces holding sp
+		src := make([][2]walker, n) // per layer: the R and T pieces holding sp
 		for i, l := range layers {
-			src[i] = [2]Piece{pieceOver(l.R, sp), pieceOver(l.T, sp)}
-			for _, p := range src[i] {
-				grid = append(grid, inside(p.NM, sp)...)
+			src[i] = [2]walker{{p: pieceOver(l.R, sp)}, {p: pieceOver(l.T, sp)}}
+			for _, w := range src[i] {
+				grid = append(grid, inside(w.p.NM, sp)...)
 			}
 		}
 		grid = sortedUnique(grid)
@@ -249,6 +249,26 @@ func pieceOver(s Series, sp Interval) Piece {
 		}
 	}
 	panic("spectra: stack: no piece covers a common range")
+}
+
+// walker interpolates a piece at increasing wavelengths, keeping its place.
+type walker struct {
+	p Piece
+	j int // p.NM[j] is the last point at or below the previous wavelength
+}
+
+// at returns the piece's value at nm, which must lie in the piece and not
+// below the previous call's.
+func (w *walker) at(nm float64) float64 {
+	x := w.p.NM
+	for w.j < len(x)-1 && x[w.j+1] <= nm {
+		w.j++
+	}
+	if x[w.j] == nm || w.j == len(x)-1 {
+		return w.p.V[w.j]
+	}
+	f := (nm - x[w.j]) / (x[w.j+1] - x[w.j])
+	return w.p.V[w.j] + f*(w.p.V[w.j+1]-w.p.V[w.j])
 }
 
 // inside returns the points of the sorted nm strictly inside sp.
