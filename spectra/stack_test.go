@@ -422,3 +422,50 @@ func TestStackClipAndClosure(t *testing.T) {
 		t.Errorf("closure problems %q: want layer 2's, prefixed", s.Closure.Problems)
 	}
 }
+
+// FuzzStack stacks layers built from arbitrary bytes (values a little
+// outside 0..1 included, as measurements give) and checks that energy is
+// conserved and every fraction stays in 0..1 wherever the stack has data.
+func FuzzStack(f *testing.F) {
+	f.Add([]byte{3, 10, 200, 40, 90, 250, 0, 255, 128, 64, 32, 16})
+	f.Add([]byte{1, 255, 0, 255, 0})
+	f.Fuzz(func(t *testing.T, in []byte) {
+		if len(in) < 5 {
+			return
+		}
+		n := 1 + int(in[0])%4
+		in = in[1:]
+		var layers []Optics
+		for i := 0; i < n && len(in) >= 4; i++ {
+			lo := 300 + float64(in[0])
+			hi := lo + 1 + float64(in[1])*10
+			v := func(b byte) float64 { return -0.1 + 1.2*float64(b)/255 }
+			layers = append(layers, layerOf([]float64{lo, (lo + hi) / 2, hi},
+				[]float64{v(in[2]), v(in[3]), v(in[2] ^ in[3])}, []float64{v(in[3]), v(in[2]), v(in[2] + in[3])}))
+			in = in[4:]
+		}
+		s, err := Stack(layers)
+		if err != nil {
+			if !errors.Is(err, ErrNoCommonRange) && !errors.Is(err, ErrNoData) {
+				t.Fatalf("unexpected error %v", err)
+			}
+			return
+		}
+		for i, p := range s.R.Pieces {
+			for j, r := range p.V {
+				tr, a := s.T.Pieces[i].V[j], s.A.Pieces[i].V[j]
+				sum := r + tr
+				for _, ab := range s.Absorbed {
+					x := ab.Pieces[i].V[j]
+					if x < -1e-12 || x > 1+1e-12 {
+						t.Fatalf("at %g nm a layer absorbs %g", p.NM[j], x)
+					}
+					sum += x
+				}
+				if math.Abs(sum-1) > 1e-12 || r < -1e-12 || r > 1+1e-12 || tr < -1e-12 || tr > 1+1e-12 || a < -1e-12 {
+					t.Fatalf("at %g nm: R %g, T %g, A %g, R+T+ΣA %.17g", p.NM[j], r, tr, a, sum)
+				}
+			}
+		}
+	})
+}
