@@ -92,7 +92,9 @@ func (t *table) Knots(lo, hi float64) []float64 {
 	if i >= j {
 		return nil
 	}
-	return t.nm[i:j]
+	// Full slice expression: a caller that appends must not write into
+	// the table.
+	return t.nm[i:j:j]
 }
 
 func (t *table) String() string { return t.name }

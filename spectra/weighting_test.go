@@ -194,3 +194,15 @@ func TestBandMeanCoefficients(t *testing.T) {
 		t.Errorf("coverage %g: want the 280–300 and 1200–1300 nm gaps to lower it a little", m.Coverage)
 	}
 }
+
+// TestKnotsAppendSafe checks that appending to the knots of a table does
+// not overwrite the table itself.
+func TestKnotsAppendSafe(t *testing.T) {
+	w := SolarGlobal()
+	before := w.At(400.5)
+	k := w.Knots(300, 400)
+	_ = append(k, -1, -1, -1)
+	if got := w.At(400.5); got != before {
+		t.Fatalf("G173 at 400.5 nm changed from %g to %g after appending to Knots", before, got)
+	}
+}
