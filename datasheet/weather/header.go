@@ -6,13 +6,20 @@ import (
 )
 
 // unit is one accepted unit of a quantity: a value v read in it is
-// v*scale + offset in the quantity's internal unit.
+// v*mul/div + offset in the quantity's internal unit. (Dividing by 100 rather
+// than multiplying by 0.01 keeps 57 % at exactly 0.57.)
 type unit struct {
 	name      string   // canonical spelling, as Column.Unit reports it
 	spellings []string // accepted spellings after normUnit
-	scale     float64
+	mul, div  float64
 	offset    float64
 }
+
+// internal converts v read in u to the internal unit.
+func (u unit) internal(v float64) float64 { return v*u.mul/u.div + u.offset }
+
+// external converts v in the internal unit to u.
+func (u unit) external(v float64) float64 { return (v - u.offset) * u.div / u.mul }
 
 // quantityDef describes how a quantity is written and checked.
 type quantityDef struct {
@@ -25,8 +32,8 @@ type quantityDef struct {
 }
 
 var (
-	celsius = unit{"°C", []string{"°c", "℃", "degc", "deg c", "celsius"}, 1, 0}
-	kelvin  = unit{"K", []string{"k", "kelvin"}, 1, -273.15}
+	celsius = unit{"°C", []string{"°c", "℃", "degc", "deg c", "celsius"}, 1, 1, 0}
+	kelvin  = unit{"K", []string{"k", "kelvin"}, 1, 1, -273.15}
 )
 
 // quantityInfo is indexed by Quantity.
@@ -37,19 +44,19 @@ var quantityInfo = [numQuantities]quantityDef{
 	DewPoint: {name: "dew point", aliases: []string{"dew point temperature"},
 		units: []unit{celsius, kelvin}, lo: -100, hi: 60},
 	GlobalHorizontal: {name: "global horizontal irradiance", aliases: []string{"ghi"},
-		units: []unit{{"W/m²", []string{"w/m2", "w m-2", "wm-2"}, 1, 0}}, lo: 0, hi: 1500},
+		units: []unit{{"W/m²", []string{"w/m2", "w m-2", "wm-2"}, 1, 1, 0}}, lo: 0, hi: 1500},
 	WindSpeed: {name: "wind speed", units: []unit{
-		{"m/s", []string{"m/s", "m s-1", "ms-1"}, 1, 0},
-		{"km/h", []string{"km/h", "km h-1", "kmh-1"}, 1 / 3.6, 0},
+		{"m/s", []string{"m/s", "m s-1", "ms-1"}, 1, 1, 0},
+		{"km/h", []string{"km/h", "km h-1", "kmh-1"}, 1, 3.6, 0},
 	}, lo: 0, hi: 100},
 	CloudFraction: {name: "cloud fraction", unitless: true, units: []unit{
-		{"", []string{"1", "0-1", "0..1", "fraction"}, 1, 0},
-		{"%", []string{"%", "percent"}, 0.01, 0},
+		{"", []string{"1", "0-1", "0..1", "fraction"}, 1, 1, 0},
+		{"%", []string{"%", "percent"}, 1, 100, 0},
 	}, lo: 0, hi: 1},
 	StationPressure: {name: "station pressure", units: []unit{
-		{"hPa", []string{"hpa", "mbar", "mb"}, 1, 0},
-		{"kPa", []string{"kpa"}, 10, 0},
-		{"Pa", []string{"pa"}, 0.01, 0},
+		{"hPa", []string{"hpa", "mbar", "mb"}, 1, 1, 0},
+		{"kPa", []string{"kpa"}, 10, 1, 0},
+		{"Pa", []string{"pa"}, 1, 100, 0},
 	}, lo: 300, hi: 1100},
 }
 

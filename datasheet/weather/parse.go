@@ -61,11 +61,11 @@ func Read(fsys fs.FS, name string) (*Series, error) {
 // naming the line and, where one is at fault, the column.
 func Parse(r io.Reader, name string) (*Series, error) {
 	data, err := readLimited(r)
+	if err == nil && int64(len(data)) > maxSize {
+		err = errTooLarge
+	}
 	if err != nil {
 		return nil, &spectra.ParseError{File: name, Err: err}
-	}
-	if len(data) > MaxSize {
-		return nil, &spectra.ParseError{File: name, Err: fmt.Errorf("the file %w", ErrTooLarge)}
 	}
 	sum := sha256.Sum256(data)
 	p := parser{file: name, data: data, s: &Series{Input: spectra.Input{Name: name, SHA256: hex.EncodeToString(sum[:])}}}
@@ -75,26 +75,34 @@ func Parse(r io.Reader, name string) (*Series, error) {
 	return p.s, nil
 }
 
-// readLimited reads r to its end or to MaxSize+1 bytes, in one allocation
-// when r tells its length.
+// readLimited reads r to its end or to maxSize+1 bytes; in one allocation
+// when r tells its length, and not at all when that length is over maxSize.
 func readLimited(r io.Reader) ([]byte, error) {
-	size := -1
+	size := int64(-1)
 	switch v := r.(type) {
 	case interface{ Len() int }:
-		size = v.Len()
+		size = int64(v.Len())
 	case fs.File:
 		if st, err := v.Stat(); err == nil && st.Mode().IsRegular() {
-			size = int(min(st.Size(), MaxSize+1))
+			size = st.Size()
 		}
 	}
-	if size < 0 || size > MaxSize {
-		return io.ReadAll(io.LimitReader(r, MaxSize+1))
+	if size > maxSize {
+		return nil, errTooLarge
+	}
+	if size < 0 {
+		return io.ReadAll(io.LimitReader(r, maxSize+1))
 	}
 	var buf bytes.Buffer
-	buf.Grow(size + bytes.MinRead)
-	_, err := buf.ReadFrom(io.LimitReader(r, MaxSize+1))
+	buf.Grow(int(size) + bytes.MinRead)
+	_, err := buf.ReadFrom(io.LimitReader(r, maxSize+1))
 	return buf.Bytes(), err
 }
+
+// maxSize is MaxSize; tests lower it.
+var maxSize int64 = MaxSize
+
+var errTooLarge = fmt.Errorf("the file %w", ErrTooLarge)
 
 // parser reads one file in three steps: the preamble (comments, metadata
 // and blank lines, read line by line), the header (the first other line,
@@ -355,7 +363,7 @@ func (p *parser) row(rec []string) error {
 			return err
 		}
 		d := &quantityInfo[c.q]
-		v = v*c.unit.scale + c.unit.offset
+		v = c.unit.internal(v)
 		if v < d.lo || v > d.hi {
 			return p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w: want %s%s", cut(s), ErrOutOfRange, rangeIn(d, c.unit), hint(c, v)))
 		}
@@ -539,7 +547,7 @@ func isDecimal(s string) bool {
 
 // rangeIn writes a quantity's accepted range in the unit u of its column.
 func rangeIn(d *quantityDef, u unit) string {
-	lo, hi := (d.lo-u.offset)/u.scale, (d.hi-u.offset)/u.scale
+	lo, hi := u.external(d.lo), u.external(d.hi)
 	unit := u.name
 	switch unit {
 	case "":
@@ -553,7 +561,7 @@ func rangeIn(d *quantityDef, u unit) string {
 
 // hint guesses a wrong unit from a value v (internal unit) out of range.
 func hint(c *cell, v float64) string {
-	raw := (v - c.unit.offset) / c.unit.scale
+	raw := c.unit.external(v)
 	switch {
 	case c.q == GlobalHorizontal && v < 0:
 		return " (a pyranometer's night-time offset? write 0)"
