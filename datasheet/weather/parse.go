@@ -129,7 +129,7 @@ func (p *parser) errAt(line, i int, err error) error {
 	if i >= 0 {
 		pe.Column = i + 1
 		if i < len(p.cells) {
-			pe.Name = p.cells[i].col.Header
+			pe.Name = cut(p.cells[i].col.Header)
 		}
 	}
 	return pe
@@ -186,7 +186,10 @@ func (p *parser) run() error {
 		return err
 	}
 	p.csv.ReuseRecord = true
-	p.s.Hours = make([]Hour, 0, bytes.Count(data[pos:], []byte("\n")))
+	// Room for the rows: one per line, a row being at least 24 bytes
+	// ("2026-07-01T13:00Z,0,0,0" and its line end); at most eleven years
+	// ahead, so that a file of blank lines allocates nothing large.
+	p.s.Hours = make([]Hour, 0, min(bytes.Count(data[pos:], []byte("\n"))+1, (len(data)-pos)/24+1, 100_000))
 	p.lines = make([]int, 0, cap(p.s.Hours))
 	p.zones = map[int]*time.Location{}
 	for {
