@@ -16,7 +16,12 @@ type unit struct {
 }
 
 // internal converts v read in u to the internal unit.
-func (u unit) internal(v float64) float64 { return v*u.mul/u.div + u.offset }
+func (u unit) internal(v float64) float64 {
+	if u.mul == 1 && u.div == 1 {
+		return v + u.offset
+	}
+	return v*u.mul/u.div + u.offset
+}
 
 // external converts v in the internal unit to u.
 func (u unit) external(v float64) float64 { return (v - u.offset) * u.div / u.mul }
