@@ -46,3 +46,30 @@ func TestBadDataMessage(t *testing.T) {
 		t.Errorf("stderr %q lacks %q", errs, want)
 	}
 }
+
+// TestHelpListsVerbs checks that "skysheet help" lists exactly the verbs,
+// and that the verbs they replaced are unknown.
+func TestHelpListsVerbs(t *testing.T) {
+	code, out, _ := runCLI("help")
+	if code != 0 {
+		t.Fatalf("exit %d", code)
+	}
+	_, list, ok := strings.Cut(out, "Verbs:\n")
+	if !ok {
+		t.Fatalf("no verb list in\n%s", out)
+	}
+	list, _, _ = strings.Cut(list, "\n\n")
+	var got []string
+	for line := range strings.Lines(list) {
+		got = append(got, strings.Fields(line)[0])
+	}
+	want := []string{"figures", "import", "init", "preview", "render", "review", "splice", "version"}
+	if strings.Join(got, " ") != strings.Join(want, " ") {
+		t.Errorf("help lists %v, want %v", got, want)
+	}
+	for _, old := range []string{"build", "serve", "check", "new"} {
+		if code, _, errs := runCLI(old); code != 2 || !strings.Contains(errs, "unknown verb") {
+			t.Errorf("%s: exit %d, %q; want an unknown verb", old, code, errs)
+		}
+	}
+}

@@ -10,7 +10,7 @@ import (
 	"skysheet/datasheet/library"
 )
 
-// judge gives the verdicts on a material's claims. Build calls it once per
+// judge gives the verdicts on a material's claims. Render calls it once per
 // material, from the worker that renders the material's page; the review
 // page and catalog.json reuse the result. A variable so that tests can
 // count the calls.
