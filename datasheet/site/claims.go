@@ -133,7 +133,7 @@ func plural(n int, one, many string) string {
 }
 
 // claimsFile is the JSON of m/SLUG/claims.json: the verdict on every
-// claim of a material, as "skysheet check --format json" gives them, with
+// claim of a material, as "skysheet review --format json" gives them, with
 // the files they rest on.
 type claimsFile struct {
 	Schema    int                     `json:"schema"`

@@ -210,7 +210,7 @@ func TestClaimsDownloads(t *testing.T) {
 	want := panel.Verdicts()
 	out := renderTest(t, lib, Options{})
 
-	// claims.json: the verdicts as "skysheet check --format json" has them.
+	// claims.json: the verdicts as "skysheet review --format json" has them.
 	var cf struct {
 		Schema   int                     `json:"schema"`
 		Slug     string                  `json:"slug"`
