@@ -27,7 +27,7 @@ import (
 // chromiumPath is where Debian's chromium package installs the browser.
 const chromiumPath = "/usr/bin/chromium"
 
-// TestBrowser builds the demo library (the repository root) in-process,
+// TestBrowser renders the demo library (the repository root) in-process,
 // serves it on 127.0.0.1 and drives headless Chromium through it: the index
 // loads without console errors, the table sorts and filters, a datasheet
 // shows its charts and figure table, every internal link resolves, and each
@@ -41,8 +41,8 @@ func TestBrowser(t *testing.T) {
 		t.Skipf("%s not found: browser test skipped (apt-get install chromium to run it)", chromiumPath)
 	}
 	out := t.TempDir()
-	if code, stdout, stderr := runCLI("build", "-o", out, "../.."); code != 0 {
-		t.Fatalf("skysheet build of the demo library exited %d\nstdout:\n%s\nstderr:\n%s", code, stdout, stderr)
+	if code, stdout, stderr := runCLI("render", "--site", out, "../.."); code != 0 {
+		t.Fatalf("skysheet render of the demo library exited %d\nstdout:\n%s\nstderr:\n%s", code, stdout, stderr)
 	}
 	srv := httptest.NewServer(http.FileServer(http.Dir(out)))
 	defer srv.Close()
@@ -472,6 +472,15 @@ func testLinks(t *testing.T, srv *httptest.Server) {
 	}
 	if checked < 20 {
 		t.Errorf("only %d internal links found from the index; the crawl is not reaching the site", checked)
+	}
+	for _, dir := range []string{"materials/by-category/", "materials/by-tag/"} {
+		found := false
+		for p := range seen {
+			found = found || strings.HasPrefix(p, base.Path+dir)
+		}
+		if !found {
+			t.Errorf("no page under %s was reached from the index", dir)
+		}
 	}
 	t.Logf("checked %d internal links on %d pages and stylesheets", checked, len(seen))
 }

@@ -58,7 +58,7 @@ func conditionFlags(fs *flag.FlagSet, c *datasheet.Conditions) {
 	fs.Float64Var(&c.AmbientK, "ambient", c.AmbientK, "air temperature for cooling, K")
 	fs.Float64Var(&c.DewPointC, "dew-point", c.DewPointC, "dew point of the clear sky, °C")
 	fs.Float64Var(&c.IrradianceWm2, "irradiance", c.IrradianceWm2, "solar irradiance for cooling with sun, W/m²")
-	fs.Float64Var(&c.HWm2K, "h", c.HWm2K, "non-radiative heat-transfer coefficient, W m⁻² K⁻¹ (a number; -h alone shows this help)")
+	fs.Float64Var(&c.HWm2K, "h-conv", c.HWm2K, "non-radiative (convective and conductive) heat-transfer coefficient, W m⁻² K⁻¹")
 	fs.Var(bandFlag{&c.ExchangeBandUM}, "exchange-band", "thermal exchange band of the cooling integrals in µm, LO,HI")
 	fs.StringVar(&c.Sky, "sky", c.Sky, "spectral sky file with a T column (zenith atmospheric transmittance); default: the clear two-band sky")
 }

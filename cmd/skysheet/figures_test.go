@@ -45,15 +45,15 @@ func TestFiguresExitCodes(t *testing.T) {
 	}{
 		{"table", figuresArgs(), 0, "Solar Reflectance Index"},
 		{"json", figuresArgs("--json"), 0, `"cooling_power_w_m2"`},
-		{"conditions", figuresArgs("--ambient", "305", "--dew-point", "5", "--irradiance", "800", "--h", "3", "--exchange-band", "3,50"), 0, "air 305 K"},
-		{"h with equals", figuresArgs("--h=2.5"), 0, "h 2.5 W"},
+		{"conditions", figuresArgs("--ambient", "305", "--dew-point", "5", "--irradiance", "800", "--h-conv", "3", "--exchange-band", "3,50"), 0, "air 305 K"},
+		{"h with equals", figuresArgs("--h-conv=2.5"), 0, "h 2.5 W"},
 		{"spectral sky", figuresArgs("--sky", sky), 0, "Spectral sky from"},
 		{"help", []string{"figures", "-h"}, 0, "-dew-point"},
 		{"help before files", figuresArgs("-h"), 0, "-exchange-band"},
 		{"help verb", []string{"help", "figures"}, 0, "-irradiance"},
 		{"no files", []string{"figures"}, 2, "no spectrum files"},
-		{"negative h", figuresArgs("--h", "-1"), 2, "heat-transfer coefficient"},
-		{"h not a number", figuresArgs("--h=abc"), 2, "invalid value"},
+		{"negative h", figuresArgs("--h-conv", "-1"), 2, "heat-transfer coefficient"},
+		{"h not a number", figuresArgs("--h-conv=abc"), 2, "invalid value"},
 		{"dew point above air", figuresArgs("--dew-point", "40"), 2, "dew point"},
 		{"ambient in celsius", figuresArgs("--ambient", "25"), 2, "kelvin"},
 		{"reversed band", figuresArgs("--exchange-band", "100,2.5"), 2, "LO < HI"},
@@ -77,7 +77,7 @@ func TestFiguresExitCodes(t *testing.T) {
 }
 
 func TestFiguresJSONKeys(t *testing.T) {
-	code, out, errs := runCLI(figuresArgs("--json", "--ambient", "302", "--dew-point", "-5", "--irradiance", "900", "--h", "4")...)
+	code, out, errs := runCLI(figuresArgs("--json", "--ambient", "302", "--dew-point", "-5", "--irradiance", "900", "--h-conv", "4")...)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}

@@ -15,7 +15,6 @@ import (
 	"io"
 	"os"
 	"sort"
-	"strconv"
 )
 
 // command is one verb of the CLI. Each verb lives in its own file and
@@ -80,11 +79,15 @@ func run(e *env, args []string) int {
 	}
 	err := c.run(e, args[1:])
 	var ue *usageError
+	var fe *flagError
 	switch {
 	case err == nil:
 		return 0
 	case errors.Is(err, flag.ErrHelp):
 		return 0
+	case errors.As(err, &fe):
+		fmt.Fprintf(e.stderr, "skysheet %s: %v (see skysheet %s -h)\n", c.name, fe.err, c.name)
+		return 2
 	case errors.As(err, &ue):
 		fmt.Fprintf(e.stderr, "skysheet %s: %v\nusage: skysheet %s [flags] %s (see -h)\n", c.name, err, c.name, c.args)
 		return 2
@@ -125,38 +128,29 @@ func newFlags(e *env, c *command) *flag.FlagSet {
 	return fs
 }
 
-// parseFlags parses args, turning flag errors into usage errors. Flags may
-// come before or after the positional arguments.
-//
-// When the verb has a flag named "h" (the heat-transfer coefficient), "-h"
-// or "--h" not followed by a number still asks for help.
+// flagError is a bad flag: exit status 2, reported on one line that names
+// the flag and points to the verb's -h.
+type flagError struct{ err error }
+
+func (e *flagError) Error() string { return e.err.Error() }
+
+// parseFlags parses args, turning flag errors into [flagError]s. Flags may
+// come before or after the positional arguments. -h prints the verb's usage
+// once and returns [flag.ErrHelp].
 func parseFlags(fs *flag.FlagSet, args []string) ([]string, error) {
-	if fs.Lookup("h") != nil {
-		for i, a := range args {
-			if a == "--" {
-				break
-			}
-			if a != "-h" && a != "--h" {
-				continue
-			}
-			if i+1 == len(args) {
-				fs.Usage()
-				return nil, flag.ErrHelp
-			}
-			if _, err := strconv.ParseFloat(args[i+1], 64); err != nil {
-				fs.Usage()
-				return nil, flag.ErrHelp
-			}
-		}
-	}
+	// The flag package calls Usage itself on every error; the usage is
+	// printed here instead, for -h only.
+	usage := fs.Usage
+	fs.Usage = func() {}
+	defer func() { fs.Usage = usage }()
 	var pos []string
 	for {
 		if err := fs.Parse(args); err != nil {
 			if errors.Is(err, flag.ErrHelp) {
-				fs.Usage()
+				usage()
 				return nil, err
 			}
-			return nil, usagef("%v", err)
+			return nil, &flagError{err}
 		}
 		args = fs.Args()
 		if len(args) == 0 {

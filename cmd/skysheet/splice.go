@@ -50,7 +50,7 @@ func (f methodFlag) Set(s string) error {
 // --reference.
 func sampleFlags(fs *flag.FlagSet, prefix string, o *sampleOptions) {
 	o.splice.Tolerance = spectra.DefaultSpliceTol
-	fs.Var(methodFlag{&o.splice.Method}, prefix+"method", "splice method where two files overlap: offset, scale or none (default offset)")
+	fs.Var(methodFlag{&o.splice.Method}, prefix+"method", "splice method where two files overlap: offset, scale or none")
 	fs.StringVar(&o.splice.Adjust, prefix+"adjust", "", "file whose data the splice adjusts (default: the one reaching longer wavelengths)")
 	fs.Float64Var(&o.splice.JunctionNM, prefix+"junction", 0, "splice junction in nm (default: the middle of the overlap)")
 	fs.Float64Var(&o.splice.Tolerance, prefix+"tol", o.splice.Tolerance, "flag a splice whose mean mismatch before correction exceeds this")

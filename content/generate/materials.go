@@ -25,7 +25,7 @@ description: >-
   An invented laboratory's library of surfaces for passive radiative cooling: paints, a porous
   polymer coating, a silvered film, a fabric, a selective emitter, glazing and a tile. All makers,
   products and spectra are invented; the spectra are synthetic data, not measurements.
-base_url: https://library.quillmere.example/
+site_address: https://library.quillmere.example/
 lab: Quillmere Cool Surfaces Laboratory (invented)
 conditions:
   solar_band_nm: [280, 2500]

@@ -19,7 +19,7 @@ const ConfigFile = "skysheet.yaml"
 // Config is the site configuration read from skysheet.yaml.
 type Config struct {
 	Title       string // site title; "Material library" when not given
-	BaseURL     string // absolute URL the site is published at, ending in "/"; may be empty
+	SiteAddress string // absolute URL the site is published at, ending in "/"; may be empty
 	Description string
 	AllowHTML   bool // let raw HTML in Markdown bodies through (off by default)
 	Lab         string
@@ -38,7 +38,7 @@ type Config struct {
 // configFile is the YAML form of skysheet.yaml.
 type configFile struct {
 	Title       string    `yaml:"title"`
-	BaseURL     string    `yaml:"base_url"`
+	SiteAddress string    `yaml:"site_address"`
 	Description string    `yaml:"description"`
 	AllowHTML   bool      `yaml:"allow_html"`
 	Conditions  Overrides `yaml:"conditions"`
@@ -165,12 +165,12 @@ func parseConfig(fsys fs.FS, src []byte) (Config, error) {
 	}
 	cfg.Description, cfg.AllowHTML = strings.TrimSpace(f.Description), f.AllowHTML
 	cfg.Lab, cfg.Publisher = strings.TrimSpace(f.Lab), strings.TrimSpace(f.Publisher)
-	if b := strings.TrimSpace(f.BaseURL); b != "" {
+	if b := strings.TrimSpace(f.SiteAddress); b != "" {
 		u, err := url.Parse(b)
 		if err != nil || (u.Scheme != "http" && u.Scheme != "https") || u.Host == "" {
-			errs = append(errs, d.at(valueNode(root, "base_url"), ErrType, "base_url %q: want an absolute http or https URL", b))
+			errs = append(errs, d.at(valueNode(root, "site_address"), ErrType, "site_address %q: want an absolute http or https URL", b))
 		} else {
-			cfg.BaseURL = strings.TrimSuffix(u.String(), "/") + "/"
+			cfg.SiteAddress = strings.TrimSuffix(u.String(), "/") + "/"
 		}
 	}
 	cfg.Overrides = f.Conditions

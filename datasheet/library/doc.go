@@ -6,7 +6,7 @@
 //
 // # Layout
 //
-//	skysheet.yaml          site config: title, base_url, description, allow_html, conditions, lab, publisher
+//	skysheet.yaml          site config: title, site_address, description, allow_html, conditions, lab, publisher
 //	content/**/*.md        one material (or comparison page) per file: front matter, then Markdown
 //	content/**/<spectra>   spectra files named in the front matter, relative to the .md file
 //	templates/*.html       optional template overrides (read by the site package, not here)

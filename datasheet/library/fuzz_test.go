@@ -14,7 +14,7 @@ func FuzzLoad(f *testing.F) {
 	f.Add([]byte(goodMaterial), []byte("title: x\n"))
 	f.Add([]byte("---\ntitle: c\ncompare: [flat]\n---\n"), []byte("conditions: {temperature_k: 280}\n"))
 	f.Add([]byte("---\ntitle: [\n---\n"), []byte("- a\n"))
-	f.Add([]byte("---\n&a x: *a\n---\n"), []byte("base_url: http://x/\n"))
+	f.Add([]byte("---\n&a x: *a\n---\n"), []byte("site_address: http://x/\n"))
 	f.Fuzz(func(t *testing.T, md, config []byte) {
 		fsys := baseFS()
 		fsys["content/z.md"] = &fstest.MapFile{Data: md}

@@ -244,7 +244,7 @@ func TestStrictConfig(t *testing.T) {
 	}{
 		{"unknown key", "title: x\ntitel: y\n", []errAt{{ErrUnknownKey, "skysheet.yaml", 2, `did you mean "title"?`}}},
 		{"unknown condition", "conditions:\n  solar_band: [280, 2500]\n", []errAt{{ErrUnknownKey, "skysheet.yaml", 2, `did you mean "solar_band_nm"?`}}},
-		{"bad url", "base_url: example/site\n", []errAt{{ErrType, "skysheet.yaml", 1, "absolute http"}}},
+		{"bad url", "site_address: example/site\n", []errAt{{ErrType, "skysheet.yaml", 1, "absolute http"}}},
 		{"bad spectrum", "conditions: {solar_spectrum: noon}\n", []errAt{{ErrConditions, "skysheet.yaml", 1, "noon"}}},
 		{"not a mapping", "- a\n- b\n", []errAt{{ErrType, "skysheet.yaml", 1, "want a mapping"}}},
 		{"allow_html not bool", "allow_html: perhaps\n", []errAt{{ErrType, "skysheet.yaml", 1, ""}}},
@@ -263,13 +263,13 @@ func TestStrictConfig(t *testing.T) {
 
 func TestConfigDefaults(t *testing.T) {
 	fsys := baseFS()
-	fsys["skysheet.yaml"] = &fstest.MapFile{Data: []byte("base_url: https://example.org/lib\nallow_html: true\n")}
+	fsys["skysheet.yaml"] = &fstest.MapFile{Data: []byte("site_address: https://example.org/lib\nallow_html: true\n")}
 	lib, err := Load(fsys)
 	if err != nil {
 		t.Fatal(err)
 	}
 	c := lib.Config
-	if c.Title != "Material library" || c.BaseURL != "https://example.org/lib/" || !c.AllowHTML || c.Conditions.TemperatureK != 300 {
+	if c.Title != "Material library" || c.SiteAddress != "https://example.org/lib/" || !c.AllowHTML || c.Conditions.TemperatureK != 300 {
 		t.Errorf("%+v", c)
 	}
 }

@@ -10,7 +10,7 @@ import (
 	"skysheet/datasheet/library"
 )
 
-// judge gives the verdicts on a material's claims. Build calls it once per
+// judge gives the verdicts on a material's claims. Render calls it once per
 // material, from the worker that renders the material's page; the review
 // page and catalog.json reuse the result. A variable so that tests can
 // count the calls.
@@ -133,7 +133,7 @@ func plural(n int, one, many string) string {
 }
 
 // claimsFile is the JSON of m/SLUG/claims.json: the verdict on every
-// claim of a material, as "skysheet check --format json" gives them, with
+// claim of a material, as "skysheet review --format json" gives them, with
 // the files they rest on.
 type claimsFile struct {
 	Schema    int                     `json:"schema"`

@@ -76,7 +76,7 @@ func escaped(t testing.TB, s string) string {
 func TestDatasheetShowsVerdicts(t *testing.T) {
 	lib := claimsLibrary(t, panelClaims, otherClaims)
 	panel, _ := lib.Material("panel")
-	out := buildTest(t, lib, Options{})
+	out := renderTest(t, lib, Options{})
 	page := string(out["m/panel/index.html"])
 
 	vs := panel.Verdicts()
@@ -133,7 +133,7 @@ func TestDatasheetShowsVerdicts(t *testing.T) {
 	// Without claims there is no claims section and no claims.json link.
 	lib.Materials[0].Front.Claims = nil
 	lib.Materials[1].Front.Claims = nil
-	out = buildTest(t, lib, Options{})
+	out = renderTest(t, lib, Options{})
 	if p := string(out["m/panel/index.html"]); strings.Contains(p, `id="claims"`) || strings.Contains(p, "claims.json") {
 		t.Errorf("claims section without claims")
 	}
@@ -157,7 +157,7 @@ var reviewRowRE = regexp.MustCompile(`(?s)<tr class="claim ([a-z-]+)"><td><a hre
 
 func TestReviewPage(t *testing.T) {
 	lib := claimsLibrary(t, panelClaims, otherClaims)
-	out := buildTest(t, lib, Options{})
+	out := renderTest(t, lib, Options{})
 	page := string(out["review/index.html"])
 	var got []string
 	for _, m := range reviewRowRE.FindAllStringSubmatch(page, -1) {
@@ -191,14 +191,14 @@ func TestReviewPage(t *testing.T) {
 	checkLinks(t, out)
 
 	// Every claim supported: the page says so.
-	out = buildTest(t, claimsLibrary(t, "  - {figure: solar_reflectance, value: 0.9}\n", "  - {figure: thermal_emittance, value: 0.95}\n"), Options{})
+	out = renderTest(t, claimsLibrary(t, "  - {figure: solar_reflectance, value: 0.9}\n", "  - {figure: thermal_emittance, value: 0.95}\n"), Options{})
 	page = string(out["review/index.html"])
 	if !strings.Contains(page, "Every claim is supported by its spectra: 2 of 2.") || strings.Contains(page, `<table class="review">`) {
 		t.Errorf("all supported: the page does not say so")
 	}
 	// No claims at all.
 	lib = claimsLibrary(t, "", "")
-	out = buildTest(t, lib, Options{})
+	out = renderTest(t, lib, Options{})
 	if !strings.Contains(string(out["review/index.html"]), "No material in this library states a claim") {
 		t.Errorf("no claims: the page does not say so")
 	}
@@ -208,9 +208,9 @@ func TestClaimsDownloads(t *testing.T) {
 	lib := claimsLibrary(t, panelClaims, otherClaims)
 	panel, _ := lib.Material("panel")
 	want := panel.Verdicts()
-	out := buildTest(t, lib, Options{})
+	out := renderTest(t, lib, Options{})
 
-	// claims.json: the verdicts as "skysheet check --format json" has them.
+	// claims.json: the verdicts as "skysheet review --format json" has them.
 	var cf struct {
 		Schema   int                     `json:"schema"`
 		Slug     string                  `json:"slug"`
@@ -291,8 +291,8 @@ func TestClaimsDownloads(t *testing.T) {
 }
 
 // TestJudgedOnce checks that each material's claims are judged once per
-// build, the datasheet, review page and downloads sharing the result, and
-// that the build stays the same whatever the number of workers.
+// render, the datasheet, review page and downloads sharing the result, and
+// that the site stays the same whatever the number of workers.
 func TestJudgedOnce(t *testing.T) {
 	var calls atomic.Int64
 	defer func(f func(*library.Material) []datasheet.Verdict) { judge = f }(judge)
@@ -301,10 +301,10 @@ func TestJudgedOnce(t *testing.T) {
 		calls.Add(1)
 		return inner(m)
 	}
-	a := buildTest(t, claimsLibrary(t, panelClaims, otherClaims), Options{Workers: 1})
+	a := renderTest(t, claimsLibrary(t, panelClaims, otherClaims), Options{Workers: 1})
 	if n := calls.Load(); n != 2 {
 		t.Errorf("judged %d times for 2 materials", n)
 	}
-	b := buildTest(t, claimsLibrary(t, panelClaims, otherClaims), Options{Workers: 4})
+	b := renderTest(t, claimsLibrary(t, panelClaims, otherClaims), Options{Workers: 4})
 	sameSite(t, a, b)
 }

@@ -6,13 +6,13 @@
 //
 // # Output
 //
-//	index.html                  library index
-//	m/SLUG/index.html           datasheet; beside it spectrum.csv, figures.json, claims.json, source.md
-//	category/CAT/index.html     materials of one category
-//	tag/TAG/index.html          materials with one tag
-//	compare/SLUG/index.html     comparison pages
-//	review/index.html           claims not supported or not checkable
-//	catalog.json                every material's metadata, figures and claims with verdicts
+//	index.html                            library index
+//	m/SLUG/index.html                     datasheet; beside it spectrum.csv, figures.json, claims.json, source.md
+//	materials/by-category/CAT/index.html  materials of one category
+//	materials/by-tag/TAG/index.html       materials with one tag
+//	compare/SLUG/index.html               comparison pages
+//	review/index.html                     claims not supported or not checkable
+//	catalog.json                          every material's metadata, figures and claims with verdicts
 //	assets/style.css, assets/site.js
 //
 // Links are relative and name index.html, so the site works from file://
@@ -20,11 +20,11 @@
 //
 // # Determinism
 //
-// [Build] writes the same bytes for the same library: no clock, no random
+// [Render] writes the same bytes for the same library: no clock, no random
 // order (maps are sorted, materials keep library order). Pages are rendered
 // in parallel and written in a fixed order. Each material's claims are
 // judged once, by the worker that renders its datasheet; the review page
-// and catalog.json, built afterwards, reuse those verdicts.
+// and catalog.json, rendered afterwards, reuse those verdicts.
 //
 // # Safety
 //

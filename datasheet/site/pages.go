@@ -19,10 +19,10 @@ func (b *builder) materialView(m *library.Material, vs []datasheet.Verdict, root
 		Conditions: conditionPairs(m.Conditions), Overridden: fm.Conditions.Keys(),
 		Assumptions: f.Assumptions, Closure: closureOf(f), Measured: measuredPairs(fm.Measured)}
 	if s := library.Slugify(fm.Category); s != "" {
-		v.Category = link{Name: fm.Category, Href: root + "category/" + s + "/index.html"}
+		v.Category = link{Name: fm.Category, Href: root + listingDir("category", s) + "index.html"}
 	}
 	for _, t := range uniqueTags(fm.Tags) {
-		v.Tags = append(v.Tags, link{Name: t, Href: root + "tag/" + tagSlug(t) + "/index.html"})
+		v.Tags = append(v.Tags, link{Name: t, Href: root + listingDir("tag", tagSlug(t)) + "index.html"})
 	}
 	c := m.Conditions
 	v.Key = append(v.Key,
@@ -107,7 +107,7 @@ func (b *builder) table(id, root string, ms []*library.Material, numbers map[str
 	for _, m := range ms {
 		r := row{N: numbers[m.Slug], Slug: m.Slug, Href: root + materialDir(m.Slug) + "index.html", Title: m.Front.Title, Maker: firstOf(m.Front.Maker, m.Front.Lab)}
 		if s := library.Slugify(m.Front.Category); s != "" {
-			r.Category = link{Name: m.Front.Category, Href: root + "category/" + s + "/index.html"}
+			r.Category = link{Name: m.Front.Category, Href: root + listingDir("category", s) + "index.html"}
 		}
 		for _, col := range tableFigures {
 			x, _ := figureValue(m.Figures, col.Key)
@@ -189,7 +189,7 @@ func (b *builder) indexFiles(out files) error {
 	for _, kind := range []string{"category", "tag"} {
 		slugs, names, members := b.groups(kind == "tag")
 		for _, s := range slugs {
-			l := link{Name: names[s], Href: kind + "/" + s + "/index.html", Count: len(members[s])}
+			l := link{Name: names[s], Href: listingDir(kind, s) + "index.html", Count: len(members[s])}
 			if kind == "tag" {
 				v.Tags = append(v.Tags, l)
 			} else {
@@ -214,13 +214,17 @@ func (b *builder) indexFiles(out files) error {
 	return nil
 }
 
+// listingDir is the output folder of the listing of the materials of one
+// category or tag; kind is "category" or "tag".
+func listingDir(kind, slug string) string { return "materials/by-" + kind + "/" + slug + "/" }
+
 // listingFiles renders one page per category and per tag.
 func (b *builder) listingFiles(out files) error {
 	_, numbers := b.ordered()
 	for _, kind := range []string{"category", "tag"} {
 		slugs, names, members := b.groups(kind == "tag")
 		for _, s := range slugs {
-			name := kind + "/" + s + "/index.html"
+			name := listingDir(kind, s) + "index.html"
 			label := map[string]string{"category": "Category", "tag": "Tag"}[kind]
 			p := b.newPage("listing", label+": "+names[s], name)
 			p.L = &listingView{Kind: label, Name: names[s], Table: b.table("", p.Root, members[s], numbers)}
@@ -317,7 +321,7 @@ type catalog struct {
 	Schema      int                  `json:"schema"`
 	Title       string               `json:"title"`
 	Description string               `json:"description,omitempty"`
-	BaseURL     string               `json:"base_url,omitempty"`
+	SiteAddress string               `json:"site_address,omitempty"`
 	Generator   string               `json:"generator"`
 	Conditions  datasheet.Conditions `json:"conditions"`
 	Config      library.Input        `json:"config"`
@@ -337,7 +341,7 @@ const CatalogSchema = 1
 
 func (b *builder) catalog(ms []*library.Material) ([]byte, error) {
 	cfg := b.lib.Config
-	c := catalog{Schema: CatalogSchema, Title: cfg.Title, Description: cfg.Description, BaseURL: cfg.BaseURL,
+	c := catalog{Schema: CatalogSchema, Title: cfg.Title, Description: cfg.Description, SiteAddress: cfg.SiteAddress,
 		Generator: "skysheet " + b.site.Version, Conditions: cfg.Conditions, Config: cfg.Input,
 		Materials: []catalogEntry{}, Comparisons: []catalogCompare{}}
 	for _, m := range ms {

@@ -18,7 +18,7 @@ import (
 	"skysheet/templates"
 )
 
-// Options control a build.
+// Options control how a site is rendered.
 type Options struct {
 	// Templates is the library's templates/ folder; nil means the embedded
 	// defaults only. Its *.html files are parsed after the defaults, and
@@ -35,16 +35,16 @@ type Options struct {
 }
 
 // Writer receives the files of the site. Names are slash-separated paths
-// relative to the site root. Build calls WriteFile from one goroutine, in
+// relative to the site root. Render calls WriteFile from one goroutine, in
 // sorted name order.
 type Writer interface {
 	WriteFile(name string, data []byte) error
 }
 
-// Build renders lib and writes every file of the site to out. Page errors
+// Render renders lib and writes every file of the site to out. Page errors
 // are collected: the error, if any, is a [library.Errors] naming each page
 // that failed, and nothing is written then.
-func Build(lib *library.Library, opt Options, out Writer) error {
+func Render(lib *library.Library, opt Options, out Writer) error {
 	b, err := newBuilder(lib, opt)
 	if err != nil {
 		return err
@@ -73,7 +73,7 @@ type builder struct {
 	md   markdown
 	site siteInfo
 	// verdicts holds each material's verdicts, judged once while its page
-	// is rendered and read by the pages built after: the index, the review
+	// is rendered and read by the pages rendered after: the index, the review
 	// page and catalog.json.
 	verdicts map[*library.Material][]datasheet.Verdict
 }
@@ -86,7 +86,7 @@ func newBuilder(lib *library.Library, opt Options) (*builder, error) {
 	cfg := lib.Config
 	return &builder{lib: lib, opt: opt, tmpl: t, md: newMarkdown(cfg.AllowHTML),
 		site: siteInfo{Title: cfg.Title, Description: cfg.Description, Lab: cfg.Lab, Publisher: cfg.Publisher,
-			Version: opt.Version, BaseURL: cfg.BaseURL}}, nil
+			Version: opt.Version, SiteAddress: cfg.SiteAddress}}, nil
 }
 
 // parseTemplates parses the default templates, then the overrides.
@@ -229,8 +229,8 @@ func (b *builder) newPage(kind, title, outPath string) *page {
 		root += "../"
 	}
 	p := &page{Site: b.site, Root: root, Title: title, Kind: kind}
-	if b.site.BaseURL != "" {
-		p.Canonical = b.site.BaseURL + outPath
+	if b.site.SiteAddress != "" {
+		p.Canonical = b.site.SiteAddress + outPath
 	}
 	return p
 }

@@ -38,13 +38,13 @@ func testLibrary(t testing.TB) *library.Library {
 	return lib
 }
 
-func buildTest(t testing.TB, lib *library.Library, opt Options) memWriter {
+func renderTest(t testing.TB, lib *library.Library, opt Options) memWriter {
 	t.Helper()
 	if opt.Version == "" {
 		opt.Version = "test"
 	}
 	out := memWriter{}
-	if err := Build(lib, opt, out); err != nil {
+	if err := Render(lib, opt, out); err != nil {
 		t.Fatal(err)
 	}
 	return out
@@ -54,7 +54,7 @@ func TestDump(t *testing.T) {
 	if *dumpDir == "" {
 		t.Skip("no -dump folder")
 	}
-	out := buildTest(t, testLibrary(t), Options{})
+	out := renderTest(t, testLibrary(t), Options{})
 	for name, data := range out {
 		p := filepath.Join(*dumpDir, filepath.FromSlash(name))
 		if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
@@ -66,14 +66,14 @@ func TestDump(t *testing.T) {
 	}
 }
 
-func TestBuildDeterministic(t *testing.T) {
+func TestRenderDeterministic(t *testing.T) {
 	lib := testLibrary(t)
-	a := buildTest(t, lib, Options{Workers: 1})
-	b := buildTest(t, testLibrary(t), Options{Workers: 4})
+	a := renderTest(t, lib, Options{Workers: 1})
+	b := renderTest(t, testLibrary(t), Options{Workers: 4})
 	sameSite(t, a, b)
 }
 
-// sameSite checks that two builds wrote the same files, byte for byte.
+// sameSite checks that two renders wrote the same files, byte for byte.
 func sameSite(t *testing.T, a, b memWriter) {
 	t.Helper()
 	if len(a) != len(b) {
@@ -81,17 +81,17 @@ func sameSite(t *testing.T, a, b memWriter) {
 	}
 	for name, data := range a {
 		if !bytes.Equal(data, b[name]) {
-			t.Errorf("%s differs between builds", name)
+			t.Errorf("%s differs between renders", name)
 		}
 	}
 }
 
-func TestBuildFiles(t *testing.T) {
-	out := buildTest(t, testLibrary(t), Options{})
+func TestRenderFiles(t *testing.T) {
+	out := renderTest(t, testLibrary(t), Options{})
 	for _, name := range []string{
 		"index.html", "catalog.json", "assets/style.css", "assets/site.js",
 		"m/frostline/index.html", "m/frostline/spectrum.csv", "m/frostline/figures.json", "m/frostline/source.md",
-		"category/paint/index.html", "tag/roof/index.html", "compare/whites-vs-dark/index.html",
+		"materials/by-category/paint/index.html", "materials/by-tag/roof/index.html", "compare/whites-vs-dark/index.html",
 	} {
 		if _, ok := out[name]; !ok {
 			t.Errorf("%s missing", name)
@@ -147,7 +147,7 @@ var (
 // the site: no 404 inside the site, and every link names a file (works
 // from file://).
 func TestLinksResolve(t *testing.T) {
-	checkLinks(t, buildTest(t, testLibrary(t), Options{}))
+	checkLinks(t, renderTest(t, testLibrary(t), Options{}))
 }
 
 // checkLinks checks that every relative link of every page of out names a
@@ -198,7 +198,7 @@ func TestEscaping(t *testing.T) {
 	m.Front.Tags = append(m.Front.Tags, `<img src=x onerror=alert(1)>`)
 	m.Front.Measured.Notes = `</dd><script>x</script>`
 	m.Body = []byte("Text <script>alert(1)</script> and [link](javascript:alert(1))\n")
-	out := buildTest(t, lib, Options{})
+	out := renderTest(t, lib, Options{})
 	for name, data := range out {
 		if !strings.HasSuffix(name, ".html") {
 			continue
@@ -219,7 +219,7 @@ func TestEscaping(t *testing.T) {
 func TestAllowHTML(t *testing.T) {
 	lib := testLibrary(t)
 	lib.Config.AllowHTML = true
-	out := buildTest(t, lib, Options{})
+	out := renderTest(t, lib, Options{})
 	if !strings.Contains(string(out["m/frostline/index.html"]), "<b>raw html is dropped</b>") {
 		t.Errorf("allow_html: raw HTML should pass")
 	}
@@ -230,7 +230,7 @@ func TestTemplateOverride(t *testing.T) {
 		"footer.html": {Data: []byte(`{{define "site-footer"}}<footer>custom footer {{.Site.Title}}</footer>{{end}}`)},
 		"style.css":   {Data: []byte("body{}")},
 	}
-	out := buildTest(t, testLibrary(t), Options{Templates: over})
+	out := renderTest(t, testLibrary(t), Options{Templates: over})
 	if !strings.Contains(string(out["index.html"]), "<footer>custom footer Northfield Test Bench (invented)</footer>") {
 		t.Errorf("block override not applied")
 	}
@@ -239,13 +239,13 @@ func TestTemplateOverride(t *testing.T) {
 	}
 	// A whole default file replaced by one of the same name.
 	over = fstest.MapFS{"listing.html": {Data: []byte(`{{define "listing"}}LISTING {{.L.Name}}{{end}}`)}}
-	out = buildTest(t, testLibrary(t), Options{Templates: over})
-	if got := string(out["tag/roof/index.html"]); got != "LISTING roof" {
+	out = renderTest(t, testLibrary(t), Options{Templates: over})
+	if got := string(out["materials/by-tag/roof/index.html"]); got != "LISTING roof" {
 		t.Errorf("file override: %q", got)
 	}
 	// A broken override is an error naming the file.
 	over = fstest.MapFS{"bad.html": {Data: []byte(`{{define "x"}}{{.Nope}`)}}
-	err := Build(testLibrary(t), Options{Templates: over}, memWriter{})
+	err := Render(testLibrary(t), Options{Templates: over}, memWriter{})
 	if err == nil || !strings.Contains(err.Error(), "bad.html") {
 		t.Errorf("broken template: %v", err)
 	}

@@ -28,7 +28,7 @@ type page struct {
 }
 
 type siteInfo struct {
-	Title, Description, Lab, Publisher, Version, BaseURL string
+	Title, Description, Lab, Publisher, Version, SiteAddress string
 }
 
 // link is a named relative link; Href is complete for the page it is on.

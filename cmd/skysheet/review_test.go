@@ -14,10 +14,10 @@ import (
 // constant (closed form), so R = 0.9 gives a solar reflectance of 0.9 and
 // R = 0.05 in the infrared an emittance of 0.95.
 const (
-	checkSolar   = "wavelength_nm,R\n280,0.9\n1000,0.9\n2400,0.9\n"
-	checkThermal = "wavelength_um,R\n2.5,0.05\n10,0.05\n25,0.05\n"
-	checkShortIR = "wavelength_um,R\n2.5,0.05\n20,0.05\n" // 88 % of the 300 K Planck weighting
-	checkBadRTA  = "wavelength_nm,R,T,A\n280,0.9,0.05,0.1\n2400,0.9,0.05,0.1\n"
+	reviewSolar   = "wavelength_nm,R\n280,0.9\n1000,0.9\n2400,0.9\n"
+	reviewThermal = "wavelength_um,R\n2.5,0.05\n10,0.05\n25,0.05\n"
+	reviewShortIR = "wavelength_um,R\n2.5,0.05\n20,0.05\n" // 88 % of the 300 K Planck weighting
+	reviewBadRTA  = "wavelength_nm,R,T,A\n280,0.9,0.05,0.1\n2400,0.9,0.05,0.1\n"
 )
 
 // material returns a material file naming two spectra files and claims.
@@ -47,11 +47,11 @@ func testLibrary(t *testing.T, claims string, extra map[string]string) string {
 	files := map[string]string{
 		"skysheet.yaml":          "title: Invented test library\n",
 		"content/white.md":       material("White panel (invented)", "white/uv.csv", "white/ir.csv", claims),
-		"content/white/uv.csv":   checkSolar,
-		"content/white/ir.csv":   checkThermal,
+		"content/white/uv.csv":   reviewSolar,
+		"content/white/ir.csv":   reviewThermal,
 		"content/short.md":       material("Short-range panel (invented)", "short/uv.csv", "short/ir.csv", "  - {figure: solar_reflectance, value: 0.9, tolerance: 0.01}\n"),
-		"content/short/uv.csv":   checkSolar,
-		"content/short/ir.csv":   checkShortIR,
+		"content/short/uv.csv":   reviewSolar,
+		"content/short/ir.csv":   reviewShortIR,
 		"content/compare-all.md": "---\ntitle: All\ncompare: [white, short]\n---\n",
 	}
 	for k, v := range extra {
@@ -70,7 +70,7 @@ const (
 	claimUnchecked = "  - {figure: solar_reflectance, value: 0.9, tolerance: 0.01}\n"
 )
 
-func TestCheckExitCodes(t *testing.T) {
+func TestReviewExitCodes(t *testing.T) {
 	shortUnchecked := map[string]string{"content/short.md": material("Short", "short/uv.csv", "short/ir.csv", "  - {figure: thermal_emittance, value: 0.95}\n")}
 	for _, tt := range []struct {
 		name  string
@@ -88,7 +88,7 @@ func TestCheckExitCodes(t *testing.T) {
 		{"invalid front matter", claimGood, map[string]string{"content/bad.md": "---\ntitel: Bad\n---\n"}, nil, 1, `content/bad.md:2:1: unknown key: "titel"`},
 		{"invalid spectrum", claimGood, map[string]string{"content/white/ir.csv": "wavelength_um,R\n2.5,0.05\n25,abc\n"}, nil, 1, `"abc" is not a number`},
 		{"malformed claim", "  - {figure: solar_reflectance, value: 0.9, tolerance: -1}\n", nil, nil, 1, "claim 1: solar_reflectance: tolerance -1"},
-		{"closure fails", claimUnchecked, map[string]string{"content/white/uv.csv": checkBadRTA}, nil, 1, "closure fails"},
+		{"closure fails", claimUnchecked, map[string]string{"content/white/uv.csv": reviewBadRTA}, nil, 1, "closure fails"},
 		{"no config", claimGood, map[string]string{"skysheet.yaml": ""}, nil, 1, "no skysheet.yaml"},
 		{"json", claimWrong, nil, []string{"--format", "json"}, 1, `"status": "not supported"`},
 		{"junit", claimGood, nil, []string{"--format=junit"}, 0, "<testsuites"},
@@ -98,7 +98,7 @@ func TestCheckExitCodes(t *testing.T) {
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			dir := testLibrary(t, tt.claim, tt.extra)
-			code, out, errs := runCLI(append([]string{"check", dir}, tt.args...)...)
+			code, out, errs := runCLI(append([]string{"review", dir}, tt.args...)...)
 			if code != tt.code {
 				t.Errorf("exit %d, want %d\nstdout: %s\nstderr: %s", code, tt.code, out, errs)
 			}
@@ -109,16 +109,16 @@ func TestCheckExitCodes(t *testing.T) {
 	}
 }
 
-func TestCheckUsage(t *testing.T) {
+func TestReviewUsage(t *testing.T) {
 	for _, tt := range []struct {
 		name string
 		args []string
 		code int
 		out  string
 	}{
-		{"missing folder", []string{"check", filepath.Join(t.TempDir(), "nope")}, 2, "is not a library folder"},
-		{"a file, not a folder", []string{"check", "check.go"}, 2, "is not a library folder"},
-		{"help", []string{"check", "-h"}, 0, "-strict"},
+		{"missing folder", []string{"review", filepath.Join(t.TempDir(), "nope")}, 2, "is not a library folder"},
+		{"a file, not a folder", []string{"review", "review.go"}, 2, "is not a library folder"},
+		{"help", []string{"review", "-h"}, 0, "-strict"},
 	} {
 		code, out, errs := runCLI(tt.args...)
 		if code != tt.code || !strings.Contains(out+errs, tt.out) {
@@ -127,40 +127,40 @@ func TestCheckUsage(t *testing.T) {
 	}
 }
 
-func TestCheckDefaultFolder(t *testing.T) {
+func TestReviewDefaultFolder(t *testing.T) {
 	dir := testLibrary(t, claimGood, nil)
 	t.Chdir(dir)
-	if code, out, errs := runCLI("check"); code != 0 || !strings.Contains(out, "content/white.md — White panel (invented)") {
-		t.Errorf("check in the library folder: exit %d\n%s%s", code, out, errs)
+	if code, out, errs := runCLI("review"); code != 0 || !strings.Contains(out, "content/white.md — White panel (invented)") {
+		t.Errorf("review in the library folder: exit %d\n%s%s", code, out, errs)
 	}
 }
 
-func TestCheckRefusesEscapingSymlink(t *testing.T) {
+func TestReviewRefusesEscapingSymlink(t *testing.T) {
 	outside := t.TempDir()
-	writeAt(t, filepath.Join(outside, "ir.csv"), checkThermal)
+	writeAt(t, filepath.Join(outside, "ir.csv"), reviewThermal)
 	dir := testLibrary(t, claimGood, map[string]string{"content/white/ir.csv": ""})
 	if err := os.Symlink(filepath.Join(outside, "ir.csv"), filepath.Join(dir, "content", "white", "ir.csv")); err != nil {
 		t.Skip("no symbolic links here:", err)
 	}
-	code, out, _ := runCLI("check", dir)
+	code, out, _ := runCLI("review", dir)
 	if code != 1 || !strings.Contains(out, "content/white/ir.csv") {
 		t.Errorf("a spectrum outside the library was read: exit %d\n%s", code, out)
 	}
 }
 
-func TestCheckJSONRoundTrip(t *testing.T) {
+func TestReviewJSONRoundTrip(t *testing.T) {
 	dir := testLibrary(t, claimGood+claimWrong+"  - {figure: solar_reflectance, value: 90}\n  - {figure: no_such_figure, value: 1}\n",
 		map[string]string{"content/bad.md": "---\ntitle: Bad\n---\n"})
-	code, out, errs := runCLI("check", "--format", "json", dir)
+	code, out, errs := runCLI("review", "--format", "json", dir)
 	if code != 1 {
 		t.Fatalf("exit %d, want 1: %s", code, errs)
 	}
-	var r checkReport
+	var r reviewReport
 	if err := json.Unmarshal([]byte(out), &r); err != nil {
 		t.Fatal(err)
 	}
 	var again bytes.Buffer
-	if err := writeCheckJSON(&again, &r); err != nil {
+	if err := writeReviewJSON(&again, &r); err != nil {
 		t.Fatal(err)
 	}
 	if again.String() != out {
@@ -170,7 +170,7 @@ func TestCheckJSONRoundTrip(t *testing.T) {
 	if c.Claims != 6 || c.Supported != 3 || c.NotSupported != 2 || c.CannotCheck != 1 || c.InvalidFiles != 1 || r.OK {
 		t.Errorf("counts %+v, ok %v", c, r.OK)
 	}
-	var white *checkMaterial
+	var white *reviewMaterial
 	for i := range r.Materials {
 		if r.Materials[i].Slug == "white" {
 			white = &r.Materials[i]
@@ -213,7 +213,7 @@ type junitShape struct {
 	} `xml:"testsuite"`
 }
 
-func TestCheckJUnitShape(t *testing.T) {
+func TestReviewJUnitShape(t *testing.T) {
 	shortUnchecked := material("Short", "short/uv.csv", "short/ir.csv", "  - {figure: thermal_emittance, value: 0.95}\n")
 	for _, tt := range []struct {
 		name                               string
@@ -228,7 +228,7 @@ func TestCheckJUnitShape(t *testing.T) {
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			dir := testLibrary(t, claimGood+claimWrong, map[string]string{"content/bad.md": "---\ntitle: Bad\n---\n", "content/short.md": shortUnchecked})
-			code, out, errs := runCLI(append([]string{"check", "--format", "junit", dir}, tt.args...)...)
+			code, out, errs := runCLI(append([]string{"review", "--format", "junit", dir}, tt.args...)...)
 			if code != 1 {
 				t.Fatalf("exit %d, want 1: %s", code, errs)
 			}

@@ -12,11 +12,11 @@ import (
 	"skysheet/datasheet"
 )
 
-// checkWriters are the output formats of "skysheet check".
-var checkWriters = map[string]func(io.Writer, *checkReport) error{
-	"text":  writeCheckText,
-	"json":  writeCheckJSON,
-	"junit": writeCheckJUnit,
+// reviewWriters are the output formats of "skysheet review".
+var reviewWriters = map[string]func(io.Writer, *reviewReport) error{
+	"text":  writeReviewText,
+	"json":  writeReviewJSON,
+	"junit": writeReviewJUnit,
 }
 
 // claimWords describes a claim: "solar_reflectance 0.95 ± 0.01 (source)".
@@ -39,9 +39,9 @@ func closureWords(cl *datasheet.ClosureReport) string {
 	return fmt.Sprintf("closure holds: R, T and A not all measured; R+T ≤ 1 and no negative values within %g", cl.Tolerance)
 }
 
-func writeCheckText(w io.Writer, r *checkReport) error {
+func writeReviewText(w io.Writer, r *reviewReport) error {
 	ew := &errWriter{w: w}
-	ew.printf("Library %s, checked by %s\n", r.Library, r.Software)
+	ew.printf("Library %s, reviewed by %s\n", r.Library, r.Software)
 	for _, m := range r.Materials {
 		if len(m.Errors) == 0 && m.Closure == nil && len(m.Verdicts) == 0 {
 			continue // the config or a comparison page, without problems
@@ -101,7 +101,7 @@ func displayPath(p, lib string) string {
 	return p
 }
 
-func writeCheckJSON(w io.Writer, r *checkReport) error {
+func writeReviewJSON(w io.Writer, r *reviewReport) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	return enc.Encode(r)
@@ -149,8 +149,8 @@ type (
 // case for reading it, one for closure and one per claim. Invalid files are
 // errors, failed closure and unsupported claims failures, and claims that
 // cannot be checked are skipped (failures under --strict).
-func junitOf(r *checkReport) junitSuites {
-	out := junitSuites{Name: "skysheet check " + r.Library}
+func junitOf(r *reviewReport) junitSuites {
+	out := junitSuites{Name: "skysheet review " + r.Library}
 	for _, m := range r.Materials {
 		name := displayPath(m.Path, r.Library)
 		class := strings.TrimSuffix(strings.ReplaceAll(name, "/", "."), ".md")
@@ -223,7 +223,7 @@ func num(n datasheet.Num) string {
 	return strconv.FormatFloat(float64(n), 'g', 6, 64)
 }
 
-func writeCheckJUnit(w io.Writer, r *checkReport) error {
+func writeReviewJUnit(w io.Writer, r *reviewReport) error {
 	ew := &errWriter{w: w}
 	ew.printf("%s", xml.Header)
 	enc := xml.NewEncoder(ew)

@@ -15,35 +15,35 @@ import (
 
 func init() {
 	register(&command{
-		name:    "check",
+		name:    "review",
 		args:    "[DIR]",
-		summary: "check a library without building it: read every file and judge every claim against the spectra",
-		run:     runCheck,
+		summary: "review a library without rendering it: read every file and judge every claim against the spectra",
+		run:     runReview,
 	})
 }
 
-// checkReport is the result of "skysheet check", grouped by file. Its JSON
+// reviewReport is the result of "skysheet review", grouped by file. Its JSON
 // form is printed by --format json.
-type checkReport struct {
-	Library   string          `json:"library"`
-	Software  string          `json:"software"`
-	Strict    bool            `json:"strict"`
-	OK        bool            `json:"ok"`
-	Counts    checkCounts     `json:"counts"`
-	Materials []checkMaterial `json:"materials"`
+type reviewReport struct {
+	Library   string           `json:"library"`
+	Software  string           `json:"software"`
+	Strict    bool             `json:"strict"`
+	OK        bool             `json:"ok"`
+	Counts    reviewCounts     `json:"counts"`
+	Materials []reviewMaterial `json:"materials"`
 }
 
-// checkCounts sums up a report.
-type checkCounts struct {
+// reviewCounts sums up a report.
+type reviewCounts struct {
 	Files        int `json:"files"` // Markdown files and the config
 	InvalidFiles int `json:"invalid_files"`
 	ClosureFails int `json:"closure_failures"`
 	datasheet.VerdictCounts
 }
 
-// checkMaterial is what was found in one file: a material, or the config or
+// reviewMaterial is what was found in one file: a material, or the config or
 // another file that failed to load.
-type checkMaterial struct {
+type reviewMaterial struct {
 	Path     string                   `json:"path"`
 	Slug     string                   `json:"slug,omitempty"`
 	Title    string                   `json:"title,omitempty"`
@@ -53,8 +53,8 @@ type checkMaterial struct {
 	Verdicts []datasheet.Verdict      `json:"verdicts"`
 }
 
-// failed reports whether the file fails the check.
-func (m *checkMaterial) failed(strict bool) bool {
+// failed reports whether the file fails the review.
+func (m *reviewMaterial) failed(strict bool) bool {
 	if len(m.Errors) > 0 || m.Closure != nil && !m.Closure.OK {
 		return true
 	}
@@ -66,15 +66,15 @@ func (m *checkMaterial) failed(strict bool) bool {
 	return false
 }
 
-func runCheck(e *env, args []string) error {
-	fl := newFlags(e, commands["check"])
+func runReview(e *env, args []string) error {
+	fl := newFlags(e, commands["review"])
 	format := fl.String("format", "text", "output: text (a report grouped by material), json or junit (JUnit XML)")
 	strict := fl.Bool("strict", false, "also fail when a claim cannot be checked")
 	pos, err := parseFlags(fl, args)
 	if err != nil {
 		return err
 	}
-	write, ok := checkWriters[*format]
+	write, ok := reviewWriters[*format]
 	if !ok {
 		return usagef("--format %q: want text, json or junit", *format)
 	}
@@ -92,7 +92,7 @@ func runCheck(e *env, args []string) error {
 	}
 	defer closeFS()
 	lib, err := library.Load(fsys)
-	r := buildCheck(dir, lib, err, *strict)
+	r := reviewLibrary(dir, lib, err, *strict)
 	if err := write(e.stdout, r); err != nil {
 		return err
 	}
@@ -116,16 +116,16 @@ func openLibrary(dir string) (fs.FS, func(), error) {
 	return root.FS(), func() { root.Close() }, nil
 }
 
-// buildCheck judges every claim of lib and files the load errors under the
-// file they name.
-func buildCheck(dir string, lib *library.Library, loadErr error, strict bool) *checkReport {
-	r := &checkReport{Library: dir, Software: "skysheet " + datasheet.Version(), Strict: strict}
-	byPath := map[string]*checkMaterial{}
-	get := func(p string) *checkMaterial {
+// reviewLibrary judges every claim of lib and files the load errors under
+// the file they name.
+func reviewLibrary(dir string, lib *library.Library, loadErr error, strict bool) *reviewReport {
+	r := &reviewReport{Library: dir, Software: "skysheet " + datasheet.Version(), Strict: strict}
+	byPath := map[string]*reviewMaterial{}
+	get := func(p string) *reviewMaterial {
 		if m, ok := byPath[p]; ok {
 			return m
 		}
-		m := &checkMaterial{Path: p, Errors: []string{}, Inputs: []library.Input{}, Verdicts: []datasheet.Verdict{}}
+		m := &reviewMaterial{Path: p, Errors: []string{}, Inputs: []library.Input{}, Verdicts: []datasheet.Verdict{}}
 		byPath[p] = m
 		return m
 	}

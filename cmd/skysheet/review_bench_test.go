@@ -99,14 +99,14 @@ func TestJudgeAllOrder(t *testing.T) {
 	if got := judgeAll(nil, 4); len(got) != 0 {
 		t.Errorf("no materials: %v", got)
 	}
-	if code, out, errs := runCLI("check", dir); code != 1 || !strings.Contains(out, "7 files, 0 invalid, 0 failing closure; 36 claims") {
-		t.Errorf("check: exit %d\n%s%s", code, out, errs)
+	if code, out, errs := runCLI("review", dir); code != 1 || !strings.Contains(out, "7 files, 0 invalid, 0 failing closure; 36 claims") {
+		t.Errorf("review: exit %d\n%s%s", code, out, errs)
 	}
 }
 
-// BenchmarkCheck reads and judges a library of 100 copies of a demo
-// material with six claims each, as "skysheet check" does.
-func BenchmarkCheck(b *testing.B) {
+// BenchmarkReview reads and judges a library of 100 copies of a demo
+// material with six claims each, as "skysheet review" does.
+func BenchmarkReview(b *testing.B) {
 	dir := copiesLibrary(b, 100, manyClaims)
 	for b.Loop() {
 		fsys, closeFS, err := openLibrary(dir)
@@ -114,7 +114,7 @@ func BenchmarkCheck(b *testing.B) {
 			b.Fatal(err)
 		}
 		lib, err := library.Load(fsys)
-		r := buildCheck(dir, lib, err, false)
+		r := reviewLibrary(dir, lib, err, false)
 		closeFS()
 		if r.Counts.Claims != 600 {
 			b.Fatalf("%d claims, want 600", r.Counts.Claims)

@@ -58,10 +58,10 @@ func readTree(t *testing.T, dir string) map[string][]byte {
 	return out
 }
 
-func TestBuildCommand(t *testing.T) {
+func TestRenderCommand(t *testing.T) {
 	lib := copyLibrary(t)
-	out := filepath.Join(t.TempDir(), "public")
-	code, stdout, stderr := runCLI("build", lib, "-o", out)
+	out := filepath.Join(t.TempDir(), "site")
+	code, stdout, stderr := runCLI("render", lib, "--site", out)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -71,19 +71,51 @@ func TestBuildCommand(t *testing.T) {
 	if _, err := os.Stat(filepath.Join(out, "m", "frostline", "index.html")); err != nil {
 		t.Error(err)
 	}
-	if code, _, _ := runCLI("build", lib, lib, "-o", out); code != 2 {
+	if code, _, _ := runCLI("render", lib, lib, "--site", out); code != 2 {
 		t.Errorf("two folders: exit %d, want 2", code)
 	}
-	if code, _, _ := runCLI("build", filepath.Join(lib, "nothere"), "-o", out); code != 2 {
+	if code, _, _ := runCLI("render", filepath.Join(lib, "nothere"), "--site", out); code != 2 {
 		t.Errorf("missing folder: exit %d, want 2", code)
 	}
 }
 
-func TestBuildDeterministic(t *testing.T) {
+// TestRenderDefaultSite checks that "render DIR" writes DIR/site, not a
+// folder in the current one, and that the site it wrote is not read back
+// as part of the library by the next render or by review.
+func TestRenderDefaultSite(t *testing.T) {
+	lib := copyLibrary(t)
+	cwd := t.TempDir()
+	t.Chdir(cwd)
+	for range 2 { // the second render replaces the first site
+		code, stdout, stderr := runCLI("render", lib)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, stderr)
+		}
+		if want := "3 materials, 1 comparison, "; !strings.Contains(stdout, want) || !strings.Contains(stdout, filepath.Join(lib, "site")) {
+			t.Errorf("summary %q: want %q and the folder %s", stdout, want, filepath.Join(lib, "site"))
+		}
+	}
+	if _, err := os.Stat(filepath.Join(lib, "site", "m", "frostline", "index.html")); err != nil {
+		t.Error(err)
+	}
+	if entries, _ := os.ReadDir(cwd); len(entries) != 0 {
+		t.Errorf("the current folder got %d entries, want none", len(entries))
+	}
+	if code, out, errs := runCLI("review", lib); !strings.Contains(out, "5 files, 0 invalid") {
+		t.Errorf("review after render: exit %d\n%s%s", code, out, errs)
+	}
+	// Inside the library folder, the default is ./site.
+	t.Chdir(lib)
+	if code, stdout, stderr := runCLI("render"); code != 0 || !strings.Contains(stdout, "files in site") {
+		t.Errorf("render in the library folder: exit %d: %s%s", code, stdout, stderr)
+	}
+}
+
+func TestRenderDeterministic(t *testing.T) {
 	lib := copyLibrary(t)
 	a, b := filepath.Join(t.TempDir(), "a"), filepath.Join(t.TempDir(), "b")
 	for _, out := range []string{a, b} {
-		if _, err := buildSite(lib, out, "test", &bytes.Buffer{}, false); err != nil {
+		if _, err := renderSite(lib, out, "test", &bytes.Buffer{}, false); err != nil {
 			t.Fatal(err)
 		}
 	}
@@ -93,25 +125,25 @@ func TestBuildDeterministic(t *testing.T) {
 	}
 	for name, data := range ta {
 		if !bytes.Equal(data, tb[name]) {
-			t.Errorf("%s differs between two builds", name)
+			t.Errorf("%s differs between two renders", name)
 		}
 	}
 }
 
-func TestBuildAtomic(t *testing.T) {
+func TestRenderAtomic(t *testing.T) {
 	lib := copyLibrary(t)
 	parent := t.TempDir()
-	out := filepath.Join(parent, "public")
-	if _, err := buildSite(lib, out, "v1", &bytes.Buffer{}, false); err != nil {
+	out := filepath.Join(parent, "site")
+	if _, err := renderSite(lib, out, "v1", &bytes.Buffer{}, false); err != nil {
 		t.Fatal(err)
 	}
 	before := readTree(t, out)
 
-	// Bad data: the build stops before writing.
+	// Bad data: the render stops before writing.
 	md := filepath.Join(lib, "content", "roof", "basalt.md")
 	good, _ := os.ReadFile(md)
 	writeAt(t, md, strings.Replace(string(good), "category:", "categroy:", 1))
-	code, _, stderr := runCLI("build", lib, "-o", out)
+	code, _, stderr := runCLI("render", lib, "--site", out)
 	if code != 1 || strings.Count(stderr, "\n  ") != 1 || !strings.Contains(stderr, "content/roof/basalt.md:5:1: unknown key") || !strings.Contains(stderr, `did you mean "category"?`) {
 		t.Errorf("exit %d, stderr %q", code, stderr)
 	}
@@ -119,7 +151,7 @@ func TestBuildAtomic(t *testing.T) {
 
 	// A failure while writing files, midway through the site.
 	failAfter = 10
-	_, err := buildSite(lib, out, "v2", &bytes.Buffer{}, false)
+	_, err := renderSite(lib, out, "v2", &bytes.Buffer{}, false)
 	failAfter = 0
 	if err == nil {
 		t.Fatal("injected failure not reported")
@@ -130,7 +162,7 @@ func TestBuildAtomic(t *testing.T) {
 	}
 	for name, data := range before {
 		if !bytes.Equal(data, after[name]) {
-			t.Errorf("%s changed by a failed build", name)
+			t.Errorf("%s changed by a failed render", name)
 		}
 	}
 	entries, _ := os.ReadDir(parent)
@@ -141,8 +173,8 @@ func TestBuildAtomic(t *testing.T) {
 		}
 		t.Errorf("left behind: %v", names)
 	}
-	// And a good build replaces the old site.
-	if _, err := buildSite(lib, out, "v3", &bytes.Buffer{}, false); err != nil {
+	// And a good render replaces the old site.
+	if _, err := renderSite(lib, out, "v3", &bytes.Buffer{}, false); err != nil {
 		t.Fatal(err)
 	}
 	if !bytes.Contains(readTree(t, out)["index.html"], []byte("skysheet v3")) {
@@ -150,14 +182,14 @@ func TestBuildAtomic(t *testing.T) {
 	}
 }
 
-func TestBuildRefusesOutput(t *testing.T) {
+func TestRenderRefusesSiteFolder(t *testing.T) {
 	lib := copyLibrary(t)
 	other := t.TempDir()
 	writeAt(t, filepath.Join(other, "notes.txt"), "keep me")
-	for _, out := range []string{lib, filepath.Dir(lib), filepath.Join(lib, "content", "site"), other} {
-		code, _, stderr := runCLI("build", lib, "-o", out)
+	for _, out := range []string{lib, filepath.Dir(lib), filepath.Join(lib, "content", "site"), filepath.Join(lib, "templates"), filepath.Join(lib, "templates", "site"), other} {
+		code, _, stderr := runCLI("render", lib, "--site", out)
 		if code != 2 {
-			t.Errorf("-o %s: exit %d, want 2 (%s)", out, code, stderr)
+			t.Errorf("--site %s: exit %d, want 2 (%s)", out, code, stderr)
 		}
 	}
 	if data, _ := os.ReadFile(filepath.Join(other, "notes.txt")); string(data) != "keep me" {
@@ -176,8 +208,8 @@ func normalise(b []byte) []byte {
 
 func TestGoldenDatasheet(t *testing.T) {
 	lib := copyLibrary(t)
-	out := filepath.Join(t.TempDir(), "public")
-	if _, err := buildSite(lib, out, "test", &bytes.Buffer{}, false); err != nil {
+	out := filepath.Join(t.TempDir(), "site")
+	if _, err := renderSite(lib, out, "test", &bytes.Buffer{}, false); err != nil {
 		t.Fatal(err)
 	}
 	got, err := os.ReadFile(filepath.Join(out, "m", "frostline", "index.html"))
@@ -203,13 +235,13 @@ func TestGoldenDatasheet(t *testing.T) {
 	}
 }
 
-func TestBuildEscapesContent(t *testing.T) {
+func TestRenderEscapesContent(t *testing.T) {
 	lib := copyLibrary(t)
 	md := filepath.Join(lib, "content", "roof", "basalt.md")
 	src, _ := os.ReadFile(md)
 	writeAt(t, md, strings.Replace(string(src), "title: Basalt roof coating (invented)", `title: "<script>alert('x')</script> Basalt"`, 1))
-	out := filepath.Join(t.TempDir(), "public")
-	if _, err := buildSite(lib, out, "test", &bytes.Buffer{}, false); err != nil {
+	out := filepath.Join(t.TempDir(), "site")
+	if _, err := renderSite(lib, out, "test", &bytes.Buffer{}, false); err != nil {
 		t.Fatal(err)
 	}
 	for name, data := range readTree(t, out) {
@@ -223,7 +255,7 @@ func TestBuildEscapesContent(t *testing.T) {
 	}
 }
 
-func TestBuildPathEscapes(t *testing.T) {
+func TestRenderPathEscapes(t *testing.T) {
 	outside := filepath.Join(t.TempDir(), "outside.csv")
 	writeAt(t, outside, "wavelength_nm,R\n280,0.5\n2500,0.5\n")
 	for _, tc := range []struct {
@@ -245,7 +277,7 @@ func TestBuildPathEscapes(t *testing.T) {
 			md := filepath.Join(lib, "content", "roof", "basalt.md")
 			src, _ := os.ReadFile(md)
 			writeAt(t, md, strings.Replace(string(src), "file: basalt-uvvis.csv", "file: "+tc.file, 1))
-			code, _, stderr := runCLI("build", lib, "-o", filepath.Join(t.TempDir(), "public"))
+			code, _, stderr := runCLI("render", lib, "--site", filepath.Join(t.TempDir(), "site"))
 			if code != 1 || !strings.Contains(stderr, "content/roof/basalt.md:9:") || !strings.Contains(stderr, tc.want) {
 				t.Errorf("exit %d, stderr %q; want exit 1 naming basalt.md:9 and %q", code, stderr, tc.want)
 			}
@@ -257,7 +289,7 @@ func TestBuildPathEscapes(t *testing.T) {
 		md := filepath.Join(lib, "content", "roof", "basalt.md")
 		src, _ := os.ReadFile(md)
 		writeAt(t, md, strings.Replace(string(src), "file: basalt-uvvis.csv", "file: inside.csv", 1))
-		if code, _, stderr := runCLI("build", lib, "-o", filepath.Join(t.TempDir(), "public")); code != 0 {
+		if code, _, stderr := runCLI("render", lib, "--site", filepath.Join(t.TempDir(), "site")); code != 0 {
 			t.Errorf("inside link: exit %d: %s", code, stderr)
 		}
 	}
@@ -266,7 +298,7 @@ func TestBuildPathEscapes(t *testing.T) {
 func TestProgressBar(t *testing.T) {
 	var b bytes.Buffer
 	lib := copyLibrary(t)
-	if _, err := buildSite(lib, filepath.Join(t.TempDir(), "p"), "test", &b, true); err != nil {
+	if _, err := renderSite(lib, filepath.Join(t.TempDir(), "p"), "test", &b, true); err != nil {
 		t.Fatal(err)
 	}
 	if !strings.Contains(b.String(), "] 3/3 materials") {

@@ -15,16 +15,24 @@ import (
 
 func init() {
 	register(&command{
-		name:    "build",
+		name:    "render",
 		args:    "[DIR]",
-		summary: "build the library in DIR (default .) into a static website",
-		run:     runBuild,
+		summary: "render the spectra and Markdown of the library in DIR (default .) into a static site of datasheets",
+		run:     runRender,
 	})
 }
 
-func runBuild(e *env, args []string) error {
-	fl := newFlags(e, commands["build"])
-	out := fl.String("o", "public", "output folder; replaced only when the whole build succeeds")
+const (
+	// siteDir is the folder, inside the library folder, that render writes
+	// to unless --site names another.
+	siteDir = "site"
+	// templatesDir is the library's folder of template overrides.
+	templatesDir = "templates"
+)
+
+func runRender(e *env, args []string) error {
+	fl := newFlags(e, commands["render"])
+	out := fl.String("site", "", "folder the site is written to (default: site/ inside the library folder); replaced only when the whole render succeeds")
 	pos, err := parseFlags(fl, args)
 	if err != nil {
 		return err
@@ -36,23 +44,26 @@ func runBuild(e *env, args []string) error {
 	if len(pos) == 1 {
 		dir = pos[0]
 	}
-	res, err := buildSite(dir, *out, version(), e.stderr, e.isTerminal)
-	if err != nil {
-		return reportBuildError(e, err)
+	if *out == "" {
+		*out = filepath.Join(dir, siteDir)
 	}
-	fmt.Fprintf(e.stdout, "built %s: %s, %s, %d files in %s\n", dir, plural(res.materials, "material"), plural(res.comparisons, "comparison"), res.files, *out)
+	res, err := renderSite(dir, *out, version(), e.stderr, e.isTerminal)
+	if err != nil {
+		return reportRenderError(e, err)
+	}
+	fmt.Fprintf(e.stdout, "rendered %s: %s, %s, %d files in %s\n", dir, plural(res.materials, "material"), plural(res.comparisons, "comparison"), res.files, *out)
 	return nil
 }
 
-// reportBuildError prints every problem of a failed build, one per line.
-func reportBuildError(e *env, err error) error {
+// reportRenderError prints every problem of a failed render, one per line.
+func reportRenderError(e *env, err error) error {
 	var es library.Errors
 	var ue *usageError
 	switch {
 	case errors.As(err, &ue):
 		return err
 	case errors.As(err, &es):
-		fmt.Fprintf(e.stderr, "skysheet build: %s; nothing was written:\n", plural(len(es), "problem"))
+		fmt.Fprintf(e.stderr, "skysheet render: %s; nothing was written:\n", plural(len(es), "problem"))
 		for _, x := range es {
 			fmt.Fprintf(e.stderr, "  %v\n", x)
 		}
@@ -68,16 +79,16 @@ func plural(n int, what string) string {
 	return fmt.Sprintf("%d %ss", n, what)
 }
 
-// buildResult counts what a build wrote.
-type buildResult struct {
+// renderResult counts what a render wrote.
+type renderResult struct {
 	materials, comparisons, files int
 }
 
-// buildSite builds the library in dir into outDir through a temporary
+// renderSite renders the library in dir into outDir through a temporary
 // folder beside outDir, which replaces outDir only when everything
 // succeeded. Progress goes to progress: a bar when it is a terminal.
-func buildSite(dir, outDir, ver string, progress io.Writer, terminal bool) (buildResult, error) {
-	var res buildResult
+func renderSite(dir, outDir, ver string, progress io.Writer, terminal bool) (renderResult, error) {
+	var res renderResult
 	absDir, err := filepath.Abs(dir)
 	if err != nil {
 		return res, err
@@ -86,7 +97,7 @@ func buildSite(dir, outDir, ver string, progress io.Writer, terminal bool) (buil
 	if err != nil {
 		return res, err
 	}
-	if err := checkOutput(absDir, absOut); err != nil {
+	if err := checkSiteFolder(absDir, absOut); err != nil {
 		return res, err
 	}
 	root, err := os.OpenRoot(absDir)
@@ -102,8 +113,8 @@ func buildSite(dir, outDir, ver string, progress io.Writer, terminal bool) (buil
 		return res, err
 	}
 	opt := site.Options{Version: ver}
-	if st, err := fs.Stat(fsys, "templates"); err == nil && st.IsDir() {
-		opt.Templates, _ = fs.Sub(fsys, "templates")
+	if st, err := fs.Stat(fsys, templatesDir); err == nil && st.IsDir() {
+		opt.Templates, _ = fs.Sub(fsys, templatesDir)
 	}
 	if terminal && len(lib.Materials) > 0 {
 		opt.Progress = func(done, total int) { drawProgress(progress, done, total) }
@@ -113,7 +124,7 @@ func buildSite(dir, outDir, ver string, progress io.Writer, terminal bool) (buil
 	if err := os.MkdirAll(parent, 0o755); err != nil {
 		return res, err
 	}
-	tmp, err := os.MkdirTemp(parent, "."+filepath.Base(absOut)+".building-")
+	tmp, err := os.MkdirTemp(parent, "."+filepath.Base(absOut)+".rendering-")
 	if err != nil {
 		return res, err
 	}
@@ -127,7 +138,7 @@ func buildSite(dir, outDir, ver string, progress io.Writer, terminal bool) (buil
 		return res, err
 	}
 	w := &dirWriter{root: tmp}
-	err = site.Build(lib, opt, w)
+	err = site.Render(lib, opt, w)
 	if opt.Progress != nil {
 		fmt.Fprintln(progress)
 	}
@@ -138,22 +149,26 @@ func buildSite(dir, outDir, ver string, progress io.Writer, terminal bool) (buil
 		return res, err
 	}
 	committed = true
-	return buildResult{materials: len(lib.Materials), comparisons: len(lib.Comparisons), files: w.n}, nil
+	return renderResult{materials: len(lib.Materials), comparisons: len(lib.Comparisons), files: w.n}, nil
 }
 
-// checkOutput refuses output folders whose replacement would lose data:
-// the library itself or a folder holding it, a folder inside content/, or
-// an existing folder that is not a site built before.
-func checkOutput(absDir, absOut string) error {
+// checkSiteFolder refuses site folders whose replacement would lose data or
+// whose pages would be read back: the library itself or a folder holding
+// it, a folder inside content/ or templates/, or an existing folder that is
+// not a site rendered before.
+func checkSiteFolder(absDir, absOut string) error {
 	within := func(p, dir string) bool {
 		rel, err := filepath.Rel(dir, p)
 		return err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator))
 	}
 	if within(absDir, absOut) {
-		return usagef("output folder %s holds the library: choose another -o", absOut)
+		return usagef("site folder %s holds the library: choose another --site", absOut)
 	}
 	if within(absOut, filepath.Join(absDir, library.ContentDir)) {
-		return usagef("output folder %s is inside %s/: its pages would be read as content next time", absOut, library.ContentDir)
+		return usagef("site folder %s is inside %s/: its pages would be read as content next time", absOut, library.ContentDir)
+	}
+	if within(absOut, filepath.Join(absDir, templatesDir)) {
+		return usagef("site folder %s is inside %s/: its pages would be read as templates next time", absOut, templatesDir)
 	}
 	st, err := os.Stat(absOut)
 	switch {
@@ -162,7 +177,7 @@ func checkOutput(absDir, absOut string) error {
 	case err != nil:
 		return err
 	case !st.IsDir():
-		return usagef("output %s exists and is not a folder", absOut)
+		return usagef("site folder %s exists and is not a folder", absOut)
 	}
 	entries, err := os.ReadDir(absOut)
 	if err != nil {
@@ -172,7 +187,7 @@ func checkOutput(absDir, absOut string) error {
 		return nil
 	}
 	if _, err := os.Stat(filepath.Join(absOut, "catalog.json")); err != nil {
-		return usagef("output folder %s is not empty and holds no catalog.json: refusing to replace a folder that is not a built site", absOut)
+		return usagef("site folder %s is not empty and holds no catalog.json: refusing to replace a folder that is not a rendered site", absOut)
 	}
 	return nil
 }

@@ -13,15 +13,15 @@ import (
 
 func init() {
 	register(&command{
-		name:    "new",
+		name:    "init",
 		args:    "DIR",
-		summary: "create a small library in DIR (new or empty) that builds at once",
-		run:     runNew,
+		summary: "set up a small library in DIR (new or empty) that renders at once",
+		run:     runInit,
 	})
 }
 
-func runNew(e *env, args []string) error {
-	fl := newFlags(e, commands["new"])
+func runInit(e *env, args []string) error {
+	fl := newFlags(e, commands["init"])
 	pos, err := parseFlags(fl, args)
 	if err != nil {
 		return err
@@ -47,18 +47,18 @@ func runNew(e *env, args []string) error {
 			return err
 		}
 	}
-	fmt.Fprintf(e.stdout, "created a library in %s; next:\n  skysheet build %s -o %s\n  skysheet serve %s\n",
-		dir, dir, filepath.Join(dir, "public"), dir)
+	fmt.Fprintf(e.stdout, "created a library in %s; next:\n  skysheet render %s   # writes %s\n  skysheet preview %s\n",
+		dir, dir, filepath.Join(dir, siteDir), dir)
 	return nil
 }
 
-// scaffold returns the files of a new library.
+// scaffold returns the files of a library set up by init.
 func scaffold() map[string]string {
 	return map[string]string{
 		"skysheet.yaml": `# Site configuration. Every key is optional; unknown keys are errors.
 title: My material library
 description: Datasheets computed from measured spectra.
-# base_url: https://example.org/library/   # where the site will be published
+# site_address: https://example.org/library/   # where the site will be published
 # lab: Name of the measuring lab
 # publisher: Name of the publisher
 allow_html: false       # raw HTML in Markdown bodies is dropped unless true

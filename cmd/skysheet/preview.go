@@ -29,15 +29,15 @@ import (
 
 func init() {
 	register(&command{
-		name:    "serve",
+		name:    "preview",
 		args:    "[DIR]",
-		summary: "build the library in DIR (default .), serve it on 127.0.0.1 and rebuild on every change",
-		run:     runServe,
+		summary: "preview the library in DIR (default .) on 127.0.0.1 while editing: render it in memory, again on every change",
+		run:     runPreview,
 	})
 }
 
-func runServe(e *env, args []string) error {
-	fl := newFlags(e, commands["serve"])
+func runPreview(e *env, args []string) error {
+	fl := newFlags(e, commands["preview"])
 	port := fl.Int("port", 8080, "port on 127.0.0.1 (0 picks a free one)")
 	pos, err := parseFlags(fl, args)
 	if err != nil {
@@ -56,8 +56,8 @@ func runServe(e *env, args []string) error {
 	if st, err := os.Stat(dir); err != nil || !st.IsDir() {
 		return usagef("library folder %s: not a folder", dir)
 	}
-	s := &server{dir: dir, version: version(), log: e.stderr}
-	s.rebuild()
+	s := &preview{dir: dir, version: version(), log: e.stderr}
+	s.rerender()
 	ln, err := net.Listen("tcp", fmt.Sprintf("127.0.0.1:%d", *port))
 	if err != nil {
 		return err
@@ -66,7 +66,7 @@ func runServe(e *env, args []string) error {
 	defer stop()
 	go func() {
 		if err := s.watch(ctx, 200*time.Millisecond); err != nil {
-			fmt.Fprintf(e.stderr, "skysheet serve: watching %s: %v\n", dir, err)
+			fmt.Fprintf(e.stderr, "skysheet preview: watching %s: %v\n", dir, err)
 		}
 	}()
 	srv := &http.Server{Handler: s, ReadHeaderTimeout: 10 * time.Second}
@@ -76,25 +76,29 @@ func runServe(e *env, args []string) error {
 		defer cancel()
 		srv.Shutdown(shut)
 	}()
-	fmt.Fprintf(e.stdout, "serving %s at http://%s/ (Ctrl-C to stop); pages reload when a file changes\n", dir, ln.Addr())
+	fmt.Fprintf(e.stdout, "previewing %s at http://%s/ (Ctrl-C to stop); pages reload when a file changes\n", dir, ln.Addr())
 	if err := srv.Serve(ln); err != nil && !errors.Is(err, http.ErrServerClosed) {
 		return err
 	}
 	return nil
 }
 
-// server holds the latest build of a library in memory and serves it.
-type server struct {
+// preview holds the latest render of a library in memory and serves it.
+type preview struct {
 	dir, version string
 	log          io.Writer
 
+	// changed, if set, is called from the watcher with the name of every
+	// change that leads to a new render (tests follow the watcher with it).
+	changed func(name string)
+
 	mu     sync.RWMutex
-	files  map[string][]byte // last good build
-	failed []string          // problems of the last build, if it failed
-	id     string            // changes with every new build result
+	files  map[string][]byte // last good render
+	failed []string          // problems of the last render, if it failed
+	id     string            // changes with every new render result
 }
 
-// memSite collects a build in memory.
+// memSite collects a render in memory.
 type memSite map[string][]byte
 
 func (m memSite) WriteFile(name string, data []byte) error {
@@ -102,10 +106,10 @@ func (m memSite) WriteFile(name string, data []byte) error {
 	return nil
 }
 
-// rebuild builds the library and records the result. A failed build keeps
-// the previous pages and shows its problems on them.
-func (s *server) rebuild() {
-	files, problems := s.build()
+// rerender renders the library and records the result. A failed render
+// keeps the previous pages and shows its problems on them.
+func (s *preview) rerender() {
+	files, problems := s.render()
 	h := sha256.New()
 	if problems != nil {
 		for _, p := range problems {
@@ -132,14 +136,14 @@ func (s *server) rebuild() {
 	if id != s.id {
 		s.id = id
 		if problems != nil {
-			fmt.Fprintf(s.log, "build failed:\n  %s\n", strings.Join(problems, "\n  "))
+			fmt.Fprintf(s.log, "render failed:\n  %s\n", strings.Join(problems, "\n  "))
 		} else {
-			fmt.Fprintf(s.log, "built %d files (build %s)\n", len(files), id)
+			fmt.Fprintf(s.log, "rendered %d files (render %s)\n", len(files), id)
 		}
 	}
 }
 
-func (s *server) build() (memSite, []string) {
+func (s *preview) render() (memSite, []string) {
 	problems := func(err error) []string {
 		var es library.Errors
 		if errors.As(err, &es) {
@@ -162,24 +166,24 @@ func (s *server) build() (memSite, []string) {
 		return nil, problems(err)
 	}
 	opt := site.Options{Version: s.version}
-	if st, err := fs.Stat(fsys, "templates"); err == nil && st.IsDir() {
-		opt.Templates, _ = fs.Sub(fsys, "templates")
+	if st, err := fs.Stat(fsys, templatesDir); err == nil && st.IsDir() {
+		opt.Templates, _ = fs.Sub(fsys, templatesDir)
 	}
 	out := memSite{}
-	if err := site.Build(lib, opt, out); err != nil {
+	if err := site.Render(lib, opt, out); err != nil {
 		return nil, problems(err)
 	}
 	return out, nil
 }
 
-// buildIDPath answers the current build id; open pages poll it.
-const buildIDPath = "/_skysheet/build-id"
+// renderIDPath answers the current render id; open pages poll it.
+const renderIDPath = "/_skysheet/render-id"
 
-func (s *server) ServeHTTP(w http.ResponseWriter, r *http.Request) {
+func (s *preview) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	s.mu.RLock()
 	files, failed, id := s.files, s.failed, s.id
 	s.mu.RUnlock()
-	if r.URL.Path == buildIDPath {
+	if r.URL.Path == renderIDPath {
 		w.Header().Set("Content-Type", "text/plain; charset=utf-8")
 		w.Header().Set("Cache-Control", "no-store")
 		io.WriteString(w, id)
@@ -201,7 +205,7 @@ func (s *server) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 		if files == nil && failed != nil {
 			w.Header().Set("Content-Type", "text/html; charset=utf-8")
 			w.WriteHeader(http.StatusInternalServerError)
-			io.WriteString(w, liveExtras(id, failed, []byte("<!DOCTYPE html><html><head><meta charset=\"utf-8\"><title>Build failed</title></head><body></body></html>")))
+			io.WriteString(w, liveExtras(id, failed, []byte("<!DOCTYPE html><html><head><meta charset=\"utf-8\"><title>Render failed</title></head><body></body></html>")))
 			return
 		}
 		http.NotFound(w, r)
@@ -219,14 +223,14 @@ func (s *server) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	w.Write(data)
 }
 
-// liveExtras adds to a page, in serve mode only, a script that reloads it
-// when the build id changes and, after a failed build, a banner with the
+// liveExtras adds to a page, in a preview only, a script that reloads it
+// when the render id changes and, after a failed render, a banner with the
 // problems.
 func liveExtras(id string, failed []string, page []byte) string {
-	script := `<script>(function(){var id="` + id + `";function poll(){fetch("` + buildIDPath + `",{cache:"no-store"}).then(function(r){return r.text()}).then(function(t){if(t!==id){location.reload()}else{setTimeout(poll,800)}}).catch(function(){setTimeout(poll,2000)})}setTimeout(poll,800)})();</script>`
+	script := `<script>(function(){var id="` + id + `";function poll(){fetch("` + renderIDPath + `",{cache:"no-store"}).then(function(r){return r.text()}).then(function(t){if(t!==id){location.reload()}else{setTimeout(poll,800)}}).catch(function(){setTimeout(poll,2000)})}setTimeout(poll,800)})();</script>`
 	s := string(page)
 	if len(failed) > 0 {
-		banner := `<div style="position:sticky;top:0;z-index:9;background:#7a1d1d;color:#fff;padding:10px 16px;font:14px/1.4 monospace;white-space:pre-wrap">The last build failed; showing the previous pages.` + "\n" + html.EscapeString(strings.Join(failed, "\n")) + `</div>`
+		banner := `<div style="position:sticky;top:0;z-index:9;background:#7a1d1d;color:#fff;padding:10px 16px;font:14px/1.4 monospace;white-space:pre-wrap">The last render failed; showing the previous pages.` + "\n" + html.EscapeString(strings.Join(failed, "\n")) + `</div>`
 		if i := bodyOpenEnd(s); i >= 0 {
 			s = s[:i] + banner + s[i:]
 		} else {
@@ -252,10 +256,10 @@ func bodyOpenEnd(s string) int {
 	return i + j + 1
 }
 
-// watch rebuilds after changes below the library folder, once no change
-// has come for quiet. It watches every folder (new ones too), except
-// hidden ones.
-func (s *server) watch(ctx context.Context, quiet time.Duration) error {
+// watch renders again after changes below the library folder, once no
+// change has come for quiet. It watches every folder (new ones too), except
+// hidden ones and the site folder that render writes.
+func (s *preview) watch(ctx context.Context, quiet time.Duration) error {
 	w, err := fsnotify.NewWatcher()
 	if err != nil {
 		return err
@@ -266,7 +270,7 @@ func (s *server) watch(ctx context.Context, quiet time.Duration) error {
 			if err != nil || !d.IsDir() {
 				return nil
 			}
-			if p != root && strings.HasPrefix(d.Name(), ".") {
+			if p != root && strings.HasPrefix(d.Name(), ".") || s.ignored(p) {
 				return filepath.SkipDir
 			}
 			w.Add(p)
@@ -284,13 +288,16 @@ func (s *server) watch(ctx context.Context, quiet time.Duration) error {
 			if !ok {
 				return nil
 			}
-			if strings.HasPrefix(filepath.Base(ev.Name), ".") {
-				continue // editor swap files, hidden folders
+			if strings.HasPrefix(filepath.Base(ev.Name), ".") || s.ignored(ev.Name) {
+				continue // editor swap files, hidden folders, the site folder
 			}
 			if ev.Has(fsnotify.Create) {
 				if st, err := os.Stat(ev.Name); err == nil && st.IsDir() {
 					addTree(ev.Name)
 				}
+			}
+			if s.changed != nil {
+				s.changed(ev.Name)
 			}
 			if timer != nil {
 				timer.Stop()
@@ -307,13 +314,20 @@ func (s *server) watch(ctx context.Context, quiet time.Duration) error {
 			}
 			fmt.Fprintf(s.log, "watch: %v\n", err)
 		case <-fire:
-			s.rebuild()
+			s.rerender()
 		}
 	}
 }
 
-// buildID returns the current build id.
-func (s *server) buildID() string {
+// ignored reports whether p, a path below the library folder, is the site
+// folder that render writes by default: its changes are no edits of the
+// library.
+func (s *preview) ignored(p string) bool {
+	return filepath.Clean(p) == filepath.Join(s.dir, siteDir)
+}
+
+// renderID returns the current render id.
+func (s *preview) renderID() string {
 	s.mu.RLock()
 	defer s.mu.RUnlock()
 	return s.id
