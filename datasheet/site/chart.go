@@ -130,7 +130,8 @@ type pointSet struct {
 	box    chart.Box // the plot box, filled while rendering
 }
 
-// svg renders the plot to SVG with role="img" and an aria-label.
+// svg renders the plot to SVG with role="img" ("group" where its
+// points are links) and an aria-label.
 func (p plot) svg(ariaLabel string) (string, error) {
 	var buf bytes.Buffer
 	if err := p.chart().Render(svgRenderer, &buf); err != nil {
@@ -140,7 +141,14 @@ func (p plot) svg(ariaLabel string) (string, error) {
 	if p.points != nil {
 		out = strings.TrimSuffix(out, "</svg>") + p.points.anchors() + "</svg>"
 	}
-	attrs := `<svg role="img" aria-label="` + html.EscapeString(ariaLabel) + `" `
+	// A chart whose points are links is a group, not an image: the
+	// children of an image are presentational and may not be links
+	// (WAI-ARIA 1.2, role img).
+	role := "img"
+	if p.points != nil {
+		role = "group"
+	}
+	attrs := `<svg role="` + role + `" aria-label="` + html.EscapeString(ariaLabel) + `" `
 	return strings.Replace(out, "<svg ", attrs, 1), nil
 }
 
