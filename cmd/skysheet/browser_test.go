@@ -654,6 +654,16 @@ const chartRowsJS = `(() => {
 	};
 })()`
 
+// chartOutsideJS lists the charts whose drawing or caption is not within
+// the chart's frame.
+const chartOutsideJS = `Array.from(document.querySelectorAll('figure.chart')).filter(f => {
+	const r = f.getBoundingClientRect();
+	return Array.from(f.querySelectorAll(':scope > svg, :scope > figcaption')).some(c => {
+		const q = c.getBoundingClientRect();
+		return q.left < r.left - 0.5 || q.right > r.right + 0.5 || q.top < r.top - 0.5 || q.bottom > r.bottom + 0.5;
+	});
+}).map(f => f.id)`
+
 // chartRows is the result of chartRowsJS.
 type chartRows struct {
 	Rows []struct {
@@ -664,7 +674,8 @@ type chartRows struct {
 }
 
 // testChartRows checks on every datasheet and comparison, on a desktop
-// screen, a narrower one and in print, that each row of charts takes the
+// screen, a narrower one and in print, that each chart's drawing lies
+// within its frame (on the index too), that each row of charts takes the
 // whole row (a chart alone in its row does not leave the rest empty), and
 // that every chart of a page is drawn at about one width, so that its text
 // keeps one size.
@@ -684,13 +695,19 @@ func testChartRows(t *testing.T, ctx context.Context, base string, slugs []strin
 		{"print", 718, "print"}, // A4's printable width at 10 mm margins
 	}
 	lone := 0
-	for _, p := range pages {
+	for _, p := range append(pages, "index.html") {
 		if err := chromedp.Do(ctx, chromedp.Navigate(base+"/"+p), settle()); err != nil {
 			t.Fatalf("loading %s: %v", p, err)
 		}
 		for _, l := range layouts {
 			if err := chromedp.Do(ctx, chromedp.EmulateViewport(l.width, 1000), emulateMedia(l.media), chromedp.Sleep(50*time.Millisecond)); err != nil {
 				t.Fatal(err)
+			}
+			for _, id := range eval[[]string](t, ctx, chartOutsideJS) {
+				t.Errorf("%s at %s: the drawing of chart %q runs outside its frame", p, l.name, id)
+			}
+			if p == "index.html" {
+				continue
 			}
 			got := eval[chartRows](t, ctx, chartRowsJS)
 			if len(got.SVGs) == 0 {
@@ -848,5 +865,77 @@ func testAxe(t *testing.T, ctx context.Context, base string) {
 				}
 			}
 		}
+	}
+}
+
+// TestFigureHeadingsExplained renders the demo library and checks the
+// headings of every datasheet's figure table: plain words, no shorthand,
+// and for each term a reader may not know, a link to a note on the same
+// page that explains it.
+func TestFigureHeadingsExplained(t *testing.T) {
+	out := t.TempDir()
+	if code, stdout, stderr := runCLI("render", "--site", out, "../.."); code != 0 {
+		t.Fatalf("skysheet render of the demo library exited %d\nstdout:\n%s\nstderr:\n%s", code, stdout, stderr)
+	}
+	pages, err := filepath.Glob(filepath.Join(out, "m", "*", "index.html"))
+	if err != nil || len(pages) == 0 {
+		t.Fatalf("no datasheets rendered: %v", err)
+	}
+	thead := regexp.MustCompile(`(?s)<table class="figures">\s*<thead>(.*?)</thead>`)
+	th := regexp.MustCompile(`(?s)<th scope="col"[^>]*>(.*?)</th>`)
+	tag := regexp.MustCompile(`<[^>]*>`)
+	ref := regexp.MustCompile(`<a class="note-ref" href="#([^"]+)"`)
+	// shorthand the headings once used; the notes spell these out
+	jargon := []string{"indep.", "together", "Std.", "σ", "k ="}
+	withUnc := 0
+	for _, p := range pages {
+		b, err := os.ReadFile(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		page := string(b)
+		name, _ := filepath.Rel(out, p)
+		m := thead.FindStringSubmatch(page)
+		if m == nil {
+			t.Errorf("%s: no figure table", name)
+			continue
+		}
+		explained := map[string]bool{}
+		for _, h := range th.FindAllStringSubmatch(m[1], -1) {
+			words := html.UnescapeString(tag.ReplaceAllString(h[1], " "))
+			for _, j := range jargon {
+				if strings.Contains(words, j) {
+					t.Errorf("%s: the heading %q uses the shorthand %q", name, strings.Join(strings.Fields(words), " "), j)
+				}
+			}
+			label := strings.Fields(words)[0]
+			for _, r := range ref.FindAllStringSubmatch(h[1], -1) {
+				note := regexp.MustCompile(`(?s)id="` + regexp.QuoteMeta(r[1]) + `"><dt>([^<]+)</dt><dd>(.+?)</dd>`).FindStringSubmatch(page)
+				if note == nil {
+					t.Errorf("%s: heading %s links to #%s, which is not a note (dt and dd) on the page", name, label, r[1])
+					continue
+				}
+				if len(strings.Fields(tag.ReplaceAllString(note[2], " "))) < 12 {
+					t.Errorf("%s: the note on %s is too short to explain it: %q", name, note[1], note[2])
+				}
+				explained[label] = true
+			}
+		}
+		want := []string{"Weighting", "Coverage"}
+		if strings.Contains(m[1], "Uncertainty") {
+			want = append(want, "Uncertainty")
+			withUnc++
+		}
+		for _, w := range want {
+			if !explained[w] {
+				t.Errorf("%s: the heading %s has no link to a note explaining it", name, w)
+			}
+		}
+		if strings.Contains(page, "Closure check") {
+			t.Errorf("%s: says \"Closure check\"; the energy balance R + T + A = 1 is meant", name)
+		}
+	}
+	if withUnc == 0 {
+		t.Error("no demo datasheet has an uncertainty column: its note went unchecked")
 	}
 }
