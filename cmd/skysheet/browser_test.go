@@ -555,7 +555,10 @@ const printableWidthJS = `(() => {
 
 // chartTextJS finds the smallest chart text as drawn, in points: each
 // text's font size in SVG units times the drawn width of its SVG over the
-// width of its viewBox, at 72 pt to 96 CSS px.
+// width of its viewBox, at 72 pt to 96 CSS px. Checked once against a
+// printed A4 PDF: the word boxes that poppler's pdftotext -bbox gives for
+// chart text, over the ascent plus descent of the font used (Liberation
+// Sans, 1.117 em), came to 7.39 pt where this gave 7.37 pt.
 const chartTextJS = `(() => {
 	let min = Infinity, where = '', n = 0;
 	for (const svg of document.querySelectorAll('figure.chart svg')) {
