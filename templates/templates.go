@@ -8,7 +8,8 @@
 // one named template: "index", "datasheet", "listing", "compare" and
 // "review". They share "top" and "bottom" (layout.html), which in turn call
 // the blocks "head-extra", "site-header" and "site-footer", and the pieces
-// "verdict", "claim-detail" and "pitfall" that show a judged claim. A file in the library's
+// "verdict", "claim-detail" and "pitfall" that show a judged claim, and
+// "note-ref", a link from a table heading to the note that explains it. A file in the library's
 // templates/ folder is parsed after the defaults, so a {{define}} in it
 // replaces the default of that name; a file with a default's name (say
 // datasheet.html) replaces the templates that file defines.

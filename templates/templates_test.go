@@ -12,7 +12,7 @@ func TestParse(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for _, name := range []string{"index", "datasheet", "listing", "compare", "review", "top", "bottom", "site-header", "site-footer", "head-extra", "chart", "material-table", "verdict", "claim-detail", "pitfall", "review-table"} {
+	for _, name := range []string{"index", "datasheet", "listing", "compare", "review", "top", "bottom", "site-header", "site-footer", "head-extra", "chart", "material-table", "verdict", "claim-detail", "pitfall", "review-table", "note-ref"} {
 		if tm.Lookup(name) == nil {
 			t.Errorf("template %q is not defined", name)
 		}

@@ -15,12 +15,15 @@ import (
 	"path"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"sort"
 	"strings"
 	"sync"
 	"testing"
 	"time"
 
+	"github.com/chromedp/cdproto/cdp"
+	"github.com/chromedp/cdproto/emulation"
 	"github.com/chromedp/chromedp"
 )
 
@@ -30,9 +33,12 @@ const chromiumPath = "/usr/bin/chromium"
 // TestBrowser renders the demo library (the repository root) in-process,
 // serves it on 127.0.0.1 and drives headless Chromium through it: the index
 // loads without console errors, the table sorts and filters, a datasheet
-// shows its charts and figure table, every internal link resolves, and each
-// datasheet prints to at most two A4 pages. With SKYSHEET_PRINT_DIR set, the
-// prints are kept there.
+// shows its charts and figure table, every internal link resolves, a chart
+// alone in its row takes the row, each datasheet prints to at most two
+// pages of A4 and of US Letter with chart text of at least 7 pt, the pages
+// work on a phone 390 px wide, and the accessibility rules of axe-core find
+// nothing serious on any kind of page. With SKYSHEET_PRINT_DIR set, the
+// prints and phone screenshots are kept there.
 func TestBrowser(t *testing.T) {
 	if _, err := os.Stat(chromiumPath); err != nil {
 		if os.Getenv("CI") != "" {
@@ -49,7 +55,7 @@ func TestBrowser(t *testing.T) {
 
 	// A guard only: the whole test takes a few seconds. The browser's life is
 	// bound to this context, so no shorter timeout is set on it.
-	ctx, cancel := context.WithTimeout(context.Background(), 2*time.Minute)
+	ctx, cancel := context.WithTimeout(context.Background(), 5*time.Minute)
 	defer cancel()
 	opts := []chromedp.ExecAllocatorOption{
 		chromedp.ExecPath(chromiumPath),
@@ -82,7 +88,10 @@ func TestBrowser(t *testing.T) {
 	t.Run("Filter", func(t *testing.T) { testFilter(t, bctx, slugs) })
 	t.Run("Datasheet", func(t *testing.T) { testDatasheet(t, bctx, srv.URL, con) })
 	t.Run("Links", func(t *testing.T) { testLinks(t, srv) })
+	t.Run("ChartRows", func(t *testing.T) { testChartRows(t, bctx, srv.URL, slugs) })
 	t.Run("PrintPDF", func(t *testing.T) { testPrint(t, bctx, srv.URL, slugs) })
+	t.Run("Phone", func(t *testing.T) { testPhone(t, bctx, srv, slugs) })
+	t.Run("Accessibility", func(t *testing.T) { testAxe(t, bctx, srv.URL) })
 }
 
 // consoleLog collects console errors, uncaught exceptions and browser log
@@ -504,7 +513,76 @@ func TestPDFPageObjects(t *testing.T) {
 	}
 }
 
+// papers are the paper sizes a datasheet must print on in two pages:
+// A4 is 210 × 297 mm = 8.27 × 11.69 in (ISO 216), US Letter 8.5 × 11 in
+// (ANSI/ASME Y14.1).
+var papers = []struct {
+	name string
+	size chromedp.PaperSize
+}{
+	{"A4", chromedp.PaperA4},
+	{"Letter", chromedp.PaperLetter},
+}
+
+// minPrintPt is the smallest chart text allowed in print, in points: the
+// size of small print on a datasheet (common practice, no source).
+const minPrintPt = 7.0
+
+// emulateMedia makes the page lay itself out for the given CSS media type
+// ("print"), or for its own again ("").
+func emulateMedia(media string) chromedp.Action[chromedp.Void] {
+	return chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
+		_, err := cdp.Call(ctx, t, emulation.SetEmulatedMedia, emulation.SetEmulatedMediaParams{Media: media})
+		return err
+	})
+}
+
+// printableWidthJS gives the width in CSS px of the printable area of a
+// paper %g inches wide: the paper less the left and right margins of the
+// stylesheet's @page rule (Chrome lays a print out at 96 CSS px per inch).
+const printableWidthJS = `(() => {
+	let left = '0px', right = '0px';
+	for (const s of document.styleSheets) for (const r of s.cssRules) if (r.type === CSSRule.PAGE_RULE) {
+		left = r.style.marginLeft || left; right = r.style.marginRight || right;
+	}
+	const d = document.createElement('div');
+	d.style.cssText = 'position:absolute;left:0;top:0;height:1px;width:calc(%gin - ' + left + ' - ' + right + ')';
+	document.body.appendChild(d);
+	const w = d.getBoundingClientRect().width;
+	d.remove();
+	return w;
+})()`
+
+// chartTextJS finds the smallest chart text as drawn, in points: each
+// text's font size in SVG units times the drawn width of its SVG over the
+// width of its viewBox, at 72 pt to 96 CSS px. Checked once against a
+// printed A4 PDF: the word boxes that poppler's pdftotext -bbox gives for
+// chart text, over the ascent plus descent of the font used (Liberation
+// Sans, 1.117 em), came to 7.39 pt where this gave 7.37 pt.
+const chartTextJS = `(() => {
+	let min = Infinity, where = '', n = 0;
+	for (const svg of document.querySelectorAll('figure.chart svg')) {
+		const r = svg.getBoundingClientRect(), vb = svg.viewBox.baseVal;
+		if (!r.width || !vb || !vb.width) continue;
+		for (const t of svg.querySelectorAll('text')) {
+			if (!t.textContent.trim()) continue;
+			n++;
+			const pt = parseFloat(getComputedStyle(t).fontSize) * r.width / vb.width * 72 / 96;
+			if (pt < min) { min = pt; where = svg.closest('figure').id + ': "' + t.textContent + '"'; }
+		}
+	}
+	return {pt: n ? min : 0, where: where, n: n};
+})()`
+
+// chartText is the result of chartTextJS.
+type chartText struct {
+	PT    float64 `json:"pt"`
+	Where string  `json:"where"`
+	N     int     `json:"n"`
+}
+
 func testPrint(t *testing.T, ctx context.Context, base string, slugs []string) {
+	defer chromedp.Do(ctx, emulateMedia(""), chromedp.ResetViewport())
 	for _, slug := range slugs {
 		err := chromedp.Do(ctx,
 			chromedp.Navigate(base+"/m/"+slug+"/index.html"),
@@ -514,23 +592,353 @@ func testPrint(t *testing.T, ctx context.Context, base string, slugs []string) {
 		if err != nil {
 			t.Fatalf("loading m/%s/: %v", slug, err)
 		}
-		// A4 is 210 × 297 mm = 8.27 × 11.69 in (ISO 216)
-		pdf, err := chromedp.Run(ctx, chromedp.PrintToPDF(chromedp.PDFPaper(chromedp.PaperA4)))
-		if err != nil {
-			t.Fatalf("printing m/%s/: %v", slug, err)
+		for _, paper := range papers {
+			pdf, err := chromedp.Run(ctx, chromedp.PrintToPDF(chromedp.PDFPaper(paper.size)))
+			if err != nil {
+				t.Fatalf("printing m/%s/ on %s: %v", slug, paper.name, err)
+			}
+			if dir := os.Getenv("SKYSHEET_PRINT_DIR"); dir != "" {
+				// keep the prints to look at them (e.g. with pdftoppm)
+				if err := os.WriteFile(filepath.Join(dir, slug+"-"+paper.name+".pdf"), pdf, 0o644); err != nil {
+					t.Error(err)
+				}
+			}
+			n := len(pageObject.FindAll(pdf, -1))
+			switch {
+			case n == 0:
+				t.Errorf("m/%s/: no page objects found in the %d-byte %s PDF", slug, len(pdf), paper.name)
+			case n > 2:
+				t.Errorf("m/%s/ prints to %d %s pages, want at most 2", slug, n, paper.name)
+			}
+
+			// The chart text as printed: the page laid out for print at the
+			// width of the paper's printable area.
+			w := eval[float64](t, ctx, fmt.Sprintf(printableWidthJS, paper.size.Width))
+			if w < 500 || w > 820 {
+				t.Fatalf("printable width on %s worked out at %g CSS px; the @page margins do not parse", paper.name, w)
+			}
+			if err := chromedp.Do(ctx, chromedp.EmulateViewport(int64(w), 1000), emulateMedia("print"), chromedp.Sleep(50*time.Millisecond)); err != nil {
+				t.Fatal(err)
+			}
+			txt := eval[chartText](t, ctx, chartTextJS)
+			if err := chromedp.Do(ctx, emulateMedia(""), chromedp.ResetViewport()); err != nil {
+				t.Fatal(err)
+			}
+			if txt.N == 0 {
+				t.Errorf("m/%s/ on %s: no chart text found", slug, paper.name)
+				continue
+			}
+			if txt.PT < minPrintPt {
+				t.Errorf("m/%s/ on %s: chart text prints at %.2f pt (%s), want at least %g pt", slug, paper.name, txt.PT, txt.Where, minPrintPt)
+			}
+			t.Logf("m/%s/ on %s: %d pages, smallest chart text %.2f pt", slug, paper.name, n, txt.PT)
+		}
+	}
+}
+
+// chartRowsJS groups the charts of a page into rows (by their top) and
+// reports, for each row, the share of the row's width its charts and the
+// gaps between them take, and the drawn width of every chart's SVG.
+const chartRowsJS = `(() => {
+	const box = document.querySelector('.charts');
+	if (!box) return {rows: [], svgs: []};
+	const cw = box.getBoundingClientRect().width;
+	const gap = parseFloat(getComputedStyle(box).columnGap) || 0;
+	const rows = new Map();
+	for (const f of box.querySelectorAll(':scope > figure.chart')) {
+		const r = f.getBoundingClientRect(), top = Math.round(r.top);
+		if (!rows.has(top)) rows.set(top, []);
+		rows.get(top).push({id: f.id, w: r.width});
+	}
+	return {
+		rows: Array.from(rows.values()).map(fs => ({ids: fs.map(f => f.id).join(' '),
+			share: (fs.reduce((a, f) => a + f.w, 0) + gap * (fs.length - 1)) / cw})),
+		svgs: Array.from(box.querySelectorAll('figure.chart svg')).map(s => s.getBoundingClientRect().width),
+	};
+})()`
+
+// chartOutsideJS lists the charts whose drawing or caption is not within
+// the chart's frame.
+const chartOutsideJS = `Array.from(document.querySelectorAll('figure.chart')).filter(f => {
+	const r = f.getBoundingClientRect();
+	return Array.from(f.querySelectorAll(':scope > svg, :scope > figcaption')).some(c => {
+		const q = c.getBoundingClientRect();
+		return q.left < r.left - 0.5 || q.right > r.right + 0.5 || q.top < r.top - 0.5 || q.bottom > r.bottom + 0.5;
+	});
+}).map(f => f.id)`
+
+// chartRows is the result of chartRowsJS.
+type chartRows struct {
+	Rows []struct {
+		IDs   string  `json:"ids"`
+		Share float64 `json:"share"`
+	} `json:"rows"`
+	SVGs []float64 `json:"svgs"`
+}
+
+// testChartRows checks on every datasheet and comparison, on a desktop
+// screen, a narrower one and in print, that each chart's drawing lies
+// within its frame (on the index too), that each row of charts takes the
+// whole row (a chart alone in its row does not leave the rest empty), and
+// that every chart of a page is drawn at about one width, so that its text
+// keeps one size.
+func testChartRows(t *testing.T, ctx context.Context, base string, slugs []string) {
+	defer chromedp.Do(ctx, emulateMedia(""), chromedp.ResetViewport())
+	pages := []string{"compare/white-roof-surfaces/index.html", "compare/metal-backed/index.html"}
+	for _, s := range slugs {
+		pages = append(pages, "m/"+s+"/index.html")
+	}
+	layouts := []struct {
+		name  string
+		width int64
+		media string
+	}{
+		{"1280 px", 1280, ""},
+		{"800 px", 800, ""},
+		{"print", 718, "print"}, // A4's printable width at 10 mm margins
+	}
+	lone := 0
+	for _, p := range append(pages, "index.html") {
+		if err := chromedp.Do(ctx, chromedp.Navigate(base+"/"+p), settle()); err != nil {
+			t.Fatalf("loading %s: %v", p, err)
+		}
+		for _, l := range layouts {
+			if err := chromedp.Do(ctx, chromedp.EmulateViewport(l.width, 1000), emulateMedia(l.media), chromedp.Sleep(50*time.Millisecond)); err != nil {
+				t.Fatal(err)
+			}
+			for _, id := range eval[[]string](t, ctx, chartOutsideJS) {
+				t.Errorf("%s at %s: the drawing of chart %q runs outside its frame", p, l.name, id)
+			}
+			if p == "index.html" {
+				continue
+			}
+			got := eval[chartRows](t, ctx, chartRowsJS)
+			if len(got.SVGs) == 0 {
+				t.Errorf("%s: no charts", p)
+				continue
+			}
+			for _, r := range got.Rows {
+				if !strings.Contains(r.IDs, " ") {
+					lone++
+				}
+				if r.Share < 0.97 {
+					t.Errorf("%s at %s: the row of charts %q takes %.0f %% of the width, want all of it", p, l.name, r.IDs, 100*r.Share)
+				}
+			}
+			lo, hi := slices.Min(got.SVGs), slices.Max(got.SVGs)
+			if hi > lo*1.1 {
+				t.Errorf("%s at %s: charts drawn from %.0f to %.0f px wide, want one width (±10 %%) so that their text keeps one size", p, l.name, lo, hi)
+			}
+		}
+	}
+	if lone == 0 {
+		t.Error("no chart stood alone in its row on any page or layout: the check above checked nothing")
+	}
+}
+
+// phoneW and phoneH are the size of a phone screen in CSS px.
+const phoneW, phoneH = 390, 844
+
+// reachableJS scrolls each cell of the first row of the library table into
+// view in turn and reports those that are then not visible within the
+// screen, are covered by something else, or leave the material's name
+// (the first line of the row's title cell) out of view, so that a figure
+// could not be told apart from the next row's.
+const reachableJS = `(() => {
+	const bad = [];
+	const row = document.querySelector('#library-table tbody tr[data-slug]');
+	const title = row.querySelector('td[data-key="title"]');
+	const seen = (c, what) => {
+		const r = c.getBoundingClientRect();
+		const x = r.left + r.width / 2, y = r.top + Math.min(r.height / 2, 10);
+		const hit = document.elementFromPoint(x, y);
+		if (r.left < -0.5 || r.right > innerWidth + 0.5 || !hit || !c.contains(hit)) bad.push(what + ' at ' + Math.round(r.left) + '–' + Math.round(r.right) + ' px');
+	};
+	for (const c of row.querySelectorAll('td[data-key]')) {
+		c.scrollIntoView({block: 'center', inline: 'nearest'});
+		seen(c, c.dataset.key);
+		if (c !== title) seen(title, 'the material name beside ' + c.dataset.key);
+	}
+	for (const s of document.querySelectorAll('.table-scroll')) s.scrollLeft = 0;
+	scrollTo(0, 0);
+	return bad;
+})()`
+
+// testPhone checks the pages on a phone screen: no page scrolls sideways,
+// every figure of the library table can be scrolled into view, and the
+// table still sorts and filters.
+func testPhone(t *testing.T, ctx context.Context, srv *httptest.Server, slugs []string) {
+	defer chromedp.Do(ctx, chromedp.ResetViewport())
+	if err := chromedp.Do(ctx, chromedp.EmulateViewport(phoneW, phoneH, chromedp.EmulateMobile)); err != nil {
+		t.Fatal(err)
+	}
+	for _, p := range pageKinds {
+		if err := chromedp.Do(ctx, chromedp.Navigate(srv.URL+"/"+p), settle()); err != nil {
+			t.Fatalf("loading %s: %v", p, err)
+		}
+		if w := eval[float64](t, ctx, `document.documentElement.scrollWidth`); w > phoneW {
+			t.Errorf("%s at %d px: the page is %g px wide and scrolls sideways", p, phoneW, w)
 		}
 		if dir := os.Getenv("SKYSHEET_PRINT_DIR"); dir != "" {
-			// keep the prints to look at them (e.g. with pdftoppm)
-			if err := os.WriteFile(filepath.Join(dir, slug+".pdf"), pdf, 0o644); err != nil {
+			png, err := chromedp.Run(ctx, chromedp.FullScreenshot(100))
+			if err == nil {
+				err = os.WriteFile(filepath.Join(dir, "phone-"+strings.NewReplacer("/", "-", ".html", "").Replace(p)+".png"), png, 0o644)
+			}
+			if err != nil {
 				t.Error(err)
 			}
 		}
-		n := len(pageObject.FindAll(pdf, -1))
-		switch {
-		case n == 0:
-			t.Errorf("m/%s/: no page objects found in the %d-byte PDF", slug, len(pdf))
-		case n > 2:
-			t.Errorf("m/%s/ prints to %d A4 pages, want at most 2", slug, n)
+	}
+	if err := chromedp.Do(ctx, chromedp.Navigate(srv.URL+"/index.html"), settle()); err != nil {
+		t.Fatal(err)
+	}
+	cells := eval[int](t, ctx, `document.querySelectorAll('#library-table tbody tr[data-slug]:first-child td.num[data-key]').length`)
+	if cells < 3 {
+		t.Fatalf("the first row of the library table has %d figure cells, want at least 3", cells)
+	}
+	for _, c := range eval[[]string](t, ctx, reachableJS) {
+		t.Errorf("index at %d px, first row, scrolled to each figure: %s is not in view", phoneW, c)
+	}
+	testSort(t, ctx, srv, slugs)
+	testFilter(t, ctx, slugs)
+}
+
+// pageKinds are one page of every kind of the demo site.
+var pageKinds = []string{
+	"index.html",
+	"m/bw-93/index.html",
+	"materials/by-category/paint/index.html",
+	"compare/white-roof-surfaces/index.html",
+	"review/index.html",
+}
+
+// axeScript is axe-core's browser bundle as installed by
+// `npm ci --prefix testdata/axe` (see .ci/run).
+const axeScript = "../../testdata/axe/node_modules/axe-core/axe.min.js"
+
+// axeRunJS runs every axe-core rule on the page and returns the
+// violations.
+const axeRunJS = `axe.run(document, {resultTypes: ['violations']}).then(r => r.violations.map(v => ({
+	id: v.id, impact: v.impact || '', help: v.help,
+	targets: v.nodes.map(n => n.target.join(' ') + (n.failureSummary ? ' (' + n.failureSummary.replace(/\s+/g, ' ') + ')' : '')),
+})))`
+
+// axeViolation is one violated rule of axe-core with the elements that
+// violate it.
+type axeViolation struct {
+	ID      string   `json:"id"`
+	Impact  string   `json:"impact"`
+	Help    string   `json:"help"`
+	Targets []string `json:"targets"`
+}
+
+// testAxe runs axe-core on one page of every kind at desktop and phone
+// width and fails on every violation of impact "serious" or "critical";
+// lesser ones are logged.
+func testAxe(t *testing.T, ctx context.Context, base string) {
+	src, err := os.ReadFile(axeScript)
+	if err != nil {
+		if os.Getenv("CI") != "" {
+			t.Fatalf("axe-core unavailable in CI: %v (run npm ci --prefix testdata/axe)", err)
 		}
+		t.Skipf("axe-core unavailable: %v (run npm ci --prefix testdata/axe)", err)
+	}
+	defer chromedp.Do(ctx, chromedp.ResetViewport())
+	for _, w := range []int64{1280, phoneW} {
+		for _, p := range pageKinds {
+			err := chromedp.Do(ctx,
+				chromedp.EmulateViewport(w, 900),
+				chromedp.Navigate(base+"/"+p),
+				settle(),
+				chromedp.Evaluate[chromedp.Void](string(src)),
+			)
+			if err != nil {
+				t.Fatalf("loading %s with axe-core: %v", p, err)
+			}
+			vs, err := chromedp.Run(ctx, chromedp.Evaluate[[]axeViolation](axeRunJS, chromedp.EvalAwaitPromise))
+			if err != nil {
+				t.Fatalf("running axe-core on %s: %v", p, err)
+			}
+			for _, v := range vs {
+				msg := fmt.Sprintf("%s at %d px: %s (%s): %s\n\t%s", p, w, v.ID, v.Impact, v.Help, strings.Join(v.Targets, "\n\t"))
+				if v.Impact == "serious" || v.Impact == "critical" {
+					t.Error(msg)
+				} else {
+					t.Log(msg)
+				}
+			}
+		}
+	}
+}
+
+// TestFigureHeadingsExplained renders the demo library and checks the
+// headings of every datasheet's figure table: plain words, no shorthand,
+// and for each term a reader may not know, a link to a note on the same
+// page that explains it.
+func TestFigureHeadingsExplained(t *testing.T) {
+	out := t.TempDir()
+	if code, stdout, stderr := runCLI("render", "--site", out, "../.."); code != 0 {
+		t.Fatalf("skysheet render of the demo library exited %d\nstdout:\n%s\nstderr:\n%s", code, stdout, stderr)
+	}
+	pages, err := filepath.Glob(filepath.Join(out, "m", "*", "index.html"))
+	if err != nil || len(pages) == 0 {
+		t.Fatalf("no datasheets rendered: %v", err)
+	}
+	thead := regexp.MustCompile(`(?s)<table class="figures">\s*<thead>(.*?)</thead>`)
+	th := regexp.MustCompile(`(?s)<th scope="col"[^>]*>(.*?)</th>`)
+	tag := regexp.MustCompile(`<[^>]*>`)
+	ref := regexp.MustCompile(`<a class="note-ref" href="#([^"]+)"`)
+	// shorthand the headings once used; the notes spell these out
+	jargon := []string{"indep.", "together", "Std.", "σ", "k ="}
+	withUnc := 0
+	for _, p := range pages {
+		b, err := os.ReadFile(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		page := string(b)
+		name, _ := filepath.Rel(out, p)
+		m := thead.FindStringSubmatch(page)
+		if m == nil {
+			t.Errorf("%s: no figure table", name)
+			continue
+		}
+		explained := map[string]bool{}
+		for _, h := range th.FindAllStringSubmatch(m[1], -1) {
+			words := html.UnescapeString(tag.ReplaceAllString(h[1], " "))
+			for _, j := range jargon {
+				if strings.Contains(words, j) {
+					t.Errorf("%s: the heading %q uses the shorthand %q", name, strings.Join(strings.Fields(words), " "), j)
+				}
+			}
+			label := strings.Fields(words)[0]
+			for _, r := range ref.FindAllStringSubmatch(h[1], -1) {
+				note := regexp.MustCompile(`(?s)id="` + regexp.QuoteMeta(r[1]) + `"><dt>([^<]+)</dt><dd>(.+?)</dd>`).FindStringSubmatch(page)
+				if note == nil {
+					t.Errorf("%s: heading %s links to #%s, which is not a note (dt and dd) on the page", name, label, r[1])
+					continue
+				}
+				if len(strings.Fields(tag.ReplaceAllString(note[2], " "))) < 12 {
+					t.Errorf("%s: the note on %s is too short to explain it: %q", name, note[1], note[2])
+				}
+				explained[label] = true
+			}
+		}
+		want := []string{"Weighting", "Coverage"}
+		if strings.Contains(m[1], "Uncertainty") {
+			want = append(want, "Uncertainty")
+			withUnc++
+		}
+		for _, w := range want {
+			if !explained[w] {
+				t.Errorf("%s: the heading %s has no link to a note explaining it", name, w)
+			}
+		}
+		if strings.Contains(page, "Closure check") {
+			t.Errorf("%s: says \"Closure check\"; the energy balance R + T + A = 1 is meant", name)
+		}
+	}
+	if withUnc == 0 {
+		t.Error("no demo datasheet has an uncertainty column: its note went unchecked")
 	}
 }

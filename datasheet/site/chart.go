@@ -52,17 +52,20 @@ var (
 	}
 )
 
-// px is a length in SVG units. A datasheet chart is drawn at about 0.9 of
-// its own size on a desktop page, so text sizes in px are close to the
-// size seen on screen.
+// px is a length in SVG units. A datasheet chart (chartW units wide) is
+// drawn about 320 px wide, three to a row, on a desktop page and about
+// 58 mm wide, three to a row, on printed A4 or Letter, so that one unit
+// comes out at about 0.9 px on screen and 0.16 mm in print.
 type px float64
 
-// Text sizes of every chart.
+// Text sizes of every chart: 16 units print at 7.3 pt on a chart 58 mm
+// wide (16 × 58 / 360 mm), the smallest size the print test allows being
+// 7 pt (cmd/skysheet/browser_test.go), and show at about 14 px on screen.
 const (
-	textTick   px = 14   // tick labels
-	textName   px = 14.5 // axis titles
-	textLegend px = 14   // legend entries
-	textLabel  px = 13.5 // labels of points and bands
+	textTick   px = 16 // tick labels
+	textName   px = 16 // axis titles
+	textLegend px = 16 // legend entries
+	textLabel  px = 16 // labels of points and bands
 )
 
 // points converts a size to the points go-chart takes at its DPI.
@@ -127,7 +130,8 @@ type pointSet struct {
 	box    chart.Box // the plot box, filled while rendering
 }
 
-// svg renders the plot to SVG with role="img" and an aria-label.
+// svg renders the plot to SVG with role="img" ("group" where its
+// points are links) and an aria-label.
 func (p plot) svg(ariaLabel string) (string, error) {
 	var buf bytes.Buffer
 	if err := p.chart().Render(svgRenderer, &buf); err != nil {
@@ -137,7 +141,14 @@ func (p plot) svg(ariaLabel string) (string, error) {
 	if p.points != nil {
 		out = strings.TrimSuffix(out, "</svg>") + p.points.anchors() + "</svg>"
 	}
-	attrs := `<svg role="img" aria-label="` + html.EscapeString(ariaLabel) + `" `
+	// A chart whose points are links is a group, not an image: the
+	// children of an image are presentational and may not be links
+	// (WAI-ARIA 1.2, role img).
+	role := "img"
+	if p.points != nil {
+		role = "group"
+	}
+	attrs := `<svg role="` + role + `" aria-label="` + html.EscapeString(ariaLabel) + `" `
 	return strings.Replace(out, "<svg ", attrs, 1), nil
 }
 
@@ -147,7 +158,7 @@ var defaultFont = sync.OnceValues(chart.GetDefaultFont)
 
 // Margins of the chart around the plot and its axes.
 const (
-	padTop, padLeft, padRight, padBottom = 36, 10, 24, 6
+	padTop, padLeft, padRight, padBottom = 40, 10, 18, 6
 )
 
 // chart returns the go-chart description of the plot.
@@ -157,17 +168,35 @@ func (p plot) chart() chart.Chart {
 	// The height allows for two rows of legend; a longer legend makes the
 	// chart taller rather than the plot smaller.
 	p.height += max(0, lg.rows-legendRows) * legendRow
+	// Band labels take a row of their own between the y-axis title and
+	// the plot, which is that much shorter.
+	top := padTop
+	if p.bandLabelled() {
+		top += bandLabelRow
+	}
 	c := chart.Chart{
 		Font:       f,
 		Width:      p.width,
 		Height:     p.height,
-		Background: chart.Style{Padding: chart.Box{Top: padTop, Left: padLeft, Right: padRight, Bottom: padBottom + lg.height()}, FillColor: drawing.ColorWhite},
+		Background: chart.Style{Padding: chart.Box{Top: top, Left: padLeft, Right: padRight, Bottom: padBottom + lg.height()}, FillColor: drawing.ColorWhite},
 		Canvas:     chart.Style{FillColor: drawing.ColorWhite},
 	}
 	axisStyle := chart.Style{StrokeColor: colAxis.color(), StrokeWidth: 1, FontColor: colText.color(), FontSize: textTick.points()}
 	nameStyle := chart.Style{FontColor: colText.color(), FontSize: textName.points()}
 	xt := ticks(p.xLo, p.xHi, p.xTicks, p.xFmt, 7)
 	yt := ticks(p.yLo, p.yHi, p.yTicks, p.yFmt, 6)
+	// Labels that would run into each other on this chart's axes lose
+	// their text (the grid line stays): the plot is about the chart less
+	// its margins and the y tick labels wide, and its height less the
+	// margins, the x axis and the legend.
+	yw := 0
+	for _, t := range yt {
+		yw = max(yw, textWidth(t.Label, textTick))
+	}
+	plotW := p.width - padLeft - padRight - yw - 10
+	plotH := p.height - top - padBottom - lg.height() - 3*int(textTick)
+	xt = spaceLabels(xt, p.xLo, p.xHi, float64(plotW), func(l string) float64 { return float64(textWidth(l, textTick)) + 6 })
+	yt = spaceLabels(yt, p.yLo, p.yHi, float64(plotH), func(string) float64 { return float64(textTick) + 2 })
 	c.XAxis = chart.XAxis{Name: p.xName, NameStyle: nameStyle, Style: axisStyle, Ticks: xt}
 	// go-chart draws its primary y axis on the right; ours is on the left
 	// (the secondary axis). The hidden primary axis carries the same ticks
@@ -235,7 +264,7 @@ func (p plot) chart() chart.Chart {
 	if p.points != nil {
 		c.Series = append(c.Series, &pointSeries{set: p.points})
 	}
-	c.Elements = []chart.Renderable{yTitle(p.yName, nameStyle), bandLabels(p, bands)}
+	c.Elements = []chart.Renderable{yTitle(p.yName, nameStyle, top-padTop), bandLabels(p, bands)}
 	if len(lg.entries) > 0 {
 		c.Elements = append(c.Elements, lg.draw(p))
 	}
@@ -245,8 +274,22 @@ func (p plot) chart() chart.Chart {
 // yTitleX is where the y-axis title starts.
 const yTitleX = 10
 
-// yTitle writes the y-axis title level, above the top left of the plot.
-func yTitle(name string, st chart.Style) chart.Renderable {
+// bandLabelRow is the height of the row of band labels above the plot.
+const bandLabelRow = 20
+
+// bandLabelled tells whether any band of the plot has a label.
+func (p plot) bandLabelled() bool {
+	for _, b := range p.bands {
+		if b.label != "" && math.Min(b.hi, p.xHi) > math.Max(b.lo, p.xLo) {
+			return true
+		}
+	}
+	return false
+}
+
+// yTitle writes the y-axis title level, above the top left of the plot,
+// raised by up above the row of band labels, if any.
+func yTitle(name string, st chart.Style, up int) chart.Renderable {
 	return func(r chart.Renderer, box chart.Box, defaults chart.Style) {
 		if name == "" {
 			return
@@ -255,20 +298,17 @@ func yTitle(name string, st chart.Style) chart.Renderable {
 		r.SetFont(defaults.GetFont())
 		r.SetFontSize(st.FontSize)
 		r.SetFontColor(st.FontColor)
-		r.Text(name, yTitleX, box.Top-12)
+		r.Text(name, yTitleX, box.Top-12-up)
 	}
 }
 
-// bandLabels writes the labels of the bands above the plot, centred on
-// each band, leaving out a label that would run into the y-axis title,
-// another label or the edge of the chart; the legend names every band in
-// full anyway.
+// bandLabels writes the labels of the bands in their row above the plot,
+// centred on each band, leaving out a label that would run into another
+// label or the edge of the chart; the legend names every band in full
+// anyway.
 func bandLabels(p plot, bands []band) chart.Renderable {
 	return func(r chart.Renderer, box chart.Box, defaults chart.Style) {
 		taken := 0
-		if p.yName != "" {
-			taken = yTitleX + textWidth(p.yName, textName) + 10
-		}
 		xr := chart.ContinuousRange{Min: p.xLo, Max: p.xHi, Domain: box.Width()}
 		for _, b := range bands {
 			if b.label == "" {
@@ -290,7 +330,7 @@ func bandLabels(p plot, bands []band) chart.Renderable {
 				col = colText
 			}
 			r.SetFontColor(col.color())
-			r.Text(b.label, x, box.Top-12)
+			r.Text(b.label, x, box.Top-8)
 			taken = x + w + 10
 		}
 	}
@@ -344,6 +384,45 @@ func ticks(lo, hi float64, given []float64, prec string, n int) []chart.Tick {
 	}
 	// Sorted for a stable SVG.
 	slices.SortFunc(out, func(a, b chart.Tick) int { return cmp.Compare(a.Value, b.Value) })
+	return out
+}
+
+// spaceLabels removes the label of every tick whose text, extent(label)
+// long along an axis of length units from lo to hi and centred on the
+// tick, would overlap the text of a labelled tick kept before it; the
+// ends are kept first, then the ticks from low to high.
+func spaceLabels(ts []chart.Tick, lo, hi, length float64, extent func(string) float64) []chart.Tick {
+	if !(hi > lo) || !(length > 0) {
+		return ts
+	}
+	out := slices.Clone(ts)
+	pos := func(t chart.Tick) float64 { return (t.Value - lo) / (hi - lo) * length }
+	var kept []int
+	clear := func(i int) bool {
+		for _, k := range kept {
+			if math.Abs(pos(out[i])-pos(out[k])) < (extent(out[i].Label)+extent(out[k].Label))/2 {
+				return false
+			}
+		}
+		return true
+	}
+	order := make([]int, 0, len(out))
+	if len(out) > 0 {
+		order = append(order, 0, len(out)-1)
+	}
+	for i := 1; i < len(out)-1; i++ {
+		order = append(order, i)
+	}
+	for n, i := range order {
+		if out[i].Label == "" || n == 1 && i == 0 {
+			continue
+		}
+		if clear(i) {
+			kept = append(kept, i)
+		} else {
+			out[i].Label = ""
+		}
+	}
 	return out
 }
 
@@ -488,7 +567,7 @@ func (p plot) legendEntries() []legendEntry {
 
 // Legend layout: one or two columns under the x-axis title.
 const (
-	legendRow    = 21 // height of a row
+	legendRow    = 23 // height of a row
 	legendTop    = 8  // space above the first row
 	legendSwatch = 22 // width of a swatch
 	legendGap    = 7  // between swatch and text
@@ -500,11 +579,14 @@ const (
 type legendLayout struct {
 	entries    []legendEntry
 	cols, rows int
-	col2       int // x of the second column
+	col2       int        // x of the second column
+	lines      [][]string // the text of each entry, one or more lines
+	row        []int      // the row of each entry's first line
 }
 
 // legendLayout puts the entries in rows of two when the two columns fit
-// side by side across the chart, else in one column.
+// side by side across the chart, else in one column, where an entry too
+// long for the width runs on over as many rows as it needs.
 func (p plot) legendLayout() legendLayout {
 	lg := legendLayout{entries: p.legendEntries(), cols: 1}
 	if len(lg.entries) == 0 {
@@ -524,8 +606,41 @@ func (p plot) legendLayout() legendLayout {
 	case w[0]+legendColGap+w[1] <= p.legendWidth():
 		lg.cols, lg.col2 = 2, padLeft+w[0]+legendColGap
 	}
-	lg.rows = (len(lg.entries) + lg.cols - 1) / lg.cols
+	for i, e := range lg.entries {
+		if lg.cols == 2 {
+			lg.lines = append(lg.lines, []string{e.name})
+			lg.row = append(lg.row, i/2)
+			lg.rows = i/2 + 1
+			continue
+		}
+		ls := wrapText(e.name, p.legendWidth()-legendSwatch-legendGap)
+		lg.lines = append(lg.lines, ls)
+		lg.row = append(lg.row, lg.rows)
+		lg.rows += len(ls)
+	}
 	return lg
+}
+
+// wrapText breaks s at spaces into lines estimated to take at most w
+// pixels in the legend; a word longer than that is shortened with an
+// ellipsis.
+func wrapText(s string, w int) []string {
+	var out []string
+	line := ""
+	for _, word := range strings.Fields(s) {
+		if line != "" && textWidth(line+" "+word, textLegend) <= w {
+			line += " " + word
+			continue
+		}
+		if line != "" {
+			out = append(out, line)
+		}
+		line = fitText(word, w)
+	}
+	if line != "" || len(out) == 0 {
+		out = append(out, line)
+	}
+	return out
 }
 
 // legendWidth is the width the legend may take.
@@ -552,10 +667,12 @@ func (lg legendLayout) draw(p plot) chart.Renderable {
 			if lg.cols == 2 && i%2 == 1 {
 				sx, w = lg.col2, p.width-padRight-lg.col2
 			}
-			cy := top + (i/lg.cols)*legendRow + legendRow/2
+			cy := top + lg.row[i]*legendRow + legendRow/2
 			drawSwatch(r, e, sx, cy)
 			r.SetFontColor(colText.color())
-			r.Text(fitText(e.name, w-legendSwatch-legendGap), sx+legendSwatch+legendGap, cy+5)
+			for k, l := range lg.lines[i] {
+				r.Text(fitText(l, w-legendSwatch-legendGap), sx+legendSwatch+legendGap, cy+5+k*legendRow)
+			}
 		}
 	}
 }

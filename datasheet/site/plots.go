@@ -16,7 +16,7 @@ import (
 // page, the scatter chart across the page, so that text comes out at
 // about the size of the page's small print (see textTick and friends).
 const (
-	chartW, chartH     = 560, 360
+	chartW, chartH     = 360, 300
 	scatterW, scatterH = 900, 460
 )
 
