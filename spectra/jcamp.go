@@ -803,6 +803,33 @@ type tokenError struct {
 
 func (e *tokenError) Error() string { return e.err.Error() }
 
+// wordRE matches a field made of letters only, with an optional sign.
+var wordRE = regexp.MustCompile(`^[+-]?[A-Za-z]+$`)
+
+// wordInNumbers returns a field of a data line that is a word standing
+// where a number should be: "NaN", "Inf" or "Infinity" (any case, any
+// sign) anywhere, or any word of letters in a line whose ordinates are
+// otherwise written as plain numbers. The ASDF characters are letters, so
+// without this check "NaN" would decode as a DIF, a SQZ and a DIF ordinate
+// and give wrong values silently. A line in ASDF form (SQZ, DIF, DUP) writes
+// no ordinate as a plain number after its X value, so it is not affected.
+func wordInNumbers(fs []field) (field, bool) {
+	plain := false
+	for _, f := range fs[1:] {
+		plain = plain || affnRE.MatchString(f.text)
+	}
+	for _, f := range fs {
+		switch strings.ToLower(strings.TrimLeft(f.text, "+-")) {
+		case "nan", "inf", "infinity":
+			return f, true
+		}
+		if plain && wordRE.MatchString(f.text) {
+			return f, true
+		}
+	}
+	return field{}, false
+}
+
 // tokenize splits one line of (X++(Y..Y)) data. A line whose fields are all
 // plain AFFN numbers (exponents allowed) is read as such; otherwise the ASDF
 // characters are decoded (JCAMP-DX 4.24 ASDF tables, from memory, checked
@@ -822,6 +849,11 @@ func tokenize(line string) ([]token, error) {
 		if f.text != "?" && !affnRE.MatchString(f.text) {
 			affn = false
 			break
+		}
+	}
+	if !affn {
+		if f, ok := wordInNumbers(fs); ok {
+			return nil, &tokenError{f.col, fmt.Errorf("%s %w: a data line of plain numbers holds a word; write \"?\" for a missing value", quote.Value(f.text), ErrNotNumber)}
 		}
 	}
 	var toks []token

@@ -2,6 +2,7 @@ package spectra
 
 import (
 	"errors"
+	"math"
 	"strings"
 	"testing"
 )
@@ -31,5 +32,39 @@ func TestLongValueCut(t *testing.T) {
 				t.Errorf("message of %d bytes, want the value cut to 40 characters and …: %.300s", len(msg), msg)
 			}
 		})
+	}
+}
+
+// TestJCAMPWordInNumbers checks that a word where a number should be in a
+// (X++(Y..Y)) line is refused with its line and column, not decoded as ASDF.
+func TestJCAMPWordInNumbers(t *testing.T) {
+	head := "##TITLE=w\n##JCAMP-DX=4.24\n##XUNITS=NANOMETERS\n##YUNITS=REFLECTANCE\n##FIRSTX=400\n##LASTX=430\n##NPOINTS=4\n##XYDATA=(X++(Y..Y))\n"
+	for _, tc := range []struct {
+		name, data string
+		line, col  int
+	}{
+		{"NaN among numbers", "400 0.5 NaN 0.5 0.5\n", 9, 9},
+		{"Inf among numbers", "400 0.5 0.5 0.5 -Inf\n", 9, 17},
+		{"infinity alone", "400 infinity\n", 9, 5},
+		{"NA among numbers", "400 0.5 NA 0.5 0.5\n", 9, 9},
+		{"nan on a second line", "400 0.5 0.5\n420 nan 0.5\n", 10, 5},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := Decode([]byte(head+tc.data+"##END=\n"), "w.jdx")
+			var pe *ParseError
+			if !errors.As(err, &pe) || !errors.Is(err, ErrNotNumber) {
+				t.Fatalf("error %v, want a ParseError wrapping ErrNotNumber", err)
+			}
+			if pe.Line != tc.line || pe.Column != tc.col {
+				t.Errorf("at %d:%d, want %d:%d (%v)", pe.Line, pe.Column, tc.line, tc.col, err)
+			}
+		})
+	}
+	// ASDF lines keep working: SQZ and DIF letters after the X value.
+	asdf := strings.Replace(head, "##XYDATA", "##YFACTOR=0.001\n##XYDATA", 1) + "400 E00J0J0J0\n##END=\n"
+	if s, err := Decode([]byte(asdf), "w.jdx"); err != nil {
+		t.Errorf("ASDF line refused: %v", err)
+	} else if got := s.Segments[0].Values[R]; math.Abs(got[3]-0.53) > 1e-12 { // 500, +10, +10, +10 times YFACTOR
+		t.Errorf("ASDF line decodes to %v", got)
 	}
 }
