@@ -153,16 +153,27 @@ func Load(fsys fs.FS) (*Library, error) {
 			known[r.slug] = true
 		}
 	}
+	// A comparison missing any of its materials is left out, as a material
+	// with an error is.
+	resolved := lib.Comparisons[:0]
+	for _, c := range lib.Comparisons {
+		for _, s := range c.Front.Compare {
+			m, ok := lib.Material(strings.TrimSpace(s))
+			if ok {
+				c.Materials = append(c.Materials, m)
+			}
+		}
+		if len(c.Materials) == len(c.Front.Compare) {
+			resolved = append(resolved, c)
+		}
+	}
+	lib.Comparisons = resolved
 	for i, r := range results {
 		if r.c == nil {
 			continue
 		}
 		for j, s := range r.c.Front.Compare {
-			m, ok := lib.Material(strings.TrimSpace(s))
-			switch {
-			case ok:
-				r.c.Materials = append(r.c.Materials, m)
-			case !known[strings.TrimSpace(s)]:
+			if _, ok := lib.Material(strings.TrimSpace(s)); !ok && !known[strings.TrimSpace(s)] {
 				line := results[i].compareLines[j]
 				add(errorf(r.c.Path, line, 0, ErrUnknownMaterial, "compare entry %s%s", quote.Value(s), nearestSlug(s, slugs)))
 			}
