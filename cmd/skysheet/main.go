@@ -54,7 +54,7 @@ func main() {
 }
 
 // run executes one command line and returns the exit status: 0 success,
-// 1 bad data or failed checks, 2 bad usage.
+// 1 bad data or failed checks, 2 bad usage, 130 stopped by a signal.
 func run(e *env, args []string) int {
 	if len(args) == 0 || args[0] == "help" || args[0] == "-h" || args[0] == "--help" {
 		if len(args) > 1 {
@@ -93,6 +93,9 @@ func run(e *env, args []string) int {
 		return 2
 	case errors.Is(err, errSilentFailure):
 		return 1
+	case errors.Is(err, errInterrupted):
+		fmt.Fprintf(e.stderr, "skysheet %s: %v\n", c.name, err)
+		return 130 // the shells' status for a command stopped by Ctrl-C
 	default:
 		fmt.Fprintf(e.stderr, "skysheet %s: %v\n", c.name, err)
 		return 1

@@ -39,6 +39,7 @@ func init() {
 func runPreview(e *env, args []string) error {
 	fl := newFlags(e, commands["preview"])
 	port := fl.Int("port", 8080, "port on 127.0.0.1 (0 picks a free one)")
+	maxSize := maxFileSizeFlag(fl)
 	pos, err := parseFlags(fl, args)
 	if err != nil {
 		return err
@@ -56,7 +57,7 @@ func runPreview(e *env, args []string) error {
 	if st, err := os.Stat(dir); err != nil || !st.IsDir() {
 		return usagef("library folder %s: not a folder", dir)
 	}
-	s := &preview{dir: dir, version: version(), log: e.stderr}
+	s := &preview{dir: dir, version: version(), log: e.stderr, maxSize: *maxSize}
 	s.rerender()
 	ln, err := net.Listen("tcp", fmt.Sprintf("127.0.0.1:%d", *port))
 	if err != nil {
@@ -87,6 +88,7 @@ func runPreview(e *env, args []string) error {
 type preview struct {
 	dir, version string
 	log          io.Writer
+	maxSize      int64 // largest file read; 0 means defaultMaxFileSize
 
 	// changed, if set, is called from the watcher with the name of every
 	// change that leads to a new render (tests follow the watcher with it).
@@ -160,7 +162,11 @@ func (s *preview) render() (memSite, []string) {
 		return nil, problems(err)
 	}
 	defer root.Close()
-	fsys := root.FS()
+	limit := s.maxSize
+	if limit <= 0 {
+		limit = defaultMaxFileSize
+	}
+	fsys := newInputFS(root, limit)
 	lib, err := library.Load(fsys)
 	if err != nil {
 		return nil, problems(err)
