@@ -71,7 +71,7 @@ func runFigures(e *env, args []string) error {
 		return err
 	}
 	if *asJSON {
-		enc := json.NewEncoder(e.stdout)
+		enc := json.NewEncoder(rawWriter(e.stdout))
 		enc.SetIndent("", "  ")
 		return enc.Encode(f)
 	}

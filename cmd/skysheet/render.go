@@ -324,6 +324,7 @@ func (w *dirWriter) written() []string {
 
 // drawProgress draws a one-line progress bar.
 func drawProgress(w io.Writer, done, total int) {
+	w = rawWriter(w) // its carriage return is meant
 	const width = 30
 	n := width * done / total
 	fmt.Fprintf(w, "\r[%s%s] %d/%d materials", strings.Repeat("#", n), strings.Repeat(" ", width-n), done, total)

@@ -94,7 +94,11 @@ func runReview(e *env, args []string) error {
 	defer closeFS()
 	lib, err := library.Load(fsys)
 	r := reviewLibrary(dir, lib, err, *strict)
-	if err := write(e.stdout, r); err != nil {
+	out := e.stdout
+	if *format != "text" {
+		out = rawWriter(out) // data, not text for a person
+	}
+	if err := write(out, r); err != nil {
 		return err
 	}
 	if !r.OK {

@@ -128,7 +128,7 @@ func writeSpectrumFile(w io.Writer, name string, s *spectra.Spectrum) error {
 		return err
 	}
 	if name == "-" {
-		_, err := w.Write(b.Bytes())
+		_, err := rawWriter(w).Write(b.Bytes())
 		return err
 	}
 	return writeFileAtomic(name, func(f io.Writer) error {
