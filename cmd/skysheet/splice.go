@@ -5,7 +5,6 @@ import (
 	"flag"
 	"fmt"
 	"io"
-	"path/filepath"
 	"strings"
 
 	"skysheet/spectra"
@@ -85,7 +84,8 @@ func readSpectrumFile(name string, limit int64) (*spectra.Spectrum, error) {
 
 // readSampleWith reads the spectrum files of one sample, corrects each
 // against its reference standard (the file's own reference_file, relative
-// to the file, else o.reference) and joins them with spectra.Join.
+// to the file and inside its folder (see readReference), else o.reference)
+// and joins them with spectra.Join.
 func readSampleWith(files []string, o *sampleOptions) (*spectra.Spectrum, error) {
 	refs := map[string]*spectra.Spectrum{}
 	parts := make([]*spectra.Spectrum, 0, len(files))
@@ -97,10 +97,13 @@ func readSampleWith(files []string, o *sampleOptions) (*spectra.Spectrum, error)
 		}
 		ref := o.reference
 		if f, ok := spectra.ReferenceFile(s); ok {
-			ref = f
-			if !filepath.IsAbs(f) {
-				ref = filepath.Join(filepath.Dir(name), f)
+			r, p, err := readReference(name, f, o.reference, o.maxSize)
+			o.read = append(o.read, p)
+			if err != nil {
+				return nil, err
 			}
+			ref = p
+			refs[ref] = r
 		}
 		if ref != "" {
 			r, ok := refs[ref]
