@@ -186,6 +186,12 @@ func (s *preview) render() (memSite, []string) {
 const renderIDPath = "/_skysheet/render-id"
 
 func (s *preview) ServeHTTP(w http.ResponseWriter, r *http.Request) {
+	if !loopbackHost(r.Host) {
+		// A page elsewhere may point a name of its own at 127.0.0.1 (DNS
+		// rebinding) to read the preview; such requests carry that name.
+		http.Error(w, "skysheet preview answers only requests for localhost, 127.0.0.1 or [::1]", http.StatusMisdirectedRequest)
+		return
+	}
 	s.mu.RLock()
 	files, failed, id := s.files, s.failed, s.id
 	s.mu.RUnlock()
@@ -337,4 +343,19 @@ func (s *preview) renderID() string {
 	s.mu.RLock()
 	defer s.mu.RUnlock()
 	return s.id
+}
+
+// loopbackHost reports whether the Host header h (a name, with or without a
+// port) names this machine's loopback interface: localhost, 127.0.0.1 or
+// [::1].
+func loopbackHost(h string) bool {
+	host, _, err := net.SplitHostPort(h)
+	if err != nil {
+		host = strings.TrimSuffix(strings.TrimPrefix(h, "["), "]")
+	}
+	switch strings.ToLower(strings.TrimSuffix(host, ".")) {
+	case "localhost", "127.0.0.1", "::1":
+		return true
+	}
+	return false
 }
