@@ -195,6 +195,7 @@ type parser struct {
 	lastLn  int
 	seenX   map[float64]int
 	consts  [numQuantities]float64 // constant uncertainties from metadata, NaN if none
+	grouped int                    // axis values written like 2.500 (see thousandsWarning)
 }
 
 func (p *parser) errf(col int, err error) error {
@@ -269,6 +270,9 @@ func (p *parser) run(r io.Reader) error {
 		p.reverse()
 	}
 	applyConstantUncertainty(p.s, &p.consts)
+	if w := thousandsWarning(p.file, p.grouped, p.rows, p.s); w != "" {
+		p.s.Warnings = append(p.s.Warnings, w)
+	}
 	return nil
 }
 
@@ -412,7 +416,7 @@ func (p *parser) number(orig string, col int) (float64, error) {
 		if errors.As(err, &ne) && ne.Err == strconv.ErrRange {
 			return 0, p.errf(col, fmt.Errorf("%s %w", quote.Value(orig), ErrNotFinite))
 		}
-		return 0, p.errf(col, fmt.Errorf("%s %w", quote.Value(orig), ErrNotNumber))
+		return 0, p.errf(col, fmt.Errorf("%s %w%s", quote.Value(orig), ErrNotNumber, thousandsHint(orig)))
 	}
 	if math.IsNaN(x) || math.IsInf(x, 0) {
 		return 0, p.errf(col, fmt.Errorf("%s %w", quote.Value(orig), ErrNotFinite))
@@ -468,6 +472,9 @@ func (p *parser) row(text string) error {
 	}
 	p.seenX[x] = p.line
 	p.lastX, p.lastLn = x, p.line
+	if groupedRE.MatchString(f[0]) {
+		p.grouped++
+	}
 	p.rows++
 	if p.pending == nil {
 		p.pending = &Segment{Source: p.file}

@@ -56,6 +56,7 @@ func runFigures(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	printWarnings(e.stderr, "figures", s)
 	if *save != "" && *save != "-" {
 		if err := refuseOverwrite(*save, append(so.read, c.Sky)); err != nil {
 			return err

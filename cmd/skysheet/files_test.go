@@ -256,3 +256,18 @@ func TestOutputIsNotAnInput(t *testing.T) {
 		t.Errorf("%d entries, want a, b, link, hard and joined", len(entries))
 	}
 }
+
+// TestWarningsShown checks that the plausibility warnings of the readers
+// reach the user of figures, splice and import, and fail nothing.
+func TestWarningsShown(t *testing.T) {
+	grouped := writeFile(t, "grouped.tsv", "wavelength_nm\tR\n1.000\t0.5\n2.500\t0.5\n")
+	for _, args := range [][]string{
+		{"figures", grouped},
+		{"import", "-o", t.TempDir(), grouped},
+	} {
+		code, out, errs := runCLI(args...)
+		if !strings.Contains(errs, "warning: "+grouped+": every value of the spectral axis is written like 2.500") {
+			t.Errorf("%v: exit %d, no warning\n%s%s", args, code, out, errs)
+		}
+	}
+}

@@ -72,6 +72,7 @@ func runImport(e *env, args []string) error {
 		for _, n := range s.Notes {
 			fmt.Fprintf(e.stdout, "  note: %s\n", n)
 		}
+		printWarnings(e.stderr, "import", s)
 	}
 	return nil
 }

@@ -162,6 +162,7 @@ func runSplice(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	printWarnings(e.stderr, "splice", s)
 	if *out != "-" {
 		if err := refuseOverwrite(*out, o.read); err != nil {
 			return err
@@ -179,6 +180,13 @@ func runSplice(e *env, args []string) error {
 	}
 	printSplices(report, s.Splices)
 	return nil
+}
+
+// printWarnings writes the plausibility warnings of s, one a line.
+func printWarnings(w io.Writer, verb string, s *spectra.Spectrum) {
+	for _, x := range s.Warnings {
+		fmt.Fprintf(w, "skysheet %s: warning: %s\n", verb, x)
+	}
 }
 
 // printSplices writes one line per splice record.
