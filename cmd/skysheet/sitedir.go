@@ -262,6 +262,14 @@ func install(commit, out string) error {
 	if err != nil {
 		return err
 	}
+	// The moves go through a root at the common parent, so that a symbolic
+	// link inside the site folder cannot lead them elsewhere.
+	parent, err := os.OpenRoot(filepath.Dir(out))
+	if err != nil {
+		return err
+	}
+	defer parent.Close()
+	from, to := filepath.Base(commit), filepath.Base(out)
 	for _, rel := range moving {
 		if err := hook("move"); err != nil {
 			return err
@@ -271,14 +279,14 @@ func install(commit, out string) error {
 				return err
 			}
 		}
-		if err := os.Rename(filepath.Join(commit, rel), filepath.Join(out, rel)); err != nil {
+		if err := parent.Rename(filepath.Join(from, rel), filepath.Join(to, rel)); err != nil {
 			return err
 		}
 	}
 	if err := hook("marker"); err != nil {
 		return err
 	}
-	if err := os.Rename(filepath.Join(commit, siteMarker), filepath.Join(out, siteMarker)); err != nil {
+	if err := parent.Rename(filepath.Join(from, siteMarker), filepath.Join(to, siteMarker)); err != nil {
 		return err
 	}
 	syncDir(out)
