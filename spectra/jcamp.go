@@ -10,6 +10,8 @@ import (
 	"strconv"
 	"strings"
 	"unicode/utf8"
+
+	"skysheet/internal/quote"
 )
 
 // The errors the JCAMP-DX reader may return, wrapped in a [ParseError]
@@ -140,7 +142,7 @@ func splitRecords(r io.Reader, file string) ([]*record, error) {
 		if strings.HasPrefix(t, "##") {
 			l, v, ok := strings.Cut(t[2:], "=")
 			if !ok {
-				return nil, &ParseError{File: file, Line: n, Err: fmt.Errorf("%w: %q has no '='", ErrLabel, t)}
+				return nil, &ParseError{File: file, Line: n, Err: fmt.Errorf("%w: %s has no '='", ErrLabel, quote.Value(t))}
 			}
 			cur = &record{label: strings.TrimSpace(l), norm: normLabel(l), value: strings.TrimSpace(stripComment(v)), line: n}
 			recs = append(recs, cur)
@@ -162,7 +164,7 @@ func splitRecords(r io.Reader, file string) ([]*record, error) {
 	case len(recs) == 0:
 		return nil, &ParseError{File: file, Err: fmt.Errorf("%w: no labelled data records (##LABEL=value)", ErrNotJCAMP)}
 	case recs[0].norm != "TITLE":
-		return nil, &ParseError{File: file, Line: recs[0].line, Err: fmt.Errorf("%w: the first record must be ##TITLE=, not ##%s=", ErrNotJCAMP, recs[0].label)}
+		return nil, &ParseError{File: file, Line: recs[0].line, Err: fmt.Errorf("%w: the first record must be ##TITLE=, not ##%s=", ErrNotJCAMP, quote.Cut(recs[0].label))}
 	case !ended:
 		return nil, &ParseError{File: file, Line: n, Err: ErrNoEnd}
 	}
@@ -233,15 +235,15 @@ func (j *jcamp) build(recs []*record) error {
 				return j.errAt(r.line, fmt.Errorf("a nested ##TITLE=: the file %w", ErrMultiBlock))
 			}
 		case "BLOCKS", "NTUPLES", "PAGE":
-			return j.errAt(r.line, fmt.Errorf("##%s= (compound or multi-page file) %w: %w", r.label, ErrUnsupported, ErrMultiBlock))
+			return j.errAt(r.line, fmt.Errorf("##%s= (compound or multi-page file) %w: %w", quote.Cut(r.label), ErrUnsupported, ErrMultiBlock))
 		case "DATATYPE":
 			if strings.Contains(strings.ToUpper(r.value), "LINK") {
-				return j.errAt(r.line, fmt.Errorf("DATA TYPE=%s (compound file) %w: %w", r.value, ErrUnsupported, ErrMultiBlock))
+				return j.errAt(r.line, fmt.Errorf("DATA TYPE=%s (compound file) %w: %w", quote.Cut(r.value), ErrUnsupported, ErrMultiBlock))
 			}
 		}
 		if controlLabels[r.norm] {
 			if prev, dup := j.recs[r.norm]; dup {
-				return j.errAt(r.line, fmt.Errorf("##%s= %w (also line %d)", r.label, ErrDuplicateLabel, prev.line))
+				return j.errAt(r.line, fmt.Errorf("##%s= %w (also line %d)", quote.Cut(r.label), ErrDuplicateLabel, prev.line))
 			}
 			j.recs[r.norm] = r
 		}
@@ -295,13 +297,13 @@ func (j *jcamp) data() error {
 		case "(XY..XY)":
 			points = true
 		default:
-			return j.errAt(xy.line, fmt.Errorf("##XYDATA=%s %w: want (X++(Y..Y)) or (XY..XY)", xy.value, ErrUnsupported))
+			return j.errAt(xy.line, fmt.Errorf("##XYDATA=%s %w: want (X++(Y..Y)) or (XY..XY)", quote.Cut(xy.value), ErrUnsupported))
 		}
 	case xp != nil:
 		table = xp
 		points = true
 		if f := strings.ToUpper(strings.Join(strings.Fields(xp.value), "")); f != "(XY..XY)" {
-			return j.errAt(xp.line, fmt.Errorf("##XYPOINTS=%s %w: want (XY..XY)", xp.value, ErrUnsupported))
+			return j.errAt(xp.line, fmt.Errorf("##XYPOINTS=%s %w: want (XY..XY)", quote.Cut(xp.value), ErrUnsupported))
 		}
 	default:
 		return j.errAt(0, fmt.Errorf("%w: ##XYDATA= or ##XYPOINTS=", ErrMissingLabel))
@@ -338,7 +340,7 @@ func (j *jcamp) data() error {
 		}
 		got := pts[0].y * yf
 		if tol := math.Max(math.Abs(yf), math.Max(1e-5*math.Abs(want), 0.5*resolution(fy.value))); math.Abs(got-want) > tol {
-			return j.errAt(fy.line, fmt.Errorf("%w: FIRSTY=%s but the first Y is %g (line %d)", ErrFirstY, fy.value, got, pts[0].line))
+			return j.errAt(fy.line, fmt.Errorf("%w: FIRSTY=%s but the first Y is %g (line %d)", ErrFirstY, quote.Cut(fy.value), got, pts[0].line))
 		}
 	}
 	return j.store(pts, xu, yu, yf)
@@ -366,7 +368,7 @@ func (j *jcamp) xUnits(table *record) (jcampX, error) {
 	case "1/CM", "CM-1", "CM^-1", "WAVENUMBERS", "WAVENUMBERS(1/CM)":
 		return xWavenumber, nil
 	}
-	return 0, j.errAt(r.line, fmt.Errorf("XUNITS=%q %w", r.value, ErrXUnits))
+	return 0, j.errAt(r.line, fmt.Errorf("XUNITS=%s %w", quote.Value(r.value), ErrXUnits))
 }
 
 // jcampY is the meaning of the ordinate.
@@ -395,11 +397,11 @@ func (j *jcamp) yUnits(table *record) (jcampY, error) {
 		y.q = T
 	case "ABSORBANCE":
 		if y.percent {
-			return y, j.errAt(r.line, fmt.Errorf("YUNITS=%q %w", r.value, ErrYUnits))
+			return y, j.errAt(r.line, fmt.Errorf("YUNITS=%s %w", quote.Value(r.value), ErrYUnits))
 		}
 		y.q, y.absorbance = T, true
 	default:
-		return y, j.errAt(r.line, fmt.Errorf("YUNITS=%q %w", r.value, ErrYUnits))
+		return y, j.errAt(r.line, fmt.Errorf("YUNITS=%s %w", quote.Value(r.value), ErrYUnits))
 	}
 	return y, nil
 }
@@ -409,11 +411,11 @@ var affnRE = regexp.MustCompile(`^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$`)
 // number reads the numeric value of a record.
 func (j *jcamp) number(r *record) (float64, error) {
 	if !affnRE.MatchString(r.value) {
-		return 0, j.errAt(r.line, fmt.Errorf("##%s=%q %w", r.label, r.value, ErrNotNumber))
+		return 0, j.errAt(r.line, fmt.Errorf("##%s=%s %w", quote.Cut(r.label), quote.Value(r.value), ErrNotNumber))
 	}
 	x, err := strconv.ParseFloat(r.value, 64)
 	if err != nil || math.IsInf(x, 0) {
-		return 0, j.errAt(r.line, fmt.Errorf("##%s=%q %w", r.label, r.value, ErrNotFinite))
+		return 0, j.errAt(r.line, fmt.Errorf("##%s=%s %w", quote.Cut(r.label), quote.Value(r.value), ErrNotFinite))
 	}
 	return x, nil
 }
@@ -425,7 +427,7 @@ func (j *jcamp) factor(label string) (float64, error) {
 	}
 	f, err := j.number(r)
 	if err == nil && f == 0 {
-		err = j.errAt(r.line, fmt.Errorf("##%s=%s %w: want a non-zero factor", r.label, r.value, ErrOutOfRange))
+		err = j.errAt(r.line, fmt.Errorf("##%s=%s %w: want a non-zero factor", quote.Cut(r.label), quote.Cut(r.value), ErrOutOfRange))
 	}
 	return f, err
 }
@@ -487,12 +489,12 @@ func (j *jcamp) xyData(table *record, xf float64) ([]rawPoint, error) {
 		return nil, err
 	}
 	if nf != math.Trunc(nf) || nf < 2 || nf > maxPoints {
-		return nil, j.errAt(npr.line, fmt.Errorf("NPOINTS=%s %w: want a whole number from 2 to %d", npr.value, ErrOutOfRange, maxPoints))
+		return nil, j.errAt(npr.line, fmt.Errorf("NPOINTS=%s %w: want a whole number from 2 to %d", quote.Cut(npr.value), ErrOutOfRange, maxPoints))
 	}
 	n := int(nf)
 	dx := (lastX - firstX) / float64(n-1)
 	if dx == 0 || math.IsInf(dx, 0) || math.IsNaN(dx) {
-		return nil, j.errAt(lxr.line, fmt.Errorf("%w: FIRSTX=%s and LASTX=%s leave no spacing between %d points", ErrLastX, fxr.value, lxr.value, n))
+		return nil, j.errAt(lxr.line, fmt.Errorf("%w: FIRSTX=%s and LASTX=%s leave no spacing between %d points", ErrLastX, quote.Cut(fxr.value), quote.Cut(lxr.value), n))
 	}
 	if dr := j.recs["DELTAX"]; dr != nil {
 		d, err := j.number(dr)
@@ -501,7 +503,7 @@ func (j *jcamp) xyData(table *record, xf float64) ([]rawPoint, error) {
 		}
 		end := firstX + float64(n-1)*d
 		if tol := math.Max(0.5*math.Abs(d), resolution(lxr.value)); !(math.Abs(end-lastX) <= tol) {
-			return nil, j.errAt(lxr.line, fmt.Errorf("%w: LASTX=%s but FIRSTX + (NPOINTS−1)·DELTAX = %g", ErrLastX, lxr.value, end))
+			return nil, j.errAt(lxr.line, fmt.Errorf("%w: LASTX=%s but FIRSTX + (NPOINTS−1)·DELTAX = %g", ErrLastX, quote.Cut(lxr.value), end))
 		}
 	}
 
@@ -620,26 +622,26 @@ func (j *jcamp) xyPoints(table *record, xf float64) ([]rawPoint, error) {
 		for i := 0; i < len(f); i += 2 {
 			xs, ys := f[i], f[i+1]
 			if !affnRE.MatchString(xs.text) {
-				return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%q %w", xs.text, ErrNotNumber)}
+				return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w", quote.Value(xs.text), ErrNotNumber)}
 			}
 			x, _ := strconv.ParseFloat(xs.text, 64)
 			y := math.NaN()
 			if ys.text != "?" {
 				if !affnRE.MatchString(ys.text) {
-					return nil, &ParseError{File: j.file, Line: ln.n, Column: ys.col, Name: "Y value", Err: fmt.Errorf("%q %w", ys.text, ErrNotNumber)}
+					return nil, &ParseError{File: j.file, Line: ln.n, Column: ys.col, Name: "Y value", Err: fmt.Errorf("%s %w", quote.Value(ys.text), ErrNotNumber)}
 				}
 				y, _ = strconv.ParseFloat(ys.text, 64)
 			}
 			if math.IsInf(x*xf, 0) {
-				return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%q %w", xs.text, ErrNotFinite)}
+				return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w", quote.Value(xs.text), ErrNotFinite)}
 			}
 			if k := len(pts); k > 0 {
 				p := pts[k-1]
 				switch {
 				case x*xf == p.x:
-					return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w (line %d)", xs.text, ErrDuplicate, p.line)}
+					return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w (line %d)", quote.Cut(xs.text), ErrDuplicate, p.line)}
 				case k > 1 && (x*xf > p.x) != (p.x > pts[k-2].x):
-					return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w: X values must rise or fall throughout", xs.text, ErrNotMonotonic)}
+					return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w: X values must rise or fall throughout", quote.Cut(xs.text), ErrNotMonotonic)}
 				}
 			}
 			pts = append(pts, rawPoint{x: x * xf, y: y, line: ln.n, col: ys.col})
@@ -656,7 +658,7 @@ func (j *jcamp) xyPoints(table *record, xf float64) ([]rawPoint, error) {
 			return nil, err
 		}
 		if n != float64(len(pts)) {
-			return nil, j.errAt(last, fmt.Errorf("%w: NPOINTS=%s but the table holds %d", ErrPointCount, r.value, len(pts)))
+			return nil, j.errAt(last, fmt.Errorf("%w: NPOINTS=%s but the table holds %d", ErrPointCount, quote.Cut(r.value), len(pts)))
 		}
 	}
 	for _, c := range []struct {
@@ -674,7 +676,7 @@ func (j *jcamp) xyPoints(table *record, xf float64) ([]rawPoint, error) {
 		}
 		p := pts[c.i]
 		if tol := math.Max(xres[c.i], resolution(r.value)) + 1e-9*math.Abs(want); !(math.Abs(p.x-want) <= tol) {
-			return nil, j.errAt(r.line, fmt.Errorf("%w: %s=%s but the table's X is %g (line %d)", c.err, c.label, r.value, p.x, p.line))
+			return nil, j.errAt(r.line, fmt.Errorf("%w: %s=%s but the table's X is %g (line %d)", c.err, quote.Cut(c.label), quote.Cut(r.value), p.x, p.line))
 		}
 	}
 	return pts, nil
@@ -749,7 +751,7 @@ func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, yf float64) error {
 			y = t
 		case yu.percent:
 			if !(y >= -5 && y <= 105) {
-				return at("Y value", fmt.Errorf("Y %g %w: YUNITS=%s is percent, want -5..105", y, ErrOutOfRange, yu.written))
+				return at("Y value", fmt.Errorf("Y %g %w: YUNITS=%s is percent, want -5..105", y, ErrOutOfRange, quote.Cut(yu.written)))
 			}
 			y /= 100
 		default:
@@ -758,7 +760,7 @@ func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, yf float64) error {
 				if y > 1.05 && y <= 105 {
 					hint = " (percent? write YUNITS=%" + strings.ToUpper(yu.q.Name()) + ")"
 				}
-				return at("Y value", fmt.Errorf("Y %g %w: YUNITS=%s is a fraction, want -0.05..1.05%s", y, ErrOutOfRange, yu.written, hint))
+				return at("Y value", fmt.Errorf("Y %g %w: YUNITS=%s is a fraction, want -0.05..1.05%s", y, ErrOutOfRange, quote.Cut(yu.written), hint))
 			}
 		}
 		v[i] = y
@@ -801,6 +803,33 @@ type tokenError struct {
 
 func (e *tokenError) Error() string { return e.err.Error() }
 
+// wordRE matches a field made of letters only, with an optional sign.
+var wordRE = regexp.MustCompile(`^[+-]?[A-Za-z]+$`)
+
+// wordInNumbers returns a field of a data line that is a word standing
+// where a number should be: "NaN", "Inf" or "Infinity" (any case, any
+// sign) anywhere, or any word of letters in a line whose ordinates are
+// otherwise written as plain numbers. The ASDF characters are letters, so
+// without this check "NaN" would decode as a DIF, a SQZ and a DIF ordinate
+// and give wrong values silently. A line in ASDF form (SQZ, DIF, DUP) writes
+// no ordinate as a plain number after its X value, so it is not affected.
+func wordInNumbers(fs []field) (field, bool) {
+	plain := false
+	for _, f := range fs[1:] {
+		plain = plain || affnRE.MatchString(f.text)
+	}
+	for _, f := range fs {
+		switch strings.ToLower(strings.TrimLeft(f.text, "+-")) {
+		case "nan", "inf", "infinity":
+			return f, true
+		}
+		if plain && wordRE.MatchString(f.text) {
+			return f, true
+		}
+	}
+	return field{}, false
+}
+
 // tokenize splits one line of (X++(Y..Y)) data. A line whose fields are all
 // plain AFFN numbers (exponents allowed) is read as such; otherwise the ASDF
 // characters are decoded (JCAMP-DX 4.24 ASDF tables, from memory, checked
@@ -822,6 +851,11 @@ func tokenize(line string) ([]token, error) {
 			break
 		}
 	}
+	if !affn {
+		if f, ok := wordInNumbers(fs); ok {
+			return nil, &tokenError{f.col, fmt.Errorf("%s %w: a data line of plain numbers holds a word; write \"?\" for a missing value", quote.Value(f.text), ErrNotNumber)}
+		}
+	}
 	var toks []token
 	if affn {
 		for _, f := range fs {
@@ -831,7 +865,7 @@ func tokenize(line string) ([]token, error) {
 			}
 			x, err := strconv.ParseFloat(f.text, 64)
 			if err != nil || math.IsInf(x, 0) {
-				return nil, &tokenError{f.col, fmt.Errorf("%q %w", f.text, ErrNotFinite)}
+				return nil, &tokenError{f.col, fmt.Errorf("%s %w", quote.Value(f.text), ErrNotFinite)}
 			}
 			toks = append(toks, token{kind: tokAbs, v: x, res: resolution(f.text), col: f.col})
 		}
@@ -896,17 +930,17 @@ func tokenize(line string) ([]token, error) {
 		if kind == tokDup {
 			n, err := strconv.Atoi(digits)
 			if err != nil || n < 1 || n > maxPoints {
-				return nil, &tokenError{start + 1, fmt.Errorf("%w: %q is not a repeat count", ErrASDF, line[start:j])}
+				return nil, &tokenError{start + 1, fmt.Errorf("%w: %s is not a repeat count", ErrASDF, quote.Value(line[start:j]))}
 			}
 			toks = append(toks, token{kind: tokDup, count: n, col: start + 1})
 			continue
 		}
 		if strings.Count(digits, ".") > 1 || strings.Trim(digits, ".") == "" {
-			return nil, &tokenError{start + 1, fmt.Errorf("%w: %q is not a number", ErrASDF, line[start:j])}
+			return nil, &tokenError{start + 1, fmt.Errorf("%w: %s is not a number", ErrASDF, quote.Value(line[start:j]))}
 		}
 		x, err := strconv.ParseFloat(digits, 64)
 		if err != nil || math.IsInf(x, 0) {
-			return nil, &tokenError{start + 1, fmt.Errorf("%w: %q is not a finite number", ErrASDF, line[start:j])}
+			return nil, &tokenError{start + 1, fmt.Errorf("%w: %s is not a finite number", ErrASDF, quote.Value(line[start:j]))}
 		}
 		toks = append(toks, token{kind: kind, v: sign * x, res: resolution(digits), col: start + 1})
 	}

@@ -13,6 +13,8 @@ import (
 	"strconv"
 	"strings"
 	"unicode/utf8"
+
+	"skysheet/internal/quote"
 )
 
 // The errors a reader may return, wrapped in a [ParseError].
@@ -193,6 +195,7 @@ type parser struct {
 	lastLn  int
 	seenX   map[float64]int
 	consts  [numQuantities]float64 // constant uncertainties from metadata, NaN if none
+	grouped int                    // axis values written like 2.500 (see thousandsWarning)
 }
 
 func (p *parser) errf(col int, err error) error {
@@ -202,7 +205,7 @@ func (p *parser) errf(col int, err error) error {
 		if col == 1 {
 			pe.Name = "spectral axis"
 		} else if col-2 < len(p.cols) {
-			pe.Name = p.cols[col-2].name
+			pe.Name = quote.Cut(p.cols[col-2].name)
 		}
 	}
 	return pe
@@ -267,6 +270,9 @@ func (p *parser) run(r io.Reader) error {
 		p.reverse()
 	}
 	applyConstantUncertainty(p.s, &p.consts)
+	if w := thousandsWarning(p.file, p.grouped, p.rows, p.s); w != "" {
+		p.s.Warnings = append(p.s.Warnings, w)
+	}
 	return nil
 }
 
@@ -330,7 +336,7 @@ func constU(consts *[numQuantities]float64, q Quantity, v string) error {
 	}
 	x, err := strconv.ParseFloat(s, 64)
 	if err != nil || math.IsNaN(x) || math.IsInf(x, 0) || x < 0 || x*scale > 1 {
-		return fmt.Errorf("%w: %s: %q: want a standard uncertainty such as 0.005 or 0.5 %%", ErrBadMetadata, q, v)
+		return fmt.Errorf("%w: %s: %s: want a standard uncertainty such as 0.005 or 0.5 %%", ErrBadMetadata, q, quote.Value(v))
 	}
 	consts[q] = x * scale
 	return nil
@@ -367,11 +373,11 @@ func (p *parser) header(text string) error {
 		f = f[:len(f)-1]
 	}
 	if len(f) == 0 {
-		return p.errf(1, fmt.Errorf("%q %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", strings.TrimSpace(text), ErrUnknownUnit))
+		return p.errf(1, fmt.Errorf("%s %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", quote.Value(strings.TrimSpace(text)), ErrUnknownUnit))
 	}
 	u, ok := parseAxisHeader(f[0])
 	if !ok {
-		return p.errf(1, fmt.Errorf("%q %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", f[0], ErrUnknownUnit))
+		return p.errf(1, fmt.Errorf("%s %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", quote.Value(f[0]), ErrUnknownUnit))
 	}
 	p.unit = u
 	seen := map[Quantity]int{}
@@ -379,7 +385,7 @@ func (p *parser) header(text string) error {
 		c, ok := parseColumnHeader(h)
 		if !ok {
 			p.cols = append(p.cols, c)
-			return p.errf(i+2, fmt.Errorf("%q %w: want R, T, A, u_R or u_T, optionally with (%%) or _pct", h, ErrUnknownColumn))
+			return p.errf(i+2, fmt.Errorf("%s %w: want R, T, A, u_R or u_T, optionally with (%%) or _pct", quote.Value(h), ErrUnknownColumn))
 		}
 		if j, dup := seen[c.q]; dup {
 			p.cols = append(p.cols, c)
@@ -391,7 +397,7 @@ func (p *parser) header(text string) error {
 	if _, r := seen[R]; !r {
 		if _, t := seen[T]; !t {
 			if _, a := seen[A]; !a {
-				return p.errf(0, fmt.Errorf("header %q: %w", strings.TrimSpace(text), ErrNoValues))
+				return p.errf(0, fmt.Errorf("header %s: %w", quote.Value(strings.TrimSpace(text)), ErrNoValues))
 			}
 		}
 	}
@@ -408,12 +414,12 @@ func (p *parser) number(orig string, col int) (float64, error) {
 	if err != nil {
 		var ne *strconv.NumError
 		if errors.As(err, &ne) && ne.Err == strconv.ErrRange {
-			return 0, p.errf(col, fmt.Errorf("%q %w", orig, ErrNotFinite))
+			return 0, p.errf(col, fmt.Errorf("%s %w", quote.Value(orig), ErrNotFinite))
 		}
-		return 0, p.errf(col, fmt.Errorf("%q %w", orig, ErrNotNumber))
+		return 0, p.errf(col, fmt.Errorf("%s %w%s", quote.Value(orig), ErrNotNumber, thousandsHint(orig)))
 	}
 	if math.IsNaN(x) || math.IsInf(x, 0) {
-		return 0, p.errf(col, fmt.Errorf("%q %w", orig, ErrNotFinite))
+		return 0, p.errf(col, fmt.Errorf("%s %w", quote.Value(orig), ErrNotFinite))
 	}
 	return x, nil
 }
@@ -444,10 +450,10 @@ func (p *parser) row(text string) error {
 		nm = 1e7 / x
 	}
 	if !(x > 0) || math.IsInf(nm, 0) || !(nm > 0) {
-		return p.errf(1, fmt.Errorf("%q %w: the spectral axis must be positive", f[0], ErrOutOfRange))
+		return p.errf(1, fmt.Errorf("%s %w: the spectral axis must be positive", quote.Value(f[0]), ErrOutOfRange))
 	}
 	if ln, dup := p.seenX[x]; dup {
-		return p.errf(1, fmt.Errorf("%s %w (line %d)", f[0], ErrDuplicate, ln))
+		return p.errf(1, fmt.Errorf("%s %w (line %d)", quote.Cut(f[0]), ErrDuplicate, ln))
 	}
 	if p.rows > 0 {
 		d := 1
@@ -461,11 +467,14 @@ func (p *parser) row(text string) error {
 			if p.dir < 0 {
 				order = "descending"
 			}
-			return p.errf(1, fmt.Errorf("%s %w: the axis is %s but line %d has %g", f[0], ErrNotMonotonic, order, p.lastLn, p.lastX))
+			return p.errf(1, fmt.Errorf("%s %w: the axis is %s but line %d has %g", quote.Cut(f[0]), ErrNotMonotonic, order, p.lastLn, p.lastX))
 		}
 	}
 	p.seenX[x] = p.line
 	p.lastX, p.lastLn = x, p.line
+	if groupedRE.MatchString(f[0]) {
+		p.grouped++
+	}
 	p.rows++
 	if p.pending == nil {
 		p.pending = &Segment{Source: p.file}
@@ -511,7 +520,7 @@ func (p *parser) checkRange(v float64, c column, s string, col int) error {
 		if !c.percent && v > 1.05 && v <= 105 {
 			hint = " (percent? mark the header, e.g. \"" + c.q.String() + " (%)\")"
 		}
-		return p.errf(col, fmt.Errorf("%q %w: want %s%s", s, ErrOutOfRange, unit, hint))
+		return p.errf(col, fmt.Errorf("%s %w: want %s%s", quote.Value(s), ErrOutOfRange, unit, hint))
 	}
 	return nil
 }

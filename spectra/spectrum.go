@@ -87,6 +87,11 @@ type Spectrum struct {
 	// spliced (see [Splice]).
 	Splices []SpliceRecord
 	Inputs  []Input // files read by [Decode], with their SHA-256
+	// Warnings are plausibility warnings of the readers, one sentence
+	// each naming the file: data that read without error but look
+	// mislabelled (a thousands separator read as a decimal point, say).
+	// They are not errors; callers show them beside the figures.
+	Warnings []string
 }
 
 // Get returns the first metadata value for key (compared without case) and
@@ -174,6 +179,7 @@ func Merge(parts ...*Spectrum) (*Spectrum, error) {
 		out.Notes = append(out.Notes, p.Notes...)
 		out.Splices = append(out.Splices, p.Splices...)
 		out.Inputs = append(out.Inputs, p.Inputs...)
+		out.Warnings = append(out.Warnings, p.Warnings...)
 	}
 	sort.SliceStable(segs, func(i, j int) bool { return segs[i].NM[0] < segs[j].NM[0] })
 	for i, g := range segs {

@@ -514,6 +514,7 @@ func (s *Spectrum) clone() *Spectrum {
 		Sources:  append([]string(nil), s.Sources...),
 		Notes:    append([]string(nil), s.Notes...),
 		Splices:  append([]SpliceRecord(nil), s.Splices...),
+		Warnings: append([]string(nil), s.Warnings...),
 		Segments: make([]Segment, len(s.Segments)),
 	}
 	for i, g := range s.Segments {

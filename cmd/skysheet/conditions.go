@@ -3,7 +3,6 @@ package main
 import (
 	"flag"
 	"fmt"
-	"os"
 	"strconv"
 	"strings"
 
@@ -65,12 +64,15 @@ func conditionFlags(fs *flag.FlagSet, c *datasheet.Conditions) {
 
 // loadSky reads the spectral sky file named by c.Sky, if any, into
 // c.SkySpectrum. Verbs that use conditionFlags call it after parsing.
-func loadSky(c *datasheet.Conditions) error {
+func loadSky(c *datasheet.Conditions, limit int64) error {
 	if c.Sky == "" || c.Sky == datasheet.SkyClear {
 		c.SkySpectrum = nil
 		return nil
 	}
-	data, err := os.ReadFile(c.Sky)
+	if limit <= 0 {
+		limit = defaultMaxFileSize
+	}
+	data, err := readInputFile(c.Sky, limit)
 	if err != nil {
 		return fmt.Errorf("sky: %w", err)
 	}

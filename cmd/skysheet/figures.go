@@ -43,7 +43,7 @@ func runFigures(e *env, args []string) error {
 	if err := plain.Validate(); err != nil {
 		return usagef("%v", err)
 	}
-	if err := loadSky(&c); err != nil {
+	if err := loadSky(&c, so.maxSize); err != nil {
 		return err
 	}
 	if err := c.Validate(); err != nil {
@@ -52,9 +52,15 @@ func runFigures(e *env, args []string) error {
 	if err := so.validate(); err != nil {
 		return err
 	}
-	s, err := readSampleWith(files, so)
+	s, err := readSampleWith(files, &so)
 	if err != nil {
 		return err
+	}
+	printWarnings(e.stderr, "figures", s)
+	if *save != "" && *save != "-" {
+		if err := refuseOverwrite(*save, append(so.read, c.Sky)); err != nil {
+			return err
+		}
 	}
 	if *save != "" {
 		if err := writeSpectrumFile(e.stdout, *save, s); err != nil {
@@ -66,7 +72,7 @@ func runFigures(e *env, args []string) error {
 		return err
 	}
 	if *asJSON {
-		enc := json.NewEncoder(e.stdout)
+		enc := json.NewEncoder(rawWriter(e.stdout))
 		enc.SetIndent("", "  ")
 		return enc.Encode(f)
 	}
@@ -80,7 +86,7 @@ func runFigures(e *env, args []string) error {
 func readSample(files []string) (*spectra.Spectrum, error) {
 	var o sampleOptions
 	o.splice.Tolerance = spectra.DefaultSpliceTol
-	return readSampleWith(files, o)
+	return readSampleWith(files, &o)
 }
 
 // printFigures writes the human-readable report.

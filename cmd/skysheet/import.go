@@ -21,6 +21,7 @@ func init() {
 func runImport(e *env, args []string) error {
 	fs := newFlags(e, commands["import"])
 	dir := fs.String("o", "", "output directory (created if missing)")
+	maxSize := maxFileSizeFlag(fs)
 	files, err := parseFlags(fs, args)
 	if err != nil {
 		return err
@@ -39,14 +40,16 @@ func runImport(e *env, args []string) error {
 		if prev, dup := outs[out]; dup {
 			return usagef("%s and %s would both be written to %s", prev, in, out)
 		}
-		if a, b := absPath(in), absPath(out); a == b {
-			return usagef("%s would be overwritten by its own import; choose another -o", in)
-		}
 		outs[out], names[i] = in, out
+	}
+	for _, out := range names {
+		if err := refuseOverwrite(out, files); err != nil {
+			return err
+		}
 	}
 	specs := make([]*spectra.Spectrum, len(files))
 	for i, in := range files {
-		if specs[i], err = readSpectrumFile(in); err != nil {
+		if specs[i], err = readSpectrumFile(in, *maxSize); err != nil {
 			return err
 		}
 		keepReferencePath(specs[i], in, *dir)
@@ -69,6 +72,7 @@ func runImport(e *env, args []string) error {
 		for _, n := range s.Notes {
 			fmt.Fprintf(e.stdout, "  note: %s\n", n)
 		}
+		printWarnings(e.stderr, "import", s)
 	}
 	return nil
 }

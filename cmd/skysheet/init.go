@@ -3,6 +3,7 @@ package main
 import (
 	"errors"
 	"fmt"
+	"io"
 	"io/fs"
 	"math"
 	"os"
@@ -43,7 +44,10 @@ func runInit(e *env, args []string) error {
 		if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
 			return err
 		}
-		if err := os.WriteFile(p, []byte(data), 0o644); err != nil {
+		if err := writeFileAtomic(p, func(w io.Writer) error {
+			_, err := io.WriteString(w, data)
+			return err
+		}); err != nil {
 			return err
 		}
 	}

@@ -54,8 +54,12 @@ func main() {
 }
 
 // run executes one command line and returns the exit status: 0 success,
-// 1 bad data or failed checks, 2 bad usage.
+// 1 bad data or failed checks, 2 bad usage, 130 stopped by a signal.
 func run(e *env, args []string) int {
+	// Text for a person is escaped on its way out (see escapeWriter).
+	out, errs := escaping(e.stdout), escaping(e.stderr)
+	e = &env{stdout: out, stderr: errs, stdin: e.stdin, isTerminal: e.isTerminal}
+	defer flushAll(out, errs)
 	if len(args) == 0 || args[0] == "help" || args[0] == "-h" || args[0] == "--help" {
 		if len(args) > 1 {
 			if c, ok := commands[args[1]]; ok {
@@ -93,6 +97,9 @@ func run(e *env, args []string) int {
 		return 2
 	case errors.Is(err, errSilentFailure):
 		return 1
+	case errors.Is(err, errInterrupted):
+		fmt.Fprintf(e.stderr, "skysheet %s: %v\n", c.name, err)
+		return 130 // the shells' status for a command stopped by Ctrl-C
 	default:
 		fmt.Fprintf(e.stderr, "skysheet %s: %v\n", c.name, err)
 		return 1

@@ -39,6 +39,7 @@ func init() {
 func runPreview(e *env, args []string) error {
 	fl := newFlags(e, commands["preview"])
 	port := fl.Int("port", 8080, "port on 127.0.0.1 (0 picks a free one)")
+	maxSize := maxFileSizeFlag(fl)
 	pos, err := parseFlags(fl, args)
 	if err != nil {
 		return err
@@ -56,7 +57,7 @@ func runPreview(e *env, args []string) error {
 	if st, err := os.Stat(dir); err != nil || !st.IsDir() {
 		return usagef("library folder %s: not a folder", dir)
 	}
-	s := &preview{dir: dir, version: version(), log: e.stderr}
+	s := &preview{dir: dir, version: version(), log: e.stderr, maxSize: *maxSize}
 	s.rerender()
 	ln, err := net.Listen("tcp", fmt.Sprintf("127.0.0.1:%d", *port))
 	if err != nil {
@@ -87,6 +88,7 @@ func runPreview(e *env, args []string) error {
 type preview struct {
 	dir, version string
 	log          io.Writer
+	maxSize      int64 // largest file read; 0 means defaultMaxFileSize
 
 	// changed, if set, is called from the watcher with the name of every
 	// change that leads to a new render (tests follow the watcher with it).
@@ -160,7 +162,11 @@ func (s *preview) render() (memSite, []string) {
 		return nil, problems(err)
 	}
 	defer root.Close()
-	fsys := root.FS()
+	limit := s.maxSize
+	if limit <= 0 {
+		limit = defaultMaxFileSize
+	}
+	fsys := newInputFS(root, limit)
 	lib, err := library.Load(fsys)
 	if err != nil {
 		return nil, problems(err)
@@ -180,6 +186,12 @@ func (s *preview) render() (memSite, []string) {
 const renderIDPath = "/_skysheet/render-id"
 
 func (s *preview) ServeHTTP(w http.ResponseWriter, r *http.Request) {
+	if !loopbackHost(r.Host) {
+		// A page elsewhere may point a name of its own at 127.0.0.1 (DNS
+		// rebinding) to read the preview; such requests carry that name.
+		http.Error(w, "skysheet preview answers only requests for localhost, 127.0.0.1 or [::1]", http.StatusMisdirectedRequest)
+		return
+	}
 	s.mu.RLock()
 	files, failed, id := s.files, s.failed, s.id
 	s.mu.RUnlock()
@@ -331,4 +343,19 @@ func (s *preview) renderID() string {
 	s.mu.RLock()
 	defer s.mu.RUnlock()
 	return s.id
+}
+
+// loopbackHost reports whether the Host header h (a name, with or without a
+// port) names this machine's loopback interface: localhost, 127.0.0.1 or
+// [::1].
+func loopbackHost(h string) bool {
+	host, _, err := net.SplitHostPort(h)
+	if err != nil {
+		host = strings.TrimSuffix(strings.TrimPrefix(h, "["), "]")
+	}
+	switch strings.ToLower(strings.TrimSuffix(host, ".")) {
+	case "localhost", "127.0.0.1", "::1":
+		return true
+	}
+	return false
 }

@@ -64,24 +64,31 @@ func TestPreviewRendersOnChange(t *testing.T) {
 	md := filepath.Join(lib, "content", "roof", "basalt.md")
 	src, _ := os.ReadFile(md)
 	edited := strings.Replace(string(src), "Basalt roof coating (invented)", "Basalt roof coating, revised (invented)", 1)
-	waitID := func(old string) string {
+	// waitPage polls the datasheet until it satisfies ok. The render it
+	// waits for is the one of the file's final content: files are replaced
+	// by a rename (replaceFile), so no render ever sees half a file, and
+	// the test waits for what the page shows, not merely for some new
+	// render, which may still be one of an earlier state.
+	waitPage := func(what string, ok func(body string) bool) {
 		t.Helper()
-		deadline := time.Now().Add(10 * time.Second)
-		for time.Now().Before(deadline) {
-			if _, now := get(t, c, ts.URL+renderIDPath); now != old {
-				return now
+		deadline := time.Now().Add(20 * time.Second)
+		for {
+			_, body := get(t, c, ts.URL+"/m/basalt/index.html")
+			if ok(body) {
+				return
 			}
-			time.Sleep(100 * time.Millisecond)
+			if time.Now().After(deadline) {
+				t.Fatalf("the page never showed %s", what)
+			}
+			time.Sleep(50 * time.Millisecond)
 		}
-		t.Fatal("the render id did not change after an edit")
-		return ""
 	}
 	// Write until the watcher, which starts in the background, sees it.
 	stopWriting, stopped := make(chan struct{}), make(chan struct{})
 	go func() {
 		defer close(stopped)
 		for {
-			os.WriteFile(md, []byte(edited), 0o644)
+			replaceFile(t, md, edited)
 			select {
 			case <-stopWriting:
 				return
@@ -89,19 +96,37 @@ func TestPreviewRendersOnChange(t *testing.T) {
 			}
 		}
 	}()
-	id2 := waitID(id)
+	waitPage("the edit", func(body string) bool {
+		return strings.Contains(body, "revised") && !strings.Contains(body, "The last render failed")
+	})
 	close(stopWriting)
 	<-stopped // no late write of the good version may follow the broken one below
-	if _, body := get(t, c, ts.URL+"/m/basalt/index.html"); !strings.Contains(body, "revised") {
-		t.Error("page not rendered again")
+	if now := s.renderID(); now == id {
+		t.Error("the render id did not change after an edit")
 	}
 
-	// A broken file: the id changes again and pages carry the problems.
-	writeAt(t, md, strings.Replace(edited, "category:", "categroy:", 1))
-	waitID(id2)
-	_, body = get(t, c, ts.URL+"/m/basalt/index.html")
-	if !strings.Contains(body, "The last render failed") || !strings.Contains(body, "basalt.md:5:1: unknown key") {
-		t.Errorf("no problem banner")
+	// A broken file: pages carry the problems over the last good render.
+	replaceFile(t, md, strings.Replace(edited, "category:", "categroy:", 1))
+	waitPage("the problem banner", func(body string) bool {
+		return strings.Contains(body, "The last render failed") && strings.Contains(body, "basalt.md:5:1: unknown key")
+	})
+	if _, body := get(t, c, ts.URL+"/m/basalt/index.html"); !strings.Contains(body, "revised") {
+		t.Error("the banner does not stand over the last good render")
+	}
+}
+
+// replaceFile replaces the file p by a new one with data, through a hidden
+// temporary file and a rename, as editors do: a watcher never sees half of
+// it.
+func replaceFile(t *testing.T, p, data string) {
+	t.Helper()
+	tmp := filepath.Join(filepath.Dir(p), "."+filepath.Base(p)+".tmp")
+	if err := os.WriteFile(tmp, []byte(data), 0o644); err != nil {
+		t.Error(err)
+		return
+	}
+	if err := os.Rename(tmp, p); err != nil {
+		t.Error(err)
 	}
 }
 

@@ -1,13 +1,17 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io"
 	"io/fs"
 	"os"
+	"os/signal"
 	"path/filepath"
 	"strings"
+	"sync"
+	"syscall"
 
 	"skysheet/datasheet/library"
 	"skysheet/datasheet/site"
@@ -32,7 +36,8 @@ const (
 
 func runRender(e *env, args []string) error {
 	fl := newFlags(e, commands["render"])
-	out := fl.String("site", "", "folder the site is written to (default: site/ inside the library folder); replaced only when the whole render succeeds")
+	out := fl.String("site", "", "folder the site is written to (default: site/ inside the library folder); its files are replaced only when the whole render succeeds, and files skysheet did not write are kept")
+	maxSize := maxFileSizeFlag(fl)
 	pos, err := parseFlags(fl, args)
 	if err != nil {
 		return err
@@ -47,7 +52,11 @@ func runRender(e *env, args []string) error {
 	if *out == "" {
 		*out = filepath.Join(dir, siteDir)
 	}
-	res, err := renderSite(dir, *out, version(), e.stderr, e.isTerminal)
+	// Ctrl-C or a termination request stops the render: the unfinished site
+	// is removed and the old one stays as it was.
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	res, err := renderInto(ctx, dir, *out, renderOptions{version: version(), progress: e.stderr, terminal: e.isTerminal, maxSize: *maxSize})
 	if err != nil {
 		return reportRenderError(e, err)
 	}
@@ -84,10 +93,29 @@ type renderResult struct {
 	materials, comparisons, files int
 }
 
-// renderSite renders the library in dir into outDir through a temporary
-// folder beside outDir, which replaces outDir only when everything
-// succeeded. Progress goes to progress: a bar when it is a terminal.
+// renderOptions are the settings of one render.
+type renderOptions struct {
+	version  string
+	progress io.Writer // progress and notes; a bar when terminal is set
+	terminal bool
+	maxSize  int64 // largest input file read; 0 means defaultMaxFileSize
+}
+
+// renderSite renders the library in dir into outDir (see renderInto).
 func renderSite(dir, outDir, ver string, progress io.Writer, terminal bool) (renderResult, error) {
+	return renderInto(context.Background(), dir, outDir, renderOptions{version: ver, progress: progress, terminal: terminal})
+}
+
+// errInterrupted is returned by a render stopped by a signal.
+var errInterrupted = errors.New("interrupted")
+
+// renderInto renders the library in dir into the site folder outDir under
+// the rules of sitedir.go: it takes the folder's lock, finishes or cleans up
+// what an interrupted render left, renders into a hidden sibling folder and
+// swaps the new files in only when everything succeeded. When ctx is done
+// before the swap, the unfinished site is removed, the old one is left as
+// it was and the error wraps errInterrupted.
+func renderInto(ctx context.Context, dir, outDir string, o renderOptions) (renderResult, error) {
 	var res renderResult
 	absDir, err := filepath.Abs(dir)
 	if err != nil {
@@ -105,57 +133,115 @@ func renderSite(dir, outDir, ver string, progress io.Writer, terminal bool) (ren
 		return res, usagef("library folder: %v", err)
 	}
 	defer root.Close()
-	// os.Root refuses any path, symbolic links included, that leads out of
-	// the library folder.
-	fsys := root.FS()
-	lib, err := library.Load(fsys)
+	names := namesOf(absOut)
+	if err := os.MkdirAll(names.parent, 0o755); err != nil {
+		return res, err
+	}
+	unlock, err := lockSite(absOut)
 	if err != nil {
 		return res, err
 	}
-	opt := site.Options{Version: ver}
-	if st, err := fs.Stat(fsys, templatesDir); err == nil && st.IsDir() {
-		opt.Templates, _ = fs.Sub(fsys, templatesDir)
+	defer unlock()
+	if err := recoverSite(absOut, o.progress); err != nil {
+		return res, err
 	}
-	if terminal && len(lib.Materials) > 0 {
-		opt.Progress = func(done, total int) { drawProgress(progress, done, total) }
+	prev, err := checkOutput(absOut)
+	if err != nil {
+		return res, err
 	}
 
-	parent := filepath.Dir(absOut)
-	if err := os.MkdirAll(parent, 0o755); err != nil {
-		return res, err
-	}
-	tmp, err := os.MkdirTemp(parent, "."+filepath.Base(absOut)+".rendering-")
-	if err != nil {
-		return res, err
-	}
-	committed := false
-	defer func() {
-		if !committed {
-			os.RemoveAll(tmp)
-		}
-	}()
-	if err := os.Chmod(tmp, 0o755); err != nil {
+	id := newID()
+	tmp := names.temp("new", id)
+	if err := os.Mkdir(tmp, 0o755); err != nil {
 		return res, err
 	}
 	w := &dirWriter{root: tmp}
-	err = site.Render(lib, opt, w)
-	if opt.Progress != nil {
-		fmt.Fprintln(progress)
+	committed := false
+	defer func() {
+		if !committed {
+			w.stop()
+			os.RemoveAll(tmp)
+		}
+	}()
+	// The library is read and rendered in a goroutine, so that a signal
+	// stops the render at once, even while the library is being read; once
+	// w is stopped the goroutine writes nothing more.
+	type result struct {
+		lib *library.Library
+		err error
 	}
-	if err != nil {
+	done := make(chan result, 1)
+	go func() {
+		lib, err := renderLibrary(root, w, o)
+		done <- result{lib, err}
+	}()
+	var r result
+	select {
+	case r = <-done:
+	case <-ctx.Done():
+		return res, fmt.Errorf("%w: the site in %s was left as it was", errInterrupted, absOut)
+	}
+	if r.err != nil {
+		return res, r.err
+	}
+	files := w.written()
+	if err := checkKept(absOut, prev, files); err != nil {
 		return res, err
 	}
-	if err := replaceDir(tmp, absOut); err != nil {
+	if err := writeFileAtomic(filepath.Join(tmp, siteMarker), func(f io.Writer) error {
+		_, err := f.Write(encodeMarker(o.version, files))
+		return err
+	}); err != nil {
+		return res, err
+	}
+	if ctx.Err() != nil {
+		return res, fmt.Errorf("%w: the site in %s was left as it was", errInterrupted, absOut)
+	}
+	// The commit: from here on the new site is put in place, by this run or,
+	// after a crash, by the next one.
+	commit := names.temp("commit", id)
+	if err := os.Rename(tmp, commit); err != nil {
 		return res, err
 	}
 	committed = true
-	return renderResult{materials: len(lib.Materials), comparisons: len(lib.Comparisons), files: w.n}, nil
+	if err := hook("commit"); err != nil {
+		return res, err
+	}
+	if err := install(commit, absOut); err != nil {
+		return res, fmt.Errorf("putting the new site in place: %w (the next render finishes this)", err)
+	}
+	return renderResult{materials: len(r.lib.Materials), comparisons: len(r.lib.Comparisons), files: len(files)}, nil
+}
+
+// renderLibrary reads the library below root and renders it through w.
+func renderLibrary(root *os.Root, w *dirWriter, o renderOptions) (*library.Library, error) {
+	limit := o.maxSize
+	if limit <= 0 {
+		limit = defaultMaxFileSize
+	}
+	fsys := newInputFS(root, limit)
+	lib, err := library.Load(fsys)
+	if err != nil {
+		return nil, err
+	}
+	opt := site.Options{Version: o.version}
+	if st, err := fs.Stat(fsys, templatesDir); err == nil && st.IsDir() {
+		opt.Templates, _ = fs.Sub(fsys, templatesDir)
+	}
+	if o.terminal && len(lib.Materials) > 0 {
+		opt.Progress = func(done, total int) { drawProgress(o.progress, done, total) }
+	}
+	err = site.Render(lib, opt, w)
+	if opt.Progress != nil {
+		fmt.Fprintln(o.progress)
+	}
+	return lib, err
 }
 
 // checkSiteFolder refuses site folders whose replacement would lose data or
 // whose pages would be read back: the library itself or a folder holding
-// it, a folder inside content/ or templates/, or an existing folder that is
-// not a site rendered before.
+// it, a folder inside content/ or templates/. checkOutput refuses existing
+// folders that are not sites rendered before.
 func checkSiteFolder(absDir, absOut string) error {
 	within := func(p, dir string) bool {
 		rel, err := filepath.Rel(dir, p)
@@ -170,75 +256,42 @@ func checkSiteFolder(absDir, absOut string) error {
 	if within(absOut, filepath.Join(absDir, templatesDir)) {
 		return usagef("site folder %s is inside %s/: its pages would be read as templates next time", absOut, templatesDir)
 	}
-	st, err := os.Stat(absOut)
-	switch {
-	case errors.Is(err, fs.ErrNotExist):
-		return nil
-	case err != nil:
-		return err
-	case !st.IsDir():
-		return usagef("site folder %s exists and is not a folder", absOut)
-	}
-	entries, err := os.ReadDir(absOut)
-	if err != nil {
-		return err
-	}
-	if len(entries) == 0 {
-		return nil
-	}
-	if _, err := os.Stat(filepath.Join(absOut, "catalog.json")); err != nil {
-		return usagef("site folder %s is not empty and holds no catalog.json: refusing to replace a folder that is not a rendered site", absOut)
-	}
 	return nil
 }
 
-// replaceDir puts the folder tmp in place of out: out is moved aside, tmp
-// renamed to out, and the old folder removed. If the second rename fails,
-// the old folder is put back.
-func replaceDir(tmp, out string) error {
-	old := ""
-	if _, err := os.Lstat(out); err == nil {
-		o, err := os.MkdirTemp(filepath.Dir(out), "."+filepath.Base(out)+".old-")
-		if err != nil {
-			return err
-		}
-		if err := os.Remove(o); err != nil {
-			return err
-		}
-		if err := os.Rename(out, o); err != nil {
-			return err
-		}
-		old = o
-	}
-	if err := os.Rename(tmp, out); err != nil {
-		if old != "" {
-			os.Rename(old, out)
-		}
-		return err
-	}
-	if old != "" {
-		return os.RemoveAll(old)
-	}
-	return nil
-}
-
-// dirWriter writes site files below a folder.
+// dirWriter writes site files below a folder, one at a time, and records
+// their names. Once stopped, it writes nothing more.
 type dirWriter struct {
 	root string
-	n    int
+
+	mu      sync.Mutex
+	files   []string
+	stopped bool
 }
 
 // failAfter, when positive, makes the n-th write fail (tests of atomicity).
 var failAfter int
 
+// writeHook, when set, is called before each write with the writer and the
+// number of the write (tests of interruption).
+var writeHook func(w *dirWriter, n int)
+
 var errInjected = errors.New("injected write failure")
 
 func (w *dirWriter) WriteFile(name string, data []byte) error {
-	if !fs.ValidPath(name) {
+	if !fs.ValidPath(name) || name == siteMarker {
 		return fmt.Errorf("site file %q: invalid path", name)
 	}
-	w.n++
-	if failAfter > 0 && w.n >= failAfter {
+	if writeHook != nil {
+		writeHook(w, len(w.written())+1)
+	}
+	w.mu.Lock()
+	defer w.mu.Unlock()
+	if w.stopped {
+		return errInterrupted
+	}
+	w.files = append(w.files, name)
+	if failAfter > 0 && len(w.files) >= failAfter {
 		return errInjected
 	}
 	p := filepath.Join(w.root, filepath.FromSlash(name))
@@ -248,8 +301,30 @@ func (w *dirWriter) WriteFile(name string, data []byte) error {
 	return os.WriteFile(p, data, 0o644)
 }
 
+// stop makes every later write fail and waits for a write under way.
+func (w *dirWriter) stop() {
+	w.mu.Lock()
+	w.stopped = true
+	w.mu.Unlock()
+}
+
+// isStopped reports whether stop was called.
+func (w *dirWriter) isStopped() bool {
+	w.mu.Lock()
+	defer w.mu.Unlock()
+	return w.stopped
+}
+
+// written returns the names written so far.
+func (w *dirWriter) written() []string {
+	w.mu.Lock()
+	defer w.mu.Unlock()
+	return append([]string(nil), w.files...)
+}
+
 // drawProgress draws a one-line progress bar.
 func drawProgress(w io.Writer, done, total int) {
+	w = rawWriter(w) // its carriage return is meant
 	const width = 30
 	n := width * done / total
 	fmt.Fprintf(w, "\r[%s%s] %d/%d materials", strings.Repeat("#", n), strings.Repeat(" ", width-n), done, total)

@@ -186,11 +186,17 @@ func TestRenderRefusesSiteFolder(t *testing.T) {
 	lib := copyLibrary(t)
 	other := t.TempDir()
 	writeAt(t, filepath.Join(other, "notes.txt"), "keep me")
-	for _, out := range []string{lib, filepath.Dir(lib), filepath.Join(lib, "content", "site"), filepath.Join(lib, "templates"), filepath.Join(lib, "templates", "site"), other} {
+	for _, out := range []string{lib, filepath.Dir(lib), filepath.Join(lib, "content", "site"), filepath.Join(lib, "templates"), filepath.Join(lib, "templates", "site")} {
 		code, _, stderr := runCLI("render", lib, "--site", out)
 		if code != 2 {
 			t.Errorf("--site %s: exit %d, want 2 (%s)", out, code, stderr)
 		}
+	}
+	// A folder that holds files but was not rendered is bad data, not bad
+	// usage: the message says how to go on.
+	code, _, stderr := runCLI("render", lib, "--site", other)
+	if code != 1 || !strings.Contains(stderr, "was not rendered by skysheet") || !strings.Contains(stderr, "create an empty file "+filepath.Join(other, siteMarker)) {
+		t.Errorf("--site %s: exit %d, want 1 (%s)", other, code, stderr)
 	}
 	if data, _ := os.ReadFile(filepath.Join(other, "notes.txt")); string(data) != "keep me" {
 		t.Error("unrelated folder was touched")

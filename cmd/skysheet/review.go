@@ -70,6 +70,7 @@ func runReview(e *env, args []string) error {
 	fl := newFlags(e, commands["review"])
 	format := fl.String("format", "text", "output: text (a report grouped by material), json or junit (JUnit XML)")
 	strict := fl.Bool("strict", false, "also fail when a claim cannot be checked")
+	maxSize := maxFileSizeFlag(fl)
 	pos, err := parseFlags(fl, args)
 	if err != nil {
 		return err
@@ -86,14 +87,18 @@ func runReview(e *env, args []string) error {
 	default:
 		return usagef("one library folder at most, got %d arguments", len(pos))
 	}
-	fsys, closeFS, err := openLibrary(dir)
+	fsys, closeFS, err := openLibrary(dir, *maxSize)
 	if err != nil {
 		return err
 	}
 	defer closeFS()
 	lib, err := library.Load(fsys)
 	r := reviewLibrary(dir, lib, err, *strict)
-	if err := write(e.stdout, r); err != nil {
+	out := e.stdout
+	if *format != "text" {
+		out = rawWriter(out) // data, not text for a person
+	}
+	if err := write(out, r); err != nil {
 		return err
 	}
 	if !r.OK {
@@ -104,7 +109,7 @@ func runReview(e *env, args []string) error {
 
 // openLibrary opens dir as a file system that cannot be left, not even by
 // a symbolic link. A missing folder is bad usage.
-func openLibrary(dir string) (fs.FS, func(), error) {
+func openLibrary(dir string, maxSize int64) (fs.FS, func(), error) {
 	st, err := os.Stat(dir)
 	if err != nil || !st.IsDir() {
 		return nil, nil, usagef("%s is not a library folder (want a folder holding skysheet.yaml and content/)", dir)
@@ -113,7 +118,7 @@ func openLibrary(dir string) (fs.FS, func(), error) {
 	if err != nil {
 		return nil, nil, err
 	}
-	return root.FS(), func() { root.Close() }, nil
+	return newInputFS(root, maxSize), func() { root.Close() }, nil
 }
 
 // reviewLibrary judges every claim of lib and files the load errors under

@@ -76,7 +76,7 @@ func TestJudgeAllOrder(t *testing.T) {
 		data = bytes.Replace(data, []byte("value: 100}"), fmt.Appendf(nil, "value: %d}", 90+i), 1)
 		writeAt(t, p, string(data))
 	}
-	fsys, closeFS, err := openLibrary(dir)
+	fsys, closeFS, err := openLibrary(dir, defaultMaxFileSize)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -109,7 +109,7 @@ func TestJudgeAllOrder(t *testing.T) {
 func BenchmarkReview(b *testing.B) {
 	dir := copiesLibrary(b, 100, manyClaims)
 	for b.Loop() {
-		fsys, closeFS, err := openLibrary(dir)
+		fsys, closeFS, err := openLibrary(dir, defaultMaxFileSize)
 		if err != nil {
 			b.Fatal(err)
 		}

@@ -5,8 +5,6 @@ import (
 	"flag"
 	"fmt"
 	"io"
-	"os"
-	"path/filepath"
 	"strings"
 
 	"skysheet/spectra"
@@ -24,7 +22,9 @@ func init() {
 // sampleOptions says how the files of one sample are read and joined.
 type sampleOptions struct {
 	splice    spectra.SpliceOptions
-	reference string // reference-standard file for files that name none
+	reference string   // reference-standard file for files that name none
+	maxSize   int64    // largest file read; 0 means defaultMaxFileSize
+	read      []string // every file read by readSampleWith, for refuseOverwrite
 }
 
 // methodFlag is a flag holding a splice method.
@@ -54,6 +54,8 @@ func sampleFlags(fs *flag.FlagSet, prefix string, o *sampleOptions) {
 	fs.StringVar(&o.splice.Adjust, prefix+"adjust", "", "file whose data the splice adjusts (default: the one reaching longer wavelengths)")
 	fs.Float64Var(&o.splice.JunctionNM, prefix+"junction", 0, "splice junction in nm (default: the middle of the overlap)")
 	fs.Float64Var(&o.splice.Tolerance, prefix+"tol", o.splice.Tolerance, "flag a splice whose mean mismatch before correction exceeds this")
+	o.maxSize = defaultMaxFileSize
+	fs.Var(sizeFlag{&o.maxSize}, "max-file-size", "largest input file read, e.g. 64MiB or 1GiB; larger files are refused before they are read")
 	fs.StringVar(&o.reference, "reference", "", "neutral-format file of the reference standard's calibrated reflectance; corrects R = R_rel × R_ref in files that name no reference_file of their own")
 }
 
@@ -67,9 +69,13 @@ func (o sampleOptions) validate() error {
 	return nil
 }
 
-// readSpectrumFile reads one spectrum file of any supported format.
-func readSpectrumFile(name string) (*spectra.Spectrum, error) {
-	data, err := os.ReadFile(name)
+// readSpectrumFile reads one spectrum file of any supported format: a
+// regular file of at most limit bytes (0 means defaultMaxFileSize).
+func readSpectrumFile(name string, limit int64) (*spectra.Spectrum, error) {
+	if limit <= 0 {
+		limit = defaultMaxFileSize
+	}
+	data, err := readInputFile(name, limit)
 	if err != nil {
 		return nil, err
 	}
@@ -78,26 +84,32 @@ func readSpectrumFile(name string) (*spectra.Spectrum, error) {
 
 // readSampleWith reads the spectrum files of one sample, corrects each
 // against its reference standard (the file's own reference_file, relative
-// to the file, else o.reference) and joins them with spectra.Join.
-func readSampleWith(files []string, o sampleOptions) (*spectra.Spectrum, error) {
+// to the file and inside its folder (see readReference), else o.reference)
+// and joins them with spectra.Join.
+func readSampleWith(files []string, o *sampleOptions) (*spectra.Spectrum, error) {
 	refs := map[string]*spectra.Spectrum{}
 	parts := make([]*spectra.Spectrum, 0, len(files))
 	for _, name := range files {
-		s, err := readSpectrumFile(name)
+		s, err := readSpectrumFile(name, o.maxSize)
+		o.read = append(o.read, name)
 		if err != nil {
 			return nil, err
 		}
 		ref := o.reference
 		if f, ok := spectra.ReferenceFile(s); ok {
-			ref = f
-			if !filepath.IsAbs(f) {
-				ref = filepath.Join(filepath.Dir(name), f)
+			r, p, err := readReference(name, f, o.reference, o.maxSize)
+			o.read = append(o.read, p)
+			if err != nil {
+				return nil, err
 			}
+			ref = p
+			refs[ref] = r
 		}
 		if ref != "" {
 			r, ok := refs[ref]
 			if !ok {
-				if r, err = readSpectrumFile(ref); err != nil {
+				o.read = append(o.read, ref)
+				if r, err = readSpectrumFile(ref, o.maxSize); err != nil {
 					return nil, fmt.Errorf("reference standard for %s: %w", name, err)
 				}
 				refs[ref] = r
@@ -119,10 +131,13 @@ func writeSpectrumFile(w io.Writer, name string, s *spectra.Spectrum) error {
 		return err
 	}
 	if name == "-" {
-		_, err := w.Write(b.Bytes())
+		_, err := rawWriter(w).Write(b.Bytes())
 		return err
 	}
-	return os.WriteFile(name, b.Bytes(), 0o644)
+	return writeFileAtomic(name, func(f io.Writer) error {
+		_, err := f.Write(b.Bytes())
+		return err
+	})
 }
 
 func runSplice(e *env, args []string) error {
@@ -143,9 +158,15 @@ func runSplice(e *env, args []string) error {
 	if err := o.validate(); err != nil {
 		return err
 	}
-	s, err := readSampleWith(files, o)
+	s, err := readSampleWith(files, &o)
 	if err != nil {
 		return err
+	}
+	printWarnings(e.stderr, "splice", s)
+	if *out != "-" {
+		if err := refuseOverwrite(*out, o.read); err != nil {
+			return err
+		}
 	}
 	if err := writeSpectrumFile(e.stdout, *out, s); err != nil {
 		return err
@@ -159,6 +180,13 @@ func runSplice(e *env, args []string) error {
 	}
 	printSplices(report, s.Splices)
 	return nil
+}
+
+// printWarnings writes the plausibility warnings of s, one a line.
+func printWarnings(w io.Writer, verb string, s *spectra.Spectrum) {
+	for _, x := range s.Warnings {
+		fmt.Fprintf(w, "skysheet %s: warning: %s\n", verb, x)
+	}
 }
 
 // printSplices writes one line per splice record.

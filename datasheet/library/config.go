@@ -10,6 +10,7 @@ import (
 	"gopkg.in/yaml.v3"
 
 	"skysheet/datasheet"
+	"skysheet/internal/quote"
 	"skysheet/spectra"
 )
 
@@ -95,7 +96,7 @@ func (d doc) apply(o Overrides, base datasheet.Conditions) (datasheet.Conditions
 		c.SkySpectrum = nil
 		p, err := resolvePath(d.file, c.Sky)
 		if err != nil {
-			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("sky file %q: %w (or write %q for the built-in sky)", c.Sky, err, datasheet.SkyClear)}
+			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("sky file %s: %w (or write %q for the built-in sky)", quote.Value(c.Sky), err, datasheet.SkyClear)}
 		}
 		var data []byte
 		if d.fsys != nil {
@@ -168,7 +169,7 @@ func parseConfig(fsys fs.FS, src []byte) (Config, error) {
 	if b := strings.TrimSpace(f.SiteAddress); b != "" {
 		u, err := url.Parse(b)
 		if err != nil || (u.Scheme != "http" && u.Scheme != "https") || u.Host == "" {
-			errs = append(errs, d.at(valueNode(root, "site_address"), ErrType, "site_address %q: want an absolute http or https URL", b))
+			errs = append(errs, d.at(valueNode(root, "site_address"), ErrType, "site_address %s: want an absolute http or https URL", quote.Value(b)))
 		} else {
 			cfg.SiteAddress = strings.TrimSuffix(u.String(), "/") + "/"
 		}

@@ -7,6 +7,7 @@ import (
 	"gopkg.in/yaml.v3"
 
 	"skysheet/datasheet"
+	"skysheet/internal/quote"
 )
 
 // FrontMatter is the YAML block at the top of a content file. A material
@@ -129,7 +130,7 @@ func parseFront(file string, yamlText []byte) (FrontMatter, frontLines, doc, err
 	if valueNode(root, "compare") != root {
 		for i := 0; i+1 < len(root.Content); i += 2 {
 			if k := root.Content[i]; !comparisonKeys[k.Value] {
-				errs = append(errs, d.at(k, ErrNotAllowed, "%q in a comparison page (it has compare:); allowed: title, slug, summary, compare", k.Value))
+				errs = append(errs, d.at(k, ErrNotAllowed, "%s in a comparison page (it has compare:); allowed: title, slug, summary, compare", quote.Value(k.Value)))
 			}
 		}
 		if len(fm.Compare) == 0 {

@@ -44,7 +44,7 @@ func FuzzLoad(f *testing.F) {
 			}
 		}
 		for _, c := range lib.Comparisons {
-			if c.Front.Title == "" || len(c.Materials) == 0 {
+			if c.Front.Title == "" || len(c.Materials) == 0 || len(c.Materials) != len(c.Front.Compare) {
 				t.Fatalf("accepted comparison breaks invariants: %+v", c)
 			}
 		}

@@ -13,6 +13,7 @@ import (
 	"sync"
 
 	"skysheet/datasheet"
+	"skysheet/internal/quote"
 	"skysheet/spectra"
 )
 
@@ -130,14 +131,14 @@ func Load(fsys fs.FS) (*Library, error) {
 		switch {
 		case r.m != nil:
 			if prev, dup := slugs[r.m.Slug]; dup {
-				add(errorf(r.m.Path, r.slugLine, 0, ErrDuplicateSlug, "%q is also the slug of %s", r.m.Slug, prev))
+				add(errorf(r.m.Path, r.slugLine, 0, ErrDuplicateSlug, "%s is also the slug of %s", quote.Value(r.m.Slug), prev))
 				continue
 			}
 			slugs[r.m.Slug] = r.m.Path
 			lib.Materials = append(lib.Materials, r.m)
 		case r.c != nil:
 			if prev, dup := cmpSlugs[r.c.Slug]; dup {
-				add(errorf(r.c.Path, r.slugLine, 0, ErrDuplicateSlug, "%q is also the slug of comparison %s", r.c.Slug, prev))
+				add(errorf(r.c.Path, r.slugLine, 0, ErrDuplicateSlug, "%s is also the slug of comparison %s", quote.Value(r.c.Slug), prev))
 				continue
 			}
 			cmpSlugs[r.c.Slug] = r.c.Path
@@ -152,18 +153,29 @@ func Load(fsys fs.FS) (*Library, error) {
 			known[r.slug] = true
 		}
 	}
+	// A comparison missing any of its materials is left out, as a material
+	// with an error is.
+	resolved := lib.Comparisons[:0]
+	for _, c := range lib.Comparisons {
+		for _, s := range c.Front.Compare {
+			m, ok := lib.Material(strings.TrimSpace(s))
+			if ok {
+				c.Materials = append(c.Materials, m)
+			}
+		}
+		if len(c.Materials) == len(c.Front.Compare) {
+			resolved = append(resolved, c)
+		}
+	}
+	lib.Comparisons = resolved
 	for i, r := range results {
 		if r.c == nil {
 			continue
 		}
 		for j, s := range r.c.Front.Compare {
-			m, ok := lib.Material(strings.TrimSpace(s))
-			switch {
-			case ok:
-				r.c.Materials = append(r.c.Materials, m)
-			case !known[strings.TrimSpace(s)]:
+			if _, ok := lib.Material(strings.TrimSpace(s)); !ok && !known[strings.TrimSpace(s)] {
 				line := results[i].compareLines[j]
-				add(errorf(r.c.Path, line, 0, ErrUnknownMaterial, "compare entry %q%s", s, nearestSlug(s, slugs)))
+				add(errorf(r.c.Path, line, 0, ErrUnknownMaterial, "compare entry %s%s", quote.Value(s), nearestSlug(s, slugs)))
 			}
 		}
 	}
@@ -266,7 +278,7 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 	} else {
 		r.slug = fm.Slug
 		if Slugify(fm.Slug) != fm.Slug {
-			errs = append(errs, d.at(slugNode, ErrBadSlug, "%q: want lower-case letters, digits and single hyphens, e.g. %q", fm.Slug, Slugify(fm.Slug)))
+			errs = append(errs, d.at(slugNode, ErrBadSlug, "%s: want lower-case letters, digits and single hyphens, e.g. %s", quote.Value(fm.Slug), quote.Value(Slugify(fm.Slug))))
 		}
 	}
 	fm.Slug = r.slug
@@ -299,7 +311,7 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 		line := fl.spectra[i].Line + d.offset
 		p, err := resolvePath(file, ref.File)
 		if err != nil {
-			errs = append(errs, &Error{File: file, Line: line, Err: fmt.Errorf("spectra file %q: %w", ref.File, err)})
+			errs = append(errs, &Error{File: file, Line: line, Err: fmt.Errorf("spectra file %s: %w", quote.Value(ref.File), err)})
 			continue
 		}
 		data, err := fs.ReadFile(fsys, p)
@@ -358,7 +370,7 @@ func applyReference(fsys fs.FS, p string, s *spectra.Spectrum, m *Material) (*sp
 	}
 	rp, err := resolvePath(p, ref)
 	if err != nil {
-		return nil, fmt.Errorf("%s: reference_file %q: %w", p, ref, err)
+		return nil, fmt.Errorf("%s: reference_file %s: %w", p, quote.Value(ref), err)
 	}
 	data, err := fs.ReadFile(fsys, rp)
 	if err != nil {

@@ -11,6 +11,8 @@ import (
 	"strings"
 
 	"gopkg.in/yaml.v3"
+
+	"skysheet/internal/quote"
 )
 
 // doc is one YAML document of a library file: the file name and the number
@@ -134,7 +136,7 @@ func (d doc) check(n *yaml.Node, t reflect.Type) []error {
 				continue
 			}
 			if prev, dup := seen[k.Value]; dup {
-				errs = append(errs, d.at(k, ErrDuplicateKey, "%q (first at line %d)", k.Value, prev.Line+d.offset))
+				errs = append(errs, d.at(k, ErrDuplicateKey, "%s (first at line %d)", quote.Value(k.Value), prev.Line+d.offset))
 				continue
 			}
 			seen[k.Value] = k
@@ -237,15 +239,22 @@ func unknownKey(key string, fields map[string]reflect.StructField) string {
 		}
 	}
 	if bestD >= 0 && bestD <= max(2, len(key)/3) {
-		return fmt.Sprintf("%q (did you mean %q?)", key, best)
+		return fmt.Sprintf("%s (did you mean %q?)", quote.Value(key), best)
 	}
-	return fmt.Sprintf("%q (nearest known key %q; known keys: %s)", key, best, strings.Join(names, ", "))
+	return fmt.Sprintf("%s (nearest known key %q; known keys: %s)", quote.Value(key), best, strings.Join(names, ", "))
 }
+
+// maxCompared bounds the names editDistance compares, so that a 10 MB key
+// costs no quadratic time.
+const maxCompared = 256
 
 // editDistance returns the Levenshtein distance between a and b, counted in
 // runes.
 func editDistance(a, b string) int {
 	ra, rb := []rune(a), []rune(b)
+	if len(ra) > maxCompared || len(rb) > maxCompared {
+		return max(len(ra), len(rb)) // an upper bound: such names are near nothing
+	}
 	prev := make([]int, len(rb)+1)
 	cur := make([]int, len(rb)+1)
 	for j := range prev {
@@ -270,7 +279,7 @@ func kindName(n *yaml.Node) string {
 	case yaml.SequenceNode:
 		return "a list"
 	case yaml.ScalarNode:
-		return fmt.Sprintf("%q", n.Value)
+		return quote.Value(n.Value)
 	case yaml.MappingNode:
 		return "a mapping"
 	}

@@ -3,6 +3,8 @@ package weather
 import (
 	"fmt"
 	"strings"
+
+	"skysheet/internal/quote"
 )
 
 // unit is one accepted unit of a quantity: a value v read in it is
@@ -129,7 +131,7 @@ func parseHeaderCell(raw string) (cell, error) {
 			closer = ']'
 		}
 		if h[len(h)-1] != closer {
-			return c, fmt.Errorf("%q %w: the unit must close the cell with %q, e.g. \"air temperature (°C)\"", cut(h), ErrBadHeader, string(closer))
+			return c, fmt.Errorf("%q %w: the unit must close the cell with %q, e.g. \"air temperature (°C)\"", quote.Cut(h), ErrBadHeader, string(closer))
 		}
 		name, inside, hasUnit = h[:i], h[i+1:len(h)-1], true
 	}
@@ -148,7 +150,7 @@ func parseHeaderCell(raw string) (cell, error) {
 		}
 	}
 	if q < 0 {
-		return c, fmt.Errorf("%q %w: want %s, with its unit in parentheses", cut(h), ErrUnknownColumn, knownNames())
+		return c, fmt.Errorf("%q %w: want %s, with its unit in parentheses", quote.Cut(h), ErrUnknownColumn, knownNames())
 	}
 	c.q, c.col.Quantity = q, q
 	d := &quantityInfo[q]
@@ -157,7 +159,7 @@ func parseHeaderCell(raw string) (cell, error) {
 	un := normUnit(u)
 	if q == Time {
 		if hasUnit && (un != "" || c.col.Note != "") {
-			return c, fmt.Errorf("%q %w for time: time takes no unit; each value carries its UTC offset, e.g. 2026-07-01T13:00:00+02:00", cut(strings.TrimSpace(inside)), ErrUnit)
+			return c, fmt.Errorf("%q %w for time: time takes no unit; each value carries its UTC offset, e.g. 2026-07-01T13:00:00+02:00", quote.Cut(strings.TrimSpace(inside)), ErrUnit)
 		}
 		return c, nil
 	}
@@ -176,7 +178,7 @@ func parseHeaderCell(raw string) (cell, error) {
 			}
 		}
 	}
-	return c, fmt.Errorf("%q %w for %s: want %s", cut(strings.TrimSpace(u)), ErrUnit, d.name, d.unitNames())
+	return c, fmt.Errorf("%q %w for %s: want %s", quote.Cut(strings.TrimSpace(u)), ErrUnit, d.name, d.unitNames())
 }
 
 // unitExamples writes a quantity's header with each of its units.
@@ -186,17 +188,4 @@ func unitExamples(d *quantityDef) string {
 		ex = append(ex, "\""+d.name+" ("+u.name+")\"")
 	}
 	return strings.Join(ex, " or ")
-}
-
-// cut shortens s for a message: at most 40 characters, "…" marking a cut.
-func cut(s string) string {
-	const max = 40
-	n := 0
-	for i := range s {
-		if n == max {
-			return s[:i] + "…"
-		}
-		n++
-	}
-	return s
 }

@@ -9,6 +9,7 @@ import (
 	"testing"
 	"time"
 
+	"skysheet/internal/quote"
 	"skysheet/spectra"
 )
 
@@ -325,10 +326,10 @@ func (sized) Read(p []byte) (int, error) { panic("read") }
 
 func TestCut(t *testing.T) {
 	long := strings.Repeat("é", 50)
-	if got := cut(long); got != strings.Repeat("é", 40)+"…" {
+	if got := quote.Cut(long); got != strings.Repeat("é", 40)+"…" {
 		t.Errorf("cut: %q", got)
 	}
-	if got := cut("short"); got != "short" {
+	if got := quote.Cut("short"); got != "short" {
 		t.Errorf("cut: %q", got)
 	}
 	_, err := Parse(strings.NewReader(replaceRow(2, "2026-07-01T00:00:00+02:00,"+strings.Repeat("9", 100)+"x,10,0")), "c.csv")
