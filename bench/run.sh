@@ -30,6 +30,7 @@ modes (-m):
 environment:
   SKYSHEET_RENDER  verb and output flag (default "render --site"; "build -o" for older builds)
   SKYSHEET_SRC     source tree to build skysheet from (default: this repository)
+  SKYSHEET_REV     build this git revision of SKYSHEET_SRC instead of its working tree
   SKYSHEET_BIN     a skysheet binary to time instead of building one
   SKYSHEET_CACHE   changed mode: path inside the library of the render cache,
                    deleted before each full render (default: none)
@@ -83,7 +84,18 @@ log() { echo "run.sh: $*" >&2; }
 # Build once; time the binaries, not "go run".
 if [ -n "${SKYSHEET_BIN:-}" ]; then
 	bin=$SKYSHEET_BIN
+	rev="a given binary"
+elif [ -n "${SKYSHEET_REV:-}" ]; then
+	rev=$(git -C "$src" rev-parse --short "$SKYSHEET_REV^{commit}")
+	log "building skysheet $rev of $src"
+	rm -rf "$work/src"
+	mkdir -p "$work/src"
+	git -C "$src" archive "$rev" | tar -x -C "$work/src"
+	(cd "$work/src" && go build -o "$work/skysheet" ./cmd/skysheet)
+	bin=$work/skysheet
+	rev="built from $rev"
 else
+	rev="built from $(git -C "$src" describe --always --dirty 2>/dev/null || echo "$src")"
 	log "building skysheet from $src"
 	(cd "$src" && go build -o "$work/skysheet" ./cmd/skysheet)
 	bin=$work/skysheet
@@ -123,7 +135,6 @@ cpu=$(awk -F': ' '/^model name/ { print $2; exit }' /proc/cpuinfo 2>/dev/null ||
 mem=$(awk '/^MemTotal/ { printf "%.0f GiB", $2 / 1048576 }' /proc/meminfo 2>/dev/null || true)
 load_start=$(cut -d' ' -f1-3 /proc/loadavg)
 version=$("$bin" version 2>/dev/null || echo "skysheet (version unknown)")
-rev=$(git -C "$src" rev-parse --short HEAD 2>/dev/null || echo "?")
 
 rows=()
 for n in "${sizes[@]}"; do
@@ -219,4 +230,4 @@ if [ "$mode" != skysheet ] && [ "$mode" != changed ]; then
 	pyver="; lab script: $("$python" -c 'import sys, numpy, matplotlib; print("Python %d.%d.%d, numpy %s, matplotlib %s" % (sys.version_info[:3] + (numpy.__version__, matplotlib.__version__)))'), $lab_jobs process(es)"
 fi
 echo "Medians of $reps runs; wall time and peak RSS per process, CPU = user + system. $cores cores (nproc)${cpu:+, $cpu}${mem:+, $mem RAM};" \
-	"load average ${load_start// /, } at the start, ${load_end// /, } at the end. $version (\`$SKYSHEET_RENDER\`, built from $rev)$pyver; seed $seed."
+	"load average ${load_start// /, } at the start, ${load_end// /, } at the end. $version (\`$SKYSHEET_RENDER\`, $rev)$pyver; seed $seed."

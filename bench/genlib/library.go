@@ -292,7 +292,6 @@ description: >-
   A library generated for skysheet's benchmarks: white paints, coatings, dark paints, silvered
   films, sheet metal, transparent covers and fabrics. All makers, products and spectra are
   invented; the spectra are synthetic data, not measurements.
-base_url: https://bench.quillmere.example/
 lab: %s
 conditions:
   solar_band_nm: [280, 2500]

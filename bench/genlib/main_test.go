@@ -59,7 +59,6 @@ type frontMatter struct {
 type configFile struct {
 	Title       string         `yaml:"title"`
 	Description string         `yaml:"description"`
-	BaseURL     string         `yaml:"base_url"`
 	AllowHTML   bool           `yaml:"allow_html"`
 	Lab         string         `yaml:"lab"`
 	Publisher   string         `yaml:"publisher"`
