@@ -32,8 +32,6 @@ environment:
   SKYSHEET_SRC     source tree to build skysheet from (default: this repository)
   SKYSHEET_REV     build this git revision of SKYSHEET_SRC instead of its working tree
   SKYSHEET_BIN     a skysheet binary to time instead of building one
-  SKYSHEET_CACHE   changed mode: path inside the library of the render cache,
-                   deleted before each full render (default: none)
   PYTHON           interpreter with numpy and matplotlib (default /usr/bin/python3)
   LAB_JOBS         worker processes of the lab script (default 1)
   SEED             seed of the generated libraries (default 1)
@@ -124,6 +122,14 @@ median() {
 # med K FORMAT FILE: the median of column K of FILE, printed with FORMAT.
 med() { awk -v k="$1" '{ print $k }' "$3" | median | awk -v f="$2" '{ printf f, $1 }'; }
 
+# cell FILE: median wall time and, in brackets, median CPU time of FILE.
+cell() { echo "$(med 1 %.2f "$1") ($(med 2 %.1f "$1"))"; }
+
+# fresh_library DIR: removes what a render may have left in the library
+# folder (a cache, a default site folder): the generator writes only
+# skysheet.yaml and content/ there.
+fresh_library() { find "$1" -mindepth 1 -maxdepth 1 ! -name skysheet.yaml ! -name content -exec rm -rf {} +; }
+
 # change_spectrum FILE K: changes the R value at 1000 nm, differently for each K.
 change_spectrum() {
 	awk -F, -v OFS=, -v k="$2" '$1 == "1000" { d = 0.0001 * k; $2 = sprintf("%.4f", ($2 > 0.5) ? $2 - d : $2 + d) } 1' "$1" >"$1.tmp"
@@ -152,6 +158,7 @@ for n in "${sizes[@]}"; do
 		for ((k = 1; k <= reps; k++)); do
 			if [ "$mode" != lab ]; then
 				rm -rf "$site"
+				fresh_library "$lib"
 				r=$(timed "$bin" "$verb" "$lib" "$outflag" "$site")
 				echo "$r" >>"$work/sky-$n.txt"
 				log "N=$n run $k: skysheet $SKYSHEET_RENDER: wall ${r%% *} s (wall, CPU s, RSS MiB: $r)"
@@ -183,13 +190,14 @@ for n in "${sizes[@]}"; do
 		# Full renders from scratch (no site, no cache).
 		for ((k = 1; k <= reps; k++)); do
 			rm -rf "$site"
-			[ -z "${SKYSHEET_CACHE:-}" ] || rm -rf "${lib:?}/$SKYSHEET_CACHE"
+			fresh_library "$lib"
 			r=$(timed "$bin" "$verb" "$lib" "$outflag" "$site")
 			echo "$r" >>"$work/sky-$n.txt"
 			log "N=$n run $k: full render: $r"
 		done
 		# The site and cache of the last full render stay for the re-renders.
 		spectrum=$(find "$lib/content" -name uvvis.csv | sort | sed -n "$(((n + 1) / 2))p")
+		cp "$spectrum" "$work/spectrum.orig"
 		: >"$work/same-$n.txt"
 		: >"$work/changed-$n.txt"
 		for ((k = 1; k <= reps; k++)); do
@@ -202,10 +210,10 @@ for n in "${sizes[@]}"; do
 			echo "$r" >>"$work/changed-$n.txt"
 			log "N=$n run $k: re-render, ${spectrum#"$lib/"} changed: $r"
 		done
+		cp "$work/spectrum.orig" "$spectrum" # the library as generated, for later runs
 		full=$(med 1 %.2f "$work/sky-$n.txt")
 		same=$(med 1 %.2f "$work/same-$n.txt")
 		changed=$(med 1 %.2f "$work/changed-$n.txt")
-		cell() { echo "$(med 1 %.2f "$1") ($(med 2 %.1f "$1"))"; }
 		rows+=("| $(printf "%'d" "$n") | $(cell "$work/sky-$n.txt") | $(cell "$work/same-$n.txt") | $(cell "$work/changed-$n.txt") | $(awk -v a="$same" -v b="$full" 'BEGIN { printf "%.0f %%", 100 * a / b }') | $(awk -v a="$changed" -v b="$full" 'BEGIN { printf "%.0f %%", 100 * a / b }') |")
 		;;
 	esac
