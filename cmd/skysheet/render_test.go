@@ -235,6 +235,34 @@ func TestGoldenDatasheet(t *testing.T) {
 	}
 }
 
+// TestGoldenCatalog guards catalog.json of the test library: every
+// material's metadata, figures (cooling and uncertainty included) and
+// claims with their verdicts.
+func TestGoldenCatalog(t *testing.T) {
+	lib := copyLibrary(t)
+	out := filepath.Join(t.TempDir(), "site")
+	if _, err := renderSite(lib, out, "test", &bytes.Buffer{}, false); err != nil {
+		t.Fatal(err)
+	}
+	got, err := os.ReadFile(filepath.Join(out, "catalog.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	golden := filepath.Join("testdata", "catalog.golden.json")
+	if *update {
+		if err := os.WriteFile(golden, got, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	want, err := os.ReadFile(golden)
+	if err != nil {
+		t.Fatalf("%v (run go test -update to create it)", err)
+	}
+	if !bytes.Equal(got, want) {
+		t.Errorf("%s differs; check the catalog and rerun with -update", golden)
+	}
+}
+
 func TestRenderEscapesContent(t *testing.T) {
 	lib := copyLibrary(t)
 	md := filepath.Join(lib, "content", "roof", "basalt.md")
