@@ -27,7 +27,7 @@ func runFigures(e *env, args []string) error {
 	fs := newFlags(e, commands["figures"])
 	conditionFlags(fs, &c)
 	asJSON := fs.Bool("json", false, "print one JSON object instead of a table")
-	var so sampleOptions
+	var so spectra.SampleOptions
 	sampleFlags(fs, "splice-", &so)
 	save := fs.String("save-spectrum", "", "also write the joined, corrected spectrum to this file in the neutral format")
 	files, err := parseFlags(fs, args)
@@ -49,10 +49,10 @@ func runFigures(e *env, args []string) error {
 	if err := c.Validate(); err != nil {
 		return usagef("%v", err)
 	}
-	if err := so.validate(); err != nil {
+	if err := validateSample(so); err != nil {
 		return err
 	}
-	s, err := readSampleWith(files, so)
+	s, err := readSample(files, so)
 	if err != nil {
 		return err
 	}
@@ -72,15 +72,6 @@ func runFigures(e *env, args []string) error {
 	}
 	printFigures(e.stdout, files, f)
 	return nil
-}
-
-// readSample reads the spectrum files of one sample and joins them with
-// the default options: each file corrected against the reference standard
-// it names, overlapping files spliced (see readSampleWith).
-func readSample(files []string) (*spectra.Spectrum, error) {
-	var o sampleOptions
-	o.splice.Tolerance = spectra.DefaultSpliceTol
-	return readSampleWith(files, o)
 }
 
 // printFigures writes the human-readable report.

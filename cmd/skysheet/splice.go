@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"strings"
@@ -19,12 +20,6 @@ func init() {
 		summary: "join the spectrum files of one sample, splicing where two instruments overlap, into one neutral-format file",
 		run:     runSplice,
 	})
-}
-
-// sampleOptions says how the files of one sample are read and joined.
-type sampleOptions struct {
-	splice    spectra.SpliceOptions
-	reference string // reference-standard file for files that name none
 }
 
 // methodFlag is a flag holding a splice method.
@@ -48,23 +43,50 @@ func (f methodFlag) Set(s string) error {
 
 // sampleFlags adds the splice flags, their names starting with prefix, and
 // --reference.
-func sampleFlags(fs *flag.FlagSet, prefix string, o *sampleOptions) {
-	o.splice.Tolerance = spectra.DefaultSpliceTol
-	fs.Var(methodFlag{&o.splice.Method}, prefix+"method", "splice method where two files overlap: offset, scale or none")
-	fs.StringVar(&o.splice.Adjust, prefix+"adjust", "", "file whose data the splice adjusts (default: the one reaching longer wavelengths)")
-	fs.Float64Var(&o.splice.JunctionNM, prefix+"junction", 0, "splice junction in nm (default: the middle of the overlap)")
-	fs.Float64Var(&o.splice.Tolerance, prefix+"tol", o.splice.Tolerance, "flag a splice whose mean mismatch before correction exceeds this")
-	fs.StringVar(&o.reference, "reference", "", "neutral-format file of the reference standard's calibrated reflectance; corrects R = R_rel × R_ref in files that name no reference_file of their own")
+func sampleFlags(fs *flag.FlagSet, prefix string, o *spectra.SampleOptions) {
+	o.Splice.Tolerance = spectra.DefaultSpliceTol
+	fs.Var(methodFlag{&o.Splice.Method}, prefix+"method", "splice method where two files overlap: offset, scale or none")
+	fs.StringVar(&o.Splice.Adjust, prefix+"adjust", "", "file whose data the splice adjusts (default: the one reaching longer wavelengths)")
+	fs.Float64Var(&o.Splice.JunctionNM, prefix+"junction", 0, "splice junction in nm (default: the middle of the overlap)")
+	fs.Float64Var(&o.Splice.Tolerance, prefix+"tol", o.Splice.Tolerance, "flag a splice whose mean mismatch before correction exceeds this")
+	fs.StringVar(&o.Reference, "reference", "", "neutral-format file of the reference standard's calibrated reflectance; corrects R = R_rel × R_ref in files that name no reference_file of their own")
 }
 
-func (o sampleOptions) validate() error {
-	if !(o.splice.Tolerance > 0 && o.splice.Tolerance <= 1) {
-		return usagef("splice tolerance %g: want 0 < tolerance ≤ 1", o.splice.Tolerance)
+// validateSample checks the sample flags.
+func validateSample(o spectra.SampleOptions) error {
+	if !(o.Splice.Tolerance > 0 && o.Splice.Tolerance <= 1) {
+		return usagef("splice tolerance %g: want 0 < tolerance ≤ 1", o.Splice.Tolerance)
 	}
-	if o.splice.JunctionNM < 0 {
-		return usagef("junction %g nm: want a positive wavelength", o.splice.JunctionNM)
+	if o.Splice.JunctionNM < 0 {
+		return usagef("junction %g nm: want a positive wavelength", o.Splice.JunctionNM)
 	}
 	return nil
+}
+
+// osFS reads files by the names given on the command line: relative to
+// the working folder, or absolute.
+type osFS struct{}
+
+func (osFS) Open(name string) (fs.File, error)        { return os.Open(name) }
+func (osFS) ReadFile(name string) ([]byte, error)     { return os.ReadFile(name) }
+func (osFS) resolve(file, ref string) (string, error) { return resolveBeside(file, ref), nil }
+
+// resolveBeside returns ref, a file named inside file, as a path: ref itself
+// when absolute, else relative to file's folder.
+func resolveBeside(file, ref string) string {
+	if filepath.IsAbs(ref) {
+		return ref
+	}
+	return filepath.Join(filepath.Dir(file), ref)
+}
+
+// readSample reads the spectrum files of one sample named on the command
+// line (see spectra.ReadSample): each corrected against its reference
+// standard (its own reference_file, relative to the file, else
+// o.Reference), then joined.
+func readSample(files []string, o spectra.SampleOptions) (*spectra.Spectrum, error) {
+	o.Resolve = osFS{}.resolve
+	return spectra.ReadSample(osFS{}, files, o)
 }
 
 // readSpectrumFile reads one spectrum file of any supported format.
@@ -74,41 +96,6 @@ func readSpectrumFile(name string) (*spectra.Spectrum, error) {
 		return nil, err
 	}
 	return spectra.Decode(data, name)
-}
-
-// readSampleWith reads the spectrum files of one sample, corrects each
-// against its reference standard (the file's own reference_file, relative
-// to the file, else o.reference) and joins them with spectra.Join.
-func readSampleWith(files []string, o sampleOptions) (*spectra.Spectrum, error) {
-	refs := map[string]*spectra.Spectrum{}
-	parts := make([]*spectra.Spectrum, 0, len(files))
-	for _, name := range files {
-		s, err := readSpectrumFile(name)
-		if err != nil {
-			return nil, err
-		}
-		ref := o.reference
-		if f, ok := spectra.ReferenceFile(s); ok {
-			ref = f
-			if !filepath.IsAbs(f) {
-				ref = filepath.Join(filepath.Dir(name), f)
-			}
-		}
-		if ref != "" {
-			r, ok := refs[ref]
-			if !ok {
-				if r, err = readSpectrumFile(ref); err != nil {
-					return nil, fmt.Errorf("reference standard for %s: %w", name, err)
-				}
-				refs[ref] = r
-			}
-			if s, err = spectra.ApplyReference(s, r); err != nil {
-				return nil, err
-			}
-		}
-		parts = append(parts, s)
-	}
-	return spectra.Join(parts, o.splice)
 }
 
 // writeSpectrumFile writes s in the neutral format to name, or to w when
@@ -126,7 +113,7 @@ func writeSpectrumFile(w io.Writer, name string, s *spectra.Spectrum) error {
 }
 
 func runSplice(e *env, args []string) error {
-	var o sampleOptions
+	var o spectra.SampleOptions
 	fs := newFlags(e, commands["splice"])
 	sampleFlags(fs, "", &o)
 	out := fs.String("o", "", "output file in the neutral format (- for standard output)")
@@ -140,10 +127,10 @@ func runSplice(e *env, args []string) error {
 	case *out == "":
 		return usagef("no output file: give -o OUT")
 	}
-	if err := o.validate(); err != nil {
+	if err := validateSample(o); err != nil {
 		return err
 	}
-	s, err := readSampleWith(files, o)
+	s, err := readSample(files, o)
 	if err != nil {
 		return err
 	}

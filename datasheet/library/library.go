@@ -294,7 +294,8 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 	if sky == nil && m.Conditions.SkySpectrum != nil {
 		sky = cfg.skyInput // the config's sky file
 	}
-	var parts []*spectra.Spectrum
+	paths := make([]string, 0, len(fm.Spectra))
+	lines := make([]int, 0, len(fm.Spectra))
 	for i, ref := range fm.Spectra {
 		line := fl.spectra[i].Line + d.offset
 		p, err := resolvePath(file, ref.File)
@@ -302,30 +303,25 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 			errs = append(errs, &Error{File: file, Line: line, Err: fmt.Errorf("spectra file %q: %w", ref.File, err)})
 			continue
 		}
-		data, err := fs.ReadFile(fsys, p)
-		if err != nil {
-			errs = append(errs, &Error{File: file, Line: line, Err: fmt.Errorf("%w %s: %w", ErrSpectrum, p, unwrapPath(err))})
-			continue
-		}
-		m.Inputs = append(m.Inputs, hashInput(p, data))
-		s, err := spectra.Decode(data, p)
-		if err == nil {
-			s, err = applyReference(fsys, p, s, m)
-		}
-		if err != nil {
-			errs = append(errs, &Error{File: file, Line: line, Err: fmt.Errorf("%w: %w", ErrSpectrum, err)})
-			continue
-		}
-		parts = append(parts, s)
+		paths, lines = append(paths, p), append(lines, line)
 	}
-	if sky != nil {
-		m.Inputs = append(m.Inputs, *sky)
-	}
-	if len(errs) == 0 {
-		s, err := joinSpectra(parts)
-		if err != nil {
-			errs = append(errs, &Error{File: file, Line: valueNode(fl.root, "spectra").Line + d.offset, Err: fmt.Errorf("%w: %w", ErrSpectrum, err)})
-		} else {
+	if len(paths) > 0 {
+		s, err := spectra.ReadSample(fsys, paths, spectra.SampleOptions{Resolve: resolvePath})
+		for _, e := range splitJoined(err) {
+			var fe *spectra.FileError
+			line := valueNode(fl.root, "spectra").Line + d.offset
+			if errors.As(e, &fe) && fe.Index >= 0 {
+				line = lines[fe.Index]
+			}
+			errs = append(errs, &Error{File: file, Line: line, Err: fmt.Errorf("%w: %w", ErrSpectrum, e)})
+		}
+		if err == nil && len(errs) == 0 {
+			for _, in := range s.Inputs {
+				m.Inputs = append(m.Inputs, Input{Path: in.Name, SHA256: in.SHA256})
+			}
+			if sky != nil {
+				m.Inputs = append(m.Inputs, *sky)
+			}
 			m.Spectrum = s
 			m.Figures, err = datasheet.Compute(s, m.Conditions)
 			if err != nil {
@@ -341,35 +337,16 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 	return r
 }
 
-// joinSpectra joins the spectra files of one material into one spectrum:
-// files that overlap are spliced with the default options (see
-// spectra.Join), files that touch or leave a gap are merged.
-func joinSpectra(parts []*spectra.Spectrum) (*spectra.Spectrum, error) {
-	return spectra.Join(parts, spectra.SpliceOptions{})
-}
-
-// applyReference makes the relative reflectance of s (read from file p)
-// absolute when its metadata names a reference-standard file, read from the
-// library relative to p and recorded among the material's inputs.
-func applyReference(fsys fs.FS, p string, s *spectra.Spectrum, m *Material) (*spectra.Spectrum, error) {
-	ref, ok := spectra.ReferenceFile(s)
-	if !ok {
-		return s, nil
+// splitJoined returns the errors joined in err by errors.Join, or err
+// itself.
+func splitJoined(err error) []error {
+	if err == nil {
+		return nil
 	}
-	rp, err := resolvePath(p, ref)
-	if err != nil {
-		return nil, fmt.Errorf("%s: reference_file %q: %w", p, ref, err)
+	if j, ok := err.(interface{ Unwrap() []error }); ok {
+		return j.Unwrap()
 	}
-	data, err := fs.ReadFile(fsys, rp)
-	if err != nil {
-		return nil, fmt.Errorf("%s: reference standard %s: %w", p, rp, unwrapPath(err))
-	}
-	m.Inputs = append(m.Inputs, hashInput(rp, data))
-	r, err := spectra.Decode(data, rp)
-	if err != nil {
-		return nil, err
-	}
-	return spectra.ApplyReference(s, r)
+	return []error{err}
 }
 
 // unwrapPath drops the *fs.PathError wrapper, whose path repeats ours.
