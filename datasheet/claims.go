@@ -257,26 +257,16 @@ func roundingUncertainty(v float64) float64 {
 // which yaml keys were stated.
 func (b Basis) apply(c Conditions) (Conditions, map[string]bool) {
 	stated := map[string]bool{}
-	if len(b.SolarBandNM) == 2 {
-		c.SolarBandNM = [2]float64{b.SolarBandNM[0], b.SolarBandNM[1]}
-		stated["solar_band_nm"] = true
+	set := func(key string, v any, given bool) {
+		if given && c.Set(key, v) == nil {
+			stated[key] = true
+		}
 	}
-	if b.SolarSpectrum != "" {
-		c.SolarSpectrum = b.SolarSpectrum
-		stated["solar_spectrum"] = true
-	}
-	if len(b.ThermalBandUM) == 2 {
-		c.ThermalBandUM = [2]float64{b.ThermalBandUM[0], b.ThermalBandUM[1]}
-		stated["thermal_band_um"] = true
-	}
-	if len(b.WindowBandUM) == 2 {
-		c.WindowBandUM = [2]float64{b.WindowBandUM[0], b.WindowBandUM[1]}
-		stated["window_band_um"] = true
-	}
-	if b.TemperatureK > 0 {
-		c.TemperatureK = b.TemperatureK
-		stated["temperature_k"] = true
-	}
+	set(condSolarBand.key(), b.SolarBandNM, len(b.SolarBandNM) == 2)
+	set(condSolarSpectrum.key(), b.SolarSpectrum, b.SolarSpectrum != "")
+	set(condThermalBand.key(), b.ThermalBandUM, len(b.ThermalBandUM) == 2)
+	set(condWindowBand.key(), b.WindowBandUM, len(b.WindowBandUM) == 2)
+	set(condTemperature.key(), b.TemperatureK, b.TemperatureK > 0)
 	if b.AngleDeg > 0 {
 		stated["angle_deg"] = true
 	}
@@ -330,7 +320,7 @@ func bandWords(f Figure) string {
 	if f.BandUnit == "" {
 		return "conditions of " + f.Label
 	}
-	return fmt.Sprintf("band %g–%g %s", f.Band[0], f.Band[1], f.BandUnit)
+	return "band " + f.BandText()
 }
 
 // suggest returns ", did you mean X?; known figures: ..." for an unknown key.

@@ -260,8 +260,8 @@ func TestJudgeBasisWords(t *testing.T) {
 	if want := "On the default basis (280–2500 nm, ASTM G173-03 global tilt) the spectra give 0.9000."; v.BasisNote != want {
 		t.Errorf("basis note = %q, want %q", v.BasisNote, want)
 	}
-	if v.Conditions.SolarBandNM != [2]float64{280, 4000} {
-		t.Errorf("conditions used = %v", v.Conditions.SolarBandNM)
+	if v.Conditions.SolarBand != (spectra.Interval{Lo: 280, Hi: 4000}) {
+		t.Errorf("conditions used = %v", v.Conditions.SolarBand)
 	}
 
 	// The direct spectrum named: recomputed under it; a constant gives the

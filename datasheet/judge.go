@@ -14,6 +14,9 @@ import (
 type JudgeInput struct {
 	// Spectrum is the material's measured data.
 	Spectrum *spectra.Spectrum
+	// Optics, when not nil, are Spectrum resolved by [spectra.Resolve]:
+	// claims reuse them instead of resolving the spectrum again.
+	Optics *spectra.Optics
 	// Conditions are the material's defaults: the library's, with the
 	// material's own overrides. A claim's basis overrides them.
 	Conditions Conditions
@@ -76,7 +79,7 @@ func (j *judge) figures(c Conditions) (*Figures, error) {
 		return r.f, r.err
 	}
 	j.computes++
-	f, err := Compute(j.in.Spectrum, c)
+	f, err := Compute(j.in.Spectrum, j.resolved(c.ClosureTol), c)
 	j.figs[c] = computed{f, err}
 	return f, err
 }
@@ -85,6 +88,10 @@ func (j *judge) figures(c Conditions) (*Figures, error) {
 func (j *judge) resolved(tol float64) spectra.Optics {
 	if o, ok := j.optics[tol]; ok {
 		return o
+	}
+	if o := j.in.Optics; o != nil && o.Closure.Tolerance == tol {
+		j.optics[tol] = *o
+		return *o
 	}
 	o := spectra.Resolve(j.in.Spectrum, tol)
 	j.optics[tol] = o
@@ -241,9 +248,9 @@ func coverageShort(spec figureSpec, fig Figure, f *Figures) string {
 	switch {
 	case spec.cooling:
 		c := f.Conditions
-		lo, hi := coolingCheckBand(c)
-		if s := short(measuredShare(f, lo, hi), fmt.Sprintf("the blackbody power at %g K over %g–%g µm", c.AmbientK, lo, hi),
-			fmt.Sprintf(", the part of the exchange band %g–%g µm that must be measured", c.ExchangeBandUM[0], c.ExchangeBandUM[1])); s != "" {
+		check := coolingCheckBand(c)
+		if s := short(measuredShare(f, check), fmt.Sprintf("the blackbody power at %g K over %s", c.AmbientK, bandText(check, "µm")),
+			fmt.Sprintf(", the part of the exchange band %s that must be measured", bandText(c.ExchangeBand, "µm"))); s != "" {
 			return s
 		}
 		if spec.solar {
@@ -259,31 +266,31 @@ func coverageShort(spec figureSpec, fig Figure, f *Figures) string {
 	return short(float64(fig.Coverage), fmt.Sprintf("the %s weighting over the %s", fig.Weighting, bandWords(fig)), "")
 }
 
-// coolingCheckBand returns the part of c's exchange band, µm, that the
-// data must cover for a cooling claim: CoolingCheckLoUM–CoolingCheckHiUM
-// within it, or the whole band when they do not overlap.
-func coolingCheckBand(c Conditions) (lo, hi float64) {
-	lo, hi = math.Max(CoolingCheckLoUM, c.ExchangeBandUM[0]), math.Min(CoolingCheckHiUM, c.ExchangeBandUM[1])
+// coolingCheckBand returns the part of c's exchange band that the data
+// must cover for a cooling claim: CoolingCheckLoUM–CoolingCheckHiUM within
+// it, or the whole band when they do not overlap.
+func coolingCheckBand(c Conditions) spectra.Interval {
+	lo, hi := math.Max(umToNM(CoolingCheckLoUM), c.ExchangeBand.Lo), math.Min(umToNM(CoolingCheckHiUM), c.ExchangeBand.Hi)
 	if !(hi > lo) {
-		return c.ExchangeBandUM[0], c.ExchangeBandUM[1]
+		return c.ExchangeBand
 	}
-	return lo, hi
+	return spectra.Interval{Lo: lo, Hi: hi}
 }
 
 // measuredShare returns the share of the blackbody power at the air
-// temperature over lo–hi µm that falls where f's emittance is measured,
-// not held constant: 1 − (power over the held bands within lo–hi) / (power
-// over lo–hi), with the blackbody fractions of Planck's law.
-func measuredShare(f *Figures, lo, hi float64) float64 {
+// temperature over band that falls where f's emittance is measured, not
+// held constant: 1 − (power over the held bands within it) / (power over
+// it), with the blackbody fractions of Planck's law.
+func measuredShare(f *Figures, band spectra.Interval) float64 {
 	t := f.Conditions.AmbientK
-	total := BlackbodyFraction(lo*1000, hi*1000, t)
+	total := BlackbodyFraction(band.Lo, band.Hi, t)
 	if !(total > 0) {
 		return 0
 	}
 	var held float64
-	for _, h := range f.CoolingTerms.HeldBandsUM {
-		if a, b := math.Max(h[0], lo), math.Min(h[1], hi); b > a {
-			held += BlackbodyFraction(a*1000, b*1000, t)
+	for _, h := range f.CoolingTerms.HeldBands {
+		if a, b := math.Max(h.Lo, band.Lo), math.Min(h.Hi, band.Hi); b > a {
+			held += BlackbodyFraction(a, b, t)
 		}
 	}
 	return math.Max(0, math.Min(1, 1-held/total))
@@ -294,18 +301,18 @@ func measuredShare(f *Figures, lo, hi float64) float64 {
 // blackbody power that part carries.
 func heldClause(f *Figures) string {
 	ct := f.CoolingTerms
-	if len(ct.HeldBandsUM) == 0 {
+	if len(ct.HeldBands) == 0 {
 		return ", with the emittance measured over the whole exchange band"
 	}
 	return fmt.Sprintf(", with the emittance held constant over %s (%.1f %% of the exchange band's blackbody power at %g K)",
-		heldBands(ct.HeldBandsUM), 100*float64(ct.HeldShare), f.Conditions.AmbientK)
+		heldBands(ct.HeldBands), 100*float64(ct.HeldShare), f.Conditions.AmbientK)
 }
 
 // heldBands lists held bands in µm: "25–100 µm" or "20–21 and 25–100 µm".
-func heldBands(bs [][2]float64) string {
+func heldBands(bs []spectra.Interval) string {
 	parts := make([]string, len(bs))
 	for i, b := range bs {
-		parts[i] = fmtHundredths(b[0]) + "–" + fmtHundredths(b[1])
+		parts[i] = fmtHundredths(b.Lo/1000) + "–" + fmtHundredths(b.Hi/1000)
 	}
 	s := parts[len(parts)-1]
 	if len(parts) > 1 {
@@ -403,12 +410,12 @@ func pitfalls(c Claim, fig Figure, spec figureSpec, f *Figures, o spectra.Optics
 			strconv.FormatFloat(c.Value, 'g', -1, 64), FormatValue(c.Value/100, ""))
 	}
 	if spec.solar {
-		x, from := o.R, cond.SolarBandNM[0]
+		x, from := o.R, cond.SolarBand.Lo
 		if spec.transmittance {
 			x = o.T
 		}
 		if fig.BandUnit == "nm" {
-			from = fig.Band[0]
+			from = fig.Band.Lo
 		}
 		if lo, _ := x.Range(); lo > SolarStartNM && lo > from {
 			add(PitfallSolarLateStart, "The solar data start at %s nm, after %g nm: the ultraviolet from %g to %s nm is not measured.",
@@ -416,18 +423,18 @@ func pitfalls(c Claim, fig Figure, spec figureSpec, f *Figures, o spectra.Optics
 		}
 	}
 	if spec.thermal || spec.window {
-		band := cond.ThermalBandUM
+		band := cond.ThermalBand
 		if spec.window {
-			band = cond.WindowBandUM
+			band = cond.WindowBand
 		}
-		if _, hi := o.A.Range(); hi < band[1]*1000 {
-			add(PitfallInfraredShort, "The infrared data stop at %s µm, before the top of the %g–%g µm band.",
-				fmtHundredths(hi/1000), band[0], band[1])
+		if _, hi := o.A.Range(); hi < band.Hi {
+			add(PitfallInfraredShort, "The infrared data stop at %s µm, before the top of the %s band.",
+				fmtHundredths(hi/1000), bandText(band, "µm"))
 		}
 	}
 	if ct := f.CoolingTerms; spec.cooling && float64(ct.HeldShare) > MaxHeldShare {
 		add(PitfallHeldLarge, "The emittance is held constant beyond the data over %s, which carries %.1f %% of the exchange band's blackbody power at %g K (more than %g %%): the figure rests on that assumption.",
-			heldBands(ct.HeldBandsUM), 100*float64(ct.HeldShare), cond.AmbientK, 100*MaxHeldShare)
+			heldBands(ct.HeldBands), 100*float64(ct.HeldShare), cond.AmbientK, 100*MaxHeldShare)
 	}
 	if spec.sri && f.SRI.Translucent {
 		add(PitfallSRITranslucent, "The sample transmits %s of sunlight (above 0.01): the SRI of ASTM E1980 is defined for opaque surfaces.",
@@ -504,9 +511,9 @@ func basisWords(s figureSpec, c Conditions, stated map[string]bool, claimAngle, 
 func basisShort(s figureSpec, d Figure, c Conditions) string {
 	switch {
 	case s.kind == KindFraction && s.solar:
-		return fmt.Sprintf("%g–%g nm, %s", c.SolarBandNM[0], c.SolarBandNM[1], d.Weighting)
+		return bandText(c.SolarBand, "nm") + ", " + d.Weighting
 	case s.thermal && !s.sri, s.window:
-		return fmt.Sprintf("%g–%g µm, %s", d.Band[0], d.Band[1], d.Weighting)
+		return d.BandText() + ", " + d.Weighting
 	}
 	w, _ := s.basisOf(c, nil, false)
 	return w

@@ -224,7 +224,7 @@ func TestHeldShareInReason(t *testing.T) {
 	}
 	// Measured across the whole band: said so.
 	c := DefaultConditions()
-	c.ExchangeBandUM = [2]float64{2.5, 25}
+	c.ExchangeBand = spectra.Interval{Lo: 2500, Hi: 25000}
 	v = Judge(Claim{Figure: "cooling_power_night_w_m2", Value: 70, Tolerance: 50}, JudgeInput{Spectrum: constSample(1, 250, 25000), Conditions: c})
 	if !strings.Contains(v.Reason, "with the emittance measured over the whole exchange band.") {
 		t.Errorf("reason %q", v.Reason)
@@ -285,7 +285,7 @@ func TestJudgeBasisWordsByKind(t *testing.T) {
 		t.Fatal(err)
 	}
 	c := DefaultConditions()
-	c.Sky, c.SkySpectrum = "invented-sky.csv", sky
+	c.Sky = SkyChoice{File: "invented-sky.csv", Spectrum: sky}
 	v := Judge(Claim{Figure: "cooling_power_night_w_m2", Value: 50}, JudgeInput{Spectrum: s, Conditions: c})
 	if want := "spectral sky invented-sky.csv (default), air at 300 K (default), exchange band 2.5–100 µm (default)"; v.Basis != want {
 		t.Errorf("spectral sky: basis %q, want %q", v.Basis, want)
@@ -295,7 +295,7 @@ func TestJudgeBasisWordsByKind(t *testing.T) {
 // TestFigureSpecs checks that every figure Compute returns has its entry
 // in the table of kinds, with a kind that fits its unit.
 func TestFigureSpecs(t *testing.T) {
-	f, err := Compute(sample(t, "a.csv", uvvisWhite, "b.csv", ftir90), DefaultConditions())
+	f, err := compute(sample(t, "a.csv", uvvisWhite, "b.csv", ftir90), DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -311,8 +311,8 @@ func TestFigureSpecs(t *testing.T) {
 		if u, ok := units[s.kind]; !ok || u != x.Unit {
 			t.Errorf("figure %q: kind %v does not fit unit %q", x.Key, s.kind, x.Unit)
 		}
-		if KindOf(x) != s.kind {
-			t.Errorf("KindOf(%q) = %v, want %v", x.Key, KindOf(x), s.kind)
+		if x.Kind() != s.kind {
+			t.Errorf("Kind of %q = %v, want %v", x.Key, x.Kind(), s.kind)
 		}
 	}
 	for k := range figureSpecs {
@@ -322,8 +322,8 @@ func TestFigureSpecs(t *testing.T) {
 	}
 	// A figure the table lacks takes its kind from its unit.
 	for unit, want := range map[string]Kind{"": KindFraction, "W/m²": KindPower, "K": KindTemperatureDifference, "nm": KindQuantity} {
-		if got := KindOf(Figure{Key: "later_figure", Unit: unit}); got != want {
-			t.Errorf("KindOf(unit %q) = %v, want %v", unit, got, want)
+		if got := (Figure{Key: "later_figure", Unit: unit}).Kind(); got != want {
+			t.Errorf("Kind of unit %q = %v, want %v", unit, got, want)
 		}
 	}
 	for _, k := range []Kind{KindFraction, KindIndex, KindPower, KindTemperatureDifference, KindQuantity} {
@@ -367,13 +367,13 @@ func TestJudgeReusesFigures(t *testing.T) {
 
 func testReuse(t *testing.T, s *spectra.Spectrum) {
 	c := DefaultConditions()
-	own, err := Compute(s, c)
+	own, err := compute(s, c)
 	if err != nil {
 		t.Fatal(err)
 	}
 	// Compute is deterministic, so reusing its result is the same as
 	// computing again.
-	again, _ := Compute(s, c)
+	again, _ := compute(s, c)
 	if a, b := mustJSON(t, own), mustJSON(t, again); !bytes.Equal(a, b) {
 		t.Fatal("two computations of the same figures differ")
 	}
@@ -427,7 +427,7 @@ func mustJSON(t *testing.T, v any) []byte {
 func other(t *testing.T, s *spectra.Spectrum) *Figures {
 	c := DefaultConditions()
 	c.TemperatureK = 330
-	f, err := Compute(s, c)
+	f, err := compute(s, c)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -439,7 +439,7 @@ func other(t *testing.T, s *spectra.Spectrum) *Figures {
 func BenchmarkJudgeAll(b *testing.B) {
 	s := whiteSample(b)
 	c := DefaultConditions()
-	own, err := Compute(s, c)
+	own, err := compute(s, c)
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -22,7 +22,7 @@ func TestProvenance(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	f, err := Compute(s, DefaultConditions())
+	f, err := compute(s, DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -114,10 +114,11 @@ type Fabric struct {
 // spectrum. It returns an error when the spectra share no range or leave a
 // band without data.
 func FabricOnSkin(fabric, skin spectra.Optics, s SkinSetting) (Fabric, error) {
-	sun, err := spectra.Solar(s.SolarSpectrum)
-	if err != nil {
+	var spec SolarSpectrum
+	if err := spec.UnmarshalText([]byte(s.SolarSpectrum)); err != nil {
 		return Fabric{}, err
 	}
+	sun := spec.Weighting()
 	if b := s.SolarBandNM; !(b[0] >= spectra.SolarRangeNM.Lo && b[1] > b[0] && b[1] <= spectra.SolarRangeNM.Hi) {
 		return Fabric{}, fmt.Errorf("solar band %g–%g nm is %w: want a band within the G173 tables' %g–%g nm",
 			b[0], b[1], ErrSystemInput, spectra.SolarRangeNM.Lo, spectra.SolarRangeNM.Hi)

@@ -229,19 +229,19 @@ func TestSpectralSkyMatchesTwoBand(t *testing.T) {
 	sample := constSample(0.05, 2000, 200000)
 	c := DefaultConditions()
 	c.IrradianceWm2 = 0
-	f1, err := Compute(sample, c)
+	f1, err := compute(sample, c)
 	if err != nil {
 		t.Fatal(err)
 	}
-	c.Sky, c.SkySpectrum = "sky.csv", s
-	f2, err := Compute(sample, c)
+	c.Sky = SkyChoice{File: "sky.csv", Spectrum: s}
+	f2, err := compute(sample, c)
 	if err != nil {
 		t.Fatal(err)
 	}
 	if d := float64(f1.CoolingPowerNightWm2 - f2.CoolingPowerNightWm2); math.Abs(d) > 0.05 {
 		t.Errorf("two-band sky %.3f W/m², its spectral form %.3f W/m²", float64(f1.CoolingPowerNightWm2), float64(f2.CoolingPowerNightWm2))
 	}
-	if f2.Sky.Model != SkySpectral || f2.Sky.Source != "sky.csv" {
+	if f2.Sky.Model != skyModelSpectral || f2.Sky.Source != "sky.csv" {
 		t.Errorf("sky %+v", f2.Sky)
 	}
 }
@@ -255,11 +255,11 @@ func TestSpectralSkyErrors(t *testing.T) {
 		t.Errorf("sky without T: err = %v, want ErrNoValues", err)
 	}
 	c := DefaultConditions()
-	c.Sky = "missing.csv"
+	c.Sky = SkyChoice{File: "missing.csv"}
 	if err := c.Validate(); err == nil {
 		t.Error("a named sky file that was not read passes Validate")
 	}
-	c.SkySpectrum = s
+	c.Sky.Spectrum = s
 	if err := c.Validate(); !errors.Is(err, spectra.ErrNoValues) {
 		t.Errorf("sky without T passes Validate: %v", err)
 	}

@@ -97,9 +97,9 @@ func addSRI(f *Figures, grads map[string]gradient) {
 			v = SolarReflectanceIndex(alpha, eps, w.hc)
 		}
 		*w.dst = Num(v)
-		f.Figures = append(f.Figures, Figure{Key: w.key, Label: w.label, Value: Num(v), Band: c.SolarBandNM, BandUnit: "nm",
-			Weighting: fmt.Sprintf("ASTM E1980, h_c %g W m⁻² K⁻¹; solar absorptance over %g–%g nm, thermal emittance over %g–%g µm at %s K",
-				w.hc, c.SolarBandNM[0], c.SolarBandNM[1], c.ThermalBandUM[0], c.ThermalBandUM[1], fmtG(c.TemperatureK)),
+		f.Figures = append(f.Figures, Figure{Key: w.key, Label: w.label, Value: Num(v), Band: c.SolarBand, BandUnit: "nm",
+			Weighting: fmt.Sprintf("ASTM E1980, h_c %g W m⁻² K⁻¹; solar absorptance over %s, thermal emittance over %s at %s K",
+				w.hc, bandText(c.SolarBand, "nm"), bandText(c.ThermalBand, "µm"), fmtG(c.TemperatureK)),
 			Coverage: Num(math.Min(float64(f.SolarCoverage), float64(f.ThermalCoverage)))})
 		if grads == nil || math.IsNaN(v) {
 			continue

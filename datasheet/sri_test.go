@@ -73,7 +73,7 @@ func TestSteadyTemperatureBalance(t *testing.T) {
 
 func TestSRITranslucentFlag(t *testing.T) {
 	s := mustParse(t, "wavelength_nm,R,T\n250,0.8,0.1\n2500,0.8,0.1\n\n2600,0.1,0\n25000,0.1,0\n", "film.csv")
-	f, err := Compute(s, DefaultConditions())
+	f, err := compute(s, DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -83,7 +83,7 @@ func TestSRITranslucentFlag(t *testing.T) {
 	if !strings.Contains(f.SRI.Note, "opaque, horizontal or low-sloped") {
 		t.Errorf("note lacks the applicability: %s", f.SRI.Note)
 	}
-	w, err := Compute(whiteSample(t), DefaultConditions())
+	w, err := compute(whiteSample(t), DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -3,6 +3,8 @@ package spectra
 import (
 	"math"
 	"sort"
+	"strconv"
+	"strings"
 )
 
 // Piece is a run of points with strictly increasing wavelengths (nm); the
@@ -55,6 +57,34 @@ func (p Piece) at(nm float64) float64 {
 
 // Interval is a closed wavelength range in nm.
 type Interval struct{ Lo, Hi float64 }
+
+// IntervalUM returns the interval lo–hi given in µm.
+func IntervalUM(lo, hi float64) Interval { return Interval{shiftDecimal(lo, 3), shiftDecimal(hi, 3)} }
+
+// UM returns the interval's ends in µm.
+//
+// IntervalUM and UM move the decimal point of the shortest decimal form
+// instead of multiplying by 1000, so that 8.7 µm is 8700 nm and back
+// exactly: the product can carry float noise into what is written.
+func (iv Interval) UM() (lo, hi float64) { return shiftDecimal(iv.Lo, -3), shiftDecimal(iv.Hi, -3) }
+
+// shiftDecimal returns x × 10^by, computed on x's shortest decimal form.
+func shiftDecimal(x float64, by int) float64 {
+	if x == 0 || math.IsNaN(x) || math.IsInf(x, 0) {
+		return x * math.Pow10(by)
+	}
+	s := strconv.FormatFloat(x, 'e', -1, 64)
+	i := strings.IndexByte(s, 'e')
+	exp, err := strconv.Atoi(s[i+1:])
+	if err != nil {
+		return x * math.Pow10(by)
+	}
+	v, err := strconv.ParseFloat(s[:i]+"e"+strconv.Itoa(exp+by), 64)
+	if err != nil {
+		return x * math.Pow10(by)
+	}
+	return v
+}
 
 // Covered returns the parts of [lo, hi] that the series covers.
 func (s Series) Covered(lo, hi float64) []Interval {

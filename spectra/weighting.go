@@ -137,17 +137,6 @@ func SolarDirect() Weighting { g173Once.Do(loadG173); return g173Dir }
 // SolarRangeNM is the wavelength range of the ASTM G173-03 tables.
 var SolarRangeNM = Interval{280, 4000}
 
-// Solar returns the G173 weighting named "global" or "direct".
-func Solar(name string) (Weighting, error) {
-	switch name {
-	case "global":
-		return SolarGlobal(), nil
-	case "direct":
-		return SolarDirect(), nil
-	}
-	return nil, fmt.Errorf("solar spectrum %q: want \"global\" or \"direct\"", name)
-}
-
 // Mean is the result of [BandMean].
 type Mean struct {
 	// Value is ∫ x w dλ / ∫ w dλ over the covered part; NaN when nothing of

@@ -76,7 +76,7 @@ func TestFiguresFromInstrumentExports(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	want, err := datasheet.Compute(s, datasheet.DefaultConditions())
+	want, err := datasheet.Compute(s, spectra.Resolve(s, spectra.DefaultClosureTol), datasheet.DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -291,7 +291,7 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 	if err != nil {
 		errs = append(errs, err)
 	}
-	if sky == nil && m.Conditions.SkySpectrum != nil {
+	if sky == nil && m.Conditions.Sky.Spectrum != nil {
 		sky = cfg.skyInput // the config's sky file
 	}
 	paths := make([]string, 0, len(fm.Spectra))
@@ -323,7 +323,7 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 				m.Inputs = append(m.Inputs, *sky)
 			}
 			m.Spectrum = s
-			m.Figures, err = datasheet.Compute(s, m.Conditions)
+			m.Figures, err = datasheet.Compute(s, spectra.Resolve(s, m.Conditions.ClosureTol), m.Conditions)
 			if err != nil {
 				errs = append(errs, &Error{File: file, Err: fmt.Errorf("%w: %w", ErrConditions, err)})
 			}

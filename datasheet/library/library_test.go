@@ -65,7 +65,7 @@ func TestLoadMaterial(t *testing.T) {
 		t.Errorf("slug %q path %q", m.Slug, m.Path)
 	}
 	// Front matter overrides the config, which overrides the defaults.
-	if m.Conditions.TemperatureK != 290 || m.Conditions.WindowBandUM != [2]float64{8, 14} || m.Conditions.SolarBandNM != [2]float64{280, 2500} {
+	if m.Conditions.TemperatureK != 290 || m.Conditions.WindowBand != (spectra.Interval{Lo: 8000, Hi: 14000}) || m.Conditions.SolarBand != (spectra.Interval{Lo: 280, Hi: 2500}) {
 		t.Errorf("conditions %+v", m.Conditions)
 	}
 	if lib.Config.Conditions.TemperatureK != 310 {
@@ -84,7 +84,7 @@ func TestLoadMaterial(t *testing.T) {
 		{"window emittance", float64(m.Figures.WindowEmittance), 0.95, 1e-12},   // same
 		{"solar coverage", float64(m.Figures.SolarCoverage), 1, 1e-12},          // data cover 280–2500 nm
 		{"temperature used", m.Figures.Conditions.TemperatureK, 290, 0},         // front matter override
-		{"window band used", m.Figures.Conditions.WindowBandUM[1], 14, 0},       // config override
+		{"window band used", m.Figures.Conditions.WindowBand.Hi, 14000, 0},      // config override
 	} {
 		if math.Abs(tc.got-tc.want) > tc.tol {
 			t.Errorf("%s = %v, want %v", tc.name, tc.got, tc.want)
@@ -474,7 +474,7 @@ func TestSkyFile(t *testing.T) {
 		t.Fatal(err)
 	}
 	m := lib.Materials[0]
-	if m.Conditions.SkySpectrum == nil || m.Conditions.Sky != "skies/dry.csv" {
+	if m.Conditions.Sky.Spectrum == nil || m.Conditions.Sky.File != "skies/dry.csv" {
 		t.Fatalf("sky not loaded: %+v", m.Conditions)
 	}
 	if last := m.Inputs[len(m.Inputs)-1]; last != hashInput("skies/dry.csv", []byte(skyT)) {

@@ -103,14 +103,13 @@ func (d doc) yamlError(err error, sentinel error) error {
 
 // check walks node n against the YAML fields of type t and returns an error
 // for each unknown or repeated key and for arrays of the wrong length.
-// Types that decode themselves are checked against their stand-in in
-// standIns, if any, else skipped.
+// The conditions (type Overrides) are checked by checkConditions.
 func (d doc) check(n *yaml.Node, t reflect.Type) []error {
 	for t.Kind() == reflect.Pointer {
 		t = t.Elem()
 	}
-	if s, ok := standIns[t]; ok {
-		t = s
+	if t == reflect.TypeFor[Overrides]() {
+		return d.checkConditions(n)
 	}
 	if n.Kind == yaml.AliasNode {
 		return []error{d.at(n, ErrNotAllowed, "YAML aliases are not used in library files")}
@@ -140,7 +139,7 @@ func (d doc) check(n *yaml.Node, t reflect.Type) []error {
 			seen[k.Value] = k
 			f, ok := fields[k.Value]
 			if !ok {
-				errs = append(errs, d.at(k, ErrUnknownKey, "%s", unknownKey(k.Value, fields)))
+				errs = append(errs, d.at(k, ErrUnknownKey, "%s", unknownKey(k.Value, sortedKeys(fields))))
 				continue
 			}
 			errs = append(errs, d.check(v, f.Type)...)
@@ -170,10 +169,6 @@ func (d doc) check(n *yaml.Node, t reflect.Type) []error {
 	}
 	return nil
 }
-
-// standIns maps a type that keeps its YAML node for later to the type its
-// keys are checked against.
-var standIns = map[reflect.Type]reflect.Type{}
 
 // decode checks n strictly against out's type and decodes it into out. The
 // error, if any, is an Errors. When usable is true, out is filled as far as
@@ -223,13 +218,19 @@ func yamlFields(t reflect.Type) map[string]reflect.StructField {
 	return out
 }
 
-// unknownKey describes an unknown key with the nearest known key.
-func unknownKey(key string, fields map[string]reflect.StructField) string {
-	names := make([]string, 0, len(fields))
-	for n := range fields {
-		names = append(names, n)
+// sortedKeys returns the keys of m, sorted.
+func sortedKeys[V any](m map[string]V) []string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
 	}
-	sort.Strings(names)
+	sort.Strings(keys)
+	return keys
+}
+
+// unknownKey describes an unknown key with the nearest of the known names
+// (sorted).
+func unknownKey(key string, names []string) string {
 	best, bestD := "", -1
 	for _, n := range names {
 		if dd := editDistance(strings.ToLower(key), n); bestD < 0 || dd < bestD {

@@ -26,14 +26,14 @@ func (b *builder) materialView(m *library.Material, vs []datasheet.Verdict, root
 	}
 	c := m.Conditions
 	v.Key = append(v.Key,
-		keyFig{Label: "Solar reflectance", Value: fmtFrac(f.SolarReflectance), Note: fmtBand(c.SolarBandNM, "nm") + ", " + c.SolarSpectrum},
-		keyFig{Label: "Thermal emittance", Value: fmtFrac(f.ThermalEmittance), Note: fmtBand(c.ThermalBandUM, "µm") + ", " + fmtG(c.TemperatureK) + " K"},
-		keyFig{Label: "Window emittance", Value: fmtFrac(f.WindowEmittance), Note: fmtBand(c.WindowBandUM, "µm")},
-		keyFig{Label: "Net cooling, day", Value: fmtValue("cooling_power_w_m2", f.CoolingPowerWm2, ""), Unit: "W/m²",
-			Note: fmt.Sprintf("at air %s K, %s W/m² sun", fmtG(c.AmbientK), fmtG(c.IrradianceWm2))},
+		keyFig{Label: "Solar reflectance", Value: fmtFrac(f.SolarReflectance), Note: c.Text("solar_band_nm") + ", " + c.SolarSpectrum.String()},
+		keyFig{Label: "Thermal emittance", Value: fmtFrac(f.ThermalEmittance), Note: c.Text("thermal_band_um") + ", " + c.Text("temperature_k")},
+		keyFig{Label: "Window emittance", Value: fmtFrac(f.WindowEmittance), Note: c.Text("window_band_um")},
+		keyFig{Label: "Net cooling, day", Value: fmtNumber(datasheet.KindPower, f.CoolingPowerWm2, ""), Unit: "W/m²",
+			Note: fmt.Sprintf("at air %s, %s sun", c.Text("ambient_k"), c.Text("irradiance_w_m2"))},
 	)
 	if m.Spectrum.Has(spectra.T) {
-		v.Key = append(v.Key, keyFig{Label: "Solar transmittance", Value: fmtFrac(f.SolarTransmittance), Note: fmtBand(c.SolarBandNM, "nm")})
+		v.Key = append(v.Key, keyFig{Label: "Solar transmittance", Value: fmtFrac(f.SolarTransmittance), Note: c.Text("solar_band_nm")})
 	}
 	v.Claims = claimViews(vs)
 	var counts datasheet.VerdictCounts
@@ -41,7 +41,7 @@ func (b *builder) materialView(m *library.Material, vs []datasheet.Verdict, root
 	v.ClaimCounts = countWords(counts)
 	refs := claimRefs(v.Claims)
 	for _, x := range f.Figures {
-		r := figRow{Key: x.Key, Label: x.Label, Value: fmtValue(x.Key, x.Value, x.Unit), Band: fmtBand(x.Band, x.BandUnit),
+		r := figRow{Key: x.Key, Label: x.Label, Value: fmtFigure(x), Band: x.BandText(),
 			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage), Unc: fmtUnc(x.Uncertainty), Claims: refs[x.Key]}
 		if r.Unc != "" {
 			v.HasUnc = true
@@ -110,8 +110,8 @@ func (b *builder) table(id, root string, ms []*library.Material, numbers map[str
 			r.Category = link{Name: m.Front.Category, Href: root + listingDir("category", s) + "index.html"}
 		}
 		for _, col := range tableFigures {
-			x, _ := figureValue(m.Figures, col.Key)
-			r.Cells = append(r.Cells, cell{Key: col.Key, Text: fmtValue(col.Key, x, ""), Value: sortValue(x)})
+			x := figureOf(m.Figures, col.Key)
+			r.Cells = append(r.Cells, cell{Key: col.Key, Text: fmtNumber(x.Kind(), x.Value, ""), Value: sortValue(x.Value)})
 		}
 		t.Rows = append(t.Rows, r)
 	}
@@ -275,14 +275,14 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 				r.Cells = append(r.Cells, "—")
 				continue
 			}
-			r.Cells = append(r.Cells, fmtValue(x.Key, x.Value, x.Unit))
+			r.Cells = append(r.Cells, fmtFigure(x))
 		}
 		v.Rows = append(v.Rows, r)
 	}
 	cond := compareRow{Label: "Conditions"}
 	for _, m := range c.Materials {
 		cc := m.Conditions
-		cond.Cells = append(cond.Cells, fmt.Sprintf("%s, %s; %s at %s K", fmtBand(cc.SolarBandNM, "nm"), cc.SolarSpectrum, fmtBand(cc.ThermalBandUM, "µm"), fmtG(cc.TemperatureK)))
+		cond.Cells = append(cond.Cells, fmt.Sprintf("%s, %s; %s at %s", cc.Text("solar_band_nm"), cc.SolarSpectrum, cc.Text("thermal_band_um"), cc.Text("temperature_k")))
 	}
 	v.Rows = append(v.Rows, cond)
 	p.C = v

@@ -107,18 +107,15 @@ func materialCharts(m *library.Material) ([]chartView, error) {
 func solarChart(m *library.Material, o spectra.Optics) (*chartView, error) {
 	c := m.Conditions
 	f := m.Figures
-	lo, hi := c.SolarBandNM[0], c.SolarBandNM[1]
+	lo, hi := c.SolarBand.Lo, c.SolarBand.Hi
 	if !hasData(lo, hi, o.R, o.T, o.A) {
 		return nil, nil
 	}
-	sun, err := spectra.Solar(c.SolarSpectrum)
-	if err != nil {
-		return nil, err
-	}
+	sun := c.SolarSpectrum.Weighting()
 	sp := plot{width: chartW, height: chartH, xName: "Wavelength (nm)", yName: "Fraction of incident light",
 		xLo: lo, xHi: hi, yFmt: "1"}
 	sp.yLo, sp.yHi = yRange(o.R, o.T, o.A)
-	sp.lines = append(sp.lines, line{name: spectrumName(c.SolarSpectrum) + " (relative)", color: colSun, fill: true,
+	sp.lines = append(sp.lines, line{name: sun.String() + " (relative)", color: colSun, fill: true,
 		pieces: []spectra.Piece{weightingShade(sun, lo, hi, 1)}})
 	sp.lines = append(sp.lines, line{name: "Reflectance R", color: colR, width: 2, pieces: o.R.Pieces})
 	hasT := m.Spectrum.Has(spectra.T)
@@ -127,7 +124,7 @@ func solarChart(m *library.Material, o spectra.Optics) (*chartView, error) {
 	}
 	sp.lines = append(sp.lines, line{name: "Absorptance A", color: colA, width: 1, dash: []float64{5, 3}, pieces: o.A.Pieces})
 	caption := fmt.Sprintf("Spectral reflectance%s and absorptance from %s to %s nm, over the %s spectrum shaded in yellow (scaled to its peak). Solar-weighted: R = %s%s, A = %s; data cover %s of the weighted band.",
-		map[bool]string{true: ", transmittance", false: ""}[hasT], fmtG(lo), fmtG(hi), spectrumName(c.SolarSpectrum),
+		map[bool]string{true: ", transmittance", false: ""}[hasT], fmtG(lo), fmtG(hi), sun,
 		fmtFrac(f.SolarReflectance), map[bool]string{true: ", T = " + fmtFrac(f.SolarTransmittance), false: ""}[hasT],
 		fmtFrac(f.SolarAbsorptance), fmtPercent(f.SolarCoverage))
 	svg, err := sp.svg("Solar range chart. " + caption)
@@ -150,8 +147,9 @@ func hasData(lo, hi float64, ss ...spectra.Series) bool {
 // windowBand is the atmospheric window of the conditions, marked on the
 // thermal charts (in µm) by a light band between two dark lines.
 func windowBand(c datasheet.Conditions) band {
-	return band{name: fmt.Sprintf("Atmospheric window %s–%s µm", fmtG(c.WindowBandUM[0]), fmtG(c.WindowBandUM[1])),
-		lo: c.WindowBandUM[0], hi: c.WindowBandUM[1], color: colWindow, edge: colWindowE, label: "window"}
+	lo, hi := c.WindowBand.UM()
+	return band{name: "Atmospheric window " + c.Text("window_band_um"),
+		lo: lo, hi: hi, color: colWindow, edge: colWindowE, label: "window"}
 }
 
 // windowWords describes how windowBand looks, for captions.
@@ -163,8 +161,8 @@ const windowWords = "lies between the two dark green lines"
 func thermalChart(m *library.Material, o spectra.Optics) (*chartView, error) {
 	c := m.Conditions
 	f := m.Figures
-	tlo, thi := c.ThermalBandUM[0], c.ThermalBandUM[1]
-	if !hasData(tlo*1000, thi*1000, o.A, o.R) {
+	tlo, thi := c.ThermalBand.UM()
+	if !hasData(c.ThermalBand.Lo, c.ThermalBand.Hi, o.A, o.R) {
 		return nil, nil
 	}
 	tp := plot{width: chartW, height: chartH, xName: "Wavelength (µm)", yName: "Emittance, reflectance",
@@ -172,11 +170,12 @@ func thermalChart(m *library.Material, o spectra.Optics) (*chartView, error) {
 	tp.yLo, tp.yHi = yRange(o.R, o.A)
 	tp.bands = []band{windowBand(c)}
 	tp.lines = append(tp.lines, line{name: fmt.Sprintf("Blackbody at %s K (relative)", fmtG(c.TemperatureK)), color: colBody, fill: true,
-		pieces: []spectra.Piece{weightingShade(spectra.Blackbody{K: c.TemperatureK}, tlo*1000, thi*1000, 1000)}})
+		pieces: []spectra.Piece{weightingShade(spectra.Blackbody{K: c.TemperatureK}, c.ThermalBand.Lo, c.ThermalBand.Hi, 1000)}})
 	tp.lines = append(tp.lines, line{name: "Emittance ε = A", color: colA, width: 2, pieces: scaled(o.A, 1000)})
 	tp.lines = append(tp.lines, line{name: "Reflectance R", color: colR, width: 1, dash: []float64{5, 3}, pieces: scaled(o.R, 1000)})
+	windowLo, windowHi := c.WindowBand.UM()
 	caption := fmt.Sprintf("Spectral emittance (equal to absorptance, Kirchhoff's law) and reflectance from %s to %s µm; the atmospheric window %s–%s µm %s, and the %s K blackbody spectrum is shaded in red (scaled to its peak). Thermal emittance %s, window emittance %s.",
-		fmtG(tlo), fmtG(thi), fmtG(c.WindowBandUM[0]), fmtG(c.WindowBandUM[1]), windowWords, fmtG(c.TemperatureK),
+		fmtG(tlo), fmtG(thi), fmtG(windowLo), fmtG(windowHi), windowWords, fmtG(c.TemperatureK),
 		fmtFrac(f.ThermalEmittance), fmtFrac(f.WindowEmittance))
 	svg, err := tp.svg("Thermal range chart. " + caption)
 	if err != nil {
@@ -244,8 +243,8 @@ func coolingChart(f *datasheet.Figures) (*chartView, error) {
 		{name: "Night (no sun)", color: colR, width: 2, dash: []float64{5, 3}, pieces: []spectra.Piece{night}},
 	}
 	caption := fmt.Sprintf("Net cooling power (positive: the surface gives off more heat than it takes in) against surface temperature, under the %s sky with air at %s K and h = %s W m⁻² K⁻¹. At air temperature: %s with sun, %s at night. Air minus equilibrium surface temperature: %s with sun, %s at night.",
-		c.Sky, fmtG(c.AmbientK), fmtG(c.HWm2K), fmtValue("", f.CoolingPowerWm2, "W/m²"), fmtValue("", f.CoolingPowerNightWm2, "W/m²"),
-		fmtValue("", f.EquilibriumDeltaK, "K"), fmtValue("", f.EquilibriumDeltaNightK, "K"))
+		c.Sky, fmtG(c.AmbientK), fmtG(c.HWm2K), fmtNumber(datasheet.KindPower, f.CoolingPowerWm2, "W/m²"), fmtNumber(datasheet.KindPower, f.CoolingPowerNightWm2, "W/m²"),
+		fmtNumber(datasheet.KindTemperatureDifference, f.EquilibriumDeltaK, "K"), fmtNumber(datasheet.KindTemperatureDifference, f.EquilibriumDeltaNightK, "K"))
 	svg, err := p.svg("Cooling power chart. " + caption)
 	if err != nil {
 		return nil, err
@@ -261,10 +260,11 @@ func compareCharts(ms []*library.Material) ([]chartView, error) {
 		return nil, nil
 	}
 	c := ms[0].Conditions
+	tlo, thi := c.ThermalBand.UM()
 	sp := plot{width: chartW, height: chartH, xName: "Wavelength (nm)", yName: "Reflectance",
-		xLo: c.SolarBandNM[0], xHi: c.SolarBandNM[1], yLo: 0, yHi: 1, yFmt: "1"}
+		xLo: c.SolarBand.Lo, xHi: c.SolarBand.Hi, yLo: 0, yHi: 1, yFmt: "1"}
 	tp := plot{width: chartW, height: chartH, xName: "Wavelength (µm)", yName: "Emittance",
-		xLo: c.ThermalBandUM[0], xHi: c.ThermalBandUM[1], yLo: 0, yHi: 1, yFmt: "1"}
+		xLo: tlo, xHi: thi, yLo: 0, yHi: 1, yFmt: "1"}
 	tp.bands = []band{windowBand(c)}
 	var names []string
 	var anyS, anyT bool

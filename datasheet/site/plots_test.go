@@ -55,7 +55,7 @@ func testMaterial(t *testing.T, slug, code string, csv ...string) *library.Mater
 		}
 	}
 	c := datasheet.DefaultConditions()
-	f, err := datasheet.Compute(s, c)
+	f, err := datasheet.Compute(s, spectra.Resolve(s, c.ClosureTol), c)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -232,8 +232,10 @@ func TestThermalWindow(t *testing.T) {
 	paths := svgPaths(svg)
 	left, right, _ := xAxisLine(t, paths)
 	c := m.Conditions
+	tlo, thi := c.ThermalBand.UM()
+	wlo, whi := c.WindowBand.UM()
 	at := func(um float64) int {
-		return left + int(math.Ceil((um-c.ThermalBandUM[0])/(c.ThermalBandUM[1]-c.ThermalBandUM[0])*float64(right-left)))
+		return left + int(math.Ceil((um-tlo)/(thi-tlo)*float64(right-left)))
 	}
 	var edges []int
 	for _, p := range paths {
@@ -245,7 +247,7 @@ func TestThermalWindow(t *testing.T) {
 		}
 	}
 	// Two edges in the plot and two in the legend swatch.
-	if want := []int{at(c.WindowBandUM[0]), at(c.WindowBandUM[1])}; len(edges) != 4 || !slices.Equal(edges[:2], want) {
+	if want := []int{at(wlo), at(whi)}; len(edges) != 4 || !slices.Equal(edges[:2], want) {
 		t.Errorf("window edges at x = %v, want %v then the legend's", edges, want)
 	}
 	label := textNamed(t, svgTexts(t, svg), "window")
