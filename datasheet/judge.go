@@ -55,8 +55,9 @@ type judge struct {
 	in     JudgeInput
 	figs   map[Conditions]computed // by basis; Conditions is comparable
 	optics map[float64]spectra.Optics
-	// computes counts the calls of Compute, for the tests.
-	computes int
+	// computes and resolves count the calls of Compute and
+	// spectra.Resolve, for the tests.
+	computes, resolves int
 }
 
 // computed is the result of Compute on one basis.
@@ -93,6 +94,7 @@ func (j *judge) resolved(tol float64) spectra.Optics {
 		j.optics[tol] = *o
 		return *o
 	}
+	j.resolves++
 	o := spectra.Resolve(j.in.Spectrum, tol)
 	j.optics[tol] = o
 	return o

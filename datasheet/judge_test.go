@@ -409,6 +409,19 @@ func testReuse(t *testing.T, s *spectra.Spectrum) {
 			t.Errorf("%s: JudgeAll differs from Judge", tt.name)
 		}
 	}
+	// Given the resolved optics, the judge resolves nothing itself.
+	o := spectra.Resolve(s, c.ClosureTol)
+	j := newJudge(JudgeInput{Spectrum: s, Optics: &o, Conditions: c, Figures: own, Angle: "8°"})
+	var vs []Verdict
+	for _, cl := range figuresClaims {
+		vs = append(vs, j.judge(cl))
+	}
+	if j.resolves != 0 {
+		t.Errorf("with the optics: resolved %d times, want 0", j.resolves)
+	}
+	if got := mustJSON(t, vs); !bytes.Equal(got, want) {
+		t.Errorf("with the optics: verdicts differ from those recomputed per claim")
+	}
 	if vs := JudgeAll(nil, JudgeInput{Spectrum: s, Conditions: c}); vs == nil || len(vs) != 0 {
 		t.Errorf("JudgeAll(nil) = %#v, want empty", vs)
 	}

@@ -10,6 +10,7 @@ import (
 	"text/tabwriter"
 
 	"skysheet/datasheet"
+	"skysheet/datasheet/evaluate"
 	"skysheet/spectra"
 )
 
@@ -61,10 +62,11 @@ func runFigures(e *env, args []string) error {
 			return err
 		}
 	}
-	f, err := datasheet.Compute(s, spectra.Resolve(s, c.ClosureTol), c)
+	m, err := evaluate.Sample(s, c)
 	if err != nil {
 		return err
 	}
+	f := m.Figures
 	if *asJSON {
 		enc := json.NewEncoder(e.stdout)
 		enc.SetIndent("", "  ")

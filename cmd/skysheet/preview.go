@@ -161,7 +161,7 @@ func (s *preview) render() (memSite, []string) {
 	}
 	defer root.Close()
 	fsys := root.FS()
-	lib, err := library.Load(fsys)
+	lib, err := loadLibrary(fsys)
 	if err != nil {
 		return nil, problems(err)
 	}

@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"skysheet/datasheet/evaluate"
 	"skysheet/datasheet/library"
 	"skysheet/datasheet/site"
 )
@@ -79,6 +80,19 @@ func plural(n int, what string) string {
 	return fmt.Sprintf("%d %ss", n, what)
 }
 
+// loadLibrary reads the library in fsys for rendering. When some files
+// are bad, the materials that could be read are evaluated all the same, so
+// that the problems of their spectra are reported with the rest, in file
+// order.
+func loadLibrary(fsys fs.FS) (*library.Library, error) {
+	lib, err := library.Load(fsys)
+	if err != nil {
+		_, evalErr := evaluate.Library(lib, evaluate.Options{}, nil)
+		return nil, library.Join(err, evalErr)
+	}
+	return lib, nil
+}
+
 // renderResult counts what a render wrote.
 type renderResult struct {
 	materials, comparisons, files int
@@ -108,7 +122,7 @@ func renderSite(dir, outDir, ver string, progress io.Writer, terminal bool) (ren
 	// os.Root refuses any path, symbolic links included, that leads out of
 	// the library folder.
 	fsys := root.FS()
-	lib, err := library.Load(fsys)
+	lib, err := loadLibrary(fsys)
 	if err != nil {
 		return res, err
 	}

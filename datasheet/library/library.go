@@ -25,20 +25,33 @@ type Library struct {
 	Config      Config
 	Materials   []*Material   // in path order
 	Comparisons []*Comparison // in path order
+
+	fsys fs.FS // the library folder, for ReadSample
 }
 
-// Material is one material file with its spectra and figures.
+// Material is one material file: its front matter, body and conditions,
+// and where its spectrum files are. Its spectra are read by
+// [Library.ReadSample].
 type Material struct {
 	Path       string // the Markdown file, relative to the library root
 	Slug       string
 	Front      FrontMatter
-	Body       []byte // Markdown after the front matter
-	BodyLine   int    // file line on which Body starts
-	Source     []byte // the whole file
-	Spectrum   *spectra.Spectrum
+	Body       []byte               // Markdown after the front matter
+	BodyLine   int                  // file line on which Body starts
+	Source     []byte               // the whole file
 	Conditions datasheet.Conditions // library conditions with the front matter's overrides
-	Figures    *datasheet.Figures
-	Inputs     []Input // the Markdown file, each spectra file in front matter order, then a sky file if any
+	Input      Input                // the Markdown file and its SHA-256
+
+	spectra     []spectrumFile // the spectra entries, in front matter order
+	spectraLine int            // file line of the "spectra:" key
+	sky         *Input         // the spectral sky file of the conditions, if any
+}
+
+// spectrumFile is a spectra entry: the file's path in the library and
+// where the front matter names it.
+type spectrumFile struct {
+	path         string
+	line, column int
 }
 
 // Comparison is a page that overlays several materials.
@@ -80,7 +93,7 @@ func (l *Library) Material(slug string) (*Material, bool) {
 // an [Errors] in file order, and the returned library still holds the
 // config and every file that could be read.
 func Load(fsys fs.FS) (*Library, error) {
-	lib := &Library{}
+	lib := &Library{fsys: fsys}
 	var errs Errors
 	add := func(err error) {
 		switch e := err.(type) {
@@ -171,6 +184,41 @@ func Load(fsys fs.FS) (*Library, error) {
 		return lib, errs
 	}
 	return lib, nil
+}
+
+// ReadSample reads the spectrum files of material m with
+// [spectra.ReadSample] (reference standards must lie in the library too)
+// and returns the joined sample and every file m rests on, each with its
+// SHA-256: the Markdown file, the spectrum files and reference standards
+// in the order read, then the spectral sky file of its conditions, if any.
+// A problem is an [Errors] naming the front-matter entry of the file at
+// fault (or the spectra: key when the files cannot be joined).
+func (l *Library) ReadSample(m *Material) (*spectra.Spectrum, []Input, error) {
+	paths := make([]string, len(m.spectra))
+	for i, f := range m.spectra {
+		paths[i] = f.path
+	}
+	s, err := spectra.ReadSample(l.fsys, paths, spectra.SampleOptions{Resolve: resolvePath})
+	if err != nil {
+		var errs Errors
+		for _, e := range splitJoined(err) {
+			at := &Error{File: m.Path, Line: m.spectraLine, Err: fmt.Errorf("%w: %w", ErrSpectrum, e)}
+			var fe *spectra.FileError
+			if errors.As(e, &fe) && fe.Index >= 0 && fe.Index < len(m.spectra) {
+				at.Line, at.Column = m.spectra[fe.Index].line, m.spectra[fe.Index].column
+			}
+			errs = append(errs, at)
+		}
+		return nil, nil, errs
+	}
+	inputs := []Input{m.Input}
+	for _, in := range s.Inputs {
+		inputs = append(inputs, Input{Path: in.Name, SHA256: in.SHA256})
+	}
+	if m.sky != nil {
+		inputs = append(inputs, *m.sky)
+	}
+	return s, inputs, nil
 }
 
 // nearestSlug suggests a known slug close to s.
@@ -284,50 +332,31 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 		return r
 	}
 	m := &Material{Path: file, Slug: r.slug, Front: fm, Body: body, BodyLine: bodyLine, Source: src,
-		Inputs: []Input{hashInput(file, src)}}
+		Input: hashInput(file, src), spectraLine: valueNode(fl.root, "spectra").Line + d.offset}
 	d.fsys = fsys
-	var sky *Input
-	m.Conditions, sky, err = d.apply(fm.Conditions, cfg.Conditions)
+	m.Conditions, m.sky, err = d.apply(fm.Conditions, cfg.Conditions)
 	if err != nil {
 		errs = append(errs, err)
 	}
-	if sky == nil && m.Conditions.Sky.Spectrum != nil {
-		sky = cfg.skyInput // the config's sky file
+	if m.sky == nil && m.Conditions.Sky.Spectrum != nil {
+		m.sky = cfg.skyInput // the config's sky file
 	}
-	paths := make([]string, 0, len(fm.Spectra))
-	lines := make([]int, 0, len(fm.Spectra))
 	for i, ref := range fm.Spectra {
-		line := fl.spectra[i].Line + d.offset
+		at := fl.spectra[i]
+		if v := valueNode(at, "file"); v != at {
+			at = v
+		}
+		line, col := at.Line+d.offset, at.Column
 		p, err := resolvePath(file, ref.File)
 		if err != nil {
-			errs = append(errs, &Error{File: file, Line: line, Err: fmt.Errorf("spectra file %q: %w", ref.File, err)})
+			errs = append(errs, &Error{File: file, Line: line, Column: col, Err: fmt.Errorf("spectra file %q: %w", ref.File, err)})
 			continue
 		}
-		paths, lines = append(paths, p), append(lines, line)
-	}
-	if len(paths) > 0 {
-		s, err := spectra.ReadSample(fsys, paths, spectra.SampleOptions{Resolve: resolvePath})
-		for _, e := range splitJoined(err) {
-			var fe *spectra.FileError
-			line := valueNode(fl.root, "spectra").Line + d.offset
-			if errors.As(e, &fe) && fe.Index >= 0 {
-				line = lines[fe.Index]
-			}
-			errs = append(errs, &Error{File: file, Line: line, Err: fmt.Errorf("%w: %w", ErrSpectrum, e)})
+		if _, err := fs.Stat(fsys, p); err != nil {
+			errs = append(errs, &Error{File: file, Line: line, Column: col, Err: fmt.Errorf("%w %s: %w", ErrSpectrum, p, unwrapPath(err))})
+			continue
 		}
-		if err == nil && len(errs) == 0 {
-			for _, in := range s.Inputs {
-				m.Inputs = append(m.Inputs, Input{Path: in.Name, SHA256: in.SHA256})
-			}
-			if sky != nil {
-				m.Inputs = append(m.Inputs, *sky)
-			}
-			m.Spectrum = s
-			m.Figures, err = datasheet.Compute(s, spectra.Resolve(s, m.Conditions.ClosureTol), m.Conditions)
-			if err != nil {
-				errs = append(errs, &Error{File: file, Err: fmt.Errorf("%w: %w", ErrConditions, err)})
-			}
-		}
+		m.spectra = append(m.spectra, spectrumFile{path: p, line: line, column: col})
 	}
 	if len(errs) > 0 {
 		r.err = errs

@@ -7,14 +7,9 @@ import (
 	"strconv"
 
 	"skysheet/datasheet"
+	"skysheet/datasheet/evaluate"
 	"skysheet/datasheet/library"
 )
-
-// judge gives the verdicts on a material's claims. Render calls it once per
-// material, from the worker that renders the material's page; the review
-// page and catalog.json reuse the result. A variable so that tests can
-// count the calls.
-var judge = (*library.Material).Verdicts
 
 // claimView is one judged claim, as the datasheet and the review page show
 // it.
@@ -149,7 +144,8 @@ type claimsFile struct {
 // ClaimsSchema is the version of claims.json. Keys are only added.
 const ClaimsSchema = 1
 
-func (b *builder) claimsJSON(m *library.Material, vs []datasheet.Verdict) ([]byte, error) {
+func (b *builder) claimsJSON(m *evaluate.Summary) ([]byte, error) {
+	vs := m.Verdicts
 	f := claimsFile{Schema: ClaimsSchema, Slug: m.Slug, Title: m.Front.Title, Page: materialDir(m.Slug) + "index.html",
 		Generator: "skysheet " + b.site.Version, Inputs: m.Inputs, Verdicts: vs}
 	if f.Inputs == nil {
@@ -255,7 +251,7 @@ func (b *builder) reviewFiles(out files) error {
 	}}
 	ms, _ := b.ordered()
 	for _, m := range ms {
-		vs := b.verdicts[m]
+		vs := m.Verdicts
 		if len(vs) > 0 {
 			v.Materials++
 		}

@@ -7,13 +7,14 @@ import (
 	"strings"
 
 	"skysheet/datasheet"
+	"skysheet/datasheet/evaluate"
 	"skysheet/datasheet/library"
 	"skysheet/spectra"
 )
 
 // materialView builds the datasheet data of m for a page at root.
-func (b *builder) materialView(m *library.Material, vs []datasheet.Verdict, root string, cmps []*library.Comparison) (*materialView, error) {
-	fm, f := m.Front, m.Figures
+func (b *builder) materialView(m *evaluate.Material, root string, cmps []*library.Comparison) (*materialView, error) {
+	fm, f, vs := m.Front, m.Figures, m.Verdicts
 	v := &materialView{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
 		Summary: fm.Summary, License: fm.License, Inputs: m.Inputs, Cautions: cautionsOf(f),
 		Conditions: conditionPairs(m.Conditions), Overridden: fm.Conditions.Keys(),
@@ -32,7 +33,7 @@ func (b *builder) materialView(m *library.Material, vs []datasheet.Verdict, root
 		keyFig{Label: "Net cooling, day", Value: fmtNumber(datasheet.KindPower, f.CoolingPowerWm2, ""), Unit: "W/m²",
 			Note: fmt.Sprintf("at air %s, %s sun", c.Text("ambient_k"), c.Text("irradiance_w_m2"))},
 	)
-	if m.Spectrum.Has(spectra.T) {
+	if m.Sample.Has(spectra.T) {
 		v.Key = append(v.Key, keyFig{Label: "Solar transmittance", Value: fmtFrac(f.SolarTransmittance), Note: c.Text("solar_band_nm")})
 	}
 	v.Claims = claimViews(vs)
@@ -46,7 +47,7 @@ func (b *builder) materialView(m *library.Material, vs []datasheet.Verdict, root
 		if r.Unc != "" {
 			v.HasUnc = true
 		}
-		if x.Key == "solar_transmittance" && !m.Spectrum.Has(spectra.T) {
+		if x.Key == "solar_transmittance" && !m.Sample.Has(spectra.T) {
 			r.Value += " (assumed)"
 		}
 		v.Figures = append(v.Figures, r)
@@ -102,7 +103,7 @@ func uniqueTags(tags []string) []string {
 func tagSlug(t string) string { return library.Slugify(t) }
 
 // table builds a material table for a page at root.
-func (b *builder) table(id, root string, ms []*library.Material, numbers map[string]int) tableView {
+func (b *builder) table(id, root string, ms []*evaluate.Summary, numbers map[string]int) tableView {
 	t := tableView{ID: id, Columns: append([]column{{Key: "title", Label: "Material"}, {Key: "category", Label: "Category"}}, tableFigures...)}
 	for _, m := range ms {
 		r := row{N: numbers[m.Slug], Slug: m.Slug, Href: root + materialDir(m.Slug) + "index.html", Title: m.Front.Title, Maker: firstOf(m.Front.Maker, m.Front.Lab)}
@@ -129,8 +130,8 @@ func firstOf(s ...string) string {
 
 // ordered returns the materials sorted by title (then slug), the order of
 // the index; and each material's number in it.
-func (b *builder) ordered() ([]*library.Material, map[string]int) {
-	ms := append([]*library.Material(nil), b.lib.Materials...)
+func (b *builder) ordered() ([]*evaluate.Summary, map[string]int) {
+	ms := append([]*evaluate.Summary(nil), b.sums...)
 	sort.SliceStable(ms, func(i, j int) bool {
 		ti, tj := strings.ToLower(ms[i].Front.Title), strings.ToLower(ms[j].Front.Title)
 		if ti != tj {
@@ -146,8 +147,8 @@ func (b *builder) ordered() ([]*library.Material, map[string]int) {
 }
 
 // groups returns category or tag names by slug, with their materials.
-func (b *builder) groups(tags bool) (slugs []string, names map[string]string, members map[string][]*library.Material) {
-	names, members = map[string]string{}, map[string][]*library.Material{}
+func (b *builder) groups(tags bool) (slugs []string, names map[string]string, members map[string][]*evaluate.Summary) {
+	names, members = map[string]string{}, map[string][]*evaluate.Summary{}
 	ms, _ := b.ordered()
 	for _, m := range ms {
 		var keys []string
@@ -178,7 +179,7 @@ func (b *builder) indexFiles(out files) error {
 	ms, numbers := b.ordered()
 	v := &indexView{Count: len(ms), Table: b.table("library-table", "", ms, numbers)}
 	for _, m := range ms {
-		v.Claims.Add(b.verdicts[m]...)
+		v.Claims.Add(m.Verdicts...)
 	}
 	v.ClaimWords = countWords(v.Claims)
 	sc, err := scatterChart(ms, v.Table.Rows)
@@ -249,17 +250,29 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 		return fail(err)
 	}
 	v.Body = body
-	if v.Charts, err = compareCharts(c.Materials); err != nil {
+	bySlug := map[string]*evaluate.Summary{}
+	for _, m := range b.sums {
+		bySlug[m.Slug] = m
+	}
+	var ms []*evaluate.Summary
+	var overlays []overlay
+	for _, x := range c.Materials {
+		if m := bySlug[x.Slug]; m != nil {
+			ms = append(ms, m)
+			overlays = append(overlays, b.overlays[x.Slug])
+		}
+	}
+	if v.Charts, err = compareCharts(ms, overlays); err != nil {
 		return fail(err)
 	}
-	for i, m := range c.Materials {
+	for i, m := range ms {
 		v.Columns = append(v.Columns, compareCol{Name: m.Front.Title, Href: p.Root + materialDir(m.Slug) + "index.html",
 			Note: firstOf(m.Front.Maker, m.Front.Lab), Color: colPalette[i%len(colPalette)].css()})
 	}
 	// One row per figure key, in the order of the first material.
 	var keys []string
 	labels := map[string]string{}
-	for _, m := range c.Materials {
+	for _, m := range ms {
 		for _, x := range m.Figures.Figures {
 			if _, ok := labels[x.Key]; !ok {
 				labels[x.Key] = x.Label
@@ -269,7 +282,7 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 	}
 	for _, k := range keys {
 		r := compareRow{Label: labels[k]}
-		for _, m := range c.Materials {
+		for _, m := range ms {
 			x, ok := m.Figures.Figure(k)
 			if !ok {
 				r.Cells = append(r.Cells, "—")
@@ -280,7 +293,7 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 		v.Rows = append(v.Rows, r)
 	}
 	cond := compareRow{Label: "Conditions"}
-	for _, m := range c.Materials {
+	for _, m := range ms {
 		cc := m.Conditions
 		cond.Cells = append(cond.Cells, fmt.Sprintf("%s, %s; %s at %s", cc.Text("solar_band_nm"), cc.SolarSpectrum, cc.Text("thermal_band_um"), cc.Text("temperature_k")))
 	}
@@ -339,7 +352,7 @@ type catalogCompare struct {
 // CatalogSchema is the version of catalog.json. Keys are only added.
 const CatalogSchema = 1
 
-func (b *builder) catalog(ms []*library.Material) ([]byte, error) {
+func (b *builder) catalog(ms []*evaluate.Summary) ([]byte, error) {
 	cfg := b.lib.Config
 	c := catalog{Schema: CatalogSchema, Title: cfg.Title, Description: cfg.Description, SiteAddress: cfg.SiteAddress,
 		Generator: "skysheet " + b.site.Version, Conditions: cfg.Conditions, Config: cfg.Input,
@@ -350,7 +363,7 @@ func (b *builder) catalog(ms []*library.Material) ([]byte, error) {
 		e := catalogEntry{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
 			Category: fm.Category, Tags: uniqueTags(fm.Tags), Summary: fm.Summary, License: fm.License, Measured: fm.Measured,
 			Page: dir + "index.html", Spectrum: dir + "spectrum.csv", FiguresFile: dir + "figures.json", ClaimsFile: dir + "claims.json",
-			Source: dir + "source.md", Inputs: m.Inputs, Claims: catalogClaims(b.verdicts[m]), Figures: m.Figures}
+			Source: dir + "source.md", Inputs: m.Inputs, Claims: catalogClaims(m.Verdicts), Figures: m.Figures}
 		if e.Tags == nil {
 			e.Tags = []string{}
 		}

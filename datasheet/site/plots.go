@@ -7,7 +7,7 @@ import (
 	"strings"
 
 	"skysheet/datasheet"
-	"skysheet/datasheet/library"
+	"skysheet/datasheet/evaluate"
 	"skysheet/spectra"
 )
 
@@ -77,22 +77,20 @@ func yRange(ss ...spectra.Series) (lo, hi float64) {
 // materialCharts returns the charts of a material: solar range, thermal
 // infrared and net cooling power, each only where the material has data
 // for it.
-func materialCharts(m *library.Material) ([]chartView, error) {
-	o := spectra.Resolve(m.Spectrum, m.Conditions.ClosureTol)
-	f := m.Figures
+func materialCharts(m *evaluate.Material) ([]chartView, error) {
 	var out []chartView
-	if cv, err := solarChart(m, o); err != nil {
+	if cv, err := solarChart(m); err != nil {
 		return nil, fmt.Errorf("solar chart: %w", err)
 	} else if cv != nil {
 		out = append(out, *cv)
 	}
-	if cv, err := thermalChart(m, o); err != nil {
+	if cv, err := thermalChart(m); err != nil {
 		return nil, fmt.Errorf("thermal chart: %w", err)
 	} else if cv != nil {
 		out = append(out, *cv)
 	}
 
-	if cv, err := coolingChart(f); err != nil {
+	if cv, err := coolingChart(m.Figures); err != nil {
 		return nil, fmt.Errorf("cooling chart: %w", err)
 	} else if cv != nil {
 		out = append(out, *cv)
@@ -104,9 +102,8 @@ func materialCharts(m *library.Material) ([]chartView, error) {
 // material over the solar band of its conditions, the x axis spanning
 // exactly that band. It returns nil when the material has no data there
 // (an FTIR measurement only): there is nothing to draw.
-func solarChart(m *library.Material, o spectra.Optics) (*chartView, error) {
-	c := m.Conditions
-	f := m.Figures
+func solarChart(m *evaluate.Material) (*chartView, error) {
+	c, f, o := m.Conditions, m.Figures, m.Optics
 	lo, hi := c.SolarBand.Lo, c.SolarBand.Hi
 	if !hasData(lo, hi, o.R, o.T, o.A) {
 		return nil, nil
@@ -118,7 +115,7 @@ func solarChart(m *library.Material, o spectra.Optics) (*chartView, error) {
 	sp.lines = append(sp.lines, line{name: sun.String() + " (relative)", color: colSun, fill: true,
 		pieces: []spectra.Piece{weightingShade(sun, lo, hi, 1)}})
 	sp.lines = append(sp.lines, line{name: "Reflectance R", color: colR, width: 2, pieces: o.R.Pieces})
-	hasT := m.Spectrum.Has(spectra.T)
+	hasT := m.Sample.Has(spectra.T)
 	if hasT {
 		sp.lines = append(sp.lines, line{name: "Transmittance T", color: colT, width: 2, pieces: o.T.Pieces})
 	}
@@ -158,9 +155,8 @@ const windowWords = "lies between the two dark green lines"
 // thermalChart plots the emittance and reflectance of a material over the
 // thermal band. It returns nil when the material has no data there (a
 // UV-Vis-NIR measurement only): there is nothing to draw.
-func thermalChart(m *library.Material, o spectra.Optics) (*chartView, error) {
-	c := m.Conditions
-	f := m.Figures
+func thermalChart(m *evaluate.Material) (*chartView, error) {
+	c, f, o := m.Conditions, m.Figures, m.Optics
 	tlo, thi := c.ThermalBand.UM()
 	if !hasData(c.ThermalBand.Lo, c.ThermalBand.Hi, o.A, o.R) {
 		return nil, nil
@@ -252,10 +248,24 @@ func coolingChart(f *datasheet.Figures) (*chartView, error) {
 	return &chartView{ID: "chart-cooling", Title: "Net cooling power", Caption: caption, SVG: template.HTML(svg)}, nil
 }
 
+// overlay is what a comparison's charts draw of one material: its
+// resolved reflectance and emittance.
+type overlay struct{ r, a spectra.Series }
+
+// keepOverlay keeps what the comparison charts draw of m.
+func (b *builder) keepOverlay(m *evaluate.Material) {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	if b.overlays == nil {
+		b.overlays = map[string]overlay{}
+	}
+	b.overlays[m.Slug] = overlay{r: m.Optics.R, a: m.Optics.A}
+}
+
 // compareCharts overlays the reflectance (solar range) and emittance
-// (thermal range) of several materials. The ranges are those of the first
-// material's conditions.
-func compareCharts(ms []*library.Material) ([]chartView, error) {
+// (thermal range) of several materials, os[i] being what is drawn of
+// ms[i]. The ranges are those of the first material's conditions.
+func compareCharts(ms []*evaluate.Summary, os []overlay) ([]chartView, error) {
 	if len(ms) == 0 {
 		return nil, nil
 	}
@@ -269,7 +279,7 @@ func compareCharts(ms []*library.Material) ([]chartView, error) {
 	var names []string
 	var anyS, anyT bool
 	for i, m := range ms {
-		o := spectra.Resolve(m.Spectrum, m.Conditions.ClosureTol)
+		o := os[i]
 		col := colPalette[i%len(colPalette)]
 		var dash []float64
 		if i >= len(colPalette) {
@@ -278,19 +288,19 @@ func compareCharts(ms []*library.Material) ([]chartView, error) {
 		// A material without data in a range keeps its colour and its
 		// legend entry there, marked as such.
 		nameS, nameT := m.Front.Title, m.Front.Title
-		if hasData(sp.xLo, sp.xHi, o.R) {
+		if hasData(sp.xLo, sp.xHi, o.r) {
 			anyS = true
 		} else {
 			nameS += " (no data here)"
 		}
-		if hasData(tp.xLo*1000, tp.xHi*1000, o.A) {
+		if hasData(tp.xLo*1000, tp.xHi*1000, o.a) {
 			anyT = true
 		} else {
 			nameT += " (no data here)"
 		}
-		sp.lines = append(sp.lines, line{name: nameS, color: col, width: 2, dash: dash, pieces: o.R.Pieces})
-		tp.lines = append(tp.lines, line{name: nameT, color: col, width: 2, dash: dash, pieces: scaled(o.A, 1000)})
-		lo, hi := yRange(o.R, o.A)
+		sp.lines = append(sp.lines, line{name: nameS, color: col, width: 2, dash: dash, pieces: o.r.Pieces})
+		tp.lines = append(tp.lines, line{name: nameT, color: col, width: 2, dash: dash, pieces: scaled(o.a, 1000)})
+		lo, hi := yRange(o.r, o.a)
 		sp.yLo, sp.yHi = math.Min(sp.yLo, lo), math.Max(sp.yHi, hi)
 		tp.yLo, tp.yHi = sp.yLo, sp.yHi
 		names = append(names, m.Front.Title)
@@ -323,7 +333,7 @@ const maxLabel = 12
 // depend on the order of a table: its product code, or where that is
 // missing or shared with another of the materials, its slug (shortened to
 // maxLabel runes).
-func pointLabels(ms []*library.Material) []string {
+func pointLabels(ms []*evaluate.Summary) []string {
 	codes := map[string]int{}
 	for _, m := range ms {
 		codes[strings.TrimSpace(m.Front.ProductCode)]++
@@ -346,9 +356,9 @@ func pointLabels(ms []*library.Material) []string {
 
 // scatterChart plots solar reflectance against window emittance, one
 // labelled, linked point per material that has both.
-func scatterChart(ms []*library.Material, rows []row) (*chartView, error) {
+func scatterChart(ms []*evaluate.Summary, rows []row) (*chartView, error) {
 	ps := &pointSet{}
-	var shown []*library.Material
+	var shown []*evaluate.Summary
 	for _, m := range ms {
 		if !isNaN(m.Figures.SolarReflectance) && !isNaN(m.Figures.WindowEmittance) {
 			shown = append(shown, m)
