@@ -86,36 +86,36 @@ func (s *Status) UnmarshalText(b []byte) error {
 // PitfallCode names a common mistake behind a claimed figure.
 type PitfallCode int
 
-// The pitfalls [Judge] detects.
+// The pitfalls judgeOne detects.
 const (
-	// PitfallInfraredShort: an emittance from data that stop before the top
+	// pitfallInfraredShort: an emittance from data that stop before the top
 	// of its band (25 µm for the default thermal band).
-	PitfallInfraredShort PitfallCode = iota + 1
-	// PitfallSolarLateStart: a solar figure from data that start after
+	pitfallInfraredShort PitfallCode = iota + 1
+	// pitfallSolarLateStart: a solar figure from data that start after
 	// 300 nm, missing the ultraviolet.
-	PitfallSolarLateStart
-	// PitfallClosure: the data break R+T+A = 1 (or R+T ≤ 1, or R, T, A ≥ 0)
+	pitfallSolarLateStart
+	// pitfallClosure: the data break R+T+A = 1 (or R+T ≤ 1, or R, T, A ≥ 0)
 	// by more than the claim's tolerance.
-	PitfallClosure
-	// PitfallPercent: a fraction claimed as a percentage (96 for 0.96).
-	PitfallPercent
-	// PitfallHeldLarge: a cooling figure for which the emittance is held
+	pitfallClosure
+	// pitfallPercent: a fraction claimed as a percentage (96 for 0.96).
+	pitfallPercent
+	// pitfallHeldLarge: a cooling figure for which the emittance is held
 	// constant beyond the data over more than [MaxHeldShare] of the
 	// exchange band's blackbody power.
-	PitfallHeldLarge
-	// PitfallSRITranslucent: an SRI claimed for a sample whose solar
+	pitfallHeldLarge
+	// pitfallSRITranslucent: an SRI claimed for a sample whose solar
 	// transmittance exceeds 0.01; ASTM E1980 defines the index for opaque
 	// surfaces.
-	PitfallSRITranslucent
+	pitfallSRITranslucent
 )
 
 var pitfallNames = map[PitfallCode]string{
-	PitfallInfraredShort:  "infrared-data-short",
-	PitfallSolarLateStart: "solar-data-late-start",
-	PitfallClosure:        "closure-exceeds-tolerance",
-	PitfallPercent:        "percent-for-fraction",
-	PitfallHeldLarge:      "held-emittance-large",
-	PitfallSRITranslucent: "sri-not-opaque",
+	pitfallInfraredShort:  "infrared-data-short",
+	pitfallSolarLateStart: "solar-data-late-start",
+	pitfallClosure:        "closure-exceeds-tolerance",
+	pitfallPercent:        "percent-for-fraction",
+	pitfallHeldLarge:      "held-emittance-large",
+	pitfallSRITranslucent: "sri-not-opaque",
 }
 
 // String returns the pitfall's code word, e.g. "percent-for-fraction".
@@ -155,48 +155,66 @@ type Pitfall struct {
 // Thresholds of the verdicts (rules of this tool; common practice, no
 // source). docs/review.md states them for readers.
 const (
-	// MinCoverage is the least share of a figure's weighting the data must
+	// minCoverage is the least share of a figure's weighting the data must
 	// cover for a claim to be checked. For a cooling figure it applies to
 	// the blackbody power over [CoolingCheckLoUM]–[CoolingCheckHiUM] within
 	// the exchange band (and to the solar weighting for figures with sun).
-	MinCoverage = 0.98
-	// DefaultUncertainty is the standard uncertainty assumed for a
+	minCoverage = 0.98
+	// defaultUncertainty is the standard uncertainty assumed for a
 	// fraction figure when no tolerance is claimed and the data give none.
-	DefaultUncertainty = 0.005
-	// DefaultIndexUncertainty is the same for an index (the SRI), in
+	defaultUncertainty = 0.005
+	// defaultIndexUncertainty is the same for an index (the SRI), in
 	// index units.
-	DefaultIndexUncertainty = 1.0
-	// DefaultRelUncertainty is the same for a power or a temperature
+	defaultIndexUncertainty = 1.0
+	// defaultRelUncertainty is the same for a power or a temperature
 	// difference, relative to the claimed value, but never below
 	// DefaultPowerFloorWm2 or DefaultDeltaFloorK.
-	DefaultRelUncertainty = 0.05
-	// DefaultPowerFloorWm2 is the least default standard uncertainty of a
+	defaultRelUncertainty = 0.05
+	// defaultPowerFloorWm2 is the least default standard uncertainty of a
 	// power, W/m².
-	DefaultPowerFloorWm2 = 2.0
-	// DefaultDeltaFloorK is the least default standard uncertainty of a
+	defaultPowerFloorWm2 = 2.0
+	// defaultDeltaFloorK is the least default standard uncertainty of a
 	// temperature difference, K.
-	DefaultDeltaFloorK = 0.5
-	// CoolingCheckLoUM and CoolingCheckHiUM bound the part of the exchange
+	defaultDeltaFloorK = 0.5
+	// coolingCheckLoUM and CoolingCheckHiUM bound the part of the exchange
 	// band, µm, that the data must cover for a cooling claim to be
 	// checked: the default thermal band, the reach of usual FTIR data.
 	// Beyond the data the emittance is held constant (docs/cooling.md) and
 	// the verdict says how much blackbody power that part carries.
-	CoolingCheckLoUM = 2.5
-	CoolingCheckHiUM = 25.0
-	// MaxHeldShare is the share of the exchange band's blackbody power at
+	coolingCheckLoUM = 2.5
+	coolingCheckHiUM = 25.0
+	// maxHeldShare is the share of the exchange band's blackbody power at
 	// the air temperature over which the emittance may be held constant
 	// before the verdict names it as a pitfall.
-	MaxHeldShare = 0.25
-	// CoverageFactor k turns the combined standard uncertainty into the
+	maxHeldShare = 0.25
+	// coverageFactor k turns the combined standard uncertainty into the
 	// allowed difference (about 95 % for a normal distribution, JCGM
 	// 100:2008 §6.3, section from memory).
-	CoverageFactor = 2.0
-	// SolarStartNM is the wavelength after which solar data start too late.
-	SolarStartNM = 300.0
-	// MaxAngleDiffDeg is the largest difference between the claimed and the
+	coverageFactor = 2.0
+	// solarStartNM is the wavelength after which solar data start too late.
+	solarStartNM = 300.0
+	// maxAngleDiffDeg is the largest difference between the claimed and the
 	// measured angle of incidence treated as the same basis.
-	MaxAngleDiffDeg = 10.0
+	maxAngleDiffDeg = 10.0
 )
+
+// JudgeRules are the thresholds verdicts follow, as [Rules] gives them:
+// the constants of the same names (rules of this tool; common practice,
+// no source, except where a constant names its source). docs/review.md
+// states them for readers.
+type JudgeRules struct {
+	MinCoverage, DefaultUncertainty, DefaultIndexUncertainty, DefaultRelUncertainty float64
+	DefaultPowerFloorWm2, DefaultDeltaFloorK, CoolingCheckLoUM, CoolingCheckHiUM    float64
+	MaxHeldShare, CoverageFactor, SolarStartNM, MaxAngleDiffDeg, MaxFraction        float64
+}
+
+// Rules are the thresholds the verdicts follow.
+var Rules = JudgeRules{
+	MinCoverage: minCoverage, DefaultUncertainty: defaultUncertainty, DefaultIndexUncertainty: defaultIndexUncertainty,
+	DefaultRelUncertainty: defaultRelUncertainty, DefaultPowerFloorWm2: defaultPowerFloorWm2, DefaultDeltaFloorK: defaultDeltaFloorK,
+	CoolingCheckLoUM: coolingCheckLoUM, CoolingCheckHiUM: coolingCheckHiUM, MaxHeldShare: maxHeldShare,
+	CoverageFactor: coverageFactor, SolarStartNM: solarStartNM, MaxAngleDiffDeg: maxAngleDiffDeg, MaxFraction: maxFraction,
+}
 
 // edge is the absolute slack when comparing a difference with its
 // allowance, so that rounding in the last bits does not flip a verdict.
@@ -310,10 +328,10 @@ func (c Claim) Validate() error {
 	return nil
 }
 
-// MaxFraction is the largest claim read as a fraction, as the readers
+// maxFraction is the largest claim read as a fraction, as the readers
 // accept measured fractions up to 1.05; a larger claim of a fraction is not
 // supported.
-const MaxFraction = 1.05
+const maxFraction = 1.05
 
 // bandWords names a figure's band, e.g. "band 2.5–25 µm".
 func bandWords(f Figure) string {
@@ -365,10 +383,10 @@ func editDistance(a, b string) int {
 	return prev[len(rb)]
 }
 
-// FormatValue formats a number of a verdict as its reason writes it:
+// formatValue formats a number of a verdict as its reason writes it:
 // fractions (unit "") with four decimals, figures with a unit with one
 // decimal and the unit; "n/a" for NaN.
-func FormatValue(x float64, unit string) string {
+func formatValue(x float64, unit string) string {
 	if math.IsNaN(x) {
 		return "n/a"
 	}
@@ -378,12 +396,12 @@ func FormatValue(x float64, unit string) string {
 	return strconv.FormatFloat(x, 'f', 1, 64) + " " + unit
 }
 
-// FormatSigned is [FormatValue] with a sign ("+" or "−"), none when x
+// formatSigned is formatValue with a sign ("+" or "−"), none when x
 // shows as zero or is NaN.
-func FormatSigned(x float64, unit string) string {
-	s := FormatValue(math.Abs(x), unit)
+func formatSigned(x float64, unit string) string {
+	s := formatValue(math.Abs(x), unit)
 	switch {
-	case math.IsNaN(x), s == FormatValue(0, unit):
+	case math.IsNaN(x), s == formatValue(0, unit):
 	case x < 0:
 		s = "−" + s
 	default:

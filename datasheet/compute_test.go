@@ -31,7 +31,7 @@ func readTestSample(t testing.TB, names ...string) *spectra.Spectrum {
 		}
 		parts = append(parts, s)
 	}
-	s, err := spectra.Merge(parts...)
+	s, err := spectra.Join(parts, spectra.SpliceOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -458,8 +458,8 @@ func (c Conditions) Validate() error {
 		if !(b.Lo > 0 && b.Hi > b.Lo) || math.IsInf(b.Hi, 0) {
 			return fmt.Errorf("%s %g–%g %s: want 0 < low < high", name, lo, hi, unit)
 		}
-		if unit == "µm" && b.Hi > MaxBandUM*1000 {
-			return fmt.Errorf("%s %g–%g µm: the upper end may not pass %g µm", name, lo, hi, float64(MaxBandUM))
+		if unit == "µm" && b.Hi > maxBandUM*1000 {
+			return fmt.Errorf("%s %g–%g µm: the upper end may not pass %g µm", name, lo, hi, float64(maxBandUM))
 		}
 		return nil
 	}
@@ -487,10 +487,10 @@ func (c Conditions) Validate() error {
 	return c.validateCooling()
 }
 
-// MaxBandUM is the longest wavelength, in µm, that a thermal, window or
+// maxBandUM is the longest wavelength, in µm, that a thermal, window or
 // exchange band may reach: far beyond any thermal figure, and a bound on the
 // work a Planck-weighted integral may take.
-const MaxBandUM = 1000
+const maxBandUM = 1000
 
 // bandFrom returns the band lo–hi given in unit ("nm" or "µm") in nm.
 func bandFrom(lo, hi float64, unit string) spectra.Interval {

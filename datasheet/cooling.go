@@ -130,7 +130,7 @@ func skyFor(c Conditions) (Sky, error) {
 	if c.Sky.Clear() {
 		return ClearSky(c.DewPointC, c.AmbientK), nil
 	}
-	return SpectralSky(c.Sky.Spectrum, c.Sky.File, c.AmbientK)
+	return spectralSky(c.Sky.Spectrum, c.Sky.File, c.AmbientK)
 }
 
 // lc is a value of a piece of a series, linear between two of its points:

@@ -15,12 +15,12 @@ type Kind int
 // The kinds of figures. The zero Kind is unknown (a figure the tool does
 // not compute).
 const (
-	KindUnknown               Kind = iota
+	kindUnknown               Kind = iota
 	KindFraction                   // 0..1: reflectances, transmittances, absorptances, emittances
 	KindIndex                      // the Solar Reflectance Index: 0 standard black, 100 standard white
 	KindPower                      // a power per area, W/m²
 	KindTemperatureDifference      // a temperature difference, K
-	KindQuantity                   // any other figure with a unit
+	kindQuantity                   // any other figure with a unit
 )
 
 var kindWords = [...]string{"", "fraction", "index", "power", "temperature difference", "quantity"}
@@ -59,7 +59,7 @@ func (k Kind) Format(x float64, unit string) string {
 	if math.IsNaN(x) {
 		return "n/a"
 	}
-	if k == KindFraction || k == KindUnknown && unit == "" {
+	if k == KindFraction || k == kindUnknown && unit == "" {
 		return strconv.FormatFloat(x, 'f', 4, 64)
 	}
 	s := strconv.FormatFloat(x, 'f', 1, 64)
@@ -160,7 +160,7 @@ func kindOfUnit(unit string) Kind {
 	case "K":
 		return KindTemperatureDifference
 	}
-	return KindQuantity
+	return kindQuantity
 }
 
 // basisOf describes the conditions c that a figure of spec s rests on,

@@ -151,8 +151,8 @@ type Figures struct {
 	Provenance             Provenance    `json:"provenance"`
 }
 
-// Cautions go with every set of figures.
-var Cautions = []string{
+// cautions go with every set of figures.
+var cautions = []string{
 	"Computed figures are not a certification.",
 	"Real performance depends on site, weather, soiling and ageing; the sky, air and wind here are stated conditions, not a forecast.",
 	"Building, roofing and energy decisions defer to local codes and licensed professionals.",
@@ -201,7 +201,7 @@ func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, err
 		return out
 	}
 	addUncertainty(f, s, o, grads, c.ClosureTol, eval)
-	f.Cautions = append([]string(nil), Cautions...)
+	f.Cautions = append([]string(nil), cautions...)
 	f.Provenance = provenanceOf(s, f, used)
 	return f, nil
 }

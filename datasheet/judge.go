@@ -31,16 +31,18 @@ type JudgeInput struct {
 	Angle string
 }
 
-// Judge decides whether the spectrum in m supports claim c. It never
+// judgeOne decides whether the spectrum in m supports claim c. It never
 // panics on bad claims or data: those give [CannotCheck] with the reason.
-func Judge(c Claim, m JudgeInput) Verdict {
+func judgeOne(c Claim, m JudgeInput) Verdict {
 	return newJudge(m).judge(c)
 }
 
-// JudgeAll judges the claims cs against m, in order, as [Judge] does. It
-// computes the figures once for each distinct basis among the claims, and
-// not at all for the material's own conditions when m.Figures holds them.
-// The result is never nil.
+// JudgeAll decides, for each claim of cs in order, whether the spectrum in
+// m supports it. It never panics on bad claims or data: those give
+// [CannotCheck] with the reason. It computes the figures once for each
+// distinct basis among the claims, and not at all for the material's own
+// conditions when m.Figures holds them; it resolves the spectrum only when
+// m.Optics is nil. The result is never nil.
 func JudgeAll(cs []Claim, m JudgeInput) []Verdict {
 	j := newJudge(m)
 	out := make([]Verdict, len(cs))
@@ -146,11 +148,11 @@ func (j *judge) judge(c Claim) Verdict {
 	if c.Tolerance > 0 {
 		v.Allowed, v.AllowedFrom = Num(c.Tolerance), "claimed tolerance"
 	} else {
-		uFig, from := defaultUncertainty(spec.kind, c.Value, fig.Unit)
+		uFig, from := assumedUncertainty(spec.kind, c.Value, fig.Unit)
 		uRound := roundingUncertainty(c.Value)
-		v.Allowed = Num(CoverageFactor * math.Hypot(uFig, uRound))
+		v.Allowed = Num(coverageFactor * math.Hypot(uFig, uRound))
 		v.AllowedFrom = fmt.Sprintf("expanded uncertainty (k = %g) of the figure's standard uncertainty %s (%s) and the claim's rounding %s",
-			CoverageFactor, v.Format(uFig), from, v.Format(uRound))
+			coverageFactor, v.Format(uFig), from, v.Format(uRound))
 	}
 	o := j.resolved(cond.ClosureTol) // for the pitfalls
 	v.Pitfalls = pitfalls(c, fig, spec, f, o, float64(v.Allowed))
@@ -176,7 +178,7 @@ func (j *judge) judge(c Claim) Verdict {
 	if spec.transmittance && !m.Spectrum.Has(spectra.T) {
 		return cannot("No transmittance was measured, and the opaque assumption (T = 0) cannot confirm a claimed transmittance.")
 	}
-	if c.Basis.AngleDeg > 0 && !math.IsNaN(ma) && math.Abs(c.Basis.AngleDeg-ma) > MaxAngleDiffDeg {
+	if c.Basis.AngleDeg > 0 && !math.IsNaN(ma) && math.Abs(c.Basis.AngleDeg-ma) > maxAngleDiffDeg {
 		return say(CannotCheck, "The claim is for %g° incidence but the spectra were measured at %g°.", c.Basis.AngleDeg, ma)
 	}
 	if why := outOfRange(c.Value, spec, fig, cond, v); why != "" {
@@ -209,36 +211,36 @@ func (f *Figures) figure(err error, key string) (Figure, bool) {
 	return f.Figure(key)
 }
 
-// defaultUncertainty returns the standard uncertainty assumed for a figure
+// assumedUncertainty returns the standard uncertainty assumed for a figure
 // of kind k when no tolerance is claimed, and where it comes from.
-func defaultUncertainty(k Kind, claimed float64, unit string) (float64, string) {
+func assumedUncertainty(k Kind, claimed float64, unit string) (float64, string) {
 	floor := 0.0
 	switch k {
 	case KindFraction:
-		return DefaultUncertainty, "default for fractions, common practice, no source"
+		return defaultUncertainty, "default for fractions, common practice, no source"
 	case KindIndex:
-		return DefaultIndexUncertainty, "default for an index such as the SRI, common practice, no source"
+		return defaultIndexUncertainty, "default for an index such as the SRI, common practice, no source"
 	case KindPower:
-		floor = DefaultPowerFloorWm2
+		floor = defaultPowerFloorWm2
 	case KindTemperatureDifference:
-		floor = DefaultDeltaFloorK
+		floor = defaultDeltaFloorK
 	}
-	u := DefaultRelUncertainty * math.Abs(claimed)
+	u := defaultRelUncertainty * math.Abs(claimed)
 	if u >= floor {
-		return u, fmt.Sprintf("default %g %% of the claim, common practice, no source", 100*DefaultRelUncertainty)
+		return u, fmt.Sprintf("default %g %% of the claim, common practice, no source", 100*defaultRelUncertainty)
 	}
 	return floor, fmt.Sprintf("default floor %s, as %g %% of the claim is less, common practice, no source",
-		k.Format(floor, unit), 100*DefaultRelUncertainty)
+		k.Format(floor, unit), 100*defaultRelUncertainty)
 }
 
 // coverageShort returns why the data cover too little of what figure fig
 // (of f) rests on, or "".
 func coverageShort(spec figureSpec, fig Figure, f *Figures) string {
 	short := func(cov float64, what, rests string) string {
-		if cov >= MinCoverage {
+		if cov >= minCoverage {
 			return ""
 		}
-		return fmt.Sprintf("The data cover only %.1f %% of %s%s (at least %g %% is needed).", 100*cov, what, rests, 100*MinCoverage)
+		return fmt.Sprintf("The data cover only %.1f %% of %s%s (at least %g %% is needed).", 100*cov, what, rests, 100*minCoverage)
 	}
 	input := func(key, rests string) string {
 		x, ok := f.Figure(key)
@@ -272,7 +274,7 @@ func coverageShort(spec figureSpec, fig Figure, f *Figures) string {
 // must cover for a cooling claim: CoolingCheckLoUM–CoolingCheckHiUM within
 // it, or the whole band when they do not overlap.
 func coolingCheckBand(c Conditions) spectra.Interval {
-	lo, hi := math.Max(umToNM(CoolingCheckLoUM), c.ExchangeBand.Lo), math.Min(umToNM(CoolingCheckHiUM), c.ExchangeBand.Hi)
+	lo, hi := math.Max(umToNM(coolingCheckLoUM), c.ExchangeBand.Lo), math.Min(umToNM(coolingCheckHiUM), c.ExchangeBand.Hi)
 	if !(hi > lo) {
 		return c.ExchangeBand
 	}
@@ -285,14 +287,14 @@ func coolingCheckBand(c Conditions) spectra.Interval {
 // it), with the blackbody fractions of Planck's law.
 func measuredShare(f *Figures, band spectra.Interval) float64 {
 	t := f.Conditions.AmbientK
-	total := BlackbodyFraction(band.Lo, band.Hi, t)
+	total := blackbodyFraction(band.Lo, band.Hi, t)
 	if !(total > 0) {
 		return 0
 	}
 	var held float64
 	for _, h := range f.CoolingTerms.HeldBands {
 		if a, b := math.Max(h.Lo, band.Lo), math.Min(h.Hi, band.Hi); b > a {
-			held += BlackbodyFraction(a, b, t)
+			held += blackbodyFraction(a, b, t)
 		}
 	}
 	return math.Max(0, math.Min(1, 1-held/total))
@@ -336,14 +338,14 @@ func outOfRange(x float64, spec figureSpec, fig Figure, c Conditions, v Verdict)
 	got := v.Format(float64(fig.Value))
 	switch spec.kind {
 	case KindFraction:
-		if math.Abs(x) <= MaxFraction {
+		if math.Abs(x) <= maxFraction {
 			return ""
 		}
 		if looksLikePercent(x, fig, spec) {
 			return fmt.Sprintf("The claim %s looks like a percentage: the figure is a fraction, and %g %% is %s against the computed %s.",
-				claim, x, FormatValue(x/100, ""), got)
+				claim, x, formatValue(x/100, ""), got)
 		}
-		return fmt.Sprintf("The claim %s is out of range for a fraction (at most %g), and the spectra give %s.", claim, MaxFraction, got)
+		return fmt.Sprintf("The claim %s is out of range for a fraction (at most %g), and the spectra give %s.", claim, maxFraction, got)
 	case KindIndex:
 		if !(spec.hc > 0) {
 			return ""
@@ -392,7 +394,7 @@ const percentNear = 0.05
 // MaxFraction and, read as a percentage, a fraction near the computed
 // value (or any fraction when none was computed).
 func looksLikePercent(v float64, fig Figure, spec figureSpec) bool {
-	if spec.kind != KindFraction || !(math.Abs(v) > MaxFraction && math.Abs(v) <= 100*MaxFraction) {
+	if spec.kind != KindFraction || !(math.Abs(v) > maxFraction && math.Abs(v) <= 100*maxFraction) {
 		return false
 	}
 	x := float64(fig.Value)
@@ -408,8 +410,8 @@ func pitfalls(c Claim, fig Figure, spec figureSpec, f *Figures, o spectra.Optics
 	}
 	cond := f.Conditions
 	if looksLikePercent(c.Value, fig, spec) {
-		add(PitfallPercent, "The claim %s is above 1 for a fraction: it looks like a percentage (%s).",
-			strconv.FormatFloat(c.Value, 'g', -1, 64), FormatValue(c.Value/100, ""))
+		add(pitfallPercent, "The claim %s is above 1 for a fraction: it looks like a percentage (%s).",
+			strconv.FormatFloat(c.Value, 'g', -1, 64), formatValue(c.Value/100, ""))
 	}
 	if spec.solar {
 		x, from := o.R, cond.SolarBand.Lo
@@ -419,9 +421,9 @@ func pitfalls(c Claim, fig Figure, spec figureSpec, f *Figures, o spectra.Optics
 		if fig.BandUnit == "nm" {
 			from = fig.Band.Lo
 		}
-		if lo, _ := x.Range(); lo > SolarStartNM && lo > from {
-			add(PitfallSolarLateStart, "The solar data start at %s nm, after %g nm: the ultraviolet from %g to %s nm is not measured.",
-				fmtHundredths(lo), SolarStartNM, from, fmtHundredths(lo))
+		if lo, _ := x.Range(); lo > solarStartNM && lo > from {
+			add(pitfallSolarLateStart, "The solar data start at %s nm, after %g nm: the ultraviolet from %g to %s nm is not measured.",
+				fmtHundredths(lo), solarStartNM, from, fmtHundredths(lo))
 		}
 	}
 	if spec.thermal || spec.window {
@@ -430,31 +432,31 @@ func pitfalls(c Claim, fig Figure, spec figureSpec, f *Figures, o spectra.Optics
 			band = cond.WindowBand
 		}
 		if _, hi := o.A.Range(); hi < band.Hi {
-			add(PitfallInfraredShort, "The infrared data stop at %s µm, before the top of the %s band.",
+			add(pitfallInfraredShort, "The infrared data stop at %s µm, before the top of the %s band.",
 				fmtHundredths(hi/1000), bandText(band, "µm"))
 		}
 	}
-	if ct := f.CoolingTerms; spec.cooling && float64(ct.HeldShare) > MaxHeldShare {
-		add(PitfallHeldLarge, "The emittance is held constant beyond the data over %s, which carries %.1f %% of the exchange band's blackbody power at %g K (more than %g %%): the figure rests on that assumption.",
-			heldBands(ct.HeldBands), 100*float64(ct.HeldShare), cond.AmbientK, 100*MaxHeldShare)
+	if ct := f.CoolingTerms; spec.cooling && float64(ct.HeldShare) > maxHeldShare {
+		add(pitfallHeldLarge, "The emittance is held constant beyond the data over %s, which carries %.1f %% of the exchange band's blackbody power at %g K (more than %g %%): the figure rests on that assumption.",
+			heldBands(ct.HeldBands), 100*float64(ct.HeldShare), cond.AmbientK, 100*maxHeldShare)
 	}
 	if spec.sri && f.SRI.Translucent {
-		add(PitfallSRITranslucent, "The sample transmits %s of sunlight (above 0.01): the SRI of ASTM E1980 is defined for opaque surfaces.",
-			FormatValue(float64(f.SolarTransmittance), ""))
+		add(pitfallSRITranslucent, "The sample transmits %s of sunlight (above 0.01): the SRI of ASTM E1980 is defined for opaque surfaces.",
+			formatValue(float64(f.SolarTransmittance), ""))
 	}
 	cl := o.Closure
-	worst, what := cl.Excess, fmt.Sprintf("R+T exceeds 1 by %s at %s nm", FormatValue(cl.Excess, ""), fmtHundredths(cl.ExcessNM))
+	worst, what := cl.Excess, fmt.Sprintf("R+T exceeds 1 by %s at %s nm", formatValue(cl.Excess, ""), fmtHundredths(cl.ExcessNM))
 	if cl.Checked && cl.Residual > worst {
-		worst, what = cl.Residual, fmt.Sprintf("|R+T+A−1| reaches %s at %s nm", FormatValue(cl.Residual, ""), fmtHundredths(cl.ResidualNM))
+		worst, what = cl.Residual, fmt.Sprintf("|R+T+A−1| reaches %s at %s nm", formatValue(cl.Residual, ""), fmtHundredths(cl.ResidualNM))
 	}
 	if -cl.Min > worst {
-		worst, what = -cl.Min, fmt.Sprintf("%s is %s at %s nm", cl.MinOf, FormatValue(cl.Min, ""), fmtHundredths(cl.MinNM))
+		worst, what = -cl.Min, fmt.Sprintf("%s is %s at %s nm", cl.MinOf, formatValue(cl.Min, ""), fmtHundredths(cl.MinNM))
 	}
 	// The allowance as a fraction: as it is for a fraction, through the
 	// absorptance an index unit stands for, else relative to the claim.
 	limit, how := allowed, ""
 	switch {
-	case spec.kind == KindFraction || spec.kind == KindUnknown:
+	case spec.kind == KindFraction || spec.kind == kindUnknown:
 	case spec.kind == KindIndex:
 		limit = allowed * alphaPerIndex
 		how = fmt.Sprintf(" (±%s index units at %g of absorptance per unit)", KindIndex.Format(allowed, ""), alphaPerIndex)
@@ -463,7 +465,7 @@ func pitfalls(c Claim, fig Figure, spec figureSpec, f *Figures, o spectra.Optics
 		how = " (relative to the claimed value)"
 	}
 	if worst > limit+edge {
-		add(PitfallClosure, "The data break closure by more than the claim's ±%s%s: %s.", FormatValue(limit, ""), how, what)
+		add(pitfallClosure, "The data break closure by more than the claim's ±%s%s: %s.", formatValue(limit, ""), how, what)
 	}
 	return out
 }

@@ -18,7 +18,7 @@ func TestProvenance(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	s, err := spectra.Merge(a, b)
+	s, err := spectra.Join([]*spectra.Spectrum{a, b}, spectra.SpliceOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -123,9 +123,9 @@ func FabricOnSkin(fabric, skin spectra.Optics, s SkinSetting) (Fabric, error) {
 		return Fabric{}, fmt.Errorf("solar band %g–%g nm is %w: want a band within the G173 tables' %g–%g nm",
 			b[0], b[1], ErrSystemInput, spectra.SolarRangeNM.Lo, spectra.SolarRangeNM.Hi)
 	}
-	if b := s.LongWaveBandUM; !(b[0] > 0 && b[1] > b[0] && b[1] <= MaxBandUM) || !(s.LongWaveK > 0 && s.LongWaveK < 1e4) {
+	if b := s.LongWaveBandUM; !(b[0] > 0 && b[1] > b[0] && b[1] <= maxBandUM) || !(s.LongWaveK > 0 && s.LongWaveK < 1e4) {
 		return Fabric{}, fmt.Errorf("long-wave band %g–%g µm at %g K is %w: want 0 < low < high ≤ %g µm and a temperature in kelvin",
-			b[0], b[1], s.LongWaveK, ErrSystemInput, float64(MaxBandUM))
+			b[0], b[1], s.LongWaveK, ErrSystemInput, float64(maxBandUM))
 	}
 	pair, err := spectra.Stack([]spectra.Optics{fabric, skin})
 	if err != nil {

@@ -32,7 +32,7 @@ var skyWindow = spectra.Interval{Lo: 8000, Hi: 13000}
 // horizontal surface: a zenith spectral emissivity ε_sky(λ, 0) and its
 // angular extension ε_sky(λ, θ) = 1 − (1 − ε_sky(λ, 0))^(1/cos θ). Its
 // exported fields describe it for the output; build one with [ClearSky] or
-// [SpectralSky].
+// spectralSky.
 type Sky struct {
 	Model  string `json:"model"`            // "clear two-band" or "spectral"
 	Source string `json:"source,omitempty"` // spectral sky: the file it came from
@@ -124,7 +124,7 @@ func BerdahlMartin(dewPointC float64) float64 {
 // mean at ambientK equals ε_sky from [BerdahlMartin] unless clamped.
 func ClearSky(dewPointC, ambientK float64) Sky {
 	eps := BerdahlMartin(dewPointC)
-	fw := BlackbodyFraction(skyWindow.Lo, skyWindow.Hi, ambientK)
+	fw := blackbodyFraction(skyWindow.Lo, skyWindow.Hi, ambientK)
 	ew := 1 - (1-eps)/fw
 	clamped := ew < 0 || ew > 1
 	ew = math.Max(0, math.Min(1, ew))
@@ -144,12 +144,12 @@ func ClearSky(dewPointC, ambientK float64) Sky {
 	return k
 }
 
-// SpectralSky returns the sky whose zenith emissivity is 1 − T(λ), T being
+// spectralSky returns the sky whose zenith emissivity is 1 − T(λ), T being
 // the transmittance column of s (values clipped to 0..1). Outside the
 // wavelengths s covers, and across gaps between its segments, the sky is
 // taken as opaque (emissivity 1). name is the file name, for the output.
 // It returns an error when s has no usable T column.
-func SpectralSky(s *spectra.Spectrum, name string, ambientK float64) (Sky, error) {
+func spectralSky(s *spectra.Spectrum, name string, ambientK float64) (Sky, error) {
 	if s == nil {
 		return Sky{}, fmt.Errorf("sky %s: no spectrum", name)
 	}
@@ -192,7 +192,7 @@ func SpectralSky(s *spectra.Spectrum, name string, ambientK float64) (Sky, error
 	k.Emissivity = k.ZenithEmissivity
 	k.HemisphericalEmissivity = Num(1 - math.Pi*transH/sigmaT4)
 	wlo, whi := skyWindow.Lo, skyWindow.Hi
-	k.WindowFraction = Num(BlackbodyFraction(wlo, whi, ambientK))
+	k.WindowFraction = Num(blackbodyFraction(wlo, whi, ambientK))
 	var we, w float64
 	wg := skyGrid(k, wlo, whi)
 	for i := 1; i < len(wg); i++ {
@@ -216,9 +216,9 @@ func angularWords(k Sky) string {
 		"does not depend on angle.", float64(k.HemisphericalEmissivity))
 }
 
-// Zenith returns the zenith spectral emissivity ε_sky(λ, 0) at nm. At a
+// zenithAt returns the zenith spectral emissivity ε_sky(λ, 0) at nm. At a
 // window edge of the two-band sky it returns the window value.
-func (k Sky) Zenith(nm float64) float64 {
+func (k Sky) zenithAt(nm float64) float64 {
 	if k.Model == skyModelSpectral {
 		if v, ok := k.zenith.At(nm); ok {
 			return v
@@ -231,10 +231,10 @@ func (k Sky) Zenith(nm float64) float64 {
 	return 1
 }
 
-// At returns ε_sky(λ, θ) = 1 − (1 − ε_sky(λ, 0))^(1/cos θ) for a direction
+// at returns ε_sky(λ, θ) = 1 − (1 − ε_sky(λ, 0))^(1/cos θ) for a direction
 // with cos θ = mu, 0 < mu ≤ 1.
-func (k Sky) At(nm, mu float64) float64 {
-	return 1 - math.Pow(1-k.Zenith(nm), 1/mu)
+func (k Sky) at(nm, mu float64) float64 {
+	return 1 - math.Pow(1-k.zenithAt(nm), 1/mu)
 }
 
 // zenithOn returns the zenith emissivity at a and b as seen from inside the
@@ -377,10 +377,10 @@ func gaussLegendre(n int) (x, w []float64) {
 	return x, w
 }
 
-// BlackbodyFraction returns the fraction of blackbody emission at kelvin
+// blackbodyFraction returns the fraction of blackbody emission at kelvin
 // that falls between lo and hi nm, from the series
 // F(0→λ) = 15/π⁴ Σₙ e^(−nζ)/n (ζ³ + 3ζ²/n + 6ζ/n² + 6/n³), ζ = hc/(λkT).
-func BlackbodyFraction(lo, hi, kelvin float64) float64 {
+func blackbodyFraction(lo, hi, kelvin float64) float64 {
 	return belowFraction(hi, kelvin) - belowFraction(lo, kelvin)
 }
 

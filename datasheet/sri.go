@@ -41,12 +41,12 @@ type SRI struct {
 	Note        string `json:"note"`
 }
 
-// SteadyTemperature returns the surface temperature T_s (K) that balances
+// steadyTemperature returns the surface temperature T_s (K) that balances
 // ASTM E1980's steady state α I = ε σ (T_s⁴ − T_sky⁴) + h_c (T_s − T_a) with
 // I = 1000 W/m², T_a = 310 K, T_sky = 300 K, for solar absorptance alpha,
 // thermal emittance eps and convection coefficient hc. It returns NaN when
 // no temperature balances it (hc = 0 and eps = 0).
-func SteadyTemperature(alpha, eps, hc float64) float64 {
+func steadyTemperature(alpha, eps, hc float64) float64 {
 	sigma := spectra.StefanBoltzmann
 	f := func(t float64) float64 {
 		return eps*sigma*(t*t*t*t-sriSkyK*sriSkyK*sriSkyK*sriSkyK) + hc*(t-sriAirK) - alpha*sriIrradiance
@@ -60,13 +60,13 @@ func SteadyTemperature(alpha, eps, hc float64) float64 {
 
 // SolarReflectanceIndex returns SRI = 100 (T_b − T_s)/(T_b − T_w) after
 // ASTM E1980, where T_s, T_b and T_w are the exact steady temperatures
-// ([SteadyTemperature]) of the sample, the standard black (α 0.95, ε 0.90)
+// (steadyTemperature) of the sample, the standard black (α 0.95, ε 0.90)
 // and the standard white (α 0.20, ε 0.90) at convection coefficient hc.
 // The black scores 0 and the white 100.
 func SolarReflectanceIndex(alpha, eps, hc float64) float64 {
-	tb := SteadyTemperature(blackAlpha, blackEps, hc)
-	tw := SteadyTemperature(whiteAlpha, whiteEps, hc)
-	ts := SteadyTemperature(alpha, eps, hc)
+	tb := steadyTemperature(blackAlpha, blackEps, hc)
+	tw := steadyTemperature(whiteAlpha, whiteEps, hc)
+	ts := steadyTemperature(alpha, eps, hc)
 	return 100 * (tb - ts) / (tb - tw)
 }
 

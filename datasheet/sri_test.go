@@ -60,13 +60,13 @@ func TestSRIAgainstClosedForm(t *testing.T) {
 func TestSteadyTemperatureBalance(t *testing.T) {
 	// The balance itself, ASTM E1980: α I = ε σ (T_s⁴ − T_sky⁴) + h_c (T_s − T_a).
 	for _, tt := range []struct{ a, e, hc float64 }{{0.95, 0.9, 12}, {0.2, 0.9, 5}, {0.5, 0.1, 30}, {0.05, 0.95, 5}} {
-		ts := SteadyTemperature(tt.a, tt.e, tt.hc)
+		ts := steadyTemperature(tt.a, tt.e, tt.hc)
 		r := tt.a*1000 - tt.e*sigmaCODATA*(math.Pow(ts, 4)-math.Pow(300, 4)) - tt.hc*(ts-310)
 		if math.Abs(r) > 1e-6 {
 			t.Errorf("α %g ε %g h_c %g: T_s %.6f K leaves %.3g W/m²", tt.a, tt.e, tt.hc, ts, r)
 		}
 	}
-	if !math.IsNaN(SteadyTemperature(0.5, 0, 0)) {
+	if !math.IsNaN(steadyTemperature(0.5, 0, 0)) {
 		t.Error("no emission and no convection: want NaN")
 	}
 }

@@ -6,7 +6,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"io/fs"
 	"math"
 	"path"
 	"regexp"
@@ -17,24 +16,24 @@ import (
 
 // The errors a reader may return, wrapped in a [ParseError].
 var (
-	ErrHeader         = errors.New("no header line")
-	ErrUnknownUnit    = errors.New("is not a known spectral axis")
-	ErrUnknownColumn  = errors.New("is not a known column")
-	ErrDuplicateCol   = errors.New("appears twice")
+	errHeader         = errors.New("no header line")
+	errUnknownUnit    = errors.New("is not a known spectral axis")
+	errUnknownColumn  = errors.New("is not a known column")
+	errDuplicateCol   = errors.New("appears twice")
 	ErrNoValues       = errors.New("no R, T or A column")
-	ErrFieldCount     = errors.New("wrong number of columns")
-	ErrNotNumber      = errors.New("is not a number")
-	ErrNotFinite      = errors.New("is not finite")
-	ErrOutOfRange     = errors.New("is out of range")
-	ErrDuplicate      = errors.New("repeats an earlier wavelength")
-	ErrNotMonotonic   = errors.New("breaks the order of the spectral axis")
+	errFieldCount     = errors.New("wrong number of columns")
+	errNotNumber      = errors.New("is not a number")
+	errNotFinite      = errors.New("is not finite")
+	errOutOfRange     = errors.New("is out of range")
+	errDuplicate      = errors.New("repeats an earlier wavelength")
+	errNotMonotonic   = errors.New("breaks the order of the spectral axis")
 	ErrNoData         = errors.New("no data")
-	ErrShortSegment   = errors.New("segment has fewer than 2 rows")
-	ErrOverlap        = errors.New("ranges overlap")
-	ErrUnknownFormat  = errors.New("unknown file format")
-	ErrBadMetadata    = errors.New("bad metadata value")
-	ErrEncoding       = errors.New("is not valid UTF-8")
-	ErrEmptyAxisValue = errors.New("empty spectral axis value")
+	errShortSegment   = errors.New("segment has fewer than 2 rows")
+	errOverlap        = errors.New("ranges overlap")
+	errUnknownFormat  = errors.New("unknown file format")
+	errBadMetadata    = errors.New("bad metadata value")
+	errEncoding       = errors.New("is not valid UTF-8")
+	errEmptyAxisValue = errors.New("empty spectral axis value")
 )
 
 // ParseError reports bad input at a place in a file. Line and Column are
@@ -67,19 +66,10 @@ func (e *ParseError) Error() string {
 
 func (e *ParseError) Unwrap() error { return e.Err }
 
-// Read reads the spectrum file name from fsys, choosing the reader by the
-// file's extension: ".jdx", ".dx" and ".jcamp" are JCAMP-DX, everything else
-// the neutral column format.
-func Read(fsys fs.FS, name string) (*Spectrum, error) {
-	data, err := fs.ReadFile(fsys, name)
-	if err != nil {
-		return nil, err
-	}
-	return Decode(data, name)
-}
-
-// Decode reads a spectrum from data, choosing the reader by name's extension
-// as [Read] does. The result's Inputs record name and the SHA-256 of data.
+// Decode reads a spectrum from data, choosing the reader by name's
+// extension: ".jdx", ".dx" and ".jcamp" are JCAMP-DX, everything else the
+// neutral column format. The result's Inputs record name and the SHA-256
+// of data.
 func Decode(data []byte, name string) (*Spectrum, error) {
 	s, err := decode(data, name)
 	if err != nil {
@@ -93,7 +83,7 @@ func decode(data []byte, name string) (*Spectrum, error) {
 	switch strings.ToLower(path.Ext(name)) {
 	case ".jdx", ".dx", ".jcamp":
 		if readJCAMP == nil {
-			return nil, &ParseError{File: name, Err: fmt.Errorf("JCAMP-DX: %w", ErrUnknownFormat)}
+			return nil, &ParseError{File: name, Err: fmt.Errorf("JCAMP-DX: %w", errUnknownFormat)}
 		}
 		return readJCAMP(bytes.NewReader(data), name)
 	}
@@ -223,7 +213,7 @@ func (p *parser) run(r io.Reader) error {
 		}
 		text = strings.TrimSuffix(text, "\r")
 		if !utf8.ValidString(text) {
-			return p.errf(0, fmt.Errorf("line %w", ErrEncoding))
+			return p.errf(0, fmt.Errorf("line %w", errEncoding))
 		}
 		trimmed := strings.TrimSpace(text)
 		switch {
@@ -255,7 +245,7 @@ func (p *parser) run(r io.Reader) error {
 	}
 	p.line = 0
 	if !header {
-		return &ParseError{File: p.file, Err: ErrHeader}
+		return &ParseError{File: p.file, Err: errHeader}
 	}
 	if err := p.closeSegment(); err != nil {
 		return err
@@ -299,7 +289,7 @@ func addMeta(s *Spectrum, consts *[numQuantities]float64, k, v string) error {
 	case spliceKey:
 		r, err := decodeSpliceRecord(v)
 		if err != nil {
-			return fmt.Errorf("%w: splice: %v", ErrBadMetadata, err)
+			return fmt.Errorf("%w: splice: %v", errBadMetadata, err)
 		}
 		s.Splices = append(s.Splices, r)
 		return nil
@@ -314,7 +304,7 @@ func addMeta(s *Spectrum, consts *[numQuantities]float64, k, v string) error {
 	return nil
 }
 
-// Metadata keys with a meaning of their own (see [addMeta]).
+// Metadata keys with a meaning of their own (see addMeta).
 const (
 	noteKey   = "processing note"
 	spliceKey = "splice"
@@ -330,7 +320,7 @@ func constU(consts *[numQuantities]float64, q Quantity, v string) error {
 	}
 	x, err := strconv.ParseFloat(s, 64)
 	if err != nil || math.IsNaN(x) || math.IsInf(x, 0) || x < 0 || x*scale > 1 {
-		return fmt.Errorf("%w: %s: %q: want a standard uncertainty such as 0.005 or 0.5 %%", ErrBadMetadata, q, v)
+		return fmt.Errorf("%w: %s: %q: want a standard uncertainty such as 0.005 or 0.5 %%", errBadMetadata, q, v)
 	}
 	consts[q] = x * scale
 	return nil
@@ -367,11 +357,11 @@ func (p *parser) header(text string) error {
 		f = f[:len(f)-1]
 	}
 	if len(f) == 0 {
-		return p.errf(1, fmt.Errorf("%q %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", strings.TrimSpace(text), ErrUnknownUnit))
+		return p.errf(1, fmt.Errorf("%q %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", strings.TrimSpace(text), errUnknownUnit))
 	}
 	u, ok := parseAxisHeader(f[0])
 	if !ok {
-		return p.errf(1, fmt.Errorf("%q %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", f[0], ErrUnknownUnit))
+		return p.errf(1, fmt.Errorf("%q %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", f[0], errUnknownUnit))
 	}
 	p.unit = u
 	seen := map[Quantity]int{}
@@ -379,11 +369,11 @@ func (p *parser) header(text string) error {
 		c, ok := parseColumnHeader(h)
 		if !ok {
 			p.cols = append(p.cols, c)
-			return p.errf(i+2, fmt.Errorf("%q %w: want R, T, A, u_R or u_T, optionally with (%%) or _pct", h, ErrUnknownColumn))
+			return p.errf(i+2, fmt.Errorf("%q %w: want R, T, A, u_R or u_T, optionally with (%%) or _pct", h, errUnknownColumn))
 		}
 		if j, dup := seen[c.q]; dup {
 			p.cols = append(p.cols, c)
-			return p.errf(i+2, fmt.Errorf("%s %w (also column %d)", c.q.Name(), ErrDuplicateCol, j))
+			return p.errf(i+2, fmt.Errorf("%s %w (also column %d)", c.q.name(), errDuplicateCol, j))
 		}
 		seen[c.q] = i + 2
 		p.cols = append(p.cols, c)
@@ -408,12 +398,12 @@ func (p *parser) number(orig string, col int) (float64, error) {
 	if err != nil {
 		var ne *strconv.NumError
 		if errors.As(err, &ne) && ne.Err == strconv.ErrRange {
-			return 0, p.errf(col, fmt.Errorf("%q %w", orig, ErrNotFinite))
+			return 0, p.errf(col, fmt.Errorf("%q %w", orig, errNotFinite))
 		}
-		return 0, p.errf(col, fmt.Errorf("%q %w", orig, ErrNotNumber))
+		return 0, p.errf(col, fmt.Errorf("%q %w", orig, errNotNumber))
 	}
 	if math.IsNaN(x) || math.IsInf(x, 0) {
-		return 0, p.errf(col, fmt.Errorf("%q %w", orig, ErrNotFinite))
+		return 0, p.errf(col, fmt.Errorf("%q %w", orig, errNotFinite))
 	}
 	return x, nil
 }
@@ -425,10 +415,10 @@ func (p *parser) row(text string) error {
 		f = f[:len(f)-1]
 	}
 	if len(f) != want {
-		return p.errf(0, fmt.Errorf("%w: expected %d, found %d", ErrFieldCount, want, len(f)))
+		return p.errf(0, fmt.Errorf("%w: expected %d, found %d", errFieldCount, want, len(f)))
 	}
 	if f[0] == "" {
-		return p.errf(1, ErrEmptyAxisValue)
+		return p.errf(1, errEmptyAxisValue)
 	}
 	x, err := p.number(f[0], 1)
 	if err != nil {
@@ -444,10 +434,10 @@ func (p *parser) row(text string) error {
 		nm = 1e7 / x
 	}
 	if !(x > 0) || math.IsInf(nm, 0) || !(nm > 0) {
-		return p.errf(1, fmt.Errorf("%q %w: the spectral axis must be positive", f[0], ErrOutOfRange))
+		return p.errf(1, fmt.Errorf("%q %w: the spectral axis must be positive", f[0], errOutOfRange))
 	}
 	if ln, dup := p.seenX[x]; dup {
-		return p.errf(1, fmt.Errorf("%s %w (line %d)", f[0], ErrDuplicate, ln))
+		return p.errf(1, fmt.Errorf("%s %w (line %d)", f[0], errDuplicate, ln))
 	}
 	if p.rows > 0 {
 		d := 1
@@ -461,7 +451,7 @@ func (p *parser) row(text string) error {
 			if p.dir < 0 {
 				order = "descending"
 			}
-			return p.errf(1, fmt.Errorf("%s %w: the axis is %s but line %d has %g", f[0], ErrNotMonotonic, order, p.lastLn, p.lastX))
+			return p.errf(1, fmt.Errorf("%s %w: the axis is %s but line %d has %g", f[0], errNotMonotonic, order, p.lastLn, p.lastX))
 		}
 	}
 	p.seenX[x] = p.line
@@ -511,7 +501,7 @@ func (p *parser) checkRange(v float64, c column, s string, col int) error {
 		if !c.percent && v > 1.05 && v <= 105 {
 			hint = " (percent? mark the header, e.g. \"" + c.q.String() + " (%)\")"
 		}
-		return p.errf(col, fmt.Errorf("%q %w: want %s%s", s, ErrOutOfRange, unit, hint))
+		return p.errf(col, fmt.Errorf("%q %w: want %s%s", s, errOutOfRange, unit, hint))
 	}
 	return nil
 }
@@ -524,7 +514,7 @@ func (p *parser) closeSegment() error {
 	}
 	p.pending = nil
 	if len(g.NM) < 2 {
-		return &ParseError{File: p.file, Line: p.lastLn, Err: fmt.Errorf("%w (segments are separated by blank lines)", ErrShortSegment)}
+		return &ParseError{File: p.file, Line: p.lastLn, Err: fmt.Errorf("%w (segments are separated by blank lines)", errShortSegment)}
 	}
 	p.s.Segments = append(p.s.Segments, *g)
 	return nil

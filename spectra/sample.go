@@ -110,7 +110,7 @@ func ReadSample(fsys fs.FS, files []string, opt SampleOptions) (*Spectrum, error
 func withReference(s *Spectrum, name, def string, resolve func(file, ref string) (string, error),
 	refs map[string]*Spectrum, read func(string) (*Spectrum, error)) (*Spectrum, error) {
 	ref := def
-	if r, ok := ReferenceFile(s); ok {
+	if r, ok := referenceFile(s); ok {
 		p, err := resolve(name, r)
 		if err != nil {
 			return nil, fmt.Errorf("%s: %s %q: %w", name, ReferenceKey, r, err)

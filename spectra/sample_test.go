@@ -84,7 +84,7 @@ func TestReadSample(t *testing.T) {
 	if len(idx) != 3 || idx[0] != 0 || idx[1] != 2 || idx[2] != 3 {
 		t.Errorf("indices %v, want [0 2 3]: %v", idx, err)
 	}
-	if !errors.Is(err, ErrNotNumber) || !errors.Is(err, fs.ErrNotExist) {
+	if !errors.Is(err, errNotNumber) || !errors.Is(err, fs.ErrNotExist) {
 		t.Errorf("want the parse error and the missing files: %v", err)
 	}
 

@@ -98,8 +98,8 @@ func (s Series) Covered(lo, hi float64) []Interval {
 	return out
 }
 
-// Map returns a series on the same points with f applied to every value.
-func (s Series) Map(f func(nm, v float64) float64) Series {
+// mapValues returns a series on the same points with f applied to every value.
+func (s Series) mapValues(f func(nm, v float64) float64) Series {
 	out := Series{Pieces: make([]Piece, len(s.Pieces))}
 	for i, p := range s.Pieces {
 		v := make([]float64, len(p.V))

@@ -13,7 +13,7 @@ func TestMerge(t *testing.T) {
 	gap := mustParse(t, "gap.csv", "wavelength_um,R\n3,0.1\n25,0.05\n")
 	over := mustParse(t, "over.csv", "wavelength_um,R\n2.4,0.1\n25,0.05\n")
 
-	s, err := Merge(ir, uv) // order of arguments does not matter
+	s, err := merge(ir, uv) // order of arguments does not matter
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -30,7 +30,7 @@ func TestMerge(t *testing.T) {
 		t.Errorf("T should end at 2500 nm: %+v", tr)
 	}
 
-	s, err = Merge(uv, gap)
+	s, err = merge(uv, gap)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -41,7 +41,7 @@ func TestMerge(t *testing.T) {
 		t.Error("a gap between files must not be interpolated")
 	}
 
-	if _, err := Merge(uv, over); !errors.Is(err, ErrOverlap) {
+	if _, err := merge(uv, over); !errors.Is(err, errOverlap) {
 		t.Errorf("overlap: err = %v, want ErrOverlap", err)
 	}
 }

@@ -233,9 +233,9 @@ func integrateWeight(w Weighting, lo, hi float64) float64 {
 	return sum
 }
 
-// WeightIntegral returns ∫ w dλ over [lo, hi] nm by the trapezoid rule on the
+// weightIntegral returns ∫ w dλ over [lo, hi] nm by the trapezoid rule on the
 // weighting's knots and the band limits (exact for a tabulated weighting).
-func WeightIntegral(w Weighting, lo, hi float64) float64 { return integrateWeight(w, lo, hi) }
+func weightIntegral(w Weighting, lo, hi float64) float64 { return integrateWeight(w, lo, hi) }
 
 // unionGrid merges a, b and the sorted slices xs and ys restricted to (a, b)
 // into one sorted grid without duplicates.

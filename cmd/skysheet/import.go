@@ -60,7 +60,7 @@ func runImport(e *env, args []string) error {
 		}
 		lo, hi := s.Range()
 		var qs []string
-		for _, q := range spectra.Quantities {
+		for _, q := range []spectra.Quantity{spectra.R, spectra.T, spectra.A, spectra.UR, spectra.UT} {
 			if s.Has(q) {
 				qs = append(qs, q.String())
 			}

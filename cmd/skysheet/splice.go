@@ -22,30 +22,11 @@ func init() {
 	})
 }
 
-// methodFlag is a flag holding a splice method.
-type methodFlag struct{ m *spectra.SpliceMethod }
-
-func (f methodFlag) String() string {
-	if f.m == nil {
-		return ""
-	}
-	return f.m.String()
-}
-
-func (f methodFlag) Set(s string) error {
-	m, err := spectra.ParseSpliceMethod(s)
-	if err != nil {
-		return err
-	}
-	*f.m = m
-	return nil
-}
-
 // sampleFlags adds the splice flags, their names starting with prefix, and
 // --reference.
 func sampleFlags(fs *flag.FlagSet, prefix string, o *spectra.SampleOptions) {
 	o.Splice.Tolerance = spectra.DefaultSpliceTol
-	fs.Var(methodFlag{&o.Splice.Method}, prefix+"method", "splice method where two files overlap: offset, scale or none")
+	fs.TextVar(&o.Splice.Method, prefix+"method", o.Splice.Method, "splice `METHOD` where two files overlap: offset, scale or none")
 	fs.StringVar(&o.Splice.Adjust, prefix+"adjust", "", "file whose data the splice adjusts (default: the one reaching longer wavelengths)")
 	fs.Float64Var(&o.Splice.JunctionNM, prefix+"junction", 0, "splice junction in nm (default: the middle of the overlap)")
 	fs.Float64Var(&o.Splice.Tolerance, prefix+"tol", o.Splice.Tolerance, "flag a splice whose mean mismatch before correction exceeds this")

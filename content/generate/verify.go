@@ -27,7 +27,7 @@ func figuresOf(m *material, files map[string][]byte, c datasheet.Conditions) (*d
 		}
 		parts = append(parts, s)
 	}
-	s, err := spectra.Merge(parts...)
+	s, err := spectra.Join(parts, spectra.SpliceOptions{})
 	if err != nil {
 		return nil, err
 	}

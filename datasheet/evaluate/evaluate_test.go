@@ -218,18 +218,19 @@ func TestErrors(t *testing.T) {
 		t.Fatalf("errors %v, want 3", err)
 	}
 	for i, want := range []struct {
-		file      string
-		line, col int
-		is        error
+		file         string
+		line, col    int
+		spectrumLine int // line of the spectrum file's ParseError; 0: none
 	}{
 		// spectra: [{file: m001/uv.csv}, {file: m001/ir.csv}] on line 4.
-		{"content/m001.md", 4, 39, spectra.ErrNotNumber},
-		{"content/m002.md", 0, 0, nil},
-		{"content/m003.md", 4, 18, spectra.ErrShortSegment},
+		{"content/m001.md", 4, 39, 3},
+		{"content/m002.md", 0, 0, 0},
+		{"content/m003.md", 4, 18, 2},
 	} {
 		var le *library.Error
+		var pe *spectra.ParseError
 		if !errors.As(es[i], &le) || le.File != want.file || le.Line != want.line || le.Column != want.col ||
-			want.is != nil && !errors.Is(es[i], want.is) {
+			want.spectrumLine != 0 && (!errors.As(es[i], &pe) || pe.Line != want.spectrumLine) {
 			t.Errorf("error %d: %v, want %s:%d:%d", i, es[i], want.file, want.line, want.col)
 		}
 	}

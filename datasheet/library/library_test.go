@@ -329,7 +329,7 @@ func TestLibraryErrors(t *testing.T) {
 		fsys := baseFS()
 		fsys["content/flat/solar.csv"] = &fstest.MapFile{Data: []byte("wavelength_nm,R\n280,0.9\n290,x\n")}
 		_, err := loadRead(fsys)
-		checkErrors(t, err, []errAt{{spectra.ErrNotNumber, "content/flat.md", 7, "content/flat/solar.csv:3"}})
+		checkErrors(t, err, []errAt{{ErrSpectrum, "content/flat.md", 7, "content/flat/solar.csv:3: column 2 (R): \"x\" is not a number"}})
 		var pe *spectra.ParseError
 		if !errors.As(err, &pe) || pe.Line != 3 {
 			t.Errorf("want the spectrum's ParseError at line 3: %v", err)

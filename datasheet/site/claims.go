@@ -213,7 +213,7 @@ type reviewRow struct {
 }
 
 // reviewRules are the thresholds the review page states, from the
-// constants of [datasheet.Judge].
+// rules of [datasheet.Rules].
 type reviewRules struct {
 	Uncertainty, IndexUncertainty, RelUncertainty, PowerFloor, DeltaFloor, K, Coverage, Angle, MaxFraction, SolarStart string
 	CoolingBand, HeldShare                                                                                             string
@@ -236,18 +236,18 @@ const reviewPage = "review/index.html"
 func (b *builder) reviewFiles(out files) error {
 	p := b.newPage("review", "Review of claims", reviewPage)
 	v := &reviewView{Cautions: Cautions, Rules: reviewRules{
-		Uncertainty:      fmtG(datasheet.DefaultUncertainty),
-		IndexUncertainty: fmtG(datasheet.DefaultIndexUncertainty),
-		RelUncertainty:   fmtG(100*datasheet.DefaultRelUncertainty) + " %",
-		PowerFloor:       fmtG(datasheet.DefaultPowerFloorWm2) + " W/m²",
-		DeltaFloor:       fmtG(datasheet.DefaultDeltaFloorK) + " K",
-		K:                fmtG(datasheet.CoverageFactor),
-		Coverage:         fmtG(100*datasheet.MinCoverage) + " %",
-		Angle:            fmtG(datasheet.MaxAngleDiffDeg) + "°",
-		MaxFraction:      fmtG(datasheet.MaxFraction),
-		SolarStart:       fmtG(datasheet.SolarStartNM) + " nm",
-		CoolingBand:      fmtG(datasheet.CoolingCheckLoUM) + "–" + fmtG(datasheet.CoolingCheckHiUM) + " µm",
-		HeldShare:        fmtG(100*datasheet.MaxHeldShare) + " %",
+		Uncertainty:      fmtG(datasheet.Rules.DefaultUncertainty),
+		IndexUncertainty: fmtG(datasheet.Rules.DefaultIndexUncertainty),
+		RelUncertainty:   fmtG(100*datasheet.Rules.DefaultRelUncertainty) + " %",
+		PowerFloor:       fmtG(datasheet.Rules.DefaultPowerFloorWm2) + " W/m²",
+		DeltaFloor:       fmtG(datasheet.Rules.DefaultDeltaFloorK) + " K",
+		K:                fmtG(datasheet.Rules.CoverageFactor),
+		Coverage:         fmtG(100*datasheet.Rules.MinCoverage) + " %",
+		Angle:            fmtG(datasheet.Rules.MaxAngleDiffDeg) + "°",
+		MaxFraction:      fmtG(datasheet.Rules.MaxFraction),
+		SolarStart:       fmtG(datasheet.Rules.SolarStartNM) + " nm",
+		CoolingBand:      fmtG(datasheet.Rules.CoolingCheckLoUM) + "–" + fmtG(datasheet.Rules.CoolingCheckHiUM) + " µm",
+		HeldShare:        fmtG(100*datasheet.Rules.MaxHeldShare) + " %",
 	}}
 	ms, _ := b.ordered()
 	for _, m := range ms {

@@ -51,7 +51,7 @@ func testMaterial(t *testing.T, slug, code string, csv ...string) *evaluate.Mate
 	s := parts[0]
 	if len(parts) > 1 {
 		var err error
-		if s, err = spectra.Merge(parts...); err != nil {
+		if s, err = spectra.Join(parts, spectra.SpliceOptions{}); err != nil {
 			t.Fatal(err)
 		}
 	}
