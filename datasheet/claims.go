@@ -6,6 +6,8 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+
+	"skysheet/internal/nearest"
 )
 
 // Status is the verdict on a claim.
@@ -341,46 +343,20 @@ func bandWords(f Figure) string {
 	return "band " + f.BandText()
 }
 
-// suggest returns ", did you mean X?; known figures: ..." for an unknown key.
+// suggest returns " (did you mean X?); known figures: ..." for an unknown
+// figure key.
 func suggest(key string, figs []Figure) string {
 	keys := make([]string, len(figs))
 	for i, f := range figs {
 		keys[i] = f.Key
 	}
-	best, bestD := "", 4
-	for _, k := range keys {
-		if d := editDistance(strings.ToLower(key), k); d < bestD {
-			best, bestD = k, d
-		}
-	}
+	best, close := nearest.Name(key, keys)
 	sort.Strings(keys)
 	s := "; known figures: " + strings.Join(keys, ", ")
-	if best != "" {
+	if close {
 		s = " (did you mean " + best + "?)" + s
 	}
 	return s
-}
-
-// editDistance is the Levenshtein distance between a and b.
-func editDistance(a, b string) int {
-	ra, rb := []rune(a), []rune(b)
-	prev := make([]int, len(rb)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(ra); i++ {
-		cur := make([]int, len(rb)+1)
-		cur[0] = i
-		for j := 1; j <= len(rb); j++ {
-			cost := 1
-			if ra[i-1] == rb[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev = cur
-	}
-	return prev[len(rb)]
 }
 
 // formatValue formats a number of a verdict as its reason writes it:

@@ -13,6 +13,7 @@ import (
 	"sync"
 
 	"skysheet/datasheet"
+	"skysheet/internal/nearest"
 	"skysheet/spectra"
 )
 
@@ -221,23 +222,12 @@ func (l *Library) ReadSample(m *Material) (*spectra.Spectrum, []Input, error) {
 	return s, inputs, nil
 }
 
-// nearestSlug suggests a known slug close to s.
+// nearestSlug suggests a known slug close to s, or nothing.
 func nearestSlug(s string, slugs map[string]string) string {
-	keys := make([]string, 0, len(slugs))
-	for k := range slugs {
-		keys = append(keys, k)
+	if best, close := nearest.Name(s, sortedKeys(slugs)); close {
+		return fmt.Sprintf(" (did you mean %q?)", best)
 	}
-	sort.Strings(keys)
-	best, bestD := "", -1
-	for _, k := range keys {
-		if d := editDistance(s, k); bestD < 0 || d < bestD {
-			best, bestD = k, d
-		}
-	}
-	if best == "" {
-		return ""
-	}
-	return fmt.Sprintf(" (nearest slug %q)", best)
+	return ""
 }
 
 // contentFiles lists the Markdown files under content/, sorted.

@@ -400,7 +400,7 @@ func TestComparison(t *testing.T) {
 
 	fsys["content/cmp/whites.md"] = &fstest.MapFile{Data: []byte("---\ntitle: Whites\ncompare:\n  - flat\n  - flatt\n---\n")}
 	_, err = loadRead(fsys)
-	checkErrors(t, err, []errAt{{ErrUnknownMaterial, "content/cmp/whites.md", 5, `nearest slug "flat"`}})
+	checkErrors(t, err, []errAt{{ErrUnknownMaterial, "content/cmp/whites.md", 5, `did you mean "flat"?`}})
 }
 
 func TestHiddenFilesSkipped(t *testing.T) {
@@ -423,22 +423,6 @@ func TestSlugify(t *testing.T) {
 	} {
 		if got := Slugify(tc.in); got != tc.want {
 			t.Errorf("Slugify(%q) = %q, want %q", tc.in, got, tc.want)
-		}
-	}
-}
-
-func TestEditDistance(t *testing.T) {
-	for _, tc := range []struct {
-		a, b string
-		want int
-	}{
-		{"kitten", "sitting", 3}, // the usual textbook example of Levenshtein distance (from memory)
-		{"", "abc", 3},           // insertions only: the length (definition)
-		{"flaw", "lawn", 2},      // delete f, insert n (definition)
-		{"same", "same", 0},
-	} {
-		if got := editDistance(tc.a, tc.b); got != tc.want {
-			t.Errorf("editDistance(%q, %q) = %d, want %d", tc.a, tc.b, got, tc.want)
 		}
 	}
 }

@@ -11,6 +11,8 @@ import (
 	"strings"
 
 	"gopkg.in/yaml.v3"
+
+	"skysheet/internal/nearest"
 )
 
 // doc is one YAML document of a library file: the file name and the number
@@ -231,39 +233,11 @@ func sortedKeys[V any](m map[string]V) []string {
 // unknownKey describes an unknown key with the nearest of the known names
 // (sorted).
 func unknownKey(key string, names []string) string {
-	best, bestD := "", -1
-	for _, n := range names {
-		if dd := editDistance(strings.ToLower(key), n); bestD < 0 || dd < bestD {
-			best, bestD = n, dd
-		}
-	}
-	if bestD >= 0 && bestD <= max(2, len(key)/3) {
+	best, close := nearest.Name(key, names)
+	if close {
 		return fmt.Sprintf("%q (did you mean %q?)", key, best)
 	}
 	return fmt.Sprintf("%q (nearest known key %q; known keys: %s)", key, best, strings.Join(names, ", "))
-}
-
-// editDistance returns the Levenshtein distance between a and b, counted in
-// runes.
-func editDistance(a, b string) int {
-	ra, rb := []rune(a), []rune(b)
-	prev := make([]int, len(rb)+1)
-	cur := make([]int, len(rb)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(ra); i++ {
-		cur[0] = i
-		for j := 1; j <= len(rb); j++ {
-			cost := 1
-			if ra[i-1] == rb[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(rb)]
 }
 
 func kindName(n *yaml.Node) string {
