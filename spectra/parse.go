@@ -1,14 +1,15 @@
 package spectra
 
 import (
-	"bufio"
 	"bytes"
+	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
 	"math"
 	"path"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"unicode/utf8"
@@ -34,6 +35,7 @@ var (
 	errBadMetadata    = errors.New("bad metadata value")
 	errEncoding       = errors.New("is not valid UTF-8")
 	errEmptyAxisValue = errors.New("empty spectral axis value")
+	errQuote          = errors.New("misplaced quote")
 )
 
 // ParseError reports bad input at a place in a file. Line and Column are
@@ -87,7 +89,7 @@ func decode(data []byte, name string) (*Spectrum, error) {
 		}
 		return readJCAMP(bytes.NewReader(data), name)
 	}
-	return Parse(bytes.NewReader(data), name)
+	return parseBytes(data, name)
 }
 
 // readJCAMP is set by the JCAMP-DX reader when it is built in.
@@ -111,7 +113,7 @@ const (
 
 var (
 	axisRE = regexp.MustCompile(`^(wavelength|lambda|wavenumber)\s*[_ ]?\s*[(\[]?\s*(nm|um|micron|microns|micrometers?|micrometres?|cm-1|1/cm|cm\^-1)\s*[)\]]?$`)
-	pctRE  = regexp.MustCompile(`(\s*[(\[]\s*%\s*[)\]]|\s*%|_pct|_percent)$`)
+	pctRE  = regexp.MustCompile(`(\s*,?\s*[(\[]\s*%\s*[)\]]|\s*,?\s*%|_pct|_percent)$`)
 )
 
 // parseAxisHeader returns the unit named by the first header cell.
@@ -161,8 +163,17 @@ func parseColumnHeader(h string) (column, bool) {
 // Parse reads a spectrum in the neutral column format (see the README) from
 // r; name is used in errors and recorded as the source.
 func Parse(r io.Reader, name string) (*Spectrum, error) {
+	data, err := io.ReadAll(r)
+	if err != nil {
+		return nil, &ParseError{File: name, Err: err}
+	}
+	return parseBytes(data, name)
+}
+
+// parseBytes reads a spectrum in the neutral column format from data.
+func parseBytes(data []byte, name string) (*Spectrum, error) {
 	p := parser{file: name, s: &Spectrum{Sources: []string{name}}}
-	if err := p.run(r); err != nil {
+	if err := p.run(data); err != nil {
 		return nil, err
 	}
 	return p.s, nil
@@ -198,50 +209,74 @@ func (p *parser) errf(col int, err error) error {
 	return pe
 }
 
-func (p *parser) run(r io.Reader) error {
+// run reads data in two states. Before the header, it reads line by line:
+// "# key: value" lines are metadata, other "#" lines and blank lines are
+// skipped, and the first other line is the header, whose first tab, else
+// semicolon, else comma names the delimiter (none: runs of spaces). After
+// the header, each line is a row or, when blank, the end of a segment;
+// "#" lines are skipped. Delimited rows are split by encoding/csv, so that
+// a quoted cell may hold the delimiter ("R, %"); space-separated rows by
+// runs of spaces.
+func (p *parser) run(data []byte) error {
 	for i := range p.consts {
 		p.consts[i] = math.NaN()
 	}
-	sc := bufio.NewScanner(r)
-	sc.Buffer(make([]byte, 64*1024), 16*1024*1024)
-	header := false
-	for sc.Scan() {
+	pos, header := 0, false
+	for pos < len(data) && !header {
+		start := pos
+		line, next := nextLine(data, pos)
+		pos = next
 		p.line++
-		text := sc.Text()
-		if p.line == 1 {
-			text = strings.TrimPrefix(text, "\uFEFF")
+		if p.line == 1 && bytes.HasPrefix(line, bom) {
+			line, start = line[len(bom):], start+len(bom)
 		}
-		text = strings.TrimSuffix(text, "\r")
+		text := string(line)
 		if !utf8.ValidString(text) {
 			return p.errf(0, fmt.Errorf("line %w", errEncoding))
 		}
 		trimmed := strings.TrimSpace(text)
 		switch {
 		case strings.HasPrefix(trimmed, "#"):
-			if !header {
-				if err := p.meta(strings.TrimSpace(trimmed[1:])); err != nil {
-					return err
-				}
-			}
-		case trimmed == "":
-			if header {
-				if err := p.closeSegment(); err != nil {
-					return err
-				}
-			}
-		case !header:
-			if err := p.header(text); err != nil {
+			if err := p.meta(strings.TrimSpace(trimmed[1:])); err != nil {
 				return err
 			}
-			header = true
+		case trimmed == "":
 		default:
-			if err := p.row(text); err != nil {
+			header = true
+			p.delim = delimiterOf(text)
+			if p.delim != 0 {
+				// The header is the first record encoding/csv reads.
+				if err := p.delimited(data[start:]); err != nil {
+					return err
+				}
+				pos = len(data)
+				break
+			}
+			if err := p.header(p.fields(text), text); err != nil {
 				return err
 			}
 		}
 	}
-	if err := sc.Err(); err != nil {
-		return &ParseError{File: p.file, Line: p.line + 1, Err: err}
+	for pos < len(data) { // space-separated rows
+		line, next := nextLine(data, pos)
+		pos = next
+		p.line++
+		text := string(line)
+		if !utf8.ValidString(text) {
+			return p.errf(0, fmt.Errorf("line %w", errEncoding))
+		}
+		trimmed := strings.TrimSpace(text)
+		switch {
+		case strings.HasPrefix(trimmed, "#"):
+		case trimmed == "":
+			if err := p.closeSegment(); err != nil {
+				return err
+			}
+		default:
+			if err := p.row(p.fields(text)); err != nil {
+				return err
+			}
+		}
 	}
 	p.line = 0
 	if !header {
@@ -258,6 +293,109 @@ func (p *parser) run(r io.Reader) error {
 	}
 	applyConstantUncertainty(p.s, &p.consts)
 	return nil
+}
+
+var bom = []byte("\uFEFF")
+
+// nextLine returns the line of data starting at pos, without its "\n" or
+// "\r\n", and the position after it.
+func nextLine(data []byte, pos int) (line []byte, next int) {
+	end, next := len(data), len(data)
+	if i := bytes.IndexByte(data[pos:], '\n'); i >= 0 {
+		end, next = pos+i, pos+i+1
+	}
+	line = data[pos:end]
+	if n := len(line); n > 0 && line[n-1] == '\r' {
+		line = line[:n-1]
+	}
+	return line, next
+}
+
+// delimiterOf returns the delimiter a header line names: a tab, else a
+// semicolon, else a comma; 0 for runs of spaces.
+func delimiterOf(header string) rune {
+	switch {
+	case strings.Contains(header, "\t"):
+		return '\t'
+	case strings.Contains(header, ";"):
+		return ';'
+	case strings.Contains(header, ","):
+		return ','
+	}
+	return 0
+}
+
+// delimited reads the header and rows of a delimited file, data starting
+// at the header line (file line p.line), with encoding/csv. csv skips
+// empty lines and lines starting with "#": where it skipped lines, they
+// are looked at, and an empty one ends the segment.
+func (p *parser) delimited(data []byte) error {
+	r := csv.NewReader(bytes.NewReader(data))
+	r.Comma, r.Comment = p.delim, '#'
+	r.FieldsPerRecord, r.TrimLeadingSpace, r.ReuseRecord = -1, true, true
+	base := p.line - 1 // csv's line 1 is file line p.line
+	prevLine, prevEnd := 0, int64(0)
+	for first := true; ; first = false {
+		rec, err := r.Read()
+		if err == io.EOF {
+			return nil
+		}
+		if err != nil {
+			var ce *csv.ParseError
+			if errors.As(err, &ce) {
+				p.line = base + ce.Line
+				return p.errf(0, fmt.Errorf("%w at character %d: %v", errQuote, ce.Column, ce.Err))
+			}
+			return &ParseError{File: p.file, Line: p.line, Err: err}
+		}
+		line, _ := r.FieldPos(0)
+		if skipped := line - prevLine - 1; !first && skipped > 0 && hasBlankLine(data[prevEnd:], skipped) {
+			if err := p.closeSegment(); err != nil {
+				return err
+			}
+		}
+		prevEnd = r.InputOffset()
+		prevLine, _ = r.FieldPos(len(rec) - 1)
+		p.line = base + line
+		for i, f := range rec {
+			if !utf8.ValidString(f) {
+				return p.errf(0, fmt.Errorf("line %w", errEncoding))
+			}
+			rec[i] = strings.TrimSpace(f)
+		}
+		switch {
+		case first:
+			headerLine, _ := nextLine(data, 0)
+			if err := p.header(rec, string(headerLine)); err != nil {
+				return err
+			}
+		case len(rec) == 1 && rec[0] == "": // a line of spaces
+			if err := p.closeSegment(); err != nil {
+				return err
+			}
+		case strings.HasPrefix(rec[0], "#"): // a comment after spaces
+		default:
+			if err := p.row(rec); err != nil {
+				return err
+			}
+		}
+	}
+}
+
+// hasBlankLine reports whether one of the first n lines of data is empty.
+func hasBlankLine(data []byte, n int) bool {
+	pos := 0
+	for range n {
+		if pos >= len(data) {
+			return false
+		}
+		line, next := nextLine(data, pos)
+		if len(bytes.TrimSpace(line)) == 0 {
+			return true
+		}
+		pos = next
+	}
+	return false
 }
 
 // meta records a "# key: value" line before the header.
@@ -330,29 +468,18 @@ func normKey(k string) string {
 	return strings.ReplaceAll(strings.ToLower(strings.TrimSpace(k)), " ", "_")
 }
 
-func (p *parser) split(text string) []string {
-	var f []string
-	if p.delim == 0 {
-		f = strings.Fields(text)
-	} else {
-		f = strings.Split(text, string(p.delim))
-	}
+// fields splits a space-separated line into its cells, stripping quotes.
+func (p *parser) fields(text string) []string {
+	f := strings.Fields(text)
 	for i := range f {
-		f[i] = strings.Trim(strings.TrimSpace(f[i]), `"`)
+		f[i] = strings.Trim(f[i], `"`)
 	}
 	return f
 }
 
-func (p *parser) header(text string) error {
-	switch {
-	case strings.Contains(text, "\t"):
-		p.delim = '\t'
-	case strings.Contains(text, ";"):
-		p.delim = ';'
-	case strings.Contains(text, ","):
-		p.delim = ','
-	}
-	f := p.split(text)
+// header reads the header cells f (text is the header line, for messages).
+func (p *parser) header(f []string, text string) error {
+	f = slices.Clone(f)
 	for len(f) > 0 && f[len(f)-1] == "" {
 		f = f[:len(f)-1]
 	}
@@ -408,8 +535,8 @@ func (p *parser) number(orig string, col int) (float64, error) {
 	return x, nil
 }
 
-func (p *parser) row(text string) error {
-	f := p.split(text)
+// row reads the cells f of one row.
+func (p *parser) row(f []string) error {
 	want := len(p.cols) + 1
 	for len(f) > want && f[len(f)-1] == "" {
 		f = f[:len(f)-1]

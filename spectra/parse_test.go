@@ -38,6 +38,9 @@ func TestParseBadInput(t *testing.T) {
 		{"bad metadata u", "# u_R: lots\nwavelength_nm,R\n400,0.5\n500,0.5\n", errBadMetadata, ""},
 		{"empty axis", "wavelength_nm,R\n400,0.5\n,0.5\n", errEmptyAxisValue, ""},
 		{"quotes only header", "\" \n400,0.5\n", errUnknownUnit, ""},
+		{"unclosed quote", "wavelength_nm,R\n400,0.5\n500,\"0.7\n600,0.8\n", errQuote, ""},
+		{"bare quote", "wavelength_nm,R\n400,0.5\n500,0\"7\n", errQuote, `w.csv:3: misplaced quote at character 6: bare " in non-quoted-field`},
+		{"field count after quoted delimiter", "wavelength_nm,\"R, %\"\n400,50\n500,\"7,0\",1\n", errFieldCount, `w.csv:3: wrong number of columns: expected 2, found 3`},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			_, err := Parse(strings.NewReader(tt.in), "w.csv")
@@ -68,6 +71,11 @@ func TestParseForms(t *testing.T) {
 		{"wavenumber ascending", "wavenumber (cm⁻¹),R,T\n20000,0.7,0.2\n25000,0.5,0.1\n"},
 		{"quoted header", "\"wavelength_nm\",\"R\",\"T\"\n400,0.5,0.1\n500,0.7,0.2\n"},
 		{"trailing delimiter", "wavelength_nm,R,T,\n400,0.5,0.1,\n500,0.7,0.2,\n"},
+		// A quoted header cell may hold the delimiter; "R, %" is R in percent.
+		{"quoted delimiter in header", "\"wavelength (nm)\",\"R, %\",\"T, %\"\n400,50,10\n500,70,20\n"},
+		{"quoted cells", "wavelength_nm;\"R\";T\n\"400\";\"0,5\";0,1\n500;0,7;\"0,2\"\n"},
+		{"comment between rows", "wavelength_nm,R,T\n400,0.5,0.1\n# instrument changed filters here\n  # and here\n500,0.7,0.2\n"},
+		{"spaces around cells", "wavelength_nm , R , T\n 400 , 0.5 , 0.1 \n500,0.7,0.2\n"},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			s, err := Parse(strings.NewReader(tt.in), "f")
@@ -108,6 +116,40 @@ func TestParseMetadataAndSegments(t *testing.T) {
 	}
 	if u := s.Series(UR).Pieces[1].V; u[0] != 0.005 {
 		t.Errorf("u_R = %v, want 0.005 from metadata", u)
+	}
+}
+
+// TestParseSegmentBreaks checks that a blank line, or a line of spaces,
+// ends a segment in every delimiter, and a comment line does not.
+func TestParseSegmentBreaks(t *testing.T) {
+	for _, tt := range []struct {
+		name, in string
+		segments int
+	}{
+		{"comma blank", "wavelength_nm,R\n400,0.5\n500,0.6\n\n600,0.7\n700,0.8\n", 2},
+		{"comma crlf blank", "wavelength_nm,R\r\n400,0.5\r\n500,0.6\r\n\r\n600,0.7\r\n700,0.8\r\n", 2},
+		{"comma spaces line", "wavelength_nm,R\n400,0.5\n500,0.6\n   \n600,0.7\n700,0.8\n", 2},
+		{"comma comment then blank", "wavelength_nm,R\n400,0.5\n500,0.6\n# next filter\n\n600,0.7\n700,0.8\n", 2},
+		{"comma comment only", "wavelength_nm,R\n400,0.5\n500,0.6\n# next filter\n600,0.7\n700,0.8\n", 1},
+		{"tab blank", "wavelength_nm\tR\n400\t0.5\n500\t0.6\n\n600\t0.7\n700\t0.8\n", 2},
+		{"spaces blank", "wavelength_nm R\n400 0.5\n500 0.6\n\n600 0.7\n700 0.8\n", 2},
+		{"three segments", "wavelength_nm,R\n400,0.5\n500,0.6\n\n\n600,0.7\n700,0.8\n\n800,0.7\n900,0.8\n", 3},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			s, err := Parse(strings.NewReader(tt.in), "f")
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(s.Segments) != tt.segments {
+				t.Errorf("%d segments, want %d", len(s.Segments), tt.segments)
+			}
+		})
+	}
+	// Line numbers stay right after skipped lines.
+	_, err := Parse(strings.NewReader("wavelength_nm,R\n400,0.5\n500,0.6\n\n# c\n600,0.7\n700,x\n"), "f")
+	var pe *ParseError
+	if !errors.As(err, &pe) || pe.Line != 7 || pe.Column != 2 {
+		t.Errorf("error %v, want line 7 column 2", err)
 	}
 }
 
