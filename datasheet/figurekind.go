@@ -3,6 +3,7 @@ package datasheet
 import (
 	"fmt"
 	"math"
+	"sort"
 	"strconv"
 	"strings"
 )
@@ -133,6 +134,17 @@ var figureSpecs = map[string]figureSpec{
 	"sri_low":                   {kind: KindIndex, conds: sriConds, solar: true, thermal: true, sri: true, hc: WindLow},
 	"sri_medium":                {kind: KindIndex, conds: sriConds, solar: true, thermal: true, sri: true, hc: WindMedium},
 	"sri_high":                  {kind: KindIndex, conds: sriConds, solar: true, thermal: true, sri: true, hc: WindHigh},
+}
+
+// FigureKeys returns the keys of every figure [Compute] gives, sorted: the
+// figures a claim may name.
+func FigureKeys() []string {
+	keys := make([]string, 0, len(figureSpecs))
+	for k := range figureSpecs {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	return keys
 }
 
 // specOf returns how claims of figure f are judged: from the table, or,

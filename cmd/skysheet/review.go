@@ -2,7 +2,6 @@ package main
 
 import (
 	"errors"
-	"fmt"
 	"io/fs"
 	"os"
 	"sort"
@@ -147,11 +146,6 @@ func reviewLibrary(dir string, lib *library.Library, loadErr error, strict bool)
 			cm.Slug, cm.Title, cm.Inputs, cm.Warnings = s.Slug, s.Front.Title, s.Inputs, s.Warnings
 			cl := s.Figures.Closure
 			cm.Closure = &cl
-			for i, c := range s.Front.Claims {
-				if err := c.Validate(); err != nil {
-					cm.Errors = append(cm.Errors, fmt.Sprintf("%s: claim %d: %v", s.Path, i+1, err))
-				}
-			}
 			cm.Verdicts = s.Verdicts
 		}
 	}

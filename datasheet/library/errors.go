@@ -25,6 +25,8 @@ var (
 	ErrConditions      = errors.New("bad conditions")
 	ErrSpectrum        = errors.New("cannot read spectrum")
 	ErrNotAllowed      = errors.New("key not allowed here")
+	ErrUnknownFigure   = errors.New("no such figure")
+	ErrClaim           = errors.New("bad claim")
 )
 
 // Error is a problem at a place in a library file. Line and Column are

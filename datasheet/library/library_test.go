@@ -219,6 +219,43 @@ func TestStrictFrontMatter(t *testing.T) {
 	}
 }
 
+// TestClaimErrors checks that a claim naming a figure the tool does not
+// compute, or a malformed claim, is a content error at the place in the
+// front matter that is wrong, with the nearest figure key.
+func TestClaimErrors(t *testing.T) {
+	for _, tc := range []struct {
+		name, claims string
+		want         []errAt
+		column       int
+	}{
+		{"misspelled figure", "  - {figure: solar_reflectence, value: 0.9}\n",
+			[]errAt{{ErrUnknownFigure, "content/flat.md", 16, `claim 1 names "solar_reflectence" (did you mean "solar_reflectance"?)`}}, 14},
+		{"far figure", "  - figure: zzzz\n    value: 0.9\n",
+			[]errAt{{ErrUnknownFigure, "content/flat.md", 16, `nearest figure`}}, 13},
+		{"second claim", "  - {figure: solar_reflectance, value: 0.9}\n  - {figure: window_emitance, value: 0.9}\n",
+			[]errAt{{ErrUnknownFigure, "content/flat.md", 17, `claim 2 names "window_emitance" (did you mean "window_emittance"?)`}}, 14},
+		{"not a number", "  - {figure: solar_reflectance, value: .nan}\n",
+			[]errAt{{ErrClaim, "content/flat.md", 16, "not a finite number"}}, 40},
+		{"bad basis", "  - figure: solar_reflectance\n    value: 0.9\n    basis: {solar_band_nm: [2500, 280]}\n",
+			[]errAt{{ErrClaim, "content/flat.md", 18, "solar_band_nm"}}, 12},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			fsys := baseFS()
+			src := strings.Replace(goodMaterial, "  - figure: solar_reflectance\n    value: 0.9\n", tc.claims, 1)
+			fsys["content/flat.md"] = &fstest.MapFile{Data: []byte(src)}
+			lib, err := Load(fsys)
+			checkErrors(t, err, tc.want)
+			var le *Error
+			if errors.As(err, &le) && le.Column != tc.column {
+				t.Errorf("column %d, want %d", le.Column, tc.column)
+			}
+			if len(lib.Materials) != 0 {
+				t.Error("the material was accepted")
+			}
+		})
+	}
+}
+
 func TestYAMLSyntaxLines(t *testing.T) {
 	// The YAML text starts on file line 2 of a content file; each case
 	// puts its fault on a known YAML line.

@@ -33,7 +33,7 @@ func claimsMaterial(title, claims string) []byte {
 }
 
 // claimsLibrary loads a library of two materials: "panel" with a
-// supported, a not supported and an unknown-figure claim, and "other"
+// supported, a not supported and a claim measured at another angle, and "other"
 // with a supported claim, a percentage for a fraction and a transmittance
 // that was not measured.
 func claimsLibrary(t testing.TB, panelClaims, otherClaims string) *library.Library {
@@ -55,7 +55,7 @@ func claimsLibrary(t testing.TB, panelClaims, otherClaims string) *library.Libra
 const (
 	panelClaims = `  - {figure: solar_reflectance, value: 0.9, tolerance: 0.01, basis: {solar_spectrum: direct}, source: "sheet <b>A</b> (invented)"}
   - {figure: thermal_emittance, value: 0.8, tolerance: 0.02, source: sheet B (invented)}
-  - {figure: "solar_reflectanse<i>", value: 0.9}
+  - {figure: solar_reflectance, value: 0.9, basis: {angle_deg: 45}, source: "sheet <i>C</i> (invented)"}
 `
 	otherClaims = `  - {figure: solar_reflectance, value: 0.9}
   - {figure: solar_reflectance, value: 90}
