@@ -432,3 +432,47 @@ func TestVerdictWords(t *testing.T) {
 		t.Errorf("counts %+v", c)
 	}
 }
+
+// TestMissingData checks that a claim on data that lack what the figure
+// rests on names the band that is missing: the thermal band for an SRI on
+// UV-Vis-NIR data (the solar band is covered), the exchange band for a
+// cooling figure, the solar band for an SRI on FTIR data; and that
+// Figures.Missing says the same for a reader.
+func TestMissingData(t *testing.T) {
+	uv := sample(t, "a.csv", uvvis90)
+	ir := sample(t, "b.csv", ftir95)
+	c := DefaultConditions()
+	for _, tt := range []struct {
+		name    string
+		s       *spectra.Spectrum
+		figure  string
+		reason  string
+		missing string
+	}{
+		{"SRI without infrared", uv, "sri_medium", "The data do not reach the band 2.5–25 µm at all.", "no infrared data over 2.5–25 µm"},
+		{"SRI without solar data", ir, "sri_low", "The data do not reach the band 280–2500 nm at all.", "no solar data over 280–2500 nm"},
+		{"cooling without infrared", uv, "cooling_power_w_m2", "The data do not reach the band 2.5–100 µm at all.", "no infrared data over 2.5–100 µm"},
+		{"night cooling without infrared", uv, "equilibrium_delta_night_k", "The data do not reach the band 2.5–100 µm at all.", "no infrared data over 2.5–100 µm"},
+		{"day cooling without solar data", ir, "cooling_power_w_m2", "The data do not reach the band 280–2500 nm at all.", "no solar data over 280–2500 nm"},
+		{"emittance without infrared", uv, "thermal_emittance", "The data do not reach the band 2.5–25 µm at all.", "no infrared data over 2.5–25 µm"},
+		{"reflectance without solar data", ir, "solar_reflectance", "The data do not reach the band 280–2500 nm at all.", "no solar data over 280–2500 nm"},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			v := JudgeAll([]Claim{{Figure: tt.figure, Value: 50}}, JudgeInput{Spectrum: tt.s, Conditions: c})[0]
+			if v.Status != CannotCheck || v.Reason != tt.reason {
+				t.Errorf("%v: %q, want %q", v.Status, v.Reason, tt.reason)
+			}
+			f, err := compute(tt.s, c)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got := f.Missing(tt.figure); got != tt.missing {
+				t.Errorf("Missing = %q, want %q", got, tt.missing)
+			}
+		})
+	}
+	f, _ := compute(sample(t, "a.csv", uvvis90, "b.csv", ftir95), c)
+	if got := f.Missing("sri_medium"); got != "" {
+		t.Errorf("a figure with a value: Missing = %q", got)
+	}
+}

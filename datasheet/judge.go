@@ -6,6 +6,8 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
+	"unicode"
+	"unicode/utf8"
 
 	"skysheet/spectra"
 )
@@ -159,7 +161,10 @@ func (j *judge) judge(c Claim) Verdict {
 
 	computed := float64(fig.Value)
 	if math.IsNaN(computed) {
-		return cannot("The data do not reach the %s at all.", bandWords(fig))
+		if band, _ := missingBand(spec, fig, f); band != "" {
+			return cannot("The data do not reach the band %s at all.", band)
+		}
+		return cannot("%s.", capitalize(errNoRoot.Error()))
 	}
 	v.Difference = Num(computed - c.Value)
 	// A cooling verdict always says over what the emittance is held
@@ -209,6 +214,64 @@ func (f *Figures) figure(err error, key string) (Figure, bool) {
 		return Figure{}, false
 	}
 	return f.Figure(key)
+}
+
+// missingBand returns the band where figure fig of f, of spec, lacks the
+// data it rests on, in words, and whether that band is in the infrared:
+// for an SRI, the thermal band when the emittance is missing, else the
+// solar band; for a cooling figure, the exchange band when no emittance
+// reaches it, else the solar band when the absorbed sunlight is unknown;
+// else the figure's own band. It returns "" for a cooling figure that has
+// its data but no equilibrium.
+func missingBand(spec figureSpec, fig Figure, f *Figures) (string, bool) {
+	nan := func(key string) bool {
+		x, ok := f.Figure(key)
+		return ok && math.IsNaN(float64(x.Value))
+	}
+	c := f.Conditions
+	switch {
+	case spec.sri:
+		if nan("thermal_emittance") {
+			return bandText(c.ThermalBand, "µm"), true
+		}
+		return bandText(c.SolarBand, "nm"), false
+	case spec.cooling:
+		if nan("cooling_power_night_w_m2") {
+			return bandText(c.ExchangeBand, "µm"), true
+		}
+		if spec.solar && nan("solar_absorptance") {
+			return bandText(c.SolarBand, "nm"), false
+		}
+		return "", false
+	}
+	return fig.BandText(), fig.BandUnit == "µm"
+}
+
+// Missing says why figure key of f has no value, for a reader: "no
+// infrared data over 2.5–25 µm", "no solar data over 280–2500 nm", or why
+// no equilibrium was found; "" when the figure has a value or f has no
+// such figure.
+func (f *Figures) Missing(key string) string {
+	fig, ok := f.Figure(key)
+	if !ok || !math.IsNaN(float64(fig.Value)) {
+		return ""
+	}
+	band, infrared := missingBand(specOf(fig), fig, f)
+	switch {
+	case band == "":
+		return errNoRoot.Error()
+	case infrared:
+		return "no infrared data over " + band
+	}
+	return "no solar data over " + band
+}
+
+func capitalize(s string) string {
+	if s == "" {
+		return s
+	}
+	r, n := utf8.DecodeRuneInString(s)
+	return string(unicode.ToUpper(r)) + s[n:]
 }
 
 // assumedUncertainty returns the standard uncertainty assumed for a figure
