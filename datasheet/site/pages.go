@@ -3,7 +3,9 @@ package site
 import (
 	"encoding/json"
 	"fmt"
+	"math"
 	"sort"
+	"strconv"
 	"strings"
 
 	"skysheet/datasheet"
@@ -27,14 +29,13 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	}
 	c := m.Conditions
 	v.Key = append(v.Key,
-		keyFig{Label: "Solar reflectance", Value: fmtFrac(f.SolarReflectance), Note: c.Text("solar_band_nm") + ", " + c.SolarSpectrum.String()},
-		keyFig{Label: "Thermal emittance", Value: fmtFrac(f.ThermalEmittance), Note: c.Text("thermal_band_um") + ", " + c.Text("temperature_k")},
-		keyFig{Label: "Window emittance", Value: fmtFrac(f.WindowEmittance), Note: c.Text("window_band_um")},
-		keyFig{Label: "Net cooling, day", Value: fmtNumber(datasheet.KindPower, f.CoolingPowerWm2, ""), Unit: "W/m²",
-			Note: fmt.Sprintf("at air %s, %s sun", c.Text("ambient_k"), c.Text("irradiance_w_m2"))},
+		keyCard(f, "solar_reflectance", "Solar reflectance", c.Text("solar_band_nm")+", "+c.SolarSpectrum.String()),
+		keyCard(f, "thermal_emittance", "Thermal emittance", c.Text("thermal_band_um")+", "+c.Text("temperature_k")),
+		keyCard(f, "window_emittance", "Window emittance", c.Text("window_band_um")),
+		keyCard(f, "cooling_power_w_m2", "Net cooling, day", fmt.Sprintf("at air %s, %s sun", c.Text("ambient_k"), c.Text("irradiance_w_m2"))),
 	)
 	if m.Sample.Has(spectra.T) {
-		v.Key = append(v.Key, keyFig{Label: "Solar transmittance", Value: fmtFrac(f.SolarTransmittance), Note: c.Text("solar_band_nm")})
+		v.Key = append(v.Key, keyCard(f, "solar_transmittance", "Solar transmittance", c.Text("solar_band_nm")))
 	}
 	v.Claims = claimViews(vs)
 	var counts datasheet.VerdictCounts
@@ -78,6 +79,39 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	return v, nil
 }
 
+// keyCard returns the headline card of figure key of f: its value and
+// unit, its standard uncertainty (± in the value's unit) at the head of
+// the note when it has one; or "n/a" with the reason where it has no
+// value.
+func keyCard(f *datasheet.Figures, key, label, note string) keyFig {
+	x := figureOf(f, key)
+	if isNaN(x.Value) {
+		why := "not computed"
+		if f != nil {
+			if m := f.Missing(key); m != "" {
+				why = m
+			}
+		}
+		return keyFig{Label: label, Value: "n/a", Note: why}
+	}
+	if pm := plusMinus(x); pm != "" {
+		note = strings.TrimSpace(pm) + "; " + note // in the value's unit, shown above
+	}
+	return keyFig{Label: label, Value: fmtNumber(x.Kind(), x.Value, ""), Unit: x.Unit, Note: note}
+}
+
+// plusMinus writes " ±u" for a figure with a standard uncertainty u, two
+// significant digits, the larger of the two cases the datasheet's table
+// gives (errors independent between wavelengths, errors moving together);
+// "" when it has none.
+func plusMinus(x datasheet.Figure) string {
+	u := x.Uncertainty
+	if u == nil || isNaN(u.Uncorrelated) || isNaN(u.Correlated) {
+		return ""
+	}
+	return " ±" + strconv.FormatFloat(math.Max(float64(u.Uncorrelated), float64(u.Correlated)), 'g', 2, 64)
+}
+
 // cautionsOf returns the cautions that come with the figures, or the
 // site's own.
 func cautionsOf(f *datasheet.Figures) []string {
@@ -112,7 +146,7 @@ func (b *builder) table(id, root string, ms []*evaluate.Summary, numbers map[str
 		}
 		for _, col := range tableFigures {
 			x := figureOf(m.Figures, col.Key)
-			r.Cells = append(r.Cells, cell{Key: col.Key, Text: fmtNumber(x.Kind(), x.Value, ""), Value: sortValue(x.Value)})
+			r.Cells = append(r.Cells, cell{Key: col.Key, Text: fmtNumber(x.Kind(), x.Value, "") + plusMinus(x), Value: sortValue(x.Value)})
 		}
 		t.Rows = append(t.Rows, r)
 	}

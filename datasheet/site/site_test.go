@@ -250,3 +250,39 @@ func TestTemplateOverride(t *testing.T) {
 		t.Errorf("broken template: %v", err)
 	}
 }
+
+// TestKeyCards checks the headline cards: a figure without its data says
+// why instead of showing a bare "— W/m²", and a figure with a standard
+// uncertainty shows it, on the card and in the index.
+func TestKeyCards(t *testing.T) {
+	fsys := fstest.MapFS{
+		"skysheet.yaml": {Data: []byte("title: Cards (invented)\n")},
+		"content/uv.md": {Data: []byte("---\ntitle: UV-Vis only (invented)\nmaker: Test maker (invented)\nspectra: [{file: uv.csv}]\n---\n")},
+		// R = 0.9 ± 0.005 everywhere: the solar reflectance is 0.9 and its
+		// uncertainty 0.005 when the errors move together (a weighted mean
+		// of a constant shift is that shift, closed form).
+		"content/uv.csv": {Data: []byte("# u_R: 0.005\nwavelength_nm,R\n280,0.9\n1000,0.9\n2500,0.9\n")},
+	}
+	lib, err := library.Load(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := renderTest(t, lib, Options{})
+	page := string(out["m/uv/index.html"])
+	for _, want := range []string{
+		`<dt>Solar reflectance</dt><dd><span class="big">0.900</span><span class="note">±0.005; 280–2500 nm, global</span>`,
+		`<dt>Thermal emittance</dt><dd><span class="big">n/a</span><span class="note">no infrared data over 2.5–25 µm</span>`,
+		`<dt>Net cooling, day</dt><dd><span class="big">n/a</span><span class="note">no infrared data over 2.5–100 µm</span>`,
+	} {
+		if !strings.Contains(page, want) {
+			t.Errorf("the datasheet lacks %q", want)
+		}
+	}
+	if strings.Contains(page, `<span class="big">—</span>`) {
+		t.Error("a card shows a bare —")
+	}
+	index := string(out["index.html"])
+	if !regexp.MustCompile(`data-key="solar_reflectance" data-value="[0-9.]+">0.900 ±0.005</td>`).MatchString(index) {
+		t.Error("the index does not show the uncertainty")
+	}
+}
