@@ -255,13 +255,17 @@ func listingDir(kind, slug string) string { return "materials/by-" + kind + "/" 
 
 // listingFiles renders one page per category and per tag.
 func (b *builder) listingFiles(out files) error {
-	_, numbers := b.ordered()
 	for _, kind := range []string{"category", "tag"} {
 		slugs, names, members := b.groups(kind == "tag")
 		for _, s := range slugs {
 			name := listingDir(kind, s) + "index.html"
 			label := map[string]string{"category": "Category", "tag": "Tag"}[kind]
 			p := b.newPage("listing", label+": "+names[s], name)
+			// Rows are numbered within the listing, in its order (the index's).
+			numbers := map[string]int{}
+			for i, m := range members[s] {
+				numbers[m.Slug] = i + 1
+			}
 			p.L = &listingView{Kind: label, Name: names[s], Table: b.table("", p.Root, members[s], numbers)}
 			html, err := b.execute("listing", p)
 			if err != nil {

@@ -9,6 +9,7 @@ import (
 	"path"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 	"testing/fstest"
@@ -284,5 +285,30 @@ func TestKeyCards(t *testing.T) {
 	index := string(out["index.html"])
 	if !regexp.MustCompile(`data-key="solar_reflectance" data-value="[0-9.]+">0.900 ±0.005</td>`).MatchString(index) {
 		t.Error("the index does not show the uncertainty")
+	}
+}
+
+// TestListingNumbers checks that category and tag pages number their
+// rows from 1 in their own order, not with the library index's numbers.
+func TestListingNumbers(t *testing.T) {
+	out := renderTest(t, testLibrary(t), Options{})
+	rowNumber := regexp.MustCompile(`<td class="num-col">(\d+)</td>`)
+	for name, data := range out {
+		if !strings.HasPrefix(name, "materials/by-") {
+			continue
+		}
+		var got []string
+		for _, m := range rowNumber.FindAllStringSubmatch(string(data), -1) {
+			got = append(got, m[1])
+		}
+		if len(got) == 0 {
+			t.Fatalf("%s: no numbered rows", name)
+		}
+		for i, n := range got {
+			if n != strconv.Itoa(i+1) {
+				t.Errorf("%s: row numbers %v, want 1…%d", name, got, len(got))
+				break
+			}
+		}
 	}
 }
