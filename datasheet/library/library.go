@@ -230,6 +230,31 @@ func nearestSlug(s string, slugs map[string]string) string {
 	return ""
 }
 
+// nearbyFile suggests, for the missing file p (written ref in front
+// matter), a file of the same folder with a close name, as it would be
+// written in the front matter; or names the folder's files when none is
+// close and they are few. It returns "" when the folder cannot be read.
+func nearbyFile(fsys fs.FS, p, ref string) string {
+	dir := path.Dir(p)
+	entries, err := fs.ReadDir(fsys, dir)
+	if err != nil {
+		return ""
+	}
+	var names []string
+	for _, e := range entries {
+		if !e.IsDir() && !strings.HasPrefix(e.Name(), ".") && !strings.EqualFold(path.Ext(e.Name()), ".md") {
+			names = append(names, e.Name())
+		}
+	}
+	if best, close := nearest.Name(path.Base(p), names); close {
+		return fmt.Sprintf(" (did you mean %q?)", path.Join(path.Dir(strings.TrimSpace(ref)), best))
+	}
+	if len(names) > 0 && len(names) <= 10 {
+		return fmt.Sprintf(" (%s/ holds %s)", dir, strings.Join(names, ", "))
+	}
+	return ""
+}
+
 // contentFiles lists the Markdown files under content/, sorted.
 func contentFiles(fsys fs.FS) ([]string, error) {
 	var files []string
@@ -343,7 +368,7 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 			continue
 		}
 		if _, err := fs.Stat(fsys, p); err != nil {
-			errs = append(errs, &Error{File: file, Line: line, Column: col, Err: fmt.Errorf("%w %s: %w", ErrSpectrum, p, unwrapPath(err))})
+			errs = append(errs, &Error{File: file, Line: line, Column: col, Err: fmt.Errorf("%w %s: %w%s", ErrSpectrum, p, unwrapPath(err), nearbyFile(fsys, p, ref.File))})
 			continue
 		}
 		m.spectra = append(m.spectra, spectrumFile{path: p, line: line, column: col})
