@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strconv"
 	"strings"
 
 	"skysheet/spectra"
@@ -101,8 +102,8 @@ func (c Conditions) validateCooling() error {
 		return fmt.Errorf("dew point %g °C: want a temperature in °C above −80", c.DewPointC)
 	}
 	if c.DewPointC+273.15 > c.AmbientK+1e-9 {
-		return fmt.Errorf("dew point %g °C is above the air temperature %g K (%g °C): the dew point cannot exceed it",
-			c.DewPointC, c.AmbientK, c.AmbientK-273.15)
+		return fmt.Errorf("dew point %g °C is above the air temperature %g K (%s °C): the dew point cannot exceed it",
+			c.DewPointC, c.AmbientK, strconv.FormatFloat(c.AmbientK-273.15, 'g', 12, 64))
 	}
 	if !(c.IrradianceWm2 >= 0 && c.IrradianceWm2 <= 2000) {
 		return fmt.Errorf("irradiance %g W/m²: want 0–2000 W/m²", c.IrradianceWm2)

@@ -331,3 +331,15 @@ func FuzzCompute(f *testing.F) {
 		}
 	})
 }
+
+// TestConditionMessagesRounded checks that a value the message derives
+// (the air temperature in °C, 290 K − 273.15 = 16.850000000000023 in
+// float64) is written as the data state it.
+func TestConditionMessagesRounded(t *testing.T) {
+	c := DefaultConditions()
+	c.AmbientK, c.DewPointC = 290, 20
+	err := c.Validate()
+	if err == nil || !strings.Contains(err.Error(), "(16.85 °C)") {
+		t.Errorf("message %v, want the air at 16.85 °C", err)
+	}
+}

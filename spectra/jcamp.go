@@ -338,7 +338,7 @@ func (j *jcamp) data() error {
 		}
 		got := pts[0].y * yf
 		if tol := math.Max(math.Abs(yf), math.Max(1e-5*math.Abs(want), 0.5*resolution(fy.value))); math.Abs(got-want) > tol {
-			return j.errAt(fy.line, fmt.Errorf("%w: FIRSTY=%s but the first Y is %g (line %d)", errFirstY, fy.value, got, pts[0].line))
+			return j.errAt(fy.line, fmt.Errorf("%w: FIRSTY=%s but the first Y is %s (line %d)", errFirstY, fy.value, fmtNum(got), pts[0].line))
 		}
 	}
 	return j.store(pts, xu, yu, yf)
@@ -501,7 +501,7 @@ func (j *jcamp) xyData(table *record, xf float64) ([]rawPoint, error) {
 		}
 		end := firstX + float64(n-1)*d
 		if tol := math.Max(0.5*math.Abs(d), resolution(lxr.value)); !(math.Abs(end-lastX) <= tol) {
-			return nil, j.errAt(lxr.line, fmt.Errorf("%w: LASTX=%s but FIRSTX + (NPOINTS−1)·DELTAX = %g", errLastX, lxr.value, end))
+			return nil, j.errAt(lxr.line, fmt.Errorf("%w: LASTX=%s but FIRSTX + (NPOINTS−1)·DELTAX = %s", errLastX, lxr.value, fmtNum(end)))
 		}
 	}
 
@@ -537,14 +537,14 @@ func (j *jcamp) xyData(table *record, xf float64) ([]rawPoint, error) {
 				return nil, bad(xt, "X value", fmt.Errorf("%w: line %d ends in DIF form, so this line must start with its last Y value repeated", errYCheck, lastLine))
 			}
 			if c := rest[0].v; math.Abs(c-lastY) > 1e-9*math.Max(1, math.Max(math.Abs(c), math.Abs(lastY))) {
-				return nil, bad(rest[0], "Y value", fmt.Errorf("%w: the line's first Y %g should repeat the last Y of line %d, which decodes to %g", errYCheck, c, lastLine, lastY))
+				return nil, bad(rest[0], "Y value", fmt.Errorf("%w: the line's first Y %s should repeat the last Y of line %d, which decodes to %s", errYCheck, fmtNum(c), lastLine, fmtNum(lastY)))
 			}
 			idx--
 		}
 		want := firstX + float64(idx)*dx
 		got := xt.v * xf
 		if tol := math.Max(0.5*math.Abs(dx), xt.res*math.Abs(xf)) + 1e-9*math.Abs(want); !(math.Abs(got-want) <= tol) {
-			err := fmt.Errorf("%w: the line starts at X %g (%g after XFACTOR) but point %d lies at %g by FIRSTX, LASTX and NPOINTS", errXCheck, xt.v, got, idx+1, want)
+			err := fmt.Errorf("%w: the line starts at X %s (%s after XFACTOR) but point %d lies at %s by FIRSTX, LASTX and NPOINTS", errXCheck, fmtNum(xt.v), fmtNum(got), idx+1, fmtNum(want))
 			if idx == 0 {
 				err = fmt.Errorf("%w: %w", errFirstX, err)
 			}
@@ -674,7 +674,7 @@ func (j *jcamp) xyPoints(table *record, xf float64) ([]rawPoint, error) {
 		}
 		p := pts[c.i]
 		if tol := math.Max(xres[c.i], resolution(r.value)) + 1e-9*math.Abs(want); !(math.Abs(p.x-want) <= tol) {
-			return nil, j.errAt(r.line, fmt.Errorf("%w: %s=%s but the table's X is %g (line %d)", c.err, c.label, r.value, p.x, p.line))
+			return nil, j.errAt(r.line, fmt.Errorf("%w: %s=%s but the table's X is %s (line %d)", c.err, c.label, r.value, fmtNum(p.x), p.line))
 		}
 	}
 	return pts, nil
@@ -718,23 +718,26 @@ func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, yf float64) error {
 		at := func(name string, err error) error {
 			return &ParseError{File: j.file, Line: p.line, Column: p.col, Name: name, Err: err}
 		}
+		// X and Y are decimal numbers times decimal factors: the noise of
+		// the products is dropped (decimalClean) before converting.
 		var nm float64
+		x := decimalClean(p.x)
 		switch xu {
 		case xNM:
-			nm = p.x
+			nm = x
 		case xUM:
-			nm = p.x * 1000
+			nm = shiftDecimal(x, 3)
 		case xWavenumber:
-			nm = 1e7 / p.x
+			nm = 1e7 / x
 		}
 		if !(nm > 0) || math.IsInf(nm, 0) {
-			return at("X value", fmt.Errorf("X %g %w: want a positive wavelength or wavenumber", p.x, errOutOfRange))
+			return at("X value", fmt.Errorf("X %s %w: want a positive wavelength or wavenumber", fmtNum(p.x), errOutOfRange))
 		}
 		if i > 0 && !(nm > g.NM[i-1]) {
-			return at("X value", fmt.Errorf("X %g %w: it gives the same wavelength as the point before", p.x, errDuplicate))
+			return at("X value", fmt.Errorf("X %s %w: it gives the same wavelength as the point before", fmtNum(p.x), errDuplicate))
 		}
 		g.NM[i] = nm
-		y := p.y * yf
+		y := decimalClean(p.y * yf)
 		switch {
 		case math.IsNaN(p.y):
 			v[i] = math.NaN()
@@ -744,21 +747,21 @@ func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, yf float64) error {
 		case yu.absorbance:
 			t := math.Pow(10, -y)
 			if !(t >= -0.05 && t <= 1.05) {
-				return at("Y value", fmt.Errorf("absorbance %g gives T = %g, which %w: want T within -0.05..1.05", y, t, errOutOfRange))
+				return at("Y value", fmt.Errorf("absorbance %s gives T = %s, which %w: want T within -0.05..1.05", fmtNum(y), fmtNum(t), errOutOfRange))
 			}
 			y = t
 		case yu.percent:
 			if !(y >= -5 && y <= 105) {
-				return at("Y value", fmt.Errorf("Y %g %w: YUNITS=%s is percent, want -5..105", y, errOutOfRange, yu.written))
+				return at("Y value", fmt.Errorf("Y %s %w: YUNITS=%s is percent, want -5..105", fmtNum(y), errOutOfRange, yu.written))
 			}
-			y /= 100
+			y = shiftDecimal(y, -2)
 		default:
 			if !(y >= -0.05 && y <= 1.05) {
 				hint := ""
 				if y > 1.05 && y <= 105 {
 					hint = " (percent? write YUNITS=%" + strings.ToUpper(yu.q.name()) + ")"
 				}
-				return at("Y value", fmt.Errorf("Y %g %w: YUNITS=%s is a fraction, want -0.05..1.05%s", y, errOutOfRange, yu.written, hint))
+				return at("Y value", fmt.Errorf("Y %s %w: YUNITS=%s is a fraction, want -0.05..1.05%s", fmtNum(y), errOutOfRange, yu.written, hint))
 			}
 		}
 		v[i] = y

@@ -556,7 +556,7 @@ func (p *parser) row(f []string) error {
 	case axisNM:
 		nm = x
 	case axisUM:
-		nm = x * 1000
+		nm = shiftDecimal(x, 3)
 	case axisWavenumber:
 		nm = 1e7 / x
 	}
@@ -604,7 +604,7 @@ func (p *parser) row(f []string) error {
 				return err
 			}
 			if c.percent {
-				v /= 100
+				v = shiftDecimal(v, -2) // 88.112 % is 0.88112, not 88.112/100 = 0.8811199999999999
 			}
 		}
 		g.Values[c.q] = append(g.Values[c.q], v)

@@ -68,6 +68,25 @@ func IntervalUM(lo, hi float64) Interval { return Interval{shiftDecimal(lo, 3), 
 // exactly: the product can carry float noise into what is written.
 func (iv Interval) UM() (lo, hi float64) { return shiftDecimal(iv.Lo, -3), shiftDecimal(iv.Hi, -3) }
 
+// decimalClean returns x rounded to 15 significant digits: the value that
+// decimal inputs multiplied by a decimal factor describe, without the
+// float noise of the product (88112 × 0.001 gives 88.11200000000001;
+// 88.112 is meant). No instrument reports 15 significant digits.
+func decimalClean(x float64) float64 {
+	if x == 0 || math.IsNaN(x) || math.IsInf(x, 0) {
+		return x
+	}
+	v, err := strconv.ParseFloat(strconv.FormatFloat(x, 'g', 15, 64), 64)
+	if err != nil {
+		return x
+	}
+	return v
+}
+
+// fmtNum writes a computed number for a message: to 12 significant
+// digits, which no data exceed, so that float noise does not show.
+func fmtNum(x float64) string { return strconv.FormatFloat(x, 'g', 12, 64) }
+
 // shiftDecimal returns x × 10^by, computed on x's shortest decimal form.
 func shiftDecimal(x float64, by int) float64 {
 	if x == 0 || math.IsNaN(x) || math.IsInf(x, 0) {

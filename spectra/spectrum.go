@@ -185,8 +185,8 @@ func merge(parts ...*Spectrum) (*Spectrum, error) {
 		end := prev.NM[len(prev.NM)-1]
 		switch {
 		case g.NM[0] < end:
-			return nil, fmt.Errorf("spectra: %s (%g–%g nm) and %s (%g–%g nm): %w",
-				prev.Source, prev.NM[0], end, g.Source, g.NM[0], g.NM[len(g.NM)-1], errOverlap)
+			return nil, fmt.Errorf("spectra: %s (%s–%s nm) and %s (%s–%s nm): %w",
+				prev.Source, fmtNM(prev.NM[0]), fmtNM(end), g.Source, fmtNM(g.NM[0]), fmtNM(g.NM[len(g.NM)-1]), errOverlap)
 		case g.NM[0] == end:
 			var note string
 			*prev, note = joinTouching(*prev, g)

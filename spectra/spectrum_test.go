@@ -82,3 +82,21 @@ func TestResolve(t *testing.T) {
 		})
 	}
 }
+
+// TestOverlapMessageRounded checks that wavelengths from the data (here
+// from wavenumbers) are written to 0.01 nm in messages.
+func TestOverlapMessageRounded(t *testing.T) {
+	a, err := Parse(strings.NewReader("wavenumber_cm-1,R\n4168,0.5\n400,0.5\n"), "ir.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := Parse(strings.NewReader("wavelength_nm,R\n300,0.5\n2500,0.5\n"), "uv.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = merge(b, a)
+	// 1e7/4168 = 2399.2322456813818… nm.
+	if err == nil || !strings.Contains(err.Error(), "ir.csv (2399.23–25000 nm)") {
+		t.Errorf("message %v", err)
+	}
+}

@@ -260,7 +260,7 @@ func splice(a, b *Spectrum, opt SpliceOptions) (*Spectrum, SpliceRecord, error) 
 				r.Value = sfg / sgg
 			}
 			if !(r.Value > 0) || math.IsInf(r.Value, 0) {
-				return nil, SpliceRecord{}, fmt.Errorf("spectra: splice %s and %s: %s: %w (%g)", an, bn, q, errScale, r.Value)
+				return nil, SpliceRecord{}, fmt.Errorf("spectra: splice %s and %s: %s: %w (%s)", an, bn, q, errScale, fmtNum(r.Value))
 			}
 			k := r.Value
 			apply = func(x float64) float64 { return k * x }

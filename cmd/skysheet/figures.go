@@ -110,7 +110,7 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 			fmt.Fprintf(w, "  - %s\n", p)
 		}
 	case cl.Checked:
-		fmt.Fprintf(w, "Closure: holds; |R+T+A-1| at most %.4f (at %g nm), tolerance %g\n", cl.Residual, cl.ResidualNM, cl.Tolerance)
+		fmt.Fprintf(w, "Closure: holds; |R+T+A-1| at most %.4f (at %s nm), tolerance %g\n", cl.Residual, fmtNM(cl.ResidualNM), cl.Tolerance)
 	default:
 		fmt.Fprintf(w, "Closure: R, T and A were not all measured; R+T ≤ 1 and no negative values, tolerance %g\n", cl.Tolerance)
 	}
@@ -239,7 +239,8 @@ func fmtFixed(v datasheet.Num, digits int) string {
 func fmtBands(b []spectra.Interval) string {
 	parts := make([]string, len(b))
 	for i, x := range b {
-		lo, hi := x.UM()
+		// Band ends from the data, to 0.01 nm.
+		lo, hi := spectra.Interval{Lo: math.Round(x.Lo*100) / 100, Hi: math.Round(x.Hi*100) / 100}.UM()
 		parts[i] = fmt.Sprintf("%g–%g µm", lo, hi)
 	}
 	return strings.Join(parts, ", ")
@@ -263,6 +264,9 @@ func printProvenance(w io.Writer, p datasheet.Provenance) {
 	fmt.Fprintf(w, "  settings: closure tolerance %g; Planck grid step %g nm; %s; figures schema %d\n",
 		st.ClosureTolerance, st.PlanckStepNM, st.Integration, st.Schema)
 }
+
+// fmtNM writes a wavelength from the data to 0.01 nm.
+func fmtNM(nm float64) string { return strconv.FormatFloat(math.Round(nm*100)/100, 'f', -1, 64) }
 
 func fmtPercent(v datasheet.Num) string {
 	if math.IsNaN(float64(v)) {

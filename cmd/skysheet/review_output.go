@@ -34,7 +34,7 @@ func closureWords(cl *datasheet.ClosureReport) string {
 	case !cl.OK:
 		return "closure fails: " + strings.Join(cl.Problems, " ")
 	case cl.Checked:
-		return fmt.Sprintf("closure holds: |R+T+A−1| at most %.4f (at %g nm), tolerance %g", cl.Residual, cl.ResidualNM, cl.Tolerance)
+		return fmt.Sprintf("closure holds: |R+T+A−1| at most %.4f (at %s nm), tolerance %g", cl.Residual, fmtNM(cl.ResidualNM), cl.Tolerance)
 	}
 	return fmt.Sprintf("closure holds: R, T and A not all measured; R+T ≤ 1 and no negative values within %g", cl.Tolerance)
 }

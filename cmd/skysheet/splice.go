@@ -123,7 +123,7 @@ func runSplice(e *env, args []string) error {
 		report = e.stderr
 	} else {
 		lo, hi := s.Range()
-		fmt.Fprintf(report, "%s: %d points, %g–%g nm, from %s\n", *out, s.Len(), lo, hi, strings.Join(files, " + "))
+		fmt.Fprintf(report, "%s: %d points, %s–%s nm, from %s\n", *out, s.Len(), fmtNM(lo), fmtNM(hi), strings.Join(files, " + "))
 	}
 	printSplices(report, s.Splices)
 	return nil

@@ -223,6 +223,9 @@ func sortValue(v datasheet.Num) string {
 
 func fmtG(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
 
+// fmtNM writes a wavelength from the data to 0.01 nm.
+func fmtNM(nm float64) string { return fmtG(math.Round(nm*100) / 100) }
+
 // conditionPairs lists the conditions for people, in the order of the
 // conditions table.
 func conditionPairs(c datasheet.Conditions) []pair {
@@ -241,7 +244,7 @@ func closureOf(f *datasheet.Figures) closureView {
 	case !cl.OK:
 		v.Summary = fmt.Sprintf("fails (tolerance %g).", cl.Tolerance)
 	case cl.Checked:
-		v.Summary = fmt.Sprintf("holds: |R+T+A−1| is at most %.4f (at %g nm), tolerance %g.", cl.Residual, cl.ResidualNM, cl.Tolerance)
+		v.Summary = fmt.Sprintf("holds: |R+T+A−1| is at most %.4f (at %s nm), tolerance %g.", cl.Residual, fmtNM(cl.ResidualNM), cl.Tolerance)
 	default:
 		v.Summary = fmt.Sprintf("R, T and A were not all measured at one wavelength; R+T ≤ 1 and no value below zero, tolerance %g.", cl.Tolerance)
 	}
