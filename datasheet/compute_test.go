@@ -214,3 +214,25 @@ func TestClosureReported(t *testing.T) {
 		t.Errorf("closure = %+v, want a 0.05 violation at 600 nm", f.Closure)
 	}
 }
+
+// TestKindWords checks how a temperature difference reads: the air minus
+// the surface, positive when the surface is cooler.
+func TestKindWords(t *testing.T) {
+	for _, tt := range []struct {
+		x    float64
+		want string
+	}{
+		{4.2, "settles 4.2 K below the air"},
+		{-1.6, "settles 1.6 K above the air"},
+		{0.04, "settles at the air temperature"},
+		{-0.04, "settles at the air temperature"},
+		{math.NaN(), "n/a"},
+	} {
+		if got := KindTemperatureDifference.Words(tt.x, "K"); got != tt.want {
+			t.Errorf("Words(%g) = %q, want %q", tt.x, got, tt.want)
+		}
+	}
+	if got := KindPower.Words(-18.24, "W/m²"); got != "-18.2 W/m²" {
+		t.Errorf("a power in words: %q", got)
+	}
+}

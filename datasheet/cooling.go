@@ -610,8 +610,8 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 	dayCov := math.Min(cov, float64(f.SolarCoverage))
 	fig("cooling_power_w_m2", "Cooling power at ambient, with sun", "W/m²", f.CoolingPowerWm2, true, false, dayCov)
 	fig("cooling_power_night_w_m2", "Cooling power at ambient, at night", "W/m²", f.CoolingPowerNightWm2, false, false, cov)
-	fig("equilibrium_delta_k", "Equilibrium below ambient, with sun", "K", f.EquilibriumDeltaK, true, true, dayCov)
-	fig("equilibrium_delta_night_k", "Equilibrium below ambient, at night", "K", f.EquilibriumDeltaNightK, false, true, cov)
+	fig("equilibrium_delta_k", "Equilibrium with sun", "K", f.EquilibriumDeltaK, true, true, dayCov)
+	fig("equilibrium_delta_night_k", "Equilibrium at night", "K", f.EquilibriumDeltaNightK, false, true, cov)
 	if grads != nil && r.state != nil {
 		m.addGradients(grads, r, c)
 	}

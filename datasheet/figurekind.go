@@ -70,6 +70,25 @@ func (k Kind) Format(x float64, unit string) string {
 	return s
 }
 
+// Words writes x as a reader reads a figure of kind k: a temperature
+// difference (the air minus the surface, positive when the surface is
+// cooler) as where the surface settles, "settles 1.6 K above the air" or
+// "settles 4.2 K below the air" (one decimal); any other kind as
+// [Kind.Format] does.
+func (k Kind) Words(x float64, unit string) string {
+	if k != KindTemperatureDifference || math.IsNaN(x) {
+		return k.Format(x, unit)
+	}
+	d := strconv.FormatFloat(math.Abs(x), 'f', 1, 64)
+	switch {
+	case d == "0.0":
+		return "settles at the air temperature"
+	case x < 0:
+		return "settles " + d + " " + unit + " above the air"
+	}
+	return "settles " + d + " " + unit + " below the air"
+}
+
 // FormatSigned is [Kind.Format] with a sign ("+" or "−"), none when x
 // shows as zero or is NaN.
 func (k Kind) FormatSigned(x float64, unit string) string {

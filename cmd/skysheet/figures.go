@@ -148,7 +148,7 @@ func printCooling(w io.Writer, f *datasheet.Figures) {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "  \twith sun\tat night")
 	fmt.Fprintf(tw, "  net cooling power at ambient\t%s\t%s\n", fmtUnit(f.CoolingPowerWm2, "W/m²"), fmtUnit(f.CoolingPowerNightWm2, "W/m²"))
-	fmt.Fprintf(tw, "  settles at\t%s\t%s\n", fmtDepression(f.EquilibriumDeltaK), fmtDepression(f.EquilibriumDeltaNightK))
+	fmt.Fprintf(tw, "  equilibrium\t%s\t%s\n", fmtDepression(f.EquilibriumDeltaK), fmtDepression(f.EquilibriumDeltaNightK))
 	fmt.Fprintf(tw, "  surface temperature\t%s\t%s\n", fmtUnit(t.EquilibriumK, "K"), fmtUnit(t.EquilibriumNightK, "K"))
 	tw.Flush()
 	fmt.Fprintf(w, "  At ambient the surface radiates %s, absorbs %s from the sky and %s of sunlight.\n",
@@ -184,10 +184,11 @@ func printCooling(w io.Writer, f *datasheet.Figures) {
 	fmt.Fprintf(w, "  %s\n", s.Note)
 }
 
-// fmtFigure formats a value in the figure's unit, as the figure's kind
-// writes it.
+// fmtFigure formats a value in the figure's unit as the figure's kind
+// writes it for a reader (a temperature difference as where the surface
+// settles).
 func fmtFigure(x datasheet.Figure, v datasheet.Num) string {
-	return x.Kind().Format(float64(v), x.Unit)
+	return x.Kind().Words(float64(v), x.Unit)
 }
 
 // fmtUncertainty formats an uncertainty: as the value for a fraction, one
@@ -213,13 +214,7 @@ func fmtUnit(v datasheet.Num, unit string) string {
 
 // fmtDepression says T_amb − T_eq in words.
 func fmtDepression(v datasheet.Num) string {
-	switch d := float64(v); {
-	case math.IsNaN(d):
-		return "n/a"
-	case d < 0:
-		return fmt.Sprintf("%.1f K above ambient", -d)
-	}
-	return fmt.Sprintf("%.1f K below ambient", float64(v))
+	return datasheet.KindTemperatureDifference.Words(float64(v), "K")
 }
 
 func fmtSigned(v datasheet.Num, unit string) string {

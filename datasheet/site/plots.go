@@ -238,9 +238,15 @@ func coolingChart(f *datasheet.Figures) (*chartView, error) {
 		{name: fmt.Sprintf("With sun (%s W/m²)", fmtG(c.IrradianceWm2)), color: colT, width: 2, pieces: []spectra.Piece{day}},
 		{name: "Night (no sun)", color: colR, width: 2, dash: []float64{5, 3}, pieces: []spectra.Piece{night}},
 	}
-	caption := fmt.Sprintf("Net cooling power (positive: the surface gives off more heat than it takes in) against surface temperature, under the %s sky with air at %s K and h = %s W m⁻² K⁻¹. At air temperature: %s with sun, %s at night. Air minus equilibrium surface temperature: %s with sun, %s at night.",
+	settles := func(x datasheet.Num) string {
+		if isNaN(x) {
+			return "has no equilibrium"
+		}
+		return datasheet.KindTemperatureDifference.Words(float64(x), "K")
+	}
+	caption := fmt.Sprintf("Net cooling power (positive: the surface gives off more heat than it takes in) against surface temperature, under the %s sky with air at %s K and h = %s W m⁻² K⁻¹. At air temperature: %s with sun, %s at night. With sun the surface %s; at night it %s.",
 		c.Sky, fmtG(c.AmbientK), fmtG(c.HWm2K), fmtNumber(datasheet.KindPower, f.CoolingPowerWm2, "W/m²"), fmtNumber(datasheet.KindPower, f.CoolingPowerNightWm2, "W/m²"),
-		fmtNumber(datasheet.KindTemperatureDifference, f.EquilibriumDeltaK, "K"), fmtNumber(datasheet.KindTemperatureDifference, f.EquilibriumDeltaNightK, "K"))
+		settles(f.EquilibriumDeltaK), settles(f.EquilibriumDeltaNightK))
 	svg, err := p.svg("Cooling power chart. " + caption)
 	if err != nil {
 		return nil, err

@@ -186,8 +186,14 @@ func fmtNumber(k datasheet.Kind, v datasheet.Num, unit string) string {
 	return s
 }
 
-// fmtFigure formats a figure's value in its unit (see fmtNumber).
-func fmtFigure(x datasheet.Figure) string { return fmtNumber(x.Kind(), x.Value, x.Unit) }
+// fmtFigure formats a figure's value in its unit (see fmtNumber); a
+// temperature difference in words, as where the surface settles.
+func fmtFigure(x datasheet.Figure) string {
+	if k := x.Kind(); k == datasheet.KindTemperatureDifference && !isNaN(x.Value) {
+		return k.Words(float64(x.Value), x.Unit)
+	}
+	return fmtNumber(x.Kind(), x.Value, x.Unit)
+}
 
 // fmtUnc formats a figure's standard uncertainty as "±indep. / ±together"
 // (errors independent between wavelengths, errors moving together), two
