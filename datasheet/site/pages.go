@@ -44,7 +44,8 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	refs := claimRefs(v.Claims)
 	for _, x := range f.Figures {
 		r := figRow{Key: x.Key, Label: x.Label, Value: fmtFigure(x), Band: x.BandText(),
-			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage), Unc: fmtUnc(x.Uncertainty), Claims: refs[x.Key]}
+			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage), Claims: refs[x.Key]}
+		r.Unc, r.UncCover = fmtUnc(x.Uncertainty)
 		if r.Unc != "" {
 			v.HasUnc = true
 		}

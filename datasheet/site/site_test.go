@@ -312,3 +312,18 @@ func TestListingNumbers(t *testing.T) {
 		}
 	}
 }
+
+// TestUncertaintyWords checks that a figure whose inputs have stated
+// uncertainties only in part says so in plain words, linked to the
+// explanation beside the table.
+func TestUncertaintyWords(t *testing.T) {
+	page := string(renderTest(t, testLibrary(t), Options{})["m/frostline/index.html"])
+	// Frostline states u_R for its UV-Vis-NIR file only: the cooling
+	// figures rest about half on the FTIR file, which states none.
+	if !regexp.MustCompile(`<td class="num">±[0-9.]+ / ±[0-9.]+ <a href="#unc-note">\(covers [0-9]+ %\)</a></td>`).MatchString(page) {
+		t.Error("no partial uncertainty in words")
+	}
+	if !strings.Contains(page, `id="unc-note"`) || strings.Contains(page, "partial,") {
+		t.Error("the explanation is not reachable, or the old wording remains")
+	}
+}

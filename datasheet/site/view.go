@@ -41,7 +41,10 @@ type keyFig struct{ Label, Value, Unit, Note string }
 
 type figRow struct {
 	Key, Label, Value, Unc, Band, Weighting, Coverage string
-	Claims                                            []claimRef // claims of this figure
+	// UncCover is, when the stated uncertainties cover only part of what
+	// the figure depends on, that share in words ("covers 48 %").
+	UncCover string
+	Claims   []claimRef // claims of this figure
 }
 
 type spectrumRow struct{ File, Role, Instrument, Notes string }
@@ -197,18 +200,20 @@ func fmtFigure(x datasheet.Figure) string {
 
 // fmtUnc formats a figure's standard uncertainty as "±indep. / ±together"
 // (errors independent between wavelengths, errors moving together), two
-// significant digits, marked "partial" with the share of the figure's
-// sensitivity that stated uncertainties reach when below 100 %.
-func fmtUnc(u *datasheet.Uncertainty) string {
+// significant digits; and, when the stated uncertainties of R and T cover
+// less than all of what the figure depends on (its sensitivity), the
+// share they cover in plain words: "covers 48 %" (the datasheet explains
+// it beside the table).
+func fmtUnc(u *datasheet.Uncertainty) (unc, cover string) {
 	if u == nil || isNaN(u.Uncorrelated) || isNaN(u.Correlated) {
-		return ""
+		return "", ""
 	}
 	g := func(x datasheet.Num) string { return "±" + strconv.FormatFloat(float64(x), 'g', 2, 64) }
-	s := g(u.Uncorrelated) + " / " + g(u.Correlated)
+	unc = g(u.Uncorrelated) + " / " + g(u.Correlated)
 	if !isNaN(u.Reach) && float64(u.Reach) < 0.995 {
-		s += " (partial, " + strconv.FormatFloat(100*float64(u.Reach), 'f', 0, 64) + " %)"
+		cover = "covers " + strconv.FormatFloat(100*float64(u.Reach), 'f', 0, 64) + " %"
 	}
-	return s
+	return unc, cover
 }
 
 func fmtPercent(v datasheet.Num) string {
