@@ -60,6 +60,13 @@ func DefaultConditions() Conditions {
 	}
 }
 
+// Weightings returns the weightings of the solar figures (the ASTM G173-03
+// spectrum chosen) and of the thermal figures (Planck's law at the
+// blackbody temperature).
+func (c Conditions) Weightings() (solar, thermal spectra.Weighting) {
+	return c.SolarSpectrum.Weighting(), spectra.Blackbody{K: c.TemperatureK}
+}
+
 // SolarSpectrum is the ASTM G173-03 spectrum that weights the solar
 // figures. Its text form is "global" or "direct".
 type SolarSpectrum int

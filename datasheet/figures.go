@@ -213,7 +213,7 @@ func computeOptics(o spectra.Optics, c Conditions) (*Figures, map[string]gradien
 	f := &Figures{Schema: SchemaVersion, Conditions: c, Assumptions: append([]string(nil), o.Assumptions...)}
 	grads := map[string]gradient{}
 	var used []spectra.Weighting
-	sun := c.SolarSpectrum.Weighting()
+	sun, bb := c.Weightings()
 	lo, hi := c.SolarBand.Lo, c.SolarBand.Hi
 	add := func(key, label string, q spectra.Quantity, x spectra.Series, w spectra.Weighting, band spectra.Interval, unit string) spectra.Mean {
 		m := spectra.BandMean(x, w, band.Lo, band.Hi)
@@ -245,7 +245,6 @@ func computeOptics(o spectra.Optics, c Conditions) (*Figures, map[string]gradien
 	f.UVReflectance = sub("uv_reflectance", "Solar-weighted UV reflectance", lo, 400)
 	f.VisibleReflectance = sub("visible_reflectance", "Solar-weighted visible reflectance", 400, 700)
 	f.NIRReflectance = sub("nir_reflectance", "Solar-weighted near-IR reflectance", 700, hi)
-	bb := spectra.Blackbody{K: c.TemperatureK}
 	te := add("thermal_emittance", "Thermal emittance", spectra.A, o.A, bb, c.ThermalBand, "µm")
 	we := add("window_emittance", "Atmospheric-window emittance", spectra.A, o.A, bb, c.WindowBand, "µm")
 	f.ThermalEmittance, f.ThermalCoverage = Num(te.Value), Num(te.Coverage)

@@ -36,6 +36,9 @@ type Material struct {
 	Summary
 	Sample *spectra.Spectrum // the joined spectrum of its files
 	Optics spectra.Optics    // R, T and A of Sample, resolved once
+	// Solar and Thermal are the weightings of the solar and thermal
+	// figures under the material's conditions, for charts to shade.
+	Solar, Thermal spectra.Weighting
 }
 
 // Options control an evaluation.
@@ -143,6 +146,7 @@ func Sample(s *spectra.Spectrum, c datasheet.Conditions) (*Material, error) {
 		return nil, err
 	}
 	m := &Material{Sample: s, Optics: o}
+	m.Solar, m.Thermal = c.Weightings()
 	m.Figures, m.Verdicts, m.Warnings = f, []datasheet.Verdict{}, warnings(f)
 	for _, in := range s.Inputs {
 		m.Inputs = append(m.Inputs, library.Input{Path: in.Name, SHA256: in.SHA256})
@@ -163,6 +167,7 @@ func evaluate(lib *library.Library, lm *library.Material) (*Material, error) {
 		return nil, &library.Error{File: lm.Path, Err: fmt.Errorf("%w: %w", library.ErrConditions, err)}
 	}
 	m := &Material{Summary: Summary{Material: lm, Figures: f, Inputs: inputs, Warnings: warnings(f)}, Sample: s, Optics: o}
+	m.Solar, m.Thermal = c.Weightings()
 	m.Verdicts = datasheet.JudgeAll(lm.Front.Claims, datasheet.JudgeInput{Spectrum: s, Optics: &o, Conditions: c,
 		Figures: f, Angle: lm.Front.Measured.Angle})
 	return m, nil

@@ -108,7 +108,7 @@ func solarChart(m *evaluate.Material) (*chartView, error) {
 	if !hasData(lo, hi, o.R, o.T, o.A) {
 		return nil, nil
 	}
-	sun := c.SolarSpectrum.Weighting()
+	sun := m.Solar
 	sp := plot{width: chartW, height: chartH, xName: "Wavelength (nm)", yName: "Fraction of incident light",
 		xLo: lo, xHi: hi, yFmt: "1"}
 	sp.yLo, sp.yHi = yRange(o.R, o.T, o.A)
@@ -166,7 +166,7 @@ func thermalChart(m *evaluate.Material) (*chartView, error) {
 	tp.yLo, tp.yHi = yRange(o.R, o.A)
 	tp.bands = []band{windowBand(c)}
 	tp.lines = append(tp.lines, line{name: fmt.Sprintf("Blackbody at %s K (relative)", fmtG(c.TemperatureK)), color: colBody, fill: true,
-		pieces: []spectra.Piece{weightingShade(spectra.Blackbody{K: c.TemperatureK}, c.ThermalBand.Lo, c.ThermalBand.Hi, 1000)}})
+		pieces: []spectra.Piece{weightingShade(m.Thermal, c.ThermalBand.Lo, c.ThermalBand.Hi, 1000)}})
 	tp.lines = append(tp.lines, line{name: "Emittance ε = A", color: colA, width: 2, pieces: scaled(o.A, 1000)})
 	tp.lines = append(tp.lines, line{name: "Reflectance R", color: colR, width: 1, dash: []float64{5, 3}, pieces: scaled(o.R, 1000)})
 	windowLo, windowHi := c.WindowBand.UM()
