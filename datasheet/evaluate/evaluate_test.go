@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"os"
 	"strings"
 	"sync/atomic"
 	"testing"
@@ -253,5 +254,20 @@ func TestSample(t *testing.T) {
 	c.TemperatureK = -1
 	if _, err := Sample(s, c); err == nil {
 		t.Error("bad conditions accepted")
+	}
+}
+
+// BenchmarkDemo reads and evaluates the demo library at the repository
+// root: what "skysheet review" does before writing its report.
+func BenchmarkDemo(b *testing.B) {
+	fsys := os.DirFS("../..")
+	for b.Loop() {
+		lib, err := library.Load(fsys)
+		if err != nil {
+			b.Fatal(err)
+		}
+		if _, err := Library(lib, Options{}, nil); err != nil {
+			b.Fatal(err)
+		}
 	}
 }
