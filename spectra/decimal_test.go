@@ -2,6 +2,7 @@ package spectra
 
 import (
 	"bytes"
+	"math/rand/v2"
 	"strconv"
 	"strings"
 	"testing"
@@ -56,5 +57,53 @@ func TestNoFloatNoise(t *testing.T) {
 	}
 	if v := j.Segments[0].Values[R][0]; v != exact("0.88112") {
 		t.Errorf("JCAMP-DX: %v, want 0.88112", v)
+	}
+}
+
+// TestScaled checks the fast path of scaled against strconv.ParseFloat of
+// the decimal with its exponent moved (a correctly rounded reader, the
+// Go standard library's), for random decimals of up to 15 digits and the
+// shifts the readers use.
+func TestScaled(t *testing.T) {
+	r := rand.New(rand.NewPCG(1, 1))
+	for range 20000 {
+		digits := 1 + r.IntN(15)
+		var b strings.Builder
+		if r.IntN(4) == 0 {
+			b.WriteByte('-')
+		}
+		point := r.IntN(digits + 1)
+		for i := range digits {
+			if i == point && i > 0 {
+				b.WriteByte('.')
+			}
+			b.WriteByte(byte('0' + r.IntN(10)))
+		}
+		dec := b.String()
+		x, err := strconv.ParseFloat(dec, 64)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, exp := range []int{-2, 3, -3} {
+			want, err := strconv.ParseFloat(dec+"e"+strconv.Itoa(exp), 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got := scaled(dec, x, exp); got != want {
+				t.Fatalf("scaled(%q, %d) = %v, want %v", dec, exp, got, want)
+			}
+		}
+	}
+	// Forms off the fast path still give the decimal's value.
+	for _, tt := range []struct {
+		dec  string
+		exp  int
+		want string
+	}{{"8.8112e1", -2, "0.88112"}, {"1234567890.1234567", -2, "12345678.901234567"}, {"0.0000000000000000000000012", 3, "1.2e-21"}} {
+		x, _ := strconv.ParseFloat(tt.dec, 64)
+		want, _ := strconv.ParseFloat(tt.want, 64)
+		if got := scaled(tt.dec, x, tt.exp); got != want {
+			t.Errorf("scaled(%q, %d) = %v, want %s", tt.dec, tt.exp, got, tt.want)
+		}
 	}
 }

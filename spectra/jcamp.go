@@ -341,7 +341,7 @@ func (j *jcamp) data() error {
 			return j.errAt(fy.line, fmt.Errorf("%w: FIRSTY=%s but the first Y is %s (line %d)", errFirstY, fy.value, fmtNum(got), pts[0].line))
 		}
 	}
-	return j.store(pts, xu, yu, yf)
+	return j.store(pts, xu, yu, xf, yf)
 }
 
 // jcampX is a supported X unit.
@@ -705,7 +705,7 @@ func fieldsAt(s, seps string) []field {
 }
 
 // store converts the points to nm and fractions and makes the segment.
-func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, yf float64) error {
+func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, xf, yf float64) error {
 	if len(pts) > 1 && pts[0].x > pts[len(pts)-1].x != (xu == xWavenumber) {
 		for a, b := 0, len(pts)-1; a < b; a, b = a+1, b-1 {
 			pts[a], pts[b] = pts[b], pts[a]
@@ -721,7 +721,10 @@ func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, yf float64) error {
 		// X and Y are decimal numbers times decimal factors: the noise of
 		// the products is dropped (decimalClean) before converting.
 		var nm float64
-		x := decimalClean(p.x)
+		x := p.x
+		if xf != 1 {
+			x = decimalClean(x)
+		}
 		switch xu {
 		case xNM:
 			nm = x
@@ -737,7 +740,10 @@ func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, yf float64) error {
 			return at("X value", fmt.Errorf("X %s %w: it gives the same wavelength as the point before", fmtNum(p.x), errDuplicate))
 		}
 		g.NM[i] = nm
-		y := decimalClean(p.y * yf)
+		y := p.y * yf
+		if yf != 1 {
+			y = decimalClean(y)
+		}
 		switch {
 		case math.IsNaN(p.y):
 			v[i] = math.NaN()
@@ -754,7 +760,7 @@ func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, yf float64) error {
 			if !(y >= -5 && y <= 105) {
 				return at("Y value", fmt.Errorf("Y %s %w: YUNITS=%s is percent, want -5..105", fmtNum(y), errOutOfRange, yu.written))
 			}
-			y = shiftDecimal(y, -2)
+			y = decimalClean(y / 100)
 		default:
 			if !(y >= -0.05 && y <= 1.05) {
 				hint := ""

@@ -193,6 +193,7 @@ type parser struct {
 	lastX   float64
 	lastLn  int
 	seenX   map[float64]int
+	dec     string                 // the decimal form of the last number read
 	consts  [numQuantities]float64 // constant uncertainties from metadata, NaN if none
 }
 
@@ -516,11 +517,14 @@ func (p *parser) header(f []string, text string) error {
 	return nil
 }
 
+// number reads the cell orig of column col; the decimal form it read (a
+// decimal comma made a point) is left in p.dec for scaled.
 func (p *parser) number(orig string, col int) (float64, error) {
 	s := orig
 	if (p.delim == '\t' || p.delim == ';') && strings.Count(s, ",") == 1 && !strings.Contains(s, ".") {
 		s = strings.Replace(s, ",", ".", 1)
 	}
+	p.dec = s
 	x, err := strconv.ParseFloat(s, 64)
 	if err != nil {
 		var ne *strconv.NumError
@@ -556,7 +560,7 @@ func (p *parser) row(f []string) error {
 	case axisNM:
 		nm = x
 	case axisUM:
-		nm = shiftDecimal(x, 3)
+		nm = scaled(p.dec, x, 3)
 	case axisWavenumber:
 		nm = 1e7 / x
 	}
@@ -604,7 +608,7 @@ func (p *parser) row(f []string) error {
 				return err
 			}
 			if c.percent {
-				v = shiftDecimal(v, -2) // 88.112 % is 0.88112, not 88.112/100 = 0.8811199999999999
+				v = scaled(p.dec, v, -2) // 88.112 % is 0.88112, not 88.112/100 = 0.8811199999999999
 			}
 		}
 		g.Values[c.q] = append(g.Values[c.q], v)
@@ -612,25 +616,105 @@ func (p *parser) row(f []string) error {
 	return nil
 }
 
+// scaled returns the number written dec (read as x) times 10^exp, read
+// again from its decimal form with the exponent moved, so that no float
+// noise enters: "88.112" with exp −2 is read as "88.112e-2", the double
+// nearest 0.88112 (88.112/100 is 0.8811199999999999).
+func scaled(dec string, x float64, exp int) float64 {
+	if v, ok := scaledFast(dec, exp); ok {
+		return v
+	}
+	if strings.ContainsAny(dec, "eEpPxX_") {
+		return shiftDecimal(x, exp)
+	}
+	v, err := strconv.ParseFloat(dec+"e"+strconv.Itoa(exp), 64)
+	if err != nil {
+		return shiftDecimal(x, exp)
+	}
+	return v
+}
+
+// pow10 holds the powers of ten that float64 holds exactly.
+var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11,
+	1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22}
+
+// scaledFast reads a plain decimal dec ("-88.112": sign, digits, one
+// point) times 10^exp when its digits fit in 2^53 and the power of ten is
+// exact: then one division or multiplication of exact doubles gives the
+// double nearest the decimal value (the fast path of decimal-to-binary
+// conversion, Clinger 1990, "How to read floating point numbers
+// accurately", PLDI; from memory). ok is false otherwise.
+func scaledFast(dec string, exp int) (v float64, ok bool) {
+	neg := false
+	i := 0
+	if i < len(dec) && (dec[i] == '-' || dec[i] == '+') {
+		neg = dec[i] == '-'
+		i++
+	}
+	var m uint64
+	digits, frac, point := 0, 0, false
+	for ; i < len(dec); i++ {
+		c := dec[i]
+		switch {
+		case c >= '0' && c <= '9':
+			if digits == 15 {
+				return 0, false
+			}
+			if m > 0 || c != '0' {
+				digits++
+			}
+			m = m*10 + uint64(c-'0')
+			if point {
+				frac++
+			}
+		case c == '.' && !point:
+			point = true
+		default:
+			return 0, false
+		}
+	}
+	e := exp - frac
+	if e < -22 || e > 22 {
+		return 0, false
+	}
+	v = float64(m)
+	if e < 0 {
+		v /= pow10[-e]
+	} else {
+		v *= pow10[e]
+	}
+	if neg {
+		v = -v
+	}
+	return v, true
+}
+
 func (p *parser) checkRange(v float64, c column, s string, col int) error {
-	lo, hi, unit := -0.05, 1.05, "a fraction within -0.05..1.05"
+	lo, hi := -0.05, 1.05
 	if c.q == UR || c.q == UT {
-		lo, hi, unit = 0, 1, "an uncertainty within 0..1"
+		lo, hi = 0, 1
 	}
 	if c.percent {
 		lo, hi = lo*100, hi*100
+	}
+	if v >= lo && v <= hi {
+		return nil
+	}
+	// The message, built only for a value out of range.
+	unit := "a fraction within -0.05..1.05"
+	if c.q == UR || c.q == UT {
+		unit = "an uncertainty within 0..1"
+	}
+	if c.percent {
 		unit = strings.Replace(unit, "a fraction", "a percentage", 1)
 		unit = strings.Replace(unit, "-0.05..1.05", "-5..105", 1)
 		unit = strings.Replace(unit, "0..1", "0..100", 1)
 	}
-	if v < lo || v > hi {
-		hint := ""
-		if !c.percent && v > 1.05 && v <= 105 {
-			hint = " (percent? mark the header, e.g. \"" + c.q.String() + " (%)\")"
-		}
-		return p.errf(col, fmt.Errorf("%q %w: want %s%s", s, errOutOfRange, unit, hint))
+	hint := ""
+	if !c.percent && v > 1.05 && v <= 105 {
+		hint = " (percent? mark the header, e.g. \"" + c.q.String() + " (%)\")"
 	}
-	return nil
+	return p.errf(col, fmt.Errorf("%q %w: want %s%s", s, errOutOfRange, unit, hint))
 }
 
 // closeSegment ends the current segment at a blank line or at the end.
