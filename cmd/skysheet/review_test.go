@@ -90,6 +90,7 @@ func TestReviewExitCodes(t *testing.T) {
 		{"malformed claim", "  - {figure: solar_reflectance, value: 0.9, tolerance: -1}\n", nil, nil, 1, "content/white.md:9:56: bad claim: claim 1: solar_reflectance: tolerance -1"},
 		{"unknown figure", "  - {figure: solar_reflectence, value: 0.9}\n", nil, nil, 1,
 			`content/white.md:9:14: no such figure: claim 1 names "solar_reflectence" (did you mean "solar_reflectance"?)`},
+		{"flagged splice warns", "", map[string]string{"content/white/ir.csv": "wavelength_um,R\n2.3,0.5\n25,0.5\n"}, nil, 0, "[!] warning: The splice of R at 2350 nm leaves a mean mismatch of 0.4000"},
 		{"closure fails", claimUnchecked, map[string]string{"content/white/uv.csv": reviewBadRTA}, nil, 1, "closure fails"},
 		{"no config", claimGood, map[string]string{"skysheet.yaml": ""}, nil, 1, "no skysheet.yaml"},
 		{"json", claimWrong, nil, []string{"--format", "json"}, 1, `"status": "not supported"`},

@@ -271,3 +271,27 @@ func BenchmarkDemo(b *testing.B) {
 		}
 	}
 }
+
+// TestWarnings checks that a splice whose mismatch exceeds its tolerance
+// is a warning of the material, and that review shows it.
+func TestWarnings(t *testing.T) {
+	fsys := baseFS()
+	// R = 0.9 to 2600 nm, then R = 0.5 from 2400 nm: a mean mismatch of
+	// 0.4 in the overlap, above the default 0.02.
+	fsys["content/flat/thermal.csv"].Data = []byte("wavelength_nm,R\n2400,0.5\n25000,0.5\n")
+	fsys["content/flat/solar.csv"].Data = []byte("wavelength_nm,R\n280,0.9\n1000,0.9\n2600,0.9\n")
+	ms, err := All(load(t, fsys), Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w := ms[0].Warnings; len(w) != 1 || !strings.Contains(w[0], "splice of R at 2500 nm leaves a mean mismatch of 0.4000 before correction, above 0.02") {
+		t.Errorf("warnings %q", w)
+	}
+	if w := load(t, baseFS()); len(w.Materials) != 1 {
+		t.Fatal("base library")
+	}
+	plain, _ := All(load(t, baseFS()), Options{})
+	if len(plain[0].Warnings) != 0 {
+		t.Errorf("no splice, warnings %q", plain[0].Warnings)
+	}
+}
