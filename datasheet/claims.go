@@ -6,6 +6,8 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+
+	"skysheet/internal/nearest"
 )
 
 // Status is the verdict on a claim.
@@ -86,36 +88,36 @@ func (s *Status) UnmarshalText(b []byte) error {
 // PitfallCode names a common mistake behind a claimed figure.
 type PitfallCode int
 
-// The pitfalls [Judge] detects.
+// The pitfalls judgeOne detects.
 const (
-	// PitfallInfraredShort: an emittance from data that stop before the top
+	// pitfallInfraredShort: an emittance from data that stop before the top
 	// of its band (25 µm for the default thermal band).
-	PitfallInfraredShort PitfallCode = iota + 1
-	// PitfallSolarLateStart: a solar figure from data that start after
+	pitfallInfraredShort PitfallCode = iota + 1
+	// pitfallSolarLateStart: a solar figure from data that start after
 	// 300 nm, missing the ultraviolet.
-	PitfallSolarLateStart
-	// PitfallClosure: the data break R+T+A = 1 (or R+T ≤ 1, or R, T, A ≥ 0)
+	pitfallSolarLateStart
+	// pitfallClosure: the data break R+T+A = 1 (or R+T ≤ 1, or R, T, A ≥ 0)
 	// by more than the claim's tolerance.
-	PitfallClosure
-	// PitfallPercent: a fraction claimed as a percentage (96 for 0.96).
-	PitfallPercent
-	// PitfallHeldLarge: a cooling figure for which the emittance is held
+	pitfallClosure
+	// pitfallPercent: a fraction claimed as a percentage (96 for 0.96).
+	pitfallPercent
+	// pitfallHeldLarge: a cooling figure for which the emittance is held
 	// constant beyond the data over more than [MaxHeldShare] of the
 	// exchange band's blackbody power.
-	PitfallHeldLarge
-	// PitfallSRITranslucent: an SRI claimed for a sample whose solar
+	pitfallHeldLarge
+	// pitfallSRITranslucent: an SRI claimed for a sample whose solar
 	// transmittance exceeds 0.01; ASTM E1980 defines the index for opaque
 	// surfaces.
-	PitfallSRITranslucent
+	pitfallSRITranslucent
 )
 
 var pitfallNames = map[PitfallCode]string{
-	PitfallInfraredShort:  "infrared-data-short",
-	PitfallSolarLateStart: "solar-data-late-start",
-	PitfallClosure:        "closure-exceeds-tolerance",
-	PitfallPercent:        "percent-for-fraction",
-	PitfallHeldLarge:      "held-emittance-large",
-	PitfallSRITranslucent: "sri-not-opaque",
+	pitfallInfraredShort:  "infrared-data-short",
+	pitfallSolarLateStart: "solar-data-late-start",
+	pitfallClosure:        "closure-exceeds-tolerance",
+	pitfallPercent:        "percent-for-fraction",
+	pitfallHeldLarge:      "held-emittance-large",
+	pitfallSRITranslucent: "sri-not-opaque",
 }
 
 // String returns the pitfall's code word, e.g. "percent-for-fraction".
@@ -155,48 +157,66 @@ type Pitfall struct {
 // Thresholds of the verdicts (rules of this tool; common practice, no
 // source). docs/review.md states them for readers.
 const (
-	// MinCoverage is the least share of a figure's weighting the data must
+	// minCoverage is the least share of a figure's weighting the data must
 	// cover for a claim to be checked. For a cooling figure it applies to
 	// the blackbody power over [CoolingCheckLoUM]–[CoolingCheckHiUM] within
 	// the exchange band (and to the solar weighting for figures with sun).
-	MinCoverage = 0.98
-	// DefaultUncertainty is the standard uncertainty assumed for a
+	minCoverage = 0.98
+	// defaultUncertainty is the standard uncertainty assumed for a
 	// fraction figure when no tolerance is claimed and the data give none.
-	DefaultUncertainty = 0.005
-	// DefaultIndexUncertainty is the same for an index (the SRI), in
+	defaultUncertainty = 0.005
+	// defaultIndexUncertainty is the same for an index (the SRI), in
 	// index units.
-	DefaultIndexUncertainty = 1.0
-	// DefaultRelUncertainty is the same for a power or a temperature
+	defaultIndexUncertainty = 1.0
+	// defaultRelUncertainty is the same for a power or a temperature
 	// difference, relative to the claimed value, but never below
 	// DefaultPowerFloorWm2 or DefaultDeltaFloorK.
-	DefaultRelUncertainty = 0.05
-	// DefaultPowerFloorWm2 is the least default standard uncertainty of a
+	defaultRelUncertainty = 0.05
+	// defaultPowerFloorWm2 is the least default standard uncertainty of a
 	// power, W/m².
-	DefaultPowerFloorWm2 = 2.0
-	// DefaultDeltaFloorK is the least default standard uncertainty of a
+	defaultPowerFloorWm2 = 2.0
+	// defaultDeltaFloorK is the least default standard uncertainty of a
 	// temperature difference, K.
-	DefaultDeltaFloorK = 0.5
-	// CoolingCheckLoUM and CoolingCheckHiUM bound the part of the exchange
+	defaultDeltaFloorK = 0.5
+	// coolingCheckLoUM and CoolingCheckHiUM bound the part of the exchange
 	// band, µm, that the data must cover for a cooling claim to be
 	// checked: the default thermal band, the reach of usual FTIR data.
 	// Beyond the data the emittance is held constant (docs/cooling.md) and
 	// the verdict says how much blackbody power that part carries.
-	CoolingCheckLoUM = 2.5
-	CoolingCheckHiUM = 25.0
-	// MaxHeldShare is the share of the exchange band's blackbody power at
+	coolingCheckLoUM = 2.5
+	coolingCheckHiUM = 25.0
+	// maxHeldShare is the share of the exchange band's blackbody power at
 	// the air temperature over which the emittance may be held constant
 	// before the verdict names it as a pitfall.
-	MaxHeldShare = 0.25
-	// CoverageFactor k turns the combined standard uncertainty into the
+	maxHeldShare = 0.25
+	// coverageFactor k turns the combined standard uncertainty into the
 	// allowed difference (about 95 % for a normal distribution, JCGM
 	// 100:2008 §6.3, section from memory).
-	CoverageFactor = 2.0
-	// SolarStartNM is the wavelength after which solar data start too late.
-	SolarStartNM = 300.0
-	// MaxAngleDiffDeg is the largest difference between the claimed and the
+	coverageFactor = 2.0
+	// solarStartNM is the wavelength after which solar data start too late.
+	solarStartNM = 300.0
+	// maxAngleDiffDeg is the largest difference between the claimed and the
 	// measured angle of incidence treated as the same basis.
-	MaxAngleDiffDeg = 10.0
+	maxAngleDiffDeg = 10.0
 )
+
+// JudgeRules are the thresholds verdicts follow, as [Rules] gives them:
+// the constants of the same names (rules of this tool; common practice,
+// no source, except where a constant names its source). docs/review.md
+// states them for readers.
+type JudgeRules struct {
+	MinCoverage, DefaultUncertainty, DefaultIndexUncertainty, DefaultRelUncertainty float64
+	DefaultPowerFloorWm2, DefaultDeltaFloorK, CoolingCheckLoUM, CoolingCheckHiUM    float64
+	MaxHeldShare, CoverageFactor, SolarStartNM, MaxAngleDiffDeg, MaxFraction        float64
+}
+
+// Rules are the thresholds the verdicts follow.
+var Rules = JudgeRules{
+	MinCoverage: minCoverage, DefaultUncertainty: defaultUncertainty, DefaultIndexUncertainty: defaultIndexUncertainty,
+	DefaultRelUncertainty: defaultRelUncertainty, DefaultPowerFloorWm2: defaultPowerFloorWm2, DefaultDeltaFloorK: defaultDeltaFloorK,
+	CoolingCheckLoUM: coolingCheckLoUM, CoolingCheckHiUM: coolingCheckHiUM, MaxHeldShare: maxHeldShare,
+	CoverageFactor: coverageFactor, SolarStartNM: solarStartNM, MaxAngleDiffDeg: maxAngleDiffDeg, MaxFraction: maxFraction,
+}
 
 // edge is the absolute slack when comparing a difference with its
 // allowance, so that rounding in the last bits does not flip a verdict.
@@ -257,26 +277,16 @@ func roundingUncertainty(v float64) float64 {
 // which yaml keys were stated.
 func (b Basis) apply(c Conditions) (Conditions, map[string]bool) {
 	stated := map[string]bool{}
-	if len(b.SolarBandNM) == 2 {
-		c.SolarBandNM = [2]float64{b.SolarBandNM[0], b.SolarBandNM[1]}
-		stated["solar_band_nm"] = true
+	set := func(key string, v any, given bool) {
+		if given && c.Set(key, v) == nil {
+			stated[key] = true
+		}
 	}
-	if b.SolarSpectrum != "" {
-		c.SolarSpectrum = b.SolarSpectrum
-		stated["solar_spectrum"] = true
-	}
-	if len(b.ThermalBandUM) == 2 {
-		c.ThermalBandUM = [2]float64{b.ThermalBandUM[0], b.ThermalBandUM[1]}
-		stated["thermal_band_um"] = true
-	}
-	if len(b.WindowBandUM) == 2 {
-		c.WindowBandUM = [2]float64{b.WindowBandUM[0], b.WindowBandUM[1]}
-		stated["window_band_um"] = true
-	}
-	if b.TemperatureK > 0 {
-		c.TemperatureK = b.TemperatureK
-		stated["temperature_k"] = true
-	}
+	set(condSolarBand.key(), b.SolarBandNM, len(b.SolarBandNM) == 2)
+	set(condSolarSpectrum.key(), b.SolarSpectrum, b.SolarSpectrum != "")
+	set(condThermalBand.key(), b.ThermalBandUM, len(b.ThermalBandUM) == 2)
+	set(condWindowBand.key(), b.WindowBandUM, len(b.WindowBandUM) == 2)
+	set(condTemperature.key(), b.TemperatureK, b.TemperatureK > 0)
 	if b.AngleDeg > 0 {
 		stated["angle_deg"] = true
 	}
@@ -320,65 +330,39 @@ func (c Claim) Validate() error {
 	return nil
 }
 
-// MaxFraction is the largest claim read as a fraction, as the readers
+// maxFraction is the largest claim read as a fraction, as the readers
 // accept measured fractions up to 1.05; a larger claim of a fraction is not
 // supported.
-const MaxFraction = 1.05
+const maxFraction = 1.05
 
 // bandWords names a figure's band, e.g. "band 2.5–25 µm".
 func bandWords(f Figure) string {
 	if f.BandUnit == "" {
 		return "conditions of " + f.Label
 	}
-	return fmt.Sprintf("band %g–%g %s", f.Band[0], f.Band[1], f.BandUnit)
+	return "band " + f.BandText()
 }
 
-// suggest returns ", did you mean X?; known figures: ..." for an unknown key.
+// suggest returns " (did you mean X?); known figures: ..." for an unknown
+// figure key.
 func suggest(key string, figs []Figure) string {
 	keys := make([]string, len(figs))
 	for i, f := range figs {
 		keys[i] = f.Key
 	}
-	best, bestD := "", 4
-	for _, k := range keys {
-		if d := editDistance(strings.ToLower(key), k); d < bestD {
-			best, bestD = k, d
-		}
-	}
+	best, close := nearest.Name(key, keys)
 	sort.Strings(keys)
 	s := "; known figures: " + strings.Join(keys, ", ")
-	if best != "" {
+	if close {
 		s = " (did you mean " + best + "?)" + s
 	}
 	return s
 }
 
-// editDistance is the Levenshtein distance between a and b.
-func editDistance(a, b string) int {
-	ra, rb := []rune(a), []rune(b)
-	prev := make([]int, len(rb)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(ra); i++ {
-		cur := make([]int, len(rb)+1)
-		cur[0] = i
-		for j := 1; j <= len(rb); j++ {
-			cost := 1
-			if ra[i-1] == rb[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev = cur
-	}
-	return prev[len(rb)]
-}
-
-// FormatValue formats a number of a verdict as its reason writes it:
+// formatValue formats a number of a verdict as its reason writes it:
 // fractions (unit "") with four decimals, figures with a unit with one
 // decimal and the unit; "n/a" for NaN.
-func FormatValue(x float64, unit string) string {
+func formatValue(x float64, unit string) string {
 	if math.IsNaN(x) {
 		return "n/a"
 	}
@@ -388,12 +372,12 @@ func FormatValue(x float64, unit string) string {
 	return strconv.FormatFloat(x, 'f', 1, 64) + " " + unit
 }
 
-// FormatSigned is [FormatValue] with a sign ("+" or "−"), none when x
+// formatSigned is formatValue with a sign ("+" or "−"), none when x
 // shows as zero or is NaN.
-func FormatSigned(x float64, unit string) string {
-	s := FormatValue(math.Abs(x), unit)
+func formatSigned(x float64, unit string) string {
+	s := formatValue(math.Abs(x), unit)
 	switch {
-	case math.IsNaN(x), s == FormatValue(0, unit):
+	case math.IsNaN(x), s == formatValue(0, unit):
 	case x < 0:
 		s = "−" + s
 	default:

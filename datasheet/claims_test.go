@@ -23,7 +23,7 @@ func sample(t *testing.T, files ...string) *spectra.Spectrum {
 		}
 		parts = append(parts, s)
 	}
-	s, err := spectra.Merge(parts...)
+	s, err := spectra.Join(parts, spectra.SpliceOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -49,8 +49,18 @@ const (
 
 func TestJudge(t *testing.T) {
 	def := DefaultConditions()
-	g := spectra.SolarGlobal()
-	eg := func(lo, hi float64) float64 { return spectra.WeightIntegral(g, lo, hi) }
+	// ∫ E dλ by the trapezoid rule on the table's own rows, read from the
+	// embedded CSV apart from the package (the band limits are rows).
+	nm, w := g173(t, 2)
+	eg := func(lo, hi float64) float64 {
+		var sum float64
+		for i := 1; i < len(nm); i++ {
+			if nm[i-1] >= lo && nm[i] <= hi {
+				sum += (nm[i] - nm[i-1]) * (w[i] + w[i-1]) / 2
+			}
+		}
+		return sum
+	}
 	// Two-level step over 280–4000 nm, mean over the covered part: closed
 	// form with the ASTM G173-03 global tilt band integrals.
 	stepMean := (0.9*eg(280, 2400) + 0.2*eg(2600, 4000)) / (eg(280, 2400) + eg(2600, 4000))
@@ -122,7 +132,7 @@ func TestJudge(t *testing.T) {
 		{name: "percentage for a fraction",
 			files:  []string{"a.csv", uvvis90},
 			claim:  Claim{Figure: "solar_reflectance", Value: 90},
-			status: NotSupported, computed: 0.9, allowed: math.NaN(), dflt: math.NaN(), pitfalls: []PitfallCode{PitfallPercent},
+			status: NotSupported, computed: 0.9, allowed: math.NaN(), dflt: math.NaN(), pitfalls: []PitfallCode{pitfallPercent},
 			reason: "looks like a percentage", tol: 1e-12},
 		{name: "fraction above 1, no percentage",
 			files:  []string{"a.csv", uvvis90},
@@ -141,31 +151,31 @@ func TestJudge(t *testing.T) {
 			files: []string{"a.csv", uvvis90, "b.csv", ftir20},
 			claim: Claim{Figure: "thermal_emittance", Value: 0.95, Tolerance: 0.01},
 			// coverage 88.4 %: Planck 300 K share of 2.5–20 in 2.5–25 µm
-			status: CannotCheck, computed: 0.95, allowed: 0.01, dflt: math.NaN(), pitfalls: []PitfallCode{PitfallInfraredShort},
+			status: CannotCheck, computed: 0.95, allowed: 0.01, dflt: math.NaN(), pitfalls: []PitfallCode{pitfallInfraredShort},
 			reason: "cover only 88.4 %", tol: 1e-12},
 		{name: "infrared data stop at 24.5 µm: judged, pitfall named",
 			files:  []string{"a.csv", uvvis90, "b.csv", ftir24},
 			claim:  Claim{Figure: "thermal_emittance", Value: 0.95, Tolerance: 0.01},
-			status: Supported, computed: 0.95, allowed: 0.01, dflt: math.NaN(), pitfalls: []PitfallCode{PitfallInfraredShort}, tol: 1e-12},
+			status: Supported, computed: 0.95, allowed: 0.01, dflt: math.NaN(), pitfalls: []PitfallCode{pitfallInfraredShort}, tol: 1e-12},
 		{name: "solar data start at 320 nm: judged, pitfall named",
 			files:  []string{"a.csv", uvvis320},
 			claim:  Claim{Figure: "solar_reflectance", Value: 0.9, Tolerance: 0.01},
-			status: Supported, computed: 0.9, allowed: 0.01, dflt: math.NaN(), pitfalls: []PitfallCode{PitfallSolarLateStart}, tol: 1e-12},
+			status: Supported, computed: 0.9, allowed: 0.01, dflt: math.NaN(), pitfalls: []PitfallCode{pitfallSolarLateStart}, tol: 1e-12},
 		{name: "solar data start at 450 nm: cannot be checked",
 			files:  []string{"a.csv", uvvis450},
 			claim:  Claim{Figure: "solar_reflectance", Value: 0.9, Tolerance: 0.01},
-			status: CannotCheck, computed: 0.9, allowed: 0.01, dflt: math.NaN(), pitfalls: []PitfallCode{PitfallSolarLateStart},
+			status: CannotCheck, computed: 0.9, allowed: 0.01, dflt: math.NaN(), pitfalls: []PitfallCode{pitfallSolarLateStart},
 			reason: "at least 98 % is needed", tol: 1e-12},
 		{name: "no infrared data at all",
 			files:  []string{"a.csv", uvvis90},
 			claim:  Claim{Figure: "thermal_emittance", Value: 0.95},
-			status: CannotCheck, computed: math.NaN(), allowed: math.NaN(), dflt: math.NaN(), pitfalls: []PitfallCode{PitfallInfraredShort},
+			status: CannotCheck, computed: math.NaN(), allowed: math.NaN(), dflt: math.NaN(), pitfalls: []PitfallCode{pitfallInfraredShort},
 			reason: "do not reach the band 2.5–25 µm at all"},
 		{name: "closure violation larger than the tolerance",
 			files: []string{"a.csv", rta},
 			claim: Claim{Figure: "solar_reflectance", Value: 0.9, Tolerance: 0.01},
 			// |R+T+A−1| = 0.05 everywhere: closed form
-			status: Supported, computed: 0.9, allowed: 0.01, dflt: math.NaN(), pitfalls: []PitfallCode{PitfallClosure}, tol: 1e-12},
+			status: Supported, computed: 0.9, allowed: 0.01, dflt: math.NaN(), pitfalls: []PitfallCode{pitfallClosure}, tol: 1e-12},
 		{name: "closure violation within a wide tolerance",
 			files:  []string{"a.csv", rta},
 			claim:  Claim{Figure: "solar_reflectance", Value: 0.9, Tolerance: 0.06},
@@ -206,7 +216,7 @@ func TestJudge(t *testing.T) {
 			status: CannotCheck, computed: math.NaN(), allowed: math.NaN(), dflt: math.NaN(), reason: "cannot be computed"},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
-			v := Judge(tt.claim, JudgeInput{Spectrum: sample(t, tt.files...), Conditions: def, Angle: tt.angle})
+			v := judgeOne(tt.claim, JudgeInput{Spectrum: sample(t, tt.files...), Conditions: def, Angle: tt.angle})
 			if v.Status != tt.status {
 				t.Errorf("status = %v, want %v (reason: %s)", v.Status, tt.status, v.Reason)
 			}
@@ -249,7 +259,7 @@ func TestJudge(t *testing.T) {
 
 func TestJudgeBasisWords(t *testing.T) {
 	s := sample(t, "a.csv", step)
-	v := Judge(Claim{Figure: "solar_reflectance", Value: 0.9, Basis: Basis{SolarBandNM: []float64{280, 4000}}},
+	v := judgeOne(Claim{Figure: "solar_reflectance", Value: 0.9, Basis: Basis{SolarBandNM: []float64{280, 4000}}},
 		JudgeInput{Spectrum: s, Conditions: DefaultConditions()})
 	if want := "solar band 280–4000 nm (stated), ASTM G173-03 global tilt spectrum (default)"; v.Basis != want {
 		t.Errorf("basis = %q, want %q", v.Basis, want)
@@ -260,20 +270,20 @@ func TestJudgeBasisWords(t *testing.T) {
 	if want := "On the default basis (280–2500 nm, ASTM G173-03 global tilt) the spectra give 0.9000."; v.BasisNote != want {
 		t.Errorf("basis note = %q, want %q", v.BasisNote, want)
 	}
-	if v.Conditions.SolarBandNM != [2]float64{280, 4000} {
-		t.Errorf("conditions used = %v", v.Conditions.SolarBandNM)
+	if v.Conditions.SolarBand != (spectra.Interval{Lo: 280, Hi: 4000}) {
+		t.Errorf("conditions used = %v", v.Conditions.SolarBand)
 	}
 
 	// The direct spectrum named: recomputed under it; a constant gives the
 	// same value on both bases (closed form), but the default is still shown.
-	v = Judge(Claim{Figure: "solar_reflectance", Value: 0.9, Basis: Basis{SolarSpectrum: "direct"}},
+	v = judgeOne(Claim{Figure: "solar_reflectance", Value: 0.9, Basis: Basis{SolarSpectrum: "direct"}},
 		JudgeInput{Spectrum: sample(t, "a.csv", uvvis90), Conditions: DefaultConditions()})
 	if !strings.Contains(v.Basis, "ASTM G173-03 direct + circumsolar spectrum (stated)") || math.Abs(float64(v.DefaultBasisValue)-0.9) > 1e-12 {
 		t.Errorf("direct basis: %q, default value %v", v.Basis, v.DefaultBasisValue)
 	}
 
 	// Nothing stated: every relevant key comes from the defaults.
-	v = Judge(Claim{Figure: "thermal_emittance", Value: 0.95}, JudgeInput{Spectrum: sample(t, "b.csv", ftir95), Conditions: DefaultConditions()})
+	v = judgeOne(Claim{Figure: "thermal_emittance", Value: 0.95}, JudgeInput{Spectrum: sample(t, "b.csv", ftir95), Conditions: DefaultConditions()})
 	if !slices.Equal(v.Defaulted, []string{"thermal_band_um", "temperature_k"}) || v.BasisNote != "" {
 		t.Errorf("defaulted = %v, note %q", v.Defaulted, v.BasisNote)
 	}
@@ -287,7 +297,7 @@ func TestVerdictJSONRoundTrip(t *testing.T) {
 		{Figure: "thermal_emittance", Value: 95},
 		{Figure: "nope", Value: 1},
 	} {
-		vs = append(vs, Judge(c, JudgeInput{Spectrum: s, Conditions: DefaultConditions()}))
+		vs = append(vs, judgeOne(c, JudgeInput{Spectrum: s, Conditions: DefaultConditions()}))
 	}
 	a, err := json.Marshal(vs)
 	if err != nil {
@@ -352,7 +362,7 @@ func FuzzJudge(f *testing.F) {
 	f.Add("sri_low", 110.0, 0.0, 0.0, 0.0, "", 0.0, 0.0)
 	f.Add("cooling_power_w_m2", 600.0, 0.0, 280.0, 4000.0, "direct", 0.0, 0.0)
 	f.Add("equilibrium_delta_night_k", 300.0, 1.0, 0.0, 0.0, "", 320.0, 0.0)
-	s, err := spectra.Merge(mustDecode(f, "a.csv", uvvis320), mustDecode(f, "b.csv", ftir20))
+	s, err := spectra.Join([]*spectra.Spectrum{mustDecode(f, "a.csv", uvvis320), mustDecode(f, "b.csv", ftir20)}, spectra.SpliceOptions{})
 	if err != nil {
 		f.Fatal(err)
 	}
@@ -361,7 +371,7 @@ func FuzzJudge(f *testing.F) {
 		if lo != 0 || hi != 0 {
 			c.Basis.SolarBandNM = []float64{lo, hi}
 		}
-		v := Judge(c, JudgeInput{Spectrum: s, Conditions: DefaultConditions()})
+		v := judgeOne(c, JudgeInput{Spectrum: s, Conditions: DefaultConditions()})
 		if v.Status < Supported || v.Status > CannotCheck || v.Reason == "" {
 			t.Fatalf("bad verdict %+v", v)
 		}
@@ -385,10 +395,10 @@ func mustDecode(f *testing.F, name, data string) *spectra.Spectrum {
 	return s
 }
 
-func ExampleJudge() {
+func ExampleJudgeAll() {
 	uvvis, _ := spectra.Decode([]byte("wavelength_nm,R\n280,0.93\n2500,0.93\n"), "invented-uvvis.csv")
-	v := Judge(Claim{Figure: "solar_reflectance", Value: 0.95, Tolerance: 0.01},
-		JudgeInput{Spectrum: uvvis, Conditions: DefaultConditions()})
+	v := JudgeAll([]Claim{{Figure: "solar_reflectance", Value: 0.95, Tolerance: 0.01}},
+		JudgeInput{Spectrum: uvvis, Conditions: DefaultConditions()})[0]
 	fmt.Println(v.Status)
 	fmt.Println(v.Reason)
 	fmt.Println(v.Basis)
@@ -407,10 +417,10 @@ func TestVerdictWords(t *testing.T) {
 		{Claim{Value: 0.950}.Text(), "0.95"},
 		{Claim{Value: 96}.Text(), "96"},
 		{Supported.Mark() + NotSupported.Mark() + CannotCheck.Mark(), "=≠?"},
-		{FormatSigned(-0.0357, ""), "−0.0357"},
-		{FormatSigned(0.00001, ""), "0.0000"},
-		{FormatSigned(math.NaN(), ""), "n/a"},
-		{FormatSigned(12.34, "W/m²"), "+12.3 W/m²"},
+		{formatSigned(-0.0357, ""), "−0.0357"},
+		{formatSigned(0.00001, ""), "0.0000"},
+		{formatSigned(math.NaN(), ""), "n/a"},
+		{formatSigned(12.34, "W/m²"), "+12.3 W/m²"},
 	} {
 		if tt.got != tt.want {
 			t.Errorf("got %q, want %q", tt.got, tt.want)
@@ -420,5 +430,49 @@ func TestVerdictWords(t *testing.T) {
 	c.Add(Verdict{Status: Supported}, Verdict{Status: NotSupported}, Verdict{Status: CannotCheck}, Verdict{Status: CannotCheck})
 	if c != (VerdictCounts{Claims: 4, Supported: 1, NotSupported: 1, CannotCheck: 2}) {
 		t.Errorf("counts %+v", c)
+	}
+}
+
+// TestMissingData checks that a claim on data that lack what the figure
+// rests on names the band that is missing: the thermal band for an SRI on
+// UV-Vis-NIR data (the solar band is covered), the exchange band for a
+// cooling figure, the solar band for an SRI on FTIR data; and that
+// Figures.Missing says the same for a reader.
+func TestMissingData(t *testing.T) {
+	uv := sample(t, "a.csv", uvvis90)
+	ir := sample(t, "b.csv", ftir95)
+	c := DefaultConditions()
+	for _, tt := range []struct {
+		name    string
+		s       *spectra.Spectrum
+		figure  string
+		reason  string
+		missing string
+	}{
+		{"SRI without infrared", uv, "sri_medium", "The data do not reach the band 2.5–25 µm at all.", "no infrared data over 2.5–25 µm"},
+		{"SRI without solar data", ir, "sri_low", "The data do not reach the band 280–2500 nm at all.", "no solar data over 280–2500 nm"},
+		{"cooling without infrared", uv, "cooling_power_w_m2", "The data do not reach the band 2.5–100 µm at all.", "no infrared data over 2.5–100 µm"},
+		{"night cooling without infrared", uv, "equilibrium_delta_night_k", "The data do not reach the band 2.5–100 µm at all.", "no infrared data over 2.5–100 µm"},
+		{"day cooling without solar data", ir, "cooling_power_w_m2", "The data do not reach the band 280–2500 nm at all.", "no solar data over 280–2500 nm"},
+		{"emittance without infrared", uv, "thermal_emittance", "The data do not reach the band 2.5–25 µm at all.", "no infrared data over 2.5–25 µm"},
+		{"reflectance without solar data", ir, "solar_reflectance", "The data do not reach the band 280–2500 nm at all.", "no solar data over 280–2500 nm"},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			v := JudgeAll([]Claim{{Figure: tt.figure, Value: 50}}, JudgeInput{Spectrum: tt.s, Conditions: c})[0]
+			if v.Status != CannotCheck || v.Reason != tt.reason {
+				t.Errorf("%v: %q, want %q", v.Status, v.Reason, tt.reason)
+			}
+			f, err := compute(tt.s, c)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got := f.Missing(tt.figure); got != tt.missing {
+				t.Errorf("Missing = %q, want %q", got, tt.missing)
+			}
+		})
+	}
+	f, _ := compute(sample(t, "a.csv", uvvis90, "b.csv", ftir95), c)
+	if got := f.Missing("sri_medium"); got != "" {
+		t.Errorf("a figure with a value: Missing = %q", got)
 	}
 }

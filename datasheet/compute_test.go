@@ -12,6 +12,11 @@ import (
 	"skysheet/spectra"
 )
 
+// compute resolves s and computes its figures under c.
+func compute(s *spectra.Spectrum, c Conditions) (*Figures, error) {
+	return Compute(s, spectra.Resolve(s, c.ClosureTol), c)
+}
+
 func readTestSample(t testing.TB, names ...string) *spectra.Spectrum {
 	t.Helper()
 	var parts []*spectra.Spectrum
@@ -26,7 +31,7 @@ func readTestSample(t testing.TB, names ...string) *spectra.Spectrum {
 		}
 		parts = append(parts, s)
 	}
-	s, err := spectra.Merge(parts...)
+	s, err := spectra.Join(parts, spectra.SpliceOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -79,7 +84,7 @@ func planck(nm, T float64) float64 {
 // 1e-3 (the precision a reviewer is promised in the README).
 func TestComputeIndependent(t *testing.T) {
 	s := readTestSample(t, "white-uvvis.csv", "white-ftir.tsv")
-	f, err := Compute(s, DefaultConditions())
+	f, err := compute(s, DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -158,7 +163,7 @@ func TestComputeUnitsAgree(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		f, err := Compute(s, DefaultConditions())
+		f, err := compute(s, DefaultConditions())
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -181,11 +186,11 @@ func TestConditionsValidate(t *testing.T) {
 		ok   bool
 	}{
 		{"defaults", func(*Conditions) {}, true},
-		{"whole G173", func(c *Conditions) { c.SolarBandNM = [2]float64{280, 4000} }, true},
-		{"below G173", func(c *Conditions) { c.SolarBandNM = [2]float64{250, 2500} }, false},
-		{"reversed", func(c *Conditions) { c.ThermalBandUM = [2]float64{25, 2.5} }, false},
-		{"unknown spectrum", func(c *Conditions) { c.SolarSpectrum = "am0" }, false},
-		{"huge thermal band", func(c *Conditions) { c.ThermalBandUM = [2]float64{2.5, 1e9} }, false},
+		{"whole G173", func(c *Conditions) { c.SolarBand = spectra.Interval{Lo: 280, Hi: 4000} }, true},
+		{"below G173", func(c *Conditions) { c.SolarBand = spectra.Interval{Lo: 250, Hi: 2500} }, false},
+		{"reversed", func(c *Conditions) { c.ThermalBand = spectra.Interval{Lo: 25000, Hi: 2500} }, false},
+		{"unknown spectrum", func(c *Conditions) { c.SolarSpectrum = 7 }, false},
+		{"huge thermal band", func(c *Conditions) { c.ThermalBand = spectra.Interval{Lo: 2500, Hi: 1e12} }, false},
 		{"zero kelvin", func(c *Conditions) { c.TemperatureK = 0 }, false},
 		{"negative tolerance", func(c *Conditions) { c.ClosureTol = -1 }, false},
 	} {
@@ -204,8 +209,30 @@ func TestClosureReported(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	f, _ := Compute(s, DefaultConditions())
+	f, _ := compute(s, DefaultConditions())
 	if f.Closure.OK || f.Closure.ResidualNM != 600 || math.Abs(f.Closure.Residual-0.05) > 1e-12 {
 		t.Errorf("closure = %+v, want a 0.05 violation at 600 nm", f.Closure)
+	}
+}
+
+// TestKindWords checks how a temperature difference reads: the air minus
+// the surface, positive when the surface is cooler.
+func TestKindWords(t *testing.T) {
+	for _, tt := range []struct {
+		x    float64
+		want string
+	}{
+		{4.2, "settles 4.2 K below the air"},
+		{-1.6, "settles 1.6 K above the air"},
+		{0.04, "settles at the air temperature"},
+		{-0.04, "settles at the air temperature"},
+		{math.NaN(), "n/a"},
+	} {
+		if got := KindTemperatureDifference.Words(tt.x, "K"); got != tt.want {
+			t.Errorf("Words(%g) = %q, want %q", tt.x, got, tt.want)
+		}
+	}
+	if got := KindPower.Words(-18.24, "W/m²"); got != "-18.2 W/m²" {
+		t.Errorf("a power in words: %q", got)
 	}
 }

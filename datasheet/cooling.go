@@ -1,10 +1,12 @@
 package datasheet
 
 import (
+	"encoding/json"
 	"errors"
 	"fmt"
 	"math"
 	"sort"
+	"strconv"
 	"strings"
 
 	"skysheet/spectra"
@@ -30,8 +32,41 @@ type CoolingTerms struct {
 	// T_amb that falls where the emittance is held constant.
 	HeldShare Num `json:"held_share"`
 	// HeldEmittedWm2 is what the sample emits at T_amb over the held part.
-	HeldEmittedWm2 Num          `json:"held_emitted_w_m2"`
-	HeldBandsUM    [][2]float64 `json:"held_bands_um"`
+	HeldEmittedWm2 Num `json:"held_emitted_w_m2"`
+	// HeldBands are the parts of the exchange band where the emittance is
+	// held constant, in nm (written in µm: held_bands_um).
+	HeldBands []spectra.Interval `json:"-"`
+}
+
+// MarshalJSON writes the terms with the held bands in µm.
+func (t CoolingTerms) MarshalJSON() ([]byte, error) {
+	type plain CoolingTerms
+	um := make([][2]float64, len(t.HeldBands))
+	for i, b := range t.HeldBands {
+		um[i] = bandOut(b, "µm")
+	}
+	return json.Marshal(struct {
+		plain
+		HeldBandsUM [][2]float64 `json:"held_bands_um"`
+	}{plain(t), um})
+}
+
+// UnmarshalJSON reads the form MarshalJSON writes.
+func (t *CoolingTerms) UnmarshalJSON(b []byte) error {
+	type plain CoolingTerms
+	var j struct {
+		plain
+		HeldBandsUM [][2]float64 `json:"held_bands_um"`
+	}
+	if err := json.Unmarshal(b, &j); err != nil {
+		return err
+	}
+	*t = CoolingTerms(j.plain)
+	t.HeldBands = []spectra.Interval{}
+	for _, x := range j.HeldBandsUM {
+		t.HeldBands = append(t.HeldBands, bandFrom(x[0], x[1], "µm"))
+	}
+	return nil
 }
 
 // Sensitivity is one row of the sensitivity table: the change of the
@@ -67,8 +102,8 @@ func (c Conditions) validateCooling() error {
 		return fmt.Errorf("dew point %g °C: want a temperature in °C above −80", c.DewPointC)
 	}
 	if c.DewPointC+273.15 > c.AmbientK+1e-9 {
-		return fmt.Errorf("dew point %g °C is above the air temperature %g K (%g °C): the dew point cannot exceed it",
-			c.DewPointC, c.AmbientK, c.AmbientK-273.15)
+		return fmt.Errorf("dew point %g °C is above the air temperature %g K (%s °C): the dew point cannot exceed it",
+			c.DewPointC, c.AmbientK, strconv.FormatFloat(c.AmbientK-273.15, 'g', 12, 64))
 	}
 	if !(c.IrradianceWm2 >= 0 && c.IrradianceWm2 <= 2000) {
 		return fmt.Errorf("irradiance %g W/m²: want 0–2000 W/m²", c.IrradianceWm2)
@@ -76,29 +111,27 @@ func (c Conditions) validateCooling() error {
 	if !(c.HWm2K >= 0 && c.HWm2K <= 1000) {
 		return fmt.Errorf("heat-transfer coefficient h %g W m⁻² K⁻¹: want 0–1000", c.HWm2K)
 	}
-	if b := c.ExchangeBandUM; !(b[0] >= 0.1 && b[1] > b[0] && b[1] <= 1000) {
-		return fmt.Errorf("exchange band %g–%g µm: want 0.1 ≤ low < high ≤ 1000", b[0], b[1])
+	if b := c.ExchangeBand; !(b.Lo >= 100 && b.Hi > b.Lo && b.Hi <= 1e6) {
+		um := bandOut(b, "µm")
+		return fmt.Errorf("exchange band %g–%g µm: want 0.1 ≤ low < high ≤ 1000", um[0], um[1])
 	}
-	if !c.clearSky() {
-		if c.SkySpectrum == nil {
-			return fmt.Errorf("sky %q: the spectral sky file was not read (want %q or a file with a T column)", c.Sky, SkyClear)
+	if !c.Sky.Clear() {
+		if c.Sky.Spectrum == nil {
+			return fmt.Errorf("sky %q: the spectral sky file was not read (want %q or a file with a T column)", c.Sky.File, skyClearWords)
 		}
-		if !c.SkySpectrum.Has(spectra.T) {
-			return fmt.Errorf("sky %s: %w: a spectral sky needs a T column (zenith atmospheric transmittance)", c.Sky, spectra.ErrNoValues)
+		if !c.Sky.Spectrum.Has(spectra.T) {
+			return fmt.Errorf("sky %s: %w: a spectral sky needs a T column (zenith atmospheric transmittance)", c.Sky.File, spectra.ErrNoValues)
 		}
 	}
 	return nil
 }
 
-// clearSky reports whether c asks for the clear two-band sky.
-func (c Conditions) clearSky() bool { return c.Sky == "" || c.Sky == SkyClear }
-
 // skyFor returns the sky of c.
 func skyFor(c Conditions) (Sky, error) {
-	if c.clearSky() {
+	if c.Sky.Clear() {
 		return ClearSky(c.DewPointC, c.AmbientK), nil
 	}
-	return SpectralSky(c.SkySpectrum, c.Sky, c.AmbientK)
+	return spectralSky(c.Sky.Spectrum, c.Sky.File, c.AmbientK)
 }
 
 // lc is a value of a piece of a series, linear between two of its points:
@@ -144,14 +177,14 @@ type coolGrid struct {
 
 // newCoolGrid returns the grid for emittance series a, or nil when a does
 // not reach into the band at all.
-func newCoolGrid(a spectra.Series, sky Sky, bandUM [2]float64, ambientK float64) *coolGrid {
-	return newCoolGridStep(a, sky, bandUM, ambientK, referenceStep)
+func newCoolGrid(a spectra.Series, sky Sky, band spectra.Interval, ambientK float64) *coolGrid {
+	return newCoolGridStep(a, sky, band, ambientK, referenceStep)
 }
 
 // newCoolGridStep is newCoolGrid with a given relative step of the
 // reference grid.
-func newCoolGridStep(a spectra.Series, sky Sky, bandUM [2]float64, ambientK, step float64) *coolGrid {
-	lo, hi := bandUM[0]*1000, bandUM[1]*1000
+func newCoolGridStep(a spectra.Series, sky Sky, band spectra.Interval, ambientK, step float64) *coolGrid {
+	lo, hi := band.Lo, band.Hi
 	type cover struct {
 		p      int
 		lo, hi float64
@@ -505,7 +538,7 @@ func (m *cooling) evaluate(a spectra.Series, alpha float64) coolFigures {
 		return r
 	}
 	if !m.g.fits(a) {
-		m.g = newCoolGrid(a, m.sky, m.c.ExchangeBandUM, m.c.AmbientK)
+		m.g = newCoolGrid(a, m.sky, m.c.ExchangeBand, m.c.AmbientK)
 	}
 	s := m.g.load(a)
 	r.state = s
@@ -525,7 +558,7 @@ func (m *cooling) evaluate(a spectra.Series, alpha float64) coolFigures {
 func (m *cooling) weighting(withSun, withH bool) string {
 	c := m.c
 	var out string
-	if m.sky.Model == SkyClear {
+	if m.sky.Model == skyModelClear {
 		out = fmt.Sprintf("clear two-band sky, dew point %s °C; air %s K", fmtG(c.DewPointC), fmtG(c.AmbientK))
 	} else {
 		out = fmt.Sprintf("spectral sky %s; air %s K", m.sky.Source, fmtG(c.AmbientK))
@@ -555,21 +588,21 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 	f.EquilibriumDeltaNightK = Num(c.AmbientK - r.eqNight)
 	f.CoolingTerms = CoolingTerms{RadiatedWm2: Num(r.prad), AtmosphericWm2: Num(r.patm), SolarWm2: Num(r.psun),
 		EquilibriumK: Num(r.eqDay), EquilibriumNightK: Num(r.eqNight),
-		HeldShare: Num(math.NaN()), HeldEmittedWm2: Num(math.NaN()), HeldBandsUM: [][2]float64{}}
+		HeldShare: Num(math.NaN()), HeldEmittedWm2: Num(math.NaN()), HeldBands: []spectra.Interval{}}
 	f.HeldPowerWm2 = Num(math.NaN())
 	if m.g != nil {
 		f.HeldPowerWm2 = Num(m.g.heldPower)
 		f.CoolingTerms.HeldShare = Num(m.g.heldPower / m.g.bbPower)
 		f.CoolingTerms.HeldEmittedWm2 = Num(r.state.heldEmit)
 		for _, h := range m.g.held {
-			f.CoolingTerms.HeldBandsUM = append(f.CoolingTerms.HeldBandsUM, [2]float64{h[0] / 1000, h[1] / 1000})
+			f.CoolingTerms.HeldBands = append(f.CoolingTerms.HeldBands, spectra.Interval{Lo: h[0], Hi: h[1]})
 		}
 	}
 	cov := 0.0 // share of the band's blackbody power where the emittance is measured
 	if m.g != nil {
 		cov = 1 - m.g.heldPower/m.g.bbPower
 	}
-	band := c.ExchangeBandUM
+	band := c.ExchangeBand
 	fig := func(key, label, unit string, v Num, sun, h bool, coverage float64) {
 		f.Figures = append(f.Figures, Figure{Key: key, Label: label, Value: v, Unit: unit, Band: band, BandUnit: "µm",
 			Weighting: m.weighting(sun, h), Coverage: Num(coverage)})
@@ -577,8 +610,8 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 	dayCov := math.Min(cov, float64(f.SolarCoverage))
 	fig("cooling_power_w_m2", "Cooling power at ambient, with sun", "W/m²", f.CoolingPowerWm2, true, false, dayCov)
 	fig("cooling_power_night_w_m2", "Cooling power at ambient, at night", "W/m²", f.CoolingPowerNightWm2, false, false, cov)
-	fig("equilibrium_delta_k", "Equilibrium below ambient, with sun", "K", f.EquilibriumDeltaK, true, true, dayCov)
-	fig("equilibrium_delta_night_k", "Equilibrium below ambient, at night", "K", f.EquilibriumDeltaNightK, false, true, cov)
+	fig("equilibrium_delta_k", "Equilibrium with sun", "K", f.EquilibriumDeltaK, true, true, dayCov)
+	fig("equilibrium_delta_night_k", "Equilibrium at night", "K", f.EquilibriumDeltaNightK, false, true, cov)
 	if grads != nil && r.state != nil {
 		m.addGradients(grads, r, c)
 	}
@@ -640,7 +673,7 @@ func (m *cooling) sensitivity(a spectra.Series, alpha float64, base coolFigures)
 			row("h_w_m2k", "W m⁻² K⁻¹", dh, alt, "the cooling power at T_s = T_amb does not depend on h")
 		}
 	}
-	if c.clearSky() {
+	if c.Sky.Clear() {
 		for _, dd := range []float64{+5, -5} {
 			alt := c
 			alt.DewPointC += dd
@@ -659,15 +692,16 @@ func (m *cooling) sensitivity(a spectra.Series, alpha float64, base coolFigures)
 // assumptions states the cooling model in sentences.
 func (m *cooling) assumptions(r coolFigures) []string {
 	c := m.c
+	ex := bandOut(c.ExchangeBand, "µm")
 	var out []string
 	out = append(out, "Sky: "+m.sky.Description)
 	if m.g == nil {
 		return append(out, fmt.Sprintf("No emittance data reach into the exchange band %g–%g µm: cooling figures cannot be computed.",
-			c.ExchangeBandUM[0], c.ExchangeBandUM[1]))
+			ex[0], ex[1]))
 	}
 	out = append(out, fmt.Sprintf("Cooling: P_net(T_s) = P_rad(T_s) − P_atm − P_sun − h (T_amb − T_s) with P_rad and P_atm over %g–%g µm, "+
 		"air at %s K, h = %s W m⁻² K⁻¹, sun %s W/m² × solar absorptance; the cooling power is P_net at T_s = T_amb, "+
-		"where the convective term vanishes.", c.ExchangeBandUM[0], c.ExchangeBandUM[1], fmtG(c.AmbientK), fmtG(c.HWm2K), fmtG(c.IrradianceWm2)))
+		"where the convective term vanishes.", ex[0], ex[1], fmtG(c.AmbientK), fmtG(c.HWm2K), fmtG(c.IrradianceWm2)))
 	if len(m.g.held) > 0 {
 		var parts []string
 		for _, h := range m.g.held {
@@ -677,8 +711,8 @@ func (m *cooling) assumptions(r coolFigures) []string {
 			"That part carries %.1f W/m² of blackbody power at %s K (%.1f %% of the band's), of which the sample emits %.1f W/m².",
 			strings.Join(parts, ", "), m.g.heldPower, fmtG(c.AmbientK), 100*m.g.heldPower/m.g.bbPower, r.state.heldEmit))
 	}
-	if s := c.SolarBandNM[1] / 1000; s > c.ExchangeBandUM[0] {
-		out = append(out, fmt.Sprintf("The solar band reaches %g µm, into the exchange band (from %g µm): absorbed sunlight and thermal exchange overlap there.", s, c.ExchangeBandUM[0]))
+	if s := c.SolarBand.Hi / 1000; s > ex[0] {
+		out = append(out, fmt.Sprintf("The solar band reaches %g µm, into the exchange band (from %g µm): absorbed sunlight and thermal exchange overlap there.", s, ex[0]))
 	}
 	if r.errDay != nil && !math.IsNaN(r.psun) {
 		out = append(out, "Equilibrium with sun: "+r.errDay.Error()+".")

@@ -59,7 +59,7 @@ func selectiveSample() *spectra.Spectrum {
 // coolingOf repeats Compute's set-up for the internal checks.
 func coolingOf(t *testing.T, s *spectra.Spectrum, c Conditions) (*Figures, coolFigures) {
 	t.Helper()
-	f, err := Compute(s, c)
+	f, err := compute(s, c)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -68,7 +68,7 @@ func coolingOf(t *testing.T, s *spectra.Spectrum, c Conditions) (*Figures, coolF
 		t.Fatal(err)
 	}
 	o := spectra.Resolve(s, c.ClosureTol)
-	m := &cooling{c: c, sky: sky, sun: spectra.SolarGlobal(), g: newCoolGrid(o.A, sky, c.ExchangeBandUM, c.AmbientK)}
+	m := &cooling{c: c, sky: sky, sun: spectra.SolarGlobal(), g: newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK)}
 	return f, m.evaluate(o.A, float64(f.SolarAbsorptance))
 }
 
@@ -84,8 +84,8 @@ func TestBlackbodyNetPower(t *testing.T) {
 		{-20, 300, [2]float64{2.5, 100}}, // clamped window
 	} {
 		c := DefaultConditions()
-		c.DewPointC, c.AmbientK, c.ExchangeBandUM, c.IrradianceWm2 = tt.dp, tt.amb, tt.band, 0
-		f, err := Compute(constSample(1, 1000, 200000), c)
+		c.DewPointC, c.AmbientK, c.ExchangeBand, c.IrradianceWm2 = tt.dp, tt.amb, bandFrom(tt.band[0], tt.band[1], "µm"), 0
+		f, err := compute(constSample(1, 1000, 200000), c)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -165,7 +165,7 @@ func TestSelectiveEmitterAtNoon(t *testing.T) {
 	// 10 K below ambient at noon.
 	c := DefaultConditions()
 	c.DewPointC, c.HWm2K = -20, 1.5
-	f, err := Compute(selectiveSample(), c)
+	f, err := compute(selectiveSample(), c)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -184,7 +184,7 @@ func TestGridFineEnough(t *testing.T) {
 		sky := ClearSky(c.DewPointC, c.AmbientK)
 		var got [2]coolFigures
 		for i, step := range []float64{referenceStep, referenceStep / 4} {
-			m := &cooling{c: c, sky: sky, g: newCoolGridStep(o.A, sky, c.ExchangeBandUM, c.AmbientK, step)}
+			m := &cooling{c: c, sky: sky, g: newCoolGridStep(o.A, sky, c.ExchangeBand, c.AmbientK, step)}
 			got[i] = m.evaluate(o.A, 0.05)
 		}
 		if d := math.Abs(got[0].night - got[1].night); d > 0.01 {
@@ -198,7 +198,7 @@ func TestGridFineEnough(t *testing.T) {
 
 func TestHeldPart(t *testing.T) {
 	c := DefaultConditions()
-	f, err := Compute(whiteSample(t), c)
+	f, err := compute(whiteSample(t), c)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -208,7 +208,7 @@ func TestHeldPart(t *testing.T) {
 	if got := float64(f.HeldPowerWm2); math.Abs(got-want) > 0.01 {
 		t.Errorf("held power %.4f W/m², want %.4f", got, want)
 	}
-	if b := f.CoolingTerms.HeldBandsUM; len(b) != 1 || b[0] != [2]float64{25, 100} {
+	if b := f.CoolingTerms.HeldBands; len(b) != 1 || b[0] != (spectra.Interval{Lo: 25000, Hi: 100000}) {
 		t.Errorf("held bands %v, want [[25 100]]", b)
 	}
 	said := false
@@ -221,11 +221,11 @@ func TestHeldPart(t *testing.T) {
 
 	// A gap between two files is bridged by the nearest value on each side.
 	s := mustParse(t, "wavelength_nm,R\n2500,0.1\n6000,0.1\n\n10000,0.7\n100000,0.7\n", "gap.csv")
-	f, err = Compute(s, c)
+	f, err = compute(s, c)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if b := f.CoolingTerms.HeldBandsUM; len(b) != 1 || b[0] != [2]float64{6, 10} {
+	if b := f.CoolingTerms.HeldBands; len(b) != 1 || b[0] != (spectra.Interval{Lo: 6000, Hi: 10000}) {
 		t.Errorf("held bands %v, want [[6 10]]", b)
 	}
 	want = math.Pi * integrate(func(nm float64) float64 { return planckRef(nm, 300) }, 6000, 10000, 4000)
@@ -248,7 +248,7 @@ func TestHeldPart(t *testing.T) {
 
 func TestCoolingWithoutThermalData(t *testing.T) {
 	s := mustParse(t, sampleCSV([][2]float64{{280, 0.9}, {2500, 0.9}}), "vis.csv")
-	f, err := Compute(s, DefaultConditions())
+	f, err := compute(s, DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -278,8 +278,8 @@ func TestValidateCooling(t *testing.T) {
 		{"negative sun", func(c *Conditions) { c.IrradianceWm2 = -1 }},
 		{"negative h", func(c *Conditions) { c.HWm2K = -0.5 }},
 		{"infinite h", func(c *Conditions) { c.HWm2K = math.Inf(1) }},
-		{"band reversed", func(c *Conditions) { c.ExchangeBandUM = [2]float64{100, 2.5} }},
-		{"band zero", func(c *Conditions) { c.ExchangeBandUM = [2]float64{0, 100} }},
+		{"band reversed", func(c *Conditions) { c.ExchangeBand = spectra.Interval{Lo: 100000, Hi: 2500} }},
+		{"band zero", func(c *Conditions) { c.ExchangeBand = spectra.Interval{Lo: 0, Hi: 100000} }},
 	} {
 		c := DefaultConditions()
 		tt.mod(&c)
@@ -296,7 +296,7 @@ func BenchmarkCompute(b *testing.B) {
 	s := whiteSample(b)
 	c := DefaultConditions()
 	for b.Loop() {
-		if _, err := Compute(s, c); err != nil {
+		if _, err := compute(s, c); err != nil {
 			b.Fatal(err)
 		}
 	}
@@ -311,7 +311,7 @@ func FuzzCompute(f *testing.F) {
 		if err != nil {
 			return
 		}
-		x, err := Compute(s, DefaultConditions())
+		x, err := compute(s, DefaultConditions())
 		if err != nil {
 			t.Fatalf("Compute failed on a parsed spectrum: %v", err)
 		}
@@ -330,4 +330,16 @@ func FuzzCompute(f *testing.F) {
 			t.Fatal(err)
 		}
 	})
+}
+
+// TestConditionMessagesRounded checks that a value the message derives
+// (the air temperature in °C, 290 K − 273.15 = 16.850000000000023 in
+// float64) is written as the data state it.
+func TestConditionMessagesRounded(t *testing.T) {
+	c := DefaultConditions()
+	c.AmbientK, c.DewPointC = 290, 20
+	err := c.Validate()
+	if err == nil || !strings.Contains(err.Error(), "(16.85 °C)") {
+		t.Errorf("message %v, want the air at 16.85 °C", err)
+	}
 }

@@ -3,10 +3,9 @@ package datasheet
 import (
 	"fmt"
 	"math"
+	"sort"
 	"strconv"
 	"strings"
-
-	"skysheet/spectra"
 )
 
 // Kind is what a figure's number is: it decides how a claim of the figure
@@ -17,12 +16,12 @@ type Kind int
 // The kinds of figures. The zero Kind is unknown (a figure the tool does
 // not compute).
 const (
-	KindUnknown               Kind = iota
+	kindUnknown               Kind = iota
 	KindFraction                   // 0..1: reflectances, transmittances, absorptances, emittances
 	KindIndex                      // the Solar Reflectance Index: 0 standard black, 100 standard white
 	KindPower                      // a power per area, W/m²
 	KindTemperatureDifference      // a temperature difference, K
-	KindQuantity                   // any other figure with a unit
+	kindQuantity                   // any other figure with a unit
 )
 
 var kindWords = [...]string{"", "fraction", "index", "power", "temperature difference", "quantity"}
@@ -61,7 +60,7 @@ func (k Kind) Format(x float64, unit string) string {
 	if math.IsNaN(x) {
 		return "n/a"
 	}
-	if k == KindFraction || k == KindUnknown && unit == "" {
+	if k == KindFraction || k == kindUnknown && unit == "" {
 		return strconv.FormatFloat(x, 'f', 4, 64)
 	}
 	s := strconv.FormatFloat(x, 'f', 1, 64)
@@ -69,6 +68,25 @@ func (k Kind) Format(x float64, unit string) string {
 		s += " " + unit
 	}
 	return s
+}
+
+// Words writes x as a reader reads a figure of kind k: a temperature
+// difference (the air minus the surface, positive when the surface is
+// cooler) as where the surface settles, "settles 1.6 K above the air" or
+// "settles 4.2 K below the air" (one decimal); any other kind as
+// [Kind.Format] does.
+func (k Kind) Words(x float64, unit string) string {
+	if k != KindTemperatureDifference || math.IsNaN(x) {
+		return k.Format(x, unit)
+	}
+	d := strconv.FormatFloat(math.Abs(x), 'f', 1, 64)
+	switch {
+	case d == "0.0":
+		return "settles at the air temperature"
+	case x < 0:
+		return "settles " + d + " " + unit + " above the air"
+	}
+	return "settles " + d + " " + unit + " below the air"
 }
 
 // FormatSigned is [Kind.Format] with a sign ("+" or "−"), none when x
@@ -85,104 +103,17 @@ func (k Kind) FormatSigned(x float64, unit string) string {
 	return s
 }
 
-// condKey names one condition a figure may rest on, by its key under
-// conditions: in skysheet.yaml.
-type condKey string
-
-// The conditions, by their yaml keys.
-const (
-	condSolarBand    condKey = "solar_band_nm"
-	condSolarSpec    condKey = "solar_spectrum"
-	condThermalBand  condKey = "thermal_band_um"
-	condWindowBand   condKey = "window_band_um"
-	condTemperature  condKey = "temperature_k"
-	condSky          condKey = "sky"
-	condDewPoint     condKey = "dew_point_c"
-	condAmbient      condKey = "ambient_k"
-	condH            condKey = "h_w_m2k"
-	condIrradiance   condKey = "irradiance_w_m2"
-	condExchangeBand condKey = "exchange_band_um"
-)
-
-// allConds are every condition, for a figure the table below does not
-// know.
-var allConds = []condKey{condSolarBand, condSolarSpec, condThermalBand, condWindowBand, condTemperature,
+// allConds are every condition a figure may rest on, in the order a
+// verdict's basis names them, for a figure the table below does not know.
+var allConds = []condition{condSolarBand, condSolarSpectrum, condThermalBand, condWindowBand, condTemperature,
 	condSky, condDewPoint, condAmbient, condH, condIrradiance, condExchangeBand}
-
-// same reports whether a and b agree on condition k.
-func (k condKey) same(a, b Conditions) bool {
-	switch k {
-	case condSolarBand:
-		return a.SolarBandNM == b.SolarBandNM
-	case condSolarSpec:
-		return a.SolarSpectrum == b.SolarSpectrum
-	case condThermalBand:
-		return a.ThermalBandUM == b.ThermalBandUM
-	case condWindowBand:
-		return a.WindowBandUM == b.WindowBandUM
-	case condTemperature:
-		return a.TemperatureK == b.TemperatureK
-	case condSky:
-		return a.clearSky() == b.clearSky() && (a.clearSky() || a.Sky == b.Sky && a.SkySpectrum == b.SkySpectrum)
-	case condDewPoint:
-		return a.DewPointC == b.DewPointC
-	case condAmbient:
-		return a.AmbientK == b.AmbientK
-	case condH:
-		return a.HWm2K == b.HWm2K
-	case condIrradiance:
-		return a.IrradianceWm2 == b.IrradianceWm2
-	case condExchangeBand:
-		return a.ExchangeBandUM == b.ExchangeBandUM
-	}
-	return false
-}
-
-// words describes condition k of c, e.g. "solar band 280–2500 nm"; "" when
-// c does not use it (the dew point under a spectral sky).
-func (k condKey) words(c Conditions) string {
-	switch k {
-	case condSolarBand:
-		return fmt.Sprintf("solar band %g–%g nm", c.SolarBandNM[0], c.SolarBandNM[1])
-	case condSolarSpec:
-		if w, err := spectra.Solar(c.SolarSpectrum); err == nil {
-			return w.String() + " spectrum"
-		}
-		return fmt.Sprintf("solar spectrum %q", c.SolarSpectrum)
-	case condThermalBand:
-		return fmt.Sprintf("thermal band %g–%g µm", c.ThermalBandUM[0], c.ThermalBandUM[1])
-	case condWindowBand:
-		return fmt.Sprintf("window band %g–%g µm", c.WindowBandUM[0], c.WindowBandUM[1])
-	case condTemperature:
-		return fmt.Sprintf("blackbody at %g K", c.TemperatureK)
-	case condSky:
-		if c.clearSky() {
-			return "clear two-band sky"
-		}
-		return "spectral sky " + c.Sky
-	case condDewPoint:
-		if !c.clearSky() {
-			return ""
-		}
-		return fmt.Sprintf("dew point %g °C", c.DewPointC)
-	case condAmbient:
-		return fmt.Sprintf("air at %g K", c.AmbientK)
-	case condH:
-		return fmt.Sprintf("h %g W m⁻² K⁻¹", c.HWm2K)
-	case condIrradiance:
-		return fmt.Sprintf("sun %g W/m²", c.IrradianceWm2)
-	case condExchangeBand:
-		return fmt.Sprintf("exchange band %g–%g µm", c.ExchangeBandUM[0], c.ExchangeBandUM[1])
-	}
-	return string(k)
-}
 
 // figureSpec is how claims of one figure are judged.
 type figureSpec struct {
 	kind Kind
 	// conds are the conditions the figure rests on, in the order a
 	// verdict's basis names them.
-	conds []condKey
+	conds []condition
 	// What the figure is computed from, for the coverage rule and the
 	// pitfalls: solar data (R, or T for a transmittance), infrared
 	// emittance over the thermal or window band, the cooling integrals.
@@ -194,12 +125,12 @@ type figureSpec struct {
 
 // The conditions behind the kinds of figures.
 var (
-	solarConds   = []condKey{condSolarBand, condSolarSpec}
-	sriConds     = []condKey{condSolarBand, condSolarSpec, condThermalBand, condTemperature}
-	dayPower     = []condKey{condSky, condDewPoint, condAmbient, condIrradiance, condSolarSpec, condSolarBand, condExchangeBand}
-	nightPower   = []condKey{condSky, condDewPoint, condAmbient, condExchangeBand}
-	dayBalance   = []condKey{condSky, condDewPoint, condAmbient, condH, condIrradiance, condSolarSpec, condSolarBand, condExchangeBand}
-	nightBalance = []condKey{condSky, condDewPoint, condAmbient, condH, condExchangeBand}
+	solarConds   = []condition{condSolarBand, condSolarSpectrum}
+	sriConds     = []condition{condSolarBand, condSolarSpectrum, condThermalBand, condTemperature}
+	dayPower     = []condition{condSky, condDewPoint, condAmbient, condIrradiance, condSolarSpectrum, condSolarBand, condExchangeBand}
+	nightPower   = []condition{condSky, condDewPoint, condAmbient, condExchangeBand}
+	dayBalance   = []condition{condSky, condDewPoint, condAmbient, condH, condIrradiance, condSolarSpectrum, condSolarBand, condExchangeBand}
+	nightBalance = []condition{condSky, condDewPoint, condAmbient, condH, condExchangeBand}
 )
 
 // figureSpecs is the one table of how each figure that [Compute] returns is
@@ -213,8 +144,8 @@ var figureSpecs = map[string]figureSpec{
 	"uv_reflectance":            {kind: KindFraction, conds: solarConds, solar: true},
 	"visible_reflectance":       {kind: KindFraction, conds: solarConds, solar: true},
 	"nir_reflectance":           {kind: KindFraction, conds: solarConds, solar: true},
-	"thermal_emittance":         {kind: KindFraction, conds: []condKey{condThermalBand, condTemperature}, thermal: true},
-	"window_emittance":          {kind: KindFraction, conds: []condKey{condWindowBand, condTemperature}, window: true},
+	"thermal_emittance":         {kind: KindFraction, conds: []condition{condThermalBand, condTemperature}, thermal: true},
+	"window_emittance":          {kind: KindFraction, conds: []condition{condWindowBand, condTemperature}, window: true},
 	"cooling_power_w_m2":        {kind: KindPower, conds: dayPower, solar: true, cooling: true},
 	"cooling_power_night_w_m2":  {kind: KindPower, conds: nightPower, cooling: true},
 	"equilibrium_delta_k":       {kind: KindTemperatureDifference, conds: dayBalance, solar: true, cooling: true},
@@ -222,6 +153,17 @@ var figureSpecs = map[string]figureSpec{
 	"sri_low":                   {kind: KindIndex, conds: sriConds, solar: true, thermal: true, sri: true, hc: WindLow},
 	"sri_medium":                {kind: KindIndex, conds: sriConds, solar: true, thermal: true, sri: true, hc: WindMedium},
 	"sri_high":                  {kind: KindIndex, conds: sriConds, solar: true, thermal: true, sri: true, hc: WindHigh},
+}
+
+// FigureKeys returns the keys of every figure [Compute] gives, sorted: the
+// figures a claim may name.
+func FigureKeys() []string {
+	keys := make([]string, 0, len(figureSpecs))
+	for k := range figureSpecs {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	return keys
 }
 
 // specOf returns how claims of figure f are judged: from the table, or,
@@ -249,11 +191,8 @@ func kindOfUnit(unit string) Kind {
 	case "K":
 		return KindTemperatureDifference
 	}
-	return KindQuantity
+	return kindQuantity
 }
-
-// KindOf returns the kind of figure f.
-func KindOf(f Figure) Kind { return specOf(f).kind }
 
 // basisOf describes the conditions c that a figure of spec s rests on,
 // each part marked stated or default (marks false: no marks), and returns
@@ -268,11 +207,11 @@ func (s figureSpec) basisOf(c Conditions, stated map[string]bool, marks bool) (s
 		}
 		switch {
 		case !marks:
-		case stated[string(k)]:
+		case stated[k.key()]:
 			w += " (stated)"
 		default:
 			w += " (default)"
-			defaulted = append(defaulted, string(k))
+			defaulted = append(defaulted, k.key())
 		}
 		parts = append(parts, w)
 	}

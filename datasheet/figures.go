@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 
 	"skysheet/spectra"
@@ -12,94 +13,6 @@ import (
 // SchemaVersion is the version of the figures JSON schema. Keys are only
 // ever added within a version.
 const SchemaVersion = 1
-
-// Conditions are the bands, weightings and temperatures behind the figures.
-// Every field is echoed in the output. The zero value is not useful; start
-// from [DefaultConditions].
-type Conditions struct {
-	SolarBandNM   [2]float64 `json:"solar_band_nm" yaml:"solar_band_nm"`
-	SolarSpectrum string     `json:"solar_spectrum" yaml:"solar_spectrum"` // "global" or "direct"
-	ThermalBandUM [2]float64 `json:"thermal_band_um" yaml:"thermal_band_um"`
-	WindowBandUM  [2]float64 `json:"window_band_um" yaml:"window_band_um"`
-	TemperatureK  float64    `json:"temperature_k" yaml:"temperature_k"`
-	ClosureTol    float64    `json:"closure_tolerance" yaml:"closure_tolerance"`
-
-	// The cooling conditions: air temperature, dew point (drives the clear
-	// sky), solar irradiance, non-radiative heat-transfer coefficient and the
-	// thermal exchange band of the cooling integrals.
-	AmbientK       float64    `json:"ambient_k" yaml:"ambient_k"`
-	DewPointC      float64    `json:"dew_point_c" yaml:"dew_point_c"`
-	IrradianceWm2  float64    `json:"irradiance_w_m2" yaml:"irradiance_w_m2"`
-	HWm2K          float64    `json:"h_w_m2k" yaml:"h_w_m2k"`
-	ExchangeBandUM [2]float64 `json:"exchange_band_um" yaml:"exchange_band_um"`
-	// Sky is "" or [SkyClear] for the clear two-band sky, else the name of a
-	// spectral sky file whose content is SkySpectrum (a T column: zenith
-	// atmospheric transmittance).
-	Sky         string            `json:"sky" yaml:"sky"`
-	SkySpectrum *spectra.Spectrum `json:"-" yaml:"-"`
-}
-
-// DefaultConditions returns the defaults: solar 280–2500 nm under the ASTM
-// G173-03 global tilt spectrum; thermal 2.5–25 µm and window 8–13 µm under a
-// 300 K blackbody; closure tolerance 0.02; for cooling, air at 300 K, dew
-// point 10 °C, 1000 W/m² of sun, h = 6 W m⁻² K⁻¹, exchange band 2.5–100 µm
-// and the clear two-band sky.
-func DefaultConditions() Conditions {
-	return Conditions{
-		SolarBandNM:    [2]float64{280, 2500},
-		SolarSpectrum:  "global",
-		ThermalBandUM:  [2]float64{2.5, 25},
-		WindowBandUM:   [2]float64{8, 13},
-		TemperatureK:   300,
-		ClosureTol:     spectra.DefaultClosureTol,
-		AmbientK:       300,
-		DewPointC:      10,
-		IrradianceWm2:  1000,
-		HWm2K:          6,
-		ExchangeBandUM: [2]float64{2.5, 100},
-		Sky:            SkyClear,
-	}
-}
-
-// Validate reports the first condition that makes no sense.
-func (c Conditions) Validate() error {
-	band := func(name string, b [2]float64, unit string) error {
-		if !(b[0] > 0 && b[1] > b[0]) || math.IsInf(b[1], 0) {
-			return fmt.Errorf("%s %g–%g %s: want 0 < low < high", name, b[0], b[1], unit)
-		}
-		if unit == "µm" && b[1] > MaxBandUM {
-			return fmt.Errorf("%s %g–%g µm: the upper end may not pass %g µm", name, b[0], b[1], float64(MaxBandUM))
-		}
-		return nil
-	}
-	if err := band("solar band", c.SolarBandNM, "nm"); err != nil {
-		return err
-	}
-	if r := spectra.SolarRangeNM; c.SolarBandNM[0] < r.Lo || c.SolarBandNM[1] > r.Hi {
-		return fmt.Errorf("solar band %g–%g nm: the ASTM G173-03 tables cover only %g–%g nm", c.SolarBandNM[0], c.SolarBandNM[1], r.Lo, r.Hi)
-	}
-	if _, err := spectra.Solar(c.SolarSpectrum); err != nil {
-		return err
-	}
-	if err := band("thermal band", c.ThermalBandUM, "µm"); err != nil {
-		return err
-	}
-	if err := band("window band", c.WindowBandUM, "µm"); err != nil {
-		return err
-	}
-	if !(c.TemperatureK > 0) || math.IsInf(c.TemperatureK, 0) {
-		return fmt.Errorf("temperature %g K: want a positive temperature in kelvin", c.TemperatureK)
-	}
-	if !(c.ClosureTol >= 0) || c.ClosureTol > 1 {
-		return fmt.Errorf("closure tolerance %g: want 0..1", c.ClosureTol)
-	}
-	return c.validateCooling()
-}
-
-// MaxBandUM is the longest wavelength, in µm, that a thermal, window or
-// exchange band may reach: far beyond any thermal figure, and a bound on the
-// work a Planck-weighted integral may take.
-const MaxBandUM = 1000
 
 // Num is a figure's value; NaN means "not computable" and is written as
 // JSON null.
@@ -131,18 +44,57 @@ func (n *Num) UnmarshalJSON(b []byte) error {
 // Figure describes one computed figure: what it is, its value and the basis
 // behind it.
 type Figure struct {
-	Key       string     `json:"key"`   // JSON key of the value, e.g. "solar_reflectance"
-	Label     string     `json:"label"` // in words, e.g. "Solar reflectance"
-	Value     Num        `json:"value"`
-	Unit      string     `json:"unit"` // "" for a fraction
-	Band      [2]float64 `json:"band,omitempty"`
-	BandUnit  string     `json:"band_unit,omitempty"` // "nm" or "µm"
-	Weighting string     `json:"weighting,omitempty"`
-	Coverage  Num        `json:"coverage"` // fraction of the weighting covered by data
+	Key   string // JSON key of the value, e.g. "solar_reflectance"
+	Label string // in words, e.g. "Solar reflectance"
+	Value Num
+	Unit  string // "" for a fraction or an index
+	// Band is the band the figure rests on, in nm; BandUnit is the unit
+	// it is written in: "nm" or "µm".
+	Band      spectra.Interval
+	BandUnit  string
+	Weighting string
+	Coverage  Num // fraction of the weighting covered by data
 	// Uncertainty is the figure's standard uncertainty when the data give
 	// uncertainties of R or T.
+	Uncertainty *Uncertainty
+}
+
+// figureJSON is the JSON form of a Figure.
+type figureJSON struct {
+	Key         string       `json:"key"`
+	Label       string       `json:"label"`
+	Value       Num          `json:"value"`
+	Unit        string       `json:"unit"`
+	Band        [2]float64   `json:"band,omitempty"`
+	BandUnit    string       `json:"band_unit,omitempty"`
+	Weighting   string       `json:"weighting,omitempty"`
+	Coverage    Num          `json:"coverage"`
 	Uncertainty *Uncertainty `json:"uncertainty,omitempty"`
 }
+
+// MarshalJSON writes the figure with its band in its band unit.
+func (f Figure) MarshalJSON() ([]byte, error) {
+	return json.Marshal(figureJSON{f.Key, f.Label, f.Value, f.Unit, bandOut(f.Band, f.BandUnit), f.BandUnit,
+		f.Weighting, f.Coverage, f.Uncertainty})
+}
+
+// UnmarshalJSON reads the form MarshalJSON writes.
+func (f *Figure) UnmarshalJSON(b []byte) error {
+	var j figureJSON
+	if err := json.Unmarshal(b, &j); err != nil {
+		return err
+	}
+	*f = Figure{j.Key, j.Label, j.Value, j.Unit, bandFrom(j.Band[0], j.Band[1], j.BandUnit), j.BandUnit,
+		j.Weighting, j.Coverage, j.Uncertainty}
+	return nil
+}
+
+// Kind returns what the figure's number is (see the kind table).
+func (f Figure) Kind() Kind { return specOf(f).kind }
+
+// BandText writes the figure's band in its band unit, e.g. "2.5–25 µm";
+// "" when it has none.
+func (f Figure) BandText() string { return bandText(f.Band, f.BandUnit) }
 
 // ClosureReport is the JSON form of the closure check.
 type ClosureReport struct {
@@ -199,8 +151,8 @@ type Figures struct {
 	Provenance             Provenance    `json:"provenance"`
 }
 
-// Cautions go with every set of figures.
-var Cautions = []string{
+// cautions go with every set of figures.
+var cautions = []string{
 	"Computed figures are not a certification.",
 	"Real performance depends on site, weather, soiling and ageing; the sky, air and wind here are stated conditions, not a forecast.",
 	"Building, roofing and energy decisions defer to local codes and licensed professionals.",
@@ -218,8 +170,10 @@ func (f *Figures) Figure(key string) (Figure, bool) {
 
 // Compute returns the figures of s under conditions c: the band figures,
 // the cooling figures under the stated sky, the SRI and, when s gives
-// standard uncertainties of R or T, the uncertainty of every figure.
-func Compute(s *spectra.Spectrum, c Conditions) (*Figures, error) {
+// standard uncertainties of R or T, the uncertainty of every figure. o is
+// s resolved by [spectra.Resolve] with the closure tolerance of c; when its
+// tolerance differs, s is resolved again.
+func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, error) {
 	if err := c.Validate(); err != nil {
 		return nil, err
 	}
@@ -227,10 +181,12 @@ func Compute(s *spectra.Spectrum, c Conditions) (*Figures, error) {
 	if err != nil {
 		return nil, err
 	}
-	sun, _ := spectra.Solar(c.SolarSpectrum)
-	o := spectra.Resolve(s, c.ClosureTol)
-	m := &cooling{c: c, sky: sky, sun: sun, g: newCoolGrid(o.A, sky, c.ExchangeBandUM, c.AmbientK)}
-	f, grads := computeOptics(o, c)
+	if o.Closure.Tolerance != c.ClosureTol {
+		o = spectra.Resolve(s, c.ClosureTol)
+	}
+	sun := c.SolarSpectrum.Weighting()
+	m := &cooling{c: c, sky: sky, sun: sun, g: newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK)}
+	f, grads, used := computeOptics(o, c)
 	f.Splices = append([]spectra.SpliceRecord{}, s.Splices...)
 	m.addCooling(f, o, grads, true)
 	addSRI(f, grads)
@@ -245,33 +201,38 @@ func Compute(s *spectra.Spectrum, c Conditions) (*Figures, error) {
 		return out
 	}
 	addUncertainty(f, s, o, grads, c.ClosureTol, eval)
-	f.Cautions = append([]string(nil), Cautions...)
-	f.Provenance = provenanceOf(s, f)
+	f.Cautions = append([]string(nil), cautions...)
+	f.Provenance = provenanceOf(s, f, used)
 	return f, nil
 }
 
-// computeOptics returns the band figures of o and the gradient of each with
-// respect to the values of o's series.
-func computeOptics(o spectra.Optics, c Conditions) (*Figures, map[string]gradient) {
+// computeOptics returns the band figures of o, the gradient of each with
+// respect to the values of o's series, and the weightings they use, each
+// once, in order of first use.
+func computeOptics(o spectra.Optics, c Conditions) (*Figures, map[string]gradient, []spectra.Weighting) {
 	f := &Figures{Schema: SchemaVersion, Conditions: c, Assumptions: append([]string(nil), o.Assumptions...)}
 	grads := map[string]gradient{}
-	sun, _ := spectra.Solar(c.SolarSpectrum)
-	lo, hi := c.SolarBandNM[0], c.SolarBandNM[1]
-	add := func(key, label string, q spectra.Quantity, x spectra.Series, w spectra.Weighting, a, b, scale float64, unit string) spectra.Mean {
-		m := spectra.BandMean(x, w, a*scale, b*scale)
+	var used []spectra.Weighting
+	sun, bb := c.Weightings()
+	lo, hi := c.SolarBand.Lo, c.SolarBand.Hi
+	add := func(key, label string, q spectra.Quantity, x spectra.Series, w spectra.Weighting, band spectra.Interval, unit string) spectra.Mean {
+		m := spectra.BandMean(x, w, band.Lo, band.Hi)
 		f.Figures = append(f.Figures, Figure{Key: key, Label: label, Value: Num(m.Value),
-			Band: [2]float64{a, b}, BandUnit: unit, Weighting: w.String(), Coverage: Num(m.Coverage)})
+			Band: band, BandUnit: unit, Weighting: w.String(), Coverage: Num(m.Coverage)})
+		if !slices.Contains(used, w) {
+			used = append(used, w)
+		}
 		var g gradient
 		g[q] = m.Coef
 		grads[key] = g
 		return m
 	}
-	rs := add("solar_reflectance", "Solar reflectance", spectra.R, o.R, sun, lo, hi, 1, "nm")
-	ts := add("solar_transmittance", "Solar transmittance", spectra.T, o.T, sun, lo, hi, 1, "nm")
+	rs := add("solar_reflectance", "Solar reflectance", spectra.R, o.R, sun, c.SolarBand, "nm")
+	ts := add("solar_transmittance", "Solar transmittance", spectra.T, o.T, sun, c.SolarBand, "nm")
 	f.SolarReflectance, f.SolarTransmittance, f.SolarCoverage = Num(rs.Value), Num(ts.Value), Num(rs.Coverage)
 	f.SolarAbsorptance = Num(1 - rs.Value - ts.Value)
 	f.Figures = append(f.Figures, Figure{Key: "solar_absorptance", Label: "Solar absorptance (1 − R − T)",
-		Value: f.SolarAbsorptance, Band: [2]float64{lo, hi}, BandUnit: "nm", Weighting: sun.String(),
+		Value: f.SolarAbsorptance, Band: c.SolarBand, BandUnit: "nm", Weighting: sun.String(),
 		Coverage: Num(math.Min(rs.Coverage, ts.Coverage))})
 	grads["solar_absorptance"] = grads["solar_reflectance"].scale(-1).plus(-1, grads["solar_transmittance"])
 	sub := func(key, label string, a, b float64) Num {
@@ -279,14 +240,13 @@ func computeOptics(o spectra.Optics, c Conditions) (*Figures, map[string]gradien
 		if !(b > a) {
 			return Num(math.NaN())
 		}
-		return Num(add(key, label, spectra.R, o.R, sun, a, b, 1, "nm").Value)
+		return Num(add(key, label, spectra.R, o.R, sun, spectra.Interval{Lo: a, Hi: b}, "nm").Value)
 	}
 	f.UVReflectance = sub("uv_reflectance", "Solar-weighted UV reflectance", lo, 400)
 	f.VisibleReflectance = sub("visible_reflectance", "Solar-weighted visible reflectance", 400, 700)
 	f.NIRReflectance = sub("nir_reflectance", "Solar-weighted near-IR reflectance", 700, hi)
-	bb := spectra.Blackbody{K: c.TemperatureK}
-	te := add("thermal_emittance", "Thermal emittance", spectra.A, o.A, bb, c.ThermalBandUM[0], c.ThermalBandUM[1], 1000, "µm")
-	we := add("window_emittance", "Atmospheric-window emittance", spectra.A, o.A, bb, c.WindowBandUM[0], c.WindowBandUM[1], 1000, "µm")
+	te := add("thermal_emittance", "Thermal emittance", spectra.A, o.A, bb, c.ThermalBand, "µm")
+	we := add("window_emittance", "Atmospheric-window emittance", spectra.A, o.A, bb, c.WindowBand, "µm")
 	f.ThermalEmittance, f.ThermalCoverage = Num(te.Value), Num(te.Coverage)
 	f.WindowEmittance, f.WindowCoverage = Num(we.Value), Num(we.Coverage)
 
@@ -301,9 +261,9 @@ func computeOptics(o spectra.Optics, c Conditions) (*Figures, map[string]gradien
 		fmt.Sprintf("Planck weighting sampled at the data wavelengths plus every %g nm (trapezoid rule).", spectra.PlanckStepNM))
 	for _, x := range f.Figures {
 		if cov := float64(x.Coverage); cov < 1 && !math.IsNaN(float64(x.Value)) {
-			f.Assumptions = append(f.Assumptions, fmt.Sprintf("%s covers %.1f %% of its weighting over %g–%g %s: the mean is over the covered part only.",
-				x.Label, 100*cov, x.Band[0], x.Band[1], x.BandUnit))
+			f.Assumptions = append(f.Assumptions, fmt.Sprintf("%s covers %.1f %% of its weighting over %s: the mean is over the covered part only.",
+				x.Label, 100*cov, x.BandText()))
 		}
 	}
-	return f, grads
+	return f, grads, used
 }

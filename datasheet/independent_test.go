@@ -181,7 +181,7 @@ func TestIndependentRecomputation(t *testing.T) {
 		return 100 * (tb - steady(alpha, thermal, hc)) / (tb - tw)
 	}
 
-	f, err := Compute(whiteSample(t), DefaultConditions())
+	f, err := compute(whiteSample(t), DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -6,6 +6,8 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
+	"unicode"
+	"unicode/utf8"
 
 	"skysheet/spectra"
 )
@@ -14,6 +16,9 @@ import (
 type JudgeInput struct {
 	// Spectrum is the material's measured data.
 	Spectrum *spectra.Spectrum
+	// Optics, when not nil, are Spectrum resolved by [spectra.Resolve]:
+	// claims reuse them instead of resolving the spectrum again.
+	Optics *spectra.Optics
 	// Conditions are the material's defaults: the library's, with the
 	// material's own overrides. A claim's basis overrides them.
 	Conditions Conditions
@@ -28,16 +33,18 @@ type JudgeInput struct {
 	Angle string
 }
 
-// Judge decides whether the spectrum in m supports claim c. It never
+// judgeOne decides whether the spectrum in m supports claim c. It never
 // panics on bad claims or data: those give [CannotCheck] with the reason.
-func Judge(c Claim, m JudgeInput) Verdict {
+func judgeOne(c Claim, m JudgeInput) Verdict {
 	return newJudge(m).judge(c)
 }
 
-// JudgeAll judges the claims cs against m, in order, as [Judge] does. It
-// computes the figures once for each distinct basis among the claims, and
-// not at all for the material's own conditions when m.Figures holds them.
-// The result is never nil.
+// JudgeAll decides, for each claim of cs in order, whether the spectrum in
+// m supports it. It never panics on bad claims or data: those give
+// [CannotCheck] with the reason. It computes the figures once for each
+// distinct basis among the claims, and not at all for the material's own
+// conditions when m.Figures holds them; it resolves the spectrum only when
+// m.Optics is nil. The result is never nil.
 func JudgeAll(cs []Claim, m JudgeInput) []Verdict {
 	j := newJudge(m)
 	out := make([]Verdict, len(cs))
@@ -52,8 +59,9 @@ type judge struct {
 	in     JudgeInput
 	figs   map[Conditions]computed // by basis; Conditions is comparable
 	optics map[float64]spectra.Optics
-	// computes counts the calls of Compute, for the tests.
-	computes int
+	// computes and resolves count the calls of Compute and
+	// spectra.Resolve, for the tests.
+	computes, resolves int
 }
 
 // computed is the result of Compute on one basis.
@@ -76,7 +84,7 @@ func (j *judge) figures(c Conditions) (*Figures, error) {
 		return r.f, r.err
 	}
 	j.computes++
-	f, err := Compute(j.in.Spectrum, c)
+	f, err := Compute(j.in.Spectrum, j.resolved(c.ClosureTol), c)
 	j.figs[c] = computed{f, err}
 	return f, err
 }
@@ -86,6 +94,11 @@ func (j *judge) resolved(tol float64) spectra.Optics {
 	if o, ok := j.optics[tol]; ok {
 		return o
 	}
+	if o := j.in.Optics; o != nil && o.Closure.Tolerance == tol {
+		j.optics[tol] = *o
+		return *o
+	}
+	j.resolves++
 	o := spectra.Resolve(j.in.Spectrum, tol)
 	j.optics[tol] = o
 	return o
@@ -137,18 +150,21 @@ func (j *judge) judge(c Claim) Verdict {
 	if c.Tolerance > 0 {
 		v.Allowed, v.AllowedFrom = Num(c.Tolerance), "claimed tolerance"
 	} else {
-		uFig, from := defaultUncertainty(spec.kind, c.Value, fig.Unit)
+		uFig, from := assumedUncertainty(spec.kind, c.Value, fig.Unit)
 		uRound := roundingUncertainty(c.Value)
-		v.Allowed = Num(CoverageFactor * math.Hypot(uFig, uRound))
+		v.Allowed = Num(coverageFactor * math.Hypot(uFig, uRound))
 		v.AllowedFrom = fmt.Sprintf("expanded uncertainty (k = %g) of the figure's standard uncertainty %s (%s) and the claim's rounding %s",
-			CoverageFactor, v.Format(uFig), from, v.Format(uRound))
+			coverageFactor, v.Format(uFig), from, v.Format(uRound))
 	}
 	o := j.resolved(cond.ClosureTol) // for the pitfalls
 	v.Pitfalls = pitfalls(c, fig, spec, f, o, float64(v.Allowed))
 
 	computed := float64(fig.Value)
 	if math.IsNaN(computed) {
-		return cannot("The data do not reach the %s at all.", bandWords(fig))
+		if band, _ := missingBand(spec, fig, f); band != "" {
+			return cannot("The data do not reach the band %s at all.", band)
+		}
+		return cannot("%s.", capitalize(errNoRoot.Error()))
 	}
 	v.Difference = Num(computed - c.Value)
 	// A cooling verdict always says over what the emittance is held
@@ -167,7 +183,7 @@ func (j *judge) judge(c Claim) Verdict {
 	if spec.transmittance && !m.Spectrum.Has(spectra.T) {
 		return cannot("No transmittance was measured, and the opaque assumption (T = 0) cannot confirm a claimed transmittance.")
 	}
-	if c.Basis.AngleDeg > 0 && !math.IsNaN(ma) && math.Abs(c.Basis.AngleDeg-ma) > MaxAngleDiffDeg {
+	if c.Basis.AngleDeg > 0 && !math.IsNaN(ma) && math.Abs(c.Basis.AngleDeg-ma) > maxAngleDiffDeg {
 		return say(CannotCheck, "The claim is for %g° incidence but the spectra were measured at %g°.", c.Basis.AngleDeg, ma)
 	}
 	if why := outOfRange(c.Value, spec, fig, cond, v); why != "" {
@@ -200,36 +216,94 @@ func (f *Figures) figure(err error, key string) (Figure, bool) {
 	return f.Figure(key)
 }
 
-// defaultUncertainty returns the standard uncertainty assumed for a figure
+// missingBand returns the band where figure fig of f, of spec, lacks the
+// data it rests on, in words, and whether that band is in the infrared:
+// for an SRI, the thermal band when the emittance is missing, else the
+// solar band; for a cooling figure, the exchange band when no emittance
+// reaches it, else the solar band when the absorbed sunlight is unknown;
+// else the figure's own band. It returns "" for a cooling figure that has
+// its data but no equilibrium.
+func missingBand(spec figureSpec, fig Figure, f *Figures) (string, bool) {
+	nan := func(key string) bool {
+		x, ok := f.Figure(key)
+		return ok && math.IsNaN(float64(x.Value))
+	}
+	c := f.Conditions
+	switch {
+	case spec.sri:
+		if nan("thermal_emittance") {
+			return bandText(c.ThermalBand, "µm"), true
+		}
+		return bandText(c.SolarBand, "nm"), false
+	case spec.cooling:
+		if nan("cooling_power_night_w_m2") {
+			return bandText(c.ExchangeBand, "µm"), true
+		}
+		if spec.solar && nan("solar_absorptance") {
+			return bandText(c.SolarBand, "nm"), false
+		}
+		return "", false
+	}
+	return fig.BandText(), fig.BandUnit == "µm"
+}
+
+// Missing says why figure key of f has no value, for a reader: "no
+// infrared data over 2.5–25 µm", "no solar data over 280–2500 nm", or why
+// no equilibrium was found; "" when the figure has a value or f has no
+// such figure.
+func (f *Figures) Missing(key string) string {
+	fig, ok := f.Figure(key)
+	if !ok || !math.IsNaN(float64(fig.Value)) {
+		return ""
+	}
+	band, infrared := missingBand(specOf(fig), fig, f)
+	switch {
+	case band == "":
+		return errNoRoot.Error()
+	case infrared:
+		return "no infrared data over " + band
+	}
+	return "no solar data over " + band
+}
+
+func capitalize(s string) string {
+	if s == "" {
+		return s
+	}
+	r, n := utf8.DecodeRuneInString(s)
+	return string(unicode.ToUpper(r)) + s[n:]
+}
+
+// assumedUncertainty returns the standard uncertainty assumed for a figure
 // of kind k when no tolerance is claimed, and where it comes from.
-func defaultUncertainty(k Kind, claimed float64, unit string) (float64, string) {
+func assumedUncertainty(k Kind, claimed float64, unit string) (float64, string) {
 	floor := 0.0
 	switch k {
 	case KindFraction:
-		return DefaultUncertainty, "default for fractions, common practice, no source"
+		return defaultUncertainty, "default for fractions, common practice, no source"
 	case KindIndex:
-		return DefaultIndexUncertainty, "default for an index such as the SRI, common practice, no source"
+		return defaultIndexUncertainty, "default for an index such as the SRI, common practice, no source"
 	case KindPower:
-		floor = DefaultPowerFloorWm2
+		floor = defaultPowerFloorWm2
 	case KindTemperatureDifference:
-		floor = DefaultDeltaFloorK
+		floor = defaultDeltaFloorK
 	}
-	u := DefaultRelUncertainty * math.Abs(claimed)
+	u := defaultRelUncertainty * math.Abs(claimed)
 	if u >= floor {
-		return u, fmt.Sprintf("default %g %% of the claim, common practice, no source", 100*DefaultRelUncertainty)
+		return u, fmt.Sprintf("default %g %% of the claim, common practice, no source", 100*defaultRelUncertainty)
 	}
 	return floor, fmt.Sprintf("default floor %s, as %g %% of the claim is less, common practice, no source",
-		k.Format(floor, unit), 100*DefaultRelUncertainty)
+		k.Format(floor, unit), 100*defaultRelUncertainty)
 }
 
 // coverageShort returns why the data cover too little of what figure fig
 // (of f) rests on, or "".
 func coverageShort(spec figureSpec, fig Figure, f *Figures) string {
 	short := func(cov float64, what, rests string) string {
-		if cov >= MinCoverage {
+		if cov >= minCoverage {
 			return ""
 		}
-		return fmt.Sprintf("The data cover only %.1f %% of %s%s (at least %g %% is needed).", 100*cov, what, rests, 100*MinCoverage)
+		return fmt.Sprintf("The data cover only %.1f %% of %s%s (at least %g %% is needed).", 100*cov, what, rests, 100*minCoverage)
 	}
 	input := func(key, rests string) string {
 		x, ok := f.Figure(key)
@@ -241,9 +315,9 @@ func coverageShort(spec figureSpec, fig Figure, f *Figures) string {
 	switch {
 	case spec.cooling:
 		c := f.Conditions
-		lo, hi := coolingCheckBand(c)
-		if s := short(measuredShare(f, lo, hi), fmt.Sprintf("the blackbody power at %g K over %g–%g µm", c.AmbientK, lo, hi),
-			fmt.Sprintf(", the part of the exchange band %g–%g µm that must be measured", c.ExchangeBandUM[0], c.ExchangeBandUM[1])); s != "" {
+		check := coolingCheckBand(c)
+		if s := short(measuredShare(f, check), fmt.Sprintf("the blackbody power at %g K over %s", c.AmbientK, bandText(check, "µm")),
+			fmt.Sprintf(", the part of the exchange band %s that must be measured", bandText(c.ExchangeBand, "µm"))); s != "" {
 			return s
 		}
 		if spec.solar {
@@ -259,31 +333,31 @@ func coverageShort(spec figureSpec, fig Figure, f *Figures) string {
 	return short(float64(fig.Coverage), fmt.Sprintf("the %s weighting over the %s", fig.Weighting, bandWords(fig)), "")
 }
 
-// coolingCheckBand returns the part of c's exchange band, µm, that the
-// data must cover for a cooling claim: CoolingCheckLoUM–CoolingCheckHiUM
-// within it, or the whole band when they do not overlap.
-func coolingCheckBand(c Conditions) (lo, hi float64) {
-	lo, hi = math.Max(CoolingCheckLoUM, c.ExchangeBandUM[0]), math.Min(CoolingCheckHiUM, c.ExchangeBandUM[1])
+// coolingCheckBand returns the part of c's exchange band that the data
+// must cover for a cooling claim: CoolingCheckLoUM–CoolingCheckHiUM within
+// it, or the whole band when they do not overlap.
+func coolingCheckBand(c Conditions) spectra.Interval {
+	lo, hi := math.Max(umToNM(coolingCheckLoUM), c.ExchangeBand.Lo), math.Min(umToNM(coolingCheckHiUM), c.ExchangeBand.Hi)
 	if !(hi > lo) {
-		return c.ExchangeBandUM[0], c.ExchangeBandUM[1]
+		return c.ExchangeBand
 	}
-	return lo, hi
+	return spectra.Interval{Lo: lo, Hi: hi}
 }
 
 // measuredShare returns the share of the blackbody power at the air
-// temperature over lo–hi µm that falls where f's emittance is measured,
-// not held constant: 1 − (power over the held bands within lo–hi) / (power
-// over lo–hi), with the blackbody fractions of Planck's law.
-func measuredShare(f *Figures, lo, hi float64) float64 {
+// temperature over band that falls where f's emittance is measured, not
+// held constant: 1 − (power over the held bands within it) / (power over
+// it), with the blackbody fractions of Planck's law.
+func measuredShare(f *Figures, band spectra.Interval) float64 {
 	t := f.Conditions.AmbientK
-	total := BlackbodyFraction(lo*1000, hi*1000, t)
+	total := blackbodyFraction(band.Lo, band.Hi, t)
 	if !(total > 0) {
 		return 0
 	}
 	var held float64
-	for _, h := range f.CoolingTerms.HeldBandsUM {
-		if a, b := math.Max(h[0], lo), math.Min(h[1], hi); b > a {
-			held += BlackbodyFraction(a*1000, b*1000, t)
+	for _, h := range f.CoolingTerms.HeldBands {
+		if a, b := math.Max(h.Lo, band.Lo), math.Min(h.Hi, band.Hi); b > a {
+			held += blackbodyFraction(a, b, t)
 		}
 	}
 	return math.Max(0, math.Min(1, 1-held/total))
@@ -294,18 +368,18 @@ func measuredShare(f *Figures, lo, hi float64) float64 {
 // blackbody power that part carries.
 func heldClause(f *Figures) string {
 	ct := f.CoolingTerms
-	if len(ct.HeldBandsUM) == 0 {
+	if len(ct.HeldBands) == 0 {
 		return ", with the emittance measured over the whole exchange band"
 	}
 	return fmt.Sprintf(", with the emittance held constant over %s (%.1f %% of the exchange band's blackbody power at %g K)",
-		heldBands(ct.HeldBandsUM), 100*float64(ct.HeldShare), f.Conditions.AmbientK)
+		heldBands(ct.HeldBands), 100*float64(ct.HeldShare), f.Conditions.AmbientK)
 }
 
 // heldBands lists held bands in µm: "25–100 µm" or "20–21 and 25–100 µm".
-func heldBands(bs [][2]float64) string {
+func heldBands(bs []spectra.Interval) string {
 	parts := make([]string, len(bs))
 	for i, b := range bs {
-		parts[i] = fmtHundredths(b[0]) + "–" + fmtHundredths(b[1])
+		parts[i] = fmtHundredths(b.Lo/1000) + "–" + fmtHundredths(b.Hi/1000)
 	}
 	s := parts[len(parts)-1]
 	if len(parts) > 1 {
@@ -327,14 +401,14 @@ func outOfRange(x float64, spec figureSpec, fig Figure, c Conditions, v Verdict)
 	got := v.Format(float64(fig.Value))
 	switch spec.kind {
 	case KindFraction:
-		if math.Abs(x) <= MaxFraction {
+		if math.Abs(x) <= maxFraction {
 			return ""
 		}
 		if looksLikePercent(x, fig, spec) {
 			return fmt.Sprintf("The claim %s looks like a percentage: the figure is a fraction, and %g %% is %s against the computed %s.",
-				claim, x, FormatValue(x/100, ""), got)
+				claim, x, formatValue(x/100, ""), got)
 		}
-		return fmt.Sprintf("The claim %s is out of range for a fraction (at most %g), and the spectra give %s.", claim, MaxFraction, got)
+		return fmt.Sprintf("The claim %s is out of range for a fraction (at most %g), and the spectra give %s.", claim, maxFraction, got)
 	case KindIndex:
 		if !(spec.hc > 0) {
 			return ""
@@ -383,7 +457,7 @@ const percentNear = 0.05
 // MaxFraction and, read as a percentage, a fraction near the computed
 // value (or any fraction when none was computed).
 func looksLikePercent(v float64, fig Figure, spec figureSpec) bool {
-	if spec.kind != KindFraction || !(math.Abs(v) > MaxFraction && math.Abs(v) <= 100*MaxFraction) {
+	if spec.kind != KindFraction || !(math.Abs(v) > maxFraction && math.Abs(v) <= 100*maxFraction) {
 		return false
 	}
 	x := float64(fig.Value)
@@ -399,53 +473,53 @@ func pitfalls(c Claim, fig Figure, spec figureSpec, f *Figures, o spectra.Optics
 	}
 	cond := f.Conditions
 	if looksLikePercent(c.Value, fig, spec) {
-		add(PitfallPercent, "The claim %s is above 1 for a fraction: it looks like a percentage (%s).",
-			strconv.FormatFloat(c.Value, 'g', -1, 64), FormatValue(c.Value/100, ""))
+		add(pitfallPercent, "The claim %s is above 1 for a fraction: it looks like a percentage (%s).",
+			strconv.FormatFloat(c.Value, 'g', -1, 64), formatValue(c.Value/100, ""))
 	}
 	if spec.solar {
-		x, from := o.R, cond.SolarBandNM[0]
+		x, from := o.R, cond.SolarBand.Lo
 		if spec.transmittance {
 			x = o.T
 		}
 		if fig.BandUnit == "nm" {
-			from = fig.Band[0]
+			from = fig.Band.Lo
 		}
-		if lo, _ := x.Range(); lo > SolarStartNM && lo > from {
-			add(PitfallSolarLateStart, "The solar data start at %s nm, after %g nm: the ultraviolet from %g to %s nm is not measured.",
-				fmtHundredths(lo), SolarStartNM, from, fmtHundredths(lo))
+		if lo, _ := x.Range(); lo > solarStartNM && lo > from {
+			add(pitfallSolarLateStart, "The solar data start at %s nm, after %g nm: the ultraviolet from %g to %s nm is not measured.",
+				fmtHundredths(lo), solarStartNM, from, fmtHundredths(lo))
 		}
 	}
 	if spec.thermal || spec.window {
-		band := cond.ThermalBandUM
+		band := cond.ThermalBand
 		if spec.window {
-			band = cond.WindowBandUM
+			band = cond.WindowBand
 		}
-		if _, hi := o.A.Range(); hi < band[1]*1000 {
-			add(PitfallInfraredShort, "The infrared data stop at %s µm, before the top of the %g–%g µm band.",
-				fmtHundredths(hi/1000), band[0], band[1])
+		if _, hi := o.A.Range(); hi < band.Hi {
+			add(pitfallInfraredShort, "The infrared data stop at %s µm, before the top of the %s band.",
+				fmtHundredths(hi/1000), bandText(band, "µm"))
 		}
 	}
-	if ct := f.CoolingTerms; spec.cooling && float64(ct.HeldShare) > MaxHeldShare {
-		add(PitfallHeldLarge, "The emittance is held constant beyond the data over %s, which carries %.1f %% of the exchange band's blackbody power at %g K (more than %g %%): the figure rests on that assumption.",
-			heldBands(ct.HeldBandsUM), 100*float64(ct.HeldShare), cond.AmbientK, 100*MaxHeldShare)
+	if ct := f.CoolingTerms; spec.cooling && float64(ct.HeldShare) > maxHeldShare {
+		add(pitfallHeldLarge, "The emittance is held constant beyond the data over %s, which carries %.1f %% of the exchange band's blackbody power at %g K (more than %g %%): the figure rests on that assumption.",
+			heldBands(ct.HeldBands), 100*float64(ct.HeldShare), cond.AmbientK, 100*maxHeldShare)
 	}
 	if spec.sri && f.SRI.Translucent {
-		add(PitfallSRITranslucent, "The sample transmits %s of sunlight (above 0.01): the SRI of ASTM E1980 is defined for opaque surfaces.",
-			FormatValue(float64(f.SolarTransmittance), ""))
+		add(pitfallSRITranslucent, "The sample transmits %s of sunlight (above 0.01): the SRI of ASTM E1980 is defined for opaque surfaces.",
+			formatValue(float64(f.SolarTransmittance), ""))
 	}
 	cl := o.Closure
-	worst, what := cl.Excess, fmt.Sprintf("R+T exceeds 1 by %s at %s nm", FormatValue(cl.Excess, ""), fmtHundredths(cl.ExcessNM))
+	worst, what := cl.Excess, fmt.Sprintf("R+T exceeds 1 by %s at %s nm", formatValue(cl.Excess, ""), fmtHundredths(cl.ExcessNM))
 	if cl.Checked && cl.Residual > worst {
-		worst, what = cl.Residual, fmt.Sprintf("|R+T+A−1| reaches %s at %s nm", FormatValue(cl.Residual, ""), fmtHundredths(cl.ResidualNM))
+		worst, what = cl.Residual, fmt.Sprintf("|R+T+A−1| reaches %s at %s nm", formatValue(cl.Residual, ""), fmtHundredths(cl.ResidualNM))
 	}
 	if -cl.Min > worst {
-		worst, what = -cl.Min, fmt.Sprintf("%s is %s at %s nm", cl.MinOf, FormatValue(cl.Min, ""), fmtHundredths(cl.MinNM))
+		worst, what = -cl.Min, fmt.Sprintf("%s is %s at %s nm", cl.MinOf, formatValue(cl.Min, ""), fmtHundredths(cl.MinNM))
 	}
 	// The allowance as a fraction: as it is for a fraction, through the
 	// absorptance an index unit stands for, else relative to the claim.
 	limit, how := allowed, ""
 	switch {
-	case spec.kind == KindFraction || spec.kind == KindUnknown:
+	case spec.kind == KindFraction || spec.kind == kindUnknown:
 	case spec.kind == KindIndex:
 		limit = allowed * alphaPerIndex
 		how = fmt.Sprintf(" (±%s index units at %g of absorptance per unit)", KindIndex.Format(allowed, ""), alphaPerIndex)
@@ -454,7 +528,7 @@ func pitfalls(c Claim, fig Figure, spec figureSpec, f *Figures, o spectra.Optics
 		how = " (relative to the claimed value)"
 	}
 	if worst > limit+edge {
-		add(PitfallClosure, "The data break closure by more than the claim's ±%s%s: %s.", FormatValue(limit, ""), how, what)
+		add(pitfallClosure, "The data break closure by more than the claim's ±%s%s: %s.", formatValue(limit, ""), how, what)
 	}
 	return out
 }
@@ -504,9 +578,9 @@ func basisWords(s figureSpec, c Conditions, stated map[string]bool, claimAngle, 
 func basisShort(s figureSpec, d Figure, c Conditions) string {
 	switch {
 	case s.kind == KindFraction && s.solar:
-		return fmt.Sprintf("%g–%g nm, %s", c.SolarBandNM[0], c.SolarBandNM[1], d.Weighting)
+		return bandText(c.SolarBand, "nm") + ", " + d.Weighting
 	case s.thermal && !s.sri, s.window:
-		return fmt.Sprintf("%g–%g µm, %s", d.Band[0], d.Band[1], d.Weighting)
+		return d.BandText() + ", " + d.Weighting
 	}
 	w, _ := s.basisOf(c, nil, false)
 	return w

@@ -77,17 +77,17 @@ func TestJudgeKinds(t *testing.T) {
 		// wind.
 		{name: "SRI 100 of the standard white, low wind", files: white,
 			claim:  Claim{Figure: "sri_low", Value: 100},
-			status: Supported, kind: KindIndex, computed: 100, allowed: u2(DefaultIndexUncertainty, 0.5),
+			status: Supported, kind: KindIndex, computed: 100, allowed: u2(defaultIndexUncertainty, 0.5),
 			reason: []string{"The spectra give 100.0 against the claimed 100.0"}, not: []string{"fraction", "percentage"}, tol: 1e-6},
 		{name: "SRI 100 of the standard white, medium wind", files: white,
 			claim:  Claim{Figure: "sri_medium", Value: 100, Tolerance: 0.5},
 			status: Supported, kind: KindIndex, computed: 100, allowed: 0.5, tol: 1e-6},
 		{name: "SRI 0 of the standard black, high wind", files: black,
 			claim:  Claim{Figure: "sri_high", Value: 0},
-			status: Supported, kind: KindIndex, computed: 0, allowed: u2(DefaultIndexUncertainty, 0.5), tol: 1e-6},
+			status: Supported, kind: KindIndex, computed: 0, allowed: u2(defaultIndexUncertainty, 0.5), tol: 1e-6},
 		{name: "SRI 110 claimed for the standard white", files: white,
 			claim:  Claim{Figure: "sri_medium", Value: 110},
-			status: NotSupported, kind: KindIndex, computed: 100, allowed: u2(DefaultIndexUncertainty, 0.5),
+			status: NotSupported, kind: KindIndex, computed: 100, allowed: u2(defaultIndexUncertainty, 0.5),
 			reason: []string{"The spectra give 100.0, 10.0 below the claimed 110.0, outside ±2.1"},
 			not:    []string{"fraction", "percentage"}, tol: 1e-6},
 		{name: "SRI 96 is no percentage", files: white,
@@ -101,7 +101,7 @@ func TestJudgeKinds(t *testing.T) {
 			files: []string{"a.csv", uvvisWhite, "b.csv", ftir90to20},
 			claim: Claim{Figure: "sri_low", Value: 100},
 			// coverage 88.4 %: Planck 300 K share of 2.5–20 in 2.5–25 µm (see TestJudge)
-			status: CannotCheck, kind: KindIndex, computed: 100, allowed: math.NaN(), pitfalls: []PitfallCode{PitfallInfraredShort},
+			status: CannotCheck, kind: KindIndex, computed: 100, allowed: math.NaN(), pitfalls: []PitfallCode{pitfallInfraredShort},
 			reason: []string{"88.4 %", "on which the index's thermal emittance rests"}, tol: 1e-6},
 
 		// A blackbody surface (ε = 1 measured over 0.25–25 µm, held
@@ -113,11 +113,11 @@ func TestJudgeKinds(t *testing.T) {
 			reason: []string{"W/m² against the claimed", "with the emittance held constant over 25–100 µm ("}, tol: 0.01},
 		{name: "day cooling power of a blackbody", blackIR: true,
 			claim:  Claim{Figure: "cooling_power_w_m2", Value: 100},
-			status: NotSupported, kind: KindPower, computed: night - 1000, allowed: u2(DefaultRelUncertainty*100, 0.5),
+			status: NotSupported, kind: KindPower, computed: night - 1000, allowed: u2(defaultRelUncertainty*100, 0.5),
 			reason: []string{"below the claimed 100.0 W/m²", "held constant over 25–100 µm"}, tol: 0.01},
 		{name: "small power claim takes the floor", blackIR: true,
 			claim:  Claim{Figure: "cooling_power_night_w_m2", Value: 20},
-			status: NotSupported, kind: KindPower, computed: night, allowed: u2(DefaultPowerFloorWm2, 0.5), tol: 0.01},
+			status: NotSupported, kind: KindPower, computed: night, allowed: u2(defaultPowerFloorWm2, 0.5), tol: 0.01},
 		{name: "power above σT⁴", blackIR: true,
 			claim:  Claim{Figure: "cooling_power_night_w_m2", Value: 600, Tolerance: 10},
 			status: NotSupported, kind: KindPower, computed: night, allowed: 10,
@@ -132,18 +132,18 @@ func TestJudgeKinds(t *testing.T) {
 			reason: []string{"at or below absolute zero"}},
 		{name: "small temperature claim takes the floor", blackIR: true,
 			claim: Claim{Figure: "equilibrium_delta_night_k", Value: 5},
-			kind:  KindTemperatureDifference, status: -1, computed: math.NaN(), allowed: u2(DefaultDeltaFloorK, 0.5), tol: 1e-12},
+			kind:  KindTemperatureDifference, status: -1, computed: math.NaN(), allowed: u2(defaultDeltaFloorK, 0.5), tol: 1e-12},
 		{name: "cooling with infrared data to 20 µm", files: []string{"a.csv", uvvisWhite, "b.csv", ftir90to20},
 			claim: Claim{Figure: "cooling_power_night_w_m2", Value: 50, Tolerance: 5},
 			// Planck at 300 K: 2.5–20 µm holds 88.4 % of 2.5–25 µm (as above),
 			// and 20–100 µm more than 25 % of 2.5–100 µm (checked below by
 			// Simpson integration).
-			status: CannotCheck, kind: KindPower, computed: math.NaN(), allowed: 5, pitfalls: []PitfallCode{PitfallHeldLarge},
+			status: CannotCheck, kind: KindPower, computed: math.NaN(), allowed: 5, pitfalls: []PitfallCode{pitfallHeldLarge},
 			reason: []string{"cover only 88.4 % of the blackbody power at 300 K over 2.5–25 µm", "held constant over 20–100 µm"}},
 		{name: "daytime cooling with solar data from 450 nm", files: []string{"a.csv", uvvis450, "b.csv", ftir90},
 			claim: Claim{Figure: "cooling_power_w_m2", Value: 50, Tolerance: 5},
 			// the night figure does not rest on the solar data
-			status: CannotCheck, kind: KindPower, computed: math.NaN(), allowed: 5, pitfalls: []PitfallCode{PitfallSolarLateStart},
+			status: CannotCheck, kind: KindPower, computed: math.NaN(), allowed: 5, pitfalls: []PitfallCode{pitfallSolarLateStart},
 			reason: []string{"weighting over the band 280–2500 nm, on which the absorbed sunlight rests", "held constant over 25–100 µm"}},
 		{name: "night cooling with solar data from 450 nm", files: []string{"a.csv", uvvis450, "b.csv", ftir90},
 			claim:  Claim{Figure: "cooling_power_night_w_m2", Value: 50, Tolerance: 500},
@@ -153,7 +153,7 @@ func TestJudgeKinds(t *testing.T) {
 			claim: Claim{Figure: "cooling_power_night_w_m2", Value: 50, Tolerance: 500},
 			// Planck at 220 K: more than 25 % of 2.5–100 µm lies beyond 25 µm
 			// (checked below by Simpson integration).
-			status: Supported, kind: KindPower, computed: math.NaN(), allowed: 500, pitfalls: []PitfallCode{PitfallHeldLarge}},
+			status: Supported, kind: KindPower, computed: math.NaN(), allowed: 500, pitfalls: []PitfallCode{pitfallHeldLarge}},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			s := constSample(1, 250, 25000)
@@ -164,7 +164,7 @@ func TestJudgeKinds(t *testing.T) {
 			if tt.cond != nil {
 				tt.cond(&c)
 			}
-			v := Judge(tt.claim, JudgeInput{Spectrum: s, Conditions: c})
+			v := judgeOne(tt.claim, JudgeInput{Spectrum: s, Conditions: c})
 			if tt.status >= 0 && v.Status != tt.status {
 				t.Errorf("status = %v, want %v (reason: %s)", v.Status, tt.status, v.Reason)
 			}
@@ -200,18 +200,18 @@ func TestJudgeKinds(t *testing.T) {
 			}
 		})
 	}
-	if share := bbShare(20000, 100000, 2500, 100000, 300); !(share > MaxHeldShare) {
-		t.Errorf("data to 20 µm hold %.3f of the band, not more than %g", share, MaxHeldShare)
+	if share := bbShare(20000, 100000, 2500, 100000, 300); !(share > maxHeldShare) {
+		t.Errorf("data to 20 µm hold %.3f of the band, not more than %g", share, maxHeldShare)
 	}
-	if share := bbShare(25000, 100000, 2500, 100000, 220); !(share > MaxHeldShare) {
-		t.Errorf("the cold case holds %.3f of the band beyond 25 µm, not more than %g", share, MaxHeldShare)
+	if share := bbShare(25000, 100000, 2500, 100000, 220); !(share > maxHeldShare) {
+		t.Errorf("the cold case holds %.3f of the band beyond 25 µm, not more than %g", share, maxHeldShare)
 	}
 }
 
 // TestHeldShareInReason checks the held share a cooling verdict states
 // against Simpson integration of Planck's law.
 func TestHeldShareInReason(t *testing.T) {
-	v := Judge(Claim{Figure: "cooling_power_night_w_m2", Value: 70, Tolerance: 50},
+	v := judgeOne(Claim{Figure: "cooling_power_night_w_m2", Value: 70, Tolerance: 50},
 		JudgeInput{Spectrum: constSample(1, 250, 25000), Conditions: DefaultConditions()})
 	m := regexp.MustCompile(`held constant over 25–100 µm \(([0-9.]+) % of the exchange band's blackbody power at 300 K\)`).FindStringSubmatch(v.Reason)
 	if m == nil {
@@ -224,8 +224,8 @@ func TestHeldShareInReason(t *testing.T) {
 	}
 	// Measured across the whole band: said so.
 	c := DefaultConditions()
-	c.ExchangeBandUM = [2]float64{2.5, 25}
-	v = Judge(Claim{Figure: "cooling_power_night_w_m2", Value: 70, Tolerance: 50}, JudgeInput{Spectrum: constSample(1, 250, 25000), Conditions: c})
+	c.ExchangeBand = spectra.Interval{Lo: 2500, Hi: 25000}
+	v = judgeOne(Claim{Figure: "cooling_power_night_w_m2", Value: 70, Tolerance: 50}, JudgeInput{Spectrum: constSample(1, 250, 25000), Conditions: c})
 	if !strings.Contains(v.Reason, "with the emittance measured over the whole exchange band.") {
 		t.Errorf("reason %q", v.Reason)
 	}
@@ -267,7 +267,7 @@ func TestJudgeBasisWordsByKind(t *testing.T) {
 			[]string{"solar_band_nm", "solar_spectrum", "thermal_band_um"},
 			"On the default basis (solar band 280–2500 nm, ASTM G173-03 global tilt spectrum, thermal band 2.5–25 µm, blackbody at 300 K, ASTM E1980 low wind, h_c 5 W m⁻² K⁻¹) the spectra give 100.0."},
 	} {
-		v := Judge(tt.claim, JudgeInput{Spectrum: s, Conditions: DefaultConditions()})
+		v := judgeOne(tt.claim, JudgeInput{Spectrum: s, Conditions: DefaultConditions()})
 		if v.Basis != tt.basis {
 			t.Errorf("%s: basis\n %q, want\n %q", tt.claim.Figure, v.Basis, tt.basis)
 		}
@@ -285,8 +285,8 @@ func TestJudgeBasisWordsByKind(t *testing.T) {
 		t.Fatal(err)
 	}
 	c := DefaultConditions()
-	c.Sky, c.SkySpectrum = "invented-sky.csv", sky
-	v := Judge(Claim{Figure: "cooling_power_night_w_m2", Value: 50}, JudgeInput{Spectrum: s, Conditions: c})
+	c.Sky = SkyChoice{File: "invented-sky.csv", Spectrum: sky}
+	v := judgeOne(Claim{Figure: "cooling_power_night_w_m2", Value: 50}, JudgeInput{Spectrum: s, Conditions: c})
 	if want := "spectral sky invented-sky.csv (default), air at 300 K (default), exchange band 2.5–100 µm (default)"; v.Basis != want {
 		t.Errorf("spectral sky: basis %q, want %q", v.Basis, want)
 	}
@@ -295,7 +295,7 @@ func TestJudgeBasisWordsByKind(t *testing.T) {
 // TestFigureSpecs checks that every figure Compute returns has its entry
 // in the table of kinds, with a kind that fits its unit.
 func TestFigureSpecs(t *testing.T) {
-	f, err := Compute(sample(t, "a.csv", uvvisWhite, "b.csv", ftir90), DefaultConditions())
+	f, err := compute(sample(t, "a.csv", uvvisWhite, "b.csv", ftir90), DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -311,8 +311,8 @@ func TestFigureSpecs(t *testing.T) {
 		if u, ok := units[s.kind]; !ok || u != x.Unit {
 			t.Errorf("figure %q: kind %v does not fit unit %q", x.Key, s.kind, x.Unit)
 		}
-		if KindOf(x) != s.kind {
-			t.Errorf("KindOf(%q) = %v, want %v", x.Key, KindOf(x), s.kind)
+		if x.Kind() != s.kind {
+			t.Errorf("Kind of %q = %v, want %v", x.Key, x.Kind(), s.kind)
 		}
 	}
 	for k := range figureSpecs {
@@ -321,12 +321,12 @@ func TestFigureSpecs(t *testing.T) {
 		}
 	}
 	// A figure the table lacks takes its kind from its unit.
-	for unit, want := range map[string]Kind{"": KindFraction, "W/m²": KindPower, "K": KindTemperatureDifference, "nm": KindQuantity} {
-		if got := KindOf(Figure{Key: "later_figure", Unit: unit}); got != want {
-			t.Errorf("KindOf(unit %q) = %v, want %v", unit, got, want)
+	for unit, want := range map[string]Kind{"": KindFraction, "W/m²": KindPower, "K": KindTemperatureDifference, "nm": kindQuantity} {
+		if got := (Figure{Key: "later_figure", Unit: unit}).Kind(); got != want {
+			t.Errorf("Kind of unit %q = %v, want %v", unit, got, want)
 		}
 	}
-	for _, k := range []Kind{KindFraction, KindIndex, KindPower, KindTemperatureDifference, KindQuantity} {
+	for _, k := range []Kind{KindFraction, KindIndex, KindPower, KindTemperatureDifference, kindQuantity} {
 		b, err := k.MarshalText()
 		var back Kind
 		if err != nil || back.UnmarshalText(b) != nil || back != k {
@@ -367,20 +367,20 @@ func TestJudgeReusesFigures(t *testing.T) {
 
 func testReuse(t *testing.T, s *spectra.Spectrum) {
 	c := DefaultConditions()
-	own, err := Compute(s, c)
+	own, err := compute(s, c)
 	if err != nil {
 		t.Fatal(err)
 	}
 	// Compute is deterministic, so reusing its result is the same as
 	// computing again.
-	again, _ := Compute(s, c)
+	again, _ := compute(s, c)
 	if a, b := mustJSON(t, own), mustJSON(t, again); !bytes.Equal(a, b) {
 		t.Fatal("two computations of the same figures differ")
 	}
 	// Recomputed for every claim, as one Judge call per claim does.
 	var fresh []Verdict
 	for _, cl := range figuresClaims {
-		fresh = append(fresh, Judge(cl, JudgeInput{Spectrum: s, Conditions: c, Angle: "8°"}))
+		fresh = append(fresh, judgeOne(cl, JudgeInput{Spectrum: s, Conditions: c, Angle: "8°"}))
 	}
 	want := mustJSON(t, fresh)
 
@@ -409,6 +409,19 @@ func testReuse(t *testing.T, s *spectra.Spectrum) {
 			t.Errorf("%s: JudgeAll differs from Judge", tt.name)
 		}
 	}
+	// Given the resolved optics, the judge resolves nothing itself.
+	o := spectra.Resolve(s, c.ClosureTol)
+	j := newJudge(JudgeInput{Spectrum: s, Optics: &o, Conditions: c, Figures: own, Angle: "8°"})
+	var vs []Verdict
+	for _, cl := range figuresClaims {
+		vs = append(vs, j.judge(cl))
+	}
+	if j.resolves != 0 {
+		t.Errorf("with the optics: resolved %d times, want 0", j.resolves)
+	}
+	if got := mustJSON(t, vs); !bytes.Equal(got, want) {
+		t.Errorf("with the optics: verdicts differ from those recomputed per claim")
+	}
 	if vs := JudgeAll(nil, JudgeInput{Spectrum: s, Conditions: c}); vs == nil || len(vs) != 0 {
 		t.Errorf("JudgeAll(nil) = %#v, want empty", vs)
 	}
@@ -427,7 +440,7 @@ func mustJSON(t *testing.T, v any) []byte {
 func other(t *testing.T, s *spectra.Spectrum) *Figures {
 	c := DefaultConditions()
 	c.TemperatureK = 330
-	f, err := Compute(s, c)
+	f, err := compute(s, c)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -439,7 +452,7 @@ func other(t *testing.T, s *spectra.Spectrum) *Figures {
 func BenchmarkJudgeAll(b *testing.B) {
 	s := whiteSample(b)
 	c := DefaultConditions()
-	own, err := Compute(s, c)
+	own, err := compute(s, c)
 	if err != nil {
 		b.Fatal(err)
 	}
@@ -449,7 +462,7 @@ func BenchmarkJudgeAll(b *testing.B) {
 		figures *Figures
 		judge   func(Claim, JudgeInput) Verdict
 	}{
-		{"per claim, recomputed", nil, Judge},
+		{"per claim, recomputed", nil, judgeOne},
 		{"JudgeAll, own figures reused", own, nil},
 	} {
 		b.Run(bb.name, func(b *testing.B) {
@@ -483,10 +496,10 @@ func TestSRITranslucentPitfall(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		v := Judge(Claim{Figure: "sri_medium", Value: 50}, JudgeInput{Spectrum: s, Conditions: DefaultConditions()})
+		v := judgeOne(Claim{Figure: "sri_medium", Value: 50}, JudgeInput{Spectrum: s, Conditions: DefaultConditions()})
 		got := false
 		for _, p := range v.Pitfalls {
-			got = got || p.Code == PitfallSRITranslucent
+			got = got || p.Code == pitfallSRITranslucent
 		}
 		if got != tt.want {
 			t.Errorf("%s: pitfall %v, want %v (pitfalls %+v)", tt.name, got, tt.want, v.Pitfalls)

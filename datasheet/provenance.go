@@ -1,8 +1,6 @@
 package datasheet
 
 import (
-	"strings"
-
 	"skysheet/spectra"
 )
 
@@ -36,8 +34,9 @@ type Settings struct {
 	Schema           int     `json:"schema"`
 }
 
-// provenanceOf returns the provenance of figures f computed from s.
-func provenanceOf(s *spectra.Spectrum, f *Figures) Provenance {
+// provenanceOf returns the provenance of figures f computed from s with
+// the weightings used.
+func provenanceOf(s *spectra.Spectrum, f *Figures, used []spectra.Weighting) Provenance {
 	p := Provenance{
 		Software: "skysheet " + Version(),
 		Inputs:   append([]spectra.Input{}, s.Inputs...),
@@ -48,17 +47,11 @@ func provenanceOf(s *spectra.Spectrum, f *Figures) Provenance {
 			Schema:           SchemaVersion,
 		},
 	}
-	seen := map[string]bool{}
-	for _, x := range f.Figures {
-		w := x.Weighting
-		if seen[w] || !(strings.HasPrefix(w, "ASTM G173") || strings.HasPrefix(w, "Planck")) {
-			continue
-		}
-		seen[w] = true
+	for _, w := range used {
 		p.Weightings = append(p.Weightings, weightingSource(w))
 	}
-	if c := f.Conditions; c.SkySpectrum != nil {
-		p.Inputs = append(p.Inputs, c.SkySpectrum.Inputs...)
+	if sky := f.Conditions.Sky; sky.Spectrum != nil {
+		p.Inputs = append(p.Inputs, sky.Spectrum.Inputs...)
 	}
 	if f.Sky.Model != "" {
 		p.Weightings = append(p.Weightings, WeightingSource{Name: "sky: " + f.Sky.Model,
@@ -67,16 +60,17 @@ func provenanceOf(s *spectra.Spectrum, f *Figures) Provenance {
 	return p
 }
 
-// weightingSource describes a weighting named as by its String method.
-func weightingSource(name string) WeightingSource {
-	switch {
-	case strings.HasPrefix(name, "ASTM G173-03"):
-		return WeightingSource{Name: name,
-			Version: "ASTM G173-03 (reapproved 2012) reference spectra, 280–4000 nm, embedded table",
-			SHA256:  spectra.SolarTableSHA256()}
-	case strings.HasPrefix(name, "Planck"):
-		return WeightingSource{Name: name,
+// weightingSource describes weighting w and the data set or law behind it.
+func weightingSource(w spectra.Weighting) WeightingSource {
+	switch w := w.(type) {
+	case spectra.Blackbody:
+		return WeightingSource{Name: w.String(),
 			Version: "Planck's law with the exact SI constants h, c, k (CODATA 2018)"}
 	}
-	return WeightingSource{Name: name, Version: "computed by skysheet " + Version()}
+	if w == spectra.SolarGlobal() || w == spectra.SolarDirect() {
+		return WeightingSource{Name: w.String(),
+			Version: "ASTM G173-03 (reapproved 2012) reference spectra, 280–4000 nm, embedded table",
+			SHA256:  spectra.SolarTableSHA256()}
+	}
+	return WeightingSource{Name: w.String(), Version: "computed by skysheet " + Version()}
 }

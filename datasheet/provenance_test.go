@@ -18,11 +18,11 @@ func TestProvenance(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	s, err := spectra.Merge(a, b)
+	s, err := spectra.Join([]*spectra.Spectrum{a, b}, spectra.SpliceOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	f, err := Compute(s, DefaultConditions())
+	f, err := compute(s, DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}

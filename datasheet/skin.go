@@ -114,17 +114,18 @@ type Fabric struct {
 // spectrum. It returns an error when the spectra share no range or leave a
 // band without data.
 func FabricOnSkin(fabric, skin spectra.Optics, s SkinSetting) (Fabric, error) {
-	sun, err := spectra.Solar(s.SolarSpectrum)
-	if err != nil {
+	var spec SolarSpectrum
+	if err := spec.UnmarshalText([]byte(s.SolarSpectrum)); err != nil {
 		return Fabric{}, err
 	}
+	sun := spec.Weighting()
 	if b := s.SolarBandNM; !(b[0] >= spectra.SolarRangeNM.Lo && b[1] > b[0] && b[1] <= spectra.SolarRangeNM.Hi) {
 		return Fabric{}, fmt.Errorf("solar band %g–%g nm is %w: want a band within the G173 tables' %g–%g nm",
 			b[0], b[1], ErrSystemInput, spectra.SolarRangeNM.Lo, spectra.SolarRangeNM.Hi)
 	}
-	if b := s.LongWaveBandUM; !(b[0] > 0 && b[1] > b[0] && b[1] <= MaxBandUM) || !(s.LongWaveK > 0 && s.LongWaveK < 1e4) {
+	if b := s.LongWaveBandUM; !(b[0] > 0 && b[1] > b[0] && b[1] <= maxBandUM) || !(s.LongWaveK > 0 && s.LongWaveK < 1e4) {
 		return Fabric{}, fmt.Errorf("long-wave band %g–%g µm at %g K is %w: want 0 < low < high ≤ %g µm and a temperature in kelvin",
-			b[0], b[1], s.LongWaveK, ErrSystemInput, float64(MaxBandUM))
+			b[0], b[1], s.LongWaveK, ErrSystemInput, float64(maxBandUM))
 	}
 	pair, err := spectra.Stack([]spectra.Optics{fabric, skin})
 	if err != nil {

@@ -1,6 +1,7 @@
 package datasheet
 
 import (
+	"encoding/json"
 	"fmt"
 	"math"
 	"sort"
@@ -10,30 +11,30 @@ import (
 	"skysheet/spectra"
 )
 
-// The sky models.
+// The sky models, as [Sky.Model] names them.
 const (
-	// SkyClear is the clear two-band sky: emissivity 1 outside the
+	// skyModelClear is the clear two-band sky: emissivity 1 outside the
 	// atmospheric window and a constant inside it, set by the dew point.
-	SkyClear = "clear two-band"
-	// SkySpectral is a sky given as a zenith transmittance spectrum.
-	SkySpectral = "spectral"
+	skyModelClear = skyClearWords
+	// skyModelSpectral is a sky given as a zenith transmittance spectrum.
+	skyModelSpectral = "spectral"
 )
 
 // skyRangeNM bounds the broadband integrals of a spectral sky, nm.
 var skyRangeNM = [2]float64{1000, 1e6}
 
-// SkyWindowUM is the atmospheric window of the clear two-band sky, µm. It is
-// part of the sky model and does not follow the window band of the
+// skyWindow is the atmospheric window of the clear two-band sky, 8–13 µm.
+// It is part of the sky model and does not follow the window band of the
 // emittance figures.
-var SkyWindowUM = [2]float64{8, 13}
+var skyWindow = spectra.Interval{Lo: 8000, Hi: 13000}
 
 // Sky is the downward thermal emission of the atmosphere seen by a
 // horizontal surface: a zenith spectral emissivity ε_sky(λ, 0) and its
 // angular extension ε_sky(λ, θ) = 1 − (1 − ε_sky(λ, 0))^(1/cos θ). Its
 // exported fields describe it for the output; build one with [ClearSky] or
-// [SpectralSky].
+// spectralSky.
 type Sky struct {
-	Model  string `json:"model"`            // SkyClear or SkySpectral
+	Model  string `json:"model"`            // "clear two-band" or "spectral"
 	Source string `json:"source,omitempty"` // spectral sky: the file it came from
 	// AmbientK is the air temperature whose blackbody weights the broadband
 	// figures below.
@@ -52,8 +53,10 @@ type Sky struct {
 	// HemisphericalEmissivity is the effective emissivity of the whole sky
 	// hemisphere seen by a horizontal blackbody at AmbientK: downward flux
 	// over σT⁴.
-	HemisphericalEmissivity Num        `json:"hemispherical_emissivity"`
-	WindowUM                [2]float64 `json:"window_um"`
+	HemisphericalEmissivity Num `json:"hemispherical_emissivity"`
+	// Window is the atmospheric window of the two-band model, in nm
+	// (written in µm: window_um).
+	Window spectra.Interval `json:"-"`
 	// WindowFraction is F_w, the fraction of blackbody emission at AmbientK
 	// that falls in the window.
 	WindowFraction Num `json:"window_fraction"`
@@ -69,6 +72,45 @@ type Sky struct {
 	zenith spectra.Series // spectral sky: ε(λ, 0) = 1 − T(λ), clipped to 0..1
 }
 
+// skyWindowUM is skyWindow in µm, for sentences.
+var skyWindowUM = bandOut(skyWindow, "µm")
+
+// skyJSON is the JSON form of a Sky.
+type skyJSON struct {
+	Model                   string     `json:"model"`
+	Source                  string     `json:"source,omitempty"`
+	AmbientK                float64    `json:"ambient_k"`
+	DewPointC               Num        `json:"dew_point_c"`
+	Emissivity              Num        `json:"emissivity"`
+	ZenithEmissivity        Num        `json:"zenith_emissivity"`
+	HemisphericalEmissivity Num        `json:"hemispherical_emissivity"`
+	WindowUM                [2]float64 `json:"window_um"`
+	WindowFraction          Num        `json:"window_fraction"`
+	WindowEmissivity        Num        `json:"window_emissivity"`
+	Clamped                 bool       `json:"clamped"`
+	Description             string     `json:"description"`
+}
+
+// MarshalJSON writes the sky with its window in µm.
+func (k Sky) MarshalJSON() ([]byte, error) {
+	return json.Marshal(skyJSON{k.Model, k.Source, k.AmbientK, k.DewPointC, k.Emissivity, k.ZenithEmissivity,
+		k.HemisphericalEmissivity, bandOut(k.Window, "µm"), k.WindowFraction, k.WindowEmissivity, k.Clamped, k.Description})
+}
+
+// UnmarshalJSON reads the form MarshalJSON writes; a spectral sky's data
+// are not in it.
+func (k *Sky) UnmarshalJSON(b []byte) error {
+	var j skyJSON
+	if err := json.Unmarshal(b, &j); err != nil {
+		return err
+	}
+	*k = Sky{Model: j.Model, Source: j.Source, AmbientK: j.AmbientK, DewPointC: j.DewPointC, Emissivity: j.Emissivity,
+		ZenithEmissivity: j.ZenithEmissivity, HemisphericalEmissivity: j.HemisphericalEmissivity,
+		Window: bandFrom(j.WindowUM[0], j.WindowUM[1], "µm"), WindowFraction: j.WindowFraction,
+		WindowEmissivity: j.WindowEmissivity, Clamped: j.Clamped, Description: j.Description}
+	return nil
+}
+
 // BerdahlMartin returns the broadband clear-sky emissivity for a dew point
 // in °C after Berdahl & Martin (1984): 0.711 + 0.56 x + 0.73 x², x = T_dp/100.
 func BerdahlMartin(dewPointC float64) float64 {
@@ -77,23 +119,23 @@ func BerdahlMartin(dewPointC float64) float64 {
 }
 
 // ClearSky returns the clear two-band sky for a dew point (°C) at an air
-// temperature (K): emissivity 1 outside [SkyWindowUM] and ε_w inside, with
+// temperature (K): emissivity 1 outside 8–13 µm and ε_w inside, with
 // ε_w = 1 − (1 − ε_sky)/F_w clamped to 0..1, so that the blackbody-weighted
 // mean at ambientK equals ε_sky from [BerdahlMartin] unless clamped.
 func ClearSky(dewPointC, ambientK float64) Sky {
 	eps := BerdahlMartin(dewPointC)
-	fw := BlackbodyFraction(SkyWindowUM[0]*1000, SkyWindowUM[1]*1000, ambientK)
+	fw := blackbodyFraction(skyWindow.Lo, skyWindow.Hi, ambientK)
 	ew := 1 - (1-eps)/fw
 	clamped := ew < 0 || ew > 1
 	ew = math.Max(0, math.Min(1, ew))
-	k := Sky{Model: SkyClear, AmbientK: ambientK, DewPointC: Num(dewPointC), Emissivity: Num(eps),
-		WindowUM: SkyWindowUM, WindowFraction: Num(fw), WindowEmissivity: Num(ew), Clamped: clamped}
+	k := Sky{Model: skyModelClear, AmbientK: ambientK, DewPointC: Num(dewPointC), Emissivity: Num(eps),
+		Window: skyWindow, WindowFraction: Num(fw), WindowEmissivity: Num(ew), Clamped: clamped}
 	k.ZenithEmissivity = Num(1 - fw*(1-ew))
 	k.HemisphericalEmissivity = Num(1 - fw*(1-hemispherical(ew)))
 	k.Description = fmt.Sprintf("Clear sky, two-band model: broadband emissivity %.3f from the dew point %s °C "+
 		"(Berdahl & Martin 1984 correlation); emissivity 1 outside %g–%g µm and %.3f inside, so that a %s K "+
 		"blackbody sees the same mean (%.1f %% of its emission falls in %g–%g µm).",
-		eps, fmtG(dewPointC), SkyWindowUM[0], SkyWindowUM[1], ew, fmtG(ambientK), 100*fw, SkyWindowUM[0], SkyWindowUM[1])
+		eps, fmtG(dewPointC), skyWindowUM[0], skyWindowUM[1], ew, fmtG(ambientK), 100*fw, skyWindowUM[0], skyWindowUM[1])
 	if clamped {
 		k.Description += fmt.Sprintf(" The window emissivity this asks for, %.3f, lies outside 0..1 and was clamped "+
 			"to %g: the sky's broadband emissivity becomes %.3f instead of %.3f.", 1-(1-eps)/fw, ew, float64(k.ZenithEmissivity), eps)
@@ -102,12 +144,12 @@ func ClearSky(dewPointC, ambientK float64) Sky {
 	return k
 }
 
-// SpectralSky returns the sky whose zenith emissivity is 1 − T(λ), T being
+// spectralSky returns the sky whose zenith emissivity is 1 − T(λ), T being
 // the transmittance column of s (values clipped to 0..1). Outside the
 // wavelengths s covers, and across gaps between its segments, the sky is
 // taken as opaque (emissivity 1). name is the file name, for the output.
 // It returns an error when s has no usable T column.
-func SpectralSky(s *spectra.Spectrum, name string, ambientK float64) (Sky, error) {
+func spectralSky(s *spectra.Spectrum, name string, ambientK float64) (Sky, error) {
 	if s == nil {
 		return Sky{}, fmt.Errorf("sky %s: no spectrum", name)
 	}
@@ -126,8 +168,8 @@ func SpectralSky(s *spectra.Spectrum, name string, ambientK float64) (Sky, error
 	if z.Empty() {
 		return Sky{}, fmt.Errorf("sky %s: %w: a spectral sky needs a T column (zenith atmospheric transmittance) with at least two values in one segment", name, spectra.ErrNoValues)
 	}
-	k := Sky{Model: SkySpectral, Source: name, AmbientK: ambientK, DewPointC: Num(math.NaN()),
-		WindowUM: SkyWindowUM, zenith: z}
+	k := Sky{Model: skyModelSpectral, Source: name, AmbientK: ambientK, DewPointC: Num(math.NaN()),
+		Window: skyWindow, zenith: z}
 	// Broadband figures: ε = 1 outside the file, so only the transmitted
 	// part needs integrating over the file's range, and only where a
 	// blackbody near ambient emits at all (1 µm to 1 mm: outside, less than
@@ -149,8 +191,8 @@ func SpectralSky(s *spectra.Spectrum, name string, ambientK float64) (Sky, error
 	k.ZenithEmissivity = Num(1 - math.Pi*transZ/sigmaT4)
 	k.Emissivity = k.ZenithEmissivity
 	k.HemisphericalEmissivity = Num(1 - math.Pi*transH/sigmaT4)
-	wlo, whi := SkyWindowUM[0]*1000, SkyWindowUM[1]*1000
-	k.WindowFraction = Num(BlackbodyFraction(wlo, whi, ambientK))
+	wlo, whi := skyWindow.Lo, skyWindow.Hi
+	k.WindowFraction = Num(blackbodyFraction(wlo, whi, ambientK))
 	var we, w float64
 	wg := skyGrid(k, wlo, whi)
 	for i := 1; i < len(wg); i++ {
@@ -163,7 +205,7 @@ func SpectralSky(s *spectra.Spectrum, name string, ambientK float64) (Sky, error
 	k.WindowEmissivity = Num(we / w)
 	k.Description = fmt.Sprintf("Spectral sky from %s: zenith emissivity 1 − T(λ) from its transmittance column over %s–%s µm, "+
 		"opaque (emissivity 1) outside that range; blackbody-weighted zenith emissivity %.3f at %s K, %.3f over %g–%g µm.",
-		name, fmtG(lo/1000), fmtG(hi/1000), float64(k.ZenithEmissivity), fmtG(ambientK), float64(k.WindowEmissivity), SkyWindowUM[0], SkyWindowUM[1])
+		name, fmtG(lo/1000), fmtG(hi/1000), float64(k.ZenithEmissivity), fmtG(ambientK), float64(k.WindowEmissivity), skyWindowUM[0], skyWindowUM[1])
 	k.Description += angularWords(k)
 	return k, nil
 }
@@ -174,32 +216,32 @@ func angularWords(k Sky) string {
 		"does not depend on angle.", float64(k.HemisphericalEmissivity))
 }
 
-// Zenith returns the zenith spectral emissivity ε_sky(λ, 0) at nm. At a
+// zenithAt returns the zenith spectral emissivity ε_sky(λ, 0) at nm. At a
 // window edge of the two-band sky it returns the window value.
-func (k Sky) Zenith(nm float64) float64 {
-	if k.Model == SkySpectral {
+func (k Sky) zenithAt(nm float64) float64 {
+	if k.Model == skyModelSpectral {
 		if v, ok := k.zenith.At(nm); ok {
 			return v
 		}
 		return 1
 	}
-	if nm >= SkyWindowUM[0]*1000 && nm <= SkyWindowUM[1]*1000 {
+	if nm >= skyWindow.Lo && nm <= skyWindow.Hi {
 		return float64(k.WindowEmissivity)
 	}
 	return 1
 }
 
-// At returns ε_sky(λ, θ) = 1 − (1 − ε_sky(λ, 0))^(1/cos θ) for a direction
+// at returns ε_sky(λ, θ) = 1 − (1 − ε_sky(λ, 0))^(1/cos θ) for a direction
 // with cos θ = mu, 0 < mu ≤ 1.
-func (k Sky) At(nm, mu float64) float64 {
-	return 1 - math.Pow(1-k.Zenith(nm), 1/mu)
+func (k Sky) at(nm, mu float64) float64 {
+	return 1 - math.Pow(1-k.zenithAt(nm), 1/mu)
 }
 
 // zenithOn returns the zenith emissivity at a and b as seen from inside the
 // interval (a, b), which must hold no breakpoint of the sky (see skyBreaks).
 func (k Sky) zenithOn(a, b float64) (ea, eb float64) {
 	m := (a + b) / 2
-	if k.Model == SkySpectral {
+	if k.Model == skyModelSpectral {
 		for _, p := range k.zenith.Pieces {
 			if m > p.NM[0] && m < p.NM[len(p.NM)-1] {
 				pc := spectra.Series{Pieces: []spectra.Piece{p}}
@@ -210,7 +252,7 @@ func (k Sky) zenithOn(a, b float64) (ea, eb float64) {
 		}
 		return 1, 1
 	}
-	if m > SkyWindowUM[0]*1000 && m < SkyWindowUM[1]*1000 {
+	if m > skyWindow.Lo && m < skyWindow.Hi {
 		w := float64(k.WindowEmissivity)
 		return w, w
 	}
@@ -221,7 +263,7 @@ func (k Sky) zenithOn(a, b float64) (ea, eb float64) {
 // sky's zenith emissivity has a kink or a step.
 func (k Sky) skyBreaks(lo, hi float64) []float64 {
 	var out []float64
-	if k.Model == SkySpectral {
+	if k.Model == skyModelSpectral {
 		for _, p := range k.zenith.Pieces {
 			for _, nm := range p.NM {
 				if nm > lo && nm < hi {
@@ -231,7 +273,7 @@ func (k Sky) skyBreaks(lo, hi float64) []float64 {
 		}
 		return out
 	}
-	for _, nm := range []float64{SkyWindowUM[0] * 1000, SkyWindowUM[1] * 1000} {
+	for _, nm := range []float64{skyWindow.Lo, skyWindow.Hi} {
 		if nm > lo && nm < hi {
 			out = append(out, nm)
 		}
@@ -335,10 +377,10 @@ func gaussLegendre(n int) (x, w []float64) {
 	return x, w
 }
 
-// BlackbodyFraction returns the fraction of blackbody emission at kelvin
+// blackbodyFraction returns the fraction of blackbody emission at kelvin
 // that falls between lo and hi nm, from the series
 // F(0→λ) = 15/π⁴ Σₙ e^(−nζ)/n (ζ³ + 3ζ²/n + 6ζ/n² + 6/n³), ζ = hc/(λkT).
-func BlackbodyFraction(lo, hi, kelvin float64) float64 {
+func blackbodyFraction(lo, hi, kelvin float64) float64 {
 	return belowFraction(hi, kelvin) - belowFraction(lo, kelvin)
 }
 

@@ -82,7 +82,7 @@ func TestBlackbodyFraction(t *testing.T) {
 		{6000, 0.737818},
 		{10000, 0.914199},
 	} {
-		got := BlackbodyFraction(0, tt.lambdaT, 1000) // at 1000 K, λ in nm equals λT in µm K
+		got := blackbodyFraction(0, tt.lambdaT, 1000) // at 1000 K, λ in nm equals λT in µm K
 		if math.Abs(got-tt.want) > 1e-4 {
 			t.Errorf("F(0→%g µm K) = %.6f, want %.6f", tt.lambdaT, got, tt.want)
 		}
@@ -91,7 +91,7 @@ func TestBlackbodyFraction(t *testing.T) {
 	// law, normalised by the Stefan–Boltzmann law (CODATA 2018 σ).
 	for _, T := range []float64{250, 300, 330} {
 		want := math.Pi * integrate(func(nm float64) float64 { return planckRef(nm, T) }, 8000, 13000, 2000) / (sigmaCODATA * math.Pow(T, 4))
-		if got := BlackbodyFraction(8000, 13000, T); math.Abs(got-want) > 1e-9 {
+		if got := blackbodyFraction(8000, 13000, T); math.Abs(got-want) > 1e-9 {
 			t.Errorf("F_w(%g K) = %.10f, want %.10f", T, got, want)
 		}
 	}
@@ -118,7 +118,7 @@ func TestClearSky(t *testing.T) {
 			if !tt.clamped {
 				// Stated definition: the blackbody-weighted mean of the
 				// zenith emissivity at ambient equals ε_sky (Berdahl & Martin).
-				f := func(nm float64) float64 { return k.Zenith(nm) * planckRef(nm, tt.amb) }
+				f := func(nm float64) float64 { return k.zenithAt(nm) * planckRef(nm, tt.amb) }
 				const e = 1e-7 // keep each part on its own side of the window's edges
 				// Beyond 1 mm (ε = 1) the Rayleigh–Jeans law gives
 				// ∫ B dλ = 2ckT/(3λ³).
@@ -185,7 +185,7 @@ func TestSkyAngle(t *testing.T) {
 		{5000, 0.3, 1},
 		{20000, 0.01, 1},
 	} {
-		if got := k.At(tt.nm, tt.mu); math.Abs(got-tt.want) > 1e-12 {
+		if got := k.at(tt.nm, tt.mu); math.Abs(got-tt.want) > 1e-12 {
 			t.Errorf("ε(%g nm, μ=%g) = %.12f, want %.12f", tt.nm, tt.mu, got, tt.want)
 		}
 	}
@@ -208,7 +208,7 @@ func TestSpectralSkyMatchesTwoBand(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	k, err := SpectralSky(s, "sky.csv", 300)
+	k, err := spectralSky(s, "sky.csv", 300)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -229,19 +229,19 @@ func TestSpectralSkyMatchesTwoBand(t *testing.T) {
 	sample := constSample(0.05, 2000, 200000)
 	c := DefaultConditions()
 	c.IrradianceWm2 = 0
-	f1, err := Compute(sample, c)
+	f1, err := compute(sample, c)
 	if err != nil {
 		t.Fatal(err)
 	}
-	c.Sky, c.SkySpectrum = "sky.csv", s
-	f2, err := Compute(sample, c)
+	c.Sky = SkyChoice{File: "sky.csv", Spectrum: s}
+	f2, err := compute(sample, c)
 	if err != nil {
 		t.Fatal(err)
 	}
 	if d := float64(f1.CoolingPowerNightWm2 - f2.CoolingPowerNightWm2); math.Abs(d) > 0.05 {
 		t.Errorf("two-band sky %.3f W/m², its spectral form %.3f W/m²", float64(f1.CoolingPowerNightWm2), float64(f2.CoolingPowerNightWm2))
 	}
-	if f2.Sky.Model != SkySpectral || f2.Sky.Source != "sky.csv" {
+	if f2.Sky.Model != skyModelSpectral || f2.Sky.Source != "sky.csv" {
 		t.Errorf("sky %+v", f2.Sky)
 	}
 }
@@ -251,15 +251,15 @@ func TestSpectralSkyErrors(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if _, err := SpectralSky(s, "r.csv", 300); !errors.Is(err, spectra.ErrNoValues) {
+	if _, err := spectralSky(s, "r.csv", 300); !errors.Is(err, spectra.ErrNoValues) {
 		t.Errorf("sky without T: err = %v, want ErrNoValues", err)
 	}
 	c := DefaultConditions()
-	c.Sky = "missing.csv"
+	c.Sky = SkyChoice{File: "missing.csv"}
 	if err := c.Validate(); err == nil {
 		t.Error("a named sky file that was not read passes Validate")
 	}
-	c.SkySpectrum = s
+	c.Sky.Spectrum = s
 	if err := c.Validate(); !errors.Is(err, spectra.ErrNoValues) {
 		t.Errorf("sky without T passes Validate: %v", err)
 	}
@@ -273,7 +273,7 @@ func FuzzSpectralSky(f *testing.F) {
 		if err != nil {
 			return
 		}
-		k, err := SpectralSky(s, "fuzz", 300)
+		k, err := spectralSky(s, "fuzz", 300)
 		if err != nil {
 			if !errors.Is(err, spectra.ErrNoValues) {
 				t.Fatalf("unexpected error %v", err)
@@ -286,7 +286,7 @@ func FuzzSpectralSky(f *testing.F) {
 			}
 		}
 		for _, nm := range []float64{3000, 9000, 12000, 30000} {
-			if e := k.Zenith(nm); !(e >= 0 && e <= 1) {
+			if e := k.zenithAt(nm); !(e >= 0 && e <= 1) {
 				t.Fatalf("zenith emissivity %v at %g nm", e, nm)
 			}
 		}

@@ -33,7 +33,7 @@ func TestComputeSplices(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			f, err := Compute(s, DefaultConditions())
+			f, err := compute(s, DefaultConditions())
 			if err != nil {
 				t.Fatal(err)
 			}

@@ -41,12 +41,12 @@ type SRI struct {
 	Note        string `json:"note"`
 }
 
-// SteadyTemperature returns the surface temperature T_s (K) that balances
+// steadyTemperature returns the surface temperature T_s (K) that balances
 // ASTM E1980's steady state α I = ε σ (T_s⁴ − T_sky⁴) + h_c (T_s − T_a) with
 // I = 1000 W/m², T_a = 310 K, T_sky = 300 K, for solar absorptance alpha,
 // thermal emittance eps and convection coefficient hc. It returns NaN when
 // no temperature balances it (hc = 0 and eps = 0).
-func SteadyTemperature(alpha, eps, hc float64) float64 {
+func steadyTemperature(alpha, eps, hc float64) float64 {
 	sigma := spectra.StefanBoltzmann
 	f := func(t float64) float64 {
 		return eps*sigma*(t*t*t*t-sriSkyK*sriSkyK*sriSkyK*sriSkyK) + hc*(t-sriAirK) - alpha*sriIrradiance
@@ -60,13 +60,13 @@ func SteadyTemperature(alpha, eps, hc float64) float64 {
 
 // SolarReflectanceIndex returns SRI = 100 (T_b − T_s)/(T_b − T_w) after
 // ASTM E1980, where T_s, T_b and T_w are the exact steady temperatures
-// ([SteadyTemperature]) of the sample, the standard black (α 0.95, ε 0.90)
+// (steadyTemperature) of the sample, the standard black (α 0.95, ε 0.90)
 // and the standard white (α 0.20, ε 0.90) at convection coefficient hc.
 // The black scores 0 and the white 100.
 func SolarReflectanceIndex(alpha, eps, hc float64) float64 {
-	tb := SteadyTemperature(blackAlpha, blackEps, hc)
-	tw := SteadyTemperature(whiteAlpha, whiteEps, hc)
-	ts := SteadyTemperature(alpha, eps, hc)
+	tb := steadyTemperature(blackAlpha, blackEps, hc)
+	tw := steadyTemperature(whiteAlpha, whiteEps, hc)
+	ts := steadyTemperature(alpha, eps, hc)
 	return 100 * (tb - ts) / (tb - tw)
 }
 
@@ -97,9 +97,9 @@ func addSRI(f *Figures, grads map[string]gradient) {
 			v = SolarReflectanceIndex(alpha, eps, w.hc)
 		}
 		*w.dst = Num(v)
-		f.Figures = append(f.Figures, Figure{Key: w.key, Label: w.label, Value: Num(v), Band: c.SolarBandNM, BandUnit: "nm",
-			Weighting: fmt.Sprintf("ASTM E1980, h_c %g W m⁻² K⁻¹; solar absorptance over %g–%g nm, thermal emittance over %g–%g µm at %s K",
-				w.hc, c.SolarBandNM[0], c.SolarBandNM[1], c.ThermalBandUM[0], c.ThermalBandUM[1], fmtG(c.TemperatureK)),
+		f.Figures = append(f.Figures, Figure{Key: w.key, Label: w.label, Value: Num(v), Band: c.SolarBand, BandUnit: "nm",
+			Weighting: fmt.Sprintf("ASTM E1980, h_c %g W m⁻² K⁻¹; solar absorptance over %s, thermal emittance over %s at %s K",
+				w.hc, bandText(c.SolarBand, "nm"), bandText(c.ThermalBand, "µm"), fmtG(c.TemperatureK)),
 			Coverage: Num(math.Min(float64(f.SolarCoverage), float64(f.ThermalCoverage)))})
 		if grads == nil || math.IsNaN(v) {
 			continue

@@ -60,20 +60,20 @@ func TestSRIAgainstClosedForm(t *testing.T) {
 func TestSteadyTemperatureBalance(t *testing.T) {
 	// The balance itself, ASTM E1980: α I = ε σ (T_s⁴ − T_sky⁴) + h_c (T_s − T_a).
 	for _, tt := range []struct{ a, e, hc float64 }{{0.95, 0.9, 12}, {0.2, 0.9, 5}, {0.5, 0.1, 30}, {0.05, 0.95, 5}} {
-		ts := SteadyTemperature(tt.a, tt.e, tt.hc)
+		ts := steadyTemperature(tt.a, tt.e, tt.hc)
 		r := tt.a*1000 - tt.e*sigmaCODATA*(math.Pow(ts, 4)-math.Pow(300, 4)) - tt.hc*(ts-310)
 		if math.Abs(r) > 1e-6 {
 			t.Errorf("α %g ε %g h_c %g: T_s %.6f K leaves %.3g W/m²", tt.a, tt.e, tt.hc, ts, r)
 		}
 	}
-	if !math.IsNaN(SteadyTemperature(0.5, 0, 0)) {
+	if !math.IsNaN(steadyTemperature(0.5, 0, 0)) {
 		t.Error("no emission and no convection: want NaN")
 	}
 }
 
 func TestSRITranslucentFlag(t *testing.T) {
 	s := mustParse(t, "wavelength_nm,R,T\n250,0.8,0.1\n2500,0.8,0.1\n\n2600,0.1,0\n25000,0.1,0\n", "film.csv")
-	f, err := Compute(s, DefaultConditions())
+	f, err := compute(s, DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -83,7 +83,7 @@ func TestSRITranslucentFlag(t *testing.T) {
 	if !strings.Contains(f.SRI.Note, "opaque, horizontal or low-sloped") {
 		t.Errorf("note lacks the applicability: %s", f.SRI.Note)
 	}
-	w, err := Compute(whiteSample(t), DefaultConditions())
+	w, err := compute(whiteSample(t), DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -15,7 +15,7 @@ import (
 //
 // Reach is the share of the figure's sensitivity, Σ|∂F/∂x| over the
 // wavelengths it rests on, that falls where an uncertainty was stated; below
-// 1 the uncertainty is understated. A figure with less than [minReach] gets
+// 1 the uncertainty is understated. A figure with less than minReach gets
 // no Uncertainty at all.
 type Uncertainty struct {
 	Uncorrelated Num `json:"uncorrelated"`

@@ -48,7 +48,7 @@ func TestCorrelatedOffset(t *testing.T) {
 	// (definition of the fully correlated case, JCGM 100:2008 5.2.2).
 	const delta = 0.01
 	text := strings.Replace(coarseSample(0, false), "wavelength_nm,R\n", fmt.Sprintf("# u_R: %g\nwavelength_nm,R\n", delta), 1)
-	f, err := Compute(mustParse(t, text, "offset.csv"), DefaultConditions())
+	f, err := compute(mustParse(t, text, "offset.csv"), DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -83,7 +83,7 @@ func Compute2(t *testing.T, text string, d float64) *Figures {
 		}
 		g.Values[spectra.UR] = nil
 	}
-	f, err := Compute(s, DefaultConditions())
+	f, err := compute(s, DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -99,7 +99,7 @@ func TestUncertaintyMonteCarlo(t *testing.T) {
 	const u, draws, tol = 0.02, 300, 0.1
 	keys := []string{"solar_reflectance", "thermal_emittance", "cooling_power_w_m2", "cooling_power_night_w_m2",
 		"equilibrium_delta_k", "equilibrium_delta_night_k", "sri_medium"}
-	f, err := Compute(mustParse(t, coarseSample(u, true), "coarse.csv"), DefaultConditions())
+	f, err := compute(mustParse(t, coarseSample(u, true), "coarse.csv"), DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -121,7 +121,7 @@ func TestUncertaintyMonteCarlo(t *testing.T) {
 				s.Segments[i] = spectra.Segment{NM: g.NM, Source: g.Source}
 				s.Segments[i].Values[spectra.R] = r
 			}
-			g, err := Compute(s, DefaultConditions())
+			g, err := compute(s, DefaultConditions())
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -151,12 +151,12 @@ func TestUncertaintyMonteCarlo(t *testing.T) {
 }
 
 func TestUncertaintyColumnOrMetadata(t *testing.T) {
-	col, err := Compute(mustParse(t, coarseSample(0.004, true), "c.csv"), DefaultConditions())
+	col, err := compute(mustParse(t, coarseSample(0.004, true), "c.csv"), DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}
 	text := strings.Replace(coarseSample(0, false), "wavelength_nm,R\n", "# u_R: 0.4 %\nwavelength_nm,R\n", 1)
-	meta, err := Compute(mustParse(t, text, "m.csv"), DefaultConditions())
+	meta, err := compute(mustParse(t, text, "m.csv"), DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -173,7 +173,7 @@ func TestUncertaintyColumnOrMetadata(t *testing.T) {
 }
 
 func TestUncertaintyReach(t *testing.T) {
-	none, err := Compute(mustParse(t, coarseSample(0, false), "n.csv"), DefaultConditions())
+	none, err := compute(mustParse(t, coarseSample(0, false), "n.csv"), DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -183,7 +183,7 @@ func TestUncertaintyReach(t *testing.T) {
 		}
 	}
 	// The white coating states u_R for its UV-Vis-NIR file only and no u_T.
-	f, err := Compute(whiteSample(t), DefaultConditions())
+	f, err := compute(whiteSample(t), DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -7,12 +7,12 @@ import (
 	"skysheet/spectra"
 )
 
-// MaxUVFactor caps the UV protection factor 1/T_ery. An erythemal
-// transmittance at or below 1/MaxUVFactor (0.001) is at the noise floor of a
+// maxUVFactor caps the UV protection factor 1/T_ery. An erythemal
+// transmittance at or below 1/maxUVFactor (0.001) is at the noise floor of a
 // transmittance measurement, where its inverse means little (common
 // practice, no source): the factor is then not given, only that it exceeds
 // the cap.
-const MaxUVFactor = 1000
+const maxUVFactor = 1000
 
 // UVProtection is the erythemally weighted UV transmittance of a sample and
 // the protection factor it implies.
@@ -36,7 +36,7 @@ type UVProtection struct {
 // of the transmittance series t: t weighted by [spectra.ErythemalSolar] (the
 // CIE erythema action spectrum of ISO 17166 times the ASTM G173-03 global
 // tilt irradiance) over 280–400 nm, and the protection factor 1/T_ery with
-// the cap [MaxUVFactor]. It is an estimate on a different solar spectrum
+// the cap maxUVFactor. It is an estimate on a different solar spectrum
 // from the one textile UV-protection standards use, not a rating; the Note
 // says so.
 func ErythemalTransmittance(t spectra.Series) UVProtection {
@@ -50,10 +50,10 @@ func ErythemalTransmittance(t spectra.Series) UVProtection {
 	case math.IsNaN(m.Value):
 		u.Coverage = 0
 		u.Note += " No transmittance data fall in 280–400 nm."
-	case m.Value <= 1.0/MaxUVFactor:
+	case m.Value <= 1.0/maxUVFactor:
 		u.AboveCap = true
 		u.Note += fmt.Sprintf(" T_ery %.2g is at most %g, the noise floor of a transmittance measurement: the factor "+
-			"exceeds %d and is not given.", m.Value, 1.0/MaxUVFactor, MaxUVFactor)
+			"exceeds %d and is not given.", m.Value, 1.0/maxUVFactor, maxUVFactor)
 	default:
 		u.Factor = Num(1 / m.Value)
 	}

@@ -1,4 +1,10 @@
-// Package spectra reads, checks and integrates measured optical spectra.
+// Package spectra reads, checks and integrates measured optical spectra:
+// the data model ([Spectrum], [Series]), the readers of the neutral column
+// format and JCAMP-DX ([Decode], and [ReadSample] for the files of one
+// sample with their reference standards and splices), [Write], the
+// resolution of R, T and A with the closure check ([Resolve]) and
+// band-weighted means under the embedded solar spectra and Planck's law
+// ([BandMean]). It knows nothing of figures of merit, pages or libraries.
 //
 // # Units and conventions
 //

@@ -6,7 +6,7 @@ import (
 	"sync"
 )
 
-// ErythemaAction returns the erythema reference action spectrum of
+// erythemaAction returns the erythema reference action spectrum of
 // ISO 17166:1999 / CIE S 007/E:1998 at wavelength nm, relative to 1 below
 // 298 nm:
 //
@@ -17,7 +17,7 @@ import (
 //
 // The standard defines it from 250 nm; below, it returns 1 as well. The two
 // exponentials meet at 328 nm (both 10^−2.82).
-func ErythemaAction(nm float64) float64 {
+func erythemaAction(nm float64) float64 {
 	switch {
 	case nm <= 298:
 		return 1
@@ -33,7 +33,7 @@ func ErythemaAction(nm float64) float64 {
 // G173-03 tables, where the erythema action spectrum is defined.
 var ErythemalBandNM = Interval{280, 400}
 
-// ErythemaStepNM is the spacing of the uniform grid on which
+// erythemaStepNM is the spacing of the uniform grid on which
 // [ErythemalSolar] is sampled, besides the G173 rows and the action
 // spectrum's breakpoints (298 and 328 nm); its inverse is a whole number, so
 // the grid falls on the rows. The action spectrum falls tenfold in 10.6 nm
@@ -41,10 +41,10 @@ var ErythemalBandNM = Interval{280, 400}
 // refining the grid fourfold changes an erythemal transmittance by less than
 // 1e-6, and ∫ s_er E dλ agrees with a 0.001 nm brute-force sum to 1e-6
 // (tested).
-const ErythemaStepNM = 0.01
+const erythemaStepNM = 0.01
 
 // ErythemalSolar returns the erythemally weighted sunlight
-// s_er(λ)·E(λ), with s_er the [ErythemaAction] and E the ASTM G173-03
+// s_er(λ)·E(λ), with s_er the erythemaAction and E the ASTM G173-03
 // global tilt irradiance, over [ErythemalBandNM] (zero outside), in
 // W m⁻² nm⁻¹. Weighting a transmittance by it gives the share of the
 // erythemally effective UV that passes.
@@ -68,7 +68,7 @@ type erythemal struct {
 
 func loadErythemal() {
 	g173Once.Do(loadG173)
-	e := &erythemal{perNM: math.Round(1 / ErythemaStepNM)}
+	e := &erythemal{perNM: math.Round(1 / erythemaStepNM)}
 	lo, hi := ErythemalBandNM.Lo*e.perNM, ErythemalBandNM.Hi*e.perNM
 	for k := lo; k <= hi; k++ {
 		x := k / e.perNM
@@ -91,7 +91,7 @@ func (e *erythemal) value(nm float64) float64 {
 	if nm < ErythemalBandNM.Lo || nm > ErythemalBandNM.Hi {
 		return 0
 	}
-	return ErythemaAction(nm) * g173Global.At(nm)
+	return erythemaAction(nm) * g173Global.At(nm)
 }
 
 // index returns the position of knot nm, or −1 when nm is not a knot.

@@ -41,7 +41,7 @@ func TestErythemaAction(t *testing.T) {
 		{328.000001, erythemaFormula(328.000001)},
 		{355.5, erythemaFormula(355.5)},
 	} {
-		got, want := ErythemaAction(tt.nm), tt.want
+		got, want := erythemaAction(tt.nm), tt.want
 		if f := erythemaFormula(tt.nm); math.Abs(f-want) > 1e-12*want {
 			t.Fatalf("test formula at %g nm: %g, quoted %g", tt.nm, f, want)
 		}
@@ -51,7 +51,7 @@ func TestErythemaAction(t *testing.T) {
 	}
 	// Continuous at both breakpoints.
 	for _, b := range []float64{298, 328} {
-		if l, r := ErythemaAction(b), ErythemaAction(math.Nextafter(b, 1000)); math.Abs(l-r) > 1e-12 {
+		if l, r := erythemaAction(b), erythemaAction(math.Nextafter(b, 1000)); math.Abs(l-r) > 1e-12 {
 			t.Errorf("jump at %g nm: %g to %g", b, l, r)
 		}
 	}
@@ -105,7 +105,7 @@ func TestErythemalSolarIntegral(t *testing.T) {
 		t.Skip("brute-force integral")
 	}
 	for _, b := range [][2]float64{{280, 400}, {300, 400}, {310, 330}} {
-		got := WeightIntegral(ErythemalSolar(), b[0], b[1])
+		got := weightIntegral(ErythemalSolar(), b[0], b[1])
 		want := bruteErythemal(t, b[0], b[1])
 		if math.Abs(got-want) > 1e-6*want {
 			t.Errorf("∫ s_er E over %g–%g nm: %.9g, brute force %.9g", b[0], b[1], got, want)
@@ -137,8 +137,8 @@ func TestErythemaGridFineEnough(t *testing.T) {
 		{Pieces: []Piece{{NM: []float64{280, 400}, V: []float64{0.3, 0.05}}}},
 	} {
 		coarse := BandMean(x, w, 280, 400).Value
-		fine := BandMean(x, fineErythemal{w, ErythemaStepNM / 4}, 280, 400).Value
-		if len(fineErythemal{w, ErythemaStepNM / 4}.Knots(280, 400)) < 4*len(w.Knots(280, 400)) {
+		fine := BandMean(x, fineErythemal{w, erythemaStepNM / 4}, 280, 400).Value
+		if len(fineErythemal{w, erythemaStepNM / 4}.Knots(280, 400)) < 4*len(w.Knots(280, 400)) {
 			t.Fatal("the fine grid is not finer")
 		}
 		if d := math.Abs(coarse - fine); d > 1e-6 { // the stated grid criterion

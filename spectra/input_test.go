@@ -17,7 +17,7 @@ func TestDecodeRecordsInput(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	m, err := Merge(s, b)
+	m, err := merge(s, b)
 	if err != nil {
 		t.Fatal(err)
 	}

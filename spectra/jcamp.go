@@ -15,29 +15,29 @@ import (
 )
 
 // The errors the JCAMP-DX reader may return, wrapped in a [ParseError]
-// (besides the neutral reader's, such as [ErrNotNumber] and [ErrOutOfRange]).
+// (besides the neutral reader's, such as errNotNumber and errOutOfRange).
 var (
-	ErrNotJCAMP       = errors.New("is not a JCAMP-DX file")
-	ErrLabel          = errors.New("bad labelled data record")
-	ErrMissingLabel   = errors.New("required label missing")
-	ErrDuplicateLabel = errors.New("label appears twice")
-	ErrUnsupported    = errors.New("is not supported")
-	ErrXUnits         = errors.New("is not a supported X unit: want NANOMETERS, MICROMETERS or 1/CM")
-	ErrYUnits         = errors.New("is not a supported Y unit: want REFLECTANCE, TRANSMITTANCE (fraction or percent) or ABSORBANCE")
-	ErrASDF           = errors.New("bad compressed (ASDF) data")
-	ErrXCheck         = errors.New("X-check failed")
-	ErrYCheck         = errors.New("Y-check failed")
-	ErrPointCount     = errors.New("point count differs from NPOINTS")
-	ErrFirstX         = errors.New("FIRSTX does not match the data")
-	ErrLastX          = errors.New("LASTX does not match the data")
-	ErrFirstY         = errors.New("FIRSTY does not match the data")
-	ErrNoEnd          = errors.New("no ##END= record (truncated file?)")
-	ErrMultiBlock     = errors.New("holds more than one block; only single-spectrum files are read")
+	errNotJCAMP       = errors.New("is not a JCAMP-DX file")
+	errLabel          = errors.New("bad labelled data record")
+	errMissingLabel   = errors.New("required label missing")
+	errDuplicateLabel = errors.New("label appears twice")
+	errUnsupported    = errors.New("is not supported")
+	errXUnits         = errors.New("is not a supported X unit: want NANOMETERS, MICROMETERS or 1/CM")
+	errYUnits         = errors.New("is not a supported Y unit: want REFLECTANCE, TRANSMITTANCE (fraction or percent) or ABSORBANCE")
+	errASDF           = errors.New("bad compressed (ASDF) data")
+	errXCheck         = errors.New("X-check failed")
+	errYCheck         = errors.New("Y-check failed")
+	errPointCount     = errors.New("point count differs from NPOINTS")
+	errFirstX         = errors.New("FIRSTX does not match the data")
+	errLastX          = errors.New("LASTX does not match the data")
+	errFirstY         = errors.New("FIRSTY does not match the data")
+	errNoEnd          = errors.New("no ##END= record (truncated file?)")
+	errMultiBlock     = errors.New("holds more than one block; only single-spectrum files are read")
 )
 
-func init() { readJCAMP = ParseJCAMP }
+func init() { readJCAMP = parseJCAMP }
 
-// ParseJCAMP reads a single-spectrum JCAMP-DX file (IUPAC JCAMP-DX 4.24 or
+// parseJCAMP reads a single-spectrum JCAMP-DX file (IUPAC JCAMP-DX 4.24 or
 // 5.x) from r; name is used in errors and recorded as the source.
 //
 // The data table is ##XYDATA=(X++(Y..Y)), in AFFN or in the compressed ASDF
@@ -56,7 +56,7 @@ func init() { readJCAMP = ParseJCAMP }
 // comment. Descriptive records (##TITLE, ##ORIGIN, ##OWNER, ##DATE,
 // ##SPECTROMETER/DATA SYSTEM, ##SAMPLING PROCEDURE, user-defined ##$ labels...)
 // become metadata.
-func ParseJCAMP(r io.Reader, name string) (*Spectrum, error) {
+func parseJCAMP(r io.Reader, name string) (*Spectrum, error) {
 	recs, err := splitRecords(r, name)
 	if err != nil {
 		return nil, err
@@ -135,14 +135,14 @@ func splitRecords(r io.Reader, file string) ([]*record, error) {
 		t := strings.TrimSpace(text)
 		if ended {
 			if l, _, ok := strings.Cut(strings.TrimPrefix(t, "##"), "="); ok && strings.HasPrefix(t, "##") && normLabel(l) == "TITLE" {
-				return nil, &ParseError{File: file, Line: n, Err: fmt.Errorf("a second ##TITLE= after ##END=: the file %w", ErrMultiBlock)}
+				return nil, &ParseError{File: file, Line: n, Err: fmt.Errorf("a second ##TITLE= after ##END=: the file %w", errMultiBlock)}
 			}
 			continue
 		}
 		if strings.HasPrefix(t, "##") {
 			l, v, ok := strings.Cut(t[2:], "=")
 			if !ok {
-				return nil, &ParseError{File: file, Line: n, Err: fmt.Errorf("%w: %s has no '='", ErrLabel, quote.Value(t))}
+				return nil, &ParseError{File: file, Line: n, Err: fmt.Errorf("%w: %s has no '='", errLabel, quote.Value(t))}
 			}
 			cur = &record{label: strings.TrimSpace(l), norm: normLabel(l), value: strings.TrimSpace(stripComment(v)), line: n}
 			recs = append(recs, cur)
@@ -153,7 +153,7 @@ func splitRecords(r io.Reader, file string) ([]*record, error) {
 			if t == "" || strings.HasPrefix(t, "$$") {
 				continue
 			}
-			return nil, &ParseError{File: file, Line: n, Err: fmt.Errorf("%w: text before the first ##TITLE=", ErrNotJCAMP)}
+			return nil, &ParseError{File: file, Line: n, Err: fmt.Errorf("%w: text before the first ##TITLE=", errNotJCAMP)}
 		}
 		cur.body = append(cur.body, jline{text, n})
 	}
@@ -162,11 +162,11 @@ func splitRecords(r io.Reader, file string) ([]*record, error) {
 	}
 	switch {
 	case len(recs) == 0:
-		return nil, &ParseError{File: file, Err: fmt.Errorf("%w: no labelled data records (##LABEL=value)", ErrNotJCAMP)}
+		return nil, &ParseError{File: file, Err: fmt.Errorf("%w: no labelled data records (##LABEL=value)", errNotJCAMP)}
 	case recs[0].norm != "TITLE":
-		return nil, &ParseError{File: file, Line: recs[0].line, Err: fmt.Errorf("%w: the first record must be ##TITLE=, not ##%s=", ErrNotJCAMP, quote.Cut(recs[0].label))}
+		return nil, &ParseError{File: file, Line: recs[0].line, Err: fmt.Errorf("%w: the first record must be ##TITLE=, not ##%s=", errNotJCAMP, quote.Cut(recs[0].label))}
 	case !ended:
-		return nil, &ParseError{File: file, Line: n, Err: ErrNoEnd}
+		return nil, &ParseError{File: file, Line: n, Err: errNoEnd}
 	}
 	return recs, nil
 }
@@ -232,18 +232,18 @@ func (j *jcamp) build(recs []*record) error {
 			continue
 		case "TITLE":
 			if i > 0 {
-				return j.errAt(r.line, fmt.Errorf("a nested ##TITLE=: the file %w", ErrMultiBlock))
+				return j.errAt(r.line, fmt.Errorf("a nested ##TITLE=: the file %w", errMultiBlock))
 			}
 		case "BLOCKS", "NTUPLES", "PAGE":
-			return j.errAt(r.line, fmt.Errorf("##%s= (compound or multi-page file) %w: %w", quote.Cut(r.label), ErrUnsupported, ErrMultiBlock))
+			return j.errAt(r.line, fmt.Errorf("##%s= (compound or multi-page file) %w: %w", quote.Cut(r.label), errUnsupported, errMultiBlock))
 		case "DATATYPE":
 			if strings.Contains(strings.ToUpper(r.value), "LINK") {
-				return j.errAt(r.line, fmt.Errorf("DATA TYPE=%s (compound file) %w: %w", quote.Cut(r.value), ErrUnsupported, ErrMultiBlock))
+				return j.errAt(r.line, fmt.Errorf("DATA TYPE=%s (compound file) %w: %w", quote.Cut(r.value), errUnsupported, errMultiBlock))
 			}
 		}
 		if controlLabels[r.norm] {
 			if prev, dup := j.recs[r.norm]; dup {
-				return j.errAt(r.line, fmt.Errorf("##%s= %w (also line %d)", quote.Cut(r.label), ErrDuplicateLabel, prev.line))
+				return j.errAt(r.line, fmt.Errorf("##%s= %w (also line %d)", quote.Cut(r.label), errDuplicateLabel, prev.line))
 			}
 			j.recs[r.norm] = r
 		}
@@ -271,7 +271,7 @@ func (j *jcamp) build(recs []*record) error {
 		}
 	}
 	if j.recs["JCAMPDX"] == nil {
-		return j.errAt(recs[0].line, fmt.Errorf("%w: ##JCAMP-DX=", ErrMissingLabel))
+		return j.errAt(recs[0].line, fmt.Errorf("%w: ##JCAMP-DX=", errMissingLabel))
 	}
 	return j.data()
 }
@@ -289,7 +289,7 @@ func (j *jcamp) data() error {
 	points := false
 	switch {
 	case xy != nil && xp != nil:
-		return j.errAt(xp.line, fmt.Errorf("a second data table (also ##XYDATA= on line %d) %w", xy.line, ErrUnsupported))
+		return j.errAt(xp.line, fmt.Errorf("a second data table (also ##XYDATA= on line %d) %w", xy.line, errUnsupported))
 	case xy != nil:
 		table = xy
 		switch f := strings.ToUpper(strings.Join(strings.Fields(xy.value), "")); f {
@@ -297,16 +297,16 @@ func (j *jcamp) data() error {
 		case "(XY..XY)":
 			points = true
 		default:
-			return j.errAt(xy.line, fmt.Errorf("##XYDATA=%s %w: want (X++(Y..Y)) or (XY..XY)", quote.Cut(xy.value), ErrUnsupported))
+			return j.errAt(xy.line, fmt.Errorf("##XYDATA=%s %w: want (X++(Y..Y)) or (XY..XY)", quote.Cut(xy.value), errUnsupported))
 		}
 	case xp != nil:
 		table = xp
 		points = true
 		if f := strings.ToUpper(strings.Join(strings.Fields(xp.value), "")); f != "(XY..XY)" {
-			return j.errAt(xp.line, fmt.Errorf("##XYPOINTS=%s %w: want (XY..XY)", quote.Cut(xp.value), ErrUnsupported))
+			return j.errAt(xp.line, fmt.Errorf("##XYPOINTS=%s %w: want (XY..XY)", quote.Cut(xp.value), errUnsupported))
 		}
 	default:
-		return j.errAt(0, fmt.Errorf("%w: ##XYDATA= or ##XYPOINTS=", ErrMissingLabel))
+		return j.errAt(0, fmt.Errorf("%w: ##XYDATA= or ##XYPOINTS=", errMissingLabel))
 	}
 	xu, err := j.xUnits(table)
 	if err != nil {
@@ -340,10 +340,10 @@ func (j *jcamp) data() error {
 		}
 		got := pts[0].y * yf
 		if tol := math.Max(math.Abs(yf), math.Max(1e-5*math.Abs(want), 0.5*resolution(fy.value))); math.Abs(got-want) > tol {
-			return j.errAt(fy.line, fmt.Errorf("%w: FIRSTY=%s but the first Y is %g (line %d)", ErrFirstY, quote.Cut(fy.value), got, pts[0].line))
+			return j.errAt(fy.line, fmt.Errorf("%w: FIRSTY=%s but the first Y is %s (line %d)", errFirstY, quote.Cut(fy.value), fmtNum(got), pts[0].line))
 		}
 	}
-	return j.store(pts, xu, yu, yf)
+	return j.store(pts, xu, yu, xf, yf)
 }
 
 // jcampX is a supported X unit.
@@ -358,7 +358,7 @@ const (
 func (j *jcamp) xUnits(table *record) (jcampX, error) {
 	r := j.recs["XUNITS"]
 	if r == nil {
-		return 0, j.errAt(table.line, fmt.Errorf("%w: ##XUNITS=", ErrMissingLabel))
+		return 0, j.errAt(table.line, fmt.Errorf("%w: ##XUNITS=", errMissingLabel))
 	}
 	switch strings.ToUpper(strings.Join(strings.Fields(r.value), "")) {
 	case "NANOMETERS", "NANOMETER", "NANOMETRES", "NANOMETRE", "NM":
@@ -368,7 +368,7 @@ func (j *jcamp) xUnits(table *record) (jcampX, error) {
 	case "1/CM", "CM-1", "CM^-1", "WAVENUMBERS", "WAVENUMBERS(1/CM)":
 		return xWavenumber, nil
 	}
-	return 0, j.errAt(r.line, fmt.Errorf("XUNITS=%s %w", quote.Value(r.value), ErrXUnits))
+	return 0, j.errAt(r.line, fmt.Errorf("XUNITS=%s %w", quote.Value(r.value), errXUnits))
 }
 
 // jcampY is the meaning of the ordinate.
@@ -382,7 +382,7 @@ type jcampY struct {
 func (j *jcamp) yUnits(table *record) (jcampY, error) {
 	r := j.recs["YUNITS"]
 	if r == nil {
-		return jcampY{}, j.errAt(table.line, fmt.Errorf("%w: ##YUNITS=", ErrMissingLabel))
+		return jcampY{}, j.errAt(table.line, fmt.Errorf("%w: ##YUNITS=", errMissingLabel))
 	}
 	u := strings.ToUpper(strings.Join(strings.Fields(r.value), ""))
 	y := jcampY{written: r.value}
@@ -397,11 +397,11 @@ func (j *jcamp) yUnits(table *record) (jcampY, error) {
 		y.q = T
 	case "ABSORBANCE":
 		if y.percent {
-			return y, j.errAt(r.line, fmt.Errorf("YUNITS=%s %w", quote.Value(r.value), ErrYUnits))
+			return y, j.errAt(r.line, fmt.Errorf("YUNITS=%s %w", quote.Value(r.value), errYUnits))
 		}
 		y.q, y.absorbance = T, true
 	default:
-		return y, j.errAt(r.line, fmt.Errorf("YUNITS=%s %w", quote.Value(r.value), ErrYUnits))
+		return y, j.errAt(r.line, fmt.Errorf("YUNITS=%s %w", quote.Value(r.value), errYUnits))
 	}
 	return y, nil
 }
@@ -411,11 +411,11 @@ var affnRE = regexp.MustCompile(`^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$`)
 // number reads the numeric value of a record.
 func (j *jcamp) number(r *record) (float64, error) {
 	if !affnRE.MatchString(r.value) {
-		return 0, j.errAt(r.line, fmt.Errorf("##%s=%s %w", quote.Cut(r.label), quote.Value(r.value), ErrNotNumber))
+		return 0, j.errAt(r.line, fmt.Errorf("##%s=%s %w", quote.Cut(r.label), quote.Value(r.value), errNotNumber))
 	}
 	x, err := strconv.ParseFloat(r.value, 64)
 	if err != nil || math.IsInf(x, 0) {
-		return 0, j.errAt(r.line, fmt.Errorf("##%s=%s %w", quote.Cut(r.label), quote.Value(r.value), ErrNotFinite))
+		return 0, j.errAt(r.line, fmt.Errorf("##%s=%s %w", quote.Cut(r.label), quote.Value(r.value), errNotFinite))
 	}
 	return x, nil
 }
@@ -427,7 +427,7 @@ func (j *jcamp) factor(label string) (float64, error) {
 	}
 	f, err := j.number(r)
 	if err == nil && f == 0 {
-		err = j.errAt(r.line, fmt.Errorf("##%s=%s %w: want a non-zero factor", quote.Cut(r.label), quote.Cut(r.value), ErrOutOfRange))
+		err = j.errAt(r.line, fmt.Errorf("##%s=%s %w: want a non-zero factor", quote.Cut(r.label), quote.Cut(r.value), errOutOfRange))
 	}
 	return f, err
 }
@@ -460,7 +460,7 @@ func (j *jcamp) xyData(table *record, xf float64) ([]rawPoint, error) {
 	need := func(l string) (*record, error) {
 		r := j.recs[l]
 		if r == nil {
-			return nil, j.errAt(table.line, fmt.Errorf("%w: ##%s= (needed by ##XYDATA=(X++(Y..Y)))", ErrMissingLabel, l))
+			return nil, j.errAt(table.line, fmt.Errorf("%w: ##%s= (needed by ##XYDATA=(X++(Y..Y)))", errMissingLabel, l))
 		}
 		return r, nil
 	}
@@ -489,12 +489,12 @@ func (j *jcamp) xyData(table *record, xf float64) ([]rawPoint, error) {
 		return nil, err
 	}
 	if nf != math.Trunc(nf) || nf < 2 || nf > maxPoints {
-		return nil, j.errAt(npr.line, fmt.Errorf("NPOINTS=%s %w: want a whole number from 2 to %d", quote.Cut(npr.value), ErrOutOfRange, maxPoints))
+		return nil, j.errAt(npr.line, fmt.Errorf("NPOINTS=%s %w: want a whole number from 2 to %d", quote.Cut(npr.value), errOutOfRange, maxPoints))
 	}
 	n := int(nf)
 	dx := (lastX - firstX) / float64(n-1)
 	if dx == 0 || math.IsInf(dx, 0) || math.IsNaN(dx) {
-		return nil, j.errAt(lxr.line, fmt.Errorf("%w: FIRSTX=%s and LASTX=%s leave no spacing between %d points", ErrLastX, quote.Cut(fxr.value), quote.Cut(lxr.value), n))
+		return nil, j.errAt(lxr.line, fmt.Errorf("%w: FIRSTX=%s and LASTX=%s leave no spacing between %d points", errLastX, quote.Cut(fxr.value), quote.Cut(lxr.value), n))
 	}
 	if dr := j.recs["DELTAX"]; dr != nil {
 		d, err := j.number(dr)
@@ -503,14 +503,14 @@ func (j *jcamp) xyData(table *record, xf float64) ([]rawPoint, error) {
 		}
 		end := firstX + float64(n-1)*d
 		if tol := math.Max(0.5*math.Abs(d), resolution(lxr.value)); !(math.Abs(end-lastX) <= tol) {
-			return nil, j.errAt(lxr.line, fmt.Errorf("%w: LASTX=%s but FIRSTX + (NPOINTS−1)·DELTAX = %g", ErrLastX, quote.Cut(lxr.value), end))
+			return nil, j.errAt(lxr.line, fmt.Errorf("%w: LASTX=%s but FIRSTX + (NPOINTS−1)·DELTAX = %s", errLastX, quote.Cut(lxr.value), fmtNum(end)))
 		}
 	}
 
 	var pts []rawPoint
 	push := func(y float64, ln, col int) error {
 		if len(pts) >= n {
-			return &ParseError{File: j.file, Line: ln, Column: col, Name: "Y value", Err: fmt.Errorf("%w: more than NPOINTS=%d points", ErrPointCount, n)}
+			return &ParseError{File: j.file, Line: ln, Column: col, Name: "Y value", Err: fmt.Errorf("%w: more than NPOINTS=%d points", errPointCount, n)}
 		}
 		pts = append(pts, rawPoint{x: firstX + float64(len(pts))*dx, y: y, line: ln, col: col})
 		return nil
@@ -531,24 +531,24 @@ func (j *jcamp) xyData(table *record, xf float64) ([]rawPoint, error) {
 		}
 		xt, rest := toks[0], toks[1:]
 		if xt.kind != tokAbs {
-			return nil, bad(xt, "X value", fmt.Errorf("%w: a line must start with an X value", ErrASDF))
+			return nil, bad(xt, "X value", fmt.Errorf("%w: a line must start with an X value", errASDF))
 		}
 		idx := len(pts)
 		if prevDIF {
 			if len(rest) == 0 || rest[0].kind != tokAbs {
-				return nil, bad(xt, "X value", fmt.Errorf("%w: line %d ends in DIF form, so this line must start with its last Y value repeated", ErrYCheck, lastLine))
+				return nil, bad(xt, "X value", fmt.Errorf("%w: line %d ends in DIF form, so this line must start with its last Y value repeated", errYCheck, lastLine))
 			}
 			if c := rest[0].v; math.Abs(c-lastY) > 1e-9*math.Max(1, math.Max(math.Abs(c), math.Abs(lastY))) {
-				return nil, bad(rest[0], "Y value", fmt.Errorf("%w: the line's first Y %g should repeat the last Y of line %d, which decodes to %g", ErrYCheck, c, lastLine, lastY))
+				return nil, bad(rest[0], "Y value", fmt.Errorf("%w: the line's first Y %s should repeat the last Y of line %d, which decodes to %s", errYCheck, fmtNum(c), lastLine, fmtNum(lastY)))
 			}
 			idx--
 		}
 		want := firstX + float64(idx)*dx
 		got := xt.v * xf
 		if tol := math.Max(0.5*math.Abs(dx), xt.res*math.Abs(xf)) + 1e-9*math.Abs(want); !(math.Abs(got-want) <= tol) {
-			err := fmt.Errorf("%w: the line starts at X %g (%g after XFACTOR) but point %d lies at %g by FIRSTX, LASTX and NPOINTS", ErrXCheck, xt.v, got, idx+1, want)
+			err := fmt.Errorf("%w: the line starts at X %s (%s after XFACTOR) but point %d lies at %s by FIRSTX, LASTX and NPOINTS", errXCheck, fmtNum(xt.v), fmtNum(got), idx+1, fmtNum(want))
 			if idx == 0 {
-				err = fmt.Errorf("%w: %w", ErrFirstX, err)
+				err = fmt.Errorf("%w: %w", errFirstX, err)
 			}
 			return nil, bad(xt, "X value", err)
 		}
@@ -572,7 +572,7 @@ func (j *jcamp) xyData(table *record, xf float64) ([]rawPoint, error) {
 				}
 			case tokDif:
 				if !have || math.IsNaN(cur) {
-					return nil, bad(t, "Y value", fmt.Errorf("%w: a DIF value needs a Y value before it on the same line", ErrASDF))
+					return nil, bad(t, "Y value", fmt.Errorf("%w: a DIF value needs a Y value before it on the same line", errASDF))
 				}
 				cur, lastDif, kind = cur+t.v, t.v, tokDif
 				if err := push(cur, ln.n, t.col); err != nil {
@@ -580,7 +580,7 @@ func (j *jcamp) xyData(table *record, xf float64) ([]rawPoint, error) {
 				}
 			case tokDup:
 				if !have || dup {
-					return nil, bad(t, "Y value", fmt.Errorf("%w: a DUP count needs a Y value before it on the same line", ErrASDF))
+					return nil, bad(t, "Y value", fmt.Errorf("%w: a DUP count needs a Y value before it on the same line", errASDF))
 				}
 				for k := 1; k < t.count; k++ {
 					if kind == tokDif {
@@ -600,7 +600,7 @@ func (j *jcamp) xyData(table *record, xf float64) ([]rawPoint, error) {
 		lastLine = ln.n
 	}
 	if len(pts) != n {
-		return nil, j.errAt(lastLine, fmt.Errorf("%w: NPOINTS=%d but the table holds %d", ErrPointCount, n, len(pts)))
+		return nil, j.errAt(lastLine, fmt.Errorf("%w: NPOINTS=%d but the table holds %d", errPointCount, n, len(pts)))
 	}
 	return pts, nil
 }
@@ -617,31 +617,31 @@ func (j *jcamp) xyPoints(table *record, xf float64) ([]rawPoint, error) {
 			continue
 		}
 		if len(f)%2 != 0 {
-			return nil, j.errAt(ln.n, fmt.Errorf("%w: expected X, Y pairs, found %d numbers", ErrFieldCount, len(f)))
+			return nil, j.errAt(ln.n, fmt.Errorf("%w: expected X, Y pairs, found %d numbers", errFieldCount, len(f)))
 		}
 		for i := 0; i < len(f); i += 2 {
 			xs, ys := f[i], f[i+1]
 			if !affnRE.MatchString(xs.text) {
-				return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w", quote.Value(xs.text), ErrNotNumber)}
+				return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w", quote.Value(xs.text), errNotNumber)}
 			}
 			x, _ := strconv.ParseFloat(xs.text, 64)
 			y := math.NaN()
 			if ys.text != "?" {
 				if !affnRE.MatchString(ys.text) {
-					return nil, &ParseError{File: j.file, Line: ln.n, Column: ys.col, Name: "Y value", Err: fmt.Errorf("%s %w", quote.Value(ys.text), ErrNotNumber)}
+					return nil, &ParseError{File: j.file, Line: ln.n, Column: ys.col, Name: "Y value", Err: fmt.Errorf("%s %w", quote.Value(ys.text), errNotNumber)}
 				}
 				y, _ = strconv.ParseFloat(ys.text, 64)
 			}
 			if math.IsInf(x*xf, 0) {
-				return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w", quote.Value(xs.text), ErrNotFinite)}
+				return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w", quote.Value(xs.text), errNotFinite)}
 			}
 			if k := len(pts); k > 0 {
 				p := pts[k-1]
 				switch {
 				case x*xf == p.x:
-					return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w (line %d)", quote.Cut(xs.text), ErrDuplicate, p.line)}
+					return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w (line %d)", quote.Cut(xs.text), errDuplicate, p.line)}
 				case k > 1 && (x*xf > p.x) != (p.x > pts[k-2].x):
-					return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w: X values must rise or fall throughout", quote.Cut(xs.text), ErrNotMonotonic)}
+					return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w: X values must rise or fall throughout", quote.Cut(xs.text), errNotMonotonic)}
 				}
 			}
 			pts = append(pts, rawPoint{x: x * xf, y: y, line: ln.n, col: ys.col})
@@ -658,14 +658,14 @@ func (j *jcamp) xyPoints(table *record, xf float64) ([]rawPoint, error) {
 			return nil, err
 		}
 		if n != float64(len(pts)) {
-			return nil, j.errAt(last, fmt.Errorf("%w: NPOINTS=%s but the table holds %d", ErrPointCount, quote.Cut(r.value), len(pts)))
+			return nil, j.errAt(last, fmt.Errorf("%w: NPOINTS=%s but the table holds %d", errPointCount, quote.Cut(r.value), len(pts)))
 		}
 	}
 	for _, c := range []struct {
 		label string
 		i     int
 		err   error
-	}{{"FIRSTX", 0, ErrFirstX}, {"LASTX", len(pts) - 1, ErrLastX}} {
+	}{{"FIRSTX", 0, errFirstX}, {"LASTX", len(pts) - 1, errLastX}} {
 		r := j.recs[c.label]
 		if r == nil {
 			continue
@@ -676,7 +676,7 @@ func (j *jcamp) xyPoints(table *record, xf float64) ([]rawPoint, error) {
 		}
 		p := pts[c.i]
 		if tol := math.Max(xres[c.i], resolution(r.value)) + 1e-9*math.Abs(want); !(math.Abs(p.x-want) <= tol) {
-			return nil, j.errAt(r.line, fmt.Errorf("%w: %s=%s but the table's X is %g (line %d)", c.err, quote.Cut(c.label), quote.Cut(r.value), p.x, p.line))
+			return nil, j.errAt(r.line, fmt.Errorf("%w: %s=%s but the table's X is %s (line %d)", c.err, quote.Cut(c.label), quote.Cut(r.value), fmtNum(p.x), p.line))
 		}
 	}
 	return pts, nil
@@ -707,7 +707,7 @@ func fieldsAt(s, seps string) []field {
 }
 
 // store converts the points to nm and fractions and makes the segment.
-func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, yf float64) error {
+func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, xf, yf float64) error {
 	if len(pts) > 1 && pts[0].x > pts[len(pts)-1].x != (xu == xWavenumber) {
 		for a, b := 0, len(pts)-1; a < b; a, b = a+1, b-1 {
 			pts[a], pts[b] = pts[b], pts[a]
@@ -720,47 +720,56 @@ func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, yf float64) error {
 		at := func(name string, err error) error {
 			return &ParseError{File: j.file, Line: p.line, Column: p.col, Name: name, Err: err}
 		}
+		// X and Y are decimal numbers times decimal factors: the noise of
+		// the products is dropped (decimalClean) before converting.
 		var nm float64
+		x := p.x
+		if xf != 1 {
+			x = decimalClean(x)
+		}
 		switch xu {
 		case xNM:
-			nm = p.x
+			nm = x
 		case xUM:
-			nm = p.x * 1000
+			nm = shiftDecimal(x, 3)
 		case xWavenumber:
-			nm = 1e7 / p.x
+			nm = 1e7 / x
 		}
 		if !(nm > 0) || math.IsInf(nm, 0) {
-			return at("X value", fmt.Errorf("X %g %w: want a positive wavelength or wavenumber", p.x, ErrOutOfRange))
+			return at("X value", fmt.Errorf("X %s %w: want a positive wavelength or wavenumber", fmtNum(p.x), errOutOfRange))
 		}
 		if i > 0 && !(nm > g.NM[i-1]) {
-			return at("X value", fmt.Errorf("X %g %w: it gives the same wavelength as the point before", p.x, ErrDuplicate))
+			return at("X value", fmt.Errorf("X %s %w: it gives the same wavelength as the point before", fmtNum(p.x), errDuplicate))
 		}
 		g.NM[i] = nm
 		y := p.y * yf
+		if yf != 1 {
+			y = decimalClean(y)
+		}
 		switch {
 		case math.IsNaN(p.y):
 			v[i] = math.NaN()
 			continue
 		case math.IsInf(y, 0):
-			return at("Y value", fmt.Errorf("Y %g × YFACTOR %w", p.y, ErrNotFinite))
+			return at("Y value", fmt.Errorf("Y %g × YFACTOR %w", p.y, errNotFinite))
 		case yu.absorbance:
 			t := math.Pow(10, -y)
 			if !(t >= -0.05 && t <= 1.05) {
-				return at("Y value", fmt.Errorf("absorbance %g gives T = %g, which %w: want T within -0.05..1.05", y, t, ErrOutOfRange))
+				return at("Y value", fmt.Errorf("absorbance %s gives T = %s, which %w: want T within -0.05..1.05", fmtNum(y), fmtNum(t), errOutOfRange))
 			}
 			y = t
 		case yu.percent:
 			if !(y >= -5 && y <= 105) {
-				return at("Y value", fmt.Errorf("Y %g %w: YUNITS=%s is percent, want -5..105", y, ErrOutOfRange, quote.Cut(yu.written)))
+				return at("Y value", fmt.Errorf("Y %s %w: YUNITS=%s is percent, want -5..105", fmtNum(y), errOutOfRange, quote.Cut(yu.written)))
 			}
-			y /= 100
+			y = decimalClean(y / 100)
 		default:
 			if !(y >= -0.05 && y <= 1.05) {
 				hint := ""
 				if y > 1.05 && y <= 105 {
-					hint = " (percent? write YUNITS=%" + strings.ToUpper(yu.q.Name()) + ")"
+					hint = " (percent? write YUNITS=%" + strings.ToUpper(yu.q.name()) + ")"
 				}
-				return at("Y value", fmt.Errorf("Y %g %w: YUNITS=%s is a fraction, want -0.05..1.05%s", y, ErrOutOfRange, quote.Cut(yu.written), hint))
+				return at("Y value", fmt.Errorf("Y %s %w: YUNITS=%s is a fraction, want -0.05..1.05%s", fmtNum(y), errOutOfRange, quote.Cut(yu.written), hint))
 			}
 		}
 		v[i] = y
@@ -853,7 +862,7 @@ func tokenize(line string) ([]token, error) {
 	}
 	if !affn {
 		if f, ok := wordInNumbers(fs); ok {
-			return nil, &tokenError{f.col, fmt.Errorf("%s %w: a data line of plain numbers holds a word; write \"?\" for a missing value", quote.Value(f.text), ErrNotNumber)}
+			return nil, &tokenError{f.col, fmt.Errorf("%s %w: a data line of plain numbers holds a word; write \"?\" for a missing value", quote.Value(f.text), errNotNumber)}
 		}
 	}
 	var toks []token
@@ -865,7 +874,7 @@ func tokenize(line string) ([]token, error) {
 			}
 			x, err := strconv.ParseFloat(f.text, 64)
 			if err != nil || math.IsInf(x, 0) {
-				return nil, &tokenError{f.col, fmt.Errorf("%s %w", quote.Value(f.text), ErrNotFinite)}
+				return nil, &tokenError{f.col, fmt.Errorf("%s %w", quote.Value(f.text), errNotFinite)}
 			}
 			toks = append(toks, token{kind: tokAbs, v: x, res: resolution(f.text), col: f.col})
 		}
@@ -919,7 +928,7 @@ func tokenize(line string) ([]token, error) {
 			i++
 		default:
 			r, _ := utf8.DecodeRuneInString(line[i:])
-			return nil, &tokenError{i + 1, fmt.Errorf("%w: unexpected character %q", ErrASDF, r)}
+			return nil, &tokenError{i + 1, fmt.Errorf("%w: unexpected character %q", errASDF, r)}
 		}
 		j := i
 		for j < len(line) && isNum(line[j]) {
@@ -930,17 +939,17 @@ func tokenize(line string) ([]token, error) {
 		if kind == tokDup {
 			n, err := strconv.Atoi(digits)
 			if err != nil || n < 1 || n > maxPoints {
-				return nil, &tokenError{start + 1, fmt.Errorf("%w: %s is not a repeat count", ErrASDF, quote.Value(line[start:j]))}
+				return nil, &tokenError{start + 1, fmt.Errorf("%w: %s is not a repeat count", errASDF, quote.Value(line[start:j]))}
 			}
 			toks = append(toks, token{kind: tokDup, count: n, col: start + 1})
 			continue
 		}
 		if strings.Count(digits, ".") > 1 || strings.Trim(digits, ".") == "" {
-			return nil, &tokenError{start + 1, fmt.Errorf("%w: %s is not a number", ErrASDF, quote.Value(line[start:j]))}
+			return nil, &tokenError{start + 1, fmt.Errorf("%w: %s is not a number", errASDF, quote.Value(line[start:j]))}
 		}
 		x, err := strconv.ParseFloat(digits, 64)
 		if err != nil || math.IsInf(x, 0) {
-			return nil, &tokenError{start + 1, fmt.Errorf("%w: %s is not a finite number", ErrASDF, quote.Value(line[start:j]))}
+			return nil, &tokenError{start + 1, fmt.Errorf("%w: %s is not a finite number", errASDF, quote.Value(line[start:j]))}
 		}
 		toks = append(toks, token{kind: kind, v: sign * x, res: resolution(digits), col: start + 1})
 	}

@@ -2,12 +2,11 @@ package spectra_test
 
 import (
 	"fmt"
-	"strings"
 
 	"skysheet/spectra"
 )
 
-func ExampleParseJCAMP() {
+func ExampleDecode_jcamp() {
 	// Five points of percent reflectance in DIF form with a DUP count: the
 	// second line repeats the last ordinate of the first (the Y-check).
 	const file = `##TITLE=invented white tile (example data)
@@ -25,7 +24,7 @@ func ExampleParseJCAMP() {
 800 I20
 ##END=
 `
-	s, err := spectra.ParseJCAMP(strings.NewReader(file), "tile.jdx")
+	s, err := spectra.Decode([]byte(file), "tile.jdx")
 	if err != nil {
 		fmt.Println(err)
 		return

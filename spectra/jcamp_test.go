@@ -48,7 +48,7 @@ func TestParseJCAMPForms(t *testing.T) {
 		{"CRLF and BOM", "\uFEFF" + strings.ReplaceAll(jdxHead, "\n", "\r\n"), "400 500 510 520 530\r\n440 540 550 560 570\r\n", want8},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
-			s, err := ParseJCAMP(strings.NewReader(jdx(tt.head, tt.data)), "t.jdx")
+			s, err := parseJCAMP(strings.NewReader(jdx(tt.head, tt.data)), "t.jdx")
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -88,7 +88,7 @@ func TestParseJCAMPUnits(t *testing.T) {
 		{"absorbance", jdx(head("NANOMETERS", "ABSORBANCE", "1", "400", "500"), "400 1 2\n"), T, [2]float64{400, 500}, [2]float64{0.1, 0.01}, true},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
-			s, err := ParseJCAMP(strings.NewReader(tt.in), "u.jdx")
+			s, err := parseJCAMP(strings.NewReader(tt.in), "u.jdx")
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -118,60 +118,60 @@ func TestParseJCAMPBad(t *testing.T) {
 		line     int
 		msg      string
 	}{
-		{"X-check", jdx(jdxHead, "400 500 510 520 530\n450 540 550 560 570\n"), []error{ErrXCheck}, 12,
+		{"X-check", jdx(jdxHead, "400 500 510 520 530\n450 540 550 560 570\n"), []error{errXCheck}, 12,
 			"t.jdx:12: column 1 (X value): X-check failed: the line starts at X 450 (450 after XFACTOR) but point 5 lies at 440 by FIRSTX, LASTX and NPOINTS"},
-		{"FIRSTX", jdx(rep("FIRSTX=400", "FIRSTX=410"), affn), []error{ErrFirstX, ErrXCheck}, 11, ""},
-		{"LASTX against DELTAX", jdx(rep("LASTX=470", "LASTX=480\n##DELTAX=10"), affn), []error{ErrLastX}, 8, ""},
-		{"LASTX far off", jdx(rep("LASTX=470", "LASTX=540"), affn), []error{ErrXCheck}, 12, ""},
-		{"Y-check value wrong", jdx(jdxHead, "400 E00J0J0J0\n430 E31J0J0J0J0\n470 E70\n"), []error{ErrYCheck}, 12,
+		{"FIRSTX", jdx(rep("FIRSTX=400", "FIRSTX=410"), affn), []error{errFirstX, errXCheck}, 11, ""},
+		{"LASTX against DELTAX", jdx(rep("LASTX=470", "LASTX=480\n##DELTAX=10"), affn), []error{errLastX}, 8, ""},
+		{"LASTX far off", jdx(rep("LASTX=470", "LASTX=540"), affn), []error{errXCheck}, 12, ""},
+		{"Y-check value wrong", jdx(jdxHead, "400 E00J0J0J0\n430 E31J0J0J0J0\n470 E70\n"), []error{errYCheck}, 12,
 			"t.jdx:12: column 5 (Y value): Y-check failed: the line's first Y 531 should repeat the last Y of line 11, which decodes to 530"},
-		{"Y-check value missing", jdx(jdxHead, "400 E00J0J0J0\n440 J0J0J0J0\n"), []error{ErrYCheck}, 12, ""},
-		{"final Y-check wrong", jdx(jdxHead, "400 E00J0J0J0\n430 E30J0J0J0J0\n470 E71\n"), []error{ErrYCheck}, 13, ""},
-		{"too many points", jdx(jdxHead, "400 500 510 520 530\n440 540 550 560 570 580\n"), []error{ErrPointCount}, 12, ""},
-		{"too few points", jdx(jdxHead, "400 500 510 520 530\n440 540 550 560\n"), []error{ErrPointCount}, 12,
+		{"Y-check value missing", jdx(jdxHead, "400 E00J0J0J0\n440 J0J0J0J0\n"), []error{errYCheck}, 12, ""},
+		{"final Y-check wrong", jdx(jdxHead, "400 E00J0J0J0\n430 E30J0J0J0J0\n470 E71\n"), []error{errYCheck}, 13, ""},
+		{"too many points", jdx(jdxHead, "400 500 510 520 530\n440 540 550 560 570 580\n"), []error{errPointCount}, 12, ""},
+		{"too few points", jdx(jdxHead, "400 500 510 520 530\n440 540 550 560\n"), []error{errPointCount}, 12,
 			"t.jdx:12: point count differs from NPOINTS: NPOINTS=8 but the table holds 7"},
-		{"FIRSTY", jdx(rep("NPOINTS=8", "NPOINTS=8\n##FIRSTY=0.6"), affn), []error{ErrFirstY}, 10, ""},
-		{"bad character", jdx(jdxHead, "400 500 510 520 530\n440 540 55# 560 570\n"), []error{ErrASDF}, 12,
+		{"FIRSTY", jdx(rep("NPOINTS=8", "NPOINTS=8\n##FIRSTY=0.6"), affn), []error{errFirstY}, 10, ""},
+		{"bad character", jdx(jdxHead, "400 500 510 520 530\n440 540 55# 560 570\n"), []error{errASDF}, 12,
 			"t.jdx:12: column 11: bad compressed (ASDF) data: unexpected character '#'"},
-		{"DIF first on a line", jdx(jdxHead, "400 J0J0\n"), []error{ErrASDF}, 11, ""},
-		{"DUP first on a line", jdx(jdxHead, "400 S3\n"), []error{ErrASDF}, 11, ""},
-		{"line starts with DIF", jdx(jdxHead, "J0 500\n"), []error{ErrASDF}, 11, ""},
-		{"no END", jdxHead + affn, []error{ErrNoEnd}, 12, ""},
-		{"second block", jdx(jdxHead, affn) + "##TITLE=again\n", []error{ErrMultiBlock}, 14, ""},
-		{"nested block", jdx("##TITLE=link\n##JCAMP-DX=5.01\n##DATA TYPE=LINK\n##BLOCKS=2\n", ""), []error{ErrUnsupported, ErrMultiBlock}, 3, ""},
-		{"ntuples", jdx(rep("##XUNITS", "##NTUPLES=NMR\n##XUNITS"), affn), []error{ErrUnsupported}, 3, ""},
-		{"not JCAMP", "wavelength_nm,R\n400,0.5\n", []error{ErrNotJCAMP}, 1, ""},
-		{"title not first", jdx("##JCAMP-DX=4.24\n##TITLE=t\n", ""), []error{ErrNotJCAMP}, 1, ""},
-		{"label without =", jdx("##TITLE=t\n##JCAMP-DX 4.24\n", ""), []error{ErrLabel}, 2, ""},
-		{"no version", jdx(rep("##JCAMP-DX=4.24\n", ""), affn), []error{ErrMissingLabel}, 1, ""},
-		{"no XUNITS", jdx(rep("##XUNITS=NANOMETERS\n", ""), affn), []error{ErrMissingLabel}, 9, ""},
-		{"XUNITS Hz", jdx(rep("NANOMETERS", "HZ"), affn), []error{ErrXUnits}, 3, ""},
-		{"YUNITS arbitrary", jdx(rep("=REFLECTANCE", "=ARBITRARY UNITS"), affn), []error{ErrYUnits}, 4, ""},
-		{"YUNITS percent absorbance", jdx(rep("=REFLECTANCE", "=%ABSORBANCE"), affn), []error{ErrYUnits}, 4, ""},
-		{"no NPOINTS", jdx(rep("##NPOINTS=8\n", ""), affn), []error{ErrMissingLabel}, 9, ""},
-		{"NPOINTS not whole", jdx(rep("NPOINTS=8", "NPOINTS=7.5"), affn), []error{ErrOutOfRange}, 9, ""},
-		{"FIRSTX not a number", jdx(rep("FIRSTX=400", "FIRSTX=4OO"), affn), []error{ErrNotNumber}, 7, ""},
-		{"zero XFACTOR", jdx(rep("XFACTOR=1", "XFACTOR=0"), affn), []error{ErrOutOfRange}, 5, ""},
-		{"duplicate label", jdx(rep("##XFACTOR=1\n", "##XFACTOR=1\n##X FACTOR=1\n"), affn), []error{ErrDuplicateLabel}, 6, ""},
-		{"percent in a fraction file", jdx(rep("YFACTOR=0.001", "YFACTOR=0.1"), affn), []error{ErrOutOfRange}, 11,
+		{"DIF first on a line", jdx(jdxHead, "400 J0J0\n"), []error{errASDF}, 11, ""},
+		{"DUP first on a line", jdx(jdxHead, "400 S3\n"), []error{errASDF}, 11, ""},
+		{"line starts with DIF", jdx(jdxHead, "J0 500\n"), []error{errASDF}, 11, ""},
+		{"no END", jdxHead + affn, []error{errNoEnd}, 12, ""},
+		{"second block", jdx(jdxHead, affn) + "##TITLE=again\n", []error{errMultiBlock}, 14, ""},
+		{"nested block", jdx("##TITLE=link\n##JCAMP-DX=5.01\n##DATA TYPE=LINK\n##BLOCKS=2\n", ""), []error{errUnsupported, errMultiBlock}, 3, ""},
+		{"ntuples", jdx(rep("##XUNITS", "##NTUPLES=NMR\n##XUNITS"), affn), []error{errUnsupported}, 3, ""},
+		{"not JCAMP", "wavelength_nm,R\n400,0.5\n", []error{errNotJCAMP}, 1, ""},
+		{"title not first", jdx("##JCAMP-DX=4.24\n##TITLE=t\n", ""), []error{errNotJCAMP}, 1, ""},
+		{"label without =", jdx("##TITLE=t\n##JCAMP-DX 4.24\n", ""), []error{errLabel}, 2, ""},
+		{"no version", jdx(rep("##JCAMP-DX=4.24\n", ""), affn), []error{errMissingLabel}, 1, ""},
+		{"no XUNITS", jdx(rep("##XUNITS=NANOMETERS\n", ""), affn), []error{errMissingLabel}, 9, ""},
+		{"XUNITS Hz", jdx(rep("NANOMETERS", "HZ"), affn), []error{errXUnits}, 3, ""},
+		{"YUNITS arbitrary", jdx(rep("=REFLECTANCE", "=ARBITRARY UNITS"), affn), []error{errYUnits}, 4, ""},
+		{"YUNITS percent absorbance", jdx(rep("=REFLECTANCE", "=%ABSORBANCE"), affn), []error{errYUnits}, 4, ""},
+		{"no NPOINTS", jdx(rep("##NPOINTS=8\n", ""), affn), []error{errMissingLabel}, 9, ""},
+		{"NPOINTS not whole", jdx(rep("NPOINTS=8", "NPOINTS=7.5"), affn), []error{errOutOfRange}, 9, ""},
+		{"FIRSTX not a number", jdx(rep("FIRSTX=400", "FIRSTX=4OO"), affn), []error{errNotNumber}, 7, ""},
+		{"zero XFACTOR", jdx(rep("XFACTOR=1", "XFACTOR=0"), affn), []error{errOutOfRange}, 5, ""},
+		{"duplicate label", jdx(rep("##XFACTOR=1\n", "##XFACTOR=1\n##X FACTOR=1\n"), affn), []error{errDuplicateLabel}, 6, ""},
+		{"percent in a fraction file", jdx(rep("YFACTOR=0.001", "YFACTOR=0.1"), affn), []error{errOutOfRange}, 11,
 			`t.jdx:11: column 5 (Y value): Y 50 is out of range: YUNITS=REFLECTANCE is a fraction, want -0.05..1.05 (percent? write YUNITS=%REFLECTANCE)`},
-		{"far out of range", jdx(rep("YFACTOR=0.001", "YFACTOR=1"), affn), []error{ErrOutOfRange}, 11, ""},
-		{"no data table", jdx(strings.TrimSuffix(jdxHead, "##XYDATA=(X++(Y..Y))\n"), ""), []error{ErrMissingLabel}, 0, ""},
-		{"unknown table form", jdx(rep("(X++(Y..Y))", "(X++(R..R))"), affn), []error{ErrUnsupported}, 10, ""},
-		{"zero wavenumber", jdx(strings.NewReplacer("NANOMETERS", "1/CM", "FIRSTX=400", "FIRSTX=0", "LASTX=470", "LASTX=70").Replace(jdxHead), "0 500 510 520 530\n40 540 550 560 570\n"), []error{ErrOutOfRange}, 11, ""},
-		{"XYPOINTS odd", jdx(xyp, "4000, 0.1\n1000, 0.2, 400\n"), []error{ErrFieldCount}, 10, ""},
-		{"XYPOINTS order", jdx(xyp, "4000, 0.1\n1000, 0.2\n2000, 0.3\n"), []error{ErrNotMonotonic}, 11, ""},
-		{"XYPOINTS repeat", jdx(xyp, "4000, 0.1\n4000, 0.2\n400, 0.3\n"), []error{ErrDuplicate}, 10, ""},
-		{"XYPOINTS count", jdx(xyp, "4000, 0.1\n400, 0.2\n"), []error{ErrPointCount}, 10, ""},
-		{"XYPOINTS FIRSTX", jdx(xyp, "3990, 0.1\n1000, 0.2\n400, 0.3\n"), []error{ErrFirstX}, 5, ""},
-		{"XYPOINTS LASTX", jdx(xyp, "4000, 0.1\n1000, 0.2\n500, 0.3\n"), []error{ErrLastX}, 6, ""},
-		{"XYPOINTS not a number", jdx(xyp, "4000, 0.1\n1000, O.2\n400, 0.3\n"), []error{ErrNotNumber}, 10, ""},
-		{"absorbance below zero", jdx(rep("=REFLECTANCE", "=ABSORBANCE"), "400 500 510 520 530\n440 540 550 -560 570\n"), []error{ErrOutOfRange}, 12, ""},
-		{"bad splice metadata", jdx(rep("##XUNITS", "##$SPLICE={\"quantity\":\"Q\"}\n##XUNITS"), affn), []error{ErrBadMetadata}, 3, ""},
-		{"bad uncertainty metadata", jdx(rep("##XUNITS", "##$U_R=lots\n##XUNITS"), affn), []error{ErrBadMetadata}, 3, ""},
+		{"far out of range", jdx(rep("YFACTOR=0.001", "YFACTOR=1"), affn), []error{errOutOfRange}, 11, ""},
+		{"no data table", jdx(strings.TrimSuffix(jdxHead, "##XYDATA=(X++(Y..Y))\n"), ""), []error{errMissingLabel}, 0, ""},
+		{"unknown table form", jdx(rep("(X++(Y..Y))", "(X++(R..R))"), affn), []error{errUnsupported}, 10, ""},
+		{"zero wavenumber", jdx(strings.NewReplacer("NANOMETERS", "1/CM", "FIRSTX=400", "FIRSTX=0", "LASTX=470", "LASTX=70").Replace(jdxHead), "0 500 510 520 530\n40 540 550 560 570\n"), []error{errOutOfRange}, 11, ""},
+		{"XYPOINTS odd", jdx(xyp, "4000, 0.1\n1000, 0.2, 400\n"), []error{errFieldCount}, 10, ""},
+		{"XYPOINTS order", jdx(xyp, "4000, 0.1\n1000, 0.2\n2000, 0.3\n"), []error{errNotMonotonic}, 11, ""},
+		{"XYPOINTS repeat", jdx(xyp, "4000, 0.1\n4000, 0.2\n400, 0.3\n"), []error{errDuplicate}, 10, ""},
+		{"XYPOINTS count", jdx(xyp, "4000, 0.1\n400, 0.2\n"), []error{errPointCount}, 10, ""},
+		{"XYPOINTS FIRSTX", jdx(xyp, "3990, 0.1\n1000, 0.2\n400, 0.3\n"), []error{errFirstX}, 5, ""},
+		{"XYPOINTS LASTX", jdx(xyp, "4000, 0.1\n1000, 0.2\n500, 0.3\n"), []error{errLastX}, 6, ""},
+		{"XYPOINTS not a number", jdx(xyp, "4000, 0.1\n1000, O.2\n400, 0.3\n"), []error{errNotNumber}, 10, ""},
+		{"absorbance below zero", jdx(rep("=REFLECTANCE", "=ABSORBANCE"), "400 500 510 520 530\n440 540 550 -560 570\n"), []error{errOutOfRange}, 12, ""},
+		{"bad splice metadata", jdx(rep("##XUNITS", "##$SPLICE={\"quantity\":\"Q\"}\n##XUNITS"), affn), []error{errBadMetadata}, 3, ""},
+		{"bad uncertainty metadata", jdx(rep("##XUNITS", "##$U_R=lots\n##XUNITS"), affn), []error{errBadMetadata}, 3, ""},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
-			_, err := ParseJCAMP(strings.NewReader(tt.in), "t.jdx")
+			_, err := parseJCAMP(strings.NewReader(tt.in), "t.jdx")
 			for _, e := range tt.errs {
 				if !errors.Is(err, e) {
 					t.Errorf("err = %v, want %v", err, e)
@@ -196,7 +196,7 @@ func TestParseJCAMPMetadata(t *testing.T) {
 		"##SPECTROMETER/DATA SYSTEM=invented UV-Vis\n##SAMPLING PROCEDURE=sphere,\n 8 deg\n##$REFERENCE FILE=ref.csv\n##$U_R=0.5 %\n" +
 		"##$A VERY LONG USER DEFINED LABEL=x\n##PEAK TABLE=(XY..XY)\n450, 0.9\n" +
 		strings.TrimPrefix(jdxHead, "##TITLE=t\n##JCAMP-DX=4.24\n") + "400 500 510 520 530\n440 540 550 560 570\n##END=\n"
-	s, err := ParseJCAMP(strings.NewReader(in), "m.jdx")
+	s, err := parseJCAMP(strings.NewReader(in), "m.jdx")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -209,7 +209,7 @@ func TestParseJCAMPMetadata(t *testing.T) {
 			t.Errorf("%s = %q (%v), want %q", k, v, ok, want)
 		}
 	}
-	if f, ok := ReferenceFile(s); !ok || f != "ref.csv" {
+	if f, ok := referenceFile(s); !ok || f != "ref.csv" {
 		t.Errorf("ReferenceFile = %q, %v", f, ok)
 	}
 	if u := s.Segments[0].Values[UR]; u == nil || u[0] != 0.005 {
@@ -243,7 +243,7 @@ func TestParseJCAMPEncoded(t *testing.T) {
 				b.WriteString(r + "\n")
 			}
 			b.WriteString("##XYDATA=(X++(Y..Y))\n" + strings.Join(encodeXYDATA(g.x, ys, f, perLine), "\n") + "\n##END=\n")
-			s, err := ParseJCAMP(strings.NewReader(b.String()), "e.jdx")
+			s, err := parseJCAMP(strings.NewReader(b.String()), "e.jdx")
 			if err != nil {
 				t.Fatalf("%s, %d a line: %v\n%s", f, perLine, err, b.String())
 			}
@@ -308,7 +308,7 @@ func TestJCAMPCrossCheck(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			s, err := ParseJCAMP(bytes.NewReader(data), th.File)
+			s, err := parseJCAMP(bytes.NewReader(data), th.File)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -363,7 +363,7 @@ func FuzzJCAMP(f *testing.F) {
 	f.Add([]byte(jdx(jdxHead, "400+500+510+520+530\n440 540 ? 560 570\n")))
 	f.Add([]byte(jdx("##TITLE=p\n##JCAMP-DX=5.01\n##XUNITS=1/CM\n##YUNITS=ABSORBANCE\n##XYPOINTS=(XY..XY)\n", "4000, 0.1; 1000, 0.2\n400, ?\n")))
 	f.Fuzz(func(t *testing.T, in []byte) {
-		s, err := ParseJCAMP(bytes.NewReader(in), "fuzz.jdx")
+		s, err := parseJCAMP(bytes.NewReader(in), "fuzz.jdx")
 		if err != nil {
 			var pe *ParseError
 			if !errors.As(err, &pe) || pe.File != "fuzz.jdx" {

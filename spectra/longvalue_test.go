@@ -15,13 +15,13 @@ func TestLongValueCut(t *testing.T) {
 		name, file, in string
 		want           error
 	}{
-		{"neutral header", "a.csv", huge + ",R\n400,0.5\n500,0.5\n", ErrUnknownUnit},
-		{"neutral column", "a.csv", "wavelength_nm," + huge + "\n400,0.5\n", ErrUnknownColumn},
-		{"neutral cell", "a.csv", "wavelength_nm,R\n400," + huge + "\n500,0.5\n", ErrNotNumber},
-		{"neutral metadata", "a.csv", "# u_R: " + huge + "\nwavelength_nm,R\n400,0.5\n500,0.5\n", ErrBadMetadata},
-		{"jcamp units", "a.jdx", "##TITLE=x\n##JCAMP-DX=5.01\n##XUNITS=" + huge + "\n##YUNITS=REFLECTANCE\n##XYPOINTS=(XY..XY)\n400,0.5 500,0.5\n##END=\n", ErrXUnits},
-		{"jcamp point", "a.jdx", "##TITLE=x\n##JCAMP-DX=5.01\n##XUNITS=NANOMETERS\n##YUNITS=REFLECTANCE\n##XYPOINTS=(XY..XY)\n400," + huge + " 500,0.5\n##END=\n", ErrNotNumber},
-		{"jcamp label", "a.jdx", "##TITLE=x\n##" + huge + "\n##END=\n", ErrLabel},
+		{"neutral header", "a.csv", huge + ",R\n400,0.5\n500,0.5\n", errUnknownUnit},
+		{"neutral column", "a.csv", "wavelength_nm," + huge + "\n400,0.5\n", errUnknownColumn},
+		{"neutral cell", "a.csv", "wavelength_nm,R\n400," + huge + "\n500,0.5\n", errNotNumber},
+		{"neutral metadata", "a.csv", "# u_R: " + huge + "\nwavelength_nm,R\n400,0.5\n500,0.5\n", errBadMetadata},
+		{"jcamp units", "a.jdx", "##TITLE=x\n##JCAMP-DX=5.01\n##XUNITS=" + huge + "\n##YUNITS=REFLECTANCE\n##XYPOINTS=(XY..XY)\n400,0.5 500,0.5\n##END=\n", errXUnits},
+		{"jcamp point", "a.jdx", "##TITLE=x\n##JCAMP-DX=5.01\n##XUNITS=NANOMETERS\n##YUNITS=REFLECTANCE\n##XYPOINTS=(XY..XY)\n400," + huge + " 500,0.5\n##END=\n", errNotNumber},
+		{"jcamp label", "a.jdx", "##TITLE=x\n##" + huge + "\n##END=\n", errLabel},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := Decode([]byte(tc.in), tc.file)
@@ -52,8 +52,8 @@ func TestJCAMPWordInNumbers(t *testing.T) {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := Decode([]byte(head+tc.data+"##END=\n"), "w.jdx")
 			var pe *ParseError
-			if !errors.As(err, &pe) || !errors.Is(err, ErrNotNumber) {
-				t.Fatalf("error %v, want a ParseError wrapping ErrNotNumber", err)
+			if !errors.As(err, &pe) || !errors.Is(err, errNotNumber) {
+				t.Fatalf("error %v, want a ParseError wrapping errNotNumber", err)
 			}
 			if pe.Line != tc.line || pe.Column != tc.col {
 				t.Errorf("at %d:%d, want %d:%d (%v)", pe.Line, pe.Column, tc.line, tc.col, err)

@@ -1,15 +1,15 @@
 package spectra
 
 import (
-	"bufio"
 	"bytes"
+	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
-	"io/fs"
 	"math"
 	"path"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"unicode/utf8"
@@ -19,24 +19,25 @@ import (
 
 // The errors a reader may return, wrapped in a [ParseError].
 var (
-	ErrHeader         = errors.New("no header line")
-	ErrUnknownUnit    = errors.New("is not a known spectral axis")
-	ErrUnknownColumn  = errors.New("is not a known column")
-	ErrDuplicateCol   = errors.New("appears twice")
+	errHeader         = errors.New("no header line")
+	errUnknownUnit    = errors.New("is not a known spectral axis")
+	errUnknownColumn  = errors.New("is not a known column")
+	errDuplicateCol   = errors.New("appears twice")
 	ErrNoValues       = errors.New("no R, T or A column")
-	ErrFieldCount     = errors.New("wrong number of columns")
-	ErrNotNumber      = errors.New("is not a number")
-	ErrNotFinite      = errors.New("is not finite")
-	ErrOutOfRange     = errors.New("is out of range")
-	ErrDuplicate      = errors.New("repeats an earlier wavelength")
-	ErrNotMonotonic   = errors.New("breaks the order of the spectral axis")
+	errFieldCount     = errors.New("wrong number of columns")
+	errNotNumber      = errors.New("is not a number")
+	errNotFinite      = errors.New("is not finite")
+	errOutOfRange     = errors.New("is out of range")
+	errDuplicate      = errors.New("repeats an earlier wavelength")
+	errNotMonotonic   = errors.New("breaks the order of the spectral axis")
 	ErrNoData         = errors.New("no data")
-	ErrShortSegment   = errors.New("segment has fewer than 2 rows")
-	ErrOverlap        = errors.New("ranges overlap")
-	ErrUnknownFormat  = errors.New("unknown file format")
-	ErrBadMetadata    = errors.New("bad metadata value")
-	ErrEncoding       = errors.New("is not valid UTF-8")
-	ErrEmptyAxisValue = errors.New("empty spectral axis value")
+	errShortSegment   = errors.New("segment has fewer than 2 rows")
+	errOverlap        = errors.New("ranges overlap")
+	errUnknownFormat  = errors.New("unknown file format")
+	errBadMetadata    = errors.New("bad metadata value")
+	errEncoding       = errors.New("is not valid UTF-8")
+	errEmptyAxisValue = errors.New("empty spectral axis value")
+	errQuote          = errors.New("misplaced quote")
 )
 
 // ParseError reports bad input at a place in a file. Line and Column are
@@ -69,19 +70,10 @@ func (e *ParseError) Error() string {
 
 func (e *ParseError) Unwrap() error { return e.Err }
 
-// Read reads the spectrum file name from fsys, choosing the reader by the
-// file's extension: ".jdx", ".dx" and ".jcamp" are JCAMP-DX, everything else
-// the neutral column format.
-func Read(fsys fs.FS, name string) (*Spectrum, error) {
-	data, err := fs.ReadFile(fsys, name)
-	if err != nil {
-		return nil, err
-	}
-	return Decode(data, name)
-}
-
-// Decode reads a spectrum from data, choosing the reader by name's extension
-// as [Read] does. The result's Inputs record name and the SHA-256 of data.
+// Decode reads a spectrum from data, choosing the reader by name's
+// extension: ".jdx", ".dx" and ".jcamp" are JCAMP-DX, everything else the
+// neutral column format. The result's Inputs record name and the SHA-256
+// of data.
 func Decode(data []byte, name string) (*Spectrum, error) {
 	s, err := decode(data, name)
 	if err != nil {
@@ -95,11 +87,11 @@ func decode(data []byte, name string) (*Spectrum, error) {
 	switch strings.ToLower(path.Ext(name)) {
 	case ".jdx", ".dx", ".jcamp":
 		if readJCAMP == nil {
-			return nil, &ParseError{File: name, Err: fmt.Errorf("JCAMP-DX: %w", ErrUnknownFormat)}
+			return nil, &ParseError{File: name, Err: fmt.Errorf("JCAMP-DX: %w", errUnknownFormat)}
 		}
 		return readJCAMP(bytes.NewReader(data), name)
 	}
-	return Parse(bytes.NewReader(data), name)
+	return parseBytes(data, name)
 }
 
 // readJCAMP is set by the JCAMP-DX reader when it is built in.
@@ -123,7 +115,7 @@ const (
 
 var (
 	axisRE = regexp.MustCompile(`^(wavelength|lambda|wavenumber)\s*[_ ]?\s*[(\[]?\s*(nm|um|micron|microns|micrometers?|micrometres?|cm-1|1/cm|cm\^-1)\s*[)\]]?$`)
-	pctRE  = regexp.MustCompile(`(\s*[(\[]\s*%\s*[)\]]|\s*%|_pct|_percent)$`)
+	pctRE  = regexp.MustCompile(`(\s*,?\s*[(\[]\s*%\s*[)\]]|\s*,?\s*%|_pct|_percent)$`)
 )
 
 // parseAxisHeader returns the unit named by the first header cell.
@@ -173,8 +165,17 @@ func parseColumnHeader(h string) (column, bool) {
 // Parse reads a spectrum in the neutral column format (see the README) from
 // r; name is used in errors and recorded as the source.
 func Parse(r io.Reader, name string) (*Spectrum, error) {
+	data, err := io.ReadAll(r)
+	if err != nil {
+		return nil, &ParseError{File: name, Err: err}
+	}
+	return parseBytes(data, name)
+}
+
+// parseBytes reads a spectrum in the neutral column format from data.
+func parseBytes(data []byte, name string) (*Spectrum, error) {
 	p := parser{file: name, s: &Spectrum{Sources: []string{name}}}
-	if err := p.run(r); err != nil {
+	if err := p.run(data); err != nil {
 		return nil, err
 	}
 	return p.s, nil
@@ -194,6 +195,7 @@ type parser struct {
 	lastX   float64
 	lastLn  int
 	seenX   map[float64]int
+	dec     string                 // the decimal form of the last number read
 	consts  [numQuantities]float64 // constant uncertainties from metadata, NaN if none
 	grouped int                    // axis values written like 2.500 (see thousandsWarning)
 }
@@ -211,54 +213,78 @@ func (p *parser) errf(col int, err error) error {
 	return pe
 }
 
-func (p *parser) run(r io.Reader) error {
+// run reads data in two states. Before the header, it reads line by line:
+// "# key: value" lines are metadata, other "#" lines and blank lines are
+// skipped, and the first other line is the header, whose first tab, else
+// semicolon, else comma names the delimiter (none: runs of spaces). After
+// the header, each line is a row or, when blank, the end of a segment;
+// "#" lines are skipped. Delimited rows are split by encoding/csv, so that
+// a quoted cell may hold the delimiter ("R, %"); space-separated rows by
+// runs of spaces.
+func (p *parser) run(data []byte) error {
 	for i := range p.consts {
 		p.consts[i] = math.NaN()
 	}
-	sc := bufio.NewScanner(r)
-	sc.Buffer(make([]byte, 64*1024), 16*1024*1024)
-	header := false
-	for sc.Scan() {
+	pos, header := 0, false
+	for pos < len(data) && !header {
+		start := pos
+		line, next := nextLine(data, pos)
+		pos = next
 		p.line++
-		text := sc.Text()
-		if p.line == 1 {
-			text = strings.TrimPrefix(text, "\uFEFF")
+		if p.line == 1 && bytes.HasPrefix(line, bom) {
+			line, start = line[len(bom):], start+len(bom)
 		}
-		text = strings.TrimSuffix(text, "\r")
+		text := string(line)
 		if !utf8.ValidString(text) {
-			return p.errf(0, fmt.Errorf("line %w", ErrEncoding))
+			return p.errf(0, fmt.Errorf("line %w", errEncoding))
 		}
 		trimmed := strings.TrimSpace(text)
 		switch {
 		case strings.HasPrefix(trimmed, "#"):
-			if !header {
-				if err := p.meta(strings.TrimSpace(trimmed[1:])); err != nil {
-					return err
-				}
-			}
-		case trimmed == "":
-			if header {
-				if err := p.closeSegment(); err != nil {
-					return err
-				}
-			}
-		case !header:
-			if err := p.header(text); err != nil {
+			if err := p.meta(strings.TrimSpace(trimmed[1:])); err != nil {
 				return err
 			}
-			header = true
+		case trimmed == "":
 		default:
-			if err := p.row(text); err != nil {
+			header = true
+			p.delim = delimiterOf(text)
+			if p.delim != 0 {
+				// The header is the first record encoding/csv reads.
+				if err := p.delimited(data[start:]); err != nil {
+					return err
+				}
+				pos = len(data)
+				break
+			}
+			if err := p.header(p.fields(text), text); err != nil {
 				return err
 			}
 		}
 	}
-	if err := sc.Err(); err != nil {
-		return &ParseError{File: p.file, Line: p.line + 1, Err: err}
+	for pos < len(data) { // space-separated rows
+		line, next := nextLine(data, pos)
+		pos = next
+		p.line++
+		text := string(line)
+		if !utf8.ValidString(text) {
+			return p.errf(0, fmt.Errorf("line %w", errEncoding))
+		}
+		trimmed := strings.TrimSpace(text)
+		switch {
+		case strings.HasPrefix(trimmed, "#"):
+		case trimmed == "":
+			if err := p.closeSegment(); err != nil {
+				return err
+			}
+		default:
+			if err := p.row(p.fields(text)); err != nil {
+				return err
+			}
+		}
 	}
 	p.line = 0
 	if !header {
-		return &ParseError{File: p.file, Err: ErrHeader}
+		return &ParseError{File: p.file, Err: errHeader}
 	}
 	if err := p.closeSegment(); err != nil {
 		return err
@@ -274,6 +300,109 @@ func (p *parser) run(r io.Reader) error {
 		p.s.Warnings = append(p.s.Warnings, w)
 	}
 	return nil
+}
+
+var bom = []byte("\uFEFF")
+
+// nextLine returns the line of data starting at pos, without its "\n" or
+// "\r\n", and the position after it.
+func nextLine(data []byte, pos int) (line []byte, next int) {
+	end, next := len(data), len(data)
+	if i := bytes.IndexByte(data[pos:], '\n'); i >= 0 {
+		end, next = pos+i, pos+i+1
+	}
+	line = data[pos:end]
+	if n := len(line); n > 0 && line[n-1] == '\r' {
+		line = line[:n-1]
+	}
+	return line, next
+}
+
+// delimiterOf returns the delimiter a header line names: a tab, else a
+// semicolon, else a comma; 0 for runs of spaces.
+func delimiterOf(header string) rune {
+	switch {
+	case strings.Contains(header, "\t"):
+		return '\t'
+	case strings.Contains(header, ";"):
+		return ';'
+	case strings.Contains(header, ","):
+		return ','
+	}
+	return 0
+}
+
+// delimited reads the header and rows of a delimited file, data starting
+// at the header line (file line p.line), with encoding/csv. csv skips
+// empty lines and lines starting with "#": where it skipped lines, they
+// are looked at, and an empty one ends the segment.
+func (p *parser) delimited(data []byte) error {
+	r := csv.NewReader(bytes.NewReader(data))
+	r.Comma, r.Comment = p.delim, '#'
+	r.FieldsPerRecord, r.TrimLeadingSpace, r.ReuseRecord = -1, true, true
+	base := p.line - 1 // csv's line 1 is file line p.line
+	prevLine, prevEnd := 0, int64(0)
+	for first := true; ; first = false {
+		rec, err := r.Read()
+		if err == io.EOF {
+			return nil
+		}
+		if err != nil {
+			var ce *csv.ParseError
+			if errors.As(err, &ce) {
+				p.line = base + ce.Line
+				return p.errf(0, fmt.Errorf("%w at character %d: %v", errQuote, ce.Column, ce.Err))
+			}
+			return &ParseError{File: p.file, Line: p.line, Err: err}
+		}
+		line, _ := r.FieldPos(0)
+		if skipped := line - prevLine - 1; !first && skipped > 0 && hasBlankLine(data[prevEnd:], skipped) {
+			if err := p.closeSegment(); err != nil {
+				return err
+			}
+		}
+		prevEnd = r.InputOffset()
+		prevLine, _ = r.FieldPos(len(rec) - 1)
+		p.line = base + line
+		for i, f := range rec {
+			if !utf8.ValidString(f) {
+				return p.errf(0, fmt.Errorf("line %w", errEncoding))
+			}
+			rec[i] = strings.TrimSpace(f)
+		}
+		switch {
+		case first:
+			headerLine, _ := nextLine(data, 0)
+			if err := p.header(rec, string(headerLine)); err != nil {
+				return err
+			}
+		case len(rec) == 1 && rec[0] == "": // a line of spaces
+			if err := p.closeSegment(); err != nil {
+				return err
+			}
+		case strings.HasPrefix(rec[0], "#"): // a comment after spaces
+		default:
+			if err := p.row(rec); err != nil {
+				return err
+			}
+		}
+	}
+}
+
+// hasBlankLine reports whether one of the first n lines of data is empty.
+func hasBlankLine(data []byte, n int) bool {
+	pos := 0
+	for range n {
+		if pos >= len(data) {
+			return false
+		}
+		line, next := nextLine(data, pos)
+		if len(bytes.TrimSpace(line)) == 0 {
+			return true
+		}
+		pos = next
+	}
+	return false
 }
 
 // meta records a "# key: value" line before the header.
@@ -305,7 +434,7 @@ func addMeta(s *Spectrum, consts *[numQuantities]float64, k, v string) error {
 	case spliceKey:
 		r, err := decodeSpliceRecord(v)
 		if err != nil {
-			return fmt.Errorf("%w: splice: %v", ErrBadMetadata, err)
+			return fmt.Errorf("%w: splice: %v", errBadMetadata, err)
 		}
 		s.Splices = append(s.Splices, r)
 		return nil
@@ -320,7 +449,7 @@ func addMeta(s *Spectrum, consts *[numQuantities]float64, k, v string) error {
 	return nil
 }
 
-// Metadata keys with a meaning of their own (see [addMeta]).
+// Metadata keys with a meaning of their own (see addMeta).
 const (
 	noteKey   = "processing note"
 	spliceKey = "splice"
@@ -336,7 +465,7 @@ func constU(consts *[numQuantities]float64, q Quantity, v string) error {
 	}
 	x, err := strconv.ParseFloat(s, 64)
 	if err != nil || math.IsNaN(x) || math.IsInf(x, 0) || x < 0 || x*scale > 1 {
-		return fmt.Errorf("%w: %s: %s: want a standard uncertainty such as 0.005 or 0.5 %%", ErrBadMetadata, q, quote.Value(v))
+		return fmt.Errorf("%w: %s: %s: want a standard uncertainty such as 0.005 or 0.5 %%", errBadMetadata, q, quote.Value(v))
 	}
 	consts[q] = x * scale
 	return nil
@@ -346,38 +475,27 @@ func normKey(k string) string {
 	return strings.ReplaceAll(strings.ToLower(strings.TrimSpace(k)), " ", "_")
 }
 
-func (p *parser) split(text string) []string {
-	var f []string
-	if p.delim == 0 {
-		f = strings.Fields(text)
-	} else {
-		f = strings.Split(text, string(p.delim))
-	}
+// fields splits a space-separated line into its cells, stripping quotes.
+func (p *parser) fields(text string) []string {
+	f := strings.Fields(text)
 	for i := range f {
-		f[i] = strings.Trim(strings.TrimSpace(f[i]), `"`)
+		f[i] = strings.Trim(f[i], `"`)
 	}
 	return f
 }
 
-func (p *parser) header(text string) error {
-	switch {
-	case strings.Contains(text, "\t"):
-		p.delim = '\t'
-	case strings.Contains(text, ";"):
-		p.delim = ';'
-	case strings.Contains(text, ","):
-		p.delim = ','
-	}
-	f := p.split(text)
+// header reads the header cells f (text is the header line, for messages).
+func (p *parser) header(f []string, text string) error {
+	f = slices.Clone(f)
 	for len(f) > 0 && f[len(f)-1] == "" {
 		f = f[:len(f)-1]
 	}
 	if len(f) == 0 {
-		return p.errf(1, fmt.Errorf("%s %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", quote.Value(strings.TrimSpace(text)), ErrUnknownUnit))
+		return p.errf(1, fmt.Errorf("%s %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", quote.Value(strings.TrimSpace(text)), errUnknownUnit))
 	}
 	u, ok := parseAxisHeader(f[0])
 	if !ok {
-		return p.errf(1, fmt.Errorf("%s %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", quote.Value(f[0]), ErrUnknownUnit))
+		return p.errf(1, fmt.Errorf("%s %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", quote.Value(f[0]), errUnknownUnit))
 	}
 	p.unit = u
 	seen := map[Quantity]int{}
@@ -385,11 +503,11 @@ func (p *parser) header(text string) error {
 		c, ok := parseColumnHeader(h)
 		if !ok {
 			p.cols = append(p.cols, c)
-			return p.errf(i+2, fmt.Errorf("%s %w: want R, T, A, u_R or u_T, optionally with (%%) or _pct", quote.Value(h), ErrUnknownColumn))
+			return p.errf(i+2, fmt.Errorf("%s %w: want R, T, A, u_R or u_T, optionally with (%%) or _pct", quote.Value(h), errUnknownColumn))
 		}
 		if j, dup := seen[c.q]; dup {
 			p.cols = append(p.cols, c)
-			return p.errf(i+2, fmt.Errorf("%s %w (also column %d)", c.q.Name(), ErrDuplicateCol, j))
+			return p.errf(i+2, fmt.Errorf("%s %w (also column %d)", c.q.name(), errDuplicateCol, j))
 		}
 		seen[c.q] = i + 2
 		p.cols = append(p.cols, c)
@@ -405,36 +523,39 @@ func (p *parser) header(text string) error {
 	return nil
 }
 
+// number reads the cell orig of column col; the decimal form it read (a
+// decimal comma made a point) is left in p.dec for scaled.
 func (p *parser) number(orig string, col int) (float64, error) {
 	s := orig
 	if (p.delim == '\t' || p.delim == ';') && strings.Count(s, ",") == 1 && !strings.Contains(s, ".") {
 		s = strings.Replace(s, ",", ".", 1)
 	}
+	p.dec = s
 	x, err := strconv.ParseFloat(s, 64)
 	if err != nil {
 		var ne *strconv.NumError
 		if errors.As(err, &ne) && ne.Err == strconv.ErrRange {
-			return 0, p.errf(col, fmt.Errorf("%s %w", quote.Value(orig), ErrNotFinite))
+			return 0, p.errf(col, fmt.Errorf("%s %w", quote.Value(orig), errNotFinite))
 		}
-		return 0, p.errf(col, fmt.Errorf("%s %w%s", quote.Value(orig), ErrNotNumber, thousandsHint(orig)))
+		return 0, p.errf(col, fmt.Errorf("%s %w%s", quote.Value(orig), errNotNumber, thousandsHint(orig)))
 	}
 	if math.IsNaN(x) || math.IsInf(x, 0) {
-		return 0, p.errf(col, fmt.Errorf("%s %w", quote.Value(orig), ErrNotFinite))
+		return 0, p.errf(col, fmt.Errorf("%s %w", quote.Value(orig), errNotFinite))
 	}
 	return x, nil
 }
 
-func (p *parser) row(text string) error {
-	f := p.split(text)
+// row reads the cells f of one row.
+func (p *parser) row(f []string) error {
 	want := len(p.cols) + 1
 	for len(f) > want && f[len(f)-1] == "" {
 		f = f[:len(f)-1]
 	}
 	if len(f) != want {
-		return p.errf(0, fmt.Errorf("%w: expected %d, found %d", ErrFieldCount, want, len(f)))
+		return p.errf(0, fmt.Errorf("%w: expected %d, found %d", errFieldCount, want, len(f)))
 	}
 	if f[0] == "" {
-		return p.errf(1, ErrEmptyAxisValue)
+		return p.errf(1, errEmptyAxisValue)
 	}
 	x, err := p.number(f[0], 1)
 	if err != nil {
@@ -445,15 +566,15 @@ func (p *parser) row(text string) error {
 	case axisNM:
 		nm = x
 	case axisUM:
-		nm = x * 1000
+		nm = scaled(p.dec, x, 3)
 	case axisWavenumber:
 		nm = 1e7 / x
 	}
 	if !(x > 0) || math.IsInf(nm, 0) || !(nm > 0) {
-		return p.errf(1, fmt.Errorf("%s %w: the spectral axis must be positive", quote.Value(f[0]), ErrOutOfRange))
+		return p.errf(1, fmt.Errorf("%s %w: the spectral axis must be positive", quote.Value(f[0]), errOutOfRange))
 	}
 	if ln, dup := p.seenX[x]; dup {
-		return p.errf(1, fmt.Errorf("%s %w (line %d)", quote.Cut(f[0]), ErrDuplicate, ln))
+		return p.errf(1, fmt.Errorf("%s %w (line %d)", quote.Cut(f[0]), errDuplicate, ln))
 	}
 	if p.rows > 0 {
 		d := 1
@@ -467,7 +588,7 @@ func (p *parser) row(text string) error {
 			if p.dir < 0 {
 				order = "descending"
 			}
-			return p.errf(1, fmt.Errorf("%s %w: the axis is %s but line %d has %g", quote.Cut(f[0]), ErrNotMonotonic, order, p.lastLn, p.lastX))
+			return p.errf(1, fmt.Errorf("%s %w: the axis is %s but line %d has %g", quote.Cut(f[0]), errNotMonotonic, order, p.lastLn, p.lastX))
 		}
 	}
 	p.seenX[x] = p.line
@@ -496,7 +617,7 @@ func (p *parser) row(text string) error {
 				return err
 			}
 			if c.percent {
-				v /= 100
+				v = scaled(p.dec, v, -2) // 88.112 % is 0.88112, not 88.112/100 = 0.8811199999999999
 			}
 		}
 		g.Values[c.q] = append(g.Values[c.q], v)
@@ -504,25 +625,105 @@ func (p *parser) row(text string) error {
 	return nil
 }
 
+// scaled returns the number written dec (read as x) times 10^exp, read
+// again from its decimal form with the exponent moved, so that no float
+// noise enters: "88.112" with exp −2 is read as "88.112e-2", the double
+// nearest 0.88112 (88.112/100 is 0.8811199999999999).
+func scaled(dec string, x float64, exp int) float64 {
+	if v, ok := scaledFast(dec, exp); ok {
+		return v
+	}
+	if strings.ContainsAny(dec, "eEpPxX_") {
+		return shiftDecimal(x, exp)
+	}
+	v, err := strconv.ParseFloat(dec+"e"+strconv.Itoa(exp), 64)
+	if err != nil {
+		return shiftDecimal(x, exp)
+	}
+	return v
+}
+
+// pow10 holds the powers of ten that float64 holds exactly.
+var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11,
+	1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22}
+
+// scaledFast reads a plain decimal dec ("-88.112": sign, digits, one
+// point) times 10^exp when its digits fit in 2^53 and the power of ten is
+// exact: then one division or multiplication of exact doubles gives the
+// double nearest the decimal value (the fast path of decimal-to-binary
+// conversion, Clinger 1990, "How to read floating point numbers
+// accurately", PLDI; from memory). ok is false otherwise.
+func scaledFast(dec string, exp int) (v float64, ok bool) {
+	neg := false
+	i := 0
+	if i < len(dec) && (dec[i] == '-' || dec[i] == '+') {
+		neg = dec[i] == '-'
+		i++
+	}
+	var m uint64
+	digits, frac, point := 0, 0, false
+	for ; i < len(dec); i++ {
+		c := dec[i]
+		switch {
+		case c >= '0' && c <= '9':
+			if digits == 15 {
+				return 0, false
+			}
+			if m > 0 || c != '0' {
+				digits++
+			}
+			m = m*10 + uint64(c-'0')
+			if point {
+				frac++
+			}
+		case c == '.' && !point:
+			point = true
+		default:
+			return 0, false
+		}
+	}
+	e := exp - frac
+	if e < -22 || e > 22 {
+		return 0, false
+	}
+	v = float64(m)
+	if e < 0 {
+		v /= pow10[-e]
+	} else {
+		v *= pow10[e]
+	}
+	if neg {
+		v = -v
+	}
+	return v, true
+}
+
 func (p *parser) checkRange(v float64, c column, s string, col int) error {
-	lo, hi, unit := -0.05, 1.05, "a fraction within -0.05..1.05"
+	lo, hi := -0.05, 1.05
 	if c.q == UR || c.q == UT {
-		lo, hi, unit = 0, 1, "an uncertainty within 0..1"
+		lo, hi = 0, 1
 	}
 	if c.percent {
 		lo, hi = lo*100, hi*100
+	}
+	if v >= lo && v <= hi {
+		return nil
+	}
+	// The message, built only for a value out of range.
+	unit := "a fraction within -0.05..1.05"
+	if c.q == UR || c.q == UT {
+		unit = "an uncertainty within 0..1"
+	}
+	if c.percent {
 		unit = strings.Replace(unit, "a fraction", "a percentage", 1)
 		unit = strings.Replace(unit, "-0.05..1.05", "-5..105", 1)
 		unit = strings.Replace(unit, "0..1", "0..100", 1)
 	}
-	if v < lo || v > hi {
-		hint := ""
-		if !c.percent && v > 1.05 && v <= 105 {
-			hint = " (percent? mark the header, e.g. \"" + c.q.String() + " (%)\")"
-		}
-		return p.errf(col, fmt.Errorf("%s %w: want %s%s", quote.Value(s), ErrOutOfRange, unit, hint))
+	hint := ""
+	if !c.percent && v > 1.05 && v <= 105 {
+		hint = " (percent? mark the header, e.g. \"" + c.q.String() + " (%)\")"
 	}
-	return nil
+	return p.errf(col, fmt.Errorf("%s %w: want %s%s", quote.Value(s), errOutOfRange, unit, hint))
 }
 
 // closeSegment ends the current segment at a blank line or at the end.
@@ -533,7 +734,7 @@ func (p *parser) closeSegment() error {
 	}
 	p.pending = nil
 	if len(g.NM) < 2 {
-		return &ParseError{File: p.file, Line: p.lastLn, Err: fmt.Errorf("%w (segments are separated by blank lines)", ErrShortSegment)}
+		return &ParseError{File: p.file, Line: p.lastLn, Err: fmt.Errorf("%w (segments are separated by blank lines)", errShortSegment)}
 	}
 	p.s.Segments = append(p.s.Segments, *g)
 	return nil

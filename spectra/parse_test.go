@@ -16,28 +16,31 @@ func TestParseBadInput(t *testing.T) {
 		err      error
 		msg      string // the full message
 	}{
-		{"not a number", "wavelength_nm;R\n400;0,5\n500;0,9x\n", ErrNotNumber, `w.csv:3: column 2 (R): "0,9x" is not a number`},
-		{"not a number comma", "wavelength_nm,R\n400,0.5\n500,abc\n", ErrNotNumber, `w.csv:3: column 2 (R): "abc" is not a number`},
-		{"nan", "wavelength_nm,R\n400,NaN\n500,0.5\n", ErrNotFinite, `w.csv:2: column 2 (R): "NaN" is not finite`},
-		{"inf axis", "wavelength_nm,R\n400,0.5\nInf,0.5\n", ErrNotFinite, `w.csv:3: column 1 (spectral axis): "Inf" is not finite`},
-		{"duplicate", "wavelength_nm,R\n400,0.5\n500,0.5\n500,0.6\n", ErrDuplicate, `w.csv:4: column 1 (spectral axis): 500 repeats an earlier wavelength (line 3)`},
-		{"non-monotonic", "wavelength_nm,R\n400,0.5\n500,0.5\n450,0.6\n", ErrNotMonotonic, `w.csv:4: column 1 (spectral axis): 450 breaks the order of the spectral axis: the axis is ascending but line 3 has 500`},
+		{"not a number", "wavelength_nm;R\n400;0,5\n500;0,9x\n", errNotNumber, `w.csv:3: column 2 (R): "0,9x" is not a number`},
+		{"not a number comma", "wavelength_nm,R\n400,0.5\n500,abc\n", errNotNumber, `w.csv:3: column 2 (R): "abc" is not a number`},
+		{"nan", "wavelength_nm,R\n400,NaN\n500,0.5\n", errNotFinite, `w.csv:2: column 2 (R): "NaN" is not finite`},
+		{"inf axis", "wavelength_nm,R\n400,0.5\nInf,0.5\n", errNotFinite, `w.csv:3: column 1 (spectral axis): "Inf" is not finite`},
+		{"duplicate", "wavelength_nm,R\n400,0.5\n500,0.5\n500,0.6\n", errDuplicate, `w.csv:4: column 1 (spectral axis): 500 repeats an earlier wavelength (line 3)`},
+		{"non-monotonic", "wavelength_nm,R\n400,0.5\n500,0.5\n450,0.6\n", errNotMonotonic, `w.csv:4: column 1 (spectral axis): 450 breaks the order of the spectral axis: the axis is ascending but line 3 has 500`},
 		{"empty data", "# sample: x\nwavelength_nm,R\n", ErrNoData, `w.csv: no data: the header is followed by no rows`},
-		{"no header", "# only comments\n", ErrHeader, `w.csv: no header line`},
-		{"unknown unit", "wavelength_mm,R\n1,0.5\n", ErrUnknownUnit, `w.csv:1: column 1 (spectral axis): "wavelength_mm" is not a known spectral axis: want wavelength_nm, wavelength_um or wavenumber_cm-1`},
-		{"unit mismatch", "wavenumber_nm,R\n1,0.5\n", ErrUnknownUnit, ""},
-		{"unknown column", "wavelength_nm,X\n400,0.5\n", ErrUnknownColumn, `w.csv:1: column 2 (X): "X" is not a known column: want R, T, A, u_R or u_T, optionally with (%) or _pct`},
-		{"duplicate column", "wavelength_nm,R,reflectance\n400,0.5,0.5\n", ErrDuplicateCol, ""},
-		{"above 1.05", "wavelength_nm,R\n400,0.5\n500,96\n", ErrOutOfRange, `w.csv:3: column 2 (R): "96" is out of range: want a fraction within -0.05..1.05 (percent? mark the header, e.g. "R (%)")`},
-		{"below -0.05", "wavelength_nm,T\n400,-0.2\n500,0.5\n", ErrOutOfRange, ""},
-		{"percent above 105", "wavelength_nm,R (%)\n400,50\n500,120\n", ErrOutOfRange, `w.csv:3: column 2 (R (%)): "120" is out of range: want a percentage within -5..105`},
-		{"field count", "wavelength_nm,R,T\n400,0.5,0.1\n500,0.5\n", ErrFieldCount, `w.csv:3: wrong number of columns: expected 3, found 2`},
-		{"one row", "wavelength_nm,R\n400,0.5\n", ErrShortSegment, ""},
-		{"zero wavenumber", "wavenumber_cm-1,R\n0,0.5\n100,0.5\n", ErrOutOfRange, ""},
-		{"bad utf8", "wavelength_nm,R\n400,0.5\xff\n", ErrEncoding, ""},
-		{"bad metadata u", "# u_R: lots\nwavelength_nm,R\n400,0.5\n500,0.5\n", ErrBadMetadata, ""},
-		{"empty axis", "wavelength_nm,R\n400,0.5\n,0.5\n", ErrEmptyAxisValue, ""},
-		{"quotes only header", "\" \n400,0.5\n", ErrUnknownUnit, ""},
+		{"no header", "# only comments\n", errHeader, `w.csv: no header line`},
+		{"unknown unit", "wavelength_mm,R\n1,0.5\n", errUnknownUnit, `w.csv:1: column 1 (spectral axis): "wavelength_mm" is not a known spectral axis: want wavelength_nm, wavelength_um or wavenumber_cm-1`},
+		{"unit mismatch", "wavenumber_nm,R\n1,0.5\n", errUnknownUnit, ""},
+		{"unknown column", "wavelength_nm,X\n400,0.5\n", errUnknownColumn, `w.csv:1: column 2 (X): "X" is not a known column: want R, T, A, u_R or u_T, optionally with (%) or _pct`},
+		{"duplicate column", "wavelength_nm,R,reflectance\n400,0.5,0.5\n", errDuplicateCol, ""},
+		{"above 1.05", "wavelength_nm,R\n400,0.5\n500,96\n", errOutOfRange, `w.csv:3: column 2 (R): "96" is out of range: want a fraction within -0.05..1.05 (percent? mark the header, e.g. "R (%)")`},
+		{"below -0.05", "wavelength_nm,T\n400,-0.2\n500,0.5\n", errOutOfRange, ""},
+		{"percent above 105", "wavelength_nm,R (%)\n400,50\n500,120\n", errOutOfRange, `w.csv:3: column 2 (R (%)): "120" is out of range: want a percentage within -5..105`},
+		{"field count", "wavelength_nm,R,T\n400,0.5,0.1\n500,0.5\n", errFieldCount, `w.csv:3: wrong number of columns: expected 3, found 2`},
+		{"one row", "wavelength_nm,R\n400,0.5\n", errShortSegment, ""},
+		{"zero wavenumber", "wavenumber_cm-1,R\n0,0.5\n100,0.5\n", errOutOfRange, ""},
+		{"bad utf8", "wavelength_nm,R\n400,0.5\xff\n", errEncoding, ""},
+		{"bad metadata u", "# u_R: lots\nwavelength_nm,R\n400,0.5\n500,0.5\n", errBadMetadata, ""},
+		{"empty axis", "wavelength_nm,R\n400,0.5\n,0.5\n", errEmptyAxisValue, ""},
+		{"quotes only header", "\" \n400,0.5\n", errUnknownUnit, ""},
+		{"unclosed quote", "wavelength_nm,R\n400,0.5\n500,\"0.7\n600,0.8\n", errQuote, ""},
+		{"bare quote", "wavelength_nm,R\n400,0.5\n500,0\"7\n", errQuote, `w.csv:3: misplaced quote at character 6: bare " in non-quoted-field`},
+		{"field count after quoted delimiter", "wavelength_nm,\"R, %\"\n400,50\n500,\"7,0\",1\n", errFieldCount, `w.csv:3: wrong number of columns: expected 2, found 3`},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			_, err := Parse(strings.NewReader(tt.in), "w.csv")
@@ -68,6 +71,11 @@ func TestParseForms(t *testing.T) {
 		{"wavenumber ascending", "wavenumber (cm⁻¹),R,T\n20000,0.7,0.2\n25000,0.5,0.1\n"},
 		{"quoted header", "\"wavelength_nm\",\"R\",\"T\"\n400,0.5,0.1\n500,0.7,0.2\n"},
 		{"trailing delimiter", "wavelength_nm,R,T,\n400,0.5,0.1,\n500,0.7,0.2,\n"},
+		// A quoted header cell may hold the delimiter; "R, %" is R in percent.
+		{"quoted delimiter in header", "\"wavelength (nm)\",\"R, %\",\"T, %\"\n400,50,10\n500,70,20\n"},
+		{"quoted cells", "wavelength_nm;\"R\";T\n\"400\";\"0,5\";0,1\n500;0,7;\"0,2\"\n"},
+		{"comment between rows", "wavelength_nm,R,T\n400,0.5,0.1\n# instrument changed filters here\n  # and here\n500,0.7,0.2\n"},
+		{"spaces around cells", "wavelength_nm , R , T\n 400 , 0.5 , 0.1 \n500,0.7,0.2\n"},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			s, err := Parse(strings.NewReader(tt.in), "f")
@@ -111,6 +119,40 @@ func TestParseMetadataAndSegments(t *testing.T) {
 	}
 }
 
+// TestParseSegmentBreaks checks that a blank line, or a line of spaces,
+// ends a segment in every delimiter, and a comment line does not.
+func TestParseSegmentBreaks(t *testing.T) {
+	for _, tt := range []struct {
+		name, in string
+		segments int
+	}{
+		{"comma blank", "wavelength_nm,R\n400,0.5\n500,0.6\n\n600,0.7\n700,0.8\n", 2},
+		{"comma crlf blank", "wavelength_nm,R\r\n400,0.5\r\n500,0.6\r\n\r\n600,0.7\r\n700,0.8\r\n", 2},
+		{"comma spaces line", "wavelength_nm,R\n400,0.5\n500,0.6\n   \n600,0.7\n700,0.8\n", 2},
+		{"comma comment then blank", "wavelength_nm,R\n400,0.5\n500,0.6\n# next filter\n\n600,0.7\n700,0.8\n", 2},
+		{"comma comment only", "wavelength_nm,R\n400,0.5\n500,0.6\n# next filter\n600,0.7\n700,0.8\n", 1},
+		{"tab blank", "wavelength_nm\tR\n400\t0.5\n500\t0.6\n\n600\t0.7\n700\t0.8\n", 2},
+		{"spaces blank", "wavelength_nm R\n400 0.5\n500 0.6\n\n600 0.7\n700 0.8\n", 2},
+		{"three segments", "wavelength_nm,R\n400,0.5\n500,0.6\n\n\n600,0.7\n700,0.8\n\n800,0.7\n900,0.8\n", 3},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			s, err := Parse(strings.NewReader(tt.in), "f")
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(s.Segments) != tt.segments {
+				t.Errorf("%d segments, want %d", len(s.Segments), tt.segments)
+			}
+		})
+	}
+	// Line numbers stay right after skipped lines.
+	_, err := Parse(strings.NewReader("wavelength_nm,R\n400,0.5\n500,0.6\n\n# c\n600,0.7\n700,x\n"), "f")
+	var pe *ParseError
+	if !errors.As(err, &pe) || pe.Line != 7 || pe.Column != 2 {
+		t.Errorf("error %v, want line 7 column 2", err)
+	}
+}
+
 func TestRoundTrip(t *testing.T) {
 	files, _ := filepath.Glob("../testdata/*.csv")
 	if len(files) == 0 {
@@ -139,7 +181,7 @@ func checkRoundTrip(t *testing.T, s *Spectrum) {
 	if err != nil {
 		t.Fatalf("re-read: %v\n%s", err, buf.String())
 	}
-	for _, q := range Quantities {
+	for _, q := range quantities {
 		a, b := s.Series(q), s2.Series(q)
 		if len(a.Pieces) != len(b.Pieces) {
 			t.Fatalf("%s: %d pieces, re-read %d", q, len(a.Pieces), len(b.Pieces))

@@ -51,7 +51,7 @@ func TestThousandsSeparators(t *testing.T) {
 func TestThousandsHint(t *testing.T) {
 	for _, cell := range []string{"1,234.5", "1.234,5", "12.345.678"} {
 		_, err := Parse(strings.NewReader("wavelength_nm\tR (%)\n400\t"+cell+"\n500\t50\n"), "x.csv")
-		if !errors.Is(err, ErrNotNumber) || !strings.Contains(err.Error(), "thousands separators?") {
+		if !errors.Is(err, errNotNumber) || !strings.Contains(err.Error(), "thousands separators?") {
 			t.Errorf("%s: %v", cell, err)
 		}
 	}

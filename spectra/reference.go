@@ -15,21 +15,21 @@ const (
 	// "reference file"). Readers of the CLI resolve it relative to the data
 	// file.
 	ReferenceKey = "reference_file"
-	// ReferenceAppliedKey marks a spectrum already made absolute; its value
+	// referenceAppliedKey marks a spectrum already made absolute; its value
 	// names the reference used.
-	ReferenceAppliedKey = "reference_applied"
+	referenceAppliedKey = "reference_applied"
 )
 
 // The errors [ApplyReference] may return.
 var (
-	ErrReferenceRange   = errors.New("lies outside the reference's calibrated range (no extrapolation)")
-	ErrReferenceApplied = errors.New("is already corrected against a reference standard")
-	ErrNoReflectance    = errors.New("has no reflectance")
+	errReferenceRange   = errors.New("lies outside the reference's calibrated range (no extrapolation)")
+	errReferenceApplied = errors.New("is already corrected against a reference standard")
+	errNoReflectance    = errors.New("has no reflectance")
 )
 
-// ReferenceFile returns the reference file named in s's metadata under
+// referenceFile returns the reference file named in s's metadata under
 // [ReferenceKey], and whether there is one.
-func ReferenceFile(s *Spectrum) (string, bool) {
+func referenceFile(s *Spectrum) (string, bool) {
 	v, ok := s.Get(ReferenceKey)
 	v = strings.TrimSpace(v)
 	return v, ok && v != ""
@@ -45,20 +45,20 @@ func ReferenceFile(s *Spectrum) (string, bool) {
 // alone.
 //
 // The result drops [ReferenceKey] from the metadata and records the
-// reference instead: [ReferenceAppliedKey] with its file, every metadata
+// reference instead: "reference_applied" with its file, every metadata
 // field of ref prefixed "reference ", and a note. A spectrum already marked
-// as corrected is an error wrapping [ErrReferenceApplied].
+// as corrected is an error wrapping errReferenceApplied.
 func ApplyReference(s, ref *Spectrum) (*Spectrum, error) {
 	name, refName := sourceName(s), sourceName(ref)
-	if v, done := s.Get(ReferenceAppliedKey); done {
-		return nil, fmt.Errorf("spectra: %s %w (%s)", name, ErrReferenceApplied, v)
+	if v, done := s.Get(referenceAppliedKey); done {
+		return nil, fmt.Errorf("spectra: %s %w (%s)", name, errReferenceApplied, v)
 	}
 	if !s.Has(R) {
-		return nil, fmt.Errorf("spectra: %s %w to correct against a reference", name, ErrNoReflectance)
+		return nil, fmt.Errorf("spectra: %s %w to correct against a reference", name, errNoReflectance)
 	}
 	rr, ur := ref.Series(R), ref.Series(UR)
 	if rr.Empty() {
-		return nil, fmt.Errorf("spectra: reference %s %w", refName, ErrNoReflectance)
+		return nil, fmt.Errorf("spectra: reference %s %w", refName, errNoReflectance)
 	}
 	var ranges []string
 	for _, p := range rr.Pieces {
@@ -73,7 +73,7 @@ func ApplyReference(s, ref *Spectrum) (*Spectrum, error) {
 			}
 			k, ok := rr.At(g.NM[i])
 			if !ok {
-				return nil, fmt.Errorf("spectra: %s: %s nm %w %s (%s)", name, fmtNM(g.NM[i]), ErrReferenceRange, refName, strings.Join(ranges, ", "))
+				return nil, fmt.Errorf("spectra: %s: %s nm %w %s (%s)", name, fmtNM(g.NM[i]), errReferenceRange, refName, strings.Join(ranges, ", "))
 			}
 			r[i] = v * k
 			if u != nil && !math.IsNaN(u[i]) {
@@ -91,7 +91,7 @@ func ApplyReference(s, ref *Spectrum) (*Spectrum, error) {
 			out.Meta = append(out.Meta, f)
 		}
 	}
-	out.Meta = append(out.Meta, Field{Key: ReferenceAppliedKey, Value: refName})
+	out.Meta = append(out.Meta, Field{Key: referenceAppliedKey, Value: refName})
 	for _, f := range ref.Meta {
 		k := "reference " + f.Key
 		if len(strings.Fields(k)) > 4 {

@@ -37,10 +37,10 @@ func TestApplyReferenceConstant(t *testing.T) {
 			i++
 		}
 	}
-	if _, ok := ReferenceFile(out); ok {
+	if _, ok := referenceFile(out); ok {
 		t.Error("reference_file kept after correction")
 	}
-	for k, v := range map[string]string{ReferenceAppliedKey: "ref.csv", "reference provenance": "invented calibration curve for tests", "sample": "invented"} {
+	for k, v := range map[string]string{referenceAppliedKey: "ref.csv", "reference provenance": "invented calibration curve for tests", "sample": "invented"} {
 		if got, _ := out.Get(k); got != v {
 			t.Errorf("%s = %q, want %q", k, got, v)
 		}
@@ -51,7 +51,7 @@ func TestApplyReferenceConstant(t *testing.T) {
 	if s.Segments[0].Values[R][0] != 0.9 {
 		t.Error("input modified")
 	}
-	if _, err := ApplyReference(out, ref); !errors.Is(err, ErrReferenceApplied) {
+	if _, err := ApplyReference(out, ref); !errors.Is(err, errReferenceApplied) {
 		t.Errorf("second correction: %v", err)
 	}
 	checkRoundTrip(t, out)
@@ -83,11 +83,11 @@ func TestApplyReferenceErrors(t *testing.T) {
 		ref  string
 		err  error
 	}{
-		{"above the range", s, "wavelength_nm,R\n300,0.9\n900,0.9\n", ErrReferenceRange},
-		{"below the range", s, "wavelength_nm,R\n401,0.9\n1200,0.9\n", ErrReferenceRange},
-		{"in a gap", mustParse(t, "rel.csv", "wavelength_nm,R\n400,0.9\n550,0.85\n1000,0.8\n"), "wavelength_nm,R\n300,0.9\n500,0.9\n\n600,0.9\n1200,0.9\n", ErrReferenceRange},
-		{"reference without R", s, "wavelength_nm,T\n300,0.9\n1200,0.9\n", ErrNoReflectance},
-		{"sample without R", mustParse(t, "t.csv", "wavelength_nm,T\n400,0.9\n1000,0.8\n"), "wavelength_nm,R\n300,0.9\n1200,0.9\n", ErrNoReflectance},
+		{"above the range", s, "wavelength_nm,R\n300,0.9\n900,0.9\n", errReferenceRange},
+		{"below the range", s, "wavelength_nm,R\n401,0.9\n1200,0.9\n", errReferenceRange},
+		{"in a gap", mustParse(t, "rel.csv", "wavelength_nm,R\n400,0.9\n550,0.85\n1000,0.8\n"), "wavelength_nm,R\n300,0.9\n500,0.9\n\n600,0.9\n1200,0.9\n", errReferenceRange},
+		{"reference without R", s, "wavelength_nm,T\n300,0.9\n1200,0.9\n", errNoReflectance},
+		{"sample without R", mustParse(t, "t.csv", "wavelength_nm,T\n400,0.9\n1000,0.8\n"), "wavelength_nm,R\n300,0.9\n1200,0.9\n", errNoReflectance},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			if _, err := ApplyReference(tt.s, mustParse(t, "ref.csv", tt.ref)); !errors.Is(err, tt.err) {

@@ -3,6 +3,8 @@ package spectra
 import (
 	"math"
 	"sort"
+	"strconv"
+	"strings"
 )
 
 // Piece is a run of points with strictly increasing wavelengths (nm); the
@@ -56,6 +58,53 @@ func (p Piece) at(nm float64) float64 {
 // Interval is a closed wavelength range in nm.
 type Interval struct{ Lo, Hi float64 }
 
+// IntervalUM returns the interval lo–hi given in µm.
+func IntervalUM(lo, hi float64) Interval { return Interval{shiftDecimal(lo, 3), shiftDecimal(hi, 3)} }
+
+// UM returns the interval's ends in µm.
+//
+// IntervalUM and UM move the decimal point of the shortest decimal form
+// instead of multiplying by 1000, so that 8.7 µm is 8700 nm and back
+// exactly: the product can carry float noise into what is written.
+func (iv Interval) UM() (lo, hi float64) { return shiftDecimal(iv.Lo, -3), shiftDecimal(iv.Hi, -3) }
+
+// decimalClean returns x rounded to 15 significant digits: the value that
+// decimal inputs multiplied by a decimal factor describe, without the
+// float noise of the product (88112 × 0.001 gives 88.11200000000001;
+// 88.112 is meant). No instrument reports 15 significant digits.
+func decimalClean(x float64) float64 {
+	if x == 0 || math.IsNaN(x) || math.IsInf(x, 0) {
+		return x
+	}
+	v, err := strconv.ParseFloat(strconv.FormatFloat(x, 'g', 15, 64), 64)
+	if err != nil {
+		return x
+	}
+	return v
+}
+
+// fmtNum writes a computed number for a message: to 12 significant
+// digits, which no data exceed, so that float noise does not show.
+func fmtNum(x float64) string { return strconv.FormatFloat(x, 'g', 12, 64) }
+
+// shiftDecimal returns x × 10^by, computed on x's shortest decimal form.
+func shiftDecimal(x float64, by int) float64 {
+	if x == 0 || math.IsNaN(x) || math.IsInf(x, 0) {
+		return x * math.Pow10(by)
+	}
+	s := strconv.FormatFloat(x, 'e', -1, 64)
+	i := strings.IndexByte(s, 'e')
+	exp, err := strconv.Atoi(s[i+1:])
+	if err != nil {
+		return x * math.Pow10(by)
+	}
+	v, err := strconv.ParseFloat(s[:i]+"e"+strconv.Itoa(exp+by), 64)
+	if err != nil {
+		return x * math.Pow10(by)
+	}
+	return v
+}
+
 // Covered returns the parts of [lo, hi] that the series covers.
 func (s Series) Covered(lo, hi float64) []Interval {
 	var out []Interval
@@ -68,8 +117,8 @@ func (s Series) Covered(lo, hi float64) []Interval {
 	return out
 }
 
-// Map returns a series on the same points with f applied to every value.
-func (s Series) Map(f func(nm, v float64) float64) Series {
+// mapValues returns a series on the same points with f applied to every value.
+func (s Series) mapValues(f func(nm, v float64) float64) Series {
 	out := Series{Pieces: make([]Piece, len(s.Pieces))}
 	for i, p := range s.Pieces {
 		v := make([]float64, len(p.V))

@@ -21,8 +21,8 @@ const (
 	numQuantities
 )
 
-// Quantities lists every quantity in column order.
-var Quantities = []Quantity{R, T, A, UR, UT}
+// quantities lists every quantity in column order.
+var quantities = []Quantity{R, T, A, UR, UT}
 
 // String returns the column name used by the neutral format.
 func (q Quantity) String() string {
@@ -41,8 +41,8 @@ func (q Quantity) String() string {
 	return fmt.Sprintf("Quantity(%d)", int(q))
 }
 
-// Name returns the quantity in words.
-func (q Quantity) Name() string {
+// name returns the quantity in words.
+func (q Quantity) name() string {
 	switch q {
 	case R:
 		return "reflectance"
@@ -157,13 +157,13 @@ func (s *Spectrum) Series(q Quantity) Series {
 	return out
 }
 
-// Merge joins spectra of one sample measured over different ranges (say a
+// merge joins spectra of one sample measured over different ranges (say a
 // UV-Vis-NIR file and an FTIR file) into one. Ranges that touch (share an end
 // wavelength) are joined into one segment; ranges with a gap stay separate
-// segments. Overlapping ranges are an error wrapping [ErrOverlap] (see [Join]
+// segments. Overlapping ranges are an error wrapping errOverlap (see [Join]
 // to splice them instead). Metadata, notes and splice records of later
 // spectra are appended after those of earlier ones.
-func Merge(parts ...*Spectrum) (*Spectrum, error) {
+func merge(parts ...*Spectrum) (*Spectrum, error) {
 	if len(parts) == 0 {
 		return nil, fmt.Errorf("spectra: merge: %w", ErrNoData)
 	}
@@ -191,8 +191,8 @@ func Merge(parts ...*Spectrum) (*Spectrum, error) {
 		end := prev.NM[len(prev.NM)-1]
 		switch {
 		case g.NM[0] < end:
-			return nil, fmt.Errorf("spectra: %s (%g–%g nm) and %s (%g–%g nm): %w",
-				prev.Source, prev.NM[0], end, g.Source, g.NM[0], g.NM[len(g.NM)-1], ErrOverlap)
+			return nil, fmt.Errorf("spectra: %s (%s–%s nm) and %s (%s–%s nm): %w",
+				prev.Source, fmtNM(prev.NM[0]), fmtNM(end), g.Source, fmtNM(g.NM[0]), fmtNM(g.NM[len(g.NM)-1]), errOverlap)
 		case g.NM[0] == end:
 			var note string
 			*prev, note = joinTouching(*prev, g)

@@ -13,7 +13,7 @@ func TestMerge(t *testing.T) {
 	gap := mustParse(t, "gap.csv", "wavelength_um,R\n3,0.1\n25,0.05\n")
 	over := mustParse(t, "over.csv", "wavelength_um,R\n2.4,0.1\n25,0.05\n")
 
-	s, err := Merge(ir, uv) // order of arguments does not matter
+	s, err := merge(ir, uv) // order of arguments does not matter
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -30,7 +30,7 @@ func TestMerge(t *testing.T) {
 		t.Errorf("T should end at 2500 nm: %+v", tr)
 	}
 
-	s, err = Merge(uv, gap)
+	s, err = merge(uv, gap)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -41,7 +41,7 @@ func TestMerge(t *testing.T) {
 		t.Error("a gap between files must not be interpolated")
 	}
 
-	if _, err := Merge(uv, over); !errors.Is(err, ErrOverlap) {
+	if _, err := merge(uv, over); !errors.Is(err, errOverlap) {
 		t.Errorf("overlap: err = %v, want ErrOverlap", err)
 	}
 }
@@ -80,5 +80,23 @@ func TestResolve(t *testing.T) {
 				t.Errorf("closure ok = %v, want %v: %v", o.Closure.OK(), tt.ok, o.Closure.Problems)
 			}
 		})
+	}
+}
+
+// TestOverlapMessageRounded checks that wavelengths from the data (here
+// from wavenumbers) are written to 0.01 nm in messages.
+func TestOverlapMessageRounded(t *testing.T) {
+	a, err := Parse(strings.NewReader("wavenumber_cm-1,R\n4168,0.5\n400,0.5\n"), "ir.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := Parse(strings.NewReader("wavelength_nm,R\n300,0.5\n2500,0.5\n"), "uv.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = merge(b, a)
+	// 1e7/4168 = 2399.2322456813818… nm.
+	if err == nil || !strings.Contains(err.Error(), "ir.csv (2399.23–25000 nm)") {
+		t.Errorf("message %v", err)
 	}
 }

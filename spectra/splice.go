@@ -10,7 +10,7 @@ import (
 	"strings"
 )
 
-// SpliceMethod is how [Splice] matches one instrument's data to the other's
+// SpliceMethod is how splice matches one instrument's data to the other's
 // in their overlap.
 type SpliceMethod int
 
@@ -34,30 +34,42 @@ func (m SpliceMethod) String() string {
 	return fmt.Sprintf("SpliceMethod(%d)", int(m))
 }
 
-// ParseSpliceMethod returns the method named offset, scale or none.
-func ParseSpliceMethod(s string) (SpliceMethod, error) {
+// MarshalText writes the method's name.
+func (m SpliceMethod) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
+
+// UnmarshalText reads a method named offset, scale or none.
+func (m *SpliceMethod) UnmarshalText(b []byte) error {
+	x, err := parseSpliceMethod(string(b))
+	if err == nil {
+		*m = x
+	}
+	return err
+}
+
+// parseSpliceMethod returns the method named offset, scale or none.
+func parseSpliceMethod(s string) (SpliceMethod, error) {
 	for _, m := range []SpliceMethod{SpliceOffset, SpliceScale, SpliceNone} {
 		if strings.EqualFold(strings.TrimSpace(s), m.String()) {
 			return m, nil
 		}
 	}
-	return 0, fmt.Errorf("%q %w: want offset, scale or none", s, ErrSpliceMethod)
+	return 0, fmt.Errorf("%q %w: want offset, scale or none", s, errSpliceMethod)
 }
 
 // DefaultSpliceTol is the default tolerance on the mean junction mismatch
 // |ΔR| before correction (common practice, no source).
 const DefaultSpliceTol = 0.02
 
-// The errors [Splice] and [Join] may return.
+// The errors splice and [Join] may return.
 var (
-	ErrSpliceMethod = errors.New("is not a splice method")
-	ErrNoOverlap    = errors.New("ranges do not overlap")
-	ErrNested       = errors.New("lies within the other's range: nothing to splice")
-	ErrShortOverlap = errors.New("has fewer than 2 points in the overlap to fit")
-	ErrNoCommon     = errors.New("no quantity is measured by both over the overlap")
-	ErrJunction     = errors.New("junction lies outside the overlap")
-	ErrAdjust       = errors.New("does not name one of the spliced files")
-	ErrScale        = errors.New("fitted scale factor is not positive")
+	errSpliceMethod = errors.New("is not a splice method")
+	errNoOverlap    = errors.New("ranges do not overlap")
+	errNested       = errors.New("lies within the other's range: nothing to splice")
+	errShortOverlap = errors.New("has fewer than 2 points in the overlap to fit")
+	errNoCommon     = errors.New("no quantity is measured by both over the overlap")
+	errJunction     = errors.New("junction lies outside the overlap")
+	errAdjust       = errors.New("does not name one of the spliced files")
+	errScale        = errors.New("fitted scale factor is not positive")
 )
 
 // SpliceOptions chooses how two overlapping spectra are joined. The zero
@@ -76,7 +88,7 @@ type SpliceOptions struct {
 	Tolerance float64
 }
 
-// SpliceRecord says what [Splice] did for one quantity at one junction.
+// SpliceRecord says what splice did for one quantity at one junction.
 // Its JSON form (see MarshalJSON) is the one in figures.json and in the
 // neutral format's "# splice:" metadata.
 type SpliceRecord struct {
@@ -131,7 +143,7 @@ func (r *SpliceRecord) UnmarshalJSON(b []byte) error {
 	if err := json.Unmarshal(b, &j); err != nil {
 		return err
 	}
-	m, err := ParseSpliceMethod(j.Method)
+	m, err := parseSpliceMethod(j.Method)
 	if err != nil {
 		return err
 	}
@@ -155,7 +167,7 @@ func decodeSpliceRecord(v string) (SpliceRecord, error) {
 	return r, err
 }
 
-// Splice joins two spectra of one sample whose ranges overlap, such as a
+// splice joins two spectra of one sample whose ranges overlap, such as a
 // UV-Vis-NIR file and an FTIR file that both cover 2.4–2.6 µm. For each of
 // R, T and A measured by both over the overlap it compares the two at every
 // measured wavelength of either inside the overlap (each linear between its
@@ -169,12 +181,12 @@ func decodeSpliceRecord(v string) (SpliceRecord, error) {
 // The returned spectrum carries one [SpliceRecord] per fitted quantity in
 // Splices and a sentence for each in Notes; the returned record is the
 // first (R before T before A). Neither input is modified.
-func Splice(a, b *Spectrum, opt SpliceOptions) (*Spectrum, SpliceRecord, error) {
+func splice(a, b *Spectrum, opt SpliceOptions) (*Spectrum, SpliceRecord, error) {
 	if a == nil || b == nil || len(a.Segments) == 0 || len(b.Segments) == 0 {
 		return nil, SpliceRecord{}, fmt.Errorf("spectra: splice: %w", ErrNoData)
 	}
 	if opt.Method < SpliceOffset || opt.Method > SpliceNone {
-		return nil, SpliceRecord{}, fmt.Errorf("spectra: splice: %v %w", opt.Method, ErrSpliceMethod)
+		return nil, SpliceRecord{}, fmt.Errorf("spectra: splice: %v %w", opt.Method, errSpliceMethod)
 	}
 	alo, ahi := a.Range()
 	blo, bhi := b.Range()
@@ -187,10 +199,10 @@ func Splice(a, b *Spectrum, opt SpliceOptions) (*Spectrum, SpliceRecord, error) 
 	switch {
 	case !(ohi > olo):
 		return nil, SpliceRecord{}, fmt.Errorf("spectra: splice %s (%s–%s nm) and %s (%s–%s nm): %w",
-			an, fmtNM(alo), fmtNM(ahi), bn, fmtNM(blo), fmtNM(bhi), ErrNoOverlap)
+			an, fmtNM(alo), fmtNM(ahi), bn, fmtNM(blo), fmtNM(bhi), errNoOverlap)
 	case bhi <= ahi:
 		return nil, SpliceRecord{}, fmt.Errorf("spectra: splice: %s (%s–%s nm) %w %s (%s–%s nm)",
-			bn, fmtNM(blo), fmtNM(bhi), ErrNested, an, fmtNM(alo), fmtNM(ahi))
+			bn, fmtNM(blo), fmtNM(bhi), errNested, an, fmtNM(alo), fmtNM(ahi))
 	}
 	fixed, adj := a, b
 	if opt.Adjust != "" {
@@ -200,7 +212,7 @@ func Splice(a, b *Spectrum, opt SpliceOptions) (*Spectrum, SpliceRecord, error) 
 			fixed, adj = b, a
 		case mb && !ma:
 		default:
-			return nil, SpliceRecord{}, fmt.Errorf("spectra: splice %s and %s: adjust %q %w", an, bn, opt.Adjust, ErrAdjust)
+			return nil, SpliceRecord{}, fmt.Errorf("spectra: splice %s and %s: adjust %q %w", an, bn, opt.Adjust, errAdjust)
 		}
 	}
 	tol := opt.Tolerance
@@ -211,7 +223,7 @@ func Splice(a, b *Spectrum, opt SpliceOptions) (*Spectrum, SpliceRecord, error) 
 	if junction == 0 {
 		junction = (olo + ohi) / 2
 	} else if !(junction >= olo && junction <= ohi) {
-		return nil, SpliceRecord{}, fmt.Errorf("spectra: splice %s and %s: %s nm: %w (%s–%s nm)", an, bn, fmtNM(junction), ErrJunction, fmtNM(olo), fmtNM(ohi))
+		return nil, SpliceRecord{}, fmt.Errorf("spectra: splice %s and %s: %s nm: %w (%s–%s nm)", an, bn, fmtNM(junction), errJunction, fmtNM(olo), fmtNM(ohi))
 	}
 
 	adjusted := adj.clone()
@@ -226,7 +238,7 @@ func Splice(a, b *Spectrum, opt SpliceOptions) (*Spectrum, SpliceRecord, error) 
 			continue
 		}
 		if len(fv) < 2 {
-			return nil, SpliceRecord{}, fmt.Errorf("spectra: splice %s and %s: %s %w (%s–%s nm)", an, bn, q, ErrShortOverlap, fmtNM(olo), fmtNM(ohi))
+			return nil, SpliceRecord{}, fmt.Errorf("spectra: splice %s and %s: %s %w (%s–%s nm)", an, bn, q, errShortOverlap, fmtNM(olo), fmtNM(ohi))
 		}
 		r := SpliceRecord{Quantity: q, JunctionNM: junction, OverlapNM: [2]float64{olo, ohi}, Method: opt.Method,
 			Adjusted: sourceName(adj), Fixed: sourceName(fixed), Points: len(fv), Tolerance: tol}
@@ -248,7 +260,7 @@ func Splice(a, b *Spectrum, opt SpliceOptions) (*Spectrum, SpliceRecord, error) 
 				r.Value = sfg / sgg
 			}
 			if !(r.Value > 0) || math.IsInf(r.Value, 0) {
-				return nil, SpliceRecord{}, fmt.Errorf("spectra: splice %s and %s: %s: %w (%g)", an, bn, q, ErrScale, r.Value)
+				return nil, SpliceRecord{}, fmt.Errorf("spectra: splice %s and %s: %s: %w (%s)", an, bn, q, errScale, fmtNum(r.Value))
 			}
 			k := r.Value
 			apply = func(x float64) float64 { return k * x }
@@ -274,7 +286,7 @@ func Splice(a, b *Spectrum, opt SpliceOptions) (*Spectrum, SpliceRecord, error) 
 		recs = append(recs, r)
 	}
 	if len(recs) == 0 {
-		return nil, SpliceRecord{}, fmt.Errorf("spectra: splice %s and %s (%s–%s nm): %w", an, bn, fmtNM(olo), fmtNM(ohi), ErrNoCommon)
+		return nil, SpliceRecord{}, fmt.Errorf("spectra: splice %s and %s (%s–%s nm): %w", an, bn, fmtNM(olo), fmtNM(ohi), errNoCommon)
 	}
 
 	fixedCut, adjCut := fixed.clone(), adjusted
@@ -301,7 +313,7 @@ func Splice(a, b *Spectrum, opt SpliceOptions) (*Spectrum, SpliceRecord, error) 
 			}
 		}
 	}
-	out, err := Merge(lower, upper)
+	out, err := merge(lower, upper)
 	if err != nil {
 		return nil, SpliceRecord{}, err
 	}
@@ -314,8 +326,8 @@ func Splice(a, b *Spectrum, opt SpliceOptions) (*Spectrum, SpliceRecord, error) 
 
 // Join joins the spectra of one sample into one: it sorts them by their
 // first wavelength, splices a part into what precedes it where they overlap
-// (with opt; see [Splice]) and merges it where they touch or leave a gap (see
-// [Merge]). opt.Adjust applies at a junction where one side is exactly that
+// (with opt; see splice) and merges it where they touch or leave a gap (see
+// merge). opt.Adjust applies at a junction where one side is exactly that
 // file and opt.JunctionNM at the overlap that contains it; either naming
 // nothing used is an error.
 func Join(parts []*Spectrum, opt SpliceOptions) (*Spectrum, error) {
@@ -340,7 +352,7 @@ func Join(parts []*Spectrum, opt SpliceOptions) (*Spectrum, error) {
 			found = found || hasSource(p, opt.Adjust)
 		}
 		if !found {
-			return nil, fmt.Errorf("spectra: join: adjust %q %w", opt.Adjust, ErrAdjust)
+			return nil, fmt.Errorf("spectra: join: adjust %q %w", opt.Adjust, errAdjust)
 		}
 	}
 	usedJunction := opt.JunctionNM == 0
@@ -350,7 +362,7 @@ func Join(parts []*Spectrum, opt SpliceOptions) (*Spectrum, error) {
 		plo, phi := p.Range()
 		var err error
 		if plo >= ahi {
-			acc, err = Merge(acc, p)
+			acc, err = merge(acc, p)
 			if err != nil {
 				return nil, err
 			}
@@ -368,13 +380,13 @@ func Join(parts []*Spectrum, opt SpliceOptions) (*Spectrum, error) {
 				o.JunctionNM = 0
 			}
 		}
-		acc, _, err = Splice(acc, p, o)
+		acc, _, err = splice(acc, p, o)
 		if err != nil {
 			return nil, err
 		}
 	}
 	if !usedJunction {
-		return nil, fmt.Errorf("spectra: join: %s nm: %w of any two files", fmtNM(opt.JunctionNM), ErrJunction)
+		return nil, fmt.Errorf("spectra: join: %s nm: %w of any two files", fmtNM(opt.JunctionNM), errJunction)
 	}
 	return acc, nil
 }

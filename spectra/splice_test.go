@@ -58,7 +58,7 @@ func TestSplice(t *testing.T) {
 			if tt.adjusted == "a.csv" {
 				target = tt.b
 			}
-			out, rec, err := Splice(b, a, tt.opt) // order does not matter
+			out, rec, err := splice(b, a, tt.opt) // order does not matter
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -116,7 +116,7 @@ func TestSpliceLeastSquares(t *testing.T) {
 	b := rSpectrum(t, "b.csv", 2000, 5000, 7, func(nm float64) float64 { return 0.97*line(nm) + 0.02 + 0.01*n() }, 0)
 	f, g := compare(a.Series(R), b.Series(R), 2000, 3000)
 	for _, m := range []SpliceMethod{SpliceOffset, SpliceScale} {
-		_, rec, err := Splice(a, b, SpliceOptions{Method: m})
+		_, rec, err := splice(a, b, SpliceOptions{Method: m})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -156,27 +156,27 @@ func TestSpliceErrors(t *testing.T) {
 		opt  SpliceOptions
 		err  error
 	}{
-		{"no overlap", rSpectrum(t, "b.csv", 3000, 4000, 10, line, 0), SpliceOptions{}, ErrNoOverlap},
-		{"nested", rSpectrum(t, "b.csv", 1500, 2500, 10, line, 0), SpliceOptions{}, ErrNested},
-		{"junction outside", rSpectrum(t, "b.csv", 2000, 4000, 10, line, 0), SpliceOptions{JunctionNM: 3500}, ErrJunction},
-		{"adjust unknown", rSpectrum(t, "b.csv", 2000, 4000, 10, line, 0), SpliceOptions{Adjust: "c.csv"}, ErrAdjust},
-		{"nothing in common", tOnly, SpliceOptions{}, ErrNoCommon},
-		{"one point in the overlap", mustParse(t, "b.csv", "wavelength_nm,R\n2000,0.4\n4000,0.5\n"), SpliceOptions{}, ErrShortOverlap},
-		{"negative scale", rSpectrum(t, "b.csv", 2000, 4000, 10, func(nm float64) float64 { return -0.01 }, 0), SpliceOptions{Method: SpliceScale}, ErrScale},
-		{"bad method", rSpectrum(t, "b.csv", 2000, 4000, 10, line, 0), SpliceOptions{Method: 7}, ErrSpliceMethod},
+		{"no overlap", rSpectrum(t, "b.csv", 3000, 4000, 10, line, 0), SpliceOptions{}, errNoOverlap},
+		{"nested", rSpectrum(t, "b.csv", 1500, 2500, 10, line, 0), SpliceOptions{}, errNested},
+		{"junction outside", rSpectrum(t, "b.csv", 2000, 4000, 10, line, 0), SpliceOptions{JunctionNM: 3500}, errJunction},
+		{"adjust unknown", rSpectrum(t, "b.csv", 2000, 4000, 10, line, 0), SpliceOptions{Adjust: "c.csv"}, errAdjust},
+		{"nothing in common", tOnly, SpliceOptions{}, errNoCommon},
+		{"one point in the overlap", mustParse(t, "b.csv", "wavelength_nm,R\n2000,0.4\n4000,0.5\n"), SpliceOptions{}, errShortOverlap},
+		{"negative scale", rSpectrum(t, "b.csv", 2000, 4000, 10, func(nm float64) float64 { return -0.01 }, 0), SpliceOptions{Method: SpliceScale}, errScale},
+		{"bad method", rSpectrum(t, "b.csv", 2000, 4000, 10, line, 0), SpliceOptions{Method: 7}, errSpliceMethod},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			first := a
-			if tt.err == ErrShortOverlap {
+			if tt.err == errShortOverlap {
 				first = short // R measured at 1000 and 2000 nm only
 			}
-			if _, _, err := Splice(first, tt.b, tt.opt); !errors.Is(err, tt.err) {
+			if _, _, err := splice(first, tt.b, tt.opt); !errors.Is(err, tt.err) {
 				t.Errorf("err = %v, want %v", err, tt.err)
 			}
 		})
 	}
-	if _, err := ParseSpliceMethod("shift"); !errors.Is(err, ErrSpliceMethod) {
-		t.Errorf("ParseSpliceMethod: %v", err)
+	if err := new(SpliceMethod).UnmarshalText([]byte("shift")); !errors.Is(err, errSpliceMethod) {
+		t.Errorf("UnmarshalText: %v", err)
 	}
 }
 
@@ -203,10 +203,10 @@ func TestJoin(t *testing.T) {
 	if len(out.Sources) != 4 {
 		t.Errorf("sources %v", out.Sources)
 	}
-	if _, err := Join([]*Spectrum{uv, nir}, SpliceOptions{JunctionNM: 2000}); !errors.Is(err, ErrJunction) {
+	if _, err := Join([]*Spectrum{uv, nir}, SpliceOptions{JunctionNM: 2000}); !errors.Is(err, errJunction) {
 		t.Errorf("junction in no overlap: %v", err)
 	}
-	if _, err := Join([]*Spectrum{uv, nir}, SpliceOptions{Adjust: "x.csv"}); !errors.Is(err, ErrAdjust) {
+	if _, err := Join([]*Spectrum{uv, nir}, SpliceOptions{Adjust: "x.csv"}); !errors.Is(err, errAdjust) {
 		t.Errorf("adjust naming no file: %v", err)
 	}
 	one, err := Join([]*Spectrum{uv}, SpliceOptions{})

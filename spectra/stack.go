@@ -7,9 +7,9 @@ import (
 	"sort"
 )
 
-// ErrNoCommonRange reports that the layers of a stack share no wavelength
+// errNoCommonRange reports that the layers of a stack share no wavelength
 // range over which every one of them has both R and T.
-var ErrNoCommonRange = errors.New("layers share no wavelength range with both R and T")
+var errNoCommonRange = errors.New("layers share no wavelength range with both R and T")
 
 // StackOptics is the optics of layers stacked top first, light falling on
 // the top. Its Optics hold the whole stack: R seen from above, T (the same
@@ -46,7 +46,7 @@ type StackOptics struct {
 // prefixed with its layer's number (1 = top).
 //
 // It returns an error wrapping [ErrNoData] when there are no layers, and
-// [ErrNoCommonRange] when the layers share no range.
+// errNoCommonRange when the layers share no range.
 func Stack(layers []Optics) (StackOptics, error) {
 	if len(layers) == 0 {
 		return StackOptics{}, fmt.Errorf("spectra: stack: %w: no layers", ErrNoData)
@@ -56,7 +56,7 @@ func Stack(layers []Optics) (StackOptics, error) {
 		common = intersect(common, layerSpans(l))
 	}
 	if len(common) == 0 {
-		return StackOptics{}, fmt.Errorf("spectra: stack of %d layers: %w", len(layers), ErrNoCommonRange)
+		return StackOptics{}, fmt.Errorf("spectra: stack of %d layers: %w", len(layers), errNoCommonRange)
 	}
 	n := len(layers)
 	out := StackOptics{Absorbed: make([]Series, n)}

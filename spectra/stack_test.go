@@ -390,11 +390,11 @@ func TestStackErrors(t *testing.T) {
 		t.Errorf("no layers: %v, want ErrNoData", err)
 	}
 	_, err := Stack([]Optics{flat(0.1, 0.2, 300, 500), flat(0.1, 0.2, 500, 900)})
-	if !errors.Is(err, ErrNoCommonRange) {
+	if !errors.Is(err, errNoCommonRange) {
 		t.Errorf("touching ranges: %v, want ErrNoCommonRange", err)
 	}
 	onlyR := Optics{R: flat(0.1, 0, 300, 900).R}
-	if _, err := Stack([]Optics{onlyR}); !errors.Is(err, ErrNoCommonRange) {
+	if _, err := Stack([]Optics{onlyR}); !errors.Is(err, errNoCommonRange) {
 		t.Errorf("layer without T: %v, want ErrNoCommonRange", err)
 	}
 }
@@ -446,7 +446,7 @@ func FuzzStack(f *testing.F) {
 		}
 		s, err := Stack(layers)
 		if err != nil {
-			if !errors.Is(err, ErrNoCommonRange) && !errors.Is(err, ErrNoData) {
+			if !errors.Is(err, errNoCommonRange) && !errors.Is(err, ErrNoData) {
 				t.Fatalf("unexpected error %v", err)
 			}
 			return

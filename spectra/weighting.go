@@ -137,17 +137,6 @@ func SolarDirect() Weighting { g173Once.Do(loadG173); return g173Dir }
 // SolarRangeNM is the wavelength range of the ASTM G173-03 tables.
 var SolarRangeNM = Interval{280, 4000}
 
-// Solar returns the G173 weighting named "global" or "direct".
-func Solar(name string) (Weighting, error) {
-	switch name {
-	case "global":
-		return SolarGlobal(), nil
-	case "direct":
-		return SolarDirect(), nil
-	}
-	return nil, fmt.Errorf("solar spectrum %q: want \"global\" or \"direct\"", name)
-}
-
 // Mean is the result of [BandMean].
 type Mean struct {
 	// Value is ∫ x w dλ / ∫ w dλ over the covered part; NaN when nothing of
@@ -244,9 +233,9 @@ func integrateWeight(w Weighting, lo, hi float64) float64 {
 	return sum
 }
 
-// WeightIntegral returns ∫ w dλ over [lo, hi] nm by the trapezoid rule on the
+// weightIntegral returns ∫ w dλ over [lo, hi] nm by the trapezoid rule on the
 // weighting's knots and the band limits (exact for a tabulated weighting).
-func WeightIntegral(w Weighting, lo, hi float64) float64 { return integrateWeight(w, lo, hi) }
+func weightIntegral(w Weighting, lo, hi float64) float64 { return integrateWeight(w, lo, hi) }
 
 // unionGrid merges a, b and the sorted slices xs and ys restricted to (a, b)
 // into one sorted grid without duplicates.

@@ -22,7 +22,7 @@ func TestG173Totals(t *testing.T) {
 		{"global tilt", SolarGlobal(), 1000.4},         // ASTM G173-03 total, 280–4000 nm
 		{"direct + circumsolar", SolarDirect(), 900.1}, // ASTM G173-03 total, 280–4000 nm
 	} {
-		got := WeightIntegral(tt.w, 280, 4000)
+		got := weightIntegral(tt.w, 280, 4000)
 		if math.Abs(got-tt.want) > 0.05 {
 			t.Errorf("%s: ∫E dλ = %.3f W/m², want %.1f", tt.name, got, tt.want)
 		}
@@ -41,7 +41,7 @@ func TestStefanBoltzmannConstant(t *testing.T) {
 
 func TestPlanckIntegral(t *testing.T) {
 	for _, T := range []float64{250, 300, 350} {
-		got := WeightIntegral(Blackbody{K: T}, 200, 2e6) // W m⁻² sr⁻¹
+		got := weightIntegral(Blackbody{K: T}, 200, 2e6) // W m⁻² sr⁻¹
 		want := sigma * math.Pow(T, 4) / math.Pi         // ∫B dλ = σT⁴/π, CODATA σ
 		if math.Abs(got-want)/want > 2e-5 {
 			t.Errorf("T=%g: ∫B dλ = %.6f, want σT⁴/π = %.6f", T, got, want)
@@ -74,7 +74,7 @@ func TestBlackbodyFraction(t *testing.T) {
 		{10000, 0.9142},
 	} {
 		nm := tt.lambdaT / T * 1000
-		got := WeightIntegral(Blackbody{K: T}, 100, nm) / total
+		got := weightIntegral(Blackbody{K: T}, 100, nm) / total
 		if math.Abs(got-tt.want) > 3e-4 {
 			t.Errorf("F(0→%g µm K) = %.5f, want %.4f", tt.lambdaT, got, tt.want)
 		}

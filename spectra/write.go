@@ -35,7 +35,7 @@ func Write(w io.Writer, s *Spectrum) error {
 		bw.WriteString("# " + spliceKey + ": " + string(j) + "\n")
 	}
 	var qs []Quantity
-	for _, q := range Quantities {
+	for _, q := range quantities {
 		if s.Has(q) {
 			qs = append(qs, q)
 		}

@@ -10,6 +10,7 @@ import (
 	"text/tabwriter"
 
 	"skysheet/datasheet"
+	"skysheet/datasheet/evaluate"
 	"skysheet/spectra"
 )
 
@@ -39,7 +40,7 @@ func runFigures(e *env, args []string) error {
 	}
 	// Bad conditions are bad usage; a bad sky file is bad data.
 	plain := c
-	plain.Sky, plain.SkySpectrum = datasheet.SkyClear, nil
+	plain.Sky = datasheet.SkyChoice{}
 	if err := plain.Validate(); err != nil {
 		return usagef("%v", err)
 	}
@@ -47,18 +48,18 @@ func runFigures(e *env, args []string) error {
 		return err
 	}
 	if err := c.Validate(); err != nil {
-		return usagef("%v", err)
-	}
-	if err := so.validate(); err != nil {
 		return err
 	}
-	s, err := readSampleWith(files, &so)
+	if err := validateSample(so); err != nil {
+		return err
+	}
+	s, err := readSample(files, so)
 	if err != nil {
 		return err
 	}
 	printWarnings(e.stderr, "figures", s)
 	if *save != "" && *save != "-" {
-		if err := refuseOverwrite(*save, append(so.read, c.Sky)); err != nil {
+		if err := refuseOverwrite(*save, append(inputNames(s), c.Sky.File)); err != nil {
 			return err
 		}
 	}
@@ -67,10 +68,11 @@ func runFigures(e *env, args []string) error {
 			return err
 		}
 	}
-	f, err := datasheet.Compute(s, c)
+	m, err := evaluate.Sample(s, c)
 	if err != nil {
 		return err
 	}
+	f := m.Figures
 	if *asJSON {
 		enc := json.NewEncoder(rawWriter(e.stdout))
 		enc.SetIndent("", "  ")
@@ -78,15 +80,6 @@ func runFigures(e *env, args []string) error {
 	}
 	printFigures(e.stdout, files, f)
 	return nil
-}
-
-// readSample reads the spectrum files of one sample and joins them with
-// the default options: each file corrected against the reference standard
-// it names, overlapping files spliced (see readSampleWith).
-func readSample(files []string) (*spectra.Spectrum, error) {
-	var o sampleOptions
-	o.splice.Tolerance = spectra.DefaultSpliceTol
-	return readSampleWith(files, &o)
 }
 
 // printFigures writes the human-readable report.
@@ -111,7 +104,7 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 				fmt.Fprint(tw, "\t\t\t")
 			}
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\n", fmtBand(x.Band, x.BandUnit), x.Weighting, fmtPercent(x.Coverage))
+		fmt.Fprintf(tw, "%s\t%s\t%s\n", x.BandText(), x.Weighting, fmtPercent(x.Coverage))
 	}
 	tw.Flush()
 	cl := f.Closure
@@ -123,7 +116,7 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 			fmt.Fprintf(w, "  - %s\n", p)
 		}
 	case cl.Checked:
-		fmt.Fprintf(w, "Closure: holds; |R+T+A-1| at most %.4f (at %g nm), tolerance %g\n", cl.Residual, cl.ResidualNM, cl.Tolerance)
+		fmt.Fprintf(w, "Closure: holds; |R+T+A-1| at most %.4f (at %s nm), tolerance %g\n", cl.Residual, fmtNM(cl.ResidualNM), cl.Tolerance)
 	default:
 		fmt.Fprintf(w, "Closure: R, T and A were not all measured; R+T ≤ 1 and no negative values, tolerance %g\n", cl.Tolerance)
 	}
@@ -137,15 +130,11 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	}
 	c := f.Conditions
 	fmt.Fprintln(w, "\nConditions:")
-	fmt.Fprintf(w, "  solar band %g–%g nm, ASTM G173-03 %s spectrum\n", c.SolarBandNM[0], c.SolarBandNM[1], c.SolarSpectrum)
-	fmt.Fprintf(w, "  thermal band %g–%g µm, window band %g–%g µm, blackbody at %g K\n", c.ThermalBandUM[0], c.ThermalBandUM[1], c.WindowBandUM[0], c.WindowBandUM[1], c.TemperatureK)
-	fmt.Fprintf(w, "  closure tolerance %g\n", c.ClosureTol)
-	sky := c.Sky
-	if sky == "" {
-		sky = datasheet.SkyClear
-	}
-	fmt.Fprintf(w, "  cooling: air %g K, dew point %g °C, sun %g W/m², h %g W m⁻² K⁻¹, exchange band %g–%g µm, sky %s\n",
-		c.AmbientK, c.DewPointC, c.IrradianceWm2, c.HWm2K, c.ExchangeBandUM[0], c.ExchangeBandUM[1], sky)
+	fmt.Fprintf(w, "  solar band %s, ASTM G173-03 %s spectrum\n", c.Text("solar_band_nm"), c.SolarSpectrum)
+	fmt.Fprintf(w, "  thermal band %s, window band %s, blackbody at %s\n", c.Text("thermal_band_um"), c.Text("window_band_um"), c.Text("temperature_k"))
+	fmt.Fprintf(w, "  closure tolerance %s\n", c.Text("closure_tolerance"))
+	fmt.Fprintf(w, "  cooling: air %s, dew point %s, sun %s, h %s, exchange band %s, sky %s\n",
+		c.Text("ambient_k"), c.Text("dew_point_c"), c.Text("irradiance_w_m2"), c.Text("h_w_m2k"), c.Text("exchange_band_um"), c.Sky)
 	printProvenance(w, f.Provenance)
 	if len(f.Cautions) > 0 {
 		fmt.Fprintln(w, "\nCautions:")
@@ -165,14 +154,14 @@ func printCooling(w io.Writer, f *datasheet.Figures) {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "  \twith sun\tat night")
 	fmt.Fprintf(tw, "  net cooling power at ambient\t%s\t%s\n", fmtUnit(f.CoolingPowerWm2, "W/m²"), fmtUnit(f.CoolingPowerNightWm2, "W/m²"))
-	fmt.Fprintf(tw, "  settles at\t%s\t%s\n", fmtDepression(f.EquilibriumDeltaK), fmtDepression(f.EquilibriumDeltaNightK))
+	fmt.Fprintf(tw, "  equilibrium\t%s\t%s\n", fmtDepression(f.EquilibriumDeltaK), fmtDepression(f.EquilibriumDeltaNightK))
 	fmt.Fprintf(tw, "  surface temperature\t%s\t%s\n", fmtUnit(t.EquilibriumK, "K"), fmtUnit(t.EquilibriumNightK, "K"))
 	tw.Flush()
 	fmt.Fprintf(w, "  At ambient the surface radiates %s, absorbs %s from the sky and %s of sunlight.\n",
 		fmtUnit(t.RadiatedWm2, "W/m²"), fmtUnit(t.AtmosphericWm2, "W/m²"), fmtUnit(t.SolarWm2, "W/m²"))
-	if len(t.HeldBandsUM) > 0 {
+	if len(t.HeldBands) > 0 {
 		fmt.Fprintf(w, "  Emittance held constant beyond the data over %s: %s of blackbody power (%s of the band).\n",
-			fmtBands(t.HeldBandsUM), fmtUnit(f.HeldPowerWm2, "W/m²"), fmtPercent(t.HeldShare))
+			fmtBands(t.HeldBands), fmtUnit(f.HeldPowerWm2, "W/m²"), fmtPercent(t.HeldShare))
 	}
 	if len(f.Sensitivity) > 0 {
 		fmt.Fprintln(w, "\nSensitivity (change of the figures when one condition changes):")
@@ -201,20 +190,20 @@ func printCooling(w io.Writer, f *datasheet.Figures) {
 	fmt.Fprintf(w, "  %s\n", s.Note)
 }
 
-// fmtFigure formats a value in the figure's unit.
+// fmtFigure formats a value in the figure's unit as the figure's kind
+// writes it for a reader (a temperature difference as where the surface
+// settles).
 func fmtFigure(x datasheet.Figure, v datasheet.Num) string {
-	if strings.HasPrefix(x.Key, "sri_") {
-		return fmtFixed(v, 1)
-	}
-	return fmtValue(v, x.Unit)
+	return x.Kind().Words(float64(v), x.Unit)
 }
 
-// fmtUncertainty formats an uncertainty one digit finer than the value.
+// fmtUncertainty formats an uncertainty: as the value for a fraction, one
+// digit finer for the others.
 func fmtUncertainty(x datasheet.Figure, v datasheet.Num) string {
 	switch {
 	case math.IsNaN(float64(v)):
 		return "n/a"
-	case x.Unit == "" && !strings.HasPrefix(x.Key, "sri_"):
+	case x.Kind() == datasheet.KindFraction:
 		return fmt.Sprintf("%.4f", float64(v))
 	case x.Unit == "":
 		return fmt.Sprintf("%.2f", float64(v))
@@ -231,13 +220,7 @@ func fmtUnit(v datasheet.Num, unit string) string {
 
 // fmtDepression says T_amb − T_eq in words.
 func fmtDepression(v datasheet.Num) string {
-	switch d := float64(v); {
-	case math.IsNaN(d):
-		return "n/a"
-	case d < 0:
-		return fmt.Sprintf("%.1f K above ambient", -d)
-	}
-	return fmt.Sprintf("%.1f K below ambient", float64(v))
+	return datasheet.KindTemperatureDifference.Words(float64(v), "K")
 }
 
 func fmtSigned(v datasheet.Num, unit string) string {
@@ -254,10 +237,12 @@ func fmtFixed(v datasheet.Num, digits int) string {
 	return strconv.FormatFloat(float64(v), 'f', digits, 64)
 }
 
-func fmtBands(b [][2]float64) string {
+func fmtBands(b []spectra.Interval) string {
 	parts := make([]string, len(b))
 	for i, x := range b {
-		parts[i] = fmt.Sprintf("%g–%g µm", x[0], x[1])
+		// Band ends from the data, to 0.01 nm.
+		lo, hi := spectra.Interval{Lo: math.Round(x.Lo*100) / 100, Hi: math.Round(x.Hi*100) / 100}.UM()
+		parts[i] = fmt.Sprintf("%g–%g µm", lo, hi)
 	}
 	return strings.Join(parts, ", ")
 }
@@ -281,22 +266,8 @@ func printProvenance(w io.Writer, p datasheet.Provenance) {
 		st.ClosureTolerance, st.PlanckStepNM, st.Integration, st.Schema)
 }
 
-func fmtValue(v datasheet.Num, unit string) string {
-	if math.IsNaN(float64(v)) {
-		return "n/a"
-	}
-	if unit == "" {
-		return fmt.Sprintf("%.4f", float64(v))
-	}
-	return fmt.Sprintf("%.1f %s", float64(v), unit)
-}
-
-func fmtBand(b [2]float64, unit string) string {
-	if unit == "" {
-		return ""
-	}
-	return fmt.Sprintf("%g–%g %s", b[0], b[1], unit)
-}
+// fmtNM writes a wavelength from the data to 0.01 nm.
+func fmtNM(nm float64) string { return strconv.FormatFloat(math.Round(nm*100)/100, 'f', -1, 64) }
 
 func fmtPercent(v datasheet.Num) string {
 	if math.IsNaN(float64(v)) {

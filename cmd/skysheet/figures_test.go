@@ -154,7 +154,7 @@ func TestFiguresHumanOutput(t *testing.T) {
 	}
 	for _, want := range []string{
 		"Sky: Clear sky, two-band model", "clamped", // the dry sky clamps, in words
-		"net cooling power at ambient", "K below ambient",
+		"net cooling power at ambient", "K below the air",
 		"Solar Reflectance Index", "opaque, horizontal or low-sloped",
 		"Sensitivity", "dew point +5 °C",
 		"u indep.", "u together", // the white data give u_R

@@ -63,12 +63,12 @@ func runImport(e *env, args []string) error {
 		}
 		lo, hi := s.Range()
 		var qs []string
-		for _, q := range spectra.Quantities {
+		for _, q := range []spectra.Quantity{spectra.R, spectra.T, spectra.A, spectra.UR, spectra.UT} {
 			if s.Has(q) {
 				qs = append(qs, q.String())
 			}
 		}
-		fmt.Fprintf(e.stdout, "%s -> %s: %d points, %g–%g nm, %s\n", files[i], names[i], s.Len(), lo, hi, strings.Join(qs, ", "))
+		fmt.Fprintf(e.stdout, "%s -> %s: %d points, %s–%s nm, %s\n", files[i], names[i], s.Len(), fmtNM(lo), fmtNM(hi), strings.Join(qs, ", "))
 		for _, n := range s.Notes {
 			fmt.Fprintf(e.stdout, "  note: %s\n", n)
 		}

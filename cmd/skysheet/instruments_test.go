@@ -76,7 +76,7 @@ func TestFiguresFromInstrumentExports(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	want, err := datasheet.Compute(s, datasheet.DefaultConditions())
+	want, err := datasheet.Compute(s, spectra.Resolve(s, spectra.DefaultClosureTol), datasheet.DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -240,7 +240,7 @@ func TestSpliceCommand(t *testing.T) {
 	if len(s.Splices) != 1 || len(s.Notes) != 3 || len(s.Segments) != 1 {
 		t.Errorf("written spectrum: %d splices, %d notes, %d segments", len(s.Splices), len(s.Notes), len(s.Segments))
 	}
-	if v, _ := s.Get(spectra.ReferenceAppliedKey); !strings.HasSuffix(v, "reference.csv") {
+	if v, _ := s.Get("reference_applied"); !strings.HasSuffix(v, "reference.csv") {
 		t.Errorf("reference_applied = %q", v)
 	}
 	code, stdout, _ := runCLI("splice", "--method", "none", demo("uvvis.jdx"), demo("ftir.jdx"), "-o", "-")

@@ -167,7 +167,7 @@ func (s *preview) render() (memSite, []string) {
 		limit = defaultMaxFileSize
 	}
 	fsys := newInputFS(root, limit)
-	lib, err := library.Load(fsys)
+	lib, err := loadLibrary(fsys)
 	if err != nil {
 		return nil, problems(err)
 	}

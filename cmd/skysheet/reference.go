@@ -15,50 +15,62 @@ import (
 // leaves the folder of the data file naming it.
 var errReferenceOutside = errors.New("leaves the folder of the data file")
 
-// readReference reads the reference standard that the metadata of the data
-// file name (reference_file: f) names. A data file is not trusted to name
-// any file on the system: f must lie in name's folder or below it (an
-// os.Root refuses symbolic links that lead out), unless it is the very file
-// given on the command line with --reference (explicit). The message of a
-// file that does not read as a spectrum quotes none of its content. It
-// returns the path read, for refuseOverwrite.
-func readReference(name, f, explicit string, limit int64) (*spectra.Spectrum, string, error) {
+// resolveReference returns the path of the reference standard that the
+// metadata of the data file name (reference_file: f) name. A data file is
+// not trusted to name any file on the system: f must lie in name's folder or
+// below it, also after following symbolic links, unless it is the very file
+// given on the command line with --reference (explicit).
+func resolveReference(name, f, explicit string) (string, error) {
 	dir := filepath.Dir(name)
 	p := filepath.Join(dir, filepath.FromSlash(f))
 	if filepath.IsAbs(f) {
 		p = filepath.Clean(f)
 	}
 	if explicit != "" && sameFile(p, explicit) {
-		s, err := readSpectrumFile(explicit, limit)
-		return s, explicit, err
+		return explicit, nil
 	}
-	outside := fmt.Errorf("%s: reference_file %s %w: put the reference standard in that folder, or give it with --reference %s", name, quote.Value(f), errReferenceOutside, p)
+	outside := fmt.Errorf("%s %w: put the reference standard in that folder, or give it with --reference %s", quote.Value(f), errReferenceOutside, p)
+	if filepath.IsAbs(f) || !inside(dir, p) {
+		return "", outside
+	}
+	// A symbolic link may lead out of the folder.
+	realDir, err1 := filepath.EvalSymlinks(dir)
+	realP, err2 := filepath.EvalSymlinks(p)
+	if err1 == nil && err2 == nil && !inside(realDir, realP) {
+		return "", outside
+	}
+	return p, nil
+}
+
+// inside reports whether path p lies in folder dir or below it.
+func inside(dir, p string) bool {
 	rel, err := filepath.Rel(dir, p)
-	if filepath.IsAbs(f) || err != nil || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
-		return nil, p, outside
+	return err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator))
+}
+
+// quietReferenceErrors returns err with the content quoted from reference
+// standards taken out: a reader's error in a file other than the data file
+// it belongs to (see withoutContent).
+func quietReferenceErrors(err error) error {
+	var errs []error
+	if j, ok := err.(interface{ Unwrap() []error }); ok {
+		errs = j.Unwrap()
+	} else {
+		errs = []error{err}
 	}
-	root, err := os.OpenRoot(dir)
-	if err != nil {
-		return nil, p, err
-	}
-	defer root.Close()
-	file, err := root.OpenFile(rel, openNonBlocking, 0)
-	if err != nil {
-		if strings.Contains(err.Error(), "escapes") {
-			return nil, p, outside // a symbolic link out of the folder
+	changed := false
+	for i, e := range errs {
+		var fe *spectra.FileError
+		var pe *spectra.ParseError
+		if errors.As(e, &fe) && errors.As(e, &pe) && fe.File != "" && pe.File != fe.File {
+			errs[i] = fmt.Errorf("%s: reference standard %w", fe.File, withoutContent(pe))
+			changed = true
 		}
-		return nil, p, fmt.Errorf("reference standard for %s: %w", name, err)
 	}
-	defer file.Close()
-	data, err := readLimited(file, limit)
-	if err != nil {
-		return nil, p, fmt.Errorf("reference standard for %s: %s: %w", name, p, err)
+	if !changed {
+		return err
 	}
-	s, err := spectra.Decode(data, p)
-	if err != nil {
-		return nil, p, fmt.Errorf("reference standard for %s: %w", name, withoutContent(err))
-	}
-	return s, p, nil
+	return errors.Join(errs...)
 }
 
 // sameFile reports whether the paths a and b name one existing file.

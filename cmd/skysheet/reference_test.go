@@ -53,7 +53,7 @@ func TestReferenceConfined(t *testing.T) {
 			}
 		})
 	}
-	_, _, err := readReference(sample("../outside.csv"), "../outside.csv", "", 0)
+	_, err := resolveReference(sample("../outside.csv"), "../outside.csv", "")
 	if !errors.Is(err, errReferenceOutside) {
 		t.Errorf("error %v, want errReferenceOutside", err)
 	}

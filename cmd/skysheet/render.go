@@ -13,6 +13,7 @@ import (
 	"sync"
 	"syscall"
 
+	"skysheet/datasheet/evaluate"
 	"skysheet/datasheet/library"
 	"skysheet/datasheet/site"
 )
@@ -86,6 +87,19 @@ func plural(n int, what string) string {
 		return "1 " + what
 	}
 	return fmt.Sprintf("%d %ss", n, what)
+}
+
+// loadLibrary reads the library in fsys for rendering. When some files
+// are bad, the materials that could be read are evaluated all the same, so
+// that the problems of their spectra are reported with the rest, in file
+// order.
+func loadLibrary(fsys fs.FS) (*library.Library, error) {
+	lib, err := library.Load(fsys)
+	if err != nil {
+		_, evalErr := evaluate.Library(lib, evaluate.Options{}, nil)
+		return nil, library.Join(err, evalErr)
+	}
+	return lib, nil
 }
 
 // renderResult counts what a render wrote.
@@ -220,7 +234,7 @@ func renderLibrary(root *os.Root, w *dirWriter, o renderOptions) (*library.Libra
 		limit = defaultMaxFileSize
 	}
 	fsys := newInputFS(root, limit)
-	lib, err := library.Load(fsys)
+	lib, err := loadLibrary(fsys)
 	if err != nil {
 		return nil, err
 	}

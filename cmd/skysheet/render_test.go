@@ -147,7 +147,28 @@ func TestRenderAtomic(t *testing.T) {
 	if code != 1 || strings.Count(stderr, "\n  ") != 1 || !strings.Contains(stderr, "content/roof/basalt.md:5:1: unknown key") || !strings.Contains(stderr, `did you mean "category"?`) {
 		t.Errorf("exit %d, stderr %q", code, stderr)
 	}
+	// A claim of a figure the tool does not compute is a content error
+	// too: file:line:column of the figure, the nearest key, no site.
+	writeAt(t, md, strings.Replace(string(good), "figure: solar_reflectance", "figure: solar_reflectence", 1))
+	code, _, stderr = runCLI("render", lib, "--site", out)
+	if code != 1 || !strings.Contains(stderr, `content/roof/basalt.md:15:14: no such figure: claim 1 names "solar_reflectence" (did you mean "solar_reflectance"?)`) {
+		t.Errorf("unknown figure: exit %d, stderr %q", code, stderr)
+	}
+	// A spectrum that cannot be read, in a library that also has a bad
+	// front matter: both reported, in file order.
+	writeAt(t, md, strings.Replace(string(good), "category:", "categroy:", 1))
+	ftir := filepath.Join(lib, "content", "films", "clearview-ftir.csv")
+	goodFTIR, _ := os.ReadFile(ftir)
+	writeAt(t, ftir, strings.Replace(string(goodFTIR), "2.7,0.0500", "2.7,x", 1))
+	code, _, stderr = runCLI("render", lib, "--site", out)
+	if i, j := strings.Index(stderr, "content/films/clearview.md:8:11: cannot read spectrum"), strings.Index(stderr, "content/roof/basalt.md:5:1"); code != 1 || i < 0 || j < i {
+		t.Errorf("spectrum and front matter: exit %d, stderr %q", code, stderr)
+	}
+	writeAt(t, ftir, string(goodFTIR))
 	writeAt(t, md, string(good))
+	if got := readTree(t, out); len(got) != len(before) {
+		t.Errorf("a failed render changed the site: %d files, had %d", len(got), len(before))
+	}
 
 	// A failure while writing files, midway through the site.
 	failAfter = 10
@@ -238,6 +259,34 @@ func TestGoldenDatasheet(t *testing.T) {
 	}
 	if !bytes.Equal(got, want) {
 		t.Errorf("%s differs; check the page and rerun with -update", golden)
+	}
+}
+
+// TestGoldenCatalog guards catalog.json of the test library: every
+// material's metadata, figures (cooling and uncertainty included) and
+// claims with their verdicts.
+func TestGoldenCatalog(t *testing.T) {
+	lib := copyLibrary(t)
+	out := filepath.Join(t.TempDir(), "site")
+	if _, err := renderSite(lib, out, "test", &bytes.Buffer{}, false); err != nil {
+		t.Fatal(err)
+	}
+	got, err := os.ReadFile(filepath.Join(out, "catalog.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	golden := filepath.Join("testdata", "catalog.golden.json")
+	if *update {
+		if err := os.WriteFile(golden, got, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	want, err := os.ReadFile(golden)
+	if err != nil {
+		t.Fatalf("%v (run go test -update to create it)", err)
+	}
+	if !bytes.Equal(got, want) {
+		t.Errorf("%s differs; check the catalog and rerun with -update", golden)
 	}
 }
 

@@ -2,14 +2,12 @@ package main
 
 import (
 	"errors"
-	"fmt"
 	"io/fs"
 	"os"
-	"runtime"
 	"sort"
-	"sync"
 
 	"skysheet/datasheet"
+	"skysheet/datasheet/evaluate"
 	"skysheet/datasheet/library"
 )
 
@@ -51,6 +49,7 @@ type reviewMaterial struct {
 	Inputs   []library.Input          `json:"inputs"`
 	Closure  *datasheet.ClosureReport `json:"closure,omitempty"`
 	Verdicts []datasheet.Verdict      `json:"verdicts"`
+	Warnings []string                 `json:"warnings,omitempty"`
 }
 
 // failed reports whether the file fails the review.
@@ -121,7 +120,8 @@ func openLibrary(dir string, maxSize int64) (fs.FS, func(), error) {
 	return newInputFS(root, maxSize), func() { root.Close() }, nil
 }
 
-// reviewLibrary judges every claim of lib and files the load errors under
+// reviewLibrary evaluates every material of lib (see evaluate.Library) and
+// files its verdicts and the problems found, load errors included, under
 // the file they name.
 func reviewLibrary(dir string, lib *library.Library, loadErr error, strict bool) *reviewReport {
 	r := &reviewReport{Library: dir, Software: "skysheet " + datasheet.Version(), Strict: strict}
@@ -135,6 +135,7 @@ func reviewLibrary(dir string, lib *library.Library, loadErr error, strict bool)
 		return m
 	}
 	get(library.ConfigFile)
+	var evalErr error
 	if lib != nil {
 		if in := lib.Config.Input; in.Path != "" {
 			get(library.ConfigFile).Inputs = []library.Input{in}
@@ -143,23 +144,17 @@ func reviewLibrary(dir string, lib *library.Library, loadErr error, strict bool)
 			cm := get(c.Path)
 			cm.Slug, cm.Title = c.Slug, c.Front.Title
 		}
-		judged := judgeAll(lib.Materials, runtime.GOMAXPROCS(0))
-		for i, mat := range lib.Materials {
-			cm := get(mat.Path)
-			cm.Slug, cm.Title, cm.Inputs = mat.Slug, mat.Front.Title, mat.Inputs
-			if mat.Figures != nil {
-				cl := mat.Figures.Closure
-				cm.Closure = &cl
-			}
-			for i, c := range mat.Front.Claims {
-				if err := c.Validate(); err != nil {
-					cm.Errors = append(cm.Errors, fmt.Sprintf("%s: claim %d: %v", mat.Path, i+1, err))
-				}
-			}
-			cm.Verdicts = judged[i]
+		var sums []*evaluate.Summary
+		sums, evalErr = evaluate.Library(lib, evaluate.Options{}, nil)
+		for _, s := range sums {
+			cm := get(s.Path)
+			cm.Slug, cm.Title, cm.Inputs, cm.Warnings = s.Slug, s.Front.Title, s.Inputs, s.Warnings
+			cl := s.Figures.Closure
+			cm.Closure = &cl
+			cm.Verdicts = s.Verdicts
 		}
 	}
-	for _, err := range splitErrors(loadErr) {
+	for _, err := range splitErrors(library.Join(loadErr, evalErr)) {
 		p := ""
 		var le *library.Error
 		if errors.As(err, &le) {
@@ -189,28 +184,6 @@ func reviewLibrary(dir string, lib *library.Library, loadErr error, strict bool)
 		}
 	}
 	return r
-}
-
-// judgeAll judges the claims of every material with at most workers
-// materials at a time. The verdicts are in the order of ms, whatever the
-// number of workers.
-func judgeAll(ms []*library.Material, workers int) [][]datasheet.Verdict {
-	out := make([][]datasheet.Verdict, len(ms))
-	next := make(chan int)
-	var wg sync.WaitGroup
-	for range max(1, min(workers, len(ms))) {
-		wg.Go(func() {
-			for i := range next {
-				out[i] = ms[i].Verdicts()
-			}
-		})
-	}
-	for i := range ms {
-		next <- i
-	}
-	close(next)
-	wg.Wait()
-	return out
 }
 
 // splitErrors returns the single errors inside err.

@@ -34,7 +34,7 @@ func closureWords(cl *datasheet.ClosureReport) string {
 	case !cl.OK:
 		return "closure fails: " + strings.Join(cl.Problems, " ")
 	case cl.Checked:
-		return fmt.Sprintf("closure holds: |R+T+A−1| at most %.4f (at %g nm), tolerance %g", cl.Residual, cl.ResidualNM, cl.Tolerance)
+		return fmt.Sprintf("closure holds: |R+T+A−1| at most %.4f (at %s nm), tolerance %g", cl.Residual, fmtNM(cl.ResidualNM), cl.Tolerance)
 	}
 	return fmt.Sprintf("closure holds: R, T and A not all measured; R+T ≤ 1 and no negative values within %g", cl.Tolerance)
 }
@@ -43,7 +43,7 @@ func writeReviewText(w io.Writer, r *reviewReport) error {
 	ew := &errWriter{w: w}
 	ew.printf("Library %s, reviewed by %s\n", r.Library, r.Software)
 	for _, m := range r.Materials {
-		if len(m.Errors) == 0 && m.Closure == nil && len(m.Verdicts) == 0 {
+		if len(m.Errors) == 0 && m.Closure == nil && len(m.Verdicts) == 0 && len(m.Warnings) == 0 {
 			continue // the config or a comparison page, without problems
 		}
 		ew.printf("\n%s", displayPath(m.Path, r.Library))
@@ -53,6 +53,9 @@ func writeReviewText(w io.Writer, r *reviewReport) error {
 		ew.printf("\n")
 		for _, e := range m.Errors {
 			ew.printf("  [!] invalid: %s\n", e)
+		}
+		for _, w := range m.Warnings {
+			ew.printf("  [!] warning: %s\n", w)
 		}
 		if m.Closure != nil {
 			mark := "[=]"

@@ -87,7 +87,10 @@ func TestReviewExitCodes(t *testing.T) {
 		{"strict, all supported", claimGood, nil, []string{"--strict"}, 0, "Result: consistent."},
 		{"invalid front matter", claimGood, map[string]string{"content/bad.md": "---\ntitel: Bad\n---\n"}, nil, 1, `content/bad.md:2:1: unknown key: "titel"`},
 		{"invalid spectrum", claimGood, map[string]string{"content/white/ir.csv": "wavelength_um,R\n2.5,0.05\n25,abc\n"}, nil, 1, `"abc" is not a number`},
-		{"malformed claim", "  - {figure: solar_reflectance, value: 0.9, tolerance: -1}\n", nil, nil, 1, "claim 1: solar_reflectance: tolerance -1"},
+		{"malformed claim", "  - {figure: solar_reflectance, value: 0.9, tolerance: -1}\n", nil, nil, 1, "content/white.md:9:56: bad claim: claim 1: solar_reflectance: tolerance -1"},
+		{"unknown figure", "  - {figure: solar_reflectence, value: 0.9}\n", nil, nil, 1,
+			`content/white.md:9:14: no such figure: claim 1 names "solar_reflectence" (did you mean "solar_reflectance"?)`},
+		{"flagged splice warns", "", map[string]string{"content/white/ir.csv": "wavelength_um,R\n2.3,0.5\n25,0.5\n"}, nil, 0, "[!] warning: The splice of R at 2350 nm leaves a mean mismatch of 0.4000"},
 		{"closure fails", claimUnchecked, map[string]string{"content/white/uv.csv": reviewBadRTA}, nil, 1, "closure fails"},
 		{"no config", claimGood, map[string]string{"skysheet.yaml": ""}, nil, 1, "no skysheet.yaml"},
 		{"json", claimWrong, nil, []string{"--format", "json"}, 1, `"status": "not supported"`},
@@ -149,7 +152,7 @@ func TestReviewRefusesEscapingSymlink(t *testing.T) {
 }
 
 func TestReviewJSONRoundTrip(t *testing.T) {
-	dir := testLibrary(t, claimGood+claimWrong+"  - {figure: solar_reflectance, value: 90}\n  - {figure: no_such_figure, value: 1}\n",
+	dir := testLibrary(t, claimGood+claimWrong+"  - {figure: solar_reflectance, value: 90}\n  - {figure: solar_transmittance, value: 0.1}\n",
 		map[string]string{"content/bad.md": "---\ntitle: Bad\n---\n"})
 	code, out, errs := runCLI("review", "--format", "json", dir)
 	if code != 1 {

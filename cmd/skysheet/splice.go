@@ -5,6 +5,8 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"io/fs"
+	"os"
 	"strings"
 
 	"skysheet/spectra"
@@ -19,54 +21,67 @@ func init() {
 	})
 }
 
-// sampleOptions says how the files of one sample are read and joined.
+// sampleOptions say how the CLI reads the files of one sample.
 type sampleOptions struct {
-	splice    spectra.SpliceOptions
-	reference string   // reference-standard file for files that name none
-	maxSize   int64    // largest file read; 0 means defaultMaxFileSize
-	read      []string // every file read by readSampleWith, for refuseOverwrite
+	spectra.SampleOptions
+	maxSize int64 // largest file read; 0 means defaultMaxFileSize
 }
 
-// methodFlag is a flag holding a splice method.
-type methodFlag struct{ m *spectra.SpliceMethod }
-
-func (f methodFlag) String() string {
-	if f.m == nil {
-		return ""
-	}
-	return f.m.String()
-}
-
-func (f methodFlag) Set(s string) error {
-	m, err := spectra.ParseSpliceMethod(s)
-	if err != nil {
-		return err
-	}
-	*f.m = m
-	return nil
-}
-
-// sampleFlags adds the splice flags, their names starting with prefix, and
-// --reference.
+// sampleFlags adds the splice flags, their names starting with prefix,
+// --max-file-size and --reference.
 func sampleFlags(fs *flag.FlagSet, prefix string, o *sampleOptions) {
-	o.splice.Tolerance = spectra.DefaultSpliceTol
-	fs.Var(methodFlag{&o.splice.Method}, prefix+"method", "splice method where two files overlap: offset, scale or none")
-	fs.StringVar(&o.splice.Adjust, prefix+"adjust", "", "file whose data the splice adjusts (default: the one reaching longer wavelengths)")
-	fs.Float64Var(&o.splice.JunctionNM, prefix+"junction", 0, "splice junction in nm (default: the middle of the overlap)")
-	fs.Float64Var(&o.splice.Tolerance, prefix+"tol", o.splice.Tolerance, "flag a splice whose mean mismatch before correction exceeds this")
+	o.Splice.Tolerance = spectra.DefaultSpliceTol
+	fs.TextVar(&o.Splice.Method, prefix+"method", o.Splice.Method, "splice `METHOD` where two files overlap: offset, scale or none")
+	fs.StringVar(&o.Splice.Adjust, prefix+"adjust", "", "file whose data the splice adjusts (default: the one reaching longer wavelengths)")
+	fs.Float64Var(&o.Splice.JunctionNM, prefix+"junction", 0, "splice junction in nm (default: the middle of the overlap)")
+	fs.Float64Var(&o.Splice.Tolerance, prefix+"tol", o.Splice.Tolerance, "flag a splice whose mean mismatch before correction exceeds this")
 	o.maxSize = defaultMaxFileSize
 	fs.Var(sizeFlag{&o.maxSize}, "max-file-size", "largest input file read, e.g. 64MiB or 1GiB; larger files are refused before they are read")
-	fs.StringVar(&o.reference, "reference", "", "neutral-format file of the reference standard's calibrated reflectance; corrects R = R_rel × R_ref in files that name no reference_file of their own")
+	fs.StringVar(&o.Reference, "reference", "", "neutral-format file of the reference standard's calibrated reflectance; corrects R = R_rel × R_ref in files that name no reference_file of their own")
 }
 
-func (o sampleOptions) validate() error {
-	if !(o.splice.Tolerance > 0 && o.splice.Tolerance <= 1) {
-		return usagef("splice tolerance %g: want 0 < tolerance ≤ 1", o.splice.Tolerance)
+// validateSample checks the sample flags.
+func validateSample(o sampleOptions) error {
+	if !(o.Splice.Tolerance > 0 && o.Splice.Tolerance <= 1) {
+		return usagef("splice tolerance %g: want 0 < tolerance ≤ 1", o.Splice.Tolerance)
 	}
-	if o.splice.JunctionNM < 0 {
-		return usagef("junction %g nm: want a positive wavelength", o.splice.JunctionNM)
+	if o.Splice.JunctionNM < 0 {
+		return usagef("junction %g nm: want a positive wavelength", o.Splice.JunctionNM)
 	}
 	return nil
+}
+
+// osFS reads files by the names given on the command line, relative to the
+// working folder or absolute: only regular files of at most limit bytes.
+type osFS struct{ limit int64 }
+
+func (f osFS) Open(name string) (fs.File, error) { return os.Open(name) }
+
+func (f osFS) ReadFile(name string) ([]byte, error) { return readInputFile(name, f.limit) }
+
+// readSample reads the spectrum files of one sample named on the command
+// line (see spectra.ReadSample): each corrected against its reference
+// standard (its own reference_file, confined to the data file's folder
+// unless the same file is given with --reference; see resolveReference),
+// else o.Reference, then joined. Errors in a reference standard quote none
+// of its content.
+func readSample(files []string, o sampleOptions) (*spectra.Spectrum, error) {
+	explicit := o.Reference
+	o.Resolve = func(file, ref string) (string, error) { return resolveReference(file, ref, explicit) }
+	s, err := spectra.ReadSample(osFS{o.maxSize}, files, o.SampleOptions)
+	if err != nil {
+		return nil, quietReferenceErrors(err)
+	}
+	return s, nil
+}
+
+// inputNames lists the files read for s, for refuseOverwrite.
+func inputNames(s *spectra.Spectrum) []string {
+	names := make([]string, len(s.Inputs))
+	for i, in := range s.Inputs {
+		names[i] = in.Name
+	}
+	return names
 }
 
 // readSpectrumFile reads one spectrum file of any supported format: a
@@ -82,49 +97,8 @@ func readSpectrumFile(name string, limit int64) (*spectra.Spectrum, error) {
 	return spectra.Decode(data, name)
 }
 
-// readSampleWith reads the spectrum files of one sample, corrects each
-// against its reference standard (the file's own reference_file, relative
-// to the file and inside its folder (see readReference), else o.reference)
-// and joins them with spectra.Join.
-func readSampleWith(files []string, o *sampleOptions) (*spectra.Spectrum, error) {
-	refs := map[string]*spectra.Spectrum{}
-	parts := make([]*spectra.Spectrum, 0, len(files))
-	for _, name := range files {
-		s, err := readSpectrumFile(name, o.maxSize)
-		o.read = append(o.read, name)
-		if err != nil {
-			return nil, err
-		}
-		ref := o.reference
-		if f, ok := spectra.ReferenceFile(s); ok {
-			r, p, err := readReference(name, f, o.reference, o.maxSize)
-			o.read = append(o.read, p)
-			if err != nil {
-				return nil, err
-			}
-			ref = p
-			refs[ref] = r
-		}
-		if ref != "" {
-			r, ok := refs[ref]
-			if !ok {
-				o.read = append(o.read, ref)
-				if r, err = readSpectrumFile(ref, o.maxSize); err != nil {
-					return nil, fmt.Errorf("reference standard for %s: %w", name, err)
-				}
-				refs[ref] = r
-			}
-			if s, err = spectra.ApplyReference(s, r); err != nil {
-				return nil, err
-			}
-		}
-		parts = append(parts, s)
-	}
-	return spectra.Join(parts, o.splice)
-}
-
-// writeSpectrumFile writes s in the neutral format to name, or to w when
-// name is "-".
+// writeSpectrumFile writes s in the neutral format to name, through a
+// temporary file, or to w when name is "-".
 func writeSpectrumFile(w io.Writer, name string, s *spectra.Spectrum) error {
 	var b bytes.Buffer
 	if err := spectra.Write(&b, s); err != nil {
@@ -155,16 +129,16 @@ func runSplice(e *env, args []string) error {
 	case *out == "":
 		return usagef("no output file: give -o OUT")
 	}
-	if err := o.validate(); err != nil {
+	if err := validateSample(o); err != nil {
 		return err
 	}
-	s, err := readSampleWith(files, &o)
+	s, err := readSample(files, o)
 	if err != nil {
 		return err
 	}
 	printWarnings(e.stderr, "splice", s)
 	if *out != "-" {
-		if err := refuseOverwrite(*out, o.read); err != nil {
+		if err := refuseOverwrite(*out, inputNames(s)); err != nil {
 			return err
 		}
 	}
@@ -176,7 +150,7 @@ func runSplice(e *env, args []string) error {
 		report = e.stderr
 	} else {
 		lo, hi := s.Range()
-		fmt.Fprintf(report, "%s: %d points, %g–%g nm, from %s\n", *out, s.Len(), lo, hi, strings.Join(files, " + "))
+		fmt.Fprintf(report, "%s: %d points, %s–%s nm, from %s\n", *out, s.Len(), fmtNM(lo), fmtNM(hi), strings.Join(files, " + "))
 	}
 	printSplices(report, s.Splices)
 	return nil

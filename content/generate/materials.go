@@ -327,10 +327,7 @@ SF-50 is an invented 50 µm polyester film with a vapour-deposited silver layer 
 crosses the clear polymer, reflects from the silver and crosses the polymer again; the polymer
 itself does the emitting in the thermal infrared.
 
-## How it was measured
-
-R and T from 250 to 2500 nm (UV-Vis-NIR, sphere, 8°, u_R = 0.3 %) and from 2.5 to 25 µm (FTIR, µm
-axis), polymer side towards the beam. The silver is opaque: T is zero as measured, not assumed.
+The silver is opaque: T is zero as measured, not assumed.
 
 ## What to look for
 

@@ -27,11 +27,11 @@ func figuresOf(m *material, files map[string][]byte, c datasheet.Conditions) (*d
 		}
 		parts = append(parts, s)
 	}
-	s, err := spectra.Merge(parts...)
+	s, err := spectra.Join(parts, spectra.SpliceOptions{})
 	if err != nil {
 		return nil, err
 	}
-	return datasheet.Compute(s, c)
+	return datasheet.Compute(s, spectra.Resolve(s, c.ClosureTol), c)
 }
 
 // conditionsOf returns the conditions a material's datasheet uses.
@@ -43,16 +43,22 @@ func conditionsOf(m *material) datasheet.Conditions {
 	return c
 }
 
-// onBasis applies a claim's stated basis to the conditions.
+// onBasis applies a claim's stated basis to the conditions. A basis the
+// conditions cannot take is a mistake in materials.go: it panics.
 func onBasis(c datasheet.Conditions, b basis) datasheet.Conditions {
+	set := func(key string, v any) {
+		if err := c.Set(key, v); err != nil {
+			panic(fmt.Sprintf("generate: basis %s: %v", key, err))
+		}
+	}
 	if b.solarBandNM[1] > 0 {
-		c.SolarBandNM = b.solarBandNM
+		set("solar_band_nm", b.solarBandNM)
 	}
 	if b.solarSpectrum != "" {
-		c.SolarSpectrum = b.solarSpectrum
+		set("solar_spectrum", b.solarSpectrum)
 	}
 	if b.thermalBandUM[1] > 0 {
-		c.ThermalBandUM = b.thermalBandUM
+		set("thermal_band_um", b.thermalBandUM)
 	}
 	return c
 }

@@ -1,10 +1,10 @@
 package library
 
 import (
+	"errors"
 	"fmt"
 	"io/fs"
 	"net/url"
-	"reflect"
 	"strings"
 
 	"gopkg.in/yaml.v3"
@@ -48,15 +48,11 @@ type configFile struct {
 }
 
 // Overrides holds the condition keys given under "conditions:" in the config
-// or in front matter. Keys are those of [datasheet.Conditions] in YAML
-// (solar_band_nm, temperature_k, ...); keys not given keep the value they
-// override.
+// or in front matter. Keys are those of [datasheet.Conditions] (see
+// [datasheet.Conditions.List]: solar_band_nm, temperature_k, ...); keys not
+// given keep the value they override.
 type Overrides struct {
 	node *yaml.Node
-}
-
-func init() {
-	standIns[reflect.TypeFor[Overrides]()] = reflect.TypeFor[datasheet.Conditions]()
 }
 
 // UnmarshalYAML keeps the node; it is checked and applied by [Load].
@@ -77,6 +73,41 @@ func (o Overrides) Keys() []string {
 	return keys
 }
 
+// conditionKeys are the keys of the conditions.
+var conditionKeys = func() map[string]bool {
+	m := map[string]bool{}
+	for _, c := range datasheet.DefaultConditions().List() {
+		m[c.Key] = true
+	}
+	return m
+}()
+
+// checkConditions reports unknown and repeated keys under conditions:.
+// Values are checked when the conditions are applied.
+func (d doc) checkConditions(n *yaml.Node) []error {
+	if n.Kind != yaml.MappingNode {
+		return nil // apply reports it
+	}
+	var errs []error
+	seen := map[string]*yaml.Node{}
+	for i := 0; i+1 < len(n.Content); i += 2 {
+		k, v := n.Content[i], n.Content[i+1]
+		switch {
+		case k.Kind == yaml.AliasNode || v.Kind == yaml.AliasNode:
+			errs = append(errs, d.at(k, ErrNotAllowed, "YAML aliases are not used in library files"))
+		case k.Value == "<<":
+			errs = append(errs, d.at(k, ErrNotAllowed, "YAML merge keys are not used in library files"))
+		case seen[k.Value] != nil:
+			errs = append(errs, d.at(k, ErrDuplicateKey, "%q (first at line %d)", k.Value, seen[k.Value].Line+d.offset))
+		case !conditionKeys[k.Value]:
+			errs = append(errs, d.at(k, ErrUnknownKey, "%s", unknownKey(k.Value, sortedKeys(conditionKeys))))
+		default:
+			seen[k.Value] = k
+		}
+	}
+	return errs
+}
+
 // apply returns base with the overrides set, validated. A sky other than
 // the built-in one names a spectrum file, relative to the document, which
 // is read; its Input is returned.
@@ -87,16 +118,33 @@ func (d doc) apply(o Overrides, base datasheet.Conditions) (datasheet.Conditions
 	if o.node.Kind != yaml.MappingNode {
 		return base, nil, d.at(o.node, ErrType, "conditions: want a mapping such as {temperature_k: 300}, found %s", kindName(o.node))
 	}
-	c := base
-	if err := o.node.Decode(&c); err != nil {
-		return base, nil, d.yamlError(err, ErrType)
+	c := base // keys were checked with the rest of the document (see check)
+	var skyNode *yaml.Node
+	for i := 0; i+1 < len(o.node.Content); i += 2 {
+		k, v := o.node.Content[i], o.node.Content[i+1]
+		if !conditionKeys[k.Value] {
+			continue
+		}
+		var x any
+		if err := v.Decode(&x); err != nil {
+			return base, nil, d.yamlError(err, ErrType)
+		}
+		if err := c.Set(k.Value, x); err != nil {
+			sentinel := ErrConditions
+			if errors.Is(err, datasheet.ErrConditionType) {
+				sentinel = ErrType
+			}
+			return base, nil, d.at(v, sentinel, "%v", err)
+		}
+		if k.Value == "sky" {
+			skyNode = v
+		}
 	}
 	var sky *Input
-	if n := valueNode(o.node, "sky"); n != o.node && c.Sky != "" && c.Sky != datasheet.SkyClear {
-		c.SkySpectrum = nil
-		p, err := resolvePath(d.file, c.Sky)
+	if n := skyNode; n != nil && !c.Sky.Clear() {
+		p, err := resolvePath(d.file, c.Sky.File)
 		if err != nil {
-			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("sky file %s: %w (or write %q for the built-in sky)", quote.Value(c.Sky), err, datasheet.SkyClear)}
+			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("sky file %s: %w (or write %q for the built-in sky)", quote.Value(c.Sky.File), err, datasheet.SkyChoice{})}
 		}
 		var data []byte
 		if d.fsys != nil {
@@ -105,43 +153,20 @@ func (d doc) apply(o Overrides, base datasheet.Conditions) (datasheet.Conditions
 			err = fs.ErrNotExist
 		}
 		if err != nil {
-			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("%w %s: %w (or write %q for the built-in sky)", ErrSpectrum, p, unwrapPath(err), datasheet.SkyClear)}
+			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("%w %s: %w (or write %q for the built-in sky)", ErrSpectrum, p, unwrapPath(err), datasheet.SkyChoice{})}
 		}
 		s, err := spectra.Decode(data, p)
 		if err != nil {
 			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("%w: %w", ErrSpectrum, err)}
 		}
-		c.SkySpectrum = s
+		c.Sky.Spectrum = s
 		in := hashInput(p, data)
 		sky = &in
 	}
 	if err := c.Validate(); err != nil {
 		return base, nil, d.at(o.node, ErrConditions, "%v", err)
 	}
-	if err := checkBandLimits(c); err != nil {
-		return base, nil, d.at(o.node, ErrConditions, "%v", err)
-	}
 	return c, sky, nil
-}
-
-// MaxBandUM is the longest wavelength, in µm, that a band in the conditions
-// may reach. Thermal weightings are sampled every few nm, so an unbounded
-// band would make the figures arbitrarily slow to compute; 1000 µm lies far
-// beyond any thermal band in use.
-const MaxBandUM = datasheet.MaxBandUM
-
-// checkBandLimits rejects a µm band (a [2]float64 condition whose YAML key
-// ends in "_um") that reaches past MaxBandUM.
-func checkBandLimits(c datasheet.Conditions) error {
-	v := reflect.ValueOf(c)
-	for i := range v.NumField() {
-		f := v.Type().Field(i)
-		key, _, _ := strings.Cut(f.Tag.Get("yaml"), ",")
-		if b, ok := v.Field(i).Interface().([2]float64); ok && strings.HasSuffix(key, "_um") && b[1] > MaxBandUM {
-			return fmt.Errorf("%s %g–%g µm: the upper end may not pass %d µm", key, b[0], b[1], MaxBandUM)
-		}
-	}
-	return nil
 }
 
 // parseConfig reads skysheet.yaml; fsys is the library, for a sky file.

@@ -1,8 +1,11 @@
-// Package library reads a library folder: a site configuration
+// Package library reads and checks a library folder: a site configuration
 // (skysheet.yaml), Markdown files with YAML front matter under content/, and
-// the spectra files they name. Each material's spectra are read, joined and
-// turned into [datasheet.Figures] under the library's conditions overridden
-// by the material's own.
+// the spectra files they name. [Load] reads the config and front matter,
+// works out each material's conditions (the library's, overridden by the
+// material's own) and checks that its spectra files exist; it computes no
+// figures. [Library.ReadSample] reads one material's spectra when it is
+// evaluated (package datasheet/evaluate), so that a library of thousands
+// of materials is never held in memory at once.
 //
 // # Layout
 //

@@ -3,6 +3,7 @@ package library
 import (
 	"errors"
 	"fmt"
+	"sort"
 	"strings"
 )
 
@@ -24,6 +25,8 @@ var (
 	ErrConditions      = errors.New("bad conditions")
 	ErrSpectrum        = errors.New("cannot read spectrum")
 	ErrNotAllowed      = errors.New("key not allowed here")
+	ErrUnknownFigure   = errors.New("no such figure")
+	ErrClaim           = errors.New("bad claim")
 )
 
 // Error is a problem at a place in a library file. Line and Column are
@@ -74,4 +77,35 @@ func errorf(file string, line, col int, sentinel error, format string, a ...any)
 		return &Error{File: file, Line: line, Column: col, Err: sentinel}
 	}
 	return &Error{File: file, Line: line, Column: col, Err: fmt.Errorf("%w: %s", sentinel, msg)}
+}
+
+// Join returns the problems in errs as one Errors in file order: the
+// config first, then the other files by path, each file's problems in the
+// order given. Each of errs may be nil, an Errors or a single error (one
+// that is not an *Error sorts with the config). Join returns nil when
+// there are no problems.
+func Join(errs ...error) error {
+	var all Errors
+	for _, err := range errs {
+		var es Errors
+		switch {
+		case err == nil:
+		case errors.As(err, &es):
+			all = append(all, es...)
+		default:
+			all = append(all, err)
+		}
+	}
+	if len(all) == 0 {
+		return nil
+	}
+	file := func(err error) string {
+		var e *Error
+		if errors.As(err, &e) && e.File != ConfigFile {
+			return e.File
+		}
+		return ""
+	}
+	sort.SliceStable(all, func(i, j int) bool { return file(all[i]) < file(all[j]) })
+	return all
 }

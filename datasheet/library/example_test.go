@@ -26,13 +26,19 @@ A flat grey reflector.
 		return
 	}
 	m := lib.Materials[0]
-	fmt.Printf("%s: %s, solar reflectance %.3f\n", m.Slug, m.Front.Title, m.Figures.SolarReflectance)
+	s, _, err := lib.ReadSample(m)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	lo, hi := s.Range()
+	fmt.Printf("%s: %s, %g–%g nm, solar band %s\n", m.Slug, m.Front.Title, lo, hi, m.Conditions.Text("solar_band_nm"))
 
 	fsys["content/grey.md"].Data = []byte("---\ntitle: Grey\nmakr: x\n---\n")
 	_, err = library.Load(fsys)
 	fmt.Println(err)
 	// Output:
-	// grey: Grey test panel (invented), solar reflectance 0.500
+	// grey: Grey test panel (invented), 280–2500 nm, solar band 280–2500 nm
 	// content/grey.md:3:1: unknown key: "makr" (did you mean "maker"?)
 	// content/grey.md:1: missing required key: maker (or lab: who made or measured the material)
 	// content/grey.md:1: missing required key: spectra (a list of spectra files, each with file:)

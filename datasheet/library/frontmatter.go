@@ -2,11 +2,15 @@ package library
 
 import (
 	"bytes"
+	"fmt"
+	"math"
+	"slices"
 	"strings"
 
 	"gopkg.in/yaml.v3"
 
 	"skysheet/datasheet"
+	"skysheet/internal/nearest"
 	"skysheet/internal/quote"
 )
 
@@ -47,6 +51,50 @@ type Measured struct {
 	Operator   string `yaml:"operator" json:"operator,omitempty"`
 	Notes      string `yaml:"notes" json:"notes,omitempty"`
 }
+
+// figureKeys are the figures a claim may name.
+var figureKeys = datasheet.FigureKeys()
+
+// checkClaims reports the claims that name no figure the tool computes, or
+// that are malformed, at the node that is wrong.
+func (d doc) checkClaims(cs []datasheet.Claim, nodes []*yaml.Node) []error {
+	var errs []error
+	for i, c := range cs {
+		n := nodes[i]
+		at := func(key string) *yaml.Node {
+			if n.Kind != yaml.MappingNode {
+				return n
+			}
+			return valueNode(n, key)
+		}
+		if f := strings.TrimSpace(c.Figure); f != "" && !slices.Contains(figureKeys, f) {
+			best, close := nearest.Name(f, figureKeys)
+			hint := fmt.Sprintf("nearest figure %q; known figures: %s", best, strings.Join(figureKeys, ", "))
+			if close {
+				hint = fmt.Sprintf("did you mean %q?", best)
+			}
+			errs = append(errs, d.at(at("figure"), ErrUnknownFigure, "claim %d names %q (%s)", i+1, f, hint))
+			continue
+		}
+		if err := c.Validate(); err != nil {
+			node := n
+			switch {
+			case strings.TrimSpace(c.Figure) == "":
+				node = at("figure")
+			case !finite(c.Value):
+				node = at("value")
+			case !finite(c.Tolerance) || c.Tolerance < 0:
+				node = at("tolerance")
+			default:
+				node = at("basis")
+			}
+			errs = append(errs, d.at(node, ErrClaim, "claim %d: %v", i+1, err))
+		}
+	}
+	return errs
+}
+
+func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 
 // comparisonKeys are the only keys a comparison page may set.
 var comparisonKeys = map[string]bool{"title": true, "slug": true, "summary": true, "compare": true}
@@ -151,6 +199,9 @@ func parseFront(file string, yamlText []byte) (FrontMatter, frontLines, doc, err
 	}
 	for i, t := range fm.Tags {
 		fm.Tags[i] = strings.TrimSpace(t)
+	}
+	if v := valueNode(root, "claims"); v != root && v.Kind == yaml.SequenceNode && len(v.Content) == len(fm.Claims) {
+		errs = append(errs, d.checkClaims(fm.Claims, v.Content)...)
 	}
 	if len(errs) > 0 {
 		return fm, fl, d, errs

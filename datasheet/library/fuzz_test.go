@@ -36,8 +36,17 @@ func FuzzLoad(f *testing.F) {
 			}
 		}
 		for _, m := range lib.Materials {
-			if m.Front.Title == "" || m.Slug == "" || Slugify(m.Slug) != m.Slug || m.Figures == nil || m.Spectrum == nil {
+			if m.Front.Title == "" || m.Slug == "" || Slugify(m.Slug) != m.Slug || len(m.spectra) != len(m.Front.Spectra) {
 				t.Fatalf("accepted material breaks invariants: %+v", m)
+			}
+			if s, _, err := lib.ReadSample(m); err != nil {
+				var es Errors
+				var le *Error
+				if !errors.As(err, &es) || !errors.As(err, &le) || le.File != m.Path {
+					t.Fatalf("sample error %v does not name %s", err, m.Path)
+				}
+			} else if len(s.Segments) == 0 {
+				t.Fatalf("accepted an empty sample")
 			}
 			if m.Conditions.Validate() != nil {
 				t.Fatalf("accepted invalid conditions %+v", m.Conditions)

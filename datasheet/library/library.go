@@ -13,6 +13,7 @@ import (
 	"sync"
 
 	"skysheet/datasheet"
+	"skysheet/internal/nearest"
 	"skysheet/internal/quote"
 	"skysheet/spectra"
 )
@@ -26,20 +27,33 @@ type Library struct {
 	Config      Config
 	Materials   []*Material   // in path order
 	Comparisons []*Comparison // in path order
+
+	fsys fs.FS // the library folder, for ReadSample
 }
 
-// Material is one material file with its spectra and figures.
+// Material is one material file: its front matter, body and conditions,
+// and where its spectrum files are. Its spectra are read by
+// [Library.ReadSample].
 type Material struct {
 	Path       string // the Markdown file, relative to the library root
 	Slug       string
 	Front      FrontMatter
-	Body       []byte // Markdown after the front matter
-	BodyLine   int    // file line on which Body starts
-	Source     []byte // the whole file
-	Spectrum   *spectra.Spectrum
+	Body       []byte               // Markdown after the front matter
+	BodyLine   int                  // file line on which Body starts
+	Source     []byte               // the whole file
 	Conditions datasheet.Conditions // library conditions with the front matter's overrides
-	Figures    *datasheet.Figures
-	Inputs     []Input // the Markdown file, each spectra file in front matter order, then a sky file if any
+	Input      Input                // the Markdown file and its SHA-256
+
+	spectra     []spectrumFile // the spectra entries, in front matter order
+	spectraLine int            // file line of the "spectra:" key
+	sky         *Input         // the spectral sky file of the conditions, if any
+}
+
+// spectrumFile is a spectra entry: the file's path in the library and
+// where the front matter names it.
+type spectrumFile struct {
+	path         string
+	line, column int
 }
 
 // Comparison is a page that overlays several materials.
@@ -81,7 +95,7 @@ func (l *Library) Material(slug string) (*Material, bool) {
 // an [Errors] in file order, and the returned library still holds the
 // config and every file that could be read.
 func Load(fsys fs.FS) (*Library, error) {
-	lib := &Library{}
+	lib := &Library{fsys: fsys}
 	var errs Errors
 	add := func(err error) {
 		switch e := err.(type) {
@@ -185,23 +199,72 @@ func Load(fsys fs.FS) (*Library, error) {
 	return lib, nil
 }
 
-// nearestSlug suggests a known slug close to s.
-func nearestSlug(s string, slugs map[string]string) string {
-	keys := make([]string, 0, len(slugs))
-	for k := range slugs {
-		keys = append(keys, k)
+// ReadSample reads the spectrum files of material m with
+// [spectra.ReadSample] (reference standards must lie in the library too)
+// and returns the joined sample and every file m rests on, each with its
+// SHA-256: the Markdown file, the spectrum files and reference standards
+// in the order read, then the spectral sky file of its conditions, if any.
+// A problem is an [Errors] naming the front-matter entry of the file at
+// fault (or the spectra: key when the files cannot be joined).
+func (l *Library) ReadSample(m *Material) (*spectra.Spectrum, []Input, error) {
+	paths := make([]string, len(m.spectra))
+	for i, f := range m.spectra {
+		paths[i] = f.path
 	}
-	sort.Strings(keys)
-	best, bestD := "", -1
-	for _, k := range keys {
-		if d := editDistance(s, k); bestD < 0 || d < bestD {
-			best, bestD = k, d
+	s, err := spectra.ReadSample(l.fsys, paths, spectra.SampleOptions{Resolve: resolvePath})
+	if err != nil {
+		var errs Errors
+		for _, e := range splitJoined(err) {
+			at := &Error{File: m.Path, Line: m.spectraLine, Err: fmt.Errorf("%w: %w", ErrSpectrum, e)}
+			var fe *spectra.FileError
+			if errors.As(e, &fe) && fe.Index >= 0 && fe.Index < len(m.spectra) {
+				at.Line, at.Column = m.spectra[fe.Index].line, m.spectra[fe.Index].column
+			}
+			errs = append(errs, at)
 		}
+		return nil, nil, errs
 	}
-	if best == "" {
+	inputs := []Input{m.Input}
+	for _, in := range s.Inputs {
+		inputs = append(inputs, Input{Path: in.Name, SHA256: in.SHA256})
+	}
+	if m.sky != nil {
+		inputs = append(inputs, *m.sky)
+	}
+	return s, inputs, nil
+}
+
+// nearestSlug suggests a known slug close to s, or nothing.
+func nearestSlug(s string, slugs map[string]string) string {
+	if best, close := nearest.Name(s, sortedKeys(slugs)); close {
+		return fmt.Sprintf(" (did you mean %q?)", best)
+	}
+	return ""
+}
+
+// nearbyFile suggests, for the missing file p (written ref in front
+// matter), a file of the same folder with a close name, as it would be
+// written in the front matter; or names the folder's files when none is
+// close and they are few. It returns "" when the folder cannot be read.
+func nearbyFile(fsys fs.FS, p, ref string) string {
+	dir := path.Dir(p)
+	entries, err := fs.ReadDir(fsys, dir)
+	if err != nil {
 		return ""
 	}
-	return fmt.Sprintf(" (nearest slug %q)", best)
+	var names []string
+	for _, e := range entries {
+		if !e.IsDir() && !strings.HasPrefix(e.Name(), ".") && !strings.EqualFold(path.Ext(e.Name()), ".md") {
+			names = append(names, e.Name())
+		}
+	}
+	if best, close := nearest.Name(path.Base(p), names); close {
+		return fmt.Sprintf(" (did you mean %q?)", path.Join(path.Dir(strings.TrimSpace(ref)), best))
+	}
+	if len(names) > 0 && len(names) <= 10 {
+		return fmt.Sprintf(" (%s/ holds %s)", dir, strings.Join(names, ", "))
+	}
+	return ""
 }
 
 // contentFiles lists the Markdown files under content/, sorted.
@@ -296,54 +359,31 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 		return r
 	}
 	m := &Material{Path: file, Slug: r.slug, Front: fm, Body: body, BodyLine: bodyLine, Source: src,
-		Inputs: []Input{hashInput(file, src)}}
+		Input: hashInput(file, src), spectraLine: valueNode(fl.root, "spectra").Line + d.offset}
 	d.fsys = fsys
-	var sky *Input
-	m.Conditions, sky, err = d.apply(fm.Conditions, cfg.Conditions)
+	m.Conditions, m.sky, err = d.apply(fm.Conditions, cfg.Conditions)
 	if err != nil {
 		errs = append(errs, err)
 	}
-	if sky == nil && m.Conditions.SkySpectrum != nil {
-		sky = cfg.skyInput // the config's sky file
+	if m.sky == nil && m.Conditions.Sky.Spectrum != nil {
+		m.sky = cfg.skyInput // the config's sky file
 	}
-	var parts []*spectra.Spectrum
 	for i, ref := range fm.Spectra {
-		line := fl.spectra[i].Line + d.offset
+		at := fl.spectra[i]
+		if v := valueNode(at, "file"); v != at {
+			at = v
+		}
+		line, col := at.Line+d.offset, at.Column
 		p, err := resolvePath(file, ref.File)
 		if err != nil {
-			errs = append(errs, &Error{File: file, Line: line, Err: fmt.Errorf("spectra file %s: %w", quote.Value(ref.File), err)})
+			errs = append(errs, &Error{File: file, Line: line, Column: col, Err: fmt.Errorf("spectra file %s: %w", quote.Value(ref.File), err)})
 			continue
 		}
-		data, err := fs.ReadFile(fsys, p)
-		if err != nil {
-			errs = append(errs, &Error{File: file, Line: line, Err: fmt.Errorf("%w %s: %w", ErrSpectrum, p, unwrapPath(err))})
+		if _, err := fs.Stat(fsys, p); err != nil {
+			errs = append(errs, &Error{File: file, Line: line, Column: col, Err: fmt.Errorf("%w %s: %w%s", ErrSpectrum, p, unwrapPath(err), nearbyFile(fsys, p, ref.File))})
 			continue
 		}
-		m.Inputs = append(m.Inputs, hashInput(p, data))
-		s, err := spectra.Decode(data, p)
-		if err == nil {
-			s, err = applyReference(fsys, p, s, m)
-		}
-		if err != nil {
-			errs = append(errs, &Error{File: file, Line: line, Err: fmt.Errorf("%w: %w", ErrSpectrum, err)})
-			continue
-		}
-		parts = append(parts, s)
-	}
-	if sky != nil {
-		m.Inputs = append(m.Inputs, *sky)
-	}
-	if len(errs) == 0 {
-		s, err := joinSpectra(parts)
-		if err != nil {
-			errs = append(errs, &Error{File: file, Line: valueNode(fl.root, "spectra").Line + d.offset, Err: fmt.Errorf("%w: %w", ErrSpectrum, err)})
-		} else {
-			m.Spectrum = s
-			m.Figures, err = datasheet.Compute(s, m.Conditions)
-			if err != nil {
-				errs = append(errs, &Error{File: file, Err: fmt.Errorf("%w: %w", ErrConditions, err)})
-			}
-		}
+		m.spectra = append(m.spectra, spectrumFile{path: p, line: line, column: col})
 	}
 	if len(errs) > 0 {
 		r.err = errs
@@ -353,35 +393,16 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 	return r
 }
 
-// joinSpectra joins the spectra files of one material into one spectrum:
-// files that overlap are spliced with the default options (see
-// spectra.Join), files that touch or leave a gap are merged.
-func joinSpectra(parts []*spectra.Spectrum) (*spectra.Spectrum, error) {
-	return spectra.Join(parts, spectra.SpliceOptions{})
-}
-
-// applyReference makes the relative reflectance of s (read from file p)
-// absolute when its metadata names a reference-standard file, read from the
-// library relative to p and recorded among the material's inputs.
-func applyReference(fsys fs.FS, p string, s *spectra.Spectrum, m *Material) (*spectra.Spectrum, error) {
-	ref, ok := spectra.ReferenceFile(s)
-	if !ok {
-		return s, nil
+// splitJoined returns the errors joined in err by errors.Join, or err
+// itself.
+func splitJoined(err error) []error {
+	if err == nil {
+		return nil
 	}
-	rp, err := resolvePath(p, ref)
-	if err != nil {
-		return nil, fmt.Errorf("%s: reference_file %s: %w", p, quote.Value(ref), err)
+	if j, ok := err.(interface{ Unwrap() []error }); ok {
+		return j.Unwrap()
 	}
-	data, err := fs.ReadFile(fsys, rp)
-	if err != nil {
-		return nil, fmt.Errorf("%s: reference standard %s: %w", p, rp, unwrapPath(err))
-	}
-	m.Inputs = append(m.Inputs, hashInput(rp, data))
-	r, err := spectra.Decode(data, rp)
-	if err != nil {
-		return nil, err
-	}
-	return spectra.ApplyReference(s, r)
+	return []error{err}
 }
 
 // unwrapPath drops the *fs.PathError wrapper, whose path repeats ours.

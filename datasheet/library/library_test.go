@@ -2,7 +2,7 @@ package library
 
 import (
 	"errors"
-	"math"
+	"io/fs"
 	"strings"
 	"testing"
 	"testing/fstest"
@@ -49,8 +49,21 @@ func baseFS() fstest.MapFS {
 	}
 }
 
+// loadRead loads fsys and reads every material's sample, as the
+// evaluation step does, and returns the problems of both in file order.
+func loadRead(fsys fs.FS) (*Library, error) {
+	lib, err := Load(fsys)
+	errs := []error{err}
+	for _, m := range lib.Materials {
+		if _, _, err := lib.ReadSample(m); err != nil {
+			errs = append(errs, err)
+		}
+	}
+	return lib, Join(errs...)
+}
+
 func TestLoadMaterial(t *testing.T) {
-	lib, err := Load(baseFS())
+	lib, err := loadRead(baseFS())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -65,7 +78,7 @@ func TestLoadMaterial(t *testing.T) {
 		t.Errorf("slug %q path %q", m.Slug, m.Path)
 	}
 	// Front matter overrides the config, which overrides the defaults.
-	if m.Conditions.TemperatureK != 290 || m.Conditions.WindowBandUM != [2]float64{8, 14} || m.Conditions.SolarBandNM != [2]float64{280, 2500} {
+	if m.Conditions.TemperatureK != 290 || m.Conditions.WindowBand != (spectra.Interval{Lo: 8000, Hi: 14000}) || m.Conditions.SolarBand != (spectra.Interval{Lo: 280, Hi: 2500}) {
 		t.Errorf("conditions %+v", m.Conditions)
 	}
 	if lib.Config.Conditions.TemperatureK != 310 {
@@ -74,24 +87,15 @@ func TestLoadMaterial(t *testing.T) {
 	if got := m.Front.Conditions.Keys(); len(got) != 1 || got[0] != "temperature_k" {
 		t.Errorf("override keys %v", got)
 	}
-	for _, tc := range []struct {
-		name      string
-		got, want float64
-		tol       float64
-	}{
-		{"solar reflectance", float64(m.Figures.SolarReflectance), 0.9, 1e-12},  // mean of a constant (closed form)
-		{"thermal emittance", float64(m.Figures.ThermalEmittance), 0.95, 1e-12}, // 1 − R for an opaque sample, Kirchhoff
-		{"window emittance", float64(m.Figures.WindowEmittance), 0.95, 1e-12},   // same
-		{"solar coverage", float64(m.Figures.SolarCoverage), 1, 1e-12},          // data cover 280–2500 nm
-		{"temperature used", m.Figures.Conditions.TemperatureK, 290, 0},         // front matter override
-		{"window band used", m.Figures.Conditions.WindowBandUM[1], 14, 0},       // config override
-	} {
-		if math.Abs(tc.got-tc.want) > tc.tol {
-			t.Errorf("%s = %v, want %v", tc.name, tc.got, tc.want)
-		}
+	sample, inputs, err := lib.ReadSample(m)
+	if err != nil {
+		t.Fatal(err)
 	}
-	if len(m.Inputs) != 3 || m.Inputs[1].Path != "content/flat/solar.csv" || m.Inputs[2].Path != "content/flat/thermal.csv" {
-		t.Fatalf("inputs %+v", m.Inputs)
+	if len(inputs) != 3 || inputs[0] != m.Input || inputs[1].Path != "content/flat/solar.csv" || inputs[2].Path != "content/flat/thermal.csv" {
+		t.Fatalf("inputs %+v", inputs)
+	}
+	if lo, hi := sample.Range(); lo != 280 || hi != 25000 {
+		t.Errorf("sample %g–%g nm, want 280–25000", lo, hi)
 	}
 	if m.Front.Measured.Date != "2026-01-02" || m.Front.Measured.Angle != "8°" {
 		t.Errorf("measured %+v", m.Front.Measured)
@@ -109,18 +113,19 @@ func TestInputHash(t *testing.T) {
 	const want = "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad"
 	fsys := baseFS()
 	fsys["content/flat/solar.csv"] = &fstest.MapFile{Data: []byte("abc")}
-	_, err := Load(fsys) // "abc" is not a spectrum: the error is expected
+	_, err := loadRead(fsys) // "abc" is not a spectrum: the error is expected
 	if err == nil {
 		t.Fatal("want an error for a file that is not a spectrum")
 	}
 	if got := hashInput("x", []byte("abc")).SHA256; got != want {
 		t.Errorf("sha256(abc) = %s, want %s", got, want)
 	}
-	lib, err := Load(baseFS())
+	lib, err := loadRead(baseFS())
 	if err != nil {
 		t.Fatal(err)
 	}
-	if got := lib.Materials[0].Inputs[1]; got != hashInput("content/flat/solar.csv", []byte(flatSolar)) {
+	_, inputs, _ := lib.ReadSample(lib.Materials[0])
+	if got := inputs[1]; got != hashInput("content/flat/solar.csv", []byte(flatSolar)) {
 		t.Errorf("input %+v", got)
 	}
 }
@@ -191,7 +196,13 @@ func TestStrictFrontMatter(t *testing.T) {
 		{"yaml syntax", "tags: [white, test]", "tags: [white, test",
 			[]errAt{{ErrSyntax, "content/flat.md", 5, ""}}},
 		{"missing spectrum", "file: flat/solar.csv", "file: flat/nothere.csv",
-			[]errAt{{ErrSpectrum, "content/flat.md", 7, "content/flat/nothere.csv"}}},
+			[]errAt{{ErrSpectrum, "content/flat.md", 7, "content/flat/nothere.csv: file does not exist (content/flat/ holds solar.csv, thermal.csv)"}}},
+		{"misspelled spectrum", "file: flat/solar.csv", "file: flat/solr.csv",
+			[]errAt{{ErrSpectrum, "content/flat.md", 7, `content/flat/solr.csv: file does not exist (did you mean "flat/solar.csv"?)`}}},
+		{"spectrum in another case", "file: flat/solar.csv", "file: ./flat/SOLAR.csv",
+			[]errAt{{ErrSpectrum, "content/flat.md", 7, `(did you mean "flat/solar.csv"?)`}}},
+		{"spectrum in a missing folder", "file: flat/solar.csv", "file: flot/solar.csv",
+			[]errAt{{ErrSpectrum, "content/flat.md", 7, "content/flot/solar.csv: file does not exist"}}},
 		{"escaping spectrum", "file: flat/solar.csv", "file: ../../outside.csv",
 			[]errAt{{ErrEscapes, "content/flat.md", 7, `"../../outside.csv"`}}},
 		{"absolute spectrum", "file: flat/solar.csv", "file: /etc/passwd",
@@ -208,8 +219,45 @@ func TestStrictFrontMatter(t *testing.T) {
 				t.Fatalf("%q not found", tc.from)
 			}
 			fsys["content/flat.md"] = &fstest.MapFile{Data: []byte(src)}
-			_, err := Load(fsys)
+			_, err := loadRead(fsys)
 			checkErrors(t, err, tc.want)
+		})
+	}
+}
+
+// TestClaimErrors checks that a claim naming a figure the tool does not
+// compute, or a malformed claim, is a content error at the place in the
+// front matter that is wrong, with the nearest figure key.
+func TestClaimErrors(t *testing.T) {
+	for _, tc := range []struct {
+		name, claims string
+		want         []errAt
+		column       int
+	}{
+		{"misspelled figure", "  - {figure: solar_reflectence, value: 0.9}\n",
+			[]errAt{{ErrUnknownFigure, "content/flat.md", 16, `claim 1 names "solar_reflectence" (did you mean "solar_reflectance"?)`}}, 14},
+		{"far figure", "  - figure: zzzz\n    value: 0.9\n",
+			[]errAt{{ErrUnknownFigure, "content/flat.md", 16, `nearest figure`}}, 13},
+		{"second claim", "  - {figure: solar_reflectance, value: 0.9}\n  - {figure: window_emitance, value: 0.9}\n",
+			[]errAt{{ErrUnknownFigure, "content/flat.md", 17, `claim 2 names "window_emitance" (did you mean "window_emittance"?)`}}, 14},
+		{"not a number", "  - {figure: solar_reflectance, value: .nan}\n",
+			[]errAt{{ErrClaim, "content/flat.md", 16, "not a finite number"}}, 40},
+		{"bad basis", "  - figure: solar_reflectance\n    value: 0.9\n    basis: {solar_band_nm: [2500, 280]}\n",
+			[]errAt{{ErrClaim, "content/flat.md", 18, "solar_band_nm"}}, 12},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			fsys := baseFS()
+			src := strings.Replace(goodMaterial, "  - figure: solar_reflectance\n    value: 0.9\n", tc.claims, 1)
+			fsys["content/flat.md"] = &fstest.MapFile{Data: []byte(src)}
+			lib, err := Load(fsys)
+			checkErrors(t, err, tc.want)
+			var le *Error
+			if errors.As(err, &le) && le.Column != tc.column {
+				t.Errorf("column %d, want %d", le.Column, tc.column)
+			}
+			if len(lib.Materials) != 0 {
+				t.Error("the material was accepted")
+			}
 		})
 	}
 }
@@ -252,7 +300,7 @@ func TestStrictConfig(t *testing.T) {
 		t.Run(tc.name, func(t *testing.T) {
 			fsys := baseFS()
 			fsys["skysheet.yaml"] = &fstest.MapFile{Data: []byte(tc.config)}
-			lib, err := Load(fsys)
+			lib, err := loadRead(fsys)
 			checkErrors(t, err, tc.want)
 			if lib == nil || len(lib.Materials) != 1 {
 				t.Errorf("materials should still load when the config is bad")
@@ -264,7 +312,7 @@ func TestStrictConfig(t *testing.T) {
 func TestConfigDefaults(t *testing.T) {
 	fsys := baseFS()
 	fsys["skysheet.yaml"] = &fstest.MapFile{Data: []byte("site_address: https://example.org/lib\nallow_html: true\n")}
-	lib, err := Load(fsys)
+	lib, err := loadRead(fsys)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -278,30 +326,30 @@ func TestLibraryErrors(t *testing.T) {
 	t.Run("no config", func(t *testing.T) {
 		fsys := baseFS()
 		delete(fsys, "skysheet.yaml")
-		_, err := Load(fsys)
+		_, err := loadRead(fsys)
 		checkErrors(t, err, []errAt{{ErrNoConfig, "skysheet.yaml", 0, ""}})
 	})
 	t.Run("no content", func(t *testing.T) {
-		_, err := Load(fstest.MapFS{"skysheet.yaml": {Data: []byte("title: x\n")}})
+		_, err := loadRead(fstest.MapFS{"skysheet.yaml": {Data: []byte("title: x\n")}})
 		checkErrors(t, err, []errAt{{ErrMissing, "content", 0, "content/"}})
 	})
 	t.Run("no front matter", func(t *testing.T) {
 		fsys := baseFS()
 		fsys["content/notes.md"] = &fstest.MapFile{Data: []byte("# Notes\n")}
-		_, err := Load(fsys)
+		_, err := loadRead(fsys)
 		checkErrors(t, err, []errAt{{ErrNoFrontMatter, "content/notes.md", 1, ""}})
 	})
 	t.Run("unclosed", func(t *testing.T) {
 		fsys := baseFS()
 		fsys["content/notes.md"] = &fstest.MapFile{Data: []byte("---\ntitle: x\n")}
-		_, err := Load(fsys)
+		_, err := loadRead(fsys)
 		checkErrors(t, err, []errAt{{ErrUnclosed, "content/notes.md", 1, ""}})
 	})
 	t.Run("errors of several files in file order", func(t *testing.T) {
 		fsys := baseFS()
 		fsys["content/b.md"] = &fstest.MapFile{Data: []byte("---\ntitle: b\n---\n")}
 		fsys["content/a.md"] = &fstest.MapFile{Data: []byte("---\ntitel: a\n---\n")}
-		_, err := Load(fsys)
+		_, err := loadRead(fsys)
 		checkErrors(t, err, []errAt{
 			{ErrUnknownKey, "content/a.md", 2, ""},
 			{ErrMissing, "content/a.md", 1, "title"},
@@ -314,7 +362,7 @@ func TestLibraryErrors(t *testing.T) {
 	t.Run("duplicate slug", func(t *testing.T) {
 		fsys := baseFS()
 		fsys["content/sub/flat.md"] = &fstest.MapFile{Data: []byte(strings.Replace(goodMaterial, "file: flat/", "file: ../flat/", 2))}
-		lib, err := Load(fsys)
+		lib, err := loadRead(fsys)
 		checkErrors(t, err, []errAt{{ErrDuplicateSlug, "content/sub/flat.md", 1, "content/flat.md"}})
 		if len(lib.Materials) != 1 {
 			t.Errorf("%d materials", len(lib.Materials))
@@ -323,8 +371,8 @@ func TestLibraryErrors(t *testing.T) {
 	t.Run("spectrum parse error", func(t *testing.T) {
 		fsys := baseFS()
 		fsys["content/flat/solar.csv"] = &fstest.MapFile{Data: []byte("wavelength_nm,R\n280,0.9\n290,x\n")}
-		_, err := Load(fsys)
-		checkErrors(t, err, []errAt{{spectra.ErrNotNumber, "content/flat.md", 7, "content/flat/solar.csv:3"}})
+		_, err := loadRead(fsys)
+		checkErrors(t, err, []errAt{{ErrSpectrum, "content/flat.md", 7, "content/flat/solar.csv:3: column 2 (R): \"x\" is not a number"}})
 		var pe *spectra.ParseError
 		if !errors.As(err, &pe) || pe.Line != 3 {
 			t.Errorf("want the spectrum's ParseError at line 3: %v", err)
@@ -333,11 +381,11 @@ func TestLibraryErrors(t *testing.T) {
 	t.Run("overlapping spectra are spliced", func(t *testing.T) {
 		fsys := baseFS()
 		fsys["content/flat/thermal.csv"] = &fstest.MapFile{Data: []byte("wavelength_nm,R\n2000,0.05\n25000,0.05\n")}
-		lib, err := Load(fsys)
+		lib, err := loadRead(fsys)
 		if err != nil {
 			t.Fatal(err)
 		}
-		if s := lib.Materials[0].Spectrum; len(s.Splices) == 0 {
+		if s, _, _ := lib.ReadSample(lib.Materials[0]); len(s.Splices) == 0 {
 			t.Errorf("overlapping files were not spliced: %+v", s.Splices)
 		}
 	})
@@ -345,7 +393,7 @@ func TestLibraryErrors(t *testing.T) {
 		fsys := baseFS()
 		f := fsys["content/flat/thermal.csv"]
 		fsys["content/flat/thermal.csv"] = &fstest.MapFile{Data: append([]byte("# reference_file: ../../../outside.csv\n"), f.Data...)}
-		_, err := Load(fsys)
+		_, err := loadRead(fsys)
 		checkErrors(t, err, []errAt{{ErrEscapes, "content/flat.md", 9, ""}})
 	})
 }
@@ -377,7 +425,7 @@ func TestComparison(t *testing.T) {
 	fsys := baseFS()
 	fsys["content/other.md"] = &fstest.MapFile{Data: []byte(strings.Replace(goodMaterial, "file: flat/", "file: flat/", 2))}
 	fsys["content/cmp/whites.md"] = &fstest.MapFile{Data: []byte("---\ntitle: Whites\nslug: whites\ncompare: [other, flat]\nsummary: s\n---\nBody\n")}
-	lib, err := Load(fsys)
+	lib, err := loadRead(fsys)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -390,12 +438,12 @@ func TestComparison(t *testing.T) {
 	}
 
 	fsys["content/cmp/whites.md"] = &fstest.MapFile{Data: []byte("---\ntitle: Whites\ncompare:\n  - flat\n  - flatt\ncategory: paint\n---\n")}
-	_, err = Load(fsys)
+	_, err = loadRead(fsys)
 	checkErrors(t, err, []errAt{{ErrNotAllowed, "content/cmp/whites.md", 6, "category"}})
 
 	fsys["content/cmp/whites.md"] = &fstest.MapFile{Data: []byte("---\ntitle: Whites\ncompare:\n  - flat\n  - flatt\n---\n")}
-	_, err = Load(fsys)
-	checkErrors(t, err, []errAt{{ErrUnknownMaterial, "content/cmp/whites.md", 5, `nearest slug "flat"`}})
+	_, err = loadRead(fsys)
+	checkErrors(t, err, []errAt{{ErrUnknownMaterial, "content/cmp/whites.md", 5, `did you mean "flat"?`}})
 }
 
 func TestHiddenFilesSkipped(t *testing.T) {
@@ -403,7 +451,7 @@ func TestHiddenFilesSkipped(t *testing.T) {
 	fsys["content/.drafts/x.md"] = &fstest.MapFile{Data: []byte("not front matter")}
 	fsys["content/.x.md"] = &fstest.MapFile{Data: []byte("not front matter")}
 	fsys["content/readme.txt"] = &fstest.MapFile{Data: []byte("not markdown")}
-	if _, err := Load(fsys); err != nil {
+	if _, err := loadRead(fsys); err != nil {
 		t.Fatal(err)
 	}
 }
@@ -418,22 +466,6 @@ func TestSlugify(t *testing.T) {
 	} {
 		if got := Slugify(tc.in); got != tc.want {
 			t.Errorf("Slugify(%q) = %q, want %q", tc.in, got, tc.want)
-		}
-	}
-}
-
-func TestEditDistance(t *testing.T) {
-	for _, tc := range []struct {
-		a, b string
-		want int
-	}{
-		{"kitten", "sitting", 3}, // the usual textbook example of Levenshtein distance (from memory)
-		{"", "abc", 3},           // insertions only: the length (definition)
-		{"flaw", "lawn", 2},      // delete f, insert n (definition)
-		{"same", "same", 0},
-	} {
-		if got := editDistance(tc.a, tc.b); got != tc.want {
-			t.Errorf("editDistance(%q, %q) = %d, want %d", tc.a, tc.b, got, tc.want)
 		}
 	}
 }
@@ -469,29 +501,30 @@ func TestSkyFile(t *testing.T) {
 	fsys := baseFS()
 	fsys["skysheet.yaml"] = &fstest.MapFile{Data: []byte("conditions:\n  sky: skies/dry.csv\n")}
 	fsys["skies/dry.csv"] = &fstest.MapFile{Data: []byte(skyT)}
-	lib, err := Load(fsys)
+	lib, err := loadRead(fsys)
 	if err != nil {
 		t.Fatal(err)
 	}
 	m := lib.Materials[0]
-	if m.Conditions.SkySpectrum == nil || m.Conditions.Sky != "skies/dry.csv" {
+	if m.Conditions.Sky.Spectrum == nil || m.Conditions.Sky.File != "skies/dry.csv" {
 		t.Fatalf("sky not loaded: %+v", m.Conditions)
 	}
-	if last := m.Inputs[len(m.Inputs)-1]; last != hashInput("skies/dry.csv", []byte(skyT)) {
+	_, inputs, _ := lib.ReadSample(m)
+	if last := inputs[len(inputs)-1]; last != hashInput("skies/dry.csv", []byte(skyT)) {
 		t.Errorf("sky input %+v", last)
 	}
 	// In front matter the path is relative to the Markdown file.
 	fsys["content/flat/sky.csv"] = &fstest.MapFile{Data: []byte(skyT)}
 	fsys["content/flat.md"] = &fstest.MapFile{Data: []byte(strings.Replace(goodMaterial, "{temperature_k: 290}", "{sky: flat/sky.csv}", 1))}
-	lib, err = Load(fsys)
+	lib, err = loadRead(fsys)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if in := lib.Materials[0].Inputs; in[len(in)-1].Path != "content/flat/sky.csv" {
+	if _, in, _ := lib.ReadSample(lib.Materials[0]); in[len(in)-1].Path != "content/flat/sky.csv" {
 		t.Errorf("inputs %+v", in)
 	}
 	// A missing sky file is an error at its line.
 	fsys["content/flat.md"] = &fstest.MapFile{Data: []byte(strings.Replace(goodMaterial, "{temperature_k: 290}", "{sky: flat/nosky.csv}", 1))}
-	_, err = Load(fsys)
+	_, err = loadRead(fsys)
 	checkErrors(t, err, []errAt{{ErrSpectrum, "content/flat.md", 14, "content/flat/nosky.csv"}})
 }

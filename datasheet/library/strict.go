@@ -12,6 +12,7 @@ import (
 
 	"gopkg.in/yaml.v3"
 
+	"skysheet/internal/nearest"
 	"skysheet/internal/quote"
 )
 
@@ -105,14 +106,13 @@ func (d doc) yamlError(err error, sentinel error) error {
 
 // check walks node n against the YAML fields of type t and returns an error
 // for each unknown or repeated key and for arrays of the wrong length.
-// Types that decode themselves are checked against their stand-in in
-// standIns, if any, else skipped.
+// The conditions (type Overrides) are checked by checkConditions.
 func (d doc) check(n *yaml.Node, t reflect.Type) []error {
 	for t.Kind() == reflect.Pointer {
 		t = t.Elem()
 	}
-	if s, ok := standIns[t]; ok {
-		t = s
+	if t == reflect.TypeFor[Overrides]() {
+		return d.checkConditions(n)
 	}
 	if n.Kind == yaml.AliasNode {
 		return []error{d.at(n, ErrNotAllowed, "YAML aliases are not used in library files")}
@@ -142,7 +142,7 @@ func (d doc) check(n *yaml.Node, t reflect.Type) []error {
 			seen[k.Value] = k
 			f, ok := fields[k.Value]
 			if !ok {
-				errs = append(errs, d.at(k, ErrUnknownKey, "%s", unknownKey(k.Value, fields)))
+				errs = append(errs, d.at(k, ErrUnknownKey, "%s", unknownKey(k.Value, sortedKeys(fields))))
 				continue
 			}
 			errs = append(errs, d.check(v, f.Type)...)
@@ -172,10 +172,6 @@ func (d doc) check(n *yaml.Node, t reflect.Type) []error {
 	}
 	return nil
 }
-
-// standIns maps a type that keeps its YAML node for later to the type its
-// keys are checked against.
-var standIns = map[reflect.Type]reflect.Type{}
 
 // decode checks n strictly against out's type and decodes it into out. The
 // error, if any, is an Errors. When usable is true, out is filled as far as
@@ -225,53 +221,24 @@ func yamlFields(t reflect.Type) map[string]reflect.StructField {
 	return out
 }
 
-// unknownKey describes an unknown key with the nearest known key.
-func unknownKey(key string, fields map[string]reflect.StructField) string {
-	names := make([]string, 0, len(fields))
-	for n := range fields {
-		names = append(names, n)
+// sortedKeys returns the keys of m, sorted.
+func sortedKeys[V any](m map[string]V) []string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
 	}
-	sort.Strings(names)
-	best, bestD := "", -1
-	for _, n := range names {
-		if dd := editDistance(strings.ToLower(key), n); bestD < 0 || dd < bestD {
-			best, bestD = n, dd
-		}
-	}
-	if bestD >= 0 && bestD <= max(2, len(key)/3) {
+	sort.Strings(keys)
+	return keys
+}
+
+// unknownKey describes an unknown key with the nearest of the known names
+// (sorted).
+func unknownKey(key string, names []string) string {
+	best, close := nearest.Name(key, names)
+	if close {
 		return fmt.Sprintf("%s (did you mean %q?)", quote.Value(key), best)
 	}
 	return fmt.Sprintf("%s (nearest known key %q; known keys: %s)", quote.Value(key), best, strings.Join(names, ", "))
-}
-
-// maxCompared bounds the names editDistance compares, so that a 10 MB key
-// costs no quadratic time.
-const maxCompared = 256
-
-// editDistance returns the Levenshtein distance between a and b, counted in
-// runes.
-func editDistance(a, b string) int {
-	ra, rb := []rune(a), []rune(b)
-	if len(ra) > maxCompared || len(rb) > maxCompared {
-		return max(len(ra), len(rb)) // an upper bound: such names are near nothing
-	}
-	prev := make([]int, len(rb)+1)
-	cur := make([]int, len(rb)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(ra); i++ {
-		cur[0] = i
-		for j := 1; j <= len(rb); j++ {
-			cost := 1
-			if ra[i-1] == rb[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(rb)]
 }
 
 func kindName(n *yaml.Node) string {

@@ -7,14 +7,9 @@ import (
 	"strconv"
 
 	"skysheet/datasheet"
+	"skysheet/datasheet/evaluate"
 	"skysheet/datasheet/library"
 )
-
-// judge gives the verdicts on a material's claims. Render calls it once per
-// material, from the worker that renders the material's page; the review
-// page and catalog.json reuse the result. A variable so that tests can
-// count the calls.
-var judge = (*library.Material).Verdicts
 
 // claimView is one judged claim, as the datasheet and the review page show
 // it.
@@ -149,7 +144,8 @@ type claimsFile struct {
 // ClaimsSchema is the version of claims.json. Keys are only added.
 const ClaimsSchema = 1
 
-func (b *builder) claimsJSON(m *library.Material, vs []datasheet.Verdict) ([]byte, error) {
+func (b *builder) claimsJSON(m *evaluate.Summary) ([]byte, error) {
+	vs := m.Verdicts
 	f := claimsFile{Schema: ClaimsSchema, Slug: m.Slug, Title: m.Front.Title, Page: materialDir(m.Slug) + "index.html",
 		Generator: "skysheet " + b.site.Version, Inputs: m.Inputs, Verdicts: vs}
 	if f.Inputs == nil {
@@ -217,7 +213,7 @@ type reviewRow struct {
 }
 
 // reviewRules are the thresholds the review page states, from the
-// constants of [datasheet.Judge].
+// rules of [datasheet.Rules].
 type reviewRules struct {
 	Uncertainty, IndexUncertainty, RelUncertainty, PowerFloor, DeltaFloor, K, Coverage, Angle, MaxFraction, SolarStart string
 	CoolingBand, HeldShare                                                                                             string
@@ -240,22 +236,22 @@ const reviewPage = "review/index.html"
 func (b *builder) reviewFiles(out files) error {
 	p := b.newPage("review", "Review of claims", reviewPage)
 	v := &reviewView{Cautions: Cautions, Rules: reviewRules{
-		Uncertainty:      fmtG(datasheet.DefaultUncertainty),
-		IndexUncertainty: fmtG(datasheet.DefaultIndexUncertainty),
-		RelUncertainty:   fmtG(100*datasheet.DefaultRelUncertainty) + " %",
-		PowerFloor:       fmtG(datasheet.DefaultPowerFloorWm2) + " W/m²",
-		DeltaFloor:       fmtG(datasheet.DefaultDeltaFloorK) + " K",
-		K:                fmtG(datasheet.CoverageFactor),
-		Coverage:         fmtG(100*datasheet.MinCoverage) + " %",
-		Angle:            fmtG(datasheet.MaxAngleDiffDeg) + "°",
-		MaxFraction:      fmtG(datasheet.MaxFraction),
-		SolarStart:       fmtG(datasheet.SolarStartNM) + " nm",
-		CoolingBand:      fmtG(datasheet.CoolingCheckLoUM) + "–" + fmtG(datasheet.CoolingCheckHiUM) + " µm",
-		HeldShare:        fmtG(100*datasheet.MaxHeldShare) + " %",
+		Uncertainty:      fmtG(datasheet.Rules.DefaultUncertainty),
+		IndexUncertainty: fmtG(datasheet.Rules.DefaultIndexUncertainty),
+		RelUncertainty:   fmtG(100*datasheet.Rules.DefaultRelUncertainty) + " %",
+		PowerFloor:       fmtG(datasheet.Rules.DefaultPowerFloorWm2) + " W/m²",
+		DeltaFloor:       fmtG(datasheet.Rules.DefaultDeltaFloorK) + " K",
+		K:                fmtG(datasheet.Rules.CoverageFactor),
+		Coverage:         fmtG(100*datasheet.Rules.MinCoverage) + " %",
+		Angle:            fmtG(datasheet.Rules.MaxAngleDiffDeg) + "°",
+		MaxFraction:      fmtG(datasheet.Rules.MaxFraction),
+		SolarStart:       fmtG(datasheet.Rules.SolarStartNM) + " nm",
+		CoolingBand:      fmtG(datasheet.Rules.CoolingCheckLoUM) + "–" + fmtG(datasheet.Rules.CoolingCheckHiUM) + " µm",
+		HeldShare:        fmtG(100*datasheet.Rules.MaxHeldShare) + " %",
 	}}
 	ms, _ := b.ordered()
 	for _, m := range ms {
-		vs := b.verdicts[m]
+		vs := m.Verdicts
 		if len(vs) > 0 {
 			v.Materials++
 		}

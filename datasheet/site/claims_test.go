@@ -8,11 +8,11 @@ import (
 	"sort"
 	"strconv"
 	"strings"
-	"sync/atomic"
 	"testing"
 	"testing/fstest"
 
 	"skysheet/datasheet"
+	"skysheet/datasheet/evaluate"
 	"skysheet/datasheet/library"
 )
 
@@ -33,7 +33,7 @@ func claimsMaterial(title, claims string) []byte {
 }
 
 // claimsLibrary loads a library of two materials: "panel" with a
-// supported, a not supported and an unknown-figure claim, and "other"
+// supported, a not supported and a claim measured at another angle, and "other"
 // with a supported claim, a percentage for a fraction and a transmittance
 // that was not measured.
 func claimsLibrary(t testing.TB, panelClaims, otherClaims string) *library.Library {
@@ -55,7 +55,7 @@ func claimsLibrary(t testing.TB, panelClaims, otherClaims string) *library.Libra
 const (
 	panelClaims = `  - {figure: solar_reflectance, value: 0.9, tolerance: 0.01, basis: {solar_spectrum: direct}, source: "sheet <b>A</b> (invented)"}
   - {figure: thermal_emittance, value: 0.8, tolerance: 0.02, source: sheet B (invented)}
-  - {figure: "solar_reflectanse<i>", value: 0.9}
+  - {figure: solar_reflectance, value: 0.9, basis: {angle_deg: 45}, source: "sheet <i>C</i> (invented)"}
 `
 	otherClaims = `  - {figure: solar_reflectance, value: 0.9}
   - {figure: solar_reflectance, value: 90}
@@ -75,11 +75,10 @@ func escaped(t testing.TB, s string) string {
 
 func TestDatasheetShowsVerdicts(t *testing.T) {
 	lib := claimsLibrary(t, panelClaims, otherClaims)
-	panel, _ := lib.Material("panel")
 	out := renderTest(t, lib, Options{})
 	page := string(out["m/panel/index.html"])
 
-	vs := panel.Verdicts()
+	vs := verdictsOf(t, lib, "panel")
 	want := []datasheet.Status{datasheet.Supported, datasheet.NotSupported, datasheet.CannotCheck}
 	if len(vs) != len(want) {
 		t.Fatalf("%d verdicts", len(vs))
@@ -206,8 +205,7 @@ func TestReviewPage(t *testing.T) {
 
 func TestClaimsDownloads(t *testing.T) {
 	lib := claimsLibrary(t, panelClaims, otherClaims)
-	panel, _ := lib.Material("panel")
-	want := panel.Verdicts()
+	want := verdictsOf(t, lib, "panel")
 	out := renderTest(t, lib, Options{})
 
 	// claims.json: the verdicts as "skysheet review --format json" has them.
@@ -290,21 +288,28 @@ func TestClaimsDownloads(t *testing.T) {
 	}
 }
 
-// TestJudgedOnce checks that each material's claims are judged once per
-// render, the datasheet, review page and downloads sharing the result, and
-// that the site stays the same whatever the number of workers.
-func TestJudgedOnce(t *testing.T) {
-	var calls atomic.Int64
-	defer func(f func(*library.Material) []datasheet.Verdict) { judge = f }(judge)
-	inner := judge
-	judge = func(m *library.Material) []datasheet.Verdict {
-		calls.Add(1)
-		return inner(m)
-	}
+// TestSameSiteWhateverWorkers checks that the site, pages written as
+// materials are evaluated included, does not depend on the number of
+// workers.
+func TestSameSiteWhateverWorkers(t *testing.T) {
 	a := renderTest(t, claimsLibrary(t, panelClaims, otherClaims), Options{Workers: 1})
-	if n := calls.Load(); n != 2 {
-		t.Errorf("judged %d times for 2 materials", n)
-	}
 	b := renderTest(t, claimsLibrary(t, panelClaims, otherClaims), Options{Workers: 4})
 	sameSite(t, a, b)
+}
+
+// verdictsOf returns the verdicts the evaluation step gives the material
+// slug of lib.
+func verdictsOf(t *testing.T, lib *library.Library, slug string) []datasheet.Verdict {
+	t.Helper()
+	ms, err := evaluate.All(lib, evaluate.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, m := range ms {
+		if m.Slug == slug {
+			return m.Verdicts
+		}
+	}
+	t.Fatalf("no material %q", slug)
+	return nil
 }

@@ -1,4 +1,4 @@
-// Package site renders a [library.Library] as a static website: a datasheet
+// Package site renders an evaluated [library.Library] as a static website: a datasheet
 // page per material, a library index with a sortable table and a scatter
 // chart, category and tag listings, comparison pages, a review page of the
 // claims the spectra do not support or cannot check, catalog.json and the
@@ -21,10 +21,13 @@
 // # Determinism
 //
 // [Render] writes the same bytes for the same library: no clock, no random
-// order (maps are sorted, materials keep library order). Pages are rendered
-// in parallel and written in a fixed order. Each material's claims are
-// judged once, by the worker that renders its datasheet; the review page
-// and catalog.json, rendered afterwards, reuse those verdicts.
+// order (maps are sorted, materials keep library order). Materials are
+// evaluated by [evaluate.Library] in parallel; each material's page and
+// downloads are written by the worker that evaluated it, as soon as it is
+// done, and its spectra dropped. The index, listings, review page and
+// catalog.json are built afterwards from the materials' summaries, in
+// library order. The site computes nothing itself: figures, verdicts and
+// resolved optics come from the evaluation step.
 //
 // # Safety
 //

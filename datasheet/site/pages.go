@@ -3,17 +3,20 @@ package site
 import (
 	"encoding/json"
 	"fmt"
+	"math"
 	"sort"
+	"strconv"
 	"strings"
 
 	"skysheet/datasheet"
+	"skysheet/datasheet/evaluate"
 	"skysheet/datasheet/library"
 	"skysheet/spectra"
 )
 
 // materialView builds the datasheet data of m for a page at root.
-func (b *builder) materialView(m *library.Material, vs []datasheet.Verdict, root string, cmps []*library.Comparison) (*materialView, error) {
-	fm, f := m.Front, m.Figures
+func (b *builder) materialView(m *evaluate.Material, root string, cmps []*library.Comparison) (*materialView, error) {
+	fm, f, vs := m.Front, m.Figures, m.Verdicts
 	v := &materialView{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
 		Summary: fm.Summary, License: fm.License, Inputs: m.Inputs, Cautions: cautionsOf(f),
 		Conditions: conditionPairs(m.Conditions), Overridden: fm.Conditions.Keys(),
@@ -26,14 +29,13 @@ func (b *builder) materialView(m *library.Material, vs []datasheet.Verdict, root
 	}
 	c := m.Conditions
 	v.Key = append(v.Key,
-		keyFig{Label: "Solar reflectance", Value: fmtFrac(f.SolarReflectance), Note: fmtBand(c.SolarBandNM, "nm") + ", " + c.SolarSpectrum},
-		keyFig{Label: "Thermal emittance", Value: fmtFrac(f.ThermalEmittance), Note: fmtBand(c.ThermalBandUM, "µm") + ", " + fmtG(c.TemperatureK) + " K"},
-		keyFig{Label: "Window emittance", Value: fmtFrac(f.WindowEmittance), Note: fmtBand(c.WindowBandUM, "µm")},
-		keyFig{Label: "Net cooling, day", Value: fmtValue("cooling_power_w_m2", f.CoolingPowerWm2, ""), Unit: "W/m²",
-			Note: fmt.Sprintf("at air %s K, %s W/m² sun", fmtG(c.AmbientK), fmtG(c.IrradianceWm2))},
+		keyCard(f, "solar_reflectance", "Solar reflectance", c.Text("solar_band_nm")+", "+c.SolarSpectrum.String()),
+		keyCard(f, "thermal_emittance", "Thermal emittance", c.Text("thermal_band_um")+", "+c.Text("temperature_k")),
+		keyCard(f, "window_emittance", "Window emittance", c.Text("window_band_um")),
+		keyCard(f, "cooling_power_w_m2", "Net cooling, day", fmt.Sprintf("at air %s, %s sun", c.Text("ambient_k"), c.Text("irradiance_w_m2"))),
 	)
-	if m.Spectrum.Has(spectra.T) {
-		v.Key = append(v.Key, keyFig{Label: "Solar transmittance", Value: fmtFrac(f.SolarTransmittance), Note: fmtBand(c.SolarBandNM, "nm")})
+	if m.Sample.Has(spectra.T) {
+		v.Key = append(v.Key, keyCard(f, "solar_transmittance", "Solar transmittance", c.Text("solar_band_nm")))
 	}
 	v.Claims = claimViews(vs)
 	var counts datasheet.VerdictCounts
@@ -41,12 +43,13 @@ func (b *builder) materialView(m *library.Material, vs []datasheet.Verdict, root
 	v.ClaimCounts = countWords(counts)
 	refs := claimRefs(v.Claims)
 	for _, x := range f.Figures {
-		r := figRow{Key: x.Key, Label: x.Label, Value: fmtValue(x.Key, x.Value, x.Unit), Band: fmtBand(x.Band, x.BandUnit),
-			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage), Unc: fmtUnc(x.Uncertainty), Claims: refs[x.Key]}
+		r := figRow{Key: x.Key, Label: x.Label, Value: fmtFigure(x), Band: x.BandText(),
+			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage), Claims: refs[x.Key]}
+		r.Unc, r.UncCover = fmtUnc(x.Uncertainty)
 		if r.Unc != "" {
 			v.HasUnc = true
 		}
-		if x.Key == "solar_transmittance" && !m.Spectrum.Has(spectra.T) {
+		if x.Key == "solar_transmittance" && !m.Sample.Has(spectra.T) {
 			r.Value += " (assumed)"
 		}
 		v.Figures = append(v.Figures, r)
@@ -77,6 +80,39 @@ func (b *builder) materialView(m *library.Material, vs []datasheet.Verdict, root
 	return v, nil
 }
 
+// keyCard returns the headline card of figure key of f: its value and
+// unit, its standard uncertainty (± in the value's unit) at the head of
+// the note when it has one; or "n/a" with the reason where it has no
+// value.
+func keyCard(f *datasheet.Figures, key, label, note string) keyFig {
+	x := figureOf(f, key)
+	if isNaN(x.Value) {
+		why := "not computed"
+		if f != nil {
+			if m := f.Missing(key); m != "" {
+				why = m
+			}
+		}
+		return keyFig{Label: label, Value: "n/a", Note: why}
+	}
+	if pm := plusMinus(x); pm != "" {
+		note = strings.TrimSpace(pm) + "; " + note // in the value's unit, shown above
+	}
+	return keyFig{Label: label, Value: fmtNumber(x.Kind(), x.Value, ""), Unit: x.Unit, Note: note}
+}
+
+// plusMinus writes " ±u" for a figure with a standard uncertainty u, two
+// significant digits, the larger of the two cases the datasheet's table
+// gives (errors independent between wavelengths, errors moving together);
+// "" when it has none.
+func plusMinus(x datasheet.Figure) string {
+	u := x.Uncertainty
+	if u == nil || isNaN(u.Uncorrelated) || isNaN(u.Correlated) {
+		return ""
+	}
+	return " ±" + strconv.FormatFloat(math.Max(float64(u.Uncorrelated), float64(u.Correlated)), 'g', 2, 64)
+}
+
 // cautionsOf returns the cautions that come with the figures, or the
 // site's own.
 func cautionsOf(f *datasheet.Figures) []string {
@@ -102,7 +138,7 @@ func uniqueTags(tags []string) []string {
 func tagSlug(t string) string { return library.Slugify(t) }
 
 // table builds a material table for a page at root.
-func (b *builder) table(id, root string, ms []*library.Material, numbers map[string]int) tableView {
+func (b *builder) table(id, root string, ms []*evaluate.Summary, numbers map[string]int) tableView {
 	t := tableView{ID: id, Columns: append([]column{{Key: "title", Label: "Material"}, {Key: "category", Label: "Category"}}, tableFigures...)}
 	for _, m := range ms {
 		r := row{N: numbers[m.Slug], Slug: m.Slug, Href: root + materialDir(m.Slug) + "index.html", Title: m.Front.Title, Maker: firstOf(m.Front.Maker, m.Front.Lab)}
@@ -110,8 +146,8 @@ func (b *builder) table(id, root string, ms []*library.Material, numbers map[str
 			r.Category = link{Name: m.Front.Category, Href: root + listingDir("category", s) + "index.html"}
 		}
 		for _, col := range tableFigures {
-			x, _ := figureValue(m.Figures, col.Key)
-			r.Cells = append(r.Cells, cell{Key: col.Key, Text: fmtValue(col.Key, x, ""), Value: sortValue(x)})
+			x := figureOf(m.Figures, col.Key)
+			r.Cells = append(r.Cells, cell{Key: col.Key, Text: fmtNumber(x.Kind(), x.Value, "") + plusMinus(x), Value: sortValue(x.Value)})
 		}
 		t.Rows = append(t.Rows, r)
 	}
@@ -129,8 +165,8 @@ func firstOf(s ...string) string {
 
 // ordered returns the materials sorted by title (then slug), the order of
 // the index; and each material's number in it.
-func (b *builder) ordered() ([]*library.Material, map[string]int) {
-	ms := append([]*library.Material(nil), b.lib.Materials...)
+func (b *builder) ordered() ([]*evaluate.Summary, map[string]int) {
+	ms := append([]*evaluate.Summary(nil), b.sums...)
 	sort.SliceStable(ms, func(i, j int) bool {
 		ti, tj := strings.ToLower(ms[i].Front.Title), strings.ToLower(ms[j].Front.Title)
 		if ti != tj {
@@ -146,8 +182,8 @@ func (b *builder) ordered() ([]*library.Material, map[string]int) {
 }
 
 // groups returns category or tag names by slug, with their materials.
-func (b *builder) groups(tags bool) (slugs []string, names map[string]string, members map[string][]*library.Material) {
-	names, members = map[string]string{}, map[string][]*library.Material{}
+func (b *builder) groups(tags bool) (slugs []string, names map[string]string, members map[string][]*evaluate.Summary) {
+	names, members = map[string]string{}, map[string][]*evaluate.Summary{}
 	ms, _ := b.ordered()
 	for _, m := range ms {
 		var keys []string
@@ -178,7 +214,7 @@ func (b *builder) indexFiles(out files) error {
 	ms, numbers := b.ordered()
 	v := &indexView{Count: len(ms), Table: b.table("library-table", "", ms, numbers)}
 	for _, m := range ms {
-		v.Claims.Add(b.verdicts[m]...)
+		v.Claims.Add(m.Verdicts...)
 	}
 	v.ClaimWords = countWords(v.Claims)
 	sc, err := scatterChart(ms, v.Table.Rows)
@@ -220,13 +256,17 @@ func listingDir(kind, slug string) string { return "materials/by-" + kind + "/" 
 
 // listingFiles renders one page per category and per tag.
 func (b *builder) listingFiles(out files) error {
-	_, numbers := b.ordered()
 	for _, kind := range []string{"category", "tag"} {
 		slugs, names, members := b.groups(kind == "tag")
 		for _, s := range slugs {
 			name := listingDir(kind, s) + "index.html"
 			label := map[string]string{"category": "Category", "tag": "Tag"}[kind]
 			p := b.newPage("listing", label+": "+names[s], name)
+			// Rows are numbered within the listing, in its order (the index's).
+			numbers := map[string]int{}
+			for i, m := range members[s] {
+				numbers[m.Slug] = i + 1
+			}
 			p.L = &listingView{Kind: label, Name: names[s], Table: b.table("", p.Root, members[s], numbers)}
 			html, err := b.execute("listing", p)
 			if err != nil {
@@ -249,17 +289,29 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 		return fail(err)
 	}
 	v.Body = body
-	if v.Charts, err = compareCharts(c.Materials); err != nil {
+	bySlug := map[string]*evaluate.Summary{}
+	for _, m := range b.sums {
+		bySlug[m.Slug] = m
+	}
+	var ms []*evaluate.Summary
+	var overlays []overlay
+	for _, x := range c.Materials {
+		if m := bySlug[x.Slug]; m != nil {
+			ms = append(ms, m)
+			overlays = append(overlays, b.overlays[x.Slug])
+		}
+	}
+	if v.Charts, err = compareCharts(ms, overlays); err != nil {
 		return fail(err)
 	}
-	for i, m := range c.Materials {
+	for i, m := range ms {
 		v.Columns = append(v.Columns, compareCol{Name: m.Front.Title, Href: p.Root + materialDir(m.Slug) + "index.html",
 			Note: firstOf(m.Front.Maker, m.Front.Lab), Color: colPalette[i%len(colPalette)].css()})
 	}
 	// One row per figure key, in the order of the first material.
 	var keys []string
 	labels := map[string]string{}
-	for _, m := range c.Materials {
+	for _, m := range ms {
 		for _, x := range m.Figures.Figures {
 			if _, ok := labels[x.Key]; !ok {
 				labels[x.Key] = x.Label
@@ -269,20 +321,20 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 	}
 	for _, k := range keys {
 		r := compareRow{Label: labels[k]}
-		for _, m := range c.Materials {
+		for _, m := range ms {
 			x, ok := m.Figures.Figure(k)
 			if !ok {
 				r.Cells = append(r.Cells, "—")
 				continue
 			}
-			r.Cells = append(r.Cells, fmtValue(x.Key, x.Value, x.Unit))
+			r.Cells = append(r.Cells, fmtFigure(x))
 		}
 		v.Rows = append(v.Rows, r)
 	}
 	cond := compareRow{Label: "Conditions"}
-	for _, m := range c.Materials {
+	for _, m := range ms {
 		cc := m.Conditions
-		cond.Cells = append(cond.Cells, fmt.Sprintf("%s, %s; %s at %s K", fmtBand(cc.SolarBandNM, "nm"), cc.SolarSpectrum, fmtBand(cc.ThermalBandUM, "µm"), fmtG(cc.TemperatureK)))
+		cond.Cells = append(cond.Cells, fmt.Sprintf("%s, %s; %s at %s", cc.Text("solar_band_nm"), cc.SolarSpectrum, cc.Text("thermal_band_um"), cc.Text("temperature_k")))
 	}
 	v.Rows = append(v.Rows, cond)
 	p.C = v
@@ -339,7 +391,7 @@ type catalogCompare struct {
 // CatalogSchema is the version of catalog.json. Keys are only added.
 const CatalogSchema = 1
 
-func (b *builder) catalog(ms []*library.Material) ([]byte, error) {
+func (b *builder) catalog(ms []*evaluate.Summary) ([]byte, error) {
 	cfg := b.lib.Config
 	c := catalog{Schema: CatalogSchema, Title: cfg.Title, Description: cfg.Description, SiteAddress: cfg.SiteAddress,
 		Generator: "skysheet " + b.site.Version, Conditions: cfg.Conditions, Config: cfg.Input,
@@ -350,7 +402,7 @@ func (b *builder) catalog(ms []*library.Material) ([]byte, error) {
 		e := catalogEntry{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
 			Category: fm.Category, Tags: uniqueTags(fm.Tags), Summary: fm.Summary, License: fm.License, Measured: fm.Measured,
 			Page: dir + "index.html", Spectrum: dir + "spectrum.csv", FiguresFile: dir + "figures.json", ClaimsFile: dir + "claims.json",
-			Source: dir + "source.md", Inputs: m.Inputs, Claims: catalogClaims(b.verdicts[m]), Figures: m.Figures}
+			Source: dir + "source.md", Inputs: m.Inputs, Claims: catalogClaims(m.Verdicts), Figures: m.Figures}
 		if e.Tags == nil {
 			e.Tags = []string{}
 		}

@@ -7,7 +7,7 @@ import (
 	"strings"
 
 	"skysheet/datasheet"
-	"skysheet/datasheet/library"
+	"skysheet/datasheet/evaluate"
 	"skysheet/spectra"
 )
 
@@ -77,22 +77,20 @@ func yRange(ss ...spectra.Series) (lo, hi float64) {
 // materialCharts returns the charts of a material: solar range, thermal
 // infrared and net cooling power, each only where the material has data
 // for it.
-func materialCharts(m *library.Material) ([]chartView, error) {
-	o := spectra.Resolve(m.Spectrum, m.Conditions.ClosureTol)
-	f := m.Figures
+func materialCharts(m *evaluate.Material) ([]chartView, error) {
 	var out []chartView
-	if cv, err := solarChart(m, o); err != nil {
+	if cv, err := solarChart(m); err != nil {
 		return nil, fmt.Errorf("solar chart: %w", err)
 	} else if cv != nil {
 		out = append(out, *cv)
 	}
-	if cv, err := thermalChart(m, o); err != nil {
+	if cv, err := thermalChart(m); err != nil {
 		return nil, fmt.Errorf("thermal chart: %w", err)
 	} else if cv != nil {
 		out = append(out, *cv)
 	}
 
-	if cv, err := coolingChart(f); err != nil {
+	if cv, err := coolingChart(m.Figures); err != nil {
 		return nil, fmt.Errorf("cooling chart: %w", err)
 	} else if cv != nil {
 		out = append(out, *cv)
@@ -104,30 +102,26 @@ func materialCharts(m *library.Material) ([]chartView, error) {
 // material over the solar band of its conditions, the x axis spanning
 // exactly that band. It returns nil when the material has no data there
 // (an FTIR measurement only): there is nothing to draw.
-func solarChart(m *library.Material, o spectra.Optics) (*chartView, error) {
-	c := m.Conditions
-	f := m.Figures
-	lo, hi := c.SolarBandNM[0], c.SolarBandNM[1]
+func solarChart(m *evaluate.Material) (*chartView, error) {
+	c, f, o := m.Conditions, m.Figures, m.Optics
+	lo, hi := c.SolarBand.Lo, c.SolarBand.Hi
 	if !hasData(lo, hi, o.R, o.T, o.A) {
 		return nil, nil
 	}
-	sun, err := spectra.Solar(c.SolarSpectrum)
-	if err != nil {
-		return nil, err
-	}
+	sun := m.Solar
 	sp := plot{width: chartW, height: chartH, xName: "Wavelength (nm)", yName: "Fraction of incident light",
 		xLo: lo, xHi: hi, yFmt: "1"}
 	sp.yLo, sp.yHi = yRange(o.R, o.T, o.A)
-	sp.lines = append(sp.lines, line{name: spectrumName(c.SolarSpectrum) + " (relative)", color: colSun, fill: true,
+	sp.lines = append(sp.lines, line{name: sun.String() + " (relative)", color: colSun, fill: true,
 		pieces: []spectra.Piece{weightingShade(sun, lo, hi, 1)}})
 	sp.lines = append(sp.lines, line{name: "Reflectance R", color: colR, width: 2, pieces: o.R.Pieces})
-	hasT := m.Spectrum.Has(spectra.T)
+	hasT := m.Sample.Has(spectra.T)
 	if hasT {
 		sp.lines = append(sp.lines, line{name: "Transmittance T", color: colT, width: 2, pieces: o.T.Pieces})
 	}
 	sp.lines = append(sp.lines, line{name: "Absorptance A", color: colA, width: 1, dash: []float64{5, 3}, pieces: o.A.Pieces})
 	caption := fmt.Sprintf("Spectral reflectance%s and absorptance from %s to %s nm, over the %s spectrum shaded in yellow (scaled to its peak). Solar-weighted: R = %s%s, A = %s; data cover %s of the weighted band.",
-		map[bool]string{true: ", transmittance", false: ""}[hasT], fmtG(lo), fmtG(hi), spectrumName(c.SolarSpectrum),
+		map[bool]string{true: ", transmittance", false: ""}[hasT], fmtG(lo), fmtG(hi), sun,
 		fmtFrac(f.SolarReflectance), map[bool]string{true: ", T = " + fmtFrac(f.SolarTransmittance), false: ""}[hasT],
 		fmtFrac(f.SolarAbsorptance), fmtPercent(f.SolarCoverage))
 	svg, err := sp.svg("Solar range chart. " + caption)
@@ -150,8 +144,9 @@ func hasData(lo, hi float64, ss ...spectra.Series) bool {
 // windowBand is the atmospheric window of the conditions, marked on the
 // thermal charts (in µm) by a light band between two dark lines.
 func windowBand(c datasheet.Conditions) band {
-	return band{name: fmt.Sprintf("Atmospheric window %s–%s µm", fmtG(c.WindowBandUM[0]), fmtG(c.WindowBandUM[1])),
-		lo: c.WindowBandUM[0], hi: c.WindowBandUM[1], color: colWindow, edge: colWindowE, label: "window"}
+	lo, hi := c.WindowBand.UM()
+	return band{name: "Atmospheric window " + c.Text("window_band_um"),
+		lo: lo, hi: hi, color: colWindow, edge: colWindowE, label: "window"}
 }
 
 // windowWords describes how windowBand looks, for captions.
@@ -160,11 +155,10 @@ const windowWords = "lies between the two dark green lines"
 // thermalChart plots the emittance and reflectance of a material over the
 // thermal band. It returns nil when the material has no data there (a
 // UV-Vis-NIR measurement only): there is nothing to draw.
-func thermalChart(m *library.Material, o spectra.Optics) (*chartView, error) {
-	c := m.Conditions
-	f := m.Figures
-	tlo, thi := c.ThermalBandUM[0], c.ThermalBandUM[1]
-	if !hasData(tlo*1000, thi*1000, o.A, o.R) {
+func thermalChart(m *evaluate.Material) (*chartView, error) {
+	c, f, o := m.Conditions, m.Figures, m.Optics
+	tlo, thi := c.ThermalBand.UM()
+	if !hasData(c.ThermalBand.Lo, c.ThermalBand.Hi, o.A, o.R) {
 		return nil, nil
 	}
 	tp := plot{width: chartW, height: chartH, xName: "Wavelength (µm)", yName: "Emittance, reflectance",
@@ -172,11 +166,12 @@ func thermalChart(m *library.Material, o spectra.Optics) (*chartView, error) {
 	tp.yLo, tp.yHi = yRange(o.R, o.A)
 	tp.bands = []band{windowBand(c)}
 	tp.lines = append(tp.lines, line{name: fmt.Sprintf("Blackbody at %s K (relative)", fmtG(c.TemperatureK)), color: colBody, fill: true,
-		pieces: []spectra.Piece{weightingShade(spectra.Blackbody{K: c.TemperatureK}, tlo*1000, thi*1000, 1000)}})
+		pieces: []spectra.Piece{weightingShade(m.Thermal, c.ThermalBand.Lo, c.ThermalBand.Hi, 1000)}})
 	tp.lines = append(tp.lines, line{name: "Emittance ε = A", color: colA, width: 2, pieces: scaled(o.A, 1000)})
 	tp.lines = append(tp.lines, line{name: "Reflectance R", color: colR, width: 1, dash: []float64{5, 3}, pieces: scaled(o.R, 1000)})
+	windowLo, windowHi := c.WindowBand.UM()
 	caption := fmt.Sprintf("Spectral emittance (equal to absorptance, Kirchhoff's law) and reflectance from %s to %s µm; the atmospheric window %s–%s µm %s, and the %s K blackbody spectrum is shaded in red (scaled to its peak). Thermal emittance %s, window emittance %s.",
-		fmtG(tlo), fmtG(thi), fmtG(c.WindowBandUM[0]), fmtG(c.WindowBandUM[1]), windowWords, fmtG(c.TemperatureK),
+		fmtG(tlo), fmtG(thi), fmtG(windowLo), fmtG(windowHi), windowWords, fmtG(c.TemperatureK),
 		fmtFrac(f.ThermalEmittance), fmtFrac(f.WindowEmittance))
 	svg, err := tp.svg("Thermal range chart. " + caption)
 	if err != nil {
@@ -243,9 +238,15 @@ func coolingChart(f *datasheet.Figures) (*chartView, error) {
 		{name: fmt.Sprintf("With sun (%s W/m²)", fmtG(c.IrradianceWm2)), color: colT, width: 2, pieces: []spectra.Piece{day}},
 		{name: "Night (no sun)", color: colR, width: 2, dash: []float64{5, 3}, pieces: []spectra.Piece{night}},
 	}
-	caption := fmt.Sprintf("Net cooling power (positive: the surface gives off more heat than it takes in) against surface temperature, under the %s sky with air at %s K and h = %s W m⁻² K⁻¹. At air temperature: %s with sun, %s at night. Air minus equilibrium surface temperature: %s with sun, %s at night.",
-		c.Sky, fmtG(c.AmbientK), fmtG(c.HWm2K), fmtValue("", f.CoolingPowerWm2, "W/m²"), fmtValue("", f.CoolingPowerNightWm2, "W/m²"),
-		fmtValue("", f.EquilibriumDeltaK, "K"), fmtValue("", f.EquilibriumDeltaNightK, "K"))
+	settles := func(x datasheet.Num) string {
+		if isNaN(x) {
+			return "has no equilibrium"
+		}
+		return datasheet.KindTemperatureDifference.Words(float64(x), "K")
+	}
+	caption := fmt.Sprintf("Net cooling power (positive: the surface gives off more heat than it takes in) against surface temperature, under the %s sky with air at %s K and h = %s W m⁻² K⁻¹. At air temperature: %s with sun, %s at night. With sun the surface %s; at night it %s.",
+		c.Sky, fmtG(c.AmbientK), fmtG(c.HWm2K), fmtNumber(datasheet.KindPower, f.CoolingPowerWm2, "W/m²"), fmtNumber(datasheet.KindPower, f.CoolingPowerNightWm2, "W/m²"),
+		settles(f.EquilibriumDeltaK), settles(f.EquilibriumDeltaNightK))
 	svg, err := p.svg("Cooling power chart. " + caption)
 	if err != nil {
 		return nil, err
@@ -253,23 +254,38 @@ func coolingChart(f *datasheet.Figures) (*chartView, error) {
 	return &chartView{ID: "chart-cooling", Title: "Net cooling power", Caption: caption, SVG: template.HTML(svg)}, nil
 }
 
+// overlay is what a comparison's charts draw of one material: its
+// resolved reflectance and emittance.
+type overlay struct{ r, a spectra.Series }
+
+// keepOverlay keeps what the comparison charts draw of m.
+func (b *builder) keepOverlay(m *evaluate.Material) {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	if b.overlays == nil {
+		b.overlays = map[string]overlay{}
+	}
+	b.overlays[m.Slug] = overlay{r: m.Optics.R, a: m.Optics.A}
+}
+
 // compareCharts overlays the reflectance (solar range) and emittance
-// (thermal range) of several materials. The ranges are those of the first
-// material's conditions.
-func compareCharts(ms []*library.Material) ([]chartView, error) {
+// (thermal range) of several materials, os[i] being what is drawn of
+// ms[i]. The ranges are those of the first material's conditions.
+func compareCharts(ms []*evaluate.Summary, os []overlay) ([]chartView, error) {
 	if len(ms) == 0 {
 		return nil, nil
 	}
 	c := ms[0].Conditions
+	tlo, thi := c.ThermalBand.UM()
 	sp := plot{width: chartW, height: chartH, xName: "Wavelength (nm)", yName: "Reflectance",
-		xLo: c.SolarBandNM[0], xHi: c.SolarBandNM[1], yLo: 0, yHi: 1, yFmt: "1"}
+		xLo: c.SolarBand.Lo, xHi: c.SolarBand.Hi, yLo: 0, yHi: 1, yFmt: "1"}
 	tp := plot{width: chartW, height: chartH, xName: "Wavelength (µm)", yName: "Emittance",
-		xLo: c.ThermalBandUM[0], xHi: c.ThermalBandUM[1], yLo: 0, yHi: 1, yFmt: "1"}
+		xLo: tlo, xHi: thi, yLo: 0, yHi: 1, yFmt: "1"}
 	tp.bands = []band{windowBand(c)}
 	var names []string
 	var anyS, anyT bool
 	for i, m := range ms {
-		o := spectra.Resolve(m.Spectrum, m.Conditions.ClosureTol)
+		o := os[i]
 		col := colPalette[i%len(colPalette)]
 		var dash []float64
 		if i >= len(colPalette) {
@@ -278,19 +294,19 @@ func compareCharts(ms []*library.Material) ([]chartView, error) {
 		// A material without data in a range keeps its colour and its
 		// legend entry there, marked as such.
 		nameS, nameT := m.Front.Title, m.Front.Title
-		if hasData(sp.xLo, sp.xHi, o.R) {
+		if hasData(sp.xLo, sp.xHi, o.r) {
 			anyS = true
 		} else {
 			nameS += " (no data here)"
 		}
-		if hasData(tp.xLo*1000, tp.xHi*1000, o.A) {
+		if hasData(tp.xLo*1000, tp.xHi*1000, o.a) {
 			anyT = true
 		} else {
 			nameT += " (no data here)"
 		}
-		sp.lines = append(sp.lines, line{name: nameS, color: col, width: 2, dash: dash, pieces: o.R.Pieces})
-		tp.lines = append(tp.lines, line{name: nameT, color: col, width: 2, dash: dash, pieces: scaled(o.A, 1000)})
-		lo, hi := yRange(o.R, o.A)
+		sp.lines = append(sp.lines, line{name: nameS, color: col, width: 2, dash: dash, pieces: o.r.Pieces})
+		tp.lines = append(tp.lines, line{name: nameT, color: col, width: 2, dash: dash, pieces: scaled(o.a, 1000)})
+		lo, hi := yRange(o.r, o.a)
 		sp.yLo, sp.yHi = math.Min(sp.yLo, lo), math.Max(sp.yHi, hi)
 		tp.yLo, tp.yHi = sp.yLo, sp.yHi
 		names = append(names, m.Front.Title)
@@ -323,7 +339,7 @@ const maxLabel = 12
 // depend on the order of a table: its product code, or where that is
 // missing or shared with another of the materials, its slug (shortened to
 // maxLabel runes).
-func pointLabels(ms []*library.Material) []string {
+func pointLabels(ms []*evaluate.Summary) []string {
 	codes := map[string]int{}
 	for _, m := range ms {
 		codes[strings.TrimSpace(m.Front.ProductCode)]++
@@ -346,9 +362,9 @@ func pointLabels(ms []*library.Material) []string {
 
 // scatterChart plots solar reflectance against window emittance, one
 // labelled, linked point per material that has both.
-func scatterChart(ms []*library.Material, rows []row) (*chartView, error) {
+func scatterChart(ms []*evaluate.Summary, rows []row) (*chartView, error) {
 	ps := &pointSet{}
-	var shown []*library.Material
+	var shown []*evaluate.Summary
 	for _, m := range ms {
 		if !isNaN(m.Figures.SolarReflectance) && !isNaN(m.Figures.WindowEmittance) {
 			shown = append(shown, m)

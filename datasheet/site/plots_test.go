@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"skysheet/datasheet"
+	"skysheet/datasheet/evaluate"
 	"skysheet/datasheet/library"
 	"skysheet/spectra"
 )
@@ -37,7 +38,7 @@ var (
 
 // testMaterial makes a material from spectra in the neutral format, with
 // the default conditions.
-func testMaterial(t *testing.T, slug, code string, csv ...string) *library.Material {
+func testMaterial(t *testing.T, slug, code string, csv ...string) *evaluate.Material {
 	t.Helper()
 	var parts []*spectra.Spectrum
 	for i, c := range csv {
@@ -50,17 +51,29 @@ func testMaterial(t *testing.T, slug, code string, csv ...string) *library.Mater
 	s := parts[0]
 	if len(parts) > 1 {
 		var err error
-		if s, err = spectra.Merge(parts...); err != nil {
+		if s, err = spectra.Join(parts, spectra.SpliceOptions{}); err != nil {
 			t.Fatal(err)
 		}
 	}
 	c := datasheet.DefaultConditions()
-	f, err := datasheet.Compute(s, c)
+	m, err := evaluate.Sample(s, c)
 	if err != nil {
 		t.Fatal(err)
 	}
-	return &library.Material{Slug: slug, Front: library.FrontMatter{Title: "Test surface " + slug, ProductCode: code},
-		Spectrum: s, Conditions: c, Figures: f}
+	m.Material = &library.Material{Slug: slug, Front: library.FrontMatter{Title: "Test surface " + slug, ProductCode: code}, Conditions: c}
+	return m
+}
+
+// overlaysOf returns the summaries of ms and what their comparison
+// charts draw.
+func overlaysOf(ms ...*evaluate.Material) ([]*evaluate.Summary, []overlay) {
+	var sums []*evaluate.Summary
+	var os []overlay
+	for _, m := range ms {
+		sums = append(sums, &m.Summary)
+		os = append(os, overlay{r: m.Optics.R, a: m.Optics.A})
+	}
+	return sums, os
 }
 
 func chartIDs(cs []chartView) []string {
@@ -76,7 +89,7 @@ func chartIDs(cs []chartView) []string {
 // data start earlier (250 nm), with the band's ends as the outer ticks.
 func TestSolarChartSpansBand(t *testing.T) {
 	m := testMaterial(t, "white", "W-1", uvvisCSV)
-	cv, err := solarChart(m, spectra.Resolve(m.Spectrum, m.Conditions.ClosureTol))
+	cv, err := solarChart(m)
 	if err != nil || cv == nil {
 		t.Fatalf("solar chart: %v, %v", cv, err)
 	}
@@ -129,7 +142,7 @@ func TestChartsWithoutData(t *testing.T) {
 	ir := testMaterial(t, "ir-only", "I-1", ftirCSV)
 	both := testMaterial(t, "both", "B-1", uvvisCSV, ftirCSV)
 	for _, c := range []struct {
-		m    *library.Material
+		m    *evaluate.Material
 		want []string
 	}{
 		{uv, []string{"chart-solar"}},
@@ -144,7 +157,7 @@ func TestChartsWithoutData(t *testing.T) {
 			t.Errorf("%s: charts %v, want %v", c.m.Slug, got, c.want)
 		}
 	}
-	cs, err := compareCharts([]*library.Material{uv, both})
+	cs, err := compareCharts(overlaysOf(uv, both))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -154,7 +167,7 @@ func TestChartsWithoutData(t *testing.T) {
 	if svg := string(cs[1].SVG); !strings.Contains(svg, "Test surface uv-only (no data here)") || strings.Contains(svg, "Test surface both (no data here)") {
 		t.Errorf("the thermal overlay does not mark exactly the material without thermal data")
 	}
-	if cs, _ := compareCharts([]*library.Material{uv}); !slices.Equal(chartIDs(cs), []string{"chart-compare-solar"}) {
+	if cs, _ := compareCharts(overlaysOf(uv)); !slices.Equal(chartIDs(cs), []string{"chart-compare-solar"}) {
 		t.Errorf("comparison of UV-Vis data only: charts %v, want the solar overlay only", chartIDs(cs))
 	}
 }
@@ -224,7 +237,7 @@ func TestChartContrast(t *testing.T) {
 // window: a line at each edge, at the right wavelengths, and a label.
 func TestThermalWindow(t *testing.T) {
 	m := testMaterial(t, "emitter", "E-1", ftirCSV)
-	cv, err := thermalChart(m, spectra.Resolve(m.Spectrum, m.Conditions.ClosureTol))
+	cv, err := thermalChart(m)
 	if err != nil || cv == nil {
 		t.Fatalf("thermal chart: %v, %v", cv, err)
 	}
@@ -232,8 +245,10 @@ func TestThermalWindow(t *testing.T) {
 	paths := svgPaths(svg)
 	left, right, _ := xAxisLine(t, paths)
 	c := m.Conditions
+	tlo, thi := c.ThermalBand.UM()
+	wlo, whi := c.WindowBand.UM()
 	at := func(um float64) int {
-		return left + int(math.Ceil((um-c.ThermalBandUM[0])/(c.ThermalBandUM[1]-c.ThermalBandUM[0])*float64(right-left)))
+		return left + int(math.Ceil((um-tlo)/(thi-tlo)*float64(right-left)))
 	}
 	var edges []int
 	for _, p := range paths {
@@ -245,7 +260,7 @@ func TestThermalWindow(t *testing.T) {
 		}
 	}
 	// Two edges in the plot and two in the legend swatch.
-	if want := []int{at(c.WindowBandUM[0]), at(c.WindowBandUM[1])}; len(edges) != 4 || !slices.Equal(edges[:2], want) {
+	if want := []int{at(wlo), at(whi)}; len(edges) != 4 || !slices.Equal(edges[:2], want) {
 		t.Errorf("window edges at x = %v, want %v then the legend's", edges, want)
 	}
 	label := textNamed(t, svgTexts(t, svg), "window")
@@ -342,12 +357,15 @@ func TestCoolingChart(t *testing.T) {
 
 // TestPointLabels checks the labels of the scatter chart's points.
 func TestPointLabels(t *testing.T) {
-	ms := []*library.Material{
+	var ms []*evaluate.Summary
+	for _, m := range []*library.Material{
 		{Slug: "alpha", Front: library.FrontMatter{ProductCode: "AX-1"}},
 		{Slug: "beta", Front: library.FrontMatter{ProductCode: " BX-2 "}},
 		{Slug: "beta-aged", Front: library.FrontMatter{ProductCode: "BX-2"}},
 		{Slug: "gamma", Front: library.FrontMatter{}},
 		{Slug: "a-very-long-slug-indeed", Front: library.FrontMatter{}},
+	} {
+		ms = append(ms, &evaluate.Summary{Material: m})
 	}
 	want := []string{"AX-1", "beta", "beta-aged", "gamma", "a-very-long…"}
 	if got := pointLabels(ms); !slices.Equal(got, want) {
@@ -359,13 +377,13 @@ func TestPointLabels(t *testing.T) {
 // codes, not table numbers, keeps each point a link with its slug, and
 // places labels clear of each other and of the points.
 func TestScatterLabels(t *testing.T) {
-	var ms []*library.Material
+	var ms []*evaluate.Summary
 	var rows []row
 	// Four points close together and one apart.
 	for i, xy := range [][2]float64{{0.90, 0.90}, {0.905, 0.902}, {0.91, 0.899}, {0.903, 0.896}, {0.5, 0.95}} {
 		m := testMaterial(t, fmt.Sprintf("m%d", i), fmt.Sprintf("C-%d", 10+i), uvvisCSV, ftirCSV)
 		m.Figures.SolarReflectance, m.Figures.WindowEmittance = datasheet.Num(xy[0]), datasheet.Num(xy[1])
-		ms = append(ms, m)
+		ms = append(ms, &m.Summary)
 		rows = append(rows, row{N: 5 - i, Href: "m/" + m.Slug + "/index.html"})
 	}
 	cv, err := scatterChart(ms, rows)
@@ -429,16 +447,26 @@ const (
 // below the plot and its axis title, within the chart, its entries apart.
 func TestChartTextReadable(t *testing.T) {
 	lib := testLibrary(t)
+	ms, err := evaluate.All(lib, evaluate.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
 	var charts []chartView
-	for _, m := range lib.Materials {
+	bySlug := map[string]*evaluate.Material{}
+	for _, m := range ms {
 		cs, err := materialCharts(m)
 		if err != nil {
 			t.Fatal(err)
 		}
 		charts = append(charts, cs...)
+		bySlug[m.Slug] = m
 	}
 	for _, c := range lib.Comparisons {
-		cs, err := compareCharts(c.Materials)
+		var members []*evaluate.Material
+		for _, x := range c.Materials {
+			members = append(members, bySlug[x.Slug])
+		}
+		cs, err := compareCharts(overlaysOf(members...))
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -8,11 +8,10 @@ import (
 	"html/template"
 	"io/fs"
 	"path"
-	"runtime"
 	"sort"
 	"sync"
 
-	"skysheet/datasheet"
+	"skysheet/datasheet/evaluate"
 	"skysheet/datasheet/library"
 	"skysheet/spectra"
 	"skysheet/templates"
@@ -26,8 +25,8 @@ type Options struct {
 	Templates fs.FS
 	// Version is the software version printed on every page.
 	Version string
-	// Workers is the number of materials rendered at once; 0 means one per
-	// CPU.
+	// Workers is the number of materials evaluated and rendered at once;
+	// 0 means one per CPU.
 	Workers int
 	// Progress, if set, is called after each material page with the number
 	// done and the total. It is called from one goroutine at a time.
@@ -35,31 +34,66 @@ type Options struct {
 }
 
 // Writer receives the files of the site. Names are slash-separated paths
-// relative to the site root. Render calls WriteFile from one goroutine, in
-// sorted name order.
+// relative to the site root; each is written once. Render calls WriteFile
+// from one goroutine at a time, but not in name order: a material's files
+// are written as soon as it is rendered.
 type Writer interface {
 	WriteFile(name string, data []byte) error
 }
 
-// Render renders lib and writes every file of the site to out. Page errors
-// are collected: the error, if any, is a [library.Errors] naming each page
-// that failed, and nothing is written then.
+// Render evaluates every material of lib with [evaluate.Library] and writes
+// the site to out: each material's page and downloads as soon as the
+// material is evaluated (its spectra are then dropped), then the index,
+// listings, comparison pages, review page, catalog.json and assets, built
+// from the materials' summaries. Problems are collected: the error, if
+// any, is a [library.Errors] naming each material or page that failed, in
+// file order, and out may then hold only part of the site (write to a
+// temporary place and keep it only on success).
 func Render(lib *library.Library, opt Options, out Writer) error {
 	b, err := newBuilder(lib, opt)
 	if err != nil {
 		return err
 	}
+	w := &serialWriter{out: out}
+	cmpOf := b.comparisonsOf()
+	sums, err := evaluate.Library(lib, evaluate.Options{Workers: opt.Workers, Progress: opt.Progress}, func(m *evaluate.Material) error {
+		files, err := b.materialFiles(m, cmpOf[m.Slug])
+		if err != nil {
+			return err
+		}
+		if len(cmpOf[m.Slug]) > 0 {
+			b.keepOverlay(m)
+		}
+		return w.writeAll(files)
+	})
+	if err != nil {
+		return err
+	}
+	b.sums = sums
 	files, err := b.render()
 	if err != nil {
 		return err
 	}
-	names := make([]string, 0, len(files))
-	for n := range files {
+	return w.writeAll(files)
+}
+
+// serialWriter lets one goroutine at a time write.
+type serialWriter struct {
+	mu  sync.Mutex
+	out Writer
+}
+
+// writeAll writes files in name order.
+func (w *serialWriter) writeAll(fs files) error {
+	names := make([]string, 0, len(fs))
+	for n := range fs {
 		names = append(names, n)
 	}
 	sort.Strings(names)
+	w.mu.Lock()
+	defer w.mu.Unlock()
 	for _, n := range names {
-		if err := out.WriteFile(n, files[n]); err != nil {
+		if err := w.out.WriteFile(n, fs[n]); err != nil {
 			return err
 		}
 	}
@@ -72,10 +106,14 @@ type builder struct {
 	tmpl *template.Template
 	md   markdown
 	site siteInfo
-	// verdicts holds each material's verdicts, judged once while its page
-	// is rendered and read by the pages rendered after: the index, the review
-	// page and catalog.json.
-	verdicts map[*library.Material][]datasheet.Verdict
+	// sums are the materials' summaries, in library order, for the pages
+	// rendered after the datasheets: the index, listings, review page and
+	// catalog.json.
+	sums []*evaluate.Summary
+	// overlays keeps, for each material a comparison lists, what its
+	// overlay charts draw; guarded by mu.
+	mu       sync.Mutex
+	overlays map[string]overlay
 }
 
 func newBuilder(lib *library.Library, opt Options) (*builder, error) {
@@ -131,60 +169,11 @@ func (b *builder) asset(name string) ([]byte, error) {
 // files maps output names to contents.
 type files map[string][]byte
 
+// render renders the pages that rest on every material: index,
+// listings, comparisons, review and assets.
 func (b *builder) render() (files, error) {
 	out := files{}
 	var errs library.Errors
-	mats := b.lib.Materials
-	total := len(mats)
-
-	// Material pages in parallel; results by index, so order is fixed.
-	results := make([]files, total)
-	judged := make([][]datasheet.Verdict, total)
-	pageErrs := make([]error, total)
-	workers := b.opt.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	cmpOf := b.comparisonsOf()
-	next := make(chan int)
-	done := make(chan int)
-	var wg sync.WaitGroup
-	for range min(workers, max(total, 1)) {
-		wg.Go(func() {
-			for i := range next {
-				judged[i] = judge(mats[i])
-				results[i], pageErrs[i] = b.materialFiles(mats[i], judged[i], cmpOf[mats[i].Slug])
-				done <- i
-			}
-		})
-	}
-	go func() {
-		for i := range mats {
-			next <- i
-		}
-		close(next)
-		wg.Wait()
-		close(done)
-	}()
-	n := 0
-	for range done {
-		n++
-		if b.opt.Progress != nil {
-			b.opt.Progress(n, total)
-		}
-	}
-	b.verdicts = make(map[*library.Material][]datasheet.Verdict, total)
-	for i, m := range mats {
-		b.verdicts[m] = judged[i]
-		if pageErrs[i] != nil {
-			errs = append(errs, pageErrs[i])
-			continue
-		}
-		for k, v := range results[i] {
-			out[k] = v
-		}
-	}
-
 	if err := b.indexFiles(out); err != nil {
 		errs = append(errs, err)
 	}
@@ -261,15 +250,14 @@ func (b *builder) comparisonsOf() map[string][]*library.Comparison {
 	return m
 }
 
-// materialFiles renders one material with the verdicts on its claims: its
-// page and downloads.
-func (b *builder) materialFiles(m *library.Material, vs []datasheet.Verdict, cmps []*library.Comparison) (files, error) {
+// materialFiles renders one material: its page and downloads.
+func (b *builder) materialFiles(m *evaluate.Material, cmps []*library.Comparison) (files, error) {
 	dir := materialDir(m.Slug)
 	fail := func(err error) (files, error) {
 		return nil, &library.Error{File: m.Path, Err: fmt.Errorf("page %sindex.html: %w", dir, err)}
 	}
 	p := b.newPage("datasheet", m.Front.Title, dir+"index.html")
-	v, err := b.materialView(m, vs, p.Root, cmps)
+	v, err := b.materialView(m, p.Root, cmps)
 	if err != nil {
 		return fail(err)
 	}
@@ -279,14 +267,14 @@ func (b *builder) materialFiles(m *library.Material, vs []datasheet.Verdict, cmp
 		return fail(err)
 	}
 	var csv bytes.Buffer
-	if err := spectra.Write(&csv, m.Spectrum); err != nil {
+	if err := spectra.Write(&csv, m.Sample); err != nil {
 		return fail(err)
 	}
 	js, err := json.MarshalIndent(m.Figures, "", "  ")
 	if err != nil {
 		return fail(err)
 	}
-	claims, err := b.claimsJSON(m, vs)
+	claims, err := b.claimsJSON(&m.Summary)
 	if err != nil {
 		return fail(err)
 	}

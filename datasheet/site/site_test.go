@@ -9,6 +9,7 @@ import (
 	"path"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 	"testing/fstest"
@@ -248,5 +249,81 @@ func TestTemplateOverride(t *testing.T) {
 	err := Render(testLibrary(t), Options{Templates: over}, memWriter{})
 	if err == nil || !strings.Contains(err.Error(), "bad.html") {
 		t.Errorf("broken template: %v", err)
+	}
+}
+
+// TestKeyCards checks the headline cards: a figure without its data says
+// why instead of showing a bare "— W/m²", and a figure with a standard
+// uncertainty shows it, on the card and in the index.
+func TestKeyCards(t *testing.T) {
+	fsys := fstest.MapFS{
+		"skysheet.yaml": {Data: []byte("title: Cards (invented)\n")},
+		"content/uv.md": {Data: []byte("---\ntitle: UV-Vis only (invented)\nmaker: Test maker (invented)\nspectra: [{file: uv.csv}]\n---\n")},
+		// R = 0.9 ± 0.005 everywhere: the solar reflectance is 0.9 and its
+		// uncertainty 0.005 when the errors move together (a weighted mean
+		// of a constant shift is that shift, closed form).
+		"content/uv.csv": {Data: []byte("# u_R: 0.005\nwavelength_nm,R\n280,0.9\n1000,0.9\n2500,0.9\n")},
+	}
+	lib, err := library.Load(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := renderTest(t, lib, Options{})
+	page := string(out["m/uv/index.html"])
+	for _, want := range []string{
+		`<dt>Solar reflectance</dt><dd><span class="big">0.900</span><span class="note">±0.005; 280–2500 nm, global</span>`,
+		`<dt>Thermal emittance</dt><dd><span class="big">n/a</span><span class="note">no infrared data over 2.5–25 µm</span>`,
+		`<dt>Net cooling, day</dt><dd><span class="big">n/a</span><span class="note">no infrared data over 2.5–100 µm</span>`,
+	} {
+		if !strings.Contains(page, want) {
+			t.Errorf("the datasheet lacks %q", want)
+		}
+	}
+	if strings.Contains(page, `<span class="big">—</span>`) {
+		t.Error("a card shows a bare —")
+	}
+	index := string(out["index.html"])
+	if !regexp.MustCompile(`data-key="solar_reflectance" data-value="[0-9.]+">0.900 ±0.005</td>`).MatchString(index) {
+		t.Error("the index does not show the uncertainty")
+	}
+}
+
+// TestListingNumbers checks that category and tag pages number their
+// rows from 1 in their own order, not with the library index's numbers.
+func TestListingNumbers(t *testing.T) {
+	out := renderTest(t, testLibrary(t), Options{})
+	rowNumber := regexp.MustCompile(`<td class="num-col">(\d+)</td>`)
+	for name, data := range out {
+		if !strings.HasPrefix(name, "materials/by-") {
+			continue
+		}
+		var got []string
+		for _, m := range rowNumber.FindAllStringSubmatch(string(data), -1) {
+			got = append(got, m[1])
+		}
+		if len(got) == 0 {
+			t.Fatalf("%s: no numbered rows", name)
+		}
+		for i, n := range got {
+			if n != strconv.Itoa(i+1) {
+				t.Errorf("%s: row numbers %v, want 1…%d", name, got, len(got))
+				break
+			}
+		}
+	}
+}
+
+// TestUncertaintyWords checks that a figure whose inputs have stated
+// uncertainties only in part says so in plain words, linked to the
+// explanation beside the table.
+func TestUncertaintyWords(t *testing.T) {
+	page := string(renderTest(t, testLibrary(t), Options{})["m/frostline/index.html"])
+	// Frostline states u_R for its UV-Vis-NIR file only: the cooling
+	// figures rest about half on the FTIR file, which states none.
+	if !regexp.MustCompile(`<td class="num">±[0-9.]+ / ±[0-9.]+ <a href="#note-uncertainty">\(covers [0-9]+ %\)</a></td>`).MatchString(page) {
+		t.Error("no partial uncertainty in words")
+	}
+	if !strings.Contains(page, `id="note-uncertainty"`) || strings.Contains(page, "partial,") {
+		t.Error("the explanation is not reachable, or the old wording remains")
 	}
 }

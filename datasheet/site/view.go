@@ -1,11 +1,9 @@
 package site
 
 import (
-	"encoding/json"
 	"fmt"
 	"html/template"
 	"math"
-	"sort"
 	"strconv"
 	"strings"
 
@@ -43,7 +41,10 @@ type keyFig struct{ Label, Value, Unit, Note string }
 
 type figRow struct {
 	Key, Label, Value, Unc, Band, Weighting, Coverage string
-	Claims                                            []claimRef // claims of this figure
+	// UncCover is, when the stated uncertainties cover only part of what
+	// the figure depends on, that share in words ("covers 48 %").
+	UncCover string
+	Claims   []claimRef // claims of this figure
 }
 
 type spectrumRow struct{ File, Role, Instrument, Notes string }
@@ -150,31 +151,15 @@ var tableFigures = []column{
 	{Key: "cooling_power_w_m2", Label: "Net cooling, day", Unit: "W/m²", Numeric: true},
 }
 
-// figureValue returns a headline figure of f by JSON key.
-func figureValue(f *datasheet.Figures, key string) (datasheet.Num, bool) {
-	if f == nil {
-		return datasheet.Num(math.NaN()), false
+// figureOf returns the figure of f with the given key; a figure without
+// a value when f or the figure is missing.
+func figureOf(f *datasheet.Figures, key string) datasheet.Figure {
+	if f != nil {
+		if x, ok := f.Figure(key); ok {
+			return x
+		}
 	}
-	switch key {
-	case "solar_reflectance":
-		return f.SolarReflectance, true
-	case "solar_transmittance":
-		return f.SolarTransmittance, true
-	case "solar_absorptance":
-		return f.SolarAbsorptance, true
-	case "thermal_emittance":
-		return f.ThermalEmittance, true
-	case "window_emittance":
-		return f.WindowEmittance, true
-	case "cooling_power_w_m2":
-		return f.CoolingPowerWm2, true
-	case "cooling_power_night_w_m2":
-		return f.CoolingPowerNightWm2, true
-	}
-	if x, ok := f.Figure(key); ok {
-		return x.Value, true
-	}
-	return datasheet.Num(math.NaN()), false
+	return datasheet.Figure{Key: key, Value: datasheet.Num(math.NaN())}
 }
 
 func isNaN(v datasheet.Num) bool { return math.IsNaN(float64(v)) || math.IsInf(float64(v), 0) }
@@ -187,13 +172,14 @@ func fmtFrac(v datasheet.Num) string {
 	return strconv.FormatFloat(float64(v), 'f', 3, 64)
 }
 
-// fmtValue formats a figure's value in its unit: fractions with three
-// decimals, indices and physical quantities with one.
-func fmtValue(key string, v datasheet.Num, unit string) string {
+// fmtNumber formats a number of a figure of kind k in unit: fractions with
+// three decimals, indices and physical quantities with one, followed by
+// the unit when there is one; "—" when unknown.
+func fmtNumber(k datasheet.Kind, v datasheet.Num, unit string) string {
 	if isNaN(v) {
 		return "—"
 	}
-	if unit == "" && !notFraction(key) {
+	if k == datasheet.KindFraction {
 		return fmtFrac(v)
 	}
 	s := strconv.FormatFloat(float64(v), 'f', 1, 64)
@@ -203,31 +189,31 @@ func fmtValue(key string, v datasheet.Num, unit string) string {
 	return s
 }
 
-// notFraction reports whether the figure key names a quantity that is not
-// a fraction (an index, a power, a temperature difference).
-func notFraction(key string) bool {
-	for _, p := range []string{"sri", "cooling_", "equilibrium_", "held_"} {
-		if strings.HasPrefix(key, p) {
-			return true
-		}
+// fmtFigure formats a figure's value in its unit (see fmtNumber); a
+// temperature difference in words, as where the surface settles.
+func fmtFigure(x datasheet.Figure) string {
+	if k := x.Kind(); k == datasheet.KindTemperatureDifference && !isNaN(x.Value) {
+		return k.Words(float64(x.Value), x.Unit)
 	}
-	return false
+	return fmtNumber(x.Kind(), x.Value, x.Unit)
 }
 
 // fmtUnc formats a figure's standard uncertainty as "±indep. / ±together"
 // (errors independent between wavelengths, errors moving together), two
-// significant digits, marked "partial" with the share of the figure's
-// sensitivity that stated uncertainties reach when below 100 %.
-func fmtUnc(u *datasheet.Uncertainty) string {
+// significant digits; and, when the stated uncertainties of R and T cover
+// less than all of what the figure depends on (its sensitivity), the
+// share they cover in plain words: "covers 48 %" (the datasheet explains
+// it beside the table).
+func fmtUnc(u *datasheet.Uncertainty) (unc, cover string) {
 	if u == nil || isNaN(u.Uncorrelated) || isNaN(u.Correlated) {
-		return ""
+		return "", ""
 	}
 	g := func(x datasheet.Num) string { return "±" + strconv.FormatFloat(float64(x), 'g', 2, 64) }
-	s := g(u.Uncorrelated) + " / " + g(u.Correlated)
+	unc = g(u.Uncorrelated) + " / " + g(u.Correlated)
 	if !isNaN(u.Reach) && float64(u.Reach) < 0.995 {
-		s += " (partial, " + strconv.FormatFloat(100*float64(u.Reach), 'f', 0, 64) + " %)"
+		cover = "covers " + strconv.FormatFloat(100*float64(u.Reach), 'f', 0, 64) + " %"
 	}
-	return s
+	return unc, cover
 }
 
 func fmtPercent(v datasheet.Num) string {
@@ -248,86 +234,17 @@ func sortValue(v datasheet.Num) string {
 
 func fmtG(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
 
-func fmtBand(b [2]float64, unit string) string {
-	if unit == "" {
-		return ""
-	}
-	return fmtG(b[0]) + "–" + fmtG(b[1]) + " " + unit
-}
+// fmtNM writes a wavelength from the data to 0.01 nm.
+func fmtNM(nm float64) string { return fmtG(math.Round(nm*100) / 100) }
 
-// spectrumName describes a solar spectrum condition.
-func spectrumName(s string) string {
-	switch s {
-	case "global":
-		return "ASTM G173-03 global tilt"
-	case "direct":
-		return "ASTM G173-03 direct + circumsolar"
-	}
-	return s
-}
-
-// conditionPairs lists conditions for people: the known ones with labels,
-// then any other field in JSON order so that new conditions show up.
+// conditionPairs lists the conditions for people, in the order of the
+// conditions table.
 func conditionPairs(c datasheet.Conditions) []pair {
-	ps := []pair{
-		{"Solar band", fmtBand(c.SolarBandNM, "nm")},
-		{"Solar spectrum", spectrumName(c.SolarSpectrum)},
-		{"Thermal band", fmtBand(c.ThermalBandUM, "µm")},
-		{"Window band", fmtBand(c.WindowBandUM, "µm")},
-		{"Blackbody temperature", fmtG(c.TemperatureK) + " K"},
-		{"Closure tolerance", fmtG(c.ClosureTol)},
-		{"Air temperature", fmtG(c.AmbientK) + " K"},
-		{"Dew point", fmtG(c.DewPointC) + " °C"},
-		{"Solar irradiance", fmtG(c.IrradianceWm2) + " W/m²"},
-		{"Heat-transfer coefficient h", fmtG(c.HWm2K) + " W m⁻² K⁻¹"},
-		{"Exchange band", fmtBand(c.ExchangeBandUM, "µm")},
-		{"Sky", c.Sky},
-	}
-	known := map[string]bool{"solar_band_nm": true, "solar_spectrum": true, "thermal_band_um": true,
-		"window_band_um": true, "temperature_k": true, "closure_tolerance": true, "ambient_k": true,
-		"dew_point_c": true, "irradiance_w_m2": true, "h_w_m2k": true, "exchange_band_um": true, "sky": true}
-	data, err := json.Marshal(c)
-	if err != nil {
-		return ps
-	}
-	var m map[string]json.RawMessage
-	if json.Unmarshal(data, &m) != nil {
-		return ps
-	}
-	keys := make([]string, 0, len(m))
-	for k := range m {
-		if !known[k] {
-			keys = append(keys, k)
-		}
-	}
-	sort.Strings(keys)
-	for _, k := range keys {
-		v := strings.Trim(string(m[k]), `"`)
-		if v == "" || v == "null" {
-			continue
-		}
-		ps = append(ps, pair{conditionLabel(k), strings.ReplaceAll(v, ",", ", ")})
+	var ps []pair
+	for _, x := range c.List() {
+		ps = append(ps, pair{x.Label, x.Value})
 	}
 	return ps
-}
-
-// conditionLabel turns a condition key into words: "ambient_k" → "Ambient (K)".
-func conditionLabel(k string) string {
-	units := map[string]string{"k": "K", "c": "°C", "um": "µm", "nm": "nm", "w_m2": "W/m²", "w_m2k": "W m⁻² K⁻¹"}
-	for suf, u := range units {
-		if strings.HasSuffix(k, "_"+suf) {
-			base := strings.TrimSuffix(k, "_"+suf)
-			return capitalize(strings.ReplaceAll(base, "_", " ")) + " (" + u + ")"
-		}
-	}
-	return capitalize(strings.ReplaceAll(k, "_", " "))
-}
-
-func capitalize(s string) string {
-	if s == "" {
-		return s
-	}
-	return strings.ToUpper(s[:1]) + s[1:]
 }
 
 // closureOf describes the closure check as the CLI does.
@@ -338,7 +255,7 @@ func closureOf(f *datasheet.Figures) closureView {
 	case !cl.OK:
 		v.Summary = fmt.Sprintf("fails (tolerance %g).", cl.Tolerance)
 	case cl.Checked:
-		v.Summary = fmt.Sprintf("holds: |R+T+A−1| is at most %.4f (at %g nm), tolerance %g.", cl.Residual, cl.ResidualNM, cl.Tolerance)
+		v.Summary = fmt.Sprintf("holds: |R+T+A−1| is at most %.4f (at %s nm), tolerance %g.", cl.Residual, fmtNM(cl.ResidualNM), cl.Tolerance)
 	default:
 		v.Summary = fmt.Sprintf("R, T and A were not all measured at one wavelength; R+T ≤ 1 and no value below zero, tolerance %g.", cl.Tolerance)
 	}
