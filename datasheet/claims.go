@@ -7,7 +7,7 @@ import (
 	"strconv"
 	"strings"
 
-	"skysheet/internal/nearest"
+	"skysheet/spectra/msg"
 )
 
 // Status is the verdict on a claim.
@@ -350,7 +350,7 @@ func suggest(key string, figs []Figure) string {
 	for i, f := range figs {
 		keys[i] = f.Key
 	}
-	best, close := nearest.Name(key, keys)
+	best, close := msg.Nearest(key, keys)
 	sort.Strings(keys)
 	s := "; known figures: " + strings.Join(keys, ", ")
 	if close {

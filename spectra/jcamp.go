@@ -11,7 +11,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
-	"skysheet/internal/quote"
+	"skysheet/spectra/msg"
 )
 
 // The errors the JCAMP-DX reader may return, wrapped in a [ParseError]
@@ -142,7 +142,7 @@ func splitRecords(r io.Reader, file string) ([]*record, error) {
 		if strings.HasPrefix(t, "##") {
 			l, v, ok := strings.Cut(t[2:], "=")
 			if !ok {
-				return nil, &ParseError{File: file, Line: n, Err: fmt.Errorf("%w: %s has no '='", errLabel, quote.Value(t))}
+				return nil, &ParseError{File: file, Line: n, Err: fmt.Errorf("%w: %s has no '='", errLabel, msg.Quote(t))}
 			}
 			cur = &record{label: strings.TrimSpace(l), norm: normLabel(l), value: strings.TrimSpace(stripComment(v)), line: n}
 			recs = append(recs, cur)
@@ -164,7 +164,7 @@ func splitRecords(r io.Reader, file string) ([]*record, error) {
 	case len(recs) == 0:
 		return nil, &ParseError{File: file, Err: fmt.Errorf("%w: no labelled data records (##LABEL=value)", errNotJCAMP)}
 	case recs[0].norm != "TITLE":
-		return nil, &ParseError{File: file, Line: recs[0].line, Err: fmt.Errorf("%w: the first record must be ##TITLE=, not ##%s=", errNotJCAMP, quote.Cut(recs[0].label))}
+		return nil, &ParseError{File: file, Line: recs[0].line, Err: fmt.Errorf("%w: the first record must be ##TITLE=, not ##%s=", errNotJCAMP, msg.Cut(recs[0].label))}
 	case !ended:
 		return nil, &ParseError{File: file, Line: n, Err: errNoEnd}
 	}
@@ -235,15 +235,15 @@ func (j *jcamp) build(recs []*record) error {
 				return j.errAt(r.line, fmt.Errorf("a nested ##TITLE=: the file %w", errMultiBlock))
 			}
 		case "BLOCKS", "NTUPLES", "PAGE":
-			return j.errAt(r.line, fmt.Errorf("##%s= (compound or multi-page file) %w: %w", quote.Cut(r.label), errUnsupported, errMultiBlock))
+			return j.errAt(r.line, fmt.Errorf("##%s= (compound or multi-page file) %w: %w", msg.Cut(r.label), errUnsupported, errMultiBlock))
 		case "DATATYPE":
 			if strings.Contains(strings.ToUpper(r.value), "LINK") {
-				return j.errAt(r.line, fmt.Errorf("DATA TYPE=%s (compound file) %w: %w", quote.Cut(r.value), errUnsupported, errMultiBlock))
+				return j.errAt(r.line, fmt.Errorf("DATA TYPE=%s (compound file) %w: %w", msg.Cut(r.value), errUnsupported, errMultiBlock))
 			}
 		}
 		if controlLabels[r.norm] {
 			if prev, dup := j.recs[r.norm]; dup {
-				return j.errAt(r.line, fmt.Errorf("##%s= %w (also line %d)", quote.Cut(r.label), errDuplicateLabel, prev.line))
+				return j.errAt(r.line, fmt.Errorf("##%s= %w (also line %d)", msg.Cut(r.label), errDuplicateLabel, prev.line))
 			}
 			j.recs[r.norm] = r
 		}
@@ -297,13 +297,13 @@ func (j *jcamp) data() error {
 		case "(XY..XY)":
 			points = true
 		default:
-			return j.errAt(xy.line, fmt.Errorf("##XYDATA=%s %w: want (X++(Y..Y)) or (XY..XY)", quote.Cut(xy.value), errUnsupported))
+			return j.errAt(xy.line, fmt.Errorf("##XYDATA=%s %w: want (X++(Y..Y)) or (XY..XY)", msg.Cut(xy.value), errUnsupported))
 		}
 	case xp != nil:
 		table = xp
 		points = true
 		if f := strings.ToUpper(strings.Join(strings.Fields(xp.value), "")); f != "(XY..XY)" {
-			return j.errAt(xp.line, fmt.Errorf("##XYPOINTS=%s %w: want (XY..XY)", quote.Cut(xp.value), errUnsupported))
+			return j.errAt(xp.line, fmt.Errorf("##XYPOINTS=%s %w: want (XY..XY)", msg.Cut(xp.value), errUnsupported))
 		}
 	default:
 		return j.errAt(0, fmt.Errorf("%w: ##XYDATA= or ##XYPOINTS=", errMissingLabel))
@@ -340,7 +340,7 @@ func (j *jcamp) data() error {
 		}
 		got := pts[0].y * yf
 		if tol := math.Max(math.Abs(yf), math.Max(1e-5*math.Abs(want), 0.5*resolution(fy.value))); math.Abs(got-want) > tol {
-			return j.errAt(fy.line, fmt.Errorf("%w: FIRSTY=%s but the first Y is %s (line %d)", errFirstY, quote.Cut(fy.value), fmtNum(got), pts[0].line))
+			return j.errAt(fy.line, fmt.Errorf("%w: FIRSTY=%s but the first Y is %s (line %d)", errFirstY, msg.Cut(fy.value), fmtNum(got), pts[0].line))
 		}
 	}
 	return j.store(pts, xu, yu, xf, yf)
@@ -368,7 +368,7 @@ func (j *jcamp) xUnits(table *record) (jcampX, error) {
 	case "1/CM", "CM-1", "CM^-1", "WAVENUMBERS", "WAVENUMBERS(1/CM)":
 		return xWavenumber, nil
 	}
-	return 0, j.errAt(r.line, fmt.Errorf("XUNITS=%s %w", quote.Value(r.value), errXUnits))
+	return 0, j.errAt(r.line, fmt.Errorf("XUNITS=%s %w", msg.Quote(r.value), errXUnits))
 }
 
 // jcampY is the meaning of the ordinate.
@@ -397,11 +397,11 @@ func (j *jcamp) yUnits(table *record) (jcampY, error) {
 		y.q = T
 	case "ABSORBANCE":
 		if y.percent {
-			return y, j.errAt(r.line, fmt.Errorf("YUNITS=%s %w", quote.Value(r.value), errYUnits))
+			return y, j.errAt(r.line, fmt.Errorf("YUNITS=%s %w", msg.Quote(r.value), errYUnits))
 		}
 		y.q, y.absorbance = T, true
 	default:
-		return y, j.errAt(r.line, fmt.Errorf("YUNITS=%s %w", quote.Value(r.value), errYUnits))
+		return y, j.errAt(r.line, fmt.Errorf("YUNITS=%s %w", msg.Quote(r.value), errYUnits))
 	}
 	return y, nil
 }
@@ -411,11 +411,11 @@ var affnRE = regexp.MustCompile(`^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$`)
 // number reads the numeric value of a record.
 func (j *jcamp) number(r *record) (float64, error) {
 	if !affnRE.MatchString(r.value) {
-		return 0, j.errAt(r.line, fmt.Errorf("##%s=%s %w", quote.Cut(r.label), quote.Value(r.value), errNotNumber))
+		return 0, j.errAt(r.line, fmt.Errorf("##%s=%s %w", msg.Cut(r.label), msg.Quote(r.value), errNotNumber))
 	}
 	x, err := strconv.ParseFloat(r.value, 64)
 	if err != nil || math.IsInf(x, 0) {
-		return 0, j.errAt(r.line, fmt.Errorf("##%s=%s %w", quote.Cut(r.label), quote.Value(r.value), errNotFinite))
+		return 0, j.errAt(r.line, fmt.Errorf("##%s=%s %w", msg.Cut(r.label), msg.Quote(r.value), errNotFinite))
 	}
 	return x, nil
 }
@@ -427,7 +427,7 @@ func (j *jcamp) factor(label string) (float64, error) {
 	}
 	f, err := j.number(r)
 	if err == nil && f == 0 {
-		err = j.errAt(r.line, fmt.Errorf("##%s=%s %w: want a non-zero factor", quote.Cut(r.label), quote.Cut(r.value), errOutOfRange))
+		err = j.errAt(r.line, fmt.Errorf("##%s=%s %w: want a non-zero factor", msg.Cut(r.label), msg.Cut(r.value), errOutOfRange))
 	}
 	return f, err
 }
@@ -489,12 +489,12 @@ func (j *jcamp) xyData(table *record, xf float64) ([]rawPoint, error) {
 		return nil, err
 	}
 	if nf != math.Trunc(nf) || nf < 2 || nf > maxPoints {
-		return nil, j.errAt(npr.line, fmt.Errorf("NPOINTS=%s %w: want a whole number from 2 to %d", quote.Cut(npr.value), errOutOfRange, maxPoints))
+		return nil, j.errAt(npr.line, fmt.Errorf("NPOINTS=%s %w: want a whole number from 2 to %d", msg.Cut(npr.value), errOutOfRange, maxPoints))
 	}
 	n := int(nf)
 	dx := (lastX - firstX) / float64(n-1)
 	if dx == 0 || math.IsInf(dx, 0) || math.IsNaN(dx) {
-		return nil, j.errAt(lxr.line, fmt.Errorf("%w: FIRSTX=%s and LASTX=%s leave no spacing between %d points", errLastX, quote.Cut(fxr.value), quote.Cut(lxr.value), n))
+		return nil, j.errAt(lxr.line, fmt.Errorf("%w: FIRSTX=%s and LASTX=%s leave no spacing between %d points", errLastX, msg.Cut(fxr.value), msg.Cut(lxr.value), n))
 	}
 	if dr := j.recs["DELTAX"]; dr != nil {
 		d, err := j.number(dr)
@@ -503,7 +503,7 @@ func (j *jcamp) xyData(table *record, xf float64) ([]rawPoint, error) {
 		}
 		end := firstX + float64(n-1)*d
 		if tol := math.Max(0.5*math.Abs(d), resolution(lxr.value)); !(math.Abs(end-lastX) <= tol) {
-			return nil, j.errAt(lxr.line, fmt.Errorf("%w: LASTX=%s but FIRSTX + (NPOINTS−1)·DELTAX = %s", errLastX, quote.Cut(lxr.value), fmtNum(end)))
+			return nil, j.errAt(lxr.line, fmt.Errorf("%w: LASTX=%s but FIRSTX + (NPOINTS−1)·DELTAX = %s", errLastX, msg.Cut(lxr.value), fmtNum(end)))
 		}
 	}
 
@@ -622,26 +622,26 @@ func (j *jcamp) xyPoints(table *record, xf float64) ([]rawPoint, error) {
 		for i := 0; i < len(f); i += 2 {
 			xs, ys := f[i], f[i+1]
 			if !affnRE.MatchString(xs.text) {
-				return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w", quote.Value(xs.text), errNotNumber)}
+				return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w", msg.Quote(xs.text), errNotNumber)}
 			}
 			x, _ := strconv.ParseFloat(xs.text, 64)
 			y := math.NaN()
 			if ys.text != "?" {
 				if !affnRE.MatchString(ys.text) {
-					return nil, &ParseError{File: j.file, Line: ln.n, Column: ys.col, Name: "Y value", Err: fmt.Errorf("%s %w", quote.Value(ys.text), errNotNumber)}
+					return nil, &ParseError{File: j.file, Line: ln.n, Column: ys.col, Name: "Y value", Err: fmt.Errorf("%s %w", msg.Quote(ys.text), errNotNumber)}
 				}
 				y, _ = strconv.ParseFloat(ys.text, 64)
 			}
 			if math.IsInf(x*xf, 0) {
-				return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w", quote.Value(xs.text), errNotFinite)}
+				return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w", msg.Quote(xs.text), errNotFinite)}
 			}
 			if k := len(pts); k > 0 {
 				p := pts[k-1]
 				switch {
 				case x*xf == p.x:
-					return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w (line %d)", quote.Cut(xs.text), errDuplicate, p.line)}
+					return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w (line %d)", msg.Cut(xs.text), errDuplicate, p.line)}
 				case k > 1 && (x*xf > p.x) != (p.x > pts[k-2].x):
-					return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w: X values must rise or fall throughout", quote.Cut(xs.text), errNotMonotonic)}
+					return nil, &ParseError{File: j.file, Line: ln.n, Column: xs.col, Name: "X value", Err: fmt.Errorf("%s %w: X values must rise or fall throughout", msg.Cut(xs.text), errNotMonotonic)}
 				}
 			}
 			pts = append(pts, rawPoint{x: x * xf, y: y, line: ln.n, col: ys.col})
@@ -658,7 +658,7 @@ func (j *jcamp) xyPoints(table *record, xf float64) ([]rawPoint, error) {
 			return nil, err
 		}
 		if n != float64(len(pts)) {
-			return nil, j.errAt(last, fmt.Errorf("%w: NPOINTS=%s but the table holds %d", errPointCount, quote.Cut(r.value), len(pts)))
+			return nil, j.errAt(last, fmt.Errorf("%w: NPOINTS=%s but the table holds %d", errPointCount, msg.Cut(r.value), len(pts)))
 		}
 	}
 	for _, c := range []struct {
@@ -676,7 +676,7 @@ func (j *jcamp) xyPoints(table *record, xf float64) ([]rawPoint, error) {
 		}
 		p := pts[c.i]
 		if tol := math.Max(xres[c.i], resolution(r.value)) + 1e-9*math.Abs(want); !(math.Abs(p.x-want) <= tol) {
-			return nil, j.errAt(r.line, fmt.Errorf("%w: %s=%s but the table's X is %s (line %d)", c.err, quote.Cut(c.label), quote.Cut(r.value), fmtNum(p.x), p.line))
+			return nil, j.errAt(r.line, fmt.Errorf("%w: %s=%s but the table's X is %s (line %d)", c.err, msg.Cut(c.label), msg.Cut(r.value), fmtNum(p.x), p.line))
 		}
 	}
 	return pts, nil
@@ -760,7 +760,7 @@ func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, xf, yf float64) erro
 			y = t
 		case yu.percent:
 			if !(y >= -5 && y <= 105) {
-				return at("Y value", fmt.Errorf("Y %s %w: YUNITS=%s is percent, want -5..105", fmtNum(y), errOutOfRange, quote.Cut(yu.written)))
+				return at("Y value", fmt.Errorf("Y %s %w: YUNITS=%s is percent, want -5..105", fmtNum(y), errOutOfRange, msg.Cut(yu.written)))
 			}
 			y = decimalClean(y / 100)
 		default:
@@ -769,7 +769,7 @@ func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, xf, yf float64) erro
 				if y > 1.05 && y <= 105 {
 					hint = " (percent? write YUNITS=%" + strings.ToUpper(yu.q.name()) + ")"
 				}
-				return at("Y value", fmt.Errorf("Y %s %w: YUNITS=%s is a fraction, want -0.05..1.05%s", fmtNum(y), errOutOfRange, quote.Cut(yu.written), hint))
+				return at("Y value", fmt.Errorf("Y %s %w: YUNITS=%s is a fraction, want -0.05..1.05%s", fmtNum(y), errOutOfRange, msg.Cut(yu.written), hint))
 			}
 		}
 		v[i] = y
@@ -862,7 +862,7 @@ func tokenize(line string) ([]token, error) {
 	}
 	if !affn {
 		if f, ok := wordInNumbers(fs); ok {
-			return nil, &tokenError{f.col, fmt.Errorf("%s %w: a data line of plain numbers holds a word; write \"?\" for a missing value", quote.Value(f.text), errNotNumber)}
+			return nil, &tokenError{f.col, fmt.Errorf("%s %w: a data line of plain numbers holds a word; write \"?\" for a missing value", msg.Quote(f.text), errNotNumber)}
 		}
 	}
 	var toks []token
@@ -874,7 +874,7 @@ func tokenize(line string) ([]token, error) {
 			}
 			x, err := strconv.ParseFloat(f.text, 64)
 			if err != nil || math.IsInf(x, 0) {
-				return nil, &tokenError{f.col, fmt.Errorf("%s %w", quote.Value(f.text), errNotFinite)}
+				return nil, &tokenError{f.col, fmt.Errorf("%s %w", msg.Quote(f.text), errNotFinite)}
 			}
 			toks = append(toks, token{kind: tokAbs, v: x, res: resolution(f.text), col: f.col})
 		}
@@ -939,17 +939,17 @@ func tokenize(line string) ([]token, error) {
 		if kind == tokDup {
 			n, err := strconv.Atoi(digits)
 			if err != nil || n < 1 || n > maxPoints {
-				return nil, &tokenError{start + 1, fmt.Errorf("%w: %s is not a repeat count", errASDF, quote.Value(line[start:j]))}
+				return nil, &tokenError{start + 1, fmt.Errorf("%w: %s is not a repeat count", errASDF, msg.Quote(line[start:j]))}
 			}
 			toks = append(toks, token{kind: tokDup, count: n, col: start + 1})
 			continue
 		}
 		if strings.Count(digits, ".") > 1 || strings.Trim(digits, ".") == "" {
-			return nil, &tokenError{start + 1, fmt.Errorf("%w: %s is not a number", errASDF, quote.Value(line[start:j]))}
+			return nil, &tokenError{start + 1, fmt.Errorf("%w: %s is not a number", errASDF, msg.Quote(line[start:j]))}
 		}
 		x, err := strconv.ParseFloat(digits, 64)
 		if err != nil || math.IsInf(x, 0) {
-			return nil, &tokenError{start + 1, fmt.Errorf("%w: %s is not a finite number", errASDF, quote.Value(line[start:j]))}
+			return nil, &tokenError{start + 1, fmt.Errorf("%w: %s is not a finite number", errASDF, msg.Quote(line[start:j]))}
 		}
 		toks = append(toks, token{kind: kind, v: sign * x, res: resolution(digits), col: start + 1})
 	}

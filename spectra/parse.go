@@ -14,7 +14,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
-	"skysheet/internal/quote"
+	"skysheet/spectra/msg"
 )
 
 // The errors a reader may return, wrapped in a [ParseError].
@@ -207,7 +207,7 @@ func (p *parser) errf(col int, err error) error {
 		if col == 1 {
 			pe.Name = "spectral axis"
 		} else if col-2 < len(p.cols) {
-			pe.Name = quote.Cut(p.cols[col-2].name)
+			pe.Name = msg.Cut(p.cols[col-2].name)
 		}
 	}
 	return pe
@@ -465,7 +465,7 @@ func constU(consts *[numQuantities]float64, q Quantity, v string) error {
 	}
 	x, err := strconv.ParseFloat(s, 64)
 	if err != nil || math.IsNaN(x) || math.IsInf(x, 0) || x < 0 || x*scale > 1 {
-		return fmt.Errorf("%w: %s: %s: want a standard uncertainty such as 0.005 or 0.5 %%", errBadMetadata, q, quote.Value(v))
+		return fmt.Errorf("%w: %s: %s: want a standard uncertainty such as 0.005 or 0.5 %%", errBadMetadata, q, msg.Quote(v))
 	}
 	consts[q] = x * scale
 	return nil
@@ -491,11 +491,11 @@ func (p *parser) header(f []string, text string) error {
 		f = f[:len(f)-1]
 	}
 	if len(f) == 0 {
-		return p.errf(1, fmt.Errorf("%s %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", quote.Value(strings.TrimSpace(text)), errUnknownUnit))
+		return p.errf(1, fmt.Errorf("%s %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", msg.Quote(strings.TrimSpace(text)), errUnknownUnit))
 	}
 	u, ok := parseAxisHeader(f[0])
 	if !ok {
-		return p.errf(1, fmt.Errorf("%s %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", quote.Value(f[0]), errUnknownUnit))
+		return p.errf(1, fmt.Errorf("%s %w: want wavelength_nm, wavelength_um or wavenumber_cm-1", msg.Quote(f[0]), errUnknownUnit))
 	}
 	p.unit = u
 	seen := map[Quantity]int{}
@@ -503,7 +503,7 @@ func (p *parser) header(f []string, text string) error {
 		c, ok := parseColumnHeader(h)
 		if !ok {
 			p.cols = append(p.cols, c)
-			return p.errf(i+2, fmt.Errorf("%s %w: want R, T, A, u_R or u_T, optionally with (%%) or _pct", quote.Value(h), errUnknownColumn))
+			return p.errf(i+2, fmt.Errorf("%s %w: want R, T, A, u_R or u_T, optionally with (%%) or _pct", msg.Quote(h), errUnknownColumn))
 		}
 		if j, dup := seen[c.q]; dup {
 			p.cols = append(p.cols, c)
@@ -515,7 +515,7 @@ func (p *parser) header(f []string, text string) error {
 	if _, r := seen[R]; !r {
 		if _, t := seen[T]; !t {
 			if _, a := seen[A]; !a {
-				return p.errf(0, fmt.Errorf("header %s: %w", quote.Value(strings.TrimSpace(text)), ErrNoValues))
+				return p.errf(0, fmt.Errorf("header %s: %w", msg.Quote(strings.TrimSpace(text)), ErrNoValues))
 			}
 		}
 	}
@@ -535,12 +535,12 @@ func (p *parser) number(orig string, col int) (float64, error) {
 	if err != nil {
 		var ne *strconv.NumError
 		if errors.As(err, &ne) && ne.Err == strconv.ErrRange {
-			return 0, p.errf(col, fmt.Errorf("%s %w", quote.Value(orig), errNotFinite))
+			return 0, p.errf(col, fmt.Errorf("%s %w", msg.Quote(orig), errNotFinite))
 		}
-		return 0, p.errf(col, fmt.Errorf("%s %w%s", quote.Value(orig), errNotNumber, thousandsHint(orig)))
+		return 0, p.errf(col, fmt.Errorf("%s %w%s", msg.Quote(orig), errNotNumber, thousandsHint(orig)))
 	}
 	if math.IsNaN(x) || math.IsInf(x, 0) {
-		return 0, p.errf(col, fmt.Errorf("%s %w", quote.Value(orig), errNotFinite))
+		return 0, p.errf(col, fmt.Errorf("%s %w", msg.Quote(orig), errNotFinite))
 	}
 	return x, nil
 }
@@ -571,10 +571,10 @@ func (p *parser) row(f []string) error {
 		nm = 1e7 / x
 	}
 	if !(x > 0) || math.IsInf(nm, 0) || !(nm > 0) {
-		return p.errf(1, fmt.Errorf("%s %w: the spectral axis must be positive", quote.Value(f[0]), errOutOfRange))
+		return p.errf(1, fmt.Errorf("%s %w: the spectral axis must be positive", msg.Quote(f[0]), errOutOfRange))
 	}
 	if ln, dup := p.seenX[x]; dup {
-		return p.errf(1, fmt.Errorf("%s %w (line %d)", quote.Cut(f[0]), errDuplicate, ln))
+		return p.errf(1, fmt.Errorf("%s %w (line %d)", msg.Cut(f[0]), errDuplicate, ln))
 	}
 	if p.rows > 0 {
 		d := 1
@@ -588,7 +588,7 @@ func (p *parser) row(f []string) error {
 			if p.dir < 0 {
 				order = "descending"
 			}
-			return p.errf(1, fmt.Errorf("%s %w: the axis is %s but line %d has %g", quote.Cut(f[0]), errNotMonotonic, order, p.lastLn, p.lastX))
+			return p.errf(1, fmt.Errorf("%s %w: the axis is %s but line %d has %g", msg.Cut(f[0]), errNotMonotonic, order, p.lastLn, p.lastX))
 		}
 	}
 	p.seenX[x] = p.line
@@ -723,7 +723,7 @@ func (p *parser) checkRange(v float64, c column, s string, col int) error {
 	if !c.percent && v > 1.05 && v <= 105 {
 		hint = " (percent? mark the header, e.g. \"" + c.q.String() + " (%)\")"
 	}
-	return p.errf(col, fmt.Errorf("%s %w: want %s%s", quote.Value(s), errOutOfRange, unit, hint))
+	return p.errf(col, fmt.Errorf("%s %w: want %s%s", msg.Quote(s), errOutOfRange, unit, hint))
 }
 
 // closeSegment ends the current segment at a blank line or at the end.

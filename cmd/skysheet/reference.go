@@ -7,8 +7,8 @@ import (
 	"path/filepath"
 	"strings"
 
-	"skysheet/internal/quote"
 	"skysheet/spectra"
+	"skysheet/spectra/msg"
 )
 
 // errReferenceOutside is wrapped by the error for a reference_file that
@@ -29,7 +29,7 @@ func resolveReference(name, f, explicit string) (string, error) {
 	if explicit != "" && sameFile(p, explicit) {
 		return explicit, nil
 	}
-	outside := fmt.Errorf("%s %w: put the reference standard in that folder, or give it with --reference %s", quote.Value(f), errReferenceOutside, p)
+	outside := fmt.Errorf("%s %w: put the reference standard in that folder, or give it with --reference %s", msg.Quote(f), errReferenceOutside, p)
 	if filepath.IsAbs(f) || !inside(dir, p) {
 		return "", outside
 	}

@@ -10,8 +10,8 @@ import (
 	"gopkg.in/yaml.v3"
 
 	"skysheet/datasheet"
-	"skysheet/internal/quote"
 	"skysheet/spectra"
+	"skysheet/spectra/msg"
 )
 
 // ConfigFile is the name of the site configuration at the library root.
@@ -144,7 +144,7 @@ func (d doc) apply(o Overrides, base datasheet.Conditions) (datasheet.Conditions
 	if n := skyNode; n != nil && !c.Sky.Clear() {
 		p, err := resolvePath(d.file, c.Sky.File)
 		if err != nil {
-			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("sky file %s: %w (or write %q for the built-in sky)", quote.Value(c.Sky.File), err, datasheet.SkyChoice{})}
+			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("sky file %s: %w (or write %q for the built-in sky)", msg.Quote(c.Sky.File), err, datasheet.SkyChoice{})}
 		}
 		var data []byte
 		if d.fsys != nil {
@@ -194,7 +194,7 @@ func parseConfig(fsys fs.FS, src []byte) (Config, error) {
 	if b := strings.TrimSpace(f.SiteAddress); b != "" {
 		u, err := url.Parse(b)
 		if err != nil || (u.Scheme != "http" && u.Scheme != "https") || u.Host == "" {
-			errs = append(errs, d.at(valueNode(root, "site_address"), ErrType, "site_address %s: want an absolute http or https URL", quote.Value(b)))
+			errs = append(errs, d.at(valueNode(root, "site_address"), ErrType, "site_address %s: want an absolute http or https URL", msg.Quote(b)))
 		} else {
 			cfg.SiteAddress = strings.TrimSuffix(u.String(), "/") + "/"
 		}

@@ -10,8 +10,7 @@ import (
 	"gopkg.in/yaml.v3"
 
 	"skysheet/datasheet"
-	"skysheet/internal/nearest"
-	"skysheet/internal/quote"
+	"skysheet/spectra/msg"
 )
 
 // FrontMatter is the YAML block at the top of a content file. A material
@@ -68,7 +67,7 @@ func (d doc) checkClaims(cs []datasheet.Claim, nodes []*yaml.Node) []error {
 			return valueNode(n, key)
 		}
 		if f := strings.TrimSpace(c.Figure); f != "" && !slices.Contains(figureKeys, f) {
-			best, close := nearest.Name(f, figureKeys)
+			best, close := msg.Nearest(f, figureKeys)
 			hint := fmt.Sprintf("nearest figure %q; known figures: %s", best, strings.Join(figureKeys, ", "))
 			if close {
 				hint = fmt.Sprintf("did you mean %q?", best)
@@ -178,7 +177,7 @@ func parseFront(file string, yamlText []byte) (FrontMatter, frontLines, doc, err
 	if valueNode(root, "compare") != root {
 		for i := 0; i+1 < len(root.Content); i += 2 {
 			if k := root.Content[i]; !comparisonKeys[k.Value] {
-				errs = append(errs, d.at(k, ErrNotAllowed, "%s in a comparison page (it has compare:); allowed: title, slug, summary, compare", quote.Value(k.Value)))
+				errs = append(errs, d.at(k, ErrNotAllowed, "%s in a comparison page (it has compare:); allowed: title, slug, summary, compare", msg.Quote(k.Value)))
 			}
 		}
 		if len(fm.Compare) == 0 {

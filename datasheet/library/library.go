@@ -13,9 +13,8 @@ import (
 	"sync"
 
 	"skysheet/datasheet"
-	"skysheet/internal/nearest"
-	"skysheet/internal/quote"
 	"skysheet/spectra"
+	"skysheet/spectra/msg"
 )
 
 // ContentDir is the folder, below the library root, that holds the Markdown
@@ -145,14 +144,14 @@ func Load(fsys fs.FS) (*Library, error) {
 		switch {
 		case r.m != nil:
 			if prev, dup := slugs[r.m.Slug]; dup {
-				add(errorf(r.m.Path, r.slugLine, 0, ErrDuplicateSlug, "%s is also the slug of %s", quote.Value(r.m.Slug), prev))
+				add(errorf(r.m.Path, r.slugLine, 0, ErrDuplicateSlug, "%s is also the slug of %s", msg.Quote(r.m.Slug), prev))
 				continue
 			}
 			slugs[r.m.Slug] = r.m.Path
 			lib.Materials = append(lib.Materials, r.m)
 		case r.c != nil:
 			if prev, dup := cmpSlugs[r.c.Slug]; dup {
-				add(errorf(r.c.Path, r.slugLine, 0, ErrDuplicateSlug, "%s is also the slug of comparison %s", quote.Value(r.c.Slug), prev))
+				add(errorf(r.c.Path, r.slugLine, 0, ErrDuplicateSlug, "%s is also the slug of comparison %s", msg.Quote(r.c.Slug), prev))
 				continue
 			}
 			cmpSlugs[r.c.Slug] = r.c.Path
@@ -189,7 +188,7 @@ func Load(fsys fs.FS) (*Library, error) {
 		for j, s := range r.c.Front.Compare {
 			if _, ok := lib.Material(strings.TrimSpace(s)); !ok && !known[strings.TrimSpace(s)] {
 				line := results[i].compareLines[j]
-				add(errorf(r.c.Path, line, 0, ErrUnknownMaterial, "compare entry %s%s", quote.Value(s), nearestSlug(s, slugs)))
+				add(errorf(r.c.Path, line, 0, ErrUnknownMaterial, "compare entry %s%s", msg.Quote(s), nearestSlug(s, slugs)))
 			}
 		}
 	}
@@ -236,7 +235,7 @@ func (l *Library) ReadSample(m *Material) (*spectra.Spectrum, []Input, error) {
 
 // nearestSlug suggests a known slug close to s, or nothing.
 func nearestSlug(s string, slugs map[string]string) string {
-	if best, close := nearest.Name(s, sortedKeys(slugs)); close {
+	if best, close := msg.Nearest(s, sortedKeys(slugs)); close {
 		return fmt.Sprintf(" (did you mean %q?)", best)
 	}
 	return ""
@@ -258,7 +257,7 @@ func nearbyFile(fsys fs.FS, p, ref string) string {
 			names = append(names, e.Name())
 		}
 	}
-	if best, close := nearest.Name(path.Base(p), names); close {
+	if best, close := msg.Nearest(path.Base(p), names); close {
 		return fmt.Sprintf(" (did you mean %q?)", path.Join(path.Dir(strings.TrimSpace(ref)), best))
 	}
 	if len(names) > 0 && len(names) <= 10 {
@@ -341,7 +340,7 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 	} else {
 		r.slug = fm.Slug
 		if Slugify(fm.Slug) != fm.Slug {
-			errs = append(errs, d.at(slugNode, ErrBadSlug, "%s: want lower-case letters, digits and single hyphens, e.g. %s", quote.Value(fm.Slug), quote.Value(Slugify(fm.Slug))))
+			errs = append(errs, d.at(slugNode, ErrBadSlug, "%s: want lower-case letters, digits and single hyphens, e.g. %s", msg.Quote(fm.Slug), msg.Quote(Slugify(fm.Slug))))
 		}
 	}
 	fm.Slug = r.slug
@@ -376,7 +375,7 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 		line, col := at.Line+d.offset, at.Column
 		p, err := resolvePath(file, ref.File)
 		if err != nil {
-			errs = append(errs, &Error{File: file, Line: line, Column: col, Err: fmt.Errorf("spectra file %s: %w", quote.Value(ref.File), err)})
+			errs = append(errs, &Error{File: file, Line: line, Column: col, Err: fmt.Errorf("spectra file %s: %w", msg.Quote(ref.File), err)})
 			continue
 		}
 		if _, err := fs.Stat(fsys, p); err != nil {

@@ -12,8 +12,7 @@ import (
 
 	"gopkg.in/yaml.v3"
 
-	"skysheet/internal/nearest"
-	"skysheet/internal/quote"
+	"skysheet/spectra/msg"
 )
 
 // doc is one YAML document of a library file: the file name and the number
@@ -136,7 +135,7 @@ func (d doc) check(n *yaml.Node, t reflect.Type) []error {
 				continue
 			}
 			if prev, dup := seen[k.Value]; dup {
-				errs = append(errs, d.at(k, ErrDuplicateKey, "%s (first at line %d)", quote.Value(k.Value), prev.Line+d.offset))
+				errs = append(errs, d.at(k, ErrDuplicateKey, "%s (first at line %d)", msg.Quote(k.Value), prev.Line+d.offset))
 				continue
 			}
 			seen[k.Value] = k
@@ -234,11 +233,11 @@ func sortedKeys[V any](m map[string]V) []string {
 // unknownKey describes an unknown key with the nearest of the known names
 // (sorted).
 func unknownKey(key string, names []string) string {
-	best, close := nearest.Name(key, names)
+	best, close := msg.Nearest(key, names)
 	if close {
-		return fmt.Sprintf("%s (did you mean %q?)", quote.Value(key), best)
+		return fmt.Sprintf("%s (did you mean %q?)", msg.Quote(key), best)
 	}
-	return fmt.Sprintf("%s (nearest known key %q; known keys: %s)", quote.Value(key), best, strings.Join(names, ", "))
+	return fmt.Sprintf("%s (nearest known key %q; known keys: %s)", msg.Quote(key), best, strings.Join(names, ", "))
 }
 
 func kindName(n *yaml.Node) string {
@@ -246,7 +245,7 @@ func kindName(n *yaml.Node) string {
 	case yaml.SequenceNode:
 		return "a list"
 	case yaml.ScalarNode:
-		return quote.Value(n.Value)
+		return msg.Quote(n.Value)
 	case yaml.MappingNode:
 		return "a mapping"
 	}

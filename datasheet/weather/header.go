@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"strings"
 
-	"skysheet/internal/quote"
+	"skysheet/spectra/msg"
 )
 
 // unit is one accepted unit of a quantity: a value v read in it is
@@ -131,7 +131,7 @@ func parseHeaderCell(raw string) (cell, error) {
 			closer = ']'
 		}
 		if h[len(h)-1] != closer {
-			return c, fmt.Errorf("%q %w: the unit must close the cell with %q, e.g. \"air temperature (°C)\"", quote.Cut(h), ErrBadHeader, string(closer))
+			return c, fmt.Errorf("%q %w: the unit must close the cell with %q, e.g. \"air temperature (°C)\"", msg.Cut(h), ErrBadHeader, string(closer))
 		}
 		name, inside, hasUnit = h[:i], h[i+1:len(h)-1], true
 	}
@@ -150,7 +150,7 @@ func parseHeaderCell(raw string) (cell, error) {
 		}
 	}
 	if q < 0 {
-		return c, fmt.Errorf("%q %w: want %s, with its unit in parentheses", quote.Cut(h), ErrUnknownColumn, knownNames())
+		return c, fmt.Errorf("%q %w: want %s, with its unit in parentheses", msg.Cut(h), ErrUnknownColumn, knownNames())
 	}
 	c.q, c.col.Quantity = q, q
 	d := &quantityInfo[q]
@@ -159,7 +159,7 @@ func parseHeaderCell(raw string) (cell, error) {
 	un := normUnit(u)
 	if q == Time {
 		if hasUnit && (un != "" || c.col.Note != "") {
-			return c, fmt.Errorf("%q %w for time: time takes no unit; each value carries its UTC offset, e.g. 2026-07-01T13:00:00+02:00", quote.Cut(strings.TrimSpace(inside)), ErrUnit)
+			return c, fmt.Errorf("%q %w for time: time takes no unit; each value carries its UTC offset, e.g. 2026-07-01T13:00:00+02:00", msg.Cut(strings.TrimSpace(inside)), ErrUnit)
 		}
 		return c, nil
 	}
@@ -178,7 +178,7 @@ func parseHeaderCell(raw string) (cell, error) {
 			}
 		}
 	}
-	return c, fmt.Errorf("%q %w for %s: want %s", quote.Cut(strings.TrimSpace(u)), ErrUnit, d.name, d.unitNames())
+	return c, fmt.Errorf("%q %w for %s: want %s", msg.Cut(strings.TrimSpace(u)), ErrUnit, d.name, d.unitNames())
 }
 
 // unitExamples writes a quantity's header with each of its units.

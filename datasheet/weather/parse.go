@@ -16,8 +16,8 @@ import (
 	"time"
 	"unicode/utf8"
 
-	"skysheet/internal/quote"
 	"skysheet/spectra"
+	"skysheet/spectra/msg"
 )
 
 // The errors [Parse] may return, wrapped in a *[spectra.ParseError].
@@ -130,7 +130,7 @@ func (p *parser) errAt(line, i int, err error) error {
 	if i >= 0 {
 		pe.Column = i + 1
 		if i < len(p.cells) {
-			pe.Name = quote.Cut(p.cells[i].col.Header)
+			pe.Name = msg.Cut(p.cells[i].col.Header)
 		}
 	}
 	return pe
@@ -261,7 +261,7 @@ func (p *parser) meta(s string, line int) error {
 			return p.errAt(line, -1, fmt.Errorf("%w: name is empty", ErrMetadata))
 		}
 		if p.s.Name != "" {
-			return p.errAt(line, -1, fmt.Errorf("%w: name given twice (first %q)", ErrMetadata, quote.Cut(p.s.Name)))
+			return p.errAt(line, -1, fmt.Errorf("%w: name given twice (first %q)", ErrMetadata, msg.Cut(p.s.Name)))
 		}
 		p.s.Name = v
 		return nil
@@ -295,7 +295,7 @@ func (p *parser) header(rec []string, line int) error {
 		p.idx[i] = -1
 	}
 	if len(rec) == 1 && strings.ContainsAny(rec[0], ";\t") {
-		return p.errAt(line, 0, fmt.Errorf("%q %w: fields are separated by commas, this header by semicolons or tabs", quote.Cut(rec[0]), ErrBadHeader))
+		return p.errAt(line, 0, fmt.Errorf("%q %w: fields are separated by commas, this header by semicolons or tabs", msg.Cut(rec[0]), ErrBadHeader))
 	}
 	for i, h := range rec {
 		if strings.TrimSpace(h) == "" {
@@ -369,7 +369,7 @@ func (p *parser) row(rec []string) error {
 		d := &quantityInfo[c.q]
 		v = c.unit.internal(v)
 		if v < d.lo || v > d.hi {
-			return p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w: want %s%s", quote.Cut(s), ErrOutOfRange, rangeIn(d, c.unit), hint(c, v)))
+			return p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w: want %s%s", msg.Cut(s), ErrOutOfRange, rangeIn(d, c.unit), hint(c, v)))
 		}
 		switch c.q {
 		case AirTemperature:
@@ -389,7 +389,7 @@ func (p *parser) row(rec []string) error {
 	if h.DewPointC > h.AirC+DewPointSlackK {
 		i := p.idx[DewPoint]
 		return p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w: dew point %s °C, air %s °C; the dew point may exceed the air temperature by %g K at most",
-			quote.Cut(rec[i]), ErrDewPoint, fmtG(h.DewPointC), fmtG(h.AirC), DewPointSlackK))
+			msg.Cut(rec[i]), ErrDewPoint, fmtG(h.DewPointC), fmtG(h.AirC), DewPointSlackK))
 	}
 	if err := p.sequence(h.Time, rec[p.idx[Time]]); err != nil {
 		return err
@@ -426,9 +426,9 @@ func (p *parser) sequence(t time.Time, raw string) error {
 			if fmtTime(first) != fmtTime(t) {
 				same = " as " + fmtTime(first)
 			}
-			return p.errAt(line, i, fmt.Errorf("%w %s, first on line %d%s", ErrDuplicateHour, quote.Cut(raw), p.lines[k], same))
+			return p.errAt(line, i, fmt.Errorf("%w %s, first on line %d%s", ErrDuplicateHour, msg.Cut(raw), p.lines[k], same))
 		}
-		return p.errAt(line, i, fmt.Errorf("%q %w (%s): times must increase by one hour a row", quote.Cut(raw), ErrNotIncreasing, prevAt))
+		return p.errAt(line, i, fmt.Errorf("%q %w (%s): times must increase by one hour a row", msg.Cut(raw), ErrNotIncreasing, prevAt))
 	}
 	if d > time.Hour && d%time.Hour == 0 {
 		missing := int(d/time.Hour) - 1
@@ -436,9 +436,9 @@ func (p *parser) sequence(t time.Time, raw string) error {
 		if missing == 1 {
 			plural = ""
 		}
-		return p.errAt(line, i, fmt.Errorf("%q %w: a gap of %s after %s, %d hour%s missing", quote.Cut(raw), ErrGap, fmtDuration(d), prevAt, missing, plural))
+		return p.errAt(line, i, fmt.Errorf("%q %w: a gap of %s after %s, %d hour%s missing", msg.Cut(raw), ErrGap, fmtDuration(d), prevAt, missing, plural))
 	}
-	return p.errAt(line, i, fmt.Errorf("%q %w: a step of %s after %s; rows must be exactly one hour apart", quote.Cut(raw), ErrGap, fmtDuration(d), prevAt))
+	return p.errAt(line, i, fmt.Errorf("%q %w: a step of %s after %s; rows must be exactly one hour apart", msg.Cut(raw), ErrGap, fmtDuration(d), prevAt))
 }
 
 // The time layouts: RFC 3339 with seconds (a fraction may follow them), and
@@ -468,11 +468,11 @@ func (p *parser) parseTime(s string, i int) (time.Time, error) {
 		case parsesLocal(s):
 			why = "add the UTC offset, e.g. 2026-07-01T13:00:00+02:00, or Z for UTC"
 		}
-		return t, p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w: %s", quote.Cut(s), ErrTime, why))
+		return t, p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w: %s", msg.Cut(s), ErrTime, why))
 	}
 	_, off := t.Zone()
 	if off > maxOffset || off < -maxOffset {
-		return t, p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w: the UTC offset must lie within −14:00..+14:00", quote.Cut(s), ErrOutOfRange))
+		return t, p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w: the UTC offset must lie within −14:00..+14:00", msg.Cut(s), ErrOutOfRange))
 	}
 	loc := p.zones[off]
 	if loc == nil {
@@ -502,15 +502,15 @@ func (p *parser) number(s string, i int) (float64, error) {
 		low := strings.ToLower(strings.TrimLeft(s, "+-"))
 		switch {
 		case low == "nan" || low == "inf" || low == "infinity":
-			return 0, p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w", quote.Cut(s), ErrNotFinite))
+			return 0, p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w", msg.Cut(s), ErrNotFinite))
 		case strings.Count(s, ",") == 1 && isDecimal(strings.Replace(s, ",", ".", 1)):
-			return 0, p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w: write a decimal point, e.g. %s", quote.Cut(s), ErrNotNumber, quote.Cut(strings.Replace(s, ",", ".", 1))))
+			return 0, p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w: write a decimal point, e.g. %s", msg.Cut(s), ErrNotNumber, msg.Cut(strings.Replace(s, ",", ".", 1))))
 		}
-		return 0, p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w", quote.Cut(s), ErrNotNumber))
+		return 0, p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w", msg.Cut(s), ErrNotNumber))
 	}
 	v, err := strconv.ParseFloat(s, 64)
 	if err != nil || math.IsInf(v, 0) {
-		return 0, p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w", quote.Cut(s), ErrNotFinite))
+		return 0, p.errAt(p.fieldLine(i), i, fmt.Errorf("%q %w", msg.Cut(s), ErrNotFinite))
 	}
 	return v, nil
 }

@@ -9,8 +9,8 @@ import (
 	"testing"
 	"time"
 
-	"skysheet/internal/quote"
 	"skysheet/spectra"
+	"skysheet/spectra/msg"
 )
 
 const header = "time,air temperature (°C),dew point (°C),global horizontal irradiance (W/m²)\n"
@@ -326,10 +326,10 @@ func (sized) Read(p []byte) (int, error) { panic("read") }
 
 func TestCut(t *testing.T) {
 	long := strings.Repeat("é", 50)
-	if got := quote.Cut(long); got != strings.Repeat("é", 40)+"…" {
+	if got := msg.Cut(long); got != strings.Repeat("é", 40)+"…" {
 		t.Errorf("cut: %q", got)
 	}
-	if got := quote.Cut("short"); got != "short" {
+	if got := msg.Cut("short"); got != "short" {
 		t.Errorf("cut: %q", got)
 	}
 	_, err := Parse(strings.NewReader(replaceRow(2, "2026-07-01T00:00:00+02:00,"+strings.Repeat("9", 100)+"x,10,0")), "c.csv")

@@ -1,4 +1,4 @@
-package quote
+package msg
 
 import (
 	"strings"
@@ -36,8 +36,8 @@ func TestValue(t *testing.T) {
 		{"µm", `"µm"`},
 		{strings.Repeat("9", 10<<20), `"` + strings.Repeat("9", MaxRunes) + `…"`},
 	} {
-		if got := Value(tc.in); got != tc.want {
-			t.Errorf("Value(%.20q) = %s, want %s", tc.in, got, tc.want)
+		if got := Quote(tc.in); got != tc.want {
+			t.Errorf("Quote(%.20q) = %s, want %s", tc.in, got, tc.want)
 		}
 	}
 }

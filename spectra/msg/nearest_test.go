@@ -1,4 +1,4 @@
-package nearest
+package msg
 
 import "testing"
 
@@ -37,16 +37,16 @@ func TestName(t *testing.T) {
 		{"window_emmitance", "window_emittance", true},   // 2 edits
 		{"wx", "window_emittance", false},
 	} {
-		got, close := Name(tt.s, names)
+		got, close := Nearest(tt.s, names)
 		if got != tt.want || close != tt.close {
-			t.Errorf("Name(%q) = %q, %v; want %q, %v", tt.s, got, close, tt.want, tt.close)
+			t.Errorf("Nearest(%q) = %q, %v; want %q, %v", tt.s, got, close, tt.want, tt.close)
 		}
 	}
-	if got, close := Name("x", nil); got != "" || close {
+	if got, close := Nearest("x", nil); got != "" || close {
 		t.Errorf("no names: %q, %v", got, close)
 	}
 	// Ties go to the first listed.
-	if got, _ := Name("ab", []string{"ax", "xb"}); got != "ax" {
+	if got, _ := Nearest("ab", []string{"ax", "xb"}); got != "ax" {
 		t.Errorf("tie: %q", got)
 	}
 }

@@ -1,16 +1,15 @@
-// Package nearest finds, among the names a program knows, the one closest
-// to a name it does not know, for the "did you mean" of an error message:
-// an unknown front-matter key, a figure a claim misspells, a comparison's
-// slug, a spectrum file that is not there.
-package nearest
+package msg
 
 import "strings"
 
-// Name returns the name in names closest to s by edit distance (see
+// MaxCompared bounds the length, in runes, of the names [Distance] compares.
+const MaxCompared = 256
+
+// Nearest returns the name in names closest to s by edit distance (see
 // [Distance]; case is ignored) and whether it is close enough to suggest:
 // at most max(2, len(s)/3) edits away, s's length counted in runes. Ties
 // go to the name listed first. With no names it returns "", false.
-func Name(s string, names []string) (string, bool) {
+func Nearest(s string, names []string) (string, bool) {
 	best, bestD := "", -1
 	ls := strings.ToLower(s)
 	for _, n := range names {
@@ -23,8 +22,13 @@ func Name(s string, names []string) (string, bool) {
 
 // Distance returns the Levenshtein distance between a and b: the fewest
 // insertions, deletions and substitutions of runes that turn a into b.
+// Names longer than [MaxCompared] runes are near nothing: the result is
+// then an upper bound, so that a 10 MB key costs no quadratic time.
 func Distance(a, b string) int {
 	ra, rb := []rune(a), []rune(b)
+	if len(ra) > MaxCompared || len(rb) > MaxCompared {
+		return max(len(ra), len(rb))
+	}
 	prev := make([]int, len(rb)+1)
 	cur := make([]int, len(rb)+1)
 	for j := range prev {

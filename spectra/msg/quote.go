@@ -1,8 +1,4 @@
-// Package quote cuts values taken from input files to a readable length
-// before they are quoted in error messages, so that a 10 MB cell does not put
-// 10 MB on a terminal. Every reader (spectra, JCAMP-DX, weather series,
-// library front matter and config) quotes offending values with [Value].
-package quote
+package msg
 
 import "strconv"
 
@@ -22,8 +18,8 @@ func Cut(s string) string {
 	return s
 }
 
-// Value returns s cut by [Cut] and quoted as Go's %q verb quotes it: control
+// Quote returns s cut by [Cut] and quoted as Go's %q verb quotes it: control
 // characters and invalid UTF-8 escaped, printable Unicode kept.
-func Value(s string) string {
+func Quote(s string) string {
 	return strconv.Quote(Cut(s))
 }
