@@ -57,7 +57,16 @@ func Resolve(s *Spectrum, tol float64) Optics {
 	c := &o.Closure
 	var opaque, derivedA, derivedR, noRA spans
 	for _, g := range s.Segments {
-		var pr, pt, pa, pur, put Piece
+		// Every piece holds at most one point per wavelength of the
+		// segment: sized once, they never grow.
+		pr, pt, pa := newPiece(len(g.NM)), newPiece(len(g.NM)), newPiece(len(g.NM))
+		var pur, put Piece
+		if g.Values[UR] != nil {
+			pur = newPiece(len(g.NM))
+		}
+		if g.Values[UT] != nil {
+			put = newPiece(len(g.NM))
+		}
 		pieces := [numQuantities]*Piece{&pr, &pt, &pa, &pur, &put}
 		src := [numQuantities]Piece{}
 		for q := range src {
@@ -164,15 +173,33 @@ func Resolve(s *Spectrum, tol float64) Optics {
 	return o
 }
 
-// segmentPiece returns quantity q of one segment without empty cells.
+// segmentPiece returns quantity q of one segment without empty cells, for
+// reading only: it may share the segment's slices.
 func segmentPiece(g Segment, q Quantity) Piece {
-	var p Piece
+	n := 0
+	for _, x := range g.Values[q] {
+		if !math.IsNaN(x) {
+			n++
+		}
+	}
+	switch n {
+	case 0:
+		return Piece{}
+	case len(g.NM): // no gaps: the segment's own slices, only read
+		return Piece{NM: g.NM[:n:n], V: g.Values[q][:n:n]}
+	}
+	p := newPiece(n)
 	for i, x := range g.Values[q] {
 		if !math.IsNaN(x) {
 			p.add(g.NM[i], x)
 		}
 	}
 	return p
+}
+
+// newPiece returns an empty piece with room for n points.
+func newPiece(n int) Piece {
+	return Piece{NM: make([]float64, 0, n), V: make([]float64, 0, n)}
 }
 
 func (p *Piece) add(nm, v float64) {

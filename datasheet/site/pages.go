@@ -348,24 +348,26 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 
 // catalogEntry is one material in catalog.json.
 type catalogEntry struct {
-	Slug        string             `json:"slug"`
-	Title       string             `json:"title"`
-	Maker       string             `json:"maker,omitempty"`
-	Lab         string             `json:"lab,omitempty"`
-	ProductCode string             `json:"product_code,omitempty"`
-	Category    string             `json:"category,omitempty"`
-	Tags        []string           `json:"tags"`
-	Summary     string             `json:"summary,omitempty"`
-	License     string             `json:"license,omitempty"`
-	Measured    library.Measured   `json:"measured"`
-	Page        string             `json:"page"`
-	Spectrum    string             `json:"spectrum"`
-	FiguresFile string             `json:"figures_file"`
-	ClaimsFile  string             `json:"claims_file"`
-	Source      string             `json:"source"`
-	Inputs      []library.Input    `json:"inputs"`
-	Claims      []catalogClaim     `json:"claims"` // each with its verdict
-	Figures     *datasheet.Figures `json:"figures"`
+	Slug        string           `json:"slug"`
+	Title       string           `json:"title"`
+	Maker       string           `json:"maker,omitempty"`
+	Lab         string           `json:"lab,omitempty"`
+	ProductCode string           `json:"product_code,omitempty"`
+	Category    string           `json:"category,omitempty"`
+	Tags        []string         `json:"tags"`
+	Summary     string           `json:"summary,omitempty"`
+	License     string           `json:"license,omitempty"`
+	Measured    library.Measured `json:"measured"`
+	Page        string           `json:"page"`
+	Spectrum    string           `json:"spectrum"`
+	FiguresFile string           `json:"figures_file"`
+	ClaimsFile  string           `json:"claims_file"`
+	Source      string           `json:"source"`
+	Inputs      []library.Input  `json:"inputs"`
+	Claims      []catalogClaim   `json:"claims"` // each with its verdict
+	// Headline holds the figures of the material tables, key to value
+	// (null when not computed); every figure is in FiguresFile.
+	Headline map[string]datasheet.Num `json:"headline"`
 }
 
 // catalog is the JSON of catalog.json.
@@ -388,8 +390,10 @@ type catalogCompare struct {
 	Materials []string `json:"materials"`
 }
 
-// CatalogSchema is the version of catalog.json. Keys are only added.
-const CatalogSchema = 1
+// CatalogSchema is the version of catalog.json. Keys are only added
+// within a version. Version 2 links each material's figures.json
+// (figures_file) instead of embedding its figures, and adds headline.
+const CatalogSchema = 2
 
 func (b *builder) catalog(ms []*evaluate.Summary) ([]byte, error) {
 	cfg := b.lib.Config
@@ -402,7 +406,10 @@ func (b *builder) catalog(ms []*evaluate.Summary) ([]byte, error) {
 		e := catalogEntry{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
 			Category: fm.Category, Tags: uniqueTags(fm.Tags), Summary: fm.Summary, License: fm.License, Measured: fm.Measured,
 			Page: dir + "index.html", Spectrum: dir + "spectrum.csv", FiguresFile: dir + "figures.json", ClaimsFile: dir + "claims.json",
-			Source: dir + "source.md", Inputs: m.Inputs, Claims: catalogClaims(m.Verdicts), Figures: m.Figures}
+			Source: dir + "source.md", Inputs: m.Inputs, Claims: catalogClaims(m.Verdicts), Headline: map[string]datasheet.Num{}}
+		for _, col := range tableFigures {
+			e.Headline[col.Key] = figureOf(m.Figures, col.Key).Value
+		}
 		if e.Tags == nil {
 			e.Tags = []string{}
 		}

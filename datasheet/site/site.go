@@ -11,6 +11,7 @@ import (
 	"sort"
 	"sync"
 
+	"skysheet/datasheet"
 	"skysheet/datasheet/evaluate"
 	"skysheet/datasheet/library"
 	"skysheet/spectra"
@@ -64,6 +65,8 @@ func Render(lib *library.Library, opt Options, out Writer) error {
 		if len(cmpOf[m.Slug]) > 0 {
 			b.keepOverlay(m)
 		}
+		// What stays of the material is what the later pages show.
+		m.Figures = keptFigures(m.Figures, len(cmpOf[m.Slug]) > 0)
 		return w.writeAll(files)
 	})
 	if err != nil {
@@ -75,6 +78,40 @@ func Render(lib *library.Library, opt Options, out Writer) error {
 		return err
 	}
 	return w.writeAll(files)
+}
+
+// keptFigures returns what the pages built after the datasheets need of
+// f: the headline numbers and the figures of the material tables (every
+// figure when a comparison lists the material). The cooling curve, the
+// sensitivities, the provenance and the rest stay in the material's
+// figures.json.
+func keptFigures(f *datasheet.Figures, all bool) *datasheet.Figures {
+	if f == nil {
+		return nil
+	}
+	k := &datasheet.Figures{Schema: f.Schema,
+		SolarReflectance: f.SolarReflectance, SolarTransmittance: f.SolarTransmittance, SolarAbsorptance: f.SolarAbsorptance,
+		SolarCoverage: f.SolarCoverage, UVReflectance: f.UVReflectance, VisibleReflectance: f.VisibleReflectance,
+		NIRReflectance: f.NIRReflectance, ThermalEmittance: f.ThermalEmittance, ThermalCoverage: f.ThermalCoverage,
+		WindowEmittance: f.WindowEmittance, WindowCoverage: f.WindowCoverage,
+		CoolingPowerWm2: f.CoolingPowerWm2, CoolingPowerNightWm2: f.CoolingPowerNightWm2,
+		EquilibriumDeltaK: f.EquilibriumDeltaK, EquilibriumDeltaNightK: f.EquilibriumDeltaNightK}
+	for _, x := range f.Figures {
+		if all || isTableFigure(x.Key) {
+			k.Figures = append(k.Figures, x)
+		}
+	}
+	return k
+}
+
+// isTableFigure reports whether the material tables show figure key.
+func isTableFigure(key string) bool {
+	for _, c := range tableFigures {
+		if c.Key == key {
+			return true
+		}
+	}
+	return false
 }
 
 // serialWriter lets one goroutine at a time write.

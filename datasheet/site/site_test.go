@@ -129,13 +129,48 @@ func TestRenderFiles(t *testing.T) {
 		t.Errorf("figures.json: %v", err)
 	}
 	var cat struct {
+		Schema    int `json:"schema"`
 		Materials []struct {
-			Slug    string             `json:"slug"`
-			Figures *datasheet.Figures `json:"figures"`
+			Slug        string                   `json:"slug"`
+			FiguresFile string                   `json:"figures_file"`
+			Figures     json.RawMessage          `json:"figures"`
+			Headline    map[string]datasheet.Num `json:"headline"`
 		} `json:"materials"`
 	}
-	if err := json.Unmarshal(out["catalog.json"], &cat); err != nil || len(cat.Materials) != 3 {
-		t.Errorf("catalog.json: %v, %d materials", err, len(cat.Materials))
+	if err := json.Unmarshal(out["catalog.json"], &cat); err != nil || len(cat.Materials) != 3 || cat.Schema != CatalogSchema {
+		t.Fatalf("catalog.json: %v, %d materials, schema %d", err, len(cat.Materials), cat.Schema)
+	}
+	// The catalog links each material's figures instead of embedding them:
+	// a small entry per material, whatever its figures hold.
+	var raw struct {
+		Materials []json.RawMessage `json:"materials"`
+	}
+	if err := json.Unmarshal(out["catalog.json"], &raw); err != nil {
+		t.Fatal(err)
+	}
+	for i, m := range raw.Materials {
+		// Claims and their verdicts stay in the catalog; the rest is small.
+		var e map[string]any
+		if err := json.Unmarshal(m, &e); err != nil {
+			t.Fatal(err)
+		}
+		delete(e, "claims")
+		if b, _ := json.MarshalIndent(e, "    ", "  "); len(b) > 2048 {
+			t.Errorf("catalog.json: material %d takes %d bytes besides its claims, want under 2 KB", i, len(b))
+		}
+	}
+	for _, m := range cat.Materials {
+		if m.Figures != nil {
+			t.Errorf("catalog.json embeds the figures of %s", m.Slug)
+		}
+		var f datasheet.Figures
+		if err := json.Unmarshal(out[m.FiguresFile], &f); err != nil {
+			t.Errorf("%s: figures_file %q: %v", m.Slug, m.FiguresFile, err)
+			continue
+		}
+		if got := m.Headline["solar_reflectance"]; got != f.SolarReflectance && !(isNaN(got) && isNaN(f.SolarReflectance)) {
+			t.Errorf("%s: headline solar reflectance %v, figures.json %v", m.Slug, got, f.SolarReflectance)
+		}
 	}
 }
 
