@@ -456,11 +456,15 @@ func (c Conditions) Text(key string) string {
 	return ""
 }
 
-// List returns every condition of c, in the order of the JSON output.
+// List returns every condition of c, in the order of the JSON output; the
+// weather series only when one is named.
 func (c Conditions) List() []Condition {
-	out := make([]Condition, numConditions)
+	out := make([]Condition, 0, numConditions)
 	for k := range numConditions {
-		out[k] = Condition{Key: k.key(), Label: conditionTable[k].label, Value: k.text(c)}
+		if k == condWeather && c.Weather.File == "" {
+			continue
+		}
+		out = append(out, Condition{Key: k.key(), Label: conditionTable[k].label, Value: k.text(c)})
 	}
 	return out
 }

@@ -81,7 +81,9 @@ func (o Overrides) Keys() []string {
 // conditionKeys are the keys of the conditions.
 var conditionKeys = func() map[string]bool {
 	m := map[string]bool{}
-	for _, c := range datasheet.DefaultConditions().List() {
+	all := datasheet.DefaultConditions()
+	all.Weather.File = "named" // List leaves out a weather series that is not named
+	for _, c := range all.List() {
 		m[c.Key] = true
 	}
 	return m
