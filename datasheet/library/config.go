@@ -152,7 +152,9 @@ func (d doc) apply(o Overrides, base datasheet.Conditions) (datasheet.Conditions
 		}
 	}
 	if n := weatherNode; n != nil && c.Weather.File != "" {
-		at := func(err error) error { return &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: err} }
+		at := func(err error) error {
+			return &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: err}
+		}
 		p, err := resolvePath(d.file, c.Weather.File)
 		if err != nil {
 			return base, files, at(fmt.Errorf("weather series %s: %w (or write %q for none)", msg.Quote(c.Weather.File), err, datasheet.WeatherChoice{}))
