@@ -9,6 +9,7 @@ import (
 	"strconv"
 	"strings"
 
+	"skysheet/datasheet/weather"
 	"skysheet/spectra"
 )
 
@@ -43,6 +44,10 @@ type Conditions struct {
 	// midnight, and the station pressure in hPa. See [ClearSky].
 	HourOfDay       Optional // hour_of_day
 	StationPressure Optional // station_pressure_hpa
+
+	// Weather names an hourly weather series to run the hourly model
+	// over (docs/cooling.md, "Over a weather series"); none by default.
+	Weather WeatherChoice // weather
 }
 
 // Optional is a condition that may be off (the zero value) or hold a
@@ -195,6 +200,41 @@ func (s *SkyChoice) UnmarshalText(b []byte) error {
 	return nil
 }
 
+// WeatherChoice names the hourly weather series of the conditions, if any.
+// Its text form is the file's name, or "none".
+type WeatherChoice struct {
+	// File names the series as written in the conditions; "" for none.
+	File string
+	// Series is the series read; whoever reads the conditions reads the
+	// file.
+	Series *weather.Series
+}
+
+// weatherNoneWords is the text form of no series.
+const weatherNoneWords = "none"
+
+// String returns the file's name or "none".
+func (w WeatherChoice) String() string {
+	if w.File == "" {
+		return weatherNoneWords
+	}
+	return w.File
+}
+
+// MarshalText writes the text form.
+func (w WeatherChoice) MarshalText() ([]byte, error) { return []byte(w.String()), nil }
+
+// UnmarshalText reads "none" (or nothing) as no series and anything else as
+// the name of a series file, whose Series is then still to be read.
+func (w *WeatherChoice) UnmarshalText(b []byte) error {
+	name := strings.TrimSpace(string(b))
+	if name == weatherNoneWords {
+		name = ""
+	}
+	*w = WeatherChoice{File: name}
+	return nil
+}
+
 // condition is one of the conditions; the table conditionTable describes
 // each.
 type condition int
@@ -215,6 +255,7 @@ const (
 	condSky
 	condHour
 	condPressure
+	condWeather
 	numConditions
 )
 
@@ -235,6 +276,7 @@ var conditionTable = [numConditions]struct{ key, label, unit string }{
 	condSky:           {"sky", "Sky", ""},
 	condHour:          {"hour_of_day", "Hour of day (sky term)", "h"},
 	condPressure:      {"station_pressure_hpa", "Station pressure (sky term)", "hPa"},
+	condWeather:       {"weather", "Weather series", ""},
 }
 
 func (k condition) key() string { return conditionTable[k].key }
@@ -280,6 +322,8 @@ func (k condition) field(c *Conditions) any {
 		return &c.HourOfDay
 	case condPressure:
 		return &c.StationPressure
+	case condWeather:
+		return &c.Weather
 	}
 	panic("datasheet: unknown condition " + strconv.Itoa(int(k)))
 }
@@ -297,6 +341,8 @@ func (k condition) same(a, b Conditions) bool {
 		return *p == *k.field(&b).(*SkyChoice)
 	case *Optional:
 		return *p == *k.field(&b).(*Optional)
+	case *WeatherChoice:
+		return *p == *k.field(&b).(*WeatherChoice)
 	}
 	return false
 }
@@ -322,6 +368,8 @@ func (k condition) text(c Conditions) string {
 			return "off"
 		}
 		return fmtShort(p.V) + " " + unit
+	case *WeatherChoice:
+		return p.String()
 	}
 	return ""
 }
@@ -360,6 +408,11 @@ func (k condition) words(c Conditions) string {
 			return ""
 		}
 		return strings.ToLower(conditionTable[k].label[:strings.Index(conditionTable[k].label, " (")]) + " " + k.text(c)
+	case condWeather:
+		if c.Weather.File == "" {
+			return ""
+		}
+		return "weather series " + c.Weather.File
 	}
 	return k.key()
 }
@@ -445,6 +498,12 @@ func (c *Conditions) Set(key string, v any) error {
 			return nil
 		}
 		return fmt.Errorf("%s: %w: want a number in %s or off, found %v", key, ErrConditionType, unit, quoted(v))
+	case *WeatherChoice:
+		s, ok := v.(string)
+		if !ok {
+			return fmt.Errorf("%s: %w: want a weather series file name or %q, found %v", key, ErrConditionType, weatherNoneWords, quoted(v))
+		}
+		return p.UnmarshalText([]byte(s))
 	}
 	return nil
 }
@@ -473,14 +532,19 @@ func (c Conditions) Text(key string) string {
 	return ""
 }
 
-// List returns every condition of c, in the order of the JSON output.
+// List returns every condition of c, in the order of the JSON output; the
+// weather series only when one is named.
 func (c Conditions) List() []Condition {
-	out := make([]Condition, numConditions)
+	out := make([]Condition, 0, numConditions)
 	for k := range numConditions {
-		out[k] = Condition{Key: k.key(), Label: conditionTable[k].label, Value: k.text(c)}
-		if o, ok := k.field(&c).(*Optional); ok {
-			out[k].Off = !o.On
+		if k == condWeather && c.Weather.File == "" {
+			continue
 		}
+		x := Condition{Key: k.key(), Label: conditionTable[k].label, Value: k.text(c)}
+		if o, ok := k.field(&c).(*Optional); ok {
+			x.Off = !o.On
+		}
+		out = append(out, x)
 	}
 	return out
 }
@@ -569,6 +633,9 @@ func (c Conditions) Validate() error {
 	}
 	if !(c.ClosureTol >= 0) || c.ClosureTol > 1 {
 		return fmt.Errorf("closure tolerance %g: want 0..1", c.ClosureTol)
+	}
+	if c.Weather.File != "" && c.Weather.Series == nil {
+		return fmt.Errorf("weather series %q: the file was not read", c.Weather.File)
 	}
 	return c.validateCooling()
 }

@@ -172,9 +172,7 @@ func ClearSky(c Conditions) Sky {
 // angular law ε(θ) = 1 − t^(1/cos θ) gives back ε_w over the hemisphere; it
 // is reported, and serves an emitter whose emittance depends on angle.
 func TwoBandSky(emissivity, ambientK float64) Sky {
-	fw := blackbodyFraction(skyWindow.Lo, skyWindow.Hi, ambientK)
-	asked := 1 - (1-emissivity)/fw
-	ew := math.Max(0, math.Min(1, asked))
+	fw, ew, asked := windowCalibration(emissivity, ambientK)
 	ez := zenithOf(ew)
 	k := Sky{Model: skyModelClear, AmbientK: ambientK, DewPointC: Num(math.NaN()), HourTerm: Num(math.NaN()),
 		PressureTerm: Num(math.NaN()), Emissivity: Num(emissivity), Window: skyWindow, WindowFraction: Num(fw),
@@ -193,6 +191,15 @@ func TwoBandSky(emissivity, ambientK float64) Sky {
 	k.Description += fmt.Sprintf(" The surface is taken as diffuse, so no further angular factor applies; the window's "+
 		"equivalent zenith transmittance is %.3f (ε(θ) = 1 − t^(1/cos θ), common practice).", 1-ez)
 	return k
+}
+
+// windowCalibration returns the window fraction F_w at ambientK and the
+// hemispherical window emissivity ew = 1 − (1 − emissivity)/F_w, clamped to
+// 0..1, of the two-band sky; asked is the value before clamping.
+func windowCalibration(emissivity, ambientK float64) (fw, ew, asked float64) {
+	fw = blackbodyFraction(skyWindow.Lo, skyWindow.Hi, ambientK)
+	asked = 1 - (1-emissivity)/fw
+	return fw, math.Max(0, math.Min(1, asked)), asked
 }
 
 // zenithOf returns the zenith emissivity e whose hemispherical emissivity

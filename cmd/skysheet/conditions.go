@@ -1,12 +1,14 @@
 package main
 
 import (
+	"bytes"
 	"flag"
 	"fmt"
 	"strconv"
 	"strings"
 
 	"skysheet/datasheet"
+	"skysheet/datasheet/weather"
 	"skysheet/spectra"
 )
 
@@ -96,6 +98,7 @@ func conditionFlags(fs *flag.FlagSet, c *datasheet.Conditions) {
 	fs.Var(bandFlag{&c.ExchangeBand, "µm"}, "exchange-band", "thermal exchange band of the cooling integrals in µm, LO,HI")
 	fs.Var(optionalFlag{&c.HourOfDay}, "hour-of-day", "add the hour-of-day term of the clear-sky correlation at this `HOUR` (0–24 from local midnight), or off")
 	fs.Var(optionalFlag{&c.StationPressure}, "station-pressure", "add the station-pressure term of the clear-sky correlation at this pressure in `HPA`, or off")
+	fs.TextVar(&c.Weather, "weather", c.Weather, "hourly weather series `FILE` (docs/format.md) to run the hourly cooling model over")
 	fs.TextVar(&c.Sky, "sky", c.Sky, "sky of the cooling figures: a spectral sky `FILE` with a T column (zenith atmospheric transmittance), or clear two-band")
 }
 
@@ -120,5 +123,27 @@ func loadSky(c *datasheet.Conditions, limit int64) error {
 		return err
 	}
 	c.Sky.Spectrum = s
+	return nil
+}
+
+// loadWeather reads the weather series named by c.Weather, if any, into
+// c.Weather.Series, as loadSky does for the sky.
+func loadWeather(c *datasheet.Conditions, limit int64) error {
+	if c.Weather.File == "" {
+		c.Weather.Series = nil
+		return nil
+	}
+	if limit <= 0 {
+		limit = defaultMaxFileSize
+	}
+	data, err := readInputFile(c.Weather.File, limit)
+	if err != nil {
+		return fmt.Errorf("weather: %w", err)
+	}
+	s, err := weather.Parse(bytes.NewReader(data), c.Weather.File)
+	if err != nil {
+		return err
+	}
+	c.Weather.Series = s
 	return nil
 }
