@@ -123,4 +123,6 @@ func TestComputeStackErrors(t *testing.T) {
 }
 
 // resolved resolves s with c's closure tolerance.
-func resolved(s *spectra.Spectrum, c Conditions) spectra.Optics { return spectra.Resolve(s, c.ClosureTol) }
+func resolved(s *spectra.Spectrum, c Conditions) spectra.Optics {
+	return spectra.Resolve(s, c.ClosureTol)
+}
