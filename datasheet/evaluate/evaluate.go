@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"slices"
 	"strconv"
 	"sync"
 
@@ -186,7 +187,7 @@ func evaluate(lib *library.Library, lm *library.Material) (*Material, error) {
 	if err != nil {
 		return nil, &library.Error{File: lm.Path, Err: fmt.Errorf("%w: %w", library.ErrConditions, err)}
 	}
-	m := &Material{Summary: Summary{Material: lm, Figures: f, Inputs: inputs, Warnings: warnings(f)}, Sample: s, Optics: o}
+	m := &Material{Summary: Summary{Material: lm, Figures: f, Inputs: inputs, Warnings: append(slices.Clip(s.Warnings), warnings(f)...)}, Sample: s, Optics: o}
 	m.Solar, m.Thermal = c.Weightings()
 	m.Verdicts = datasheet.JudgeAll(lm.Front.Claims, datasheet.JudgeInput{Spectrum: s, Optics: &o, Conditions: c,
 		Figures: f, Angle: lm.Front.Measured.Angle})
@@ -212,14 +213,19 @@ func evaluateStack(lib *library.Library, lm *library.Material) (*Material, error
 		return nil, &library.Error{File: lm.Path, Err: fmt.Errorf("%w: %w", library.ErrConditions, err)}
 	}
 	f := st.Figures
-	m := &Material{Summary: Summary{Material: lm, Figures: f, Inputs: inputs, Warnings: warnings(f)}, Sample: st.Sample, Optics: st.Optics.Optics}
+	var warn []string
+	for _, s := range samples {
+		warn = append(warn, s.Warnings...)
+	}
+	m := &Material{Summary: Summary{Material: lm, Figures: f, Inputs: inputs, Warnings: append(warn, warnings(f)...)}, Sample: st.Sample, Optics: st.Optics.Optics}
 	m.Solar, m.Thermal = c.Weightings()
 	m.Verdicts = datasheet.JudgeAll(lm.Front.Claims, datasheet.JudgeInput{Spectrum: st.Sample, Optics: &m.Optics, Conditions: f.Conditions,
 		Figures: f, Angle: lm.Front.Measured.Angle})
 	return m, nil
 }
 
-// warnings returns the warnings about the data behind figures f.
+// warnings returns the warnings about the data behind figures f; the
+// readers' own warnings are the sample's.
 func warnings(f *datasheet.Figures) []string {
 	var out []string
 	for _, r := range f.Splices {
