@@ -107,6 +107,7 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 		fmt.Fprintf(tw, "%s\t%s\t%s\n", x.BandText(), x.Weighting, fmtPercent(x.Coverage))
 	}
 	tw.Flush()
+	printColor(w, f.Color)
 	cl := f.Closure
 	fmt.Fprintln(w)
 	switch {
@@ -140,6 +141,20 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 		fmt.Fprintln(w, "\nCautions:")
 		for _, x := range f.Cautions {
 			fmt.Fprintf(w, "  - %s\n", x)
+		}
+	}
+}
+
+// printColor writes the screen colour of the reflectance (and of the
+// transmittance) with its note, or why there is none.
+func printColor(w io.Writer, c datasheet.Colors) {
+	for _, x := range []*datasheet.Color{&c.Reflectance, c.Transmittance} {
+		switch {
+		case x == nil:
+		case x.Reason != "":
+			fmt.Fprintf(w, "\nColour of the %s: n/a, %s.\n", x.Of, x.Reason)
+		default:
+			fmt.Fprintf(w, "\nColour of the %s on screen: sRGB %s. %s\n", x.Of, x.SRGB, x.Note)
 		}
 	}
 }
@@ -194,6 +209,9 @@ func printCooling(w io.Writer, f *datasheet.Figures) {
 // writes it for a reader (a temperature difference as where the surface
 // settles).
 func fmtFigure(x datasheet.Figure, v datasheet.Num) string {
+	if x.Components != nil {
+		return x.Text()
+	}
 	return x.Kind().Words(float64(v), x.Unit)
 }
 
