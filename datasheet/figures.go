@@ -158,9 +158,12 @@ type Figures struct {
 	SRI                    SRI           `json:"sri"`
 	// Color is the colour of the reflectance, and of the transmittance
 	// when it was measured (CIE 1931 2°, D65; see docs/color.md).
-	Color      Colors     `json:"color"`
-	Cautions   []string   `json:"cautions"`
-	Provenance Provenance `json:"provenance"`
+	Color Colors `json:"color"`
+	// Weather holds the figures over the conditions' weather series; nil
+	// (null) when the conditions name none.
+	Weather    *SeriesFigures `json:"weather"`
+	Cautions   []string       `json:"cautions"`
+	Provenance Provenance     `json:"provenance"`
 }
 
 // cautions go with every set of figures.
@@ -201,6 +204,7 @@ func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, err
 	f, grads, used := computeOptics(o, c)
 	f.Splices = append([]spectra.SpliceRecord{}, s.Splices...)
 	m.addCooling(f, o, grads, true)
+	m.addSeries(f, o)
 	addSRI(f, grads)
 	eval := func(o spectra.Optics, lin func(string) float64) map[string]float64 {
 		alpha := float64(f.SolarAbsorptance) + lin("solar_absorptance")

@@ -3,8 +3,8 @@ package colorimetry
 import (
 	"crypto/sha256"
 	_ "embed"
-	"encoding/hex"
 	"encoding/csv"
+	"encoding/hex"
 	"fmt"
 	"strconv"
 	"strings"
