@@ -570,6 +570,7 @@ type catalogCompare struct {
 	Page      string   `json:"page"`
 	Materials []string `json:"materials"`
 	Reference string   `json:"reference,omitempty"` // slug of the material the others are compared with
+	Skin      string   `json:"skin,omitempty"`      // slug of the skin-like surface they are worn over
 }
 
 // CatalogSchema is the version of catalog.json. Keys are only added.
@@ -610,6 +611,9 @@ func (b *builder) catalog(ms []*evaluate.Summary) ([]byte, error) {
 		}
 		if x.Reference != nil {
 			cc.Reference = x.Reference.Slug
+		}
+		if x.Skin != nil {
+			cc.Skin = x.Skin.Slug
 		}
 		c.Comparisons = append(c.Comparisons, cc)
 	}
