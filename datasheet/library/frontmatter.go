@@ -106,6 +106,12 @@ func (d doc) checkClaims(cs []datasheet.Claim, nodes []*yaml.Node) []error {
 				node = at("value")
 			case !finite(c.Tolerance) || c.Tolerance < 0:
 				node = at("tolerance")
+			case strings.Contains(err.Error(), ": delta_e "):
+				node = at("delta_e")
+			case strings.Contains(err.Error(), ": values "):
+				node = at("values")
+			case strings.Contains(err.Error(), ": value "):
+				node = at("value")
 			default:
 				node = at("basis")
 			}

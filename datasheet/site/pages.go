@@ -42,7 +42,11 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	counts.Add(vs...)
 	v.ClaimCounts = countWords(counts)
 	refs := claimRefs(v.Claims)
+	v.Colors = colorViews(f, refs)
 	for _, x := range f.Figures {
+		if x.IsColor() { // shown with the swatch in the head
+			continue
+		}
 		r := figRow{Key: x.Key, Label: x.Label, Value: fmtFigure(x), Band: x.BandText(),
 			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage), Claims: refs[x.Key]}
 		r.Unc, r.UncCover = fmtUnc(x.Uncertainty)
@@ -81,6 +85,51 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 		v.Comparisons = append(v.Comparisons, link{Name: x.Front.Title, Href: root + "compare/" + x.Slug + "/index.html"})
 	}
 	return v, nil
+}
+
+// minShownTransmittance is the least luminous transmittance for which a
+// datasheet shows the transmitted colour: below it the sample is opaque to
+// the eye and its "colour" is black (the figures are still computed).
+const minShownTransmittance = 0.01
+
+// colorViews describes the colours of f for the head of a datasheet: the
+// reflected colour, and the transmitted one when transmittance was
+// measured, with the claims of their figures.
+func colorViews(f *datasheet.Figures, refs map[string][]claimRef) []colorView {
+	var out []colorView
+	for _, c := range []struct {
+		title, prefix, lum string
+		x                  *datasheet.Color
+	}{
+		{"Colour", "", "luminous_reflectance", &f.Color.Reflectance},
+		{"Transmitted colour", "transmitted_", "luminous_transmittance", f.Color.Transmittance},
+	} {
+		if c.x == nil || c.prefix != "" && c.x.Reason == "" && float64(c.x.Luminous) < minShownTransmittance {
+			continue
+		}
+		cv := colorView{Title: c.title}
+		for _, k := range []string{c.prefix + "color_lab", c.prefix + "color_xy", c.lum} {
+			cv.Claims = append(cv.Claims, refs[k]...)
+		}
+		if c.x.Reason != "" {
+			cv.Note = "n/a: " + c.x.Reason + "."
+			out = append(out, cv)
+			continue
+		}
+		lab, _ := f.Figure(c.prefix + "color_lab")
+		xy, _ := f.Figure(c.prefix + "color_xy")
+		lum, _ := f.Figure(c.lum)
+		cv.Hex = c.x.SRGB
+		cv.Values = lab.Text() + " · " + xy.Text() + " · " + strings.ToLower(lum.Label[:1]) + strings.TrimSuffix(lum.Label[1:], " (D65, Y/100)") + " " + fmtFrac(lum.Value)
+		cv.Note = "D65, 2°. Swatch sRGB " + c.x.SRGB + ", approximate on screen; "
+		if c.x.Clipped {
+			cv.Note += "this colour lies outside the sRGB gamut and is shown clipped, duller than it is."
+		} else {
+			cv.Note += "colours outside the sRGB gamut are shown clipped (not this one)."
+		}
+		out = append(out, cv)
+	}
+	return out
 }
 
 // stackViewOf lays out a stack's layers and the cooling of its emitter
