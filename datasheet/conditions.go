@@ -9,6 +9,7 @@ import (
 	"strconv"
 	"strings"
 
+	"skysheet/datasheet/weather"
 	"skysheet/spectra"
 )
 
@@ -37,6 +38,55 @@ type Conditions struct {
 	HWm2K         float64          // h_w_m2k
 	ExchangeBand  spectra.Interval // exchange_band_um
 	Sky           SkyChoice        // sky
+
+	// The optional terms of the clear-sky correlation (Berdahl & Martin
+	// 1984), off by default: the hour of the day, 0–24 h from local
+	// midnight, and the station pressure in hPa. See [ClearSky].
+	HourOfDay       Optional // hour_of_day
+	StationPressure Optional // station_pressure_hpa
+
+	// Weather names an hourly weather series to run the hourly model
+	// over (docs/cooling.md, "Over a weather series"); none by default.
+	Weather WeatherChoice // weather
+}
+
+// Optional is a condition that may be off (the zero value) or hold a
+// value. Its text and JSON forms are "off" and null when off.
+type Optional struct {
+	V  float64 // the value, in the condition's unit
+	On bool
+}
+
+// On returns an Optional that holds v.
+func On(v float64) Optional { return Optional{V: v, On: true} }
+
+// String returns the value, or "off".
+func (o Optional) String() string {
+	if !o.On {
+		return "off"
+	}
+	return strconv.FormatFloat(o.V, 'g', -1, 64)
+}
+
+// MarshalJSON writes the value, or null when off.
+func (o Optional) MarshalJSON() ([]byte, error) {
+	if !o.On {
+		return []byte("null"), nil
+	}
+	return json.Marshal(o.V)
+}
+
+// UnmarshalJSON reads a number, or null (off).
+func (o *Optional) UnmarshalJSON(b []byte) error {
+	var v *float64
+	if err := json.Unmarshal(b, &v); err != nil {
+		return err
+	}
+	*o = Optional{}
+	if v != nil {
+		*o = On(*v)
+	}
+	return nil
 }
 
 // DefaultConditions returns the defaults: solar 280–2500 nm under the ASTM
@@ -150,6 +200,41 @@ func (s *SkyChoice) UnmarshalText(b []byte) error {
 	return nil
 }
 
+// WeatherChoice names the hourly weather series of the conditions, if any.
+// Its text form is the file's name, or "none".
+type WeatherChoice struct {
+	// File names the series as written in the conditions; "" for none.
+	File string
+	// Series is the series read; whoever reads the conditions reads the
+	// file.
+	Series *weather.Series
+}
+
+// weatherNoneWords is the text form of no series.
+const weatherNoneWords = "none"
+
+// String returns the file's name or "none".
+func (w WeatherChoice) String() string {
+	if w.File == "" {
+		return weatherNoneWords
+	}
+	return w.File
+}
+
+// MarshalText writes the text form.
+func (w WeatherChoice) MarshalText() ([]byte, error) { return []byte(w.String()), nil }
+
+// UnmarshalText reads "none" (or nothing) as no series and anything else as
+// the name of a series file, whose Series is then still to be read.
+func (w *WeatherChoice) UnmarshalText(b []byte) error {
+	name := strings.TrimSpace(string(b))
+	if name == weatherNoneWords {
+		name = ""
+	}
+	*w = WeatherChoice{File: name}
+	return nil
+}
+
 // condition is one of the conditions; the table conditionTable describes
 // each.
 type condition int
@@ -168,6 +253,9 @@ const (
 	condH
 	condExchangeBand
 	condSky
+	condHour
+	condPressure
+	condWeather
 	numConditions
 )
 
@@ -186,6 +274,9 @@ var conditionTable = [numConditions]struct{ key, label, unit string }{
 	condH:             {"h_w_m2k", "Heat-transfer coefficient h", "W m⁻² K⁻¹"},
 	condExchangeBand:  {"exchange_band_um", "Exchange band", "µm"},
 	condSky:           {"sky", "Sky", ""},
+	condHour:          {"hour_of_day", "Hour of day (sky term)", "h"},
+	condPressure:      {"station_pressure_hpa", "Station pressure (sky term)", "hPa"},
+	condWeather:       {"weather", "Weather series", ""},
 }
 
 func (k condition) key() string { return conditionTable[k].key }
@@ -227,6 +318,12 @@ func (k condition) field(c *Conditions) any {
 		return &c.ExchangeBand
 	case condSky:
 		return &c.Sky
+	case condHour:
+		return &c.HourOfDay
+	case condPressure:
+		return &c.StationPressure
+	case condWeather:
+		return &c.Weather
 	}
 	panic("datasheet: unknown condition " + strconv.Itoa(int(k)))
 }
@@ -242,6 +339,10 @@ func (k condition) same(a, b Conditions) bool {
 		return *p == *k.field(&b).(*SolarSpectrum)
 	case *SkyChoice:
 		return *p == *k.field(&b).(*SkyChoice)
+	case *Optional:
+		return *p == *k.field(&b).(*Optional)
+	case *WeatherChoice:
+		return *p == *k.field(&b).(*WeatherChoice)
 	}
 	return false
 }
@@ -261,6 +362,13 @@ func (k condition) text(c Conditions) string {
 	case *SolarSpectrum:
 		return p.Weighting().String()
 	case *SkyChoice:
+		return p.String()
+	case *Optional:
+		if !p.On {
+			return "off"
+		}
+		return fmtShort(p.V) + " " + unit
+	case *WeatherChoice:
 		return p.String()
 	}
 	return ""
@@ -295,6 +403,16 @@ func (k condition) words(c Conditions) string {
 		return "h " + k.text(c)
 	case condIrradiance:
 		return "sun " + k.text(c)
+	case condHour, condPressure:
+		if !c.Sky.Clear() || !k.field(&c).(*Optional).On {
+			return ""
+		}
+		return strings.ToLower(conditionTable[k].label[:strings.Index(conditionTable[k].label, " (")]) + " " + k.text(c)
+	case condWeather:
+		if c.Weather.File == "" {
+			return ""
+		}
+		return "weather series " + c.Weather.File
 	}
 	return k.key()
 }
@@ -370,6 +488,22 @@ func (c *Conditions) Set(key string, v any) error {
 			return fmt.Errorf("%s: %w: want %q or a file name, found %v", key, ErrConditionType, skyClearWords, quoted(v))
 		}
 		return p.UnmarshalText([]byte(s))
+	case *Optional:
+		if x, ok := number(v); ok {
+			*p = On(x)
+			return nil
+		}
+		if s, ok := v.(string); v == nil || ok && (s == "off" || s == "") {
+			*p = Optional{}
+			return nil
+		}
+		return fmt.Errorf("%s: %w: want a number in %s or off, found %v", key, ErrConditionType, unit, quoted(v))
+	case *WeatherChoice:
+		s, ok := v.(string)
+		if !ok {
+			return fmt.Errorf("%s: %w: want a weather series file name or %q, found %v", key, ErrConditionType, weatherNoneWords, quoted(v))
+		}
+		return p.UnmarshalText([]byte(s))
 	}
 	return nil
 }
@@ -386,6 +520,7 @@ type Condition struct {
 	Key   string // as in skysheet.yaml and JSON, e.g. "thermal_band_um"
 	Label string // e.g. "Thermal band"
 	Value string // with its unit, e.g. "2.5–25 µm"
+	Off   bool   // an optional condition that is not in use ("off")
 }
 
 // Text returns the value of the condition named key with its unit, as
@@ -397,11 +532,19 @@ func (c Conditions) Text(key string) string {
 	return ""
 }
 
-// List returns every condition of c, in the order of the JSON output.
+// List returns every condition of c, in the order of the JSON output; the
+// weather series only when one is named.
 func (c Conditions) List() []Condition {
-	out := make([]Condition, numConditions)
+	out := make([]Condition, 0, numConditions)
 	for k := range numConditions {
-		out[k] = Condition{Key: k.key(), Label: conditionTable[k].label, Value: k.text(c)}
+		if k == condWeather && c.Weather.File == "" {
+			continue
+		}
+		x := Condition{Key: k.key(), Label: conditionTable[k].label, Value: k.text(c)}
+		if o, ok := k.field(&c).(*Optional); ok {
+			x.Off = !o.On
+		}
+		out = append(out, x)
 	}
 	return out
 }
@@ -490,6 +633,9 @@ func (c Conditions) Validate() error {
 	}
 	if !(c.ClosureTol >= 0) || c.ClosureTol > 1 {
 		return fmt.Errorf("closure tolerance %g: want 0..1", c.ClosureTol)
+	}
+	if c.Weather.File != "" && c.Weather.Series == nil {
+		return fmt.Errorf("weather series %q: the file was not read", c.Weather.File)
 	}
 	return c.validateCooling()
 }

@@ -17,8 +17,8 @@ import (
 func init() {
 	register(&command{
 		name:    "figures",
-		args:    "FILE...",
-		summary: "compute solar and thermal figures of one sample from its spectrum files",
+		args:    "FILE... | --stack LAYER,LAYER...",
+		summary: "compute solar and thermal figures of one sample from its spectrum files, or of a stack of layers",
 		run:     runFigures,
 	})
 }
@@ -31,20 +31,59 @@ func runFigures(e *env, args []string) error {
 	var so sampleOptions
 	sampleFlags(fs, "splice-", &so)
 	save := fs.String("save-spectrum", "", "also write the joined, corrected spectrum to this file in the neutral format")
+	var claims []datasheet.Claim
+	fs.Func("claim", "judge a claimed `FIGURE=VALUE[±TOL]` (e.g. thermal_emittance=0.95±0.02; repeatable) and print the verdicts instead of the figures; the solar/thermal/window band, solar spectrum and temperature flags given become the claim's stated basis", func(s string) error {
+		c, err := parseClaim(s)
+		claims = append(claims, c)
+		return err
+	})
+	deltaE := fs.String("delta-e", "", "with --claim of color_lab: the colour difference it is judged by, cie76 (CIE 1976 ΔE*ab, the default) or ciede2000")
+	angle := fs.Float64("angle", 0, "with --claim: the angle of incidence the claim is stated at, degrees")
+	strict := fs.Bool("strict", false, "with --claim: also fail when a claim cannot be checked")
+	stackSpec := fs.String("stack", "", "compute a stack of layers instead of one sample: `LAYER,LAYER...` top first, each layer FILE[+FILE...] with optionally @MM:K, its thickness in mm and conductivity in W m⁻¹ K⁻¹ (e.g. cover.csv@3:0.04,emitter-uv.csv+emitter-ir.csv)")
 	files, err := parseFlags(fs, args)
 	if err != nil {
 		return err
 	}
-	if len(files) == 0 {
+	var stack []stackLayer
+	if *stackSpec != "" {
+		if len(files) > 0 {
+			return usagef("--stack names the files of every layer: give no other files")
+		}
+		if len(claims) > 0 {
+			return usagef("--claim does not go with --stack; put the stack in a library to judge its claims")
+		}
+		if stack, err = parseStack(*stackSpec); err != nil {
+			return usagef("%v", err)
+		}
+	} else if len(files) == 0 {
 		return usagef("no spectrum files given")
+	}
+	if len(claims) == 0 && (*angle != 0 || *strict || *deltaE != "") {
+		return usagef("--angle, --strict and --delta-e go with --claim")
+	}
+	if len(claims) > 0 {
+		b := claimBasis(fs, &c, *angle)
+		for i := range claims {
+			claims[i].Basis = b
+			if len(claims[i].Values) == 3 {
+				claims[i].DeltaE = *deltaE
+			}
+			if err := claims[i].Validate(); err != nil {
+				return usagef("--claim %v", err)
+			}
+		}
 	}
 	// Bad conditions are bad usage; a bad sky file is bad data.
 	plain := c
-	plain.Sky = datasheet.SkyChoice{}
+	plain.Sky, plain.Weather = datasheet.SkyChoice{}, datasheet.WeatherChoice{}
 	if err := plain.Validate(); err != nil {
 		return usagef("%v", err)
 	}
 	if err := loadSky(&c, so.maxSize); err != nil {
+		return err
+	}
+	if err := loadWeather(&c, so.maxSize); err != nil {
 		return err
 	}
 	if err := c.Validate(); err != nil {
@@ -53,13 +92,16 @@ func runFigures(e *env, args []string) error {
 	if err := validateSample(so); err != nil {
 		return err
 	}
+	if stack != nil {
+		return runStack(e, stack, so, c, *save, *asJSON)
+	}
 	s, err := readSample(files, so)
 	if err != nil {
 		return err
 	}
 	printWarnings(e.stderr, "figures", s)
 	if *save != "" && *save != "-" {
-		if err := refuseOverwrite(*save, append(inputNames(s), c.Sky.File)); err != nil {
+		if err := refuseOverwrite(*save, append(inputNames(s), c.Sky.File, c.Weather.File)); err != nil {
 			return err
 		}
 	}
@@ -68,9 +110,12 @@ func runFigures(e *env, args []string) error {
 			return err
 		}
 	}
-	m, err := evaluate.Sample(s, c)
+	m, err := evaluate.Sample(s, c, claims...)
 	if err != nil {
 		return err
+	}
+	if len(claims) > 0 {
+		return printClaims(e, files, m, *asJSON, *strict)
 	}
 	f := m.Figures
 	if *asJSON {
@@ -107,6 +152,7 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 		fmt.Fprintf(tw, "%s\t%s\t%s\n", x.BandText(), x.Weighting, fmtPercent(x.Coverage))
 	}
 	tw.Flush()
+	printColor(w, f.Color)
 	cl := f.Closure
 	fmt.Fprintln(w)
 	switch {
@@ -122,6 +168,10 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	}
 	printSplices(w, f.Splices)
 	printCooling(w, f)
+	if f.Stack != nil {
+		printStack(w, f.Stack, f)
+	}
+	printSeries(w, f.Weather)
 	fmt.Fprintln(w, "\nAssumptions:")
 	for _, a := range f.Assumptions {
 		if a != "Sky: "+f.Sky.Description { // printed above
@@ -135,11 +185,31 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	fmt.Fprintf(w, "  closure tolerance %s\n", c.Text("closure_tolerance"))
 	fmt.Fprintf(w, "  cooling: air %s, dew point %s, sun %s, h %s, exchange band %s, sky %s\n",
 		c.Text("ambient_k"), c.Text("dew_point_c"), c.Text("irradiance_w_m2"), c.Text("h_w_m2k"), c.Text("exchange_band_um"), c.Sky)
+	if c.HourOfDay.On || c.StationPressure.On {
+		fmt.Fprintf(w, "  terms of the clear-sky correlation: hour of day %s, station pressure %s\n", c.Text("hour_of_day"), c.Text("station_pressure_hpa"))
+	}
+	if c.Weather.File != "" {
+		fmt.Fprintf(w, "  weather series %s\n", c.Weather)
+	}
 	printProvenance(w, f.Provenance)
 	if len(f.Cautions) > 0 {
 		fmt.Fprintln(w, "\nCautions:")
 		for _, x := range f.Cautions {
 			fmt.Fprintf(w, "  - %s\n", x)
+		}
+	}
+}
+
+// printColor writes the screen colour of the reflectance (and of the
+// transmittance) with its note, or why there is none.
+func printColor(w io.Writer, c datasheet.Colors) {
+	for _, x := range []*datasheet.Color{&c.Reflectance, c.Transmittance} {
+		switch {
+		case x == nil:
+		case x.Reason != "":
+			fmt.Fprintf(w, "\nColour of the %s: n/a, %s.\n", x.Of, x.Reason)
+		default:
+			fmt.Fprintf(w, "\nColour of the %s on screen: sRGB %s. %s\n", x.Of, x.SRGB, x.Note)
 		}
 	}
 }
@@ -190,10 +260,50 @@ func printCooling(w io.Writer, f *datasheet.Figures) {
 	fmt.Fprintf(w, "  %s\n", s.Note)
 }
 
+// printSeries writes the figures over a weather series: totals, months,
+// the model's assumptions and its cautions.
+func printSeries(w io.Writer, f *datasheet.SeriesFigures) {
+	if f == nil {
+		return
+	}
+	fmt.Fprintf(w, "\nOver the weather series %s (%s, sha256 %s), %d hours from %s to %s:\n", f.Series, f.File, f.SHA256, f.Hours, f.From, f.To)
+	fmt.Fprintf(w, "  held at the air temperature: %s of cooling (hourly sum; trapezoid rule %s)\n",
+		fmtEnergy(f.EnergyKWhM2), fmtEnergy(f.EnergyTrapezoidKWhM2))
+	fmt.Fprintf(w, "  free-floating: %d hours below the air, %s K·h; mean depression %s, deepest %s\n",
+		f.HoursBelowAir, fmtFixed(f.DegreeHoursBelowAir, 0), fmtUnit(f.MeanDepressionK, "K"), fmtUnit(f.DeepestDepressionK, "K"))
+	if len(f.Months) > 0 {
+		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
+		fmt.Fprintln(tw, "  month\thours\tenergy kWh/m²\thours below air\tK·h below air\tmean depression K\tdeepest K\tmean air °C\t")
+		for _, m := range f.Months {
+			fmt.Fprintf(tw, "  %s\t%d\t%s\t%d\t%s\t%s\t%s\t%s\t\n", m.Period, m.Hours, fmtFixed(m.EnergyKWhM2, 2), m.HoursBelowAir,
+				fmtFixed(m.DegreeHoursBelowAir, 0), fmtFixed(m.MeanDepressionK, 2), fmtFixed(m.DeepestDepressionK, 2), fmtFixed(m.MeanAirC, 1))
+		}
+		tw.Flush()
+	}
+	fmt.Fprintln(w, "  Model:")
+	for _, a := range f.Assumptions {
+		fmt.Fprintf(w, "    - %s\n", a)
+	}
+	fmt.Fprintln(w, "  Cautions:")
+	for _, a := range f.Cautions {
+		fmt.Fprintf(w, "    - %s\n", a)
+	}
+}
+
+func fmtEnergy(v datasheet.Num) string {
+	if math.IsNaN(float64(v)) {
+		return "n/a"
+	}
+	return fmt.Sprintf("%.2f kWh/m²", float64(v))
+}
+
 // fmtFigure formats a value in the figure's unit as the figure's kind
 // writes it for a reader (a temperature difference as where the surface
 // settles).
 func fmtFigure(x datasheet.Figure, v datasheet.Num) string {
+	if x.Components != nil {
+		return x.Text()
+	}
 	return x.Kind().Words(float64(v), x.Unit)
 }
 
