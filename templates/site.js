@@ -64,8 +64,121 @@
     apply();
   }
 
-  Array.prototype.forEach.call(document.querySelectorAll("table.materials"), setUpSorting);
+  // A library longer than one page: the index holds its first page, and
+  // sorting and filtering work on every row, loaded once from the script
+  // the table names (a script, so that it loads from file:// too).
+  function setUpPaged(table, input) {
+    var tbody = table.tBodies[0];
+    var first = Array.prototype.slice.call(tbody.rows);
+    var pager = table.closest(".table-scroll").parentNode.querySelector(".pager");
+    var tools = input ? input.closest(".table-tools") : null;
+    var count = tools ? tools.querySelector(".filter-count") : null;
+    var keys = Array.prototype.map.call(table.querySelectorAll("button[data-sort-key]"), function (b) { return b.getAttribute("data-sort-key"); });
+    var points = document.querySelectorAll("#library-scatter a[data-slug]");
+    var rows = null, loading = false, sortKey = null, dir = "ascending", limit = 100;
+    var more = document.createElement("button");
+    more.type = "button";
+    more.className = "more-rows";
+    more.hidden = true;
+    table.closest(".table-scroll").after(more);
+    if (tools) { tools.hidden = false; }
+
+    function load(then) {
+      if (rows) { then(); return; }
+      if (loading) { return; }
+      loading = true;
+      var s = document.createElement("script");
+      s.src = table.getAttribute("data-rows");
+      s.onload = function () { rows = window.skysheetRows || []; then(); };
+      document.head.appendChild(s);
+    }
+    // Column k of a row: text and sort value.
+    function text(r, k) { return k === 0 ? r[2] + " " + r[3] : k === 1 ? r[4] : r[2 + 2 * k]; }
+    function value(r, k) { return k === 0 ? r[2] : k === 1 ? r[4] : r[3 + 2 * k]; }
+    function cell(tr, key, val, cls) {
+      var td = document.createElement("td");
+      if (cls) { td.className = cls; }
+      if (key) { td.setAttribute("data-key", key); td.setAttribute("data-value", val); }
+      tr.appendChild(td);
+      return td;
+    }
+    function link(parent, href, words) {
+      var a = document.createElement("a");
+      a.href = href;
+      a.textContent = words;
+      parent.appendChild(a);
+    }
+    function rowOf(r) {
+      var tr = document.createElement("tr");
+      tr.setAttribute("data-slug", r[1]);
+      cell(tr, "", "", "num-col").textContent = r[0];
+      var t = cell(tr, "title", r[2]);
+      link(t, "m/" + r[1] + "/index.html", r[2]);
+      if (r[3]) { var sub = document.createElement("span"); sub.className = "sub"; sub.textContent = r[3]; t.appendChild(sub); }
+      var c = cell(tr, "category", r[4]);
+      if (r[5]) { link(c, r[5], r[4]); } else { var none = document.createElement("span"); none.className = "sub"; none.textContent = "none"; c.appendChild(none); }
+      for (var k = 2; k < keys.length; k++) { cell(tr, keys[k], value(r, k), "num").textContent = text(r, k); }
+      return tr;
+    }
+    function apply() {
+      var terms = input ? input.value.toLowerCase().split(/\s+/).filter(Boolean) : [];
+      if (!terms.length && sortKey === null) {
+        tbody.replaceChildren.apply(tbody, first);
+        if (pager) { pager.hidden = false; }
+        more.hidden = true;
+        if (count) { count.textContent = ""; }
+        Array.prototype.forEach.call(points, function (p) { p.classList.remove("dim"); });
+        return;
+      }
+      load(function () {
+        var shown = rows.filter(function (r) {
+          var all = "";
+          for (var k = 0; k < keys.length; k++) { all += " " + text(r, k); }
+          all = all.toLowerCase();
+          return terms.every(function (t) { return all.indexOf(t) >= 0; });
+        });
+        if (sortKey !== null) {
+          shown.sort(function (r1, r2) {
+            var a = value(r1, sortKey), b = value(r2, sortKey);
+            var empties = (a === "" ? 1 : 0) - (b === "" ? 1 : 0);
+            if (empties !== 0) { return empties; }
+            var c = compare(a, b);
+            return dir === "ascending" ? c : -c;
+          });
+        }
+        var slugs = {};
+        shown.forEach(function (r) { slugs[r[1]] = true; });
+        tbody.replaceChildren.apply(tbody, shown.slice(0, limit).map(rowOf));
+        if (pager) { pager.hidden = true; }
+        more.hidden = shown.length <= limit;
+        more.textContent = "Show " + Math.min(100, shown.length - limit) + " more of " + shown.length;
+        if (count) { count.textContent = shown.length + " of " + rows.length + " shown" + (shown.length > limit ? ", first " + limit + " listed" : ""); }
+        Array.prototype.forEach.call(points, function (p) { p.classList.toggle("dim", !slugs[p.getAttribute("data-slug")]); });
+      });
+    }
+    Array.prototype.forEach.call(table.querySelectorAll("button[data-sort-key]"), function (btn, k) {
+      btn.addEventListener("click", function () {
+        var th = btn.parentNode;
+        dir = th.getAttribute("aria-sort") === "ascending" ? "descending" : "ascending";
+        Array.prototype.forEach.call(table.querySelectorAll("th[aria-sort]"), function (h) { h.removeAttribute("aria-sort"); });
+        th.setAttribute("aria-sort", dir);
+        sortKey = k;
+        limit = 100;
+        apply();
+      });
+    });
+    more.addEventListener("click", function () { limit += 100; apply(); });
+    if (input) { input.addEventListener("input", function () { limit = 100; apply(); }); }
+  }
+
   var table = document.getElementById("library-table");
   var input = document.getElementById("library-filter");
-  if (table && input) { setUpFilter(table, input); }
+  Array.prototype.forEach.call(document.querySelectorAll("table.materials"), function (t) {
+    if (!t.hasAttribute("data-rows")) { setUpSorting(t); }
+  });
+  if (table && table.hasAttribute("data-rows")) {
+    setUpPaged(table, input);
+  } else if (table && input) {
+    setUpFilter(table, input);
+  }
 })();

@@ -128,6 +128,9 @@ type pointSet struct {
 	colors []rgba
 	pix    [][2]int  // pixel positions, filled while rendering
 	box    chart.Box // the plot box, filled while rendering
+	// linkAll makes every point a link with a tooltip; otherwise only the
+	// labelled points are, and the rest are drawn as one shape.
+	linkAll bool
 }
 
 // svg renders the plot to SVG with role="img" ("group" where its
@@ -859,22 +862,43 @@ func (s *pointSeries) Render(r chart.Renderer, box chart.Box, xr, yr chart.Range
 // pointRadius is the radius of a point of a pointSet.
 const pointRadius = 6
 
-// anchors returns the points as SVG links, each with its label.
+// anchors returns the points as SVG links, each with its label where the
+// label fits; without linkAll, the points without a label as one path.
 func (ps *pointSet) anchors() string {
 	var b strings.Builder
 	family := "sans-serif"
 	if f, err := defaultFont(); err == nil {
 		family = "'" + f.Name(truetype.NameIDFontFamily) + "',sans-serif"
 	}
-	spots := ps.labelSpots()
+	spots, fits := ps.labelSpots()
+	if !ps.linkAll {
+		// One dot per pixel position, drawn as zero-length round-capped
+		// strokes: a few bytes a point.
+		seen := map[[2]int]bool{}
+		var d strings.Builder
+		for i, p := range ps.pix {
+			if fits[i] || seen[p] {
+				continue
+			}
+			seen[p] = true
+			fmt.Fprintf(&d, "M%d %dh0", p[0], p[1])
+		}
+		if d.Len() > 0 {
+			fmt.Fprintf(&b, `<path d="%s" style="fill:none;stroke:%s;stroke-width:%d;stroke-linecap:round;opacity:0.6" aria-hidden="true"/>`,
+				d.String(), colPalette[0].css(), pointRadius)
+		}
+	}
 	for i, p := range ps.pix {
+		if !ps.linkAll && !fits[i] {
+			continue
+		}
 		col := colPalette[0]
 		if i < len(ps.colors) {
 			col = ps.colors[i]
 		}
 		fmt.Fprintf(&b, `<a href="%s" data-slug="%s"><title>%s</title><circle cx="%d" cy="%d" r="%d" style="fill:%s;stroke:#ffffff;stroke-width:1.5"/>`,
 			html.EscapeString(ps.href[i]), html.EscapeString(ps.slug[i]), html.EscapeString(ps.title[i]), p[0], p[1], pointRadius, col.css())
-		if ps.label[i] != "" {
+		if fits[i] {
 			fmt.Fprintf(&b, `<text x="%d" y="%d" style="font-size:%gpx;font-family:%s;fill:%s;stroke:#ffffff;stroke-width:3px;stroke-linejoin:round;paint-order:stroke">%s</text>`,
 				spots[i][0], spots[i][1], float64(textLabel), html.EscapeString(family), colText.css(), html.EscapeString(ps.label[i]))
 		}
@@ -883,29 +907,50 @@ func (ps *pointSet) anchors() string {
 	return b.String()
 }
 
+// labelGrid is the cell size, in pixels, of the grid that finds what a
+// label would overlap.
+const labelGrid = 32
+
 // labelSpots places the label of each point, in order, at the first of a
 // few spots around the point that keeps it inside the plot and clear of
-// the points and the labels placed before; where none is clear, at the
-// spot that overlaps least. It returns the start of each label's
-// baseline.
-func (ps *pointSet) labelSpots() [][2]int {
+// every point and of the labels placed before. A label with no clear spot
+// is left out (fits false). The rectangles taken are kept in a grid of
+// labelGrid cells, so that each spot is compared with its neighbours only,
+// not with every point. It returns the start of each label's baseline.
+func (ps *pointSet) labelSpots() (spots [][2]int, fits []bool) {
 	type rect struct{ x0, y0, x1, y1 int }
-	overlap := func(a, b rect) int {
-		w := min(a.x1, b.x1) - max(a.x0, b.x0)
-		h := min(a.y1, b.y1) - max(a.y0, b.y0)
-		if w <= 0 || h <= 0 {
-			return 0
+	overlaps := func(a, b rect) bool { return min(a.x1, b.x1) > max(a.x0, b.x0) && min(a.y1, b.y1) > max(a.y0, b.y0) }
+	grid := map[[2]int][]rect{}
+	cells := func(r rect, f func(k [2]int) bool) bool {
+		for gx := floorDiv(r.x0, labelGrid); gx <= floorDiv(r.x1, labelGrid); gx++ {
+			for gy := floorDiv(r.y0, labelGrid); gy <= floorDiv(r.y1, labelGrid); gy++ {
+				if !f([2]int{gx, gy}) {
+					return false
+				}
+			}
 		}
-		return w * h
+		return true
 	}
-	var taken []rect
+	take := func(r rect) {
+		cells(r, func(k [2]int) bool { grid[k] = append(grid[k], r); return true })
+	}
+	clear := func(r rect) bool {
+		return cells(r, func(k [2]int) bool {
+			for _, t := range grid[k] {
+				if overlaps(r, t) {
+					return false
+				}
+			}
+			return true
+		})
+	}
 	for _, p := range ps.pix {
-		taken = append(taken, rect{p[0] - pointRadius - 1, p[1] - pointRadius - 1, p[0] + pointRadius + 1, p[1] + pointRadius + 1})
+		take(rect{p[0] - pointRadius - 1, p[1] - pointRadius - 1, p[0] + pointRadius + 1, p[1] + pointRadius + 1})
 	}
 	h := int(math.Ceil(float64(textLabel)))
 	asc, desc := h*4/5, h/4 // baseline split of the text height
 	d := pointRadius + 3
-	out := make([][2]int, len(ps.pix))
+	spots, fits = make([][2]int, len(ps.pix)), make([]bool, len(ps.pix))
 	for i, p := range ps.pix {
 		if ps.label[i] == "" {
 			continue
@@ -913,7 +958,7 @@ func (ps *pointSet) labelSpots() [][2]int {
 		w := textWidth(ps.label[i], textLabel)
 		cx, cy := p[0], p[1]
 		mid := cy + (asc-desc)/2 // baseline that centres the text on the point
-		spots := [][2]int{
+		for _, s := range [][2]int{
 			{cx + d, mid},                      // right
 			{cx - d - w, mid},                  // left
 			{cx + d - 3, cy - d + 1},           // above right
@@ -922,29 +967,25 @@ func (ps *pointSet) labelSpots() [][2]int {
 			{cx - d + 3 - w, cy + d + asc - 1}, // below left
 			{cx - w/2, cy - d - 1},             // above
 			{cx - w/2, cy + d + asc + 1},       // below
-		}
-		best, bestCost := 0, math.MaxInt
-		for k, s := range spots {
+		} {
 			r := rect{s[0] - 1, s[1] - asc - 1, s[0] + w + 1, s[1] + desc + 1}
-			cost := 0
-			if r.x0 < ps.box.Left || r.x1 > ps.box.Right || r.y0 < ps.box.Top || r.y1 > ps.box.Bottom {
-				cost += 1 << 20 // outside the plot: only as a last resort
+			if r.x0 < ps.box.Left || r.x1 > ps.box.Right || r.y0 < ps.box.Top || r.y1 > ps.box.Bottom || !clear(r) {
+				continue
 			}
-			for _, t := range taken {
-				cost += overlap(r, t)
-			}
-			if cost < bestCost {
-				best, bestCost = k, cost
-			}
-			if cost == 0 {
-				break
-			}
+			spots[i], fits[i] = s, true
+			take(r)
+			break
 		}
-		s := spots[best]
-		out[i] = s
-		taken = append(taken, rect{s[0] - 1, s[1] - asc - 1, s[0] + w + 1, s[1] + desc + 1})
 	}
-	return out
+	return spots, fits
+}
+
+// floorDiv is a / b rounded down, for b > 0.
+func floorDiv(a, b int) int {
+	if a < 0 {
+		return -((-a + b - 1) / b)
+	}
+	return a / b
 }
 
 // svgRenderer is the renderer provider of every chart: go-chart's SVG

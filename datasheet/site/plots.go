@@ -361,8 +361,10 @@ func pointLabels(ms []*evaluate.Summary) []string {
 }
 
 // scatterChart plots solar reflectance against window emittance, one
-// labelled, linked point per material that has both.
-func scatterChart(ms []*evaluate.Summary, rows []row) (*chartView, error) {
+// linked point per material that has both; the labels that fit are drawn.
+// Above linkedPoints materials only the labelled points are links and the
+// rest are drawn as one shape, so that the index stays light.
+func scatterChart(ms []*evaluate.Summary) (*chartView, error) {
 	ps := &pointSet{}
 	var shown []*evaluate.Summary
 	for _, m := range ms {
@@ -373,7 +375,7 @@ func scatterChart(ms []*evaluate.Summary, rows []row) (*chartView, error) {
 	labels := pointLabels(shown)
 	xmin, ymin := 1.0, 1.0
 	var skipped []string
-	for i, m := range ms {
+	for _, m := range ms {
 		x, y := m.Figures.SolarReflectance, m.Figures.WindowEmittance
 		if isNaN(x) || isNaN(y) {
 			skipped = append(skipped, m.Front.Title)
@@ -381,7 +383,7 @@ func scatterChart(ms []*evaluate.Summary, rows []row) (*chartView, error) {
 		}
 		xmin, ymin = math.Min(xmin, float64(x)), math.Min(ymin, float64(y))
 		ps.x, ps.y = append(ps.x, float64(x)), append(ps.y, float64(y))
-		ps.href = append(ps.href, rows[i].Href)
+		ps.href = append(ps.href, materialDir(m.Slug)+"index.html")
 		ps.slug = append(ps.slug, m.Slug)
 		label := labels[len(ps.label)]
 		ps.label = append(ps.label, label)
@@ -391,20 +393,51 @@ func scatterChart(ms []*evaluate.Summary, rows []row) (*chartView, error) {
 	if len(ps.x) == 0 {
 		return nil, nil
 	}
+	ps.linkAll = len(ps.x) <= linkedPoints
 	lower := func(v float64) float64 { return math.Max(0, math.Floor((v-0.02)*10)/10) }
 	p := plot{width: scatterW, height: scatterH, xName: "Solar reflectance", yName: "Atmospheric-window emittance",
 		xLo: lower(xmin), xHi: 1, yLo: lower(ymin), yHi: 1, xFmt: "2", yFmt: "2", points: ps, noLegend: true}
-	caption := fmt.Sprintf("Each point is a material, labelled with its product code (or short name) and linked to its datasheet; %d materials shown. Up and to the right is better for daytime radiative cooling.", len(ps.x))
+	caption := fmt.Sprintf("Each point is a material, linked to its datasheet, labelled with its product code (or short name) where the label fits; %d materials shown. Up and to the right is better for daytime radiative cooling.", len(ps.x))
+	if !ps.linkAll {
+		caption = fmt.Sprintf("Each point is a material; %d materials shown. The points labelled with a product code (or short name) link to their datasheets; the table lists every material. Up and to the right is better for daytime radiative cooling.", len(ps.x))
+	}
 	if len(skipped) > 0 {
-		caption += " Not shown (a figure is missing): " + strings.Join(skipped, "; ") + "."
+		caption += " Not shown (a figure is missing): " + listSome(skipped, 10) + "."
 	}
-	var desc []string
-	for _, t := range ps.title {
-		desc = append(desc, t)
+	// The accessible text names the points only in a small library; the
+	// table beside the chart lists every material.
+	aria := "Scatter chart of solar reflectance against window emittance. "
+	if len(ps.title) <= describedPoints {
+		aria += strings.Join(ps.title, ". ") + "."
+	} else {
+		lo, hi := ps.x[0], ps.x[0]
+		wlo, whi := ps.y[0], ps.y[0]
+		for i := range ps.x {
+			lo, hi = math.Min(lo, ps.x[i]), math.Max(hi, ps.x[i])
+			wlo, whi = math.Min(wlo, ps.y[i]), math.Max(whi, ps.y[i])
+		}
+		aria += fmt.Sprintf("%d materials: solar reflectance from %s to %s, window emittance from %s to %s; the table lists them all.",
+			len(ps.x), fmtFrac(datasheet.Num(lo)), fmtFrac(datasheet.Num(hi)), fmtFrac(datasheet.Num(wlo)), fmtFrac(datasheet.Num(whi)))
 	}
-	svg, err := p.svg("Scatter chart of solar reflectance against window emittance. " + strings.Join(desc, ". ") + ".")
+	svg, err := p.svg(aria)
 	if err != nil {
 		return nil, err
 	}
 	return &chartView{ID: "library-scatter", Title: "Solar reflectance against atmospheric-window emittance", Caption: caption, SVG: template.HTML(svg)}, nil
+}
+
+// linkedPoints is the most points of the index's scatter chart that are
+// all links with a tooltip; describedPoints the most that its accessible
+// text names one by one.
+const (
+	linkedPoints    = 200
+	describedPoints = 20
+)
+
+// listSome joins the first n of names and says how many more there are.
+func listSome(names []string, n int) string {
+	if len(names) <= n {
+		return strings.Join(names, "; ")
+	}
+	return fmt.Sprintf("%s and %d more", strings.Join(names[:n], "; "), len(names)-n)
 }

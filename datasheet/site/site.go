@@ -9,6 +9,7 @@ import (
 	"io/fs"
 	"path"
 	"sort"
+	"strings"
 	"sync"
 
 	"skysheet/datasheet"
@@ -248,13 +249,13 @@ func (b *builder) execute(name string, p *page) ([]byte, error) {
 	return buf.Bytes(), nil
 }
 
+// rootOf is the relative path from the page at outPath to the site root.
+func rootOf(outPath string) string {
+	return strings.Repeat("../", len(splitPath(path.Dir(outPath))))
+}
+
 func (b *builder) newPage(kind, title, outPath string) *page {
-	depth := len(splitPath(path.Dir(outPath)))
-	root := ""
-	for range depth {
-		root += "../"
-	}
-	p := &page{Site: b.site, Root: root, Title: title, Kind: kind}
+	p := &page{Site: b.site, Root: rootOf(outPath), Title: title, Kind: kind}
 	if b.site.SiteAddress != "" {
 		p.Canonical = b.site.SiteAddress + outPath
 	}

@@ -133,6 +133,21 @@ type tableView struct {
 	ID      string
 	Columns []column
 	Rows    []row
+	// Pager links the pages of a table longer than pageRows; nil for a
+	// table on one page.
+	Pager *pager
+	// Data is, for the index of a paged library, the path from the page
+	// to the script with every row (see rowsScript); "" otherwise.
+	Data  string
+	Total int // rows of the whole table, on every page
+}
+
+// pager is the list of the pages of a table.
+type pager struct {
+	Current int
+	Pages   []link // Name is the page number, Href relative to the page; Note is "current" on this page's own
+	First   int    // number of the first row on this page
+	Last    int    // number of the last row on this page
 }
 
 type indexView struct {

@@ -1,0 +1,104 @@
+package site
+
+import (
+	"fmt"
+	"os"
+	"regexp"
+	"strings"
+	"testing"
+	"testing/fstest"
+
+	"skysheet/datasheet/library"
+)
+
+// bigLibrary returns a library of n materials, all measured by the
+// spectra of the test library's basalt, titled so that the index order is
+// known: "Panel 0001", "Panel 0002", …
+func bigLibrary(t *testing.T, n int) *library.Library {
+	t.Helper()
+	read := func(p string) []byte {
+		data, err := os.ReadFile("../../testdata/library/" + p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return data
+	}
+	fsys := fstest.MapFS{
+		"skysheet.yaml":                 {Data: read("skysheet.yaml")},
+		"content/roof/basalt-uvvis.csv": {Data: read("content/roof/basalt-uvvis.csv")},
+		"content/roof/basalt-ftir.csv":  {Data: read("content/roof/basalt-ftir.csv")},
+	}
+	for i := range n {
+		cat := []string{"paint", "film"}[i%2]
+		fsys[fmt.Sprintf("content/roof/p-%04d.md", i+1)] = &fstest.MapFile{Data: fmt.Appendf(nil,
+			"---\ntitle: Panel %04d (invented)\nmaker: Invented Panels (invented)\ncategory: %s\nspectra:\n  - file: basalt-uvvis.csv\n  - file: basalt-ftir.csv\n---\nInvented.\n", i+1, cat)}
+	}
+	lib, err := library.Load(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return lib
+}
+
+// TestPagedTables checks a library longer than a page: the index shows
+// the first pageRows rows and links pages that, followed without
+// JavaScript, reach every material once; the category listings are paged
+// the same way; the rows script holds every material for sorting and
+// filtering in the browser; and every link resolves.
+func TestPagedTables(t *testing.T) {
+	const n = 2*pageRows + 37
+	out := renderTest(t, bigLibrary(t, n), Options{})
+	rowRE := regexp.MustCompile(`<tr data-slug="([^"]+)">`)
+	index := string(out["index.html"])
+	if got := len(rowRE.FindAllString(index, -1)); got != pageRows {
+		t.Errorf("index shows %d rows, want %d", got, pageRows)
+	}
+	if !strings.Contains(index, `data-rows="`+rowsScript+`"`) || !strings.Contains(index, fmt.Sprintf(`data-total="%d"`, n)) {
+		t.Error("the index table does not name the rows script and the total")
+	}
+	// Follow the pager from the index as a reader without JavaScript would.
+	seen := map[string]int{}
+	pages := []string{"index.html", indexPagesDir + "2/index.html", indexPagesDir + "3/index.html"}
+	for _, p := range pages {
+		html, ok := out[p]
+		if !ok {
+			t.Fatalf("page %s is missing", p)
+		}
+		if !strings.Contains(string(html), `aria-current="page"`) {
+			t.Errorf("%s: the pager does not mark the current page", p)
+		}
+		for _, m := range rowRE.FindAllStringSubmatch(string(html), -1) {
+			seen[m[1]]++
+		}
+	}
+	if _, ok := out[indexPagesDir+"4/index.html"]; ok {
+		t.Error("a page too many")
+	}
+	for i := range n {
+		if s := fmt.Sprintf("p-%04d", i+1); seen[s] != 1 {
+			t.Errorf("%s is on %d pages of the index, want 1", s, seen[s])
+		}
+	}
+	// Rows keep their number in the whole library.
+	if !strings.Contains(string(out[indexPagesDir+"3/index.html"]), `<td class="num-col">201</td>`) {
+		t.Error("the third page does not start at row 201")
+	}
+	rows := string(out[rowsScript])
+	if !strings.HasPrefix(rows, "// ") || !strings.Contains(rows, "window.skysheetRows = [[1,\"p-0001\",\"Panel 0001 (invented)\"") {
+		t.Errorf("rows script starts %.120q", rows)
+	}
+	for i := range n {
+		if !strings.Contains(rows, fmt.Sprintf(`"p-%04d"`, i+1)) {
+			t.Fatalf("rows script misses p-%04d", i+1)
+		}
+	}
+	// Listings: about half the materials each, so two pages.
+	cat := listingDir("category", "paint")
+	if _, ok := out[cat+"page/2/index.html"]; !ok {
+		t.Errorf("the paint listing is not paged")
+	}
+	if len(out[cat+"index.html"]) > 400_000 || len(index) > 500_000 {
+		t.Errorf("pages too large: index %d, listing %d bytes", len(index), len(out[cat+"index.html"]))
+	}
+	checkLinks(t, out)
+}
