@@ -23,17 +23,17 @@ type CurvePoint struct {
 // CoolingTerms are the parts of the net cooling power at T_s = T_amb and
 // what the held-constant extension of the data carries.
 type CoolingTerms struct {
-	RadiatedWm2       Num `json:"radiated_w_m2"`    // P_rad(T_amb)
-	AtmosphericWm2    Num `json:"atmospheric_w_m2"` // P_atm, absorbed from the sky
-	SolarWm2          Num `json:"solar_w_m2"`       // P_sun, absorbed sunlight
+	RadiatedWm2    Num `json:"radiated_w_m2"`    // P_rad(T_amb)
+	AtmosphericWm2 Num `json:"atmospheric_w_m2"` // P_atm, absorbed from the sky
+	SolarWm2       Num `json:"solar_w_m2"`       // P_sun, absorbed sunlight
 	// SolarAbsorbed is the share of the sunlight absorbed over the whole
 	// ASTM G173-03 range 280–4000 nm (the chosen spectrum's weighting), on
 	// which P_sun rests; SolarAbsorbedCoverage is the share of that
 	// spectrum's power where the data give the absorptance.
 	SolarAbsorbed         Num `json:"solar_absorbed_fraction"`
 	SolarAbsorbedCoverage Num `json:"solar_absorbed_coverage"`
-	EquilibriumK      Num `json:"equilibrium_k"`    // T_eq with sun
-	EquilibriumNightK Num `json:"equilibrium_night_k"`
+	EquilibriumK          Num `json:"equilibrium_k"` // T_eq with sun
+	EquilibriumNightK     Num `json:"equilibrium_night_k"`
 	// HeldShare is the share of the exchange band's blackbody power at
 	// T_amb that falls where the emittance is held constant.
 	HeldShare Num `json:"held_share"`
