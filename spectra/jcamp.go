@@ -212,10 +212,10 @@ func metaKeyOf(label string) string {
 
 // jcamp holds what the reader has found.
 type jcamp struct {
-	file   string
-	s      *Spectrum
-	meta   *fileMeta
-	recs   map[string]*record
+	file string
+	s    *Spectrum
+	meta *fileMeta
+	recs map[string]*record
 }
 
 func (j *jcamp) errAt(line int, err error) error {

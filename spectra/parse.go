@@ -195,9 +195,9 @@ type parser struct {
 	lastX   float64
 	lastLn  int
 	seenX   map[float64]int
-	dec     string                 // the decimal form of the last number read
+	dec     string    // the decimal form of the last number read
 	fm      *fileMeta // what the metadata set
-	grouped int                    // axis values written like 2.500 (see thousandsWarning)
+	grouped int       // axis values written like 2.500 (see thousandsWarning)
 }
 
 func (p *parser) errf(col int, err error) error {
