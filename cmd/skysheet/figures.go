@@ -31,12 +31,32 @@ func runFigures(e *env, args []string) error {
 	var so sampleOptions
 	sampleFlags(fs, "splice-", &so)
 	save := fs.String("save-spectrum", "", "also write the joined, corrected spectrum to this file in the neutral format")
+	var claims []datasheet.Claim
+	fs.Func("claim", "judge a claimed `FIGURE=VALUE[±TOL]` (e.g. thermal_emittance=0.95±0.02; repeatable) and print the verdicts instead of the figures; the solar/thermal/window band, solar spectrum and temperature flags given become the claim's stated basis", func(s string) error {
+		c, err := parseClaim(s)
+		claims = append(claims, c)
+		return err
+	})
+	angle := fs.Float64("angle", 0, "with --claim: the angle of incidence the claim is stated at, degrees")
+	strict := fs.Bool("strict", false, "with --claim: also fail when a claim cannot be checked")
 	files, err := parseFlags(fs, args)
 	if err != nil {
 		return err
 	}
 	if len(files) == 0 {
 		return usagef("no spectrum files given")
+	}
+	if len(claims) == 0 && (*angle != 0 || *strict) {
+		return usagef("--angle and --strict go with --claim")
+	}
+	if len(claims) > 0 {
+		b := claimBasis(fs, &c, *angle)
+		for i := range claims {
+			claims[i].Basis = b
+			if err := claims[i].Validate(); err != nil {
+				return usagef("--claim %v", err)
+			}
+		}
 	}
 	// Bad conditions are bad usage; a bad sky file is bad data.
 	plain := c
@@ -68,9 +88,12 @@ func runFigures(e *env, args []string) error {
 			return err
 		}
 	}
-	m, err := evaluate.Sample(s, c)
+	m, err := evaluate.Sample(s, c, claims...)
 	if err != nil {
 		return err
+	}
+	if len(claims) > 0 {
+		return printClaims(e, files, m, *asJSON, *strict)
 	}
 	f := m.Figures
 	if *asJSON {

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"slices"
 	"strconv"
 	"sync"
 
@@ -138,8 +139,10 @@ func All(lib *library.Library, opt Options) ([]*Material, error) {
 }
 
 // Sample evaluates one sample under conditions c, outside a library: its
-// optics and figures. It has no claims, and its inputs are those of s.
-func Sample(s *spectra.Spectrum, c datasheet.Conditions) (*Material, error) {
+// optics and figures, and a verdict for each of claims (judged as a
+// library's are, on the basis each states, else on c). Its inputs are those
+// of s.
+func Sample(s *spectra.Spectrum, c datasheet.Conditions, claims ...datasheet.Claim) (*Material, error) {
 	o := spectra.Resolve(s, c.ClosureTol)
 	f, err := datasheet.Compute(s, o, c)
 	if err != nil {
@@ -147,7 +150,8 @@ func Sample(s *spectra.Spectrum, c datasheet.Conditions) (*Material, error) {
 	}
 	m := &Material{Sample: s, Optics: o}
 	m.Solar, m.Thermal = c.Weightings()
-	m.Figures, m.Verdicts, m.Warnings = f, []datasheet.Verdict{}, warnings(f)
+	m.Figures, m.Warnings = f, warnings(f)
+	m.Verdicts = datasheet.JudgeAll(claims, datasheet.JudgeInput{Spectrum: s, Optics: &o, Conditions: c, Figures: f})
 	for _, in := range s.Inputs {
 		m.Inputs = append(m.Inputs, library.Input{Path: in.Name, SHA256: in.SHA256})
 	}
@@ -166,14 +170,15 @@ func evaluate(lib *library.Library, lm *library.Material) (*Material, error) {
 	if err != nil {
 		return nil, &library.Error{File: lm.Path, Err: fmt.Errorf("%w: %w", library.ErrConditions, err)}
 	}
-	m := &Material{Summary: Summary{Material: lm, Figures: f, Inputs: inputs, Warnings: warnings(f)}, Sample: s, Optics: o}
+	m := &Material{Summary: Summary{Material: lm, Figures: f, Inputs: inputs, Warnings: append(slices.Clip(s.Warnings), warnings(f)...)}, Sample: s, Optics: o}
 	m.Solar, m.Thermal = c.Weightings()
 	m.Verdicts = datasheet.JudgeAll(lm.Front.Claims, datasheet.JudgeInput{Spectrum: s, Optics: &o, Conditions: c,
 		Figures: f, Angle: lm.Front.Measured.Angle})
 	return m, nil
 }
 
-// warnings returns the warnings about the data behind figures f.
+// warnings returns the warnings about the data behind figures f; the
+// readers' own warnings are the sample's.
 func warnings(f *datasheet.Figures) []string {
 	var out []string
 	for _, r := range f.Splices {
