@@ -303,14 +303,9 @@ func newRowTable(s *spectra.Spectrum) *rowTable {
 		group   int
 	}
 	var rows []row
-	seen := map[float64]bool{}
 	for i := range s.Segments {
 		g := &s.Segments[i]
 		for _, nm := range g.NM {
-			if seen[nm] {
-				continue
-			}
-			seen[nm] = true
 			m, ok := s.MeasurementAt(g, nm)
 			group := -1
 			res := spectra.DefaultResolution("nm")
