@@ -593,7 +593,7 @@ func (m *cooling) weighting(withSun, withH bool) string {
 		out += fmt.Sprintf("; h %s W m⁻² K⁻¹", fmtG(c.HWm2K))
 	}
 	if withSun {
-		out += fmt.Sprintf("; sun %s W/m², %s shape, absorbed over %g–%g nm", fmtG(c.IrradianceWm2), m.sun, spectra.SolarRangeNM.Lo, spectra.SolarRangeNM.Hi)
+		out += fmt.Sprintf("; sun %s W/m², %s shape", fmtG(c.IrradianceWm2), m.sun)
 	} else {
 		out += "; no sun"
 	}
@@ -764,22 +764,18 @@ func (m *cooling) assumptions(r coolFigures, sa spectra.Mean) []string {
 		return append(out, fmt.Sprintf("No emittance data reach into the exchange band %g–%g µm: cooling figures cannot be computed.",
 			ex[0], ex[1]))
 	}
-	out = append(out, fmt.Sprintf("Cooling: P_net(T_s) = P_rad(T_s) − P_atm − P_sun − h (T_amb − T_s) with P_rad and P_atm over %g–%g µm, "+
-		"air at %s K, h = %s W m⁻² K⁻¹; the cooling power is P_net at T_s = T_amb, where the convective term vanishes.",
-		ex[0], ex[1], fmtG(c.AmbientK), fmtG(c.HWm2K)))
 	lo, hi := spectra.SolarRangeNM.Lo, spectra.SolarRangeNM.Hi
+	sun := fmt.Sprintf("P_sun = %s W/m² × %.4f, the share of the %s sunlight absorbed over %g–%g nm",
+		fmtG(c.IrradianceWm2), sa.Value, m.sun, lo, hi)
 	if sa.Coverage < minSunCoverage {
-		out = append(out, fmt.Sprintf("Absorbed sunlight: the data cover %.1f %% of the %s power over %g–%g nm (at least %g %% is needed); "+
-			"the figures with sun are not given.", 100*sa.Coverage, m.sun, lo, hi, 100*minSunCoverage))
-	} else {
-		w := fmt.Sprintf("Absorbed sunlight: P_sun = %.1f W/m², the stated %s W/m² times the absorbed share %.4f of the %s spectrum over "+
-			"its whole range %g–%g nm (∫ α E dλ / ∫ E dλ on the joined spectrum); the solar band of the reflectance figures does not limit it.",
-			r.psun, fmtG(c.IrradianceWm2), sa.Value, m.sun, lo, hi)
-		if sa.Coverage < 1 {
-			w += fmt.Sprintf(" The data cover %.1f %% of the spectrum's power there; the share is the mean over the covered part.", 100*sa.Coverage)
-		}
-		out = append(out, w)
+		sun = fmt.Sprintf("P_sun not given: the data cover %.1f %% of the %s sunlight over %g–%g nm (at least %g %% is needed)",
+			100*sa.Coverage, m.sun, lo, hi, 100*minSunCoverage)
+	} else if sa.Coverage < 1 {
+		sun += fmt.Sprintf(" (mean over the %.1f %% the data cover)", 100*sa.Coverage)
 	}
+	out = append(out, fmt.Sprintf("Cooling: P_net(T_s) = P_rad(T_s) − P_atm − P_sun − h (T_amb − T_s) with P_rad and P_atm over %g–%g µm, "+
+		"air at %s K, h = %s W m⁻² K⁻¹, %s; the cooling power is P_net at T_s = T_amb.",
+		ex[0], ex[1], fmtG(c.AmbientK), fmtG(c.HWm2K), sun))
 	if len(m.g.held) > 0 {
 		var parts []string
 		for _, h := range m.g.held {
@@ -788,9 +784,6 @@ func (m *cooling) assumptions(r coolFigures, sa spectra.Mean) []string {
 		out = append(out, fmt.Sprintf("The data stop short of the exchange band over %s: the nearest measured emittance is held constant there. "+
 			"That part carries %.1f W/m² of blackbody power at %s K (%.1f %% of the band's), of which the sample emits %.1f W/m².",
 			strings.Join(parts, ", "), m.g.heldPower, fmtG(c.AmbientK), 100*m.g.heldPower/m.g.bbPower, r.state.heldEmit))
-	}
-	if s := hi / 1000; s > ex[0] {
-		out = append(out, fmt.Sprintf("Absorbed sunlight (to %g µm) and the thermal exchange band (from %g µm) overlap: there the surface both absorbs sunlight and exchanges heat radiation, each counted once.", s, ex[0]))
 	}
 	if r.errDay != nil && !math.IsNaN(r.psun) {
 		out = append(out, "Equilibrium with sun: "+r.errDay.Error()+".")
