@@ -278,10 +278,15 @@ func (b *builder) materialFiles(m *evaluate.Material, cmps []*library.Comparison
 	if err != nil {
 		return fail(err)
 	}
+	var figCSV bytes.Buffer
+	if err := m.Figures.WriteCSV(&figCSV); err != nil {
+		return fail(err)
+	}
 	return files{
 		dir + "index.html":   html,
 		dir + "spectrum.csv": csv.Bytes(),
 		dir + "figures.json": append(js, '\n'),
+		dir + "figures.csv":  figCSV.Bytes(),
 		dir + "claims.json":  claims,
 		dir + "source.md":    m.Source,
 	}, nil
