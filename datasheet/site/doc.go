@@ -13,6 +13,7 @@
 //	compare/SLUG/index.html               comparison pages
 //	review/index.html                     claims not supported or not checkable
 //	catalog.json                          every material's metadata, figures and claims with verdicts
+//	search.js                             the search index, loaded by site.js when the search box is used
 //	assets/style.css, assets/site.js
 //
 // Links are relative and name index.html, so the site works from file://

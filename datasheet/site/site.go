@@ -188,6 +188,11 @@ func (b *builder) render() (files, error) {
 	if err := b.reviewFiles(out); err != nil {
 		errs = append(errs, err)
 	}
+	if data, err := b.searchIndex(); err != nil {
+		errs = append(errs, err)
+	} else {
+		out[searchIndexName] = data
+	}
 	for _, a := range []string{"style.css", "site.js"} {
 		data, err := b.asset(a)
 		if err != nil {
