@@ -5,12 +5,13 @@ import (
 	"io"
 	"math"
 	"strconv"
+	"strings"
 )
 
 // csvHeader is the header row of [Figures.WriteCSV]. Each column says its
 // unit: "(unit)" is the row's unit column, "(band_unit)" its band unit.
 var csvHeader = []string{"key", "label", "value (unit)", "unit", "band low (band_unit)", "band high (band_unit)",
-	"band_unit", "weighting", "coverage (fraction)", "u independent (unit)", "u together (unit)", "u known for (fraction)"}
+	"band_unit", "weighting", "coverage (fraction)", "u independent (unit)", "u together (unit)", "u known for (fraction)", "components (unit)"}
 
 // WriteCSV writes the figures as CSV, one row per figure in the order of
 // f.Figures, under a header naming each column with its unit: numbers in full precision (the shortest
@@ -18,7 +19,8 @@ var csvHeader = []string{"key", "label", "value (unit)", "unit", "band low (band
 // that could not be computed, the unit "fraction" or "index" for figures
 // without a physical unit, and the standard uncertainties (errors
 // independent between wavelengths, and moving together) where the data
-// give them.
+// give them, and for a figure of several components (L*, a*, b* of a
+// colour) all of them, separated by "; ", Value being the first.
 func (f *Figures) WriteCSV(w io.Writer) error {
 	cw := csv.NewWriter(w)
 	cw.Write(csvHeader)
@@ -32,8 +34,12 @@ func (f *Figures) WriteCSV(w io.Writer) error {
 		if u := x.Uncertainty; u != nil {
 			ui, ut, reach = csvNumber(u.Uncorrelated), csvNumber(u.Correlated), csvNumber(u.Reach)
 		}
+		comps := make([]string, len(x.Components))
+		for i, c := range x.Components {
+			comps[i] = csvNumber(c)
+		}
 		cw.Write([]string{x.Key, x.Label, csvNumber(x.Value), unitName(x), lo, hi, x.BandUnit, x.Weighting,
-			csvNumber(x.Coverage), ui, ut, reach})
+			csvNumber(x.Coverage), ui, ut, reach, strings.Join(comps, "; ")})
 	}
 	cw.Flush()
 	return cw.Error()

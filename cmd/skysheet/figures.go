@@ -38,6 +38,7 @@ func runFigures(e *env, args []string) error {
 		claims = append(claims, c)
 		return err
 	})
+	deltaE := fs.String("delta-e", "", "with --claim of color_lab: the colour difference it is judged by, cie76 (CIE 1976 ΔE*ab, the default) or ciede2000")
 	angle := fs.Float64("angle", 0, "with --claim: the angle of incidence the claim is stated at, degrees")
 	strict := fs.Bool("strict", false, "with --claim: also fail when a claim cannot be checked")
 	files, err := parseFlags(fs, args)
@@ -53,13 +54,16 @@ func runFigures(e *env, args []string) error {
 	if len(claims) > 0 && *asCSV {
 		return usagef("--csv prints figures, not the verdicts of --claim")
 	}
-	if len(claims) == 0 && (*angle != 0 || *strict) {
-		return usagef("--angle and --strict go with --claim")
+	if len(claims) == 0 && (*angle != 0 || *strict || *deltaE != "") {
+		return usagef("--angle, --strict and --delta-e go with --claim")
 	}
 	if len(claims) > 0 {
 		b := claimBasis(fs, &c, *angle)
 		for i := range claims {
 			claims[i].Basis = b
+			if len(claims[i].Values) == 3 {
+				claims[i].DeltaE = *deltaE
+			}
 			if err := claims[i].Validate(); err != nil {
 				return usagef("--claim %v", err)
 			}
@@ -143,6 +147,7 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 		fmt.Fprintf(tw, "%s\t%s\t%s\n", x.BandText(), x.Weighting, fmtPercent(x.Coverage))
 	}
 	tw.Flush()
+	printColor(w, f.Color)
 	cl := f.Closure
 	fmt.Fprintln(w)
 	switch {
@@ -180,6 +185,20 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 		fmt.Fprintln(w, "\nCautions:")
 		for _, x := range f.Cautions {
 			fmt.Fprintf(w, "  - %s\n", x)
+		}
+	}
+}
+
+// printColor writes the screen colour of the reflectance (and of the
+// transmittance) with its note, or why there is none.
+func printColor(w io.Writer, c datasheet.Colors) {
+	for _, x := range []*datasheet.Color{&c.Reflectance, c.Transmittance} {
+		switch {
+		case x == nil:
+		case x.Reason != "":
+			fmt.Fprintf(w, "\nColour of the %s: n/a, %s.\n", x.Of, x.Reason)
+		default:
+			fmt.Fprintf(w, "\nColour of the %s on screen: sRGB %s. %s\n", x.Of, x.SRGB, x.Note)
 		}
 	}
 }
@@ -271,6 +290,9 @@ func fmtEnergy(v datasheet.Num) string {
 // writes it for a reader (a temperature difference as where the surface
 // settles).
 func fmtFigure(x datasheet.Figure, v datasheet.Num) string {
+	if x.Components != nil {
+		return x.Text()
+	}
 	return x.Kind().Words(float64(v), x.Unit)
 }
 

@@ -47,6 +47,16 @@ type figRow struct {
 	Claims   []claimRef // claims of this figure
 }
 
+// colorView is the colour of a material's reflectance or transmittance
+// for the datasheet: a swatch and its figures, or why there is none.
+type colorView struct {
+	Title  string // "Colour", "Transmitted colour"
+	Hex    string // sRGB "#rrggbb"; "" when there is no colour
+	Values string // "L* 52.10, a* 24.31, b* 18.02 · x 0.4123, y 0.3567 · luminous reflectance 0.212"
+	Note   string // the screen note, or why there is no colour
+	Claims []claimRef
+}
+
 type spectrumRow struct{ File, Role, Instrument, Notes string }
 
 type closureView struct {
@@ -65,6 +75,7 @@ type materialView struct {
 	Category                                               link
 	Tags                                                   []link
 	Key                                                    []keyFig
+	Colors                                                 []colorView
 	Figures                                                []figRow
 	HasUnc                                                 bool
 	Claims                                                 []claimView
@@ -81,7 +92,27 @@ type materialView struct {
 	Downloads                                              []link
 	Cautions                                               []string
 	Comparisons                                            []link
+	Stack                                                  *stackView // a stack's layers; nil for a measured material
 }
+
+// stackView is a stack's layers and its emitter with and without the
+// layers above it.
+type stackView struct {
+	Layers []layerRow
+	Cover  []coverRow
+	HEff   string // h_eff and h, in words
+}
+
+type layerRow struct {
+	N                                 int
+	Name, Href                        string
+	Thickness, Conductivity, Absorbed string
+	R, T, Eps                         string
+}
+
+// coverRow is one cooling figure of the bottom layer under the layers
+// above it and alone.
+type coverRow struct{ Label, With, Without string }
 
 // column is a column of a material table.
 type column struct {
@@ -193,6 +224,12 @@ func fmtNumber(k datasheet.Kind, v datasheet.Num, unit string) string {
 // fmtFigure formats a figure's value in its unit (see fmtNumber); a
 // temperature difference in words, as where the surface settles.
 func fmtFigure(x datasheet.Figure) string {
+	if x.Components != nil {
+		if isNaN(x.Value) {
+			return "—"
+		}
+		return x.Text()
+	}
 	if k := x.Kind(); k == datasheet.KindTemperatureDifference && !isNaN(x.Value) {
 		return k.Words(float64(x.Value), x.Unit)
 	}
