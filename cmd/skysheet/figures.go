@@ -17,8 +17,8 @@ import (
 func init() {
 	register(&command{
 		name:    "figures",
-		args:    "FILE...",
-		summary: "compute solar and thermal figures of one sample from its spectrum files",
+		args:    "FILE... | --stack LAYER,LAYER...",
+		summary: "compute solar and thermal figures of one sample from its spectrum files, or of a stack of layers",
 		run:     runFigures,
 	})
 }
@@ -40,11 +40,23 @@ func runFigures(e *env, args []string) error {
 	deltaE := fs.String("delta-e", "", "with --claim of color_lab: the colour difference it is judged by, cie76 (CIE 1976 ΔE*ab, the default) or ciede2000")
 	angle := fs.Float64("angle", 0, "with --claim: the angle of incidence the claim is stated at, degrees")
 	strict := fs.Bool("strict", false, "with --claim: also fail when a claim cannot be checked")
+	stackSpec := fs.String("stack", "", "compute a stack of layers instead of one sample: `LAYER,LAYER...` top first, each layer FILE[+FILE...] with optionally @MM:K, its thickness in mm and conductivity in W m⁻¹ K⁻¹ (e.g. cover.csv@3:0.04,emitter-uv.csv+emitter-ir.csv)")
 	files, err := parseFlags(fs, args)
 	if err != nil {
 		return err
 	}
-	if len(files) == 0 {
+	var stack []stackLayer
+	if *stackSpec != "" {
+		if len(files) > 0 {
+			return usagef("--stack names the files of every layer: give no other files")
+		}
+		if len(claims) > 0 {
+			return usagef("--claim does not go with --stack; put the stack in a library to judge its claims")
+		}
+		if stack, err = parseStack(*stackSpec); err != nil {
+			return usagef("%v", err)
+		}
+	} else if len(files) == 0 {
 		return usagef("no spectrum files given")
 	}
 	if len(claims) == 0 && (*angle != 0 || *strict || *deltaE != "") {
@@ -79,6 +91,9 @@ func runFigures(e *env, args []string) error {
 	}
 	if err := validateSample(so); err != nil {
 		return err
+	}
+	if stack != nil {
+		return runStack(e, stack, so, c, *save, *asJSON)
 	}
 	s, err := readSample(files, so)
 	if err != nil {
@@ -153,6 +168,9 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	}
 	printSplices(w, f.Splices)
 	printCooling(w, f)
+	if f.Stack != nil {
+		printStack(w, f.Stack, f)
+	}
 	printSeries(w, f.Weather)
 	fmt.Fprintln(w, "\nAssumptions:")
 	for _, a := range f.Assumptions {

@@ -168,6 +168,134 @@ func stackViewOf(f *datasheet.Figures, root string) *stackView {
 	return v
 }
 
+// referenceOf lays out the differences of each of ms from comparison c's
+// reference, as textiles: optics, UV and, over c's skin, the heat reaching
+// the skin and the fabric's temperature, by day and by night.
+func referenceOf(c *library.Comparison, ms []*evaluate.Summary, root string) *referenceView {
+	v := &referenceView{Name: c.Reference.Front.Title, Cautions: WornCautions}
+	var ref *evaluate.Summary
+	for _, m := range ms {
+		if m.Slug == c.Reference.Slug {
+			ref = m
+		}
+	}
+	if c.Skin != nil {
+		v.Skin, v.SkinHref = c.Skin.Front.Title, root+materialDir(c.Skin.Slug)+"index.html"
+	}
+	nan := datasheet.Num(math.NaN())
+	type getter func(m *evaluate.Summary) datasheet.Num
+	worn := func(m *evaluate.Summary) *evaluate.Worn {
+		if m == nil {
+			return nil
+		}
+		return m.Worn[c.Slug]
+	}
+	balance := func(day bool, pick func(*datasheet.SkinBalance) float64) getter {
+		return func(m *evaluate.Summary) datasheet.Num {
+			w := worn(m)
+			if w == nil {
+				return nan
+			}
+			b := w.Night
+			if day {
+				b = w.Day
+			}
+			if b == nil {
+				return nan
+			}
+			return datasheet.Num(pick(b))
+		}
+	}
+	gain := func(b *datasheet.SkinBalance) float64 { return b.SkinGainWm2 }
+	fabricC := func(b *datasheet.SkinBalance) float64 { return b.FabricK - 273.15 }
+	fig := func(key string) getter {
+		return func(m *evaluate.Summary) datasheet.Num { return figureOf(m.Figures, key).Value }
+	}
+	rows := []struct {
+		label  string
+		get    getter
+		digits int
+		unit   string
+		skin   bool
+	}{
+		{"Solar reflectance", fig("solar_reflectance"), 3, "", false},
+		{"Solar transmittance", fig("solar_transmittance"), 3, "", false},
+		{"UV transmittance, erythemally weighted", func(m *evaluate.Summary) datasheet.Num {
+			if w := worn(m); w != nil {
+				return w.UV.Transmittance
+			}
+			return nan
+		}, 3, "", false},
+		{"Window emittance", fig("window_emittance"), 3, "", false},
+		{"Heat reaching the skin, sun", balance(true, gain), 0, "W/m²", true},
+		{"Heat reaching the skin, night", balance(false, gain), 0, "W/m²", true},
+		{"Fabric temperature, sun", balance(true, fabricC), 1, "°C", true},
+		{"Fabric temperature, night", balance(false, fabricC), 1, "°C", true},
+	}
+	num := func(x datasheet.Num, digits int, unit string, sign bool) string {
+		if isNaN(x) {
+			return "—"
+		}
+		f := "%." + strconv.Itoa(digits) + "f"
+		if sign {
+			f = "%+." + strconv.Itoa(digits) + "f"
+		}
+		s := strings.Replace(fmt.Sprintf(f, float64(x)), "-", "−", 1)
+		if unit != "" {
+			s += " " + unit
+		}
+		return s
+	}
+	for _, r := range rows {
+		if r.skin && c.Skin == nil {
+			continue
+		}
+		row := referenceRow{Label: r.label}
+		rv := nan
+		if ref != nil {
+			rv = r.get(ref)
+		}
+		for _, m := range ms {
+			x := r.get(m)
+			cell := referenceCell{Value: num(x, r.digits, r.unit, false)}
+			switch {
+			case m == ref:
+				cell.Diff = "reference"
+			case !isNaN(x) && !isNaN(rv):
+				cell.Diff = "Δ " + num(x-rv, r.digits, r.unit, true)
+			}
+			row.Cells = append(row.Cells, cell)
+		}
+		v.Rows = append(v.Rows, row)
+	}
+	// The UV protection factor it implies, 1/T_ery.
+	uvf := referenceRow{Label: "UV protection factor implied, 1/T_ery"}
+	for _, m := range ms {
+		cell := referenceCell{Value: "—"}
+		if w := worn(m); w != nil {
+			switch {
+			case w.UV.AboveCap:
+				cell.Value = "above 1000"
+			case !isNaN(w.UV.Factor):
+				cell.Value = strconv.FormatFloat(float64(w.UV.Factor), 'f', 0, 64)
+			}
+		}
+		uvf.Cells = append(uvf.Cells, cell)
+	}
+	v.Rows = append(v.Rows[:3], append([]referenceRow{uvf}, v.Rows[3:]...)...)
+	for _, m := range ms {
+		if w := worn(m); w != nil {
+			if w.Problem != "" {
+				v.Problems = append(v.Problems, m.Front.Title+": "+w.Problem)
+			}
+			if w.Day != nil && v.Setting == nil {
+				v.Setting = w.Setting.Assumptions()
+			}
+		}
+	}
+	return v
+}
+
 // keyCard returns the headline card of figure key of f: its value and
 // unit, its standard uncertainty (± in the value's unit) at the head of
 // the note when it has one; or "n/a" with the reason where it has no
@@ -437,6 +565,9 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 		cond.Cells = append(cond.Cells, fmt.Sprintf("%s, %s; %s at %s", cc.Text("solar_band_nm"), cc.SolarSpectrum, cc.Text("thermal_band_um"), cc.Text("temperature_k")))
 	}
 	v.Rows = append(v.Rows, cond)
+	if c.Reference != nil {
+		v.Reference = referenceOf(c, ms, p.Root)
+	}
 	p.C = v
 	html, err := b.execute("compare", p)
 	if err != nil {
@@ -533,6 +664,7 @@ type catalogCompare struct {
 	Page      string   `json:"page"`
 	Materials []string `json:"materials"`
 	Reference string   `json:"reference,omitempty"` // slug of the material the others are compared with
+	Skin      string   `json:"skin,omitempty"`      // slug of the skin-like surface they are worn over
 }
 
 // CatalogSchema is the version of catalog.json. Keys are only added.
@@ -573,6 +705,9 @@ func (b *builder) catalog(ms []*evaluate.Summary) ([]byte, error) {
 		}
 		if x.Reference != nil {
 			cc.Reference = x.Reference.Slug
+		}
+		if x.Skin != nil {
+			cc.Skin = x.Skin.Slug
 		}
 		c.Comparisons = append(c.Comparisons, cc)
 	}

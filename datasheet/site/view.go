@@ -171,6 +171,33 @@ type compareView struct {
 	Columns        []compareCol
 	Rows           []compareRow
 	Cautions       []string
+	Reference      *referenceView // nil when the page names no reference
+}
+
+// referenceView is each material's differences from the page's reference
+// material, as textiles.
+type referenceView struct {
+	Name, Skin, SkinHref string
+	Rows                 []referenceRow
+	Setting              []string // the skin balance's assumptions
+	Problems             []string // why a material has no skin figures
+	Cautions             []string
+}
+
+type referenceRow struct {
+	Label string
+	Cells []referenceCell
+}
+
+// referenceCell is a value and its difference from the reference's ("" in
+// the reference's own column).
+type referenceCell struct{ Value, Diff string }
+
+// WornCautions are printed on a comparison page with a reference.
+var WornCautions = []string{
+	"These figures compare fabrics under one stated scene from their spectra. They are no substitute for thermal-comfort testing or UV-protection testing, and they do not predict how anyone feels.",
+	"People in heat need shade, water and rest, whatever they wear. Follow local heat-health guidance.",
+	"The UV figure is an erythemally weighted estimate on the ASTM G173 global tilt spectrum, not the solar spectrum the textile UV-protection standards use: it is not a rating.",
 }
 
 // Cautions are printed on every datasheet and comparison.
