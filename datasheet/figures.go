@@ -6,6 +6,7 @@ import (
 	"math"
 	"slices"
 	"strconv"
+	"strings"
 
 	"skysheet/spectra"
 )
@@ -111,6 +112,33 @@ type ClosureReport struct {
 	Problems   []string `json:"problems"`
 }
 
+// Origins says how each of R, T and A behind the figures was obtained:
+// "measured", "derived" (1 minus the other two), "assumed 0" (transmittance
+// not measured, the sample taken as opaque), or several joined by "and"
+// when they differ over the range.
+type Origins struct {
+	R string `json:"R"`
+	T string `json:"T"`
+	A string `json:"A"`
+}
+
+// Text says the origins in one line, e.g. "R measured; T derived as
+// 1 − R − A; A measured".
+func (o Origins) Text() string {
+	var parts []string
+	for _, x := range []struct{ q, v, rest string }{{"R", o.R, "T − A"}, {"T", o.T, "R − A"}, {"A", o.A, "R − T"}} {
+		if x.v == "" {
+			continue
+		}
+		w := x.q + " " + x.v
+		if strings.Contains(x.v, "derived") {
+			w = strings.Replace(w, "derived", "derived as "+x.q+" = 1 − "+x.rest, 1)
+		}
+		parts = append(parts, w)
+	}
+	return strings.Join(parts, "; ")
+}
+
 // Figures is everything computed for one sample. Its JSON form is the schema
 // printed by "skysheet figures --json" and written as figures.json.
 type Figures struct {
@@ -127,6 +155,7 @@ type Figures struct {
 	WindowEmittance    Num           `json:"window_emittance"`
 	WindowCoverage     Num           `json:"window_coverage"`
 	Closure            ClosureReport `json:"closure"`
+	Origins            Origins       `json:"origins"`
 	Assumptions        []string      `json:"assumptions"`
 	Conditions         Conditions    `json:"conditions"`
 	Figures            []Figure      `json:"figures"`
@@ -251,6 +280,7 @@ func computeOptics(o spectra.Optics, c Conditions) (*Figures, map[string]gradien
 	f.WindowEmittance, f.WindowCoverage = Num(we.Value), Num(we.Coverage)
 
 	cl := o.Closure
+	f.Origins = Origins{R: o.Origin[spectra.R].String(), T: o.Origin[spectra.T].String(), A: o.Origin[spectra.A].String()}
 	f.Closure = ClosureReport{OK: cl.OK(), Tolerance: cl.Tolerance, Checked: cl.Checked,
 		Residual: cl.Residual, ResidualNM: cl.ResidualNM, Excess: cl.Excess, ExcessNM: cl.ExcessNM,
 		Min: cl.Min, MinNM: cl.MinNM, MinOf: cl.MinOf.String(), Problems: cl.Problems}

@@ -120,6 +120,9 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	default:
 		fmt.Fprintf(w, "Closure: R, T and A were not all measured; R+T ≤ 1 and no negative values, tolerance %g\n", cl.Tolerance)
 	}
+	if o := f.Origins.Text(); o != "" {
+		fmt.Fprintf(w, "R, T and A: %s\n", o)
+	}
 	printSplices(w, f.Splices)
 	printCooling(w, f)
 	fmt.Fprintln(w, "\nAssumptions:")

@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -164,5 +165,27 @@ func TestFiguresHumanOutput(t *testing.T) {
 		if !strings.Contains(out, want) {
 			t.Errorf("human output lacks %q", want)
 		}
+	}
+}
+
+// TestFiguresOrigins checks that figures says which of R, T and A was
+// derived, in the table and in JSON: a file with R and A has T = 1 − R − A.
+func TestFiguresOrigins(t *testing.T) {
+	file := writeFile(t, "ra.csv", "wavelength_nm,R,A\n250,0.05,0.10\n30000,0.05,0.10\n")
+	code, out, errs := runCLI("figures", file)
+	if code != 0 || !strings.Contains(out, "R, T and A: R measured; T derived as T = 1 − R − A; A measured") {
+		t.Errorf("exit %d\n%s%s", code, out, errs)
+	}
+	code, out, errs = runCLI("figures", "--json", file)
+	var f struct {
+		Origins          map[string]string `json:"origins"`
+		SolarAbsorptance float64           `json:"solar_absorptance"`
+	}
+	if err := json.Unmarshal([]byte(out), &f); code != 0 || err != nil {
+		t.Fatalf("exit %d, %v\n%s", code, err, errs)
+	}
+	// R + T + A = 1: α is the stated A, 0.10, not 1 − R = 0.95.
+	if f.Origins["T"] != "derived" || math.Abs(f.SolarAbsorptance-0.10) > 1e-9 {
+		t.Errorf("origins %v, α %g", f.Origins, f.SolarAbsorptance)
 	}
 }

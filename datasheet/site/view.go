@@ -53,6 +53,7 @@ type closureView struct {
 	OK       bool
 	Summary  string
 	Problems []string
+	Origins  string // how R, T and A were obtained
 }
 
 type chartView struct {
@@ -250,7 +251,7 @@ func conditionPairs(c datasheet.Conditions) []pair {
 // closureOf describes the closure check as the CLI does.
 func closureOf(f *datasheet.Figures) closureView {
 	cl := f.Closure
-	v := closureView{OK: cl.OK, Problems: cl.Problems}
+	v := closureView{OK: cl.OK, Problems: cl.Problems, Origins: f.Origins.Text()}
 	switch {
 	case !cl.OK:
 		v.Summary = fmt.Sprintf("fails (tolerance %g).", cl.Tolerance)
