@@ -156,9 +156,13 @@ type Figures struct {
 	WindowCoverage     Num           `json:"window_coverage"`
 	Closure            ClosureReport `json:"closure"`
 	Origins            Origins       `json:"origins"`
-	Assumptions        []string      `json:"assumptions"`
-	Conditions         Conditions    `json:"conditions"`
-	Figures            []Figure      `json:"figures"`
+	// Warnings are the readers' plausibility warnings about the input
+	// files (a percent column holding fractions, an axis in the wrong
+	// unit), one sentence each naming the file; empty when none.
+	Warnings    []string   `json:"warnings"`
+	Assumptions []string   `json:"assumptions"`
+	Conditions  Conditions `json:"conditions"`
+	Figures     []Figure   `json:"figures"`
 	// Splices lists every junction where two instruments' data were
 	// spliced, with the mismatch found there; empty when none.
 	Splices []spectra.SpliceRecord `json:"splices"`
@@ -217,6 +221,7 @@ func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, err
 	m := &cooling{c: c, sky: sky, sun: sun, g: newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK)}
 	f, grads, used := computeOptics(o, c)
 	f.Splices = append([]spectra.SpliceRecord{}, s.Splices...)
+	f.Warnings = append([]string{}, s.Warnings...)
 	m.addCooling(f, o, grads, true)
 	addSRI(f, grads)
 	eval := func(o spectra.Optics, lin func(string) float64) map[string]float64 {

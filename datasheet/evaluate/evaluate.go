@@ -25,8 +25,8 @@ type Summary struct {
 	// order read, then a spectral sky file.
 	Inputs []library.Input
 	// Warnings are sentences about the data that a reader should notice
-	// but that do not stop the page, such as a splice whose mismatch
-	// exceeds its tolerance.
+	// but that do not stop the page: the readers' plausibility warnings,
+	// then each splice whose mismatch exceeds its tolerance.
 	Warnings []string
 }
 
@@ -175,7 +175,7 @@ func evaluate(lib *library.Library, lm *library.Material) (*Material, error) {
 
 // warnings returns the warnings about the data behind figures f.
 func warnings(f *datasheet.Figures) []string {
-	var out []string
+	out := append([]string(nil), f.Warnings...)
 	for _, r := range f.Splices {
 		if r.Flagged {
 			out = append(out, fmt.Sprintf("The splice of %s at %s nm leaves a mean mismatch of %.4f before correction, above %g.",

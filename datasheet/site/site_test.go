@@ -327,3 +327,26 @@ func TestUncertaintyWords(t *testing.T) {
 		t.Error("the explanation is not reachable, or the old wording remains")
 	}
 }
+
+// TestDataWarnings checks that the readers' plausibility warnings are on
+// the datasheet, naming the file.
+func TestDataWarnings(t *testing.T) {
+	fsys := fstest.MapFS{
+		"skysheet.yaml": {Data: []byte("title: Warnings (invented)\n")},
+		"content/w.md":  {Data: []byte("---\ntitle: Mislabelled (invented)\nmaker: Test maker (invented)\nspectra: [{file: uv.csv}]\n---\n")},
+		// Fractions under a percent header.
+		"content/uv.csv": {Data: []byte("wavelength_nm,R (%)\n280,0.9\n2500,0.9\n")},
+	}
+	lib, err := library.Load(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	page := string(renderTest(t, lib, Options{})["m/w/index.html"])
+	if !regexp.MustCompile(`(?s)<div class="data-warnings" role="note".*<li>content/uv.csv: column 2 \(R \(%\)\) is marked as percent but every value is at most 1.05 \(largest 0.9\): fractions in a percent column\?`).MatchString(page) {
+		t.Error("the datasheet does not show the warning")
+	}
+	plain := string(renderTest(t, testLibrary(t), Options{})["m/frostline/index.html"])
+	if plain == "" || strings.Contains(plain, "data-warnings") {
+		t.Error("a warning box without warnings")
+	}
+}

@@ -77,6 +77,7 @@ type materialView struct {
 	Conditions                                             []pair
 	Overridden                                             []string
 	Assumptions                                            []string
+	Warnings                                               []string // about the input data, not errors
 	Closure                                                closureView
 	Charts                                                 []chartView
 	Downloads                                              []link
