@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"regexp"
 	"strings"
 )
 
@@ -112,4 +113,38 @@ func ApplyReference(s, ref *Spectrum) (*Spectrum, error) {
 	}
 	out.Notes = append(out.Notes, note)
 	return out, nil
+}
+
+// relativeRE matches metadata saying that reflectance was measured against
+// a reference standard rather than absolutely: "relative to reference
+// standard RS-0", "relative to a white standard", "relative reflectance".
+var relativeRE = regexp.MustCompile(`(?i)\brelative\s+(to\s+(an?\s+|the\s+)?([\w-]+\s+)?(reference|standard)|reflectance)\b`)
+
+// ReferenceWarning returns a warning, one sentence naming file, when the
+// metadata of s say its reflectance was measured relative to a reference
+// standard ("relative to reference standard RS-0" in a JCAMP-DX sampling
+// procedure, say) but s names no reference file and was not corrected
+// against one: its R is then relative, not absolute, and figures computed
+// from it are off by the standard's own reflectance. It returns "" when
+// s has no reflectance, names a reference or was corrected.
+func ReferenceWarning(s *Spectrum, file string) string {
+	if !s.Has(R) {
+		return ""
+	}
+	if _, ok := referenceFile(s); ok {
+		return ""
+	}
+	if _, done := s.Get(referenceAppliedKey); done {
+		return ""
+	}
+	for _, f := range s.Meta {
+		if strings.HasPrefix(normKey(f.Key), "reference") {
+			continue // a reference's own metadata
+		}
+		if m := relativeRE.FindString(f.Value); m != "" {
+			return fmt.Sprintf("%s: its %s says %q but no reference standard is applied, so R is relative, not absolute; give the standard's calibrated reflectance with --reference FILE or reference_file in the data file",
+				file, f.Key, m)
+		}
+	}
+	return ""
 }

@@ -5,6 +5,7 @@ import (
 	"math"
 	"strings"
 	"testing"
+	"testing/fstest"
 )
 
 func mustParse(t *testing.T, name, in string) *Spectrum {
@@ -94,5 +95,57 @@ func TestApplyReferenceErrors(t *testing.T) {
 				t.Errorf("err = %v, want %v", err, tt.err)
 			}
 		})
+	}
+}
+
+func TestReferenceWarning(t *testing.T) {
+	const data = "wavelength_nm,R\n400,0.5\n500,0.6\n"
+	for _, tt := range []struct {
+		name, meta string
+		warn       bool
+	}{
+		{"relative to a named standard", "# sampling procedure: hemispherical reflectance, 8 deg, relative to reference standard RS-0\n", true},
+		{"relative to a white standard", "# method: relative to a white standard\n", true},
+		{"relative reflectance", "# y units: Relative Reflectance\n", true},
+		{"absolute", "# sampling procedure: absolute hemispherical reflectance\n", false},
+		{"reference named", "# sampling procedure: relative to reference standard RS-0\n# reference_file: ref.csv\n", false},
+		{"already corrected", "# sampling procedure: relative to reference standard RS-0\n# reference_applied: ref.csv\n", false},
+		{"the reference's own metadata", "# reference sampling procedure: relative to a primary standard\n", false},
+		{"no metadata", "", false},
+	} {
+		s, err := Parse(strings.NewReader(tt.meta+data), "s.csv")
+		if err != nil {
+			t.Fatalf("%s: %v", tt.name, err)
+		}
+		w := ReferenceWarning(s, "s.csv")
+		if (w != "") != tt.warn {
+			t.Errorf("%s: warning %q, want one: %v", tt.name, w, tt.warn)
+		}
+		if w != "" && !strings.HasPrefix(w, "s.csv: ") {
+			t.Errorf("%s: warning %q does not name the file", tt.name, w)
+		}
+	}
+}
+
+// TestReadSampleReferenceWarning checks that ReadSample warns about a file
+// measured relative to a standard only when no standard is applied to it.
+func TestReadSampleReferenceWarning(t *testing.T) {
+	fsys := fstest.MapFS{
+		"s.csv":   {Data: []byte("# sampling procedure: relative to reference standard RS-0\nwavelength_nm,R\n400,0.5\n500,0.6\n")},
+		"ref.csv": {Data: []byte("wavelength_nm,R\n300,0.98\n600,0.98\n")},
+	}
+	s, err := ReadSample(fsys, []string{"s.csv"}, SampleOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(s.Warnings) != 1 || !strings.Contains(s.Warnings[0], "relative to reference standard") {
+		t.Errorf("without a reference: warnings %q, want one about the reference standard", s.Warnings)
+	}
+	s, err = ReadSample(fsys, []string{"s.csv"}, SampleOptions{Reference: "ref.csv"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(s.Warnings) != 0 {
+		t.Errorf("with a reference: warnings %q, want none", s.Warnings)
 	}
 }

@@ -118,6 +118,9 @@ func withReference(s *Spectrum, name, def string, resolve func(file, ref string)
 		ref = p
 	}
 	if ref == "" {
+		if w := ReferenceWarning(s, name); w != "" {
+			s.Warnings = append(s.Warnings, w)
+		}
 		return s, nil
 	}
 	r, ok := refs[ref]

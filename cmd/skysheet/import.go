@@ -53,6 +53,9 @@ func runImport(e *env, args []string) error {
 			return err
 		}
 		keepReferencePath(specs[i], in, *dir)
+		if w := spectra.ReferenceWarning(specs[i], in); w != "" {
+			specs[i].Warnings = append(specs[i].Warnings, w)
+		}
 	}
 	if err := os.MkdirAll(*dir, 0o755); err != nil {
 		return err

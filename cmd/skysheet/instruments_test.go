@@ -260,3 +260,31 @@ func TestSpliceCommand(t *testing.T) {
 		t.Errorf("adjust naming no file: exit %d %s", code, errs)
 	}
 }
+
+// TestRelativeWithoutReference checks that files measured relative to a
+// reference standard warn when used or imported without one, and do not
+// when the standard is given.
+func TestRelativeWithoutReference(t *testing.T) {
+	files := []string{demo("uvvis.jdx"), demo("ftir.jdx")}
+	const warning = `its sampling procedure says "relative to reference standard" but no reference standard is applied`
+	code, out, errs := runCLI(append([]string{"figures", "--json"}, files...)...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, f := range files {
+		if !strings.Contains(errs, "warning: "+f+": "+warning) {
+			t.Errorf("no warning for %s in\n%s", f, errs)
+		}
+	}
+	if !strings.Contains(out, `"solar_reflectance": 0.902`) {
+		t.Errorf("relative R: want solar reflectance 0.902… (what the warning is about) in\n%s", out)
+	}
+	code, _, errs = runCLI(append([]string{"figures", "--reference", demo("reference.csv")}, files...)...)
+	if code != 0 || strings.Contains(errs, warning) {
+		t.Errorf("with --reference: exit %d, stderr %s", code, errs)
+	}
+	code, _, errs = runCLI("import", files[0], "-o", t.TempDir())
+	if code != 0 || !strings.Contains(errs, "skysheet import: warning: "+files[0]+": "+warning) {
+		t.Errorf("import: exit %d, stderr %s", code, errs)
+	}
+}

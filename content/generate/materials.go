@@ -18,13 +18,15 @@ const (
 
 // siteConfig is skysheet.yaml: the library's title and default conditions.
 const siteConfig = `# Demo library of skysheet: an invented laboratory, invented makers and invented products.
-# Every spectrum in content/ is synthetic data, not a measurement.
+# Every spectrum in content/ is synthetic data, not a measurement. Like the rest of skysheet,
+# the demo data is released under the MIT licence (LICENSE at the repository root).
 # Regenerate everything with: go run ./content/generate
 title: Quillmere Cool Surfaces Laboratory — spectral library (invented)
 description: >-
   An invented laboratory's library of surfaces for passive radiative cooling: paints, a porous
   polymer coating, a silvered film, a fabric, a selective emitter, glazing and a tile. All makers,
-  products and spectra are invented; the spectra are synthetic data, not measurements.
+  products and spectra are invented; the spectra are synthetic data, not measurements, released
+  with skysheet under the MIT licence.
 site_address: https://library.quillmere.example/
 lab: Quillmere Cool Surfaces Laboratory (invented)
 conditions:
@@ -88,7 +90,8 @@ func materials() []material {
 
 // caution is the closing paragraph every body carries.
 const caution = `**Invented example.** The maker, product and measurements on this page are invented for
-skysheet's demo library; the spectra are synthetic data, not a measurement. The figures are computed
+skysheet's demo library; the spectra are synthetic data, not a measurement, released with skysheet
+under the MIT licence. The figures are computed
 from them and are not a certification: real performance depends on site, weather, soiling and
 ageing, and roofing, building and energy decisions defer to local codes and licensed professionals.`
 
@@ -103,7 +106,7 @@ func bw93() material {
 		title: "Brindlewhite BW-93 acrylic roof white", maker: "Brindlewhite Paints (invented)",
 		productCode: "BW-93", category: "paint", tags: []string{"white", "acrylic", "titania", "roof"},
 		summary: "Rutile-pigmented acrylic roof white, 300 µm dry film on primed steel (invented product, synthetic spectra).",
-		license: "CC-BY-4.0",
+		license: "MIT",
 		files:   []fileSpec{uv, ir},
 		measured: measured{date: "2026-03-12", instrument: bothInstr, angle: "8°", reference: bothRefs, operator: operator,
 			notes: "Panel 3 of 5, cured 7 days at 23 °C and 50 % RH before measuring. " + "Synthetic data, not a measurement."},
@@ -141,7 +144,7 @@ func bw93Aged() material {
 		title: "Brindlewhite BW-93 after 12 months outdoors", maker: "Brindlewhite Paints (invented)", lab: labName,
 		productCode: "BW-93", category: "paint", tags: []string{"white", "acrylic", "titania", "roof", "aged"},
 		summary: "The BW-93 panel after a year on an invented exposure rack: soiled, slightly chalked (synthetic spectra).",
-		license: "CC-BY-4.0",
+		license: "MIT",
 		files:   []fileSpec{uv},
 		measured: measured{date: "2027-03-15", instrument: uvInstrument, angle: "8°", reference: whiteRef, operator: operator,
 			notes: "Measured as received from the rack, not washed. Only the UV-Vis-NIR range was re-measured. " + "Synthetic data, not a measurement."},
@@ -184,7 +187,7 @@ func bx7() material {
 		title: "Vellicor BX-7 barium-white acrylic", maker: "Vellicor Coatings (invented)",
 		productCode: "BX-7", category: "paint", tags: []string{"white", "acrylic", "barium-sulfate", "roof", "high-uv"},
 		summary: "Highly loaded barium-sulfate white in acrylic, 400 µm film: high UV reflectance (invented product, synthetic spectra).",
-		license: "CC-BY-4.0",
+		license: "MIT",
 		files:   []fileSpec{uv, ir},
 		measured: measured{date: "2026-04-02", instrument: bothInstr, angle: "8°", reference: bothRefs, operator: operator,
 			notes: "Drawdown on primed steel, 400 µm dry. UV-Vis-NIR file exported in percent. " + "Synthetic data, not a measurement."},
@@ -229,7 +232,7 @@ func dg40() material {
 		title: "Dunmarle DG-40 dark grey roof coating", maker: "Dunmarle Roofing (invented)",
 		productCode: "DG-40", category: "paint", tags: []string{"dark", "acrylic", "carbon-black", "roof", "reference"},
 		summary: "Conventional carbon-black acrylic roof coating, kept as the dark reference (invented product, synthetic spectra).",
-		license: "CC0-1.0",
+		license: "MIT",
 		files:   []fileSpec{uvFile("Dunmarle DG-40 reference panel", "2026-03-20", "R"), ir},
 		measured: measured{date: "2026-03-20", instrument: bothInstr, angle: "8°", reference: bothRefs, operator: operator,
 			notes: "FTIR file exported semicolon-separated with decimal commas. " + "Synthetic data, not a measurement."},
@@ -265,7 +268,7 @@ func px2() material {
 		title: "Tarnwick PX-2 porous polymer coating", maker: "Tarnwick Polymers (invented)",
 		productCode: "PX-2", category: "coating", tags: []string{"white", "porous", "fluoropolymer", "roof", "high-uv"},
 		summary: "Fluorinated polymer coating with ~50 % air voids, 450 µm; no pigment (invented product, synthetic spectra).",
-		license: "CC-BY-4.0",
+		license: "MIT",
 		files: []fileSpec{
 			uvFile("Tarnwick PX-2 coupon 7", "2026-05-06", "R"),
 			irWavenumber("Tarnwick PX-2 coupon 7", "2026-05-06", "R"),
@@ -312,7 +315,7 @@ func sf50() material {
 		title: "Lumaris SF-50 silvered polyester film", maker: "Lumaris Films (invented)",
 		productCode: "SF-50", category: "film", tags: []string{"film", "polyester", "silver", "metal-backed"},
 		summary: "50 µm polyester film with a silver back mirror, laminated face up (invented product, synthetic spectra).",
-		license: "CC-BY-4.0",
+		license: "MIT",
 		files:   []fileSpec{uv, ir},
 		measured: measured{date: "2026-06-10", instrument: bothInstr, angle: "8°", reference: bothRefs, operator: operator,
 			notes: "Polymer side towards the beam. Transmittance measured and found zero within noise. " + "Synthetic data, not a measurement."},
@@ -346,7 +349,7 @@ func kw21() material {
 		title: "Kestrelweave KW-21 white canopy fabric", maker: "Kestrelweave Textiles (invented)",
 		productCode: "KW-21", category: "fabric", tags: []string{"fabric", "polyester", "woven", "shade", "translucent"},
 		summary: "Woven white polyester canopy fabric, 0.35 mm, for shade structures (invented product, synthetic spectra).",
-		license: "CC-BY-4.0",
+		license: "MIT",
 		files:   []fileSpec{uv, ir},
 		measured: measured{date: "2026-07-01", instrument: bothInstr, angle: "8°", reference: bothRefs, operator: operator,
 			notes: "Swatch held flat in a frame; reflectance with a light trap behind, transmittance at the sphere entrance. " + "Synthetic data, not a measurement."},
@@ -385,7 +388,7 @@ func qlse3() material {
 		title: "QL-SE3 window-selective emitter (lab prototype)", lab: labName,
 		productCode: "QL-SE3", category: "emitter", tags: []string{"selective", "multilayer", "silver", "metal-backed", "prototype"},
 		summary: "Oxide-like and nitride-like layers on silver that emit mainly in the 8–13 µm window (invented prototype, synthetic spectra).",
-		license: "CC-BY-4.0",
+		license: "MIT",
 		files:   []fileSpec{uvFile("QL-SE3 wafer 2", "2026-08-18", "R"), ir},
 		measured: measured{date: "2026-08-18", instrument: bothInstr, angle: "8°", reference: bothRefs, operator: operator,
 			notes: "FTIR file carries a per-point standard uncertainty u_R; the detector is noisier beyond 18 µm. " + "Synthetic data, not a measurement."},
@@ -425,7 +428,7 @@ func cl4() material {
 		title: "Vitrelle CL-4 clear float pane, 4 mm", maker: "Vitrelle Glassworks (invented)",
 		productCode: "CL-4", category: "glazing", tags: []string{"glass", "transparent", "soda-lime", "reference"},
 		summary:    "4 mm clear soda-lime float glass; reflectance, transmittance and absorptance all measured (invented product, synthetic spectra).",
-		license:    "CC-BY-4.0",
+		license:    "MIT",
 		files:      []fileSpec{uv, ir},
 		closureTol: 0.01,
 		measured: measured{date: "2026-02-24", instrument: bothInstr, angle: "8°", reference: bothRefs, operator: operator,
@@ -470,7 +473,7 @@ func atw() material {
 		title: "Ashfenn AT-W glazed white roof tile", maker: "Ashfenn Ceramics (invented)",
 		productCode: "AT-W", category: "tile", tags: []string{"ceramic", "glazed", "white", "roof"},
 		summary: "Clay roof tile with a zircon-opacified white glaze; FTIR data stop at 20 µm (invented product, synthetic spectra).",
-		license: "CC-BY-4.0",
+		license: "MIT",
 		files:   []fileSpec{uv, ir},
 		measured: measured{date: "2026-09-14", instrument: bothInstr, angle: "8°", reference: bothRefs, operator: operator,
 			notes: "UV-Vis-NIR file exported tab-separated, in percent, with decimal commas. FTIR range 2.5–20 µm only. " + "Synthetic data, not a measurement."},

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"slices"
 	"strconv"
 	"sync"
 
@@ -147,7 +148,7 @@ func Sample(s *spectra.Spectrum, c datasheet.Conditions) (*Material, error) {
 	}
 	m := &Material{Sample: s, Optics: o}
 	m.Solar, m.Thermal = c.Weightings()
-	m.Figures, m.Verdicts, m.Warnings = f, []datasheet.Verdict{}, warnings(f)
+	m.Figures, m.Verdicts, m.Warnings = f, []datasheet.Verdict{}, append(slices.Clip(s.Warnings), warnings(f)...)
 	for _, in := range s.Inputs {
 		m.Inputs = append(m.Inputs, library.Input{Path: in.Name, SHA256: in.SHA256})
 	}
@@ -166,16 +167,17 @@ func evaluate(lib *library.Library, lm *library.Material) (*Material, error) {
 	if err != nil {
 		return nil, &library.Error{File: lm.Path, Err: fmt.Errorf("%w: %w", library.ErrConditions, err)}
 	}
-	m := &Material{Summary: Summary{Material: lm, Figures: f, Inputs: inputs, Warnings: warnings(f)}, Sample: s, Optics: o}
+	m := &Material{Summary: Summary{Material: lm, Figures: f, Inputs: inputs, Warnings: append(slices.Clip(s.Warnings), warnings(f)...)}, Sample: s, Optics: o}
 	m.Solar, m.Thermal = c.Weightings()
 	m.Verdicts = datasheet.JudgeAll(lm.Front.Claims, datasheet.JudgeInput{Spectrum: s, Optics: &o, Conditions: c,
 		Figures: f, Angle: lm.Front.Measured.Angle})
 	return m, nil
 }
 
-// warnings returns the warnings about the data behind figures f.
+// warnings returns the warnings about the data behind figures f; the
+// readers' own warnings are the sample's.
 func warnings(f *datasheet.Figures) []string {
-	out := append([]string(nil), f.Warnings...)
+	var out []string
 	for _, r := range f.Splices {
 		if r.Flagged {
 			out = append(out, fmt.Sprintf("The splice of %s at %s nm leaves a mean mismatch of %.4f before correction, above %g.",

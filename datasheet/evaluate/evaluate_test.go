@@ -296,10 +296,24 @@ func TestWarnings(t *testing.T) {
 	}
 }
 
-// TestReaderWarnings checks that the readers' plausibility warnings are
-// warnings of the material, in its figures and its summary, and stop
-// nothing.
+// TestReaderWarnings checks that the readers' warnings about a file, here
+// reflectance relative to a standard with none applied, are the material's.
 func TestReaderWarnings(t *testing.T) {
+	fsys := baseFS()
+	fsys["content/flat/solar.csv"].Data = append([]byte("# sampling procedure: relative to reference standard RS-0\n"), fsys["content/flat/solar.csv"].Data...)
+	ms, err := All(load(t, fsys), Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w := ms[0].Warnings; len(w) != 1 || !strings.Contains(w[0], "content/flat/solar.csv: its sampling procedure says \"relative to reference standard\"") {
+		t.Errorf("warnings %q", w)
+	}
+}
+
+// TestPlausibilityWarnings checks that the readers' plausibility warnings
+// are warnings of the material, in its figures and its summary, and stop
+// nothing.
+func TestPlausibilityWarnings(t *testing.T) {
 	fsys := baseFS()
 	fsys["content/flat/solar.csv"].Data = []byte("wavelength_nm,R (%)\n280,0.9\n2500,0.9\n")
 	ms, err := All(load(t, fsys), Options{})
