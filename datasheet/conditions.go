@@ -9,6 +9,7 @@ import (
 	"strconv"
 	"strings"
 
+	"skysheet/datasheet/weather"
 	"skysheet/spectra"
 )
 
@@ -37,6 +38,10 @@ type Conditions struct {
 	HWm2K         float64          // h_w_m2k
 	ExchangeBand  spectra.Interval // exchange_band_um
 	Sky           SkyChoice        // sky
+
+	// Weather names an hourly weather series to run the hourly model
+	// over (docs/cooling.md, "Over a weather series"); none by default.
+	Weather WeatherChoice // weather
 }
 
 // DefaultConditions returns the defaults: solar 280–2500 nm under the ASTM
@@ -150,6 +155,41 @@ func (s *SkyChoice) UnmarshalText(b []byte) error {
 	return nil
 }
 
+// WeatherChoice names the hourly weather series of the conditions, if any.
+// Its text form is the file's name, or "none".
+type WeatherChoice struct {
+	// File names the series as written in the conditions; "" for none.
+	File string
+	// Series is the series read; whoever reads the conditions reads the
+	// file.
+	Series *weather.Series
+}
+
+// weatherNoneWords is the text form of no series.
+const weatherNoneWords = "none"
+
+// String returns the file's name or "none".
+func (w WeatherChoice) String() string {
+	if w.File == "" {
+		return weatherNoneWords
+	}
+	return w.File
+}
+
+// MarshalText writes the text form.
+func (w WeatherChoice) MarshalText() ([]byte, error) { return []byte(w.String()), nil }
+
+// UnmarshalText reads "none" (or nothing) as no series and anything else as
+// the name of a series file, whose Series is then still to be read.
+func (w *WeatherChoice) UnmarshalText(b []byte) error {
+	name := strings.TrimSpace(string(b))
+	if name == weatherNoneWords {
+		name = ""
+	}
+	*w = WeatherChoice{File: name}
+	return nil
+}
+
 // condition is one of the conditions; the table conditionTable describes
 // each.
 type condition int
@@ -168,6 +208,7 @@ const (
 	condH
 	condExchangeBand
 	condSky
+	condWeather
 	numConditions
 )
 
@@ -186,6 +227,7 @@ var conditionTable = [numConditions]struct{ key, label, unit string }{
 	condH:             {"h_w_m2k", "Heat-transfer coefficient h", "W m⁻² K⁻¹"},
 	condExchangeBand:  {"exchange_band_um", "Exchange band", "µm"},
 	condSky:           {"sky", "Sky", ""},
+	condWeather:       {"weather", "Weather series", ""},
 }
 
 func (k condition) key() string { return conditionTable[k].key }
@@ -227,6 +269,8 @@ func (k condition) field(c *Conditions) any {
 		return &c.ExchangeBand
 	case condSky:
 		return &c.Sky
+	case condWeather:
+		return &c.Weather
 	}
 	panic("datasheet: unknown condition " + strconv.Itoa(int(k)))
 }
@@ -242,6 +286,8 @@ func (k condition) same(a, b Conditions) bool {
 		return *p == *k.field(&b).(*SolarSpectrum)
 	case *SkyChoice:
 		return *p == *k.field(&b).(*SkyChoice)
+	case *WeatherChoice:
+		return *p == *k.field(&b).(*WeatherChoice)
 	}
 	return false
 }
@@ -261,6 +307,8 @@ func (k condition) text(c Conditions) string {
 	case *SolarSpectrum:
 		return p.Weighting().String()
 	case *SkyChoice:
+		return p.String()
+	case *WeatherChoice:
 		return p.String()
 	}
 	return ""
@@ -295,6 +343,11 @@ func (k condition) words(c Conditions) string {
 		return "h " + k.text(c)
 	case condIrradiance:
 		return "sun " + k.text(c)
+	case condWeather:
+		if c.Weather.File == "" {
+			return ""
+		}
+		return "weather series " + c.Weather.File
 	}
 	return k.key()
 }
@@ -370,6 +423,12 @@ func (c *Conditions) Set(key string, v any) error {
 			return fmt.Errorf("%s: %w: want %q or a file name, found %v", key, ErrConditionType, skyClearWords, quoted(v))
 		}
 		return p.UnmarshalText([]byte(s))
+	case *WeatherChoice:
+		s, ok := v.(string)
+		if !ok {
+			return fmt.Errorf("%s: %w: want a weather series file name or %q, found %v", key, ErrConditionType, weatherNoneWords, quoted(v))
+		}
+		return p.UnmarshalText([]byte(s))
 	}
 	return nil
 }
@@ -397,11 +456,15 @@ func (c Conditions) Text(key string) string {
 	return ""
 }
 
-// List returns every condition of c, in the order of the JSON output.
+// List returns every condition of c, in the order of the JSON output; the
+// weather series only when one is named.
 func (c Conditions) List() []Condition {
-	out := make([]Condition, numConditions)
+	out := make([]Condition, 0, numConditions)
 	for k := range numConditions {
-		out[k] = Condition{Key: k.key(), Label: conditionTable[k].label, Value: k.text(c)}
+		if k == condWeather && c.Weather.File == "" {
+			continue
+		}
+		out = append(out, Condition{Key: k.key(), Label: conditionTable[k].label, Value: k.text(c)})
 	}
 	return out
 }
@@ -490,6 +553,9 @@ func (c Conditions) Validate() error {
 	}
 	if !(c.ClosureTol >= 0) || c.ClosureTol > 1 {
 		return fmt.Errorf("closure tolerance %g: want 0..1", c.ClosureTol)
+	}
+	if c.Weather.File != "" && c.Weather.Series == nil {
+		return fmt.Errorf("weather series %q: the file was not read", c.Weather.File)
 	}
 	return c.validateCooling()
 }

@@ -16,7 +16,7 @@ func TestConditionsJSON(t *testing.T) {
 	// The schema documented in the README (conditions of figures.json).
 	const want = `{"solar_band_nm":[280,2500],"solar_spectrum":"global","thermal_band_um":[2.5,25],` +
 		`"window_band_um":[8,13],"temperature_k":300,"closure_tolerance":0.02,"ambient_k":300,"dew_point_c":10,` +
-		`"irradiance_w_m2":1000,"h_w_m2k":6,"exchange_band_um":[2.5,100],"sky":"clear two-band"}`
+		`"irradiance_w_m2":1000,"h_w_m2k":6,"exchange_band_um":[2.5,100],"sky":"clear two-band","weather":"none"}`
 	c := DefaultConditions()
 	got, err := json.Marshal(c)
 	if err != nil || string(got) != want {
@@ -53,6 +53,7 @@ func TestConditionsSet(t *testing.T) {
 		{"temperature_k", 290},
 		{"solar_spectrum", "direct"},
 		{"sky", "skies/dry.csv"},
+		{"weather", "../weather/site.csv"},
 	} {
 		if err := c.Set(tt.key, tt.v); err != nil {
 			t.Fatalf("Set(%s, %v): %v", tt.key, tt.v, err)
@@ -60,7 +61,7 @@ func TestConditionsSet(t *testing.T) {
 	}
 	if c.ThermalBand != (spectra.Interval{Lo: 8700, Hi: 13100}) || c.SolarBand != (spectra.Interval{Lo: 300, Hi: 2400}) ||
 		c.WindowBand != (spectra.Interval{Lo: 300, Hi: 700}) || c.TemperatureK != 290 || c.SolarSpectrum != SunDirect ||
-		c.Sky.File != "skies/dry.csv" {
+		c.Sky.File != "skies/dry.csv" || c.Weather.File != "../weather/site.csv" {
 		t.Errorf("conditions %+v", c)
 	}
 	if got := c.Text("thermal_band_um"); got != "8.7–13.1 µm" {
@@ -81,6 +82,7 @@ func TestConditionsSet(t *testing.T) {
 		{"thermal_band_um", []any{8}},
 		{"thermal_band_um", "8-13"},
 		{"solar_spectrum", 3.0},
+		{"weather", 1.0},
 	} {
 		if err := c.Set(tt.key, tt.v); !errors.Is(err, ErrConditionType) {
 			t.Errorf("Set(%s, %v) = %v, want ErrConditionType", tt.key, tt.v, err)
@@ -94,5 +96,8 @@ func TestConditionsSet(t *testing.T) {
 	}
 	if err := c.Set("sky", "clear two-band"); err != nil || !c.Sky.Clear() {
 		t.Errorf("clear sky: %+v, %v", c.Sky, err)
+	}
+	if err := c.Set("weather", "none"); err != nil || c.Weather.File != "" {
+		t.Errorf("no weather: %+v, %v", c.Weather, err)
 	}
 }

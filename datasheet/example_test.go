@@ -5,6 +5,7 @@ import (
 	"strings"
 
 	"skysheet/datasheet"
+	"skysheet/datasheet/weather"
 	"skysheet/spectra"
 )
 
@@ -41,4 +42,25 @@ func ExampleClearSky() {
 	// Output:
 	// ε_sky 0.7743, F_w 0.3222, ε_w 0.2994, hemisphere 0.8227, clamped false
 	// dew point −20 °C: ε_w 0, clamped true
+}
+
+// A day of weather: the same flat sample held at the air temperature and
+// left to float, hour by hour.
+func ExampleCompute_weather() {
+	var b strings.Builder
+	b.WriteString("# name: Test roof (invented)\ntime,air temperature (°C),dew point (°C),global horizontal irradiance (W/m²)\n")
+	for h := range 24 {
+		fmt.Fprintf(&b, "2026-07-01T%02d:00:00+02:00,%d,12,0\n", h, 18+h/4)
+	}
+	series, _ := weather.Parse(strings.NewReader(b.String()), "roof.csv")
+	s, _ := spectra.Parse(strings.NewReader("wavelength_um,R\n0.28,0.95\n2.5,0.95\n2.5001,0.04\n25,0.04\n"), "flat.csv")
+	c := datasheet.DefaultConditions()
+	c.Weather = datasheet.WeatherChoice{File: "roof.csv", Series: series}
+	f, _ := datasheet.Compute(s, spectra.Resolve(s, c.ClosureTol), c)
+	w := f.Weather
+	fmt.Printf("%s: %d hours on %d day, %d of them below the air\n", w.Series, w.Hours, len(w.Days), w.HoursBelowAir)
+	fmt.Println("energy > 0:", w.EnergyKWhM2 > 0)
+	// Output:
+	// Test roof (invented): 24 hours on 1 day, 24 of them below the air
+	// energy > 0: true
 }

@@ -180,8 +180,11 @@ type Figures struct {
 	CoolingCurve           []CurvePoint  `json:"cooling_curve"`
 	Sensitivity            []Sensitivity `json:"sensitivity"`
 	SRI                    SRI           `json:"sri"`
-	Cautions               []string      `json:"cautions"`
-	Provenance             Provenance    `json:"provenance"`
+	// Weather holds the figures over the conditions' weather series; nil
+	// (null) when the conditions name none.
+	Weather    *SeriesFigures `json:"weather"`
+	Cautions   []string       `json:"cautions"`
+	Provenance Provenance     `json:"provenance"`
 }
 
 // cautions go with every set of figures.
@@ -223,6 +226,7 @@ func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, err
 	f.Splices = append([]spectra.SpliceRecord{}, s.Splices...)
 	f.Warnings = append([]string{}, s.Warnings...)
 	m.addCooling(f, o, grads, true)
+	m.addSeries(f, o)
 	addSRI(f, grads)
 	eval := func(o spectra.Optics, lin func(string) float64) map[string]float64 {
 		alpha := float64(f.SolarAbsorptance) + lin("solar_absorptance")

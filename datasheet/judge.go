@@ -84,7 +84,11 @@ func (j *judge) figures(c Conditions) (*Figures, error) {
 		return r.f, r.err
 	}
 	j.computes++
-	f, err := Compute(j.in.Spectrum, j.resolved(c.ClosureTol), c)
+	// Claims never name the figures over a weather series: another basis
+	// is computed without it.
+	cc := c
+	cc.Weather = WeatherChoice{}
+	f, err := Compute(j.in.Spectrum, j.resolved(c.ClosureTol), cc)
 	j.figs[c] = computed{f, err}
 	return f, err
 }

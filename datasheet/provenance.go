@@ -53,6 +53,9 @@ func provenanceOf(s *spectra.Spectrum, f *Figures, used []spectra.Weighting) Pro
 	if sky := f.Conditions.Sky; sky.Spectrum != nil {
 		p.Inputs = append(p.Inputs, sky.Spectrum.Inputs...)
 	}
+	if w := f.Conditions.Weather.Series; w != nil {
+		p.Inputs = append(p.Inputs, w.Input)
+	}
 	if f.Sky.Model != "" {
 		p.Weightings = append(p.Weightings, WeightingSource{Name: "sky: " + f.Sky.Model,
 			Version: "sky model computed by skysheet " + Version() + " (see docs/cooling.md)"})

@@ -1,12 +1,14 @@
 package main
 
 import (
+	"bytes"
 	"flag"
 	"fmt"
 	"strconv"
 	"strings"
 
 	"skysheet/datasheet"
+	"skysheet/datasheet/weather"
 	"skysheet/spectra"
 )
 
@@ -70,6 +72,7 @@ func conditionFlags(fs *flag.FlagSet, c *datasheet.Conditions) {
 	fs.Float64Var(&c.IrradianceWm2, "irradiance", c.IrradianceWm2, "solar irradiance for cooling with sun, W/m²")
 	fs.Float64Var(&c.HWm2K, "h-conv", c.HWm2K, "non-radiative (convective and conductive) heat-transfer coefficient, W m⁻² K⁻¹")
 	fs.Var(bandFlag{&c.ExchangeBand, "µm"}, "exchange-band", "thermal exchange band of the cooling integrals in µm, LO,HI")
+	fs.TextVar(&c.Weather, "weather", c.Weather, "hourly weather series `FILE` (docs/format.md) to run the hourly cooling model over")
 	fs.TextVar(&c.Sky, "sky", c.Sky, "sky of the cooling figures: a spectral sky `FILE` with a T column (zenith atmospheric transmittance), or clear two-band")
 }
 
@@ -94,5 +97,27 @@ func loadSky(c *datasheet.Conditions, limit int64) error {
 		return err
 	}
 	c.Sky.Spectrum = s
+	return nil
+}
+
+// loadWeather reads the weather series named by c.Weather, if any, into
+// c.Weather.Series, as loadSky does for the sky.
+func loadWeather(c *datasheet.Conditions, limit int64) error {
+	if c.Weather.File == "" {
+		c.Weather.Series = nil
+		return nil
+	}
+	if limit <= 0 {
+		limit = defaultMaxFileSize
+	}
+	data, err := readInputFile(c.Weather.File, limit)
+	if err != nil {
+		return fmt.Errorf("weather: %w", err)
+	}
+	s, err := weather.Parse(bytes.NewReader(data), c.Weather.File)
+	if err != nil {
+		return err
+	}
+	c.Weather.Series = s
 	return nil
 }

@@ -31,6 +31,14 @@ func runFigures(e *env, args []string) error {
 	var so sampleOptions
 	sampleFlags(fs, "splice-", &so)
 	save := fs.String("save-spectrum", "", "also write the joined, corrected spectrum to this file in the neutral format")
+	var claims []datasheet.Claim
+	fs.Func("claim", "judge a claimed `FIGURE=VALUE[±TOL]` (e.g. thermal_emittance=0.95±0.02; repeatable) and print the verdicts instead of the figures; the solar/thermal/window band, solar spectrum and temperature flags given become the claim's stated basis", func(s string) error {
+		c, err := parseClaim(s)
+		claims = append(claims, c)
+		return err
+	})
+	angle := fs.Float64("angle", 0, "with --claim: the angle of incidence the claim is stated at, degrees")
+	strict := fs.Bool("strict", false, "with --claim: also fail when a claim cannot be checked")
 	files, err := parseFlags(fs, args)
 	if err != nil {
 		return err
@@ -38,13 +46,28 @@ func runFigures(e *env, args []string) error {
 	if len(files) == 0 {
 		return usagef("no spectrum files given")
 	}
+	if len(claims) == 0 && (*angle != 0 || *strict) {
+		return usagef("--angle and --strict go with --claim")
+	}
+	if len(claims) > 0 {
+		b := claimBasis(fs, &c, *angle)
+		for i := range claims {
+			claims[i].Basis = b
+			if err := claims[i].Validate(); err != nil {
+				return usagef("--claim %v", err)
+			}
+		}
+	}
 	// Bad conditions are bad usage; a bad sky file is bad data.
 	plain := c
-	plain.Sky = datasheet.SkyChoice{}
+	plain.Sky, plain.Weather = datasheet.SkyChoice{}, datasheet.WeatherChoice{}
 	if err := plain.Validate(); err != nil {
 		return usagef("%v", err)
 	}
 	if err := loadSky(&c, so.maxSize); err != nil {
+		return err
+	}
+	if err := loadWeather(&c, so.maxSize); err != nil {
 		return err
 	}
 	if err := c.Validate(); err != nil {
@@ -59,7 +82,7 @@ func runFigures(e *env, args []string) error {
 	}
 	printWarnings(e.stderr, "figures", s)
 	if *save != "" && *save != "-" {
-		if err := refuseOverwrite(*save, append(inputNames(s), c.Sky.File)); err != nil {
+		if err := refuseOverwrite(*save, append(inputNames(s), c.Sky.File, c.Weather.File)); err != nil {
 			return err
 		}
 	}
@@ -68,9 +91,12 @@ func runFigures(e *env, args []string) error {
 			return err
 		}
 	}
-	m, err := evaluate.Sample(s, c)
+	m, err := evaluate.Sample(s, c, claims...)
 	if err != nil {
 		return err
+	}
+	if len(claims) > 0 {
+		return printClaims(e, files, m, *asJSON, *strict)
 	}
 	f := m.Figures
 	if *asJSON {
@@ -125,6 +151,7 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	}
 	printSplices(w, f.Splices)
 	printCooling(w, f)
+	printSeries(w, f.Weather)
 	fmt.Fprintln(w, "\nAssumptions:")
 	for _, a := range f.Assumptions {
 		if a != "Sky: "+f.Sky.Description { // printed above
@@ -138,6 +165,9 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	fmt.Fprintf(w, "  closure tolerance %s\n", c.Text("closure_tolerance"))
 	fmt.Fprintf(w, "  cooling: air %s, dew point %s, sun %s, h %s, exchange band %s, sky %s\n",
 		c.Text("ambient_k"), c.Text("dew_point_c"), c.Text("irradiance_w_m2"), c.Text("h_w_m2k"), c.Text("exchange_band_um"), c.Sky)
+	if c.Weather.File != "" {
+		fmt.Fprintf(w, "  weather series %s\n", c.Weather)
+	}
 	printProvenance(w, f.Provenance)
 	if len(f.Cautions) > 0 {
 		fmt.Fprintln(w, "\nCautions:")
@@ -191,6 +221,43 @@ func printCooling(w io.Writer, f *datasheet.Figures) {
 		fmt.Fprintln(w, "  NOT APPLICABLE AS IS: solar transmittance above 0.01.")
 	}
 	fmt.Fprintf(w, "  %s\n", s.Note)
+}
+
+// printSeries writes the figures over a weather series: totals, months,
+// the model's assumptions and its cautions.
+func printSeries(w io.Writer, f *datasheet.SeriesFigures) {
+	if f == nil {
+		return
+	}
+	fmt.Fprintf(w, "\nOver the weather series %s (%s, sha256 %s), %d hours from %s to %s:\n", f.Series, f.File, f.SHA256, f.Hours, f.From, f.To)
+	fmt.Fprintf(w, "  held at the air temperature: %s of cooling (hourly sum; trapezoid rule %s)\n",
+		fmtEnergy(f.EnergyKWhM2), fmtEnergy(f.EnergyTrapezoidKWhM2))
+	fmt.Fprintf(w, "  free-floating: %d hours below the air, %s K·h; mean depression %s, deepest %s\n",
+		f.HoursBelowAir, fmtFixed(f.DegreeHoursBelowAir, 0), fmtUnit(f.MeanDepressionK, "K"), fmtUnit(f.DeepestDepressionK, "K"))
+	if len(f.Months) > 0 {
+		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
+		fmt.Fprintln(tw, "  month\thours\tenergy kWh/m²\thours below air\tK·h below air\tmean depression K\tdeepest K\tmean air °C\t")
+		for _, m := range f.Months {
+			fmt.Fprintf(tw, "  %s\t%d\t%s\t%d\t%s\t%s\t%s\t%s\t\n", m.Period, m.Hours, fmtFixed(m.EnergyKWhM2, 2), m.HoursBelowAir,
+				fmtFixed(m.DegreeHoursBelowAir, 0), fmtFixed(m.MeanDepressionK, 2), fmtFixed(m.DeepestDepressionK, 2), fmtFixed(m.MeanAirC, 1))
+		}
+		tw.Flush()
+	}
+	fmt.Fprintln(w, "  Model:")
+	for _, a := range f.Assumptions {
+		fmt.Fprintf(w, "    - %s\n", a)
+	}
+	fmt.Fprintln(w, "  Cautions:")
+	for _, a := range f.Cautions {
+		fmt.Fprintf(w, "    - %s\n", a)
+	}
+}
+
+func fmtEnergy(v datasheet.Num) string {
+	if math.IsNaN(float64(v)) {
+		return "n/a"
+	}
+	return fmt.Sprintf("%.2f kWh/m²", float64(v))
 }
 
 // fmtFigure formats a value in the figure's unit as the figure's kind

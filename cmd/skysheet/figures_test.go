@@ -38,6 +38,9 @@ func TestFiguresExitCodes(t *testing.T) {
 	bad := writeFile(t, "bad.csv", "wavelength_nm,R\n400,0.5\n500,abc\n")
 	sky := writeFile(t, "sky.csv", skyCSV)
 	noT := writeFile(t, "not.csv", "wavelength_nm,R\n8000,0.5\n9000,0.5\n")
+	series := "../../content/weather/coastal-humid.csv"
+	gap := writeFile(t, "gap.csv", "time,air temperature (°C),dew point (°C),global horizontal irradiance (W/m²)\n"+
+		"2026-07-01T00:00+02:00,20,10,0\n2026-07-01T02:00+02:00,20,10,0\n")
 	for _, tt := range []struct {
 		name string
 		args []string
@@ -64,6 +67,10 @@ func TestFiguresExitCodes(t *testing.T) {
 		{"missing sky", figuresArgs("--sky", "nosky.csv"), 1, "nosky.csv"},
 		{"sky without T", figuresArgs("--sky", noT), 1, "T column"},
 		{"bad sky data", figuresArgs("--sky", bad), 1, "bad.csv:3"},
+		{"weather series", figuresArgs("--weather", series), 0, "Over the weather series Merrowgate Point"},
+		{"weather series, JSON", figuresArgs("--weather", series, "--json"), 0, `"energy_trapezoid_kwh_m2"`},
+		{"missing series", figuresArgs("--weather", "noseries.csv"), 1, "noseries.csv"},
+		{"series with a gap", figuresArgs("--weather", gap), 1, "gap.csv:3: column 1 (time)"},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			code, out, errs := runCLI(tt.args...)

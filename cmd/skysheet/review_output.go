@@ -43,47 +43,61 @@ func writeReviewText(w io.Writer, r *reviewReport) error {
 	ew := &errWriter{w: w}
 	ew.printf("Library %s, reviewed by %s\n", r.Library, r.Software)
 	for _, m := range r.Materials {
-		if len(m.Errors) == 0 && m.Closure == nil && len(m.Verdicts) == 0 && len(m.Warnings) == 0 {
-			continue // the config or a comparison page, without problems
-		}
-		ew.printf("\n%s", displayPath(m.Path, r.Library))
-		if m.Title != "" {
-			ew.printf(" — %s", m.Title)
-		}
-		ew.printf("\n")
-		for _, e := range m.Errors {
-			ew.printf("  [!] invalid: %s\n", e)
-		}
-		for _, w := range m.Warnings {
-			ew.printf("  [!] warning: %s\n", w)
-		}
-		if m.Closure != nil {
-			mark := "[=]"
-			if !m.Closure.OK {
-				mark = "[≠]"
-			}
-			ew.printf("  %s %s\n", mark, closureWords(m.Closure))
-		}
-		if m.Closure != nil && len(m.Verdicts) == 0 {
-			ew.printf("      no claims\n")
-		}
-		for _, v := range m.Verdicts {
-			ew.printf("  [%s] %s: %s\n", v.Status.Mark(), v.Status, claimWords(v.Claim))
-			ew.printf("      %s\n", v.Reason)
-			if v.Basis != "" {
-				ew.printf("      basis: %s\n", v.Basis)
-			}
-			if v.BasisNote != "" {
-				ew.printf("      %s\n", v.BasisNote)
-			}
-			for _, p := range v.Pitfalls {
-				ew.printf("      pitfall (%s): %s\n", p.Code, p.Text)
-			}
-		}
+		writeMaterialText(ew, m, r.Library)
 	}
 	c := r.Counts
-	ew.printf("\n%d files, %d invalid, %d failing closure; %d claims: %d supported, %d not supported, %d cannot be checked.\n",
-		c.Files, c.InvalidFiles, c.ClosureFails, c.Claims, c.Supported, c.NotSupported, c.CannotCheck)
+	ew.printf("\n%d files, %d invalid, %d failing closure; ", c.Files, c.InvalidFiles, c.ClosureFails)
+	writeResultText(ew, r)
+	return ew.err
+}
+
+// writeMaterialText writes what was found in one file, or nothing for a
+// file without anything to say.
+func writeMaterialText(ew *errWriter, m reviewMaterial, lib string) {
+	if len(m.Errors) == 0 && m.Closure == nil && len(m.Verdicts) == 0 && len(m.Warnings) == 0 {
+		return // the config or a comparison page, without problems
+	}
+	ew.printf("\n%s", displayPath(m.Path, lib))
+	if m.Title != "" {
+		ew.printf(" — %s", m.Title)
+	}
+	ew.printf("\n")
+	for _, e := range m.Errors {
+		ew.printf("  [!] invalid: %s\n", e)
+	}
+	for _, w := range m.Warnings {
+		ew.printf("  [!] warning: %s\n", w)
+	}
+	if m.Closure != nil {
+		mark := "[=]"
+		if !m.Closure.OK {
+			mark = "[≠]"
+		}
+		ew.printf("  %s %s\n", mark, closureWords(m.Closure))
+	}
+	if m.Closure != nil && len(m.Verdicts) == 0 {
+		ew.printf("      no claims\n")
+	}
+	for _, v := range m.Verdicts {
+		ew.printf("  [%s] %s: %s\n", v.Status.Mark(), v.Status, claimWords(v.Claim))
+		ew.printf("      %s\n", v.Reason)
+		if v.Basis != "" {
+			ew.printf("      basis: %s\n", v.Basis)
+		}
+		if v.BasisNote != "" {
+			ew.printf("      %s\n", v.BasisNote)
+		}
+		for _, p := range v.Pitfalls {
+			ew.printf("      pitfall (%s): %s\n", p.Code, p.Text)
+		}
+	}
+}
+
+// writeResultText ends a report: the count of claims and the result.
+func writeResultText(ew *errWriter, r *reviewReport) {
+	c := r.Counts
+	ew.printf("%d claims: %d supported, %d not supported, %d cannot be checked.\n",
+		c.Claims, c.Supported, c.NotSupported, c.CannotCheck)
 	switch {
 	case r.OK:
 		ew.printf("Result: consistent.\n")
@@ -93,7 +107,6 @@ func writeReviewText(w io.Writer, r *reviewReport) error {
 		ew.printf("Result: inconsistent (invalid files, closure failures or claims not supported).\n")
 	}
 	ew.printf("Computed figures are not a certification; real performance depends on site, weather, soiling and ageing.\n")
-	return ew.err
 }
 
 // displayPath names a report group; the empty path is the library itself.

@@ -139,8 +139,10 @@ func All(lib *library.Library, opt Options) ([]*Material, error) {
 }
 
 // Sample evaluates one sample under conditions c, outside a library: its
-// optics and figures. It has no claims, and its inputs are those of s.
-func Sample(s *spectra.Spectrum, c datasheet.Conditions) (*Material, error) {
+// optics and figures, and a verdict for each of claims (judged as a
+// library's are, on the basis each states, else on c). Its inputs are those
+// of s.
+func Sample(s *spectra.Spectrum, c datasheet.Conditions, claims ...datasheet.Claim) (*Material, error) {
 	o := spectra.Resolve(s, c.ClosureTol)
 	f, err := datasheet.Compute(s, o, c)
 	if err != nil {
@@ -148,7 +150,8 @@ func Sample(s *spectra.Spectrum, c datasheet.Conditions) (*Material, error) {
 	}
 	m := &Material{Sample: s, Optics: o}
 	m.Solar, m.Thermal = c.Weightings()
-	m.Figures, m.Verdicts, m.Warnings = f, []datasheet.Verdict{}, append(slices.Clip(s.Warnings), warnings(f)...)
+	m.Figures, m.Warnings = f, append(slices.Clip(s.Warnings), warnings(f)...)
+	m.Verdicts = datasheet.JudgeAll(claims, datasheet.JudgeInput{Spectrum: s, Optics: &o, Conditions: c, Figures: f})
 	for _, in := range s.Inputs {
 		m.Inputs = append(m.Inputs, library.Input{Path: in.Name, SHA256: in.SHA256})
 	}

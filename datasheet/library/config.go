@@ -10,6 +10,7 @@ import (
 	"gopkg.in/yaml.v3"
 
 	"skysheet/datasheet"
+	"skysheet/datasheet/weather"
 	"skysheet/spectra"
 	"skysheet/spectra/msg"
 )
@@ -32,9 +33,13 @@ type Config struct {
 	Overrides Overrides
 	// Input is the config file and its SHA-256.
 	Input Input
-	// skyInput is the sky file the config names, if any.
-	skyInput *Input
+	// files are the sky and weather files the config names, if any.
+	files condFiles
 }
+
+// condFiles are the files named by conditions: a spectral sky and a
+// weather series, nil when not named.
+type condFiles struct{ sky, weather *Input }
 
 // configFile is the YAML form of skysheet.yaml.
 type configFile struct {
@@ -76,7 +81,9 @@ func (o Overrides) Keys() []string {
 // conditionKeys are the keys of the conditions.
 var conditionKeys = func() map[string]bool {
 	m := map[string]bool{}
-	for _, c := range datasheet.DefaultConditions().List() {
+	all := datasheet.DefaultConditions()
+	all.Weather.File = "named" // List leaves out a weather series that is not named
+	for _, c := range all.List() {
 		m[c.Key] = true
 	}
 	return m
@@ -109,17 +116,18 @@ func (d doc) checkConditions(n *yaml.Node) []error {
 }
 
 // apply returns base with the overrides set, validated. A sky other than
-// the built-in one names a spectrum file, relative to the document, which
-// is read; its Input is returned.
-func (d doc) apply(o Overrides, base datasheet.Conditions) (datasheet.Conditions, *Input, error) {
+// the built-in one names a spectrum file, and a weather series a series
+// file, relative to the document; they are read and their Inputs returned.
+func (d doc) apply(o Overrides, base datasheet.Conditions) (datasheet.Conditions, condFiles, error) {
+	var files condFiles
 	if o.node == nil || o.node.Kind == yaml.ScalarNode && o.node.Tag == "!!null" {
-		return base, nil, nil
+		return base, files, nil
 	}
 	if o.node.Kind != yaml.MappingNode {
-		return base, nil, d.at(o.node, ErrType, "conditions: want a mapping such as {temperature_k: 300}, found %s", kindName(o.node))
+		return base, files, d.at(o.node, ErrType, "conditions: want a mapping such as {temperature_k: 300}, found %s", kindName(o.node))
 	}
 	c := base // keys were checked with the rest of the document (see check)
-	var skyNode *yaml.Node
+	var skyNode, weatherNode *yaml.Node
 	for i := 0; i+1 < len(o.node.Content); i += 2 {
 		k, v := o.node.Content[i], o.node.Content[i+1]
 		if !conditionKeys[k.Value] {
@@ -127,24 +135,51 @@ func (d doc) apply(o Overrides, base datasheet.Conditions) (datasheet.Conditions
 		}
 		var x any
 		if err := v.Decode(&x); err != nil {
-			return base, nil, d.yamlError(err, ErrType)
+			return base, files, d.yamlError(err, ErrType)
 		}
 		if err := c.Set(k.Value, x); err != nil {
 			sentinel := ErrConditions
 			if errors.Is(err, datasheet.ErrConditionType) {
 				sentinel = ErrType
 			}
-			return base, nil, d.at(v, sentinel, "%v", err)
+			return base, files, d.at(v, sentinel, "%v", err)
 		}
-		if k.Value == "sky" {
+		switch k.Value {
+		case "sky":
 			skyNode = v
+		case "weather":
+			weatherNode = v
 		}
 	}
-	var sky *Input
+	if n := weatherNode; n != nil && c.Weather.File != "" {
+		at := func(err error) error {
+			return &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: err}
+		}
+		p, err := resolvePath(d.file, c.Weather.File)
+		if err != nil {
+			return base, files, at(fmt.Errorf("weather series %s: %w (or write %q for none)", msg.Quote(c.Weather.File), err, datasheet.WeatherChoice{}))
+		}
+		var s *weather.Series
+		if d.fsys != nil {
+			s, err = weather.Read(d.fsys, p)
+		} else {
+			err = fs.ErrNotExist
+		}
+		var pe *spectra.ParseError
+		switch {
+		case errors.As(err, &pe):
+			// A bad series names its own file, line and column.
+			return base, files, &Error{File: pe.File, Line: pe.Line, Column: pe.Column, Err: fmt.Errorf("%w: %w (named at %s:%d)", ErrWeather, pe.Err, d.file, n.Line+d.offset)}
+		case err != nil:
+			return base, files, at(fmt.Errorf("%w %s: %w (or write %q for none)", ErrWeather, p, unwrapPath(err), datasheet.WeatherChoice{}))
+		}
+		c.Weather.Series = s
+		files.weather = &Input{Path: p, SHA256: s.Input.SHA256}
+	}
 	if n := skyNode; n != nil && !c.Sky.Clear() {
 		p, err := resolvePath(d.file, c.Sky.File)
 		if err != nil {
-			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("sky file %s: %w (or write %q for the built-in sky)", msg.Quote(c.Sky.File), err, datasheet.SkyChoice{})}
+			return base, files, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("sky file %s: %w (or write %q for the built-in sky)", msg.Quote(c.Sky.File), err, datasheet.SkyChoice{})}
 		}
 		var data []byte
 		if d.fsys != nil {
@@ -153,20 +188,20 @@ func (d doc) apply(o Overrides, base datasheet.Conditions) (datasheet.Conditions
 			err = fs.ErrNotExist
 		}
 		if err != nil {
-			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("%w %s: %w (or write %q for the built-in sky)", ErrSpectrum, p, unwrapPath(err), datasheet.SkyChoice{})}
+			return base, files, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("%w %s: %w (or write %q for the built-in sky)", ErrSpectrum, p, unwrapPath(err), datasheet.SkyChoice{})}
 		}
 		s, err := spectra.Decode(data, p)
 		if err != nil {
-			return base, nil, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("%w: %w", ErrSpectrum, err)}
+			return base, files, &Error{File: d.file, Line: n.Line + d.offset, Column: n.Column, Err: fmt.Errorf("%w: %w", ErrSpectrum, err)}
 		}
 		c.Sky.Spectrum = s
 		in := hashInput(p, data)
-		sky = &in
+		files.sky = &in
 	}
 	if err := c.Validate(); err != nil {
-		return base, nil, d.at(o.node, ErrConditions, "%v", err)
+		return base, files, d.at(o.node, ErrConditions, "%v", err)
 	}
-	return c, sky, nil
+	return c, files, nil
 }
 
 // parseConfig reads skysheet.yaml; fsys is the library, for a sky file.
@@ -204,7 +239,7 @@ func parseConfig(fsys fs.FS, src []byte) (Config, error) {
 	if err != nil {
 		errs = append(errs, err)
 	}
-	cfg.Conditions, cfg.skyInput = c, sky
+	cfg.Conditions, cfg.files = c, sky
 	if len(errs) > 0 {
 		return cfg, errs
 	}

@@ -24,6 +24,7 @@ var (
 	ErrUnknownMaterial = errors.New("no material with this slug")
 	ErrConditions      = errors.New("bad conditions")
 	ErrSpectrum        = errors.New("cannot read spectrum")
+	ErrWeather         = errors.New("cannot read weather series")
 	ErrNotAllowed      = errors.New("key not allowed here")
 	ErrUnknownFigure   = errors.New("no such figure")
 	ErrClaim           = errors.New("bad claim")

@@ -45,7 +45,7 @@ type Material struct {
 
 	spectra     []spectrumFile // the spectra entries, in front matter order
 	spectraLine int            // file line of the "spectra:" key
-	sky         *Input         // the spectral sky file of the conditions, if any
+	files       condFiles      // the sky and weather files of the conditions, if any
 }
 
 // spectrumFile is a spectra entry: the file's path in the library and
@@ -227,8 +227,10 @@ func (l *Library) ReadSample(m *Material) (*spectra.Spectrum, []Input, error) {
 	for _, in := range s.Inputs {
 		inputs = append(inputs, Input{Path: in.Name, SHA256: in.SHA256})
 	}
-	if m.sky != nil {
-		inputs = append(inputs, *m.sky)
+	for _, in := range []*Input{m.files.sky, m.files.weather} {
+		if in != nil {
+			inputs = append(inputs, *in)
+		}
 	}
 	return s, inputs, nil
 }
@@ -360,12 +362,15 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 	m := &Material{Path: file, Slug: r.slug, Front: fm, Body: body, BodyLine: bodyLine, Source: src,
 		Input: hashInput(file, src), spectraLine: valueNode(fl.root, "spectra").Line + d.offset}
 	d.fsys = fsys
-	m.Conditions, m.sky, err = d.apply(fm.Conditions, cfg.Conditions)
+	m.Conditions, m.files, err = d.apply(fm.Conditions, cfg.Conditions)
 	if err != nil {
 		errs = append(errs, err)
 	}
-	if m.sky == nil && m.Conditions.Sky.Spectrum != nil {
-		m.sky = cfg.skyInput // the config's sky file
+	if m.files.sky == nil && m.Conditions.Sky.Spectrum != nil {
+		m.files.sky = cfg.files.sky // the config's sky file
+	}
+	if m.files.weather == nil && m.Conditions.Weather.Series != nil {
+		m.files.weather = cfg.files.weather // the config's series
 	}
 	for i, ref := range fm.Spectra {
 		at := fl.spectra[i]

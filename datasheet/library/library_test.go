@@ -528,3 +528,54 @@ func TestSkyFile(t *testing.T) {
 	_, err = loadRead(fsys)
 	checkErrors(t, err, []errAt{{ErrSpectrum, "content/flat.md", 14, "content/flat/nosky.csv"}})
 }
+
+// seriesCSV is an invented three-hour weather series.
+const seriesCSV = "# Invented, synthetic, not measured: test series.\ntime,air temperature (°C),dew point (°C),global horizontal irradiance (W/m²)\n" +
+	"2026-07-01T00:00+02:00,20,10,0\n2026-07-01T01:00+02:00,19,10,0\n2026-07-01T02:00+02:00,18,10,0\n"
+
+func TestWeatherFile(t *testing.T) {
+	fsys := baseFS()
+	fsys["skysheet.yaml"] = &fstest.MapFile{Data: []byte("conditions:\n  weather: weather/site.csv\n")}
+	fsys["weather/site.csv"] = &fstest.MapFile{Data: []byte(seriesCSV)}
+	lib, err := loadRead(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := lib.Materials[0]
+	if m.Conditions.Weather.Series == nil || m.Conditions.Weather.File != "weather/site.csv" || len(m.Conditions.Weather.Series.Hours) != 3 {
+		t.Fatalf("series not loaded: %+v", m.Conditions.Weather)
+	}
+	_, inputs, _ := lib.ReadSample(m)
+	if last := inputs[len(inputs)-1]; last != hashInput("weather/site.csv", []byte(seriesCSV)) {
+		t.Errorf("series input %+v", last)
+	}
+	// In front matter the path is relative to the Markdown file, and
+	// confined to the library.
+	fsys["content/flat/site.csv"] = &fstest.MapFile{Data: []byte(seriesCSV)}
+	with := func(cond string) {
+		fsys["content/flat.md"] = &fstest.MapFile{Data: []byte(strings.Replace(goodMaterial, "{temperature_k: 290}", cond, 1))}
+	}
+	with("{weather: flat/site.csv}")
+	lib, err = loadRead(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, in, _ := lib.ReadSample(lib.Materials[0]); in[len(in)-1].Path != "content/flat/site.csv" {
+		t.Errorf("inputs %+v", in)
+	}
+	with("{weather: flat/none.csv}")
+	_, err = loadRead(fsys)
+	checkErrors(t, err, []errAt{{ErrWeather, "content/flat.md", 14, "content/flat/none.csv"}})
+	with("{weather: ../../outside.csv}")
+	_, err = loadRead(fsys)
+	checkErrors(t, err, []errAt{{ErrEscapes, "content/flat.md", 14, "outside.csv"}})
+	// A bad series is named at its own line and column.
+	fsys["content/flat/site.csv"] = &fstest.MapFile{Data: []byte(strings.Replace(seriesCSV, "01:00+02:00,19", "03:00+02:00,19", 1))}
+	with("{weather: flat/site.csv}")
+	_, err = loadRead(fsys)
+	checkErrors(t, err, []errAt{{ErrWeather, "content/flat/site.csv", 4, "named at content/flat.md:14"}})
+	with("{weather: none}")
+	if lib, err = loadRead(fsys); err != nil || lib.Materials[0].Conditions.Weather.Series != nil {
+		t.Errorf("weather: none gave %+v, %v", lib.Materials[0].Conditions.Weather, err)
+	}
+}
