@@ -58,6 +58,13 @@ type Figure struct {
 	// Uncertainty is the figure's standard uncertainty when the data give
 	// uncertainties of R or T.
 	Uncertainty *Uncertainty
+	// Reason says why the figure has no value (Value is NaN): too little
+	// of its weighting covered by data, or none of its band.
+	Reason string
+	// Partial marks a value whose weighting is covered by data less than
+	// fully (see docs/cooling.md, "No number outside its model").
+	Partial bool
+	short   string // Reason in a few words, when it is long
 }
 
 // figureJSON is the JSON form of a Figure.
@@ -71,12 +78,14 @@ type figureJSON struct {
 	Weighting   string       `json:"weighting,omitempty"`
 	Coverage    Num          `json:"coverage"`
 	Uncertainty *Uncertainty `json:"uncertainty,omitempty"`
+	Reason      string       `json:"reason,omitempty"`
+	Partial     bool         `json:"partial,omitempty"`
 }
 
 // MarshalJSON writes the figure with its band in its band unit.
 func (f Figure) MarshalJSON() ([]byte, error) {
 	return json.Marshal(figureJSON{f.Key, f.Label, f.Value, f.Unit, bandOut(f.Band, f.BandUnit), f.BandUnit,
-		f.Weighting, f.Coverage, f.Uncertainty})
+		f.Weighting, f.Coverage, f.Uncertainty, f.Reason, f.Partial})
 }
 
 // UnmarshalJSON reads the form MarshalJSON writes.
@@ -86,7 +95,7 @@ func (f *Figure) UnmarshalJSON(b []byte) error {
 		return err
 	}
 	*f = Figure{j.Key, j.Label, j.Value, j.Unit, bandFrom(j.Band[0], j.Band[1], j.BandUnit), j.BandUnit,
-		j.Weighting, j.Coverage, j.Uncertainty}
+		j.Weighting, j.Coverage, j.Uncertainty, j.Reason, j.Partial, ""}
 	return nil
 }
 
@@ -182,9 +191,13 @@ type Figures struct {
 	SRI                    SRI           `json:"sri"`
 	// Weather holds the figures over the conditions' weather series; nil
 	// (null) when the conditions name none.
-	Weather    *SeriesFigures `json:"weather"`
-	Cautions   []string       `json:"cautions"`
-	Provenance Provenance     `json:"provenance"`
+	Weather *SeriesFigures `json:"weather"`
+	// ModelNotes say where the SRI and cooling models stop applying to
+	// this sample (it transmits; its emittance is below the SRI's range),
+	// each naming the figures it concerns; empty when none.
+	ModelNotes []ModelNote `json:"model_notes"`
+	Cautions   []string    `json:"cautions"`
+	Provenance Provenance  `json:"provenance"`
 	// Stack is set for a stack of layers (see [ComputeStack]).
 	Stack *StackReport `json:"stack,omitempty"`
 }
@@ -241,6 +254,8 @@ func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, err
 		return out
 	}
 	addUncertainty(f, s, o, grads, c.ClosureTol, eval)
+	addModelNotes(f, o, c)
+	applyCoverage(f)
 	f.Cautions = append([]string(nil), cautions...)
 	f.Provenance = provenanceOf(s, f, used)
 	return f, nil

@@ -164,13 +164,17 @@ func (j *judge) judge(c Claim) Verdict {
 	v.Pitfalls = pitfalls(c, fig, spec, f, o, float64(v.Allowed))
 
 	computed := float64(fig.Value)
-	if math.IsNaN(computed) {
+	// A figure withheld because the data cover too little of its
+	// weighting says so below, as one with a value would.
+	p, short := shortOf(coverageParts(spec, fig, f), minShownCoverage)
+	withheld := math.IsNaN(computed) && short && p.cov > 0
+	if math.IsNaN(computed) && !withheld {
 		if band, _ := missingBand(spec, fig, f); band != "" {
 			return cannot("The data do not reach the band %s at all.", band)
 		}
 		return cannot("%s.", capitalize(errNoRoot.Error()))
 	}
-	v.Difference = Num(computed - c.Value)
+	v.Difference = Num(computed - c.Value) // NaN when withheld
 	// A cooling verdict always says over what the emittance is held
 	// constant beyond the data.
 	held := ""
@@ -260,6 +264,9 @@ func (f *Figures) Missing(key string) string {
 	if !ok || !math.IsNaN(float64(fig.Value)) {
 		return ""
 	}
+	if fig.Reason != "" {
+		return fig.Reason
+	}
 	band, infrared := missingBand(specOf(fig), fig, f)
 	switch {
 	case band == "":
@@ -301,40 +308,13 @@ func assumedUncertainty(k Kind, claimed float64, unit string) (float64, string) 
 }
 
 // coverageShort returns why the data cover too little of what figure fig
-// (of f) rests on, or "".
+// (of f) rests on for a claim of it to be checked, or "".
 func coverageShort(spec figureSpec, fig Figure, f *Figures) string {
-	short := func(cov float64, what, rests string) string {
-		if cov >= minCoverage {
-			return ""
-		}
-		return fmt.Sprintf("The data cover only %.1f %% of %s%s (at least %g %% is needed).", 100*cov, what, rests, 100*minCoverage)
-	}
-	input := func(key, rests string) string {
-		x, ok := f.Figure(key)
-		if !ok {
-			return ""
-		}
-		return short(float64(x.Coverage), fmt.Sprintf("the %s weighting over the %s", x.Weighting, bandWords(x)), rests)
-	}
-	switch {
-	case spec.cooling:
-		c := f.Conditions
-		check := coolingCheckBand(c)
-		if s := short(measuredShare(f, check), fmt.Sprintf("the blackbody power at %g K over %s", c.AmbientK, bandText(check, "µm")),
-			fmt.Sprintf(", the part of the exchange band %s that must be measured", bandText(c.ExchangeBand, "µm"))); s != "" {
-			return s
-		}
-		if spec.solar {
-			return input("solar_reflectance", ", on which the absorbed sunlight rests")
-		}
+	p, short := shortOf(coverageParts(spec, fig, f), minCoverage)
+	if !short {
 		return ""
-	case spec.sri:
-		if s := input("solar_reflectance", ", on which the index's solar absorptance rests"); s != "" {
-			return s
-		}
-		return input("thermal_emittance", ", on which the index's thermal emittance rests")
 	}
-	return short(float64(fig.Coverage), fmt.Sprintf("the %s weighting over the %s", fig.Weighting, bandWords(fig)), "")
+	return fmt.Sprintf("The data cover only %.1f %% of %s%s (at least %g %% is needed).", 100*p.cov, p.what, p.rest, 100*minCoverage)
 }
 
 // coolingCheckBand returns the part of c's exchange band that the data

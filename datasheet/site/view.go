@@ -37,10 +37,26 @@ type link struct {
 
 type pair struct{ K, V string }
 
-type keyFig struct{ Label, Value, Unit, Note string }
+type keyFig struct {
+	Label, Value, Unit, Note string
+	Partial                  bool
+	Notes                    []noteRef
+	key                      string // the figure's key
+}
+
+// noteRef points from a figure to a model note of its datasheet.
+type noteRef struct {
+	ID, Mark, Label string // Label: what the note says, in a few words
+}
+
+// modelNoteView is a model note on the datasheet.
+type modelNoteView struct{ ID, Mark, Text string }
 
 type figRow struct {
 	Key, Label, Value, Unc, Band, Weighting, Coverage string
+	Why                                               string // why there is no value
+	Partial                                           bool
+	Notes                                             []noteRef
 	// UncCover is, when the stated uncertainties cover only part of what
 	// the figure depends on, that share in words ("covers 48 %").
 	UncCover string
@@ -78,6 +94,8 @@ type materialView struct {
 	Overridden                                             []string
 	Assumptions                                            []string
 	Warnings                                               []string // about the input data, not errors
+	ModelNotes                                             []modelNoteView
+	Thresholds                                             struct{ Full, Shown string } // of coverage, "98 %"
 	Closure                                                closureView
 	Charts                                                 []chartView
 	Downloads                                              []link
@@ -111,13 +129,18 @@ type column struct {
 	Numeric          bool
 }
 
-type cell struct{ Key, Text, Value string }
+type cell struct {
+	Key, Text, Value string
+	Why              string // why there is no value, in a few words
+	Partial          bool
+}
 
 type row struct {
 	N                        int
 	Slug, Href, Title, Maker string
 	Category                 link
 	Cells                    []cell
+	Notes                    []noteRef // the model notes of the material, linking to its datasheet
 }
 
 type tableView struct {
