@@ -64,8 +64,8 @@ func (f *Figures) NotesFor(key string) []ModelNote {
 // withheldPrefix begins the reason of a figure withheld for its coverage.
 const withheldPrefix = "not given: "
 
-// ShortReason says in a few words why the figure has no value ("data
-// cover 88.4 %, under 90 %"); "" when it has one.
+// ShortReason says in a few words why the figure has no value
+// ("coverage < 90 %"); "" when it has one.
 func (f Figure) ShortReason() string {
 	if f.short != "" {
 		return f.short
@@ -127,6 +127,7 @@ func shortOf(parts []coveragePart, min float64) (coveragePart, bool) {
 // agree.
 func applyCoverage(f *Figures) {
 	withheld := map[string]bool{}
+	groups, order := map[string][]string{}, []string(nil) // labels of the withheld figures by reason
 	for i := range f.Figures { // the reasons of missing figures, before any is withheld
 		if x := &f.Figures[i]; math.IsNaN(float64(x.Value)) {
 			x.Reason = f.Missing(x.Key)
@@ -141,8 +142,13 @@ func applyCoverage(f *Figures) {
 		if p, short := shortOf(parts, minShownCoverage); short {
 			x.Reason = fmt.Sprintf(withheldPrefix+"the data cover only %.1f %% of %s%s (at least %g %% is needed)",
 				100*p.cov, p.what, p.rest, 100*minShownCoverage)
-			x.short = fmt.Sprintf("data cover %.1f %%, under %g %%", 100*p.cov, 100*minShownCoverage)
+			x.short = fmt.Sprintf("coverage < %g %%", 100*minShownCoverage)
 			withheld[x.Key] = true
+			g := fmt.Sprintf("the data cover only %.1f %% of %s (at least %g %% is needed)", 100*p.cov, p.what, 100*minShownCoverage)
+			if _, ok := groups[g]; !ok {
+				order = append(order, g)
+			}
+			groups[g] = append(groups[g], x.Label)
 			continue
 		}
 		if _, short := shortOf(parts, fullCoverage); short {
@@ -161,8 +167,10 @@ func applyCoverage(f *Figures) {
 	for i := range f.Figures {
 		if x := &f.Figures[i]; withheld[x.Key] {
 			x.Value, x.Uncertainty = Num(math.NaN()), nil
-			f.Assumptions = append(f.Assumptions, x.Label+" is "+x.Reason+".")
 		}
+	}
+	for _, g := range order {
+		f.Assumptions = append(f.Assumptions, fmt.Sprintf("Not given, as %s: %s.", g, strings.Join(groups[g], "; ")))
 	}
 	if len(withheld) == 0 {
 		return

@@ -27,7 +27,6 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	for _, t := range uniqueTags(fm.Tags) {
 		v.Tags = append(v.Tags, link{Name: t, Href: root + listingDir("tag", tagSlug(t)) + "index.html"})
 	}
-	v.Thresholds.Full, v.Thresholds.Shown = fmtG(100*datasheet.Rules.MinCoverage)+" %", fmtG(100*datasheet.Rules.MinShownCoverage)+" %"
 	refs := noteRefs(f, "")
 	for _, n := range f.ModelNotes {
 		v.ModelNotes = append(v.ModelNotes, modelNoteView{ID: "model-" + n.Code, Mark: refs[n.Code].Mark, Text: n.Text})
@@ -56,6 +55,9 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 			Partial: x.Partial, Notes: figureNotes(f, x.Key, refs)}
 		if isNaN(x.Value) {
 			r.Value, r.Why = "n/a", firstOf(x.ShortReason(), "not computed")
+		}
+		if x.Partial || x.ShortReason() != x.Reason { // partial, or withheld for its coverage
+			v.Thresholds = &thresholds{fmtG(100*datasheet.Rules.MinCoverage) + " %", fmtG(100*datasheet.Rules.MinShownCoverage) + " %"}
 		}
 		r.Unc, r.UncCover = fmtUnc(x.Uncertainty)
 		if r.Unc != "" {

@@ -376,11 +376,12 @@ func TestCoverageMarks(t *testing.T) {
 	for _, c := range []struct{ page, name, re string }{
 		{partial, "partial row", `<tr data-key="thermal_emittance"><th scope="row">Thermal emittance</th><td class="num">0.900 <span class="partial">partial data</span></td>`},
 		{partial, "partial card", `<dt>Thermal emittance</dt><dd><span class="big">0.900</span> <span class="partial">partial data</span>`},
-		{withheld, "n/a row", `<tr data-key="thermal_emittance"><th scope="row">Thermal emittance</th><td class="num">n/a<span class="sub why">data cover 85\.\d %, under 90 %</span></td>`},
-		{withheld, "n/a card", `<dt>Thermal emittance</dt><dd><span class="big">n/a</span><span class="note">data cover 85\.\d %, under 90 %</span>`},
-		{withheld, "full reason", `<li>Thermal emittance is not given: the data cover only 85\.\d % of the Planck blackbody at 300 K weighting over the band 2\.5–25 µm \(at least 90 % is needed\)\.</li>`},
+		{withheld, "n/a row", `<tr data-key="thermal_emittance"><th scope="row">Thermal emittance</th><td class="num">n/a<span class="sub why">coverage &lt; 90 %</span></td>`},
+		{withheld, "n/a card", `<dt>Thermal emittance</dt><dd><span class="big">n/a</span><span class="note">coverage &lt; 90 %</span>`},
+		{withheld, "full reason", `<li>Not given, as the data cover only 85\.\d % of the Planck blackbody at 300 K weighting over the band 2\.5–25 µm \(at least 90 % is needed\): Thermal emittance; SRI, low wind; SRI, medium wind; SRI, high wind\.</li>`},
 		{index, "index partial", `data-key="thermal_emittance" data-value="[0-9.]+">0\.900 <span class="partial">partial</span></td>`},
-		{index, "index n/a", `data-key="thermal_emittance" data-value="">n/a<span class="sub why">data cover 85\.\d %, under 90 %</span></td>`},
+		{index, "index n/a", `data-key="thermal_emittance" data-value="">n/a<span class="sub why">coverage &lt; 90 %</span></td>`},
+		{withheld, "thresholds said", `Below 98 % a value is marked <span class="partial">partial data</span>; below 90 % it is not given \(n/a\)\.`},
 	} {
 		if !regexp.MustCompile(c.re).MatchString(c.page) {
 			t.Errorf("%s: no match for %s", c.name, c.re)

@@ -65,6 +65,9 @@ type figRow struct {
 
 type spectrumRow struct{ File, Role, Instrument, Notes string }
 
+// thresholds are the coverage thresholds of the figures, "98 %".
+type thresholds struct{ Full, Shown string }
+
 type closureView struct {
 	OK       bool
 	Summary  string
@@ -95,7 +98,7 @@ type materialView struct {
 	Assumptions                                            []string
 	Warnings                                               []string // about the input data, not errors
 	ModelNotes                                             []modelNoteView
-	Thresholds                                             struct{ Full, Shown string } // of coverage, "98 %"
+	Thresholds                                             *thresholds // of coverage, when a figure is partial or not given
 	Closure                                                closureView
 	Charts                                                 []chartView
 	Downloads                                              []link
