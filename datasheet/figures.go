@@ -58,11 +58,16 @@ type Figure struct {
 	// Uncertainty is the figure's standard uncertainty when the data give
 	// uncertainties of R or T.
 	Uncertainty *Uncertainty
-	// Reason says why the figure has no value (Value is NaN): too little
-	// of its weighting covered by data, or none of its band.
+	// Components holds every component of a multi-component figure (L*,
+	// a*, b* of a colour; x, y of a chromaticity); Value is then the
+	// first. Nil for a single number.
+	Components []Num
+	// Reason says why Value is n/a: too little of its weighting covered
+	// by data, none of its band, or what the figure says itself (a colour
+	// from data that do not cover 380–780 nm); see [Figures.Missing].
 	Reason string
 	// Partial marks a value whose weighting is covered by data less than
-	// fully (see docs/cooling.md, "No number outside its model").
+	// fully (see docs/cooling.md, "Where the models stop").
 	Partial bool
 	short   string // Reason in a few words, when it is long
 }
@@ -78,6 +83,7 @@ type figureJSON struct {
 	Weighting   string       `json:"weighting,omitempty"`
 	Coverage    Num          `json:"coverage"`
 	Uncertainty *Uncertainty `json:"uncertainty,omitempty"`
+	Components  []Num        `json:"components,omitempty"`
 	Reason      string       `json:"reason,omitempty"`
 	Partial     bool         `json:"partial,omitempty"`
 }
@@ -85,7 +91,7 @@ type figureJSON struct {
 // MarshalJSON writes the figure with its band in its band unit.
 func (f Figure) MarshalJSON() ([]byte, error) {
 	return json.Marshal(figureJSON{f.Key, f.Label, f.Value, f.Unit, bandOut(f.Band, f.BandUnit), f.BandUnit,
-		f.Weighting, f.Coverage, f.Uncertainty, f.Reason, f.Partial})
+		f.Weighting, f.Coverage, f.Uncertainty, f.Components, f.Reason, f.Partial})
 }
 
 // UnmarshalJSON reads the form MarshalJSON writes.
@@ -95,7 +101,7 @@ func (f *Figure) UnmarshalJSON(b []byte) error {
 		return err
 	}
 	*f = Figure{j.Key, j.Label, j.Value, j.Unit, bandFrom(j.Band[0], j.Band[1], j.BandUnit), j.BandUnit,
-		j.Weighting, j.Coverage, j.Uncertainty, j.Reason, j.Partial, ""}
+		j.Weighting, j.Coverage, j.Uncertainty, j.Components, j.Reason, j.Partial, ""}
 	return nil
 }
 
@@ -189,6 +195,9 @@ type Figures struct {
 	CoolingCurve           []CurvePoint  `json:"cooling_curve"`
 	Sensitivity            []Sensitivity `json:"sensitivity"`
 	SRI                    SRI           `json:"sri"`
+	// Color is the colour of the reflectance, and of the transmittance
+	// when it was measured (CIE 1931 2°, D65; see docs/color.md).
+	Color Colors `json:"color"`
 	// Weather holds the figures over the conditions' weather series; nil
 	// (null) when the conditions name none.
 	Weather *SeriesFigures `json:"weather"`
@@ -256,8 +265,10 @@ func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, err
 	addUncertainty(f, s, o, grads, c.ClosureTol, eval)
 	addModelNotes(f, o, c)
 	applyCoverage(f)
+	addColor(f, s, o) // after the coverage rule: colours have their own
 	f.Cautions = append([]string(nil), cautions...)
 	f.Provenance = provenanceOf(s, f, used)
+	f.Provenance.Weightings = append(f.Provenance.Weightings, colorSource())
 	return f, nil
 }
 

@@ -128,7 +128,7 @@ func shortOf(parts []coveragePart, min float64) (coveragePart, bool) {
 func applyCoverage(f *Figures) {
 	withheld := map[string]bool{}
 	groups, order := map[string][]string{}, []string(nil) // labels of the withheld figures by reason
-	for i := range f.Figures { // the reasons of missing figures, before any is withheld
+	for i := range f.Figures {                            // the reasons of missing figures, before any is withheld
 		if x := &f.Figures[i]; math.IsNaN(float64(x.Value)) {
 			x.Reason = f.Missing(x.Key)
 		}
@@ -207,16 +207,14 @@ func addModelNotes(f *Figures, o spectra.Optics, c Conditions) {
 		trans := transmitsWords(ts, tt)
 		f.ModelNotes = append(f.ModelNotes,
 			ModelNote{Code: NoteSRINotOpaque, Figures: sri,
-				Text: fmt.Sprintf("The SRI (ASTM E1980) is defined for opaque surfaces; this sample transmits %s, so its SRI is outside the index's definition.", trans)},
+				Text: fmt.Sprintf("The SRI (ASTM E1980) is defined for opaque surfaces; this sample transmits %s.", trans)},
 			ModelNote{Code: NoteCoolingLoneLayer,
 				Figures: []string{"cooling_power_w_m2", "cooling_power_night_w_m2", "equilibrium_delta_k", "equilibrium_delta_night_k"},
-				Text: fmt.Sprintf("The cooling figures take the sample as a lone layer radiating from its upper face, with nothing behind it; "+
-					"it transmits %s, which here heats nothing. Over a roof, a building or skin, what passes through is absorbed below "+
-					"and the cooling is less: compute the whole system (docs/systems.md).", trans)})
+				Text: "The cooling figures take a lone layer radiating from its upper face, with nothing behind it: what it transmits heats nothing here (over a roof or skin it would; see docs/systems.md)."})
 	}
 	if eps := float64(f.ThermalEmittance); eps <= minSRIEmittance {
 		f.ModelNotes = append(f.ModelNotes, ModelNote{Code: NoteSRILowEmittance, Figures: sri,
-			Text: fmt.Sprintf("ASTM E1980 (§1.1) applies the SRI to surfaces with a thermal emittance above %g; this sample's is %.3f, so its SRI is outside the index's range.",
+			Text: fmt.Sprintf("ASTM E1980 (§1.1) applies the SRI to surfaces with a thermal emittance above %g; this sample's is %.3f.",
 				minSRIEmittance, eps)})
 	}
 }

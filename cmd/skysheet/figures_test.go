@@ -238,7 +238,7 @@ func TestFiguresCoverageAndNotes(t *testing.T) {
 	}
 	glass := writeFile(t, "glass.csv", "wavelength_nm,R,T\n280,0.08,0.83\n2500,0.08,0.83\n\n2600,0.05,0\n25000,0.05,0\n")
 	if _, out, _ := runCLI("figures", glass); !regexp.MustCompile(`SRI, low wind +[0-9.]+ \[sri-not-opaque\]`).MatchString(out) ||
-		!strings.Contains(out, "[cooling-lone-layer] The cooling figures take the sample as a lone layer") {
+		!strings.Contains(out, "[cooling-lone-layer] The cooling figures take a lone layer") {
 		t.Errorf("glass:\n%s", out)
 	}
 }
