@@ -210,7 +210,7 @@ func addModelNotes(f *Figures, o spectra.Optics, c Conditions) {
 				Text: fmt.Sprintf("The SRI (ASTM E1980) is defined for opaque surfaces; this sample transmits %s.", trans)},
 			ModelNote{Code: NoteCoolingLoneLayer,
 				Figures: []string{"cooling_power_w_m2", "cooling_power_night_w_m2", "equilibrium_delta_k", "equilibrium_delta_night_k"},
-				Text: "The cooling figures take a lone layer radiating from its upper face, with nothing behind it: what it transmits heats nothing here (over a roof or skin it would; see docs/systems.md)."})
+				Text:    "The cooling figures take a lone layer radiating from its upper face, with nothing behind it: what it transmits heats nothing here (over a roof or skin it would; see docs/systems.md)."})
 	}
 	if eps := float64(f.ThermalEmittance); eps <= minSRIEmittance {
 		f.ModelNotes = append(f.ModelNotes, ModelNote{Code: NoteSRILowEmittance, Figures: sri,
