@@ -86,7 +86,7 @@ func axisUnitWarning(file string, u axis, s *Spectrum) string {
 	for _, r := range alt {
 		if overlapsBands(r.lo, r.hi) {
 			return fmt.Sprintf("%s: the spectral axis is labelled %s and then spans %s–%s nm, outside every band the figures use (280 nm to 100 µm); read as %s it would span %s–%s nm: %s values labelled %s? Check the header of the first column",
-				file, u, fmtAxis(lo), fmtAxis(hi), r.name, fmtAxis(r.lo), fmtAxis(r.hi), r.name, u)
+				file, axisWords(u), fmtAxis(lo), fmtAxis(hi), r.name, fmtAxis(r.lo), fmtAxis(r.hi), r.name, axisWords(u))
 		}
 	}
 	return ""
@@ -97,8 +97,8 @@ func overlapsBands(lo, hi float64) bool { return hi >= bandsLoNM && lo <= bandsH
 // fmtAxis writes a wavelength in nm to four significant digits.
 func fmtAxis(nm float64) string { return strconv.FormatFloat(nm, 'g', 4, 64) }
 
-// String names the unit as a header writes it.
-func (u axis) String() string {
+// axisWords names the unit as a reader writes it.
+func axisWords(u axis) string {
 	switch u {
 	case axisUM:
 		return "µm"

@@ -368,7 +368,8 @@ func figureNotes(f *datasheet.Figures, key string, refs map[string]noteRef) []no
 
 // plusMinus writes " ±u" for a figure with a standard uncertainty u, two
 // significant digits, the larger of the two cases the datasheet's table
-// gives (errors independent between wavelengths, errors moving together);
+// gives (errors independent beyond a resolution element, each file's
+// errors moving as one);
 // "" when it has none.
 func plusMinus(x datasheet.Figure) string {
 	u := x.Uncertainty
