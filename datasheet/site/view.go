@@ -143,10 +143,12 @@ type column struct {
 	Numeric          bool
 }
 
+// cell is a cell of a material table; Swatch, when set, is a colour
+// "#rrggbb" shown before the text.
 type cell struct {
-	Key, Text, Value string
-	Why              string // why there is no value, in a few words
-	Partial          bool
+	Key, Text, Value, Swatch string
+	Why                      string // why there is no value, in a few words
+	Partial                  bool
 }
 
 type row struct {
@@ -161,6 +163,7 @@ type tableView struct {
 	ID      string
 	Columns []column
 	Rows    []row
+	CSV     string // the table as CSV, relative to the page; "" for none
 }
 
 type indexView struct {
@@ -169,6 +172,7 @@ type indexView struct {
 	ClaimWords  string                  // the counts in words
 	Table       tableView
 	Scatter     *chartView
+	ColorCharts []chartView
 	Categories  []link
 	Tags        []link
 	Comparisons []link
@@ -184,6 +188,9 @@ type compareCol struct{ Name, Href, Note, Color string }
 type compareRow struct {
 	Label string
 	Cells []string
+	// Swatches, when set, replaces Cells: one colour "#rrggbb" per
+	// material ("" for none).
+	Swatches []string
 }
 
 type compareView struct {
@@ -235,6 +242,7 @@ var tableFigures = []column{
 	{Key: "thermal_emittance", Label: "Thermal emittance", Numeric: true},
 	{Key: "window_emittance", Label: "Window emittance", Numeric: true},
 	{Key: "cooling_power_w_m2", Label: "Net cooling, day", Unit: "W/m²", Numeric: true},
+	{Key: "color_lab", Label: "Colour", Unit: "L*", Numeric: true},
 }
 
 // figureOf returns the figure of f with the given key; a figure without
