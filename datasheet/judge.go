@@ -170,31 +170,35 @@ func (j *judge) judge(c Claim) Verdict {
 	o := j.resolved(cond.ClosureTol) // for the pitfalls
 	v.Pitfalls = pitfalls(c, fig, spec, f, o, float64(v.Allowed))
 
-	computed := float64(fig.Value)
-	// A figure withheld because the data cover too little of its
-	// weighting says so below, as one with a value would.
-	p, short := shortOf(coverageParts(spec, fig, f), minShownCoverage)
-	withheld := math.IsNaN(computed) && short && p.cov > 0
-	if math.IsNaN(computed) && !withheld && fig.IsColor() && fig.Reason != "" {
-		return cannot("%s.", capitalize(fig.Reason))
-	}
-	if math.IsNaN(computed) && !withheld {
-		if band, _ := missingBand(spec, fig, f); band != "" {
-			return cannot("The data do not reach the band %s at all.", band)
-		}
-		return cannot("%s.", capitalize(errNoRoot.Error()))
-	}
-	v.Difference = Num(computed - c.Value) // NaN when withheld
 	// A cooling verdict always says over what the emittance is held
 	// constant beyond the data.
 	held := ""
-	if spec.cooling {
+	if spec.cooling && !math.IsNaN(float64(f.CoolingTerms.HeldShare)) { // the data reach the exchange band
 		held = heldClause(f)
 	}
 	say := func(s Status, format string, a ...any) Verdict {
 		v.Status, v.Reason = s, strings.TrimSuffix(fmt.Sprintf(format, a...), ".")+held+"."
 		return v
 	}
+	computed := float64(fig.Value)
+	// A figure withheld because the data cover too little of its
+	// weighting says so, as a claim of a figure with a value would; one
+	// that says itself why it has no value, says that.
+	if math.IsNaN(computed) && strings.HasPrefix(fig.Reason, withheldPrefix) {
+		if why := coverageShort(spec, fig, f); why != "" {
+			return say(CannotCheck, "%s", why)
+		}
+	}
+	if math.IsNaN(computed) && fig.Reason != "" && fig.Reason != f.missingWords(fig) {
+		return say(CannotCheck, "%s.", capitalize(fig.Reason))
+	}
+	if math.IsNaN(computed) {
+		if band, _ := missingBand(spec, fig, f); band != "" {
+			return cannot("The data do not reach the band %s at all.", band)
+		}
+		return cannot("%s.", capitalize(errNoRoot.Error()))
+	}
+	v.Difference = Num(computed - c.Value)
 	if why := coverageShort(spec, fig, f); why != "" {
 		return say(CannotCheck, "%s", why)
 	}
@@ -335,8 +339,8 @@ func missingBand(spec figureSpec, fig Figure, f *Figures) (string, bool) {
 		if nan("cooling_power_night_w_m2") {
 			return bandText(c.ExchangeBand, "µm"), true
 		}
-		if spec.solar && nan("solar_absorptance") {
-			return bandText(c.SolarBand, "nm"), false
+		if spec.solar && nan(fig.Key) {
+			return bandText(spectra.SolarRangeNM, "nm"), false
 		}
 		return "", false
 	}
@@ -355,6 +359,11 @@ func (f *Figures) Missing(key string) string {
 	if fig.Reason != "" {
 		return fig.Reason
 	}
+	return f.missingWords(fig)
+}
+
+// missingWords says which data figure fig of f lacks, from its band.
+func (f *Figures) missingWords(fig Figure) string {
 	band, infrared := missingBand(specOf(fig), fig, f)
 	switch {
 	case band == "":

@@ -100,7 +100,8 @@ func coverageParts(spec figureSpec, fig Figure, f *Figures) []coveragePart {
 		out := []coveragePart{{measuredShare(f, check), fmt.Sprintf("the blackbody power at %g K over %s", c.AmbientK, bandText(check, "µm")),
 			fmt.Sprintf(", the part of the exchange band %s that must be measured", bandText(c.ExchangeBand, "µm"))}}
 		if spec.solar {
-			out = append(out, input("solar_reflectance", ", on which the absorbed sunlight rests")...)
+			out = append(out, coveragePart{float64(f.CoolingTerms.SolarAbsorbedCoverage), fmt.Sprintf("the %s power over %s",
+				c.SolarSpectrum.Weighting(), bandText(spectra.SolarRangeNM, "nm")), ", on which the absorbed sunlight rests"})
 		}
 		return out
 	case spec.sri:
