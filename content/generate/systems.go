@@ -262,7 +262,7 @@ func (s *stack) markdown() []byte {
 
 // systemCaution closes every system page.
 const systemCaution = `**Invented example, computed system.** This page is computed from the spectra of its layers
-(synthetic data, not measurements) under a stated model; nothing here was measured as a whole.
+(synthetic data, not a measurement) under a stated model; nothing here was measured as a whole.
 The figures are not a certification: real performance depends on site, weather, soiling and ageing,
 and roofing, building and energy decisions defer to local codes and licensed professionals.`
 
