@@ -136,7 +136,7 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	}
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	if withU {
-		fmt.Fprintln(tw, "Figure\tValue\tu indep.\tu together\tu known for\tBand\tWeighting\tCoverage")
+		fmt.Fprintln(tw, "Figure\tValue\tu noise\tu together\tu worst\tu known for\tBand\tWeighting\tCoverage")
 	} else {
 		fmt.Fprintln(tw, "Figure\tValue\tBand\tWeighting\tCoverage")
 	}
@@ -144,9 +144,10 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 		fmt.Fprintf(tw, "%s\t%s\t", x.Label, fmtFigure(x, x.Value))
 		if withU {
 			if u := x.Uncertainty; u != nil {
-				fmt.Fprintf(tw, "±%s\t±%s\t%s\t", fmtUncertainty(x, u.Uncorrelated), fmtUncertainty(x, u.Correlated), fmtPercent(u.Reach))
+				fmt.Fprintf(tw, "±%s\t±%s\t±%s\t%s\t", fmtUncertainty(x, u.Uncorrelated), fmtUncertainty(x, u.Correlated),
+					fmtUncertainty(x, u.WorstCase), fmtPercent(u.Reach))
 			} else {
-				fmt.Fprint(tw, "\t\t\t")
+				fmt.Fprint(tw, "\t\t\t\t")
 			}
 		}
 		fmt.Fprintf(tw, "%s\t%s\t%s\n", x.BandText(), x.Weighting, fmtPercent(x.Coverage))
@@ -185,6 +186,9 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	fmt.Fprintf(w, "  closure tolerance %s\n", c.Text("closure_tolerance"))
 	fmt.Fprintf(w, "  cooling: air %s, dew point %s, sun %s, h %s, exchange band %s, sky %s\n",
 		c.Text("ambient_k"), c.Text("dew_point_c"), c.Text("irradiance_w_m2"), c.Text("h_w_m2k"), c.Text("exchange_band_um"), c.Sky)
+	if c.HourOfDay.On || c.StationPressure.On {
+		fmt.Fprintf(w, "  terms of the clear-sky correlation: hour of day %s, station pressure %s\n", c.Text("hour_of_day"), c.Text("station_pressure_hpa"))
+	}
 	if c.Weather.File != "" {
 		fmt.Fprintf(w, "  weather series %s\n", c.Weather)
 	}

@@ -120,7 +120,9 @@ type column struct {
 	Numeric          bool
 }
 
-type cell struct{ Key, Text, Value string }
+// cell is a cell of a material table; Swatch, when set, is a colour
+// "#rrggbb" shown before the text.
+type cell struct{ Key, Text, Value, Swatch string }
 
 type row struct {
 	N                        int
@@ -141,6 +143,7 @@ type indexView struct {
 	ClaimWords  string                  // the counts in words
 	Table       tableView
 	Scatter     *chartView
+	ColorCharts []chartView
 	Categories  []link
 	Tags        []link
 	Comparisons []link
@@ -156,6 +159,9 @@ type compareCol struct{ Name, Href, Note, Color string }
 type compareRow struct {
 	Label string
 	Cells []string
+	// Swatches, when set, replaces Cells: one colour "#rrggbb" per
+	// material ("" for none).
+	Swatches []string
 }
 
 type compareView struct {
@@ -207,6 +213,7 @@ var tableFigures = []column{
 	{Key: "thermal_emittance", Label: "Thermal emittance", Numeric: true},
 	{Key: "window_emittance", Label: "Window emittance", Numeric: true},
 	{Key: "cooling_power_w_m2", Label: "Net cooling, day", Unit: "W/m²", Numeric: true},
+	{Key: "color_lab", Label: "Colour", Unit: "L*", Numeric: true},
 }
 
 // figureOf returns the figure of f with the given key; a figure without
@@ -262,8 +269,9 @@ func fmtFigure(x datasheet.Figure) string {
 	return fmtNumber(x.Kind(), x.Value, x.Unit)
 }
 
-// fmtUnc formats a figure's standard uncertainty as "±indep. / ±together"
-// (errors independent between wavelengths, errors moving together), two
+// fmtUnc formats a figure's standard uncertainty as "±noise / ±together"
+// (errors independent beyond a resolution element, each file's errors
+// moving as one), two
 // significant digits; and, when the stated uncertainties of R and T cover
 // less than all of what the figure depends on (its sensitivity), the
 // share they cover in plain words: "covers 48 %" (the datasheet explains
@@ -306,7 +314,9 @@ func fmtNM(nm float64) string { return fmtG(math.Round(nm*100) / 100) }
 func conditionPairs(c datasheet.Conditions) []pair {
 	var ps []pair
 	for _, x := range c.List() {
-		ps = append(ps, pair{x.Label, x.Value})
+		if !x.Off {
+			ps = append(ps, pair{x.Label, x.Value})
+		}
 	}
 	return ps
 }
