@@ -205,9 +205,9 @@ It is the surface the textiles are worn over in the
 // stack is a demo material declared as a stack of layers.
 type stack struct {
 	path, title, productCode, category, summary string
-	tags                                         []string
-	layers                                       []stackLayer
-	body                                         string
+	tags                                        []string
+	layers                                      []stackLayer
+	body                                        string
 }
 
 // stackLayer is a layer of a demo stack: a library material, or its own
@@ -281,7 +281,7 @@ func stacks() []stack {
 			path: "systems/ql-se3-covered.md", title: "QL-SE3 under the PC-3 cover (system)", productCode: "QL-SE3 + PC-3",
 			category: "system", tags: []string{"system", "covered", "selective", "prototype"},
 			summary: "The selective emitter QL-SE3 under a 3 mm porous polyethylene cover, computed from both layers' spectra (invented, synthetic).",
-			layers: []stackLayer{{slug: "pc-3", thicknessMM: 3, k: 0.04}, {slug: "ql-se3"}},
+			layers:  []stackLayer{{slug: "pc-3", thicknessMM: 3, k: 0.04}, {slug: "ql-se3"}},
 			body: `## What it is
 
 The selective emitter [QL-SE3](../../m/ql-se3/index.html) under the porous polyethylene cover
