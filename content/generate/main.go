@@ -1,5 +1,5 @@
 // Command generate writes skysheet's demo library: skysheet.yaml at the
-// repository root and, under content/, fourteen invented materials (Markdown
+// repository root and, under content/, seventeen invented materials (Markdown
 // with front matter, plus their spectrum files), two systems computed as
 // stacks of layers, and the comparison pages. Everything
 // it writes is an invented scenario — an invented laboratory, invented
