@@ -195,9 +195,10 @@ type parser struct {
 	lastX   float64
 	lastLn  int
 	seenX   map[float64]int
-	dec     string                 // the decimal form of the last number read
-	consts  [numQuantities]float64 // constant uncertainties from metadata, NaN if none
-	grouped int                    // axis values written like 2.500 (see thousandsWarning)
+	dec     string    // the decimal form of the last number read
+	fm      *fileMeta // what the metadata set
+	grouped int       // axis values written like 2.500 (see thousandsWarning)
+	maxAbs  []float64 // per value column, the largest |value| as written
 }
 
 func (p *parser) errf(col int, err error) error {
@@ -222,9 +223,7 @@ func (p *parser) errf(col int, err error) error {
 // a quoted cell may hold the delimiter ("R, %"); space-separated rows by
 // runs of spaces.
 func (p *parser) run(data []byte) error {
-	for i := range p.consts {
-		p.consts[i] = math.NaN()
-	}
+	p.fm = newFileMeta()
 	pos, header := 0, false
 	for pos < len(data) && !header {
 		start := pos
@@ -295,10 +294,15 @@ func (p *parser) run(data []byte) error {
 	if (p.dir < 0) != (p.unit == axisWavenumber) {
 		p.reverse()
 	}
-	applyConstantUncertainty(p.s, &p.consts)
+	applyConstantUncertainty(p.s, &p.fm.consts)
+	p.s.Measurements = []Measurement{p.fm.measurement(p.file, p.unit.String(), p.s)}
 	if w := thousandsWarning(p.file, p.grouped, p.rows, p.s); w != "" {
 		p.s.Warnings = append(p.s.Warnings, w)
+	} else if w := axisUnitWarning(p.file, p.unit, p.s); w != "" {
+		p.s.Warnings = append(p.s.Warnings, w)
 	}
+	p.s.Warnings = append(p.s.Warnings, percentWarnings(p.file, p.cols, p.maxAbs)...)
+	p.s.Warnings = append(p.s.Warnings, constUncertaintyWarnings(p.file, &p.fm.consts)...)
 	return nil
 }
 
@@ -415,7 +419,7 @@ func (p *parser) meta(s string) error {
 	if k == "" || strings.ContainsAny(k, " \t") && len(strings.Fields(k)) > 4 {
 		return nil
 	}
-	if err := addMeta(p.s, &p.consts, k, v); err != nil {
+	if err := addMeta(p.s, p.fm, k, v); err != nil {
 		return p.errf(0, err)
 	}
 	return nil
@@ -423,10 +427,12 @@ func (p *parser) meta(s string) error {
 
 // addMeta records the metadata field k: v in s, giving their meaning to the
 // keys that have one: u_R and u_T (a constant standard uncertainty, stored in
-// consts and kept as metadata), "processing note" (appended to s.Notes) and
-// "splice" (a [SpliceRecord] in JSON, appended to s.Splices). Readers of
-// every format share it, so that [Write] and [Parse] round-trip all of them.
-func addMeta(s *Spectrum, consts *[numQuantities]float64, k, v string) error {
+// m and kept as metadata), "resolution" and "emittance" (the file's
+// [Measurement], stored in m and kept as metadata), "processing note"
+// (appended to s.Notes) and "splice" (a [SpliceRecord] in JSON, appended to
+// s.Splices). Readers of every format share it, so that [Write] and [Parse]
+// round-trip all of them.
+func addMeta(s *Spectrum, m *fileMeta, k, v string) error {
 	switch normKey(k) {
 	case normKey(noteKey):
 		s.Notes = append(s.Notes, v)
@@ -442,9 +448,17 @@ func addMeta(s *Spectrum, consts *[numQuantities]float64, k, v string) error {
 	s.Meta = append(s.Meta, Field{Key: k, Value: v})
 	switch normKey(k) {
 	case "u_r", "u(r)":
-		return constU(consts, UR, v)
+		return constU(&m.consts, UR, v)
 	case "u_t", "u(t)":
-		return constU(consts, UT, v)
+		return constU(&m.consts, UT, v)
+	case resolutionKey:
+		return m.setResolution(v)
+	case emittanceKey:
+		b, err := ParseEmittanceBasis(v)
+		if err != nil {
+			return fmt.Errorf("%w: %v", errBadMetadata, err)
+		}
+		m.basis = b
 	}
 	return nil
 }
@@ -512,6 +526,15 @@ func (p *parser) header(f []string, text string) error {
 		seen[c.q] = i + 2
 		p.cols = append(p.cols, c)
 	}
+	// An uncertainty column without its own unit follows the unit of the
+	// column it belongs to: a plain u_R beside R (%) is in percent.
+	for i, c := range p.cols {
+		if base, ok := uncertaintyOf[c.q]; ok && !c.percent {
+			if j, has := seen[base]; has && p.cols[j-2].percent {
+				p.cols[i].percent = true
+			}
+		}
+	}
 	if _, r := seen[R]; !r {
 		if _, t := seen[T]; !t {
 			if _, a := seen[A]; !a {
@@ -520,8 +543,13 @@ func (p *parser) header(f []string, text string) error {
 		}
 	}
 	p.seenX = map[float64]int{}
+	p.maxAbs = make([]float64, len(p.cols))
 	return nil
 }
+
+// uncertaintyOf maps each uncertainty column to the column whose unit it
+// follows when it carries none of its own.
+var uncertaintyOf = map[Quantity]Quantity{UR: R, UT: T}
 
 // number reads the cell orig of column col; the decimal form it read (a
 // decimal comma made a point) is left in p.dec for scaled.
@@ -616,6 +644,7 @@ func (p *parser) row(f []string) error {
 			if err := p.checkRange(v, c, s, i+2); err != nil {
 				return err
 			}
+			p.maxAbs[i] = math.Max(p.maxAbs[i], math.Abs(v))
 			if c.percent {
 				v = scaled(p.dec, v, -2) // 88.112 % is 0.88112, not 88.112/100 = 0.8811199999999999
 			}

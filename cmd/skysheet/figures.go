@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"text/tabwriter"
@@ -28,6 +29,7 @@ func runFigures(e *env, args []string) error {
 	fs := newFlags(e, commands["figures"])
 	conditionFlags(fs, &c)
 	asJSON := fs.Bool("json", false, "print one JSON object instead of a table")
+	asCSV := fs.Bool("csv", false, "print the figures as CSV: one row per figure, full precision, units in the column names")
 	var so sampleOptions
 	sampleFlags(fs, "splice-", &so)
 	save := fs.String("save-spectrum", "", "also write the joined, corrected spectrum to this file in the neutral format")
@@ -58,6 +60,12 @@ func runFigures(e *env, args []string) error {
 		}
 	} else if len(files) == 0 {
 		return usagef("no spectrum files given")
+	}
+	if *asJSON && *asCSV {
+		return usagef("--json and --csv: give one")
+	}
+	if len(claims) > 0 && *asCSV {
+		return usagef("--csv prints figures, not the verdicts of --claim")
 	}
 	if len(claims) == 0 && (*angle != 0 || *strict || *deltaE != "") {
 		return usagef("--angle, --strict and --delta-e go with --claim")
@@ -118,6 +126,9 @@ func runFigures(e *env, args []string) error {
 		return printClaims(e, files, m, *asJSON, *strict)
 	}
 	f := m.Figures
+	if *asCSV {
+		return f.WriteCSV(rawWriter(e.stdout))
+	}
 	if *asJSON {
 		enc := json.NewEncoder(rawWriter(e.stdout))
 		enc.SetIndent("", "  ")
@@ -136,22 +147,45 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	}
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	if withU {
-		fmt.Fprintln(tw, "Figure\tValue\tu indep.\tu together\tu known for\tBand\tWeighting\tCoverage")
+		fmt.Fprintln(tw, "Figure\tValue\tu noise\tu together\tu worst\tu known for\tBand\tWeighting\tCoverage")
 	} else {
 		fmt.Fprintln(tw, "Figure\tValue\tBand\tWeighting\tCoverage")
 	}
+	var missing []string
 	for _, x := range f.Figures {
-		fmt.Fprintf(tw, "%s\t%s\t", x.Label, fmtFigure(x, x.Value))
+		v := fmtFigure(x, x.Value)
+		switch {
+		case x.Reason != "":
+			v += " (see below)"
+			missing = append(missing, fmt.Sprintf("%s: n/a, %s", x.Label, x.Reason))
+		case x.Partial:
+			v += " (partial data)"
+		}
+		for _, n := range f.NotesFor(x.Key) {
+			v += " [" + n.Code + "]"
+		}
+		fmt.Fprintf(tw, "%s\t%s\t", x.Label, v)
 		if withU {
 			if u := x.Uncertainty; u != nil {
-				fmt.Fprintf(tw, "±%s\t±%s\t%s\t", fmtUncertainty(x, u.Uncorrelated), fmtUncertainty(x, u.Correlated), fmtPercent(u.Reach))
+				fmt.Fprintf(tw, "±%s\t±%s\t±%s\t%s\t", fmtUncertainty(x, u.Uncorrelated), fmtUncertainty(x, u.Correlated),
+					fmtUncertainty(x, u.WorstCase), fmtPercent(u.Reach))
 			} else {
-				fmt.Fprint(tw, "\t\t\t")
+				fmt.Fprint(tw, "\t\t\t\t")
 			}
 		}
 		fmt.Fprintf(tw, "%s\t%s\t%s\n", x.BandText(), x.Weighting, fmtPercent(x.Coverage))
 	}
 	tw.Flush()
+	for _, m := range missing {
+		fmt.Fprintf(w, "  - %s\n", m)
+	}
+	if slices.ContainsFunc(f.Figures, func(x datasheet.Figure) bool { return x.Partial }) {
+		fmt.Fprintf(w, "  Partial data: the data cover %g–%g %% of the figure's weighting; below %g %% a figure is not given.\n",
+			100*datasheet.Rules.MinShownCoverage, 100*datasheet.Rules.MinCoverage, 100*datasheet.Rules.MinShownCoverage)
+	}
+	for _, n := range f.ModelNotes {
+		fmt.Fprintf(w, "  [%s] %s\n", n.Code, n.Text)
+	}
 	printColor(w, f.Color)
 	cl := f.Closure
 	fmt.Fprintln(w)
@@ -165,6 +199,9 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 		fmt.Fprintf(w, "Closure: holds; |R+T+A-1| at most %.4f (at %s nm), tolerance %g\n", cl.Residual, fmtNM(cl.ResidualNM), cl.Tolerance)
 	default:
 		fmt.Fprintf(w, "Closure: R, T and A were not all measured; R+T ≤ 1 and no negative values, tolerance %g\n", cl.Tolerance)
+	}
+	if o := f.Origins.Text(); o != "" {
+		fmt.Fprintf(w, "R, T and A: %s\n", o)
 	}
 	printSplices(w, f.Splices)
 	printCooling(w, f)

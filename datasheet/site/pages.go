@@ -21,12 +21,16 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	v := &materialView{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
 		Summary: fm.Summary, License: fm.License, Inputs: m.Inputs, Cautions: cautionsOf(f),
 		Conditions: conditionPairs(m.Conditions), Overridden: fm.Conditions.Keys(),
-		Assumptions: f.Assumptions, Closure: closureOf(f), Measured: measuredPairs(fm.Measured)}
+		Assumptions: f.Assumptions, Closure: closureOf(f), Measured: measuredPairs(fm.Measured), Warnings: m.Warnings}
 	if s := library.Slugify(fm.Category); s != "" {
 		v.Category = link{Name: fm.Category, Href: root + listingDir("category", s) + "index.html"}
 	}
 	for _, t := range uniqueTags(fm.Tags) {
 		v.Tags = append(v.Tags, link{Name: t, Href: root + listingDir("tag", tagSlug(t)) + "index.html"})
+	}
+	refs := noteRefs(f, "")
+	for _, n := range f.ModelNotes {
+		v.ModelNotes = append(v.ModelNotes, modelNoteView{ID: "model-" + n.Code, Mark: refs[n.Code].Mark, Text: n.Text})
 	}
 	c := m.Conditions
 	v.Key = append(v.Key,
@@ -38,18 +42,28 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	if m.Sample.Has(spectra.T) {
 		v.Key = append(v.Key, keyCard(f, "solar_transmittance", "Solar transmittance", c.Text("solar_band_nm")))
 	}
+	for i := range v.Key {
+		v.Key[i].Notes = figureNotes(f, v.Key[i].key, refs)
+	}
 	v.Claims = claimViews(vs)
 	var counts datasheet.VerdictCounts
 	counts.Add(vs...)
 	v.ClaimCounts = countWords(counts)
-	refs := claimRefs(v.Claims)
-	v.Colors = colorViews(f, refs)
+	crefs := claimRefs(v.Claims)
+	v.Colors = colorViews(f, crefs)
 	for _, x := range f.Figures {
 		if x.IsColor() { // shown with the swatch in the head
 			continue
 		}
 		r := figRow{Key: x.Key, Label: x.Label, Value: fmtFigure(x), Band: x.BandText(),
-			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage), Claims: refs[x.Key]}
+			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage), Claims: crefs[x.Key],
+			Partial: x.Partial, Notes: figureNotes(f, x.Key, refs)}
+		if isNaN(x.Value) {
+			r.Value, r.Why = "n/a", firstOf(x.ShortReason(), "not computed")
+		}
+		if x.Partial || x.ShortReason() != x.Reason { // partial, or withheld for its coverage
+			v.Thresholds = &thresholds{fmtG(100*datasheet.Rules.MinCoverage) + " %", fmtG(100*datasheet.Rules.MinShownCoverage) + " %"}
+		}
 		r.Unc, r.UncCover = fmtUnc(x.Uncertainty)
 		if r.Unc != "" {
 			v.HasUnc = true
@@ -77,6 +91,7 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	v.Downloads = []link{
 		{Name: "spectrum.csv", Href: "spectrum.csv", Note: "the spectrum, normalised to the neutral column format"},
 		{Name: "figures.json", Href: "figures.json", Note: fmt.Sprintf("every figure with its basis (schema %d)", f.Schema)},
+		{Name: "figures.csv", Href: "figures.csv", Note: "every figure as a table, with its unit, band, coverage and uncertainty"},
 		{Name: "source.md", Href: "source.md", Note: "the Markdown source with its front matter"},
 	}
 	if len(vs) > 0 {
@@ -306,21 +321,57 @@ func keyCard(f *datasheet.Figures, key, label, note string) keyFig {
 	if isNaN(x.Value) {
 		why := "not computed"
 		if f != nil {
-			if m := f.Missing(key); m != "" {
+			if m := figureOf(f, key).ShortReason(); m != "" {
 				why = m
 			}
 		}
-		return keyFig{Label: label, Value: "n/a", Note: why}
+		return keyFig{Label: label, Value: "n/a", Note: why, key: key}
 	}
 	if pm := plusMinus(x); pm != "" {
 		note = strings.TrimSpace(pm) + "; " + note // in the value's unit, shown above
 	}
-	return keyFig{Label: label, Value: fmtNumber(x.Kind(), x.Value, ""), Unit: x.Unit, Note: note}
+	return keyFig{Label: label, Value: fmtNumber(x.Kind(), x.Value, ""), Unit: x.Unit, Note: note, Partial: x.Partial, key: key}
+}
+
+// noteMarks are the marks of the model notes, the same on every page.
+var noteMarks = map[string]string{
+	datasheet.NoteSRINotOpaque:     "†",
+	datasheet.NoteCoolingLoneLayer: "‡",
+	datasheet.NoteSRILowEmittance:  "§",
+}
+
+// noteLabels say each model note in a few words, for links to it.
+var noteLabels = map[string]string{
+	datasheet.NoteSRINotOpaque:     "the SRI is defined for opaque surfaces",
+	datasheet.NoteCoolingLoneLayer: "a lone layer with nothing behind it",
+	datasheet.NoteSRILowEmittance:  "the SRI applies to emittances above 0.1",
+}
+
+// noteRefs returns a reference to each model note of f by code, with
+// href (the datasheet's address, "" on the datasheet itself) before its
+// anchor.
+func noteRefs(f *datasheet.Figures, href string) map[string]noteRef {
+	out := map[string]noteRef{}
+	for _, n := range f.ModelNotes {
+		out[n.Code] = noteRef{ID: href + "#model-" + n.Code, Mark: firstOf(noteMarks[n.Code], "*"), Label: firstOf(noteLabels[n.Code], n.Code)}
+	}
+	return out
+}
+
+// figureNotes returns the references to the model notes that concern
+// figure key.
+func figureNotes(f *datasheet.Figures, key string, refs map[string]noteRef) []noteRef {
+	var out []noteRef
+	for _, n := range f.NotesFor(key) {
+		out = append(out, refs[n.Code])
+	}
+	return out
 }
 
 // plusMinus writes " ±u" for a figure with a standard uncertainty u, two
 // significant digits, the larger of the two cases the datasheet's table
-// gives (errors independent between wavelengths, errors moving together);
+// gives (errors independent beyond a resolution element, each file's
+// errors moving as one);
 // "" when it has none.
 func plusMinus(x datasheet.Figure) string {
 	u := x.Uncertainty
@@ -364,7 +415,27 @@ func (b *builder) table(id, root string, ms []*evaluate.Summary, numbers map[str
 		}
 		for _, col := range tableFigures {
 			x := figureOf(m.Figures, col.Key)
-			r.Cells = append(r.Cells, cell{Key: col.Key, Text: fmtNumber(x.Kind(), x.Value, "") + plusMinus(x), Value: sortValue(x.Value)})
+			if x.Key == "color_lab" { // a swatch and L*
+				cl := cell{Key: col.Key, Text: "—", Value: sortValue(x.Value)}
+				if !isNaN(x.Value) && m.Figures != nil {
+					cl.Text, cl.Swatch = strconv.FormatFloat(float64(x.Value), 'f', 1, 64), m.Figures.Color.Reflectance.SRGB
+				}
+				r.Cells = append(r.Cells, cl)
+				continue
+			}
+			c := cell{Key: col.Key, Text: fmtNumber(x.Kind(), x.Value, "") + plusMinus(x), Value: sortValue(x.Value), Partial: x.Partial}
+			switch {
+			case !isNaN(x.Value):
+			case x.Reason != "":
+				c.Text, c.Why = "n/a", x.ShortReason()
+			}
+			r.Cells = append(r.Cells, c)
+		}
+		if m.Figures != nil {
+			refs := noteRefs(m.Figures, r.Href)
+			for _, n := range m.Figures.ModelNotes {
+				r.Notes = append(r.Notes, refs[n.Code])
+			}
 		}
 		t.Rows = append(t.Rows, r)
 	}
@@ -431,6 +502,14 @@ func (b *builder) indexFiles(out files) error {
 	ms, numbers := b.ordered()
 	tables := b.pagedTables("library-table", "index.html", indexPagesDir, ms, numbers)
 	v := &indexView{Count: len(ms), Table: tables[0].table}
+	var csv tableView
+	if err := b.addTableCSV(out, "", &csv, ms, numbers); err != nil {
+		return err
+	}
+	for i := range tables {
+		tables[i].table.CSV = rootOf(tables[i].name) + csv.CSV
+	}
+	v.Table.CSV = csv.CSV
 	if len(tables) > 1 {
 		v.Table.Data = rowsScript
 		data, err := b.rowsScript(ms, numbers)
@@ -457,6 +536,9 @@ func (b *builder) indexFiles(out files) error {
 		return &library.Error{File: "index.html", Err: fmt.Errorf("scatter chart: %w", err)}
 	}
 	v.Scatter = sc
+	if v.ColorCharts, err = colorCharts(ms); err != nil {
+		return &library.Error{File: "index.html", Err: fmt.Errorf("colour charts: %w", err)}
+	}
 	for _, kind := range []string{"category", "tag"} {
 		slugs, names, members := b.groups(kind == "tag")
 		for _, s := range slugs {
@@ -585,10 +667,18 @@ func (b *builder) listingFiles(out files) error {
 				numbers[m.Slug] = i + 1
 			}
 			tables := b.pagedTables("", name, listingDir(kind, s)+"page/", members[s], numbers)
+			var csv tableView
+			if err := b.addTableCSV(out, listingDir(kind, s), &csv, members[s], numbers); err != nil {
+				return err
+			}
 			for i, t := range tables {
 				q := p
 				if i > 0 {
 					q = b.newPage("listing", fmt.Sprintf("%s: %s, page %d", label, names[s], i+1), t.name)
+				}
+				t.table.CSV = csv.CSV // beside the first page; page/K/ is two folders below
+				if i > 0 {
+					t.table.CSV = "../../" + csv.CSV
 				}
 				q.L = &listingView{Kind: label, Name: names[s], Table: t.table}
 				html, err := b.execute("listing", q)
@@ -655,6 +745,7 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 		}
 		v.Rows = append(v.Rows, r)
 	}
+	v.Rows = append(v.Rows, compareColors(ms)...)
 	cond := compareRow{Label: "Conditions"}
 	for _, m := range ms {
 		cc := m.Conditions
@@ -671,6 +762,39 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 	}
 	out[name] = html
 	return nil
+}
+
+// compareColors returns the rows of a comparison that show the materials'
+// colours: their swatches, and the colour difference of each material from
+// each one before it.
+func compareColors(ms []*evaluate.Summary) []compareRow {
+	sw := compareRow{Label: "Colour on screen (sRGB, approximate)"}
+	any := false
+	for _, m := range ms {
+		h := m.Figures.Color.Reflectance.SRGB
+		sw.Swatches = append(sw.Swatches, h)
+		any = any || h != ""
+	}
+	if !any {
+		return nil
+	}
+	rows := []compareRow{sw}
+	for i := 0; i < len(ms)-1; i++ {
+		r := compareRow{Label: "Colour difference from " + ms[i].Front.Title}
+		for j, m := range ms {
+			de76, de00, ok := datasheet.ColorDifference(ms[i].Figures, m.Figures)
+			switch {
+			case j <= i:
+				r.Cells = append(r.Cells, "")
+			case !ok:
+				r.Cells = append(r.Cells, "—")
+			default:
+				r.Cells = append(r.Cells, fmt.Sprintf("ΔE*ab %.1f, ΔE00 %.1f", de76, de00))
+			}
+		}
+		rows = append(rows, r)
+	}
+	return rows
 }
 
 // catalogEntry is one material in catalog.json.

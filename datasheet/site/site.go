@@ -82,27 +82,27 @@ func Render(lib *library.Library, opt Options, out Writer) error {
 }
 
 // keptFigures returns what the pages built after the datasheets need of
-// f: the headline numbers and the figures of the material tables (every
-// figure when a comparison lists the material). The cooling curve, the
-// sensitivities, the provenance and the rest stay in the material's
-// figures.json.
+// f: the headline numbers, the notes and colours, and the figures of the
+// material tables and colour charts (every figure when a comparison lists
+// the material). The cooling curve, the sensitivities, the sky, the
+// weather series, the assumptions, the provenance and the rest stay in the
+// material's figures.json.
 func keptFigures(f *datasheet.Figures, all bool) *datasheet.Figures {
 	if f == nil {
 		return nil
 	}
-	k := &datasheet.Figures{Schema: f.Schema,
-		SolarReflectance: f.SolarReflectance, SolarTransmittance: f.SolarTransmittance, SolarAbsorptance: f.SolarAbsorptance,
-		SolarCoverage: f.SolarCoverage, UVReflectance: f.UVReflectance, VisibleReflectance: f.VisibleReflectance,
-		NIRReflectance: f.NIRReflectance, ThermalEmittance: f.ThermalEmittance, ThermalCoverage: f.ThermalCoverage,
-		WindowEmittance: f.WindowEmittance, WindowCoverage: f.WindowCoverage,
-		CoolingPowerWm2: f.CoolingPowerWm2, CoolingPowerNightWm2: f.CoolingPowerNightWm2,
-		EquilibriumDeltaK: f.EquilibriumDeltaK, EquilibriumDeltaNightK: f.EquilibriumDeltaNightK}
-	for _, x := range f.Figures {
-		if all || isTableFigure(x.Key) {
-			k.Figures = append(k.Figures, x)
+	k := *f
+	k.Assumptions, k.Splices, k.CoolingCurve, k.Sensitivity, k.Cautions = nil, nil, nil, nil, nil
+	k.Sky, k.Provenance, k.Weather, k.Stack = datasheet.Sky{}, datasheet.Provenance{}, nil, nil
+	if !all {
+		k.Figures = nil
+		for _, x := range f.Figures {
+			if isTableFigure(x.Key) || strings.HasPrefix(x.Key, "color_") {
+				k.Figures = append(k.Figures, x)
+			}
 		}
 	}
-	return k
+	return &k
 }
 
 // isTableFigure reports whether the material tables show figure key.
@@ -226,6 +226,11 @@ func (b *builder) render() (files, error) {
 	if err := b.reviewFiles(out); err != nil {
 		errs = append(errs, err)
 	}
+	if data, err := b.searchIndex(); err != nil {
+		errs = append(errs, err)
+	} else {
+		out[searchIndexName] = data
+	}
 	for _, a := range []string{"style.css", "site.js"} {
 		data, err := b.asset(a)
 		if err != nil {
@@ -316,10 +321,15 @@ func (b *builder) materialFiles(m *evaluate.Material, cmps []*library.Comparison
 	if err != nil {
 		return fail(err)
 	}
+	var figCSV bytes.Buffer
+	if err := m.Figures.WriteCSV(&figCSV); err != nil {
+		return fail(err)
+	}
 	return files{
 		dir + "index.html":   html,
 		dir + "spectrum.csv": csv.Bytes(),
 		dir + "figures.json": append(js, '\n'),
+		dir + "figures.csv":  figCSV.Bytes(),
 		dir + "claims.json":  claims,
 		dir + "source.md":    m.Source,
 	}, nil

@@ -37,10 +37,26 @@ type link struct {
 
 type pair struct{ K, V string }
 
-type keyFig struct{ Label, Value, Unit, Note string }
+type keyFig struct {
+	Label, Value, Unit, Note string
+	Partial                  bool
+	Notes                    []noteRef
+	key                      string // the figure's key
+}
+
+// noteRef points from a figure to a model note of its datasheet.
+type noteRef struct {
+	ID, Mark, Label string // Label: what the note says, in a few words
+}
+
+// modelNoteView is a model note on the datasheet.
+type modelNoteView struct{ ID, Mark, Text string }
 
 type figRow struct {
 	Key, Label, Value, Unc, Band, Weighting, Coverage string
+	Why                                               string // why there is no value
+	Partial                                           bool
+	Notes                                             []noteRef
 	// UncCover is, when the stated uncertainties cover only part of what
 	// the figure depends on, that share in words ("covers 48 %").
 	UncCover string
@@ -59,10 +75,14 @@ type colorView struct {
 
 type spectrumRow struct{ File, Role, Instrument, Notes string }
 
+// thresholds are the coverage thresholds of the figures, "98 %".
+type thresholds struct{ Full, Shown string }
+
 type closureView struct {
 	OK       bool
 	Summary  string
 	Problems []string
+	Origins  string // how R, T and A were obtained
 }
 
 type chartView struct {
@@ -87,6 +107,9 @@ type materialView struct {
 	Conditions                                             []pair
 	Overridden                                             []string
 	Assumptions                                            []string
+	Warnings                                               []string // about the input data, not errors
+	ModelNotes                                             []modelNoteView
+	Thresholds                                             *thresholds // of coverage, when a figure is partial or not given
 	Closure                                                closureView
 	Charts                                                 []chartView
 	Downloads                                              []link
@@ -120,19 +143,27 @@ type column struct {
 	Numeric          bool
 }
 
-type cell struct{ Key, Text, Value string }
+// cell is a cell of a material table; Swatch, when set, is a colour
+// "#rrggbb" shown before the text.
+type cell struct {
+	Key, Text, Value, Swatch string
+	Why                      string // why there is no value, in a few words
+	Partial                  bool
+}
 
 type row struct {
 	N                        int
 	Slug, Href, Title, Maker string
 	Category                 link
 	Cells                    []cell
+	Notes                    []noteRef // the model notes of the material, linking to its datasheet
 }
 
 type tableView struct {
 	ID      string
 	Columns []column
 	Rows    []row
+	CSV     string // the table as CSV, relative to the page; "" for none
 	// Pager links the pages of a table longer than pageRows; nil for a
 	// table on one page.
 	Pager *pager
@@ -156,6 +187,7 @@ type indexView struct {
 	ClaimWords  string                  // the counts in words
 	Table       tableView
 	Scatter     *chartView
+	ColorCharts []chartView
 	Categories  []link
 	Tags        []link
 	Comparisons []link
@@ -171,6 +203,9 @@ type compareCol struct{ Name, Href, Note, Color string }
 type compareRow struct {
 	Label string
 	Cells []string
+	// Swatches, when set, replaces Cells: one colour "#rrggbb" per
+	// material ("" for none).
+	Swatches []string
 }
 
 type compareView struct {
@@ -222,6 +257,7 @@ var tableFigures = []column{
 	{Key: "thermal_emittance", Label: "Thermal emittance", Numeric: true},
 	{Key: "window_emittance", Label: "Window emittance", Numeric: true},
 	{Key: "cooling_power_w_m2", Label: "Net cooling, day", Unit: "W/m²", Numeric: true},
+	{Key: "color_lab", Label: "Colour", Unit: "L*", Numeric: true},
 }
 
 // figureOf returns the figure of f with the given key; a figure without
@@ -277,8 +313,9 @@ func fmtFigure(x datasheet.Figure) string {
 	return fmtNumber(x.Kind(), x.Value, x.Unit)
 }
 
-// fmtUnc formats a figure's standard uncertainty as "±indep. / ±together"
-// (errors independent between wavelengths, errors moving together), two
+// fmtUnc formats a figure's standard uncertainty as "±noise / ±together"
+// (errors independent beyond a resolution element, each file's errors
+// moving as one), two
 // significant digits; and, when the stated uncertainties of R and T cover
 // less than all of what the figure depends on (its sensitivity), the
 // share they cover in plain words: "covers 48 %" (the datasheet explains
@@ -331,7 +368,7 @@ func conditionPairs(c datasheet.Conditions) []pair {
 // closureOf describes the closure check as the CLI does.
 func closureOf(f *datasheet.Figures) closureView {
 	cl := f.Closure
-	v := closureView{OK: cl.OK, Problems: cl.Problems}
+	v := closureView{OK: cl.OK, Problems: cl.Problems, Origins: f.Origins.Text()}
 	switch {
 	case !cl.OK:
 		v.Summary = fmt.Sprintf("fails (tolerance %g).", cl.Tolerance)
