@@ -3,6 +3,7 @@ package spectra
 import (
 	"bytes"
 	"fmt"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -36,5 +37,46 @@ func BenchmarkParseRows(b *testing.B) {
 				}
 			}
 		})
+	}
+}
+
+// BenchmarkParseFloatBaseline is the floor BenchmarkParseRows/comma is
+// measured against: the same file's numbers read with strconv.ParseFloat
+// and nothing else (lines split on newlines and commas, comments and the
+// header skipped). Reading aims at 2× this time at most; the ratio is
+// read off the two benchmarks' ns/op.
+func BenchmarkParseFloatBaseline(b *testing.B) {
+	data := benchFile(2250, ",")
+	b.SetBytes(int64(len(data)))
+	for b.Loop() {
+		var sum float64
+		rest := data
+		for len(rest) > 0 {
+			line := rest
+			if i := bytes.IndexByte(rest, '\n'); i >= 0 {
+				line, rest = rest[:i], rest[i+1:]
+			} else {
+				rest = nil
+			}
+			if len(line) == 0 || line[0] == '#' || line[0] == 'w' {
+				continue
+			}
+			for len(line) > 0 {
+				field := line
+				if i := bytes.IndexByte(line, ','); i >= 0 {
+					field, line = line[:i], line[i+1:]
+				} else {
+					line = nil
+				}
+				v, err := strconv.ParseFloat(string(field), 64)
+				if err != nil {
+					b.Fatal(err)
+				}
+				sum += v
+			}
+		}
+		if sum == 0 {
+			b.Fatal("no numbers")
+		}
 	}
 }
