@@ -530,6 +530,9 @@ type cooling struct {
 	sky Sky
 	sun spectra.Weighting
 	g   *coolGrid // nil: no emittance data in the exchange band
+	// basis is the emittance basis of the figures, named in their
+	// weighting.
+	basis EmittanceBasis
 }
 
 // coolFigures are the scalar results of one evaluation.
@@ -590,6 +593,9 @@ func (m *cooling) weighting(withSun, withH bool) string {
 		out += fmt.Sprintf("; sun %s W/m², %s shape", fmtG(c.IrradianceWm2), m.sun)
 	} else {
 		out += "; no sun"
+	}
+	if b := m.basis.short(); b != "" {
+		out += "; " + b
 	}
 	return out
 }

@@ -138,11 +138,11 @@ type figureSpec struct {
 // The conditions behind the kinds of figures.
 var (
 	solarConds   = []condition{condSolarBand, condSolarSpectrum}
-	sriConds     = []condition{condSolarBand, condSolarSpectrum, condThermalBand, condTemperature}
-	dayPower     = []condition{condSky, condDewPoint, condAmbient, condIrradiance, condSolarSpectrum, condSolarBand, condExchangeBand}
-	nightPower   = []condition{condSky, condDewPoint, condAmbient, condExchangeBand}
-	dayBalance   = []condition{condSky, condDewPoint, condAmbient, condH, condIrradiance, condSolarSpectrum, condSolarBand, condExchangeBand}
-	nightBalance = []condition{condSky, condDewPoint, condAmbient, condH, condExchangeBand}
+	sriConds     = []condition{condSolarBand, condSolarSpectrum, condThermalBand, condTemperature, condRefractive}
+	dayPower     = []condition{condSky, condDewPoint, condAmbient, condIrradiance, condSolarSpectrum, condSolarBand, condExchangeBand, condRefractive}
+	nightPower   = []condition{condSky, condDewPoint, condAmbient, condExchangeBand, condRefractive}
+	dayBalance   = []condition{condSky, condDewPoint, condAmbient, condH, condIrradiance, condSolarSpectrum, condSolarBand, condExchangeBand, condRefractive}
+	nightBalance = []condition{condSky, condDewPoint, condAmbient, condH, condExchangeBand, condRefractive}
 )
 
 // figureSpecs is the one table of how each figure that [Compute] returns is
