@@ -163,3 +163,73 @@ func TestEmittanceConversion(t *testing.T) {
 		t.Errorf("hemispherical data: basis %+v, night power %v (near-normal unconverted %v)", b, hemi.CoolingPowerNightWm2, plain.CoolingPowerNightWm2)
 	}
 }
+
+// TestEmittanceBasisPitfall checks the pitfall emittance-basis: named when
+// a claim states the other basis, with both values (the other by the
+// Fresnel ratio, computed independently in the test, or recomputed with
+// the conversion), and not named when the bases agree.
+func TestEmittanceBasisPitfall(t *testing.T) {
+	s := mustParse(t, coarseSample(0, false), "c.csv")
+	c := DefaultConditions()
+	f, err := compute(s, c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cn := c
+	cn.RefractiveIndex = On(1.5)
+	fc, err := compute(s, cn)
+	if err != nil {
+		t.Fatal(err)
+	}
+	te, _ := f.Figure("thermal_emittance")
+	night, _ := fc.Figure("cooling_power_night_w_m2")
+	hemiTE := float64(te.Value) * fresnelBrute(1.5)
+	for _, tt := range []struct {
+		name   string
+		claim  Claim
+		want   bool
+		inText []string
+	}{
+		{"hemispherical claim of the band emittance", Claim{Figure: "thermal_emittance", Value: 0.9, Basis: Basis{Emittance: "hemispherical"}}, true,
+			[]string{"hemispherical emittance but the figure rests on near-normal emittance (default for FTIR data)",
+				KindFraction.Format(float64(te.Value), ""), "about " + KindFraction.Format(hemiTE, "") + " hemispherical", "n 1.5, illustrative"}},
+		{"hemispherical claim of a cooling power", Claim{Figure: "cooling_power_night_w_m2", Value: 90, Basis: Basis{Emittance: "hemispherical"}}, true,
+			[]string{"about " + KindPower.Format(float64(night.Value), "W/m²") + " hemispherical"}},
+		{"hemispherical claim with its index", Claim{Figure: "cooling_power_night_w_m2", Value: 90, Basis: Basis{Emittance: "hemispherical", RefractiveIndex: 1.5}}, false, nil},
+		{"near-normal claim", Claim{Figure: "thermal_emittance", Value: 0.9, Basis: Basis{Emittance: "near-normal"}}, false, nil},
+		{"no basis stated", Claim{Figure: "sri_medium", Value: 90}, false, nil},
+		{"a solar figure", Claim{Figure: "solar_reflectance", Value: 0.9, Basis: Basis{Emittance: "hemispherical"}}, false, nil},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			v := judgeOne(tt.claim, JudgeInput{Spectrum: s, Conditions: c})
+			var p *Pitfall
+			for i := range v.Pitfalls {
+				if v.Pitfalls[i].Code == pitfallEmittanceBasis {
+					p = &v.Pitfalls[i]
+				}
+			}
+			if (p != nil) != tt.want {
+				t.Fatalf("pitfall %v, want %v (%+v)", p, tt.want, v.Pitfalls)
+			}
+			for _, w := range tt.inText {
+				if !strings.Contains(p.Text, w) {
+					t.Errorf("pitfall %q lacks %q", p.Text, w)
+				}
+			}
+			if tt.claim.Basis.RefractiveIndex > 0 && v.Computed != night.Value {
+				t.Errorf("computed %v, want the converted %v", v.Computed, night.Value)
+			}
+			if tt.claim.Basis.Emittance != "" && tt.claim.Figure != "solar_reflectance" &&
+				!strings.Contains(v.Basis, tt.claim.Basis.Emittance+" emittance (stated)") {
+				t.Errorf("basis %q does not name the claimed emittance", v.Basis)
+			}
+		})
+	}
+	if err := (Claim{Figure: "thermal_emittance", Value: 0.9, Basis: Basis{Emittance: "sideways"}}).Validate(); err == nil ||
+		!strings.Contains(err.Error(), "want near-normal or hemispherical") {
+		t.Errorf("bad basis: %v", err)
+	}
+	if err := (Claim{Figure: "thermal_emittance", Value: 0.9, Basis: Basis{RefractiveIndex: 0.8}}).Validate(); err == nil {
+		t.Error("refractive index 0.8 accepted")
+	}
+}
