@@ -3,6 +3,7 @@ package datasheet
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"skysheet/spectra"
@@ -66,7 +67,13 @@ func emittanceBasisOf(s *spectra.Spectrum, c Conditions) EmittanceBasis {
 		if m.Hi <= c.ExchangeBand.Lo || m.Emittance == spectra.EmittanceUnstated {
 			continue
 		}
-		stated = append(stated, m.Source)
+		from := m.Source
+		if m.EmittanceFrom != "" {
+			from = m.EmittanceFrom
+		}
+		if !slices.Contains(stated, from) {
+			stated = append(stated, from)
+		}
 		bases = append(bases, m.Emittance)
 	}
 	switch {

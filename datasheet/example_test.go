@@ -67,3 +67,16 @@ func ExampleCompute_weather() {
 	// Test roof (invented): 24 hours on 1 day, 24 of them below the air
 	// energy > 0: true
 }
+
+func ExampleEmittanceBasis() {
+	in := "wavelength_um,R\n0.28,0.95\n2.5,0.95\n2.5001,0.04\n25,0.04\n"
+	s, _ := spectra.Parse(strings.NewReader(in), "flat.csv")
+	c := datasheet.DefaultConditions()
+	c.RefractiveIndex = datasheet.On(1.5)
+	f, _ := datasheet.Compute(s, spectra.Resolve(s, c.ClosureTol), c)
+	fmt.Println(f.EmittanceBasis.Words())
+	fmt.Printf("ε %.3f, in the SRI %.3f\n", f.ThermalEmittance, f.SRI.ThermalEmittance)
+	// Output:
+	// near-normal (default for FTIR data); cooling figures and SRI converted to hemispherical as a smooth dielectric of n 1.5 (× 0.946)
+	// ε 0.960, in the SRI 0.908
+}

@@ -168,6 +168,9 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 		fmt.Fprintf(w, "Closure: R, T and A were not all measured; R+T ≤ 1 and no negative values, tolerance %g\n", cl.Tolerance)
 	}
 	printSplices(w, f.Splices)
+	if !math.IsNaN(float64(f.ThermalEmittance)) {
+		fmt.Fprintf(w, "Emittance: %s\n", f.EmittanceBasis.Words())
+	}
 	printCooling(w, f)
 	if f.Stack != nil {
 		printStack(w, f.Stack, f)
