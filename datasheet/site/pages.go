@@ -76,6 +76,7 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	v.Downloads = []link{
 		{Name: "spectrum.csv", Href: "spectrum.csv", Note: "the spectrum, normalised to the neutral column format"},
 		{Name: "figures.json", Href: "figures.json", Note: fmt.Sprintf("every figure with its basis (schema %d)", f.Schema)},
+		{Name: "figures.csv", Href: "figures.csv", Note: "every figure as a table, with its unit, band, coverage and uncertainty"},
 		{Name: "source.md", Href: "source.md", Note: "the Markdown source with its front matter"},
 	}
 	if len(vs) > 0 {
@@ -364,6 +365,14 @@ func (b *builder) table(id, root string, ms []*evaluate.Summary, numbers map[str
 		}
 		for _, col := range tableFigures {
 			x := figureOf(m.Figures, col.Key)
+			if x.Key == "color_lab" { // a swatch and L*
+				cl := cell{Key: col.Key, Text: "—", Value: sortValue(x.Value)}
+				if !isNaN(x.Value) && m.Figures != nil {
+					cl.Text, cl.Swatch = strconv.FormatFloat(float64(x.Value), 'f', 1, 64), m.Figures.Color.Reflectance.SRGB
+				}
+				r.Cells = append(r.Cells, cl)
+				continue
+			}
 			r.Cells = append(r.Cells, cell{Key: col.Key, Text: fmtNumber(x.Kind(), x.Value, "") + plusMinus(x), Value: sortValue(x.Value)})
 		}
 		t.Rows = append(t.Rows, r)
@@ -430,6 +439,9 @@ func (b *builder) indexFiles(out files) error {
 	p := b.newPage("index", b.site.Title, "index.html")
 	ms, numbers := b.ordered()
 	v := &indexView{Count: len(ms), Table: b.table("library-table", "", ms, numbers)}
+	if err := b.addTableCSV(out, "", &v.Table, ms, numbers); err != nil {
+		return err
+	}
 	for _, m := range ms {
 		v.Claims.Add(m.Verdicts...)
 	}
@@ -439,6 +451,9 @@ func (b *builder) indexFiles(out files) error {
 		return &library.Error{File: "index.html", Err: fmt.Errorf("scatter chart: %w", err)}
 	}
 	v.Scatter = sc
+	if v.ColorCharts, err = colorCharts(ms, v.Table.Rows); err != nil {
+		return &library.Error{File: "index.html", Err: fmt.Errorf("colour charts: %w", err)}
+	}
 	for _, kind := range []string{"category", "tag"} {
 		slugs, names, members := b.groups(kind == "tag")
 		for _, s := range slugs {
@@ -485,6 +500,9 @@ func (b *builder) listingFiles(out files) error {
 				numbers[m.Slug] = i + 1
 			}
 			p.L = &listingView{Kind: label, Name: names[s], Table: b.table("", p.Root, members[s], numbers)}
+			if err := b.addTableCSV(out, listingDir(kind, s), &p.L.Table, members[s], numbers); err != nil {
+				return err
+			}
 			html, err := b.execute("listing", p)
 			if err != nil {
 				return &library.Error{File: name, Err: err}
@@ -548,6 +566,7 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 		}
 		v.Rows = append(v.Rows, r)
 	}
+	v.Rows = append(v.Rows, compareColors(ms)...)
 	cond := compareRow{Label: "Conditions"}
 	for _, m := range ms {
 		cc := m.Conditions
@@ -564,6 +583,39 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 	}
 	out[name] = html
 	return nil
+}
+
+// compareColors returns the rows of a comparison that show the materials'
+// colours: their swatches, and the colour difference of each material from
+// each one before it.
+func compareColors(ms []*evaluate.Summary) []compareRow {
+	sw := compareRow{Label: "Colour on screen (sRGB, approximate)"}
+	any := false
+	for _, m := range ms {
+		h := m.Figures.Color.Reflectance.SRGB
+		sw.Swatches = append(sw.Swatches, h)
+		any = any || h != ""
+	}
+	if !any {
+		return nil
+	}
+	rows := []compareRow{sw}
+	for i := 0; i < len(ms)-1; i++ {
+		r := compareRow{Label: "Colour difference from " + ms[i].Front.Title}
+		for j, m := range ms {
+			de76, de00, ok := datasheet.ColorDifference(ms[i].Figures, m.Figures)
+			switch {
+			case j <= i:
+				r.Cells = append(r.Cells, "")
+			case !ok:
+				r.Cells = append(r.Cells, "—")
+			default:
+				r.Cells = append(r.Cells, fmt.Sprintf("ΔE*ab %.1f, ΔE00 %.1f", de76, de00))
+			}
+		}
+		rows = append(rows, r)
+	}
+	return rows
 }
 
 // catalogEntry is one material in catalog.json.

@@ -188,6 +188,11 @@ func (b *builder) render() (files, error) {
 	if err := b.reviewFiles(out); err != nil {
 		errs = append(errs, err)
 	}
+	if data, err := b.searchIndex(); err != nil {
+		errs = append(errs, err)
+	} else {
+		out[searchIndexName] = data
+	}
 	for _, a := range []string{"style.css", "site.js"} {
 		data, err := b.asset(a)
 		if err != nil {
@@ -278,10 +283,15 @@ func (b *builder) materialFiles(m *evaluate.Material, cmps []*library.Comparison
 	if err != nil {
 		return fail(err)
 	}
+	var figCSV bytes.Buffer
+	if err := m.Figures.WriteCSV(&figCSV); err != nil {
+		return fail(err)
+	}
 	return files{
 		dir + "index.html":   html,
 		dir + "spectrum.csv": csv.Bytes(),
 		dir + "figures.json": append(js, '\n'),
+		dir + "figures.csv":  figCSV.Bytes(),
 		dir + "claims.json":  claims,
 		dir + "source.md":    m.Source,
 	}, nil
