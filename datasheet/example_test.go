@@ -73,9 +73,9 @@ func ExampleFigures_WriteCSV() {
 		}
 	}
 	// Output:
-	// key,label,value (unit),unit,band low (band_unit),band high (band_unit),band_unit,weighting,coverage (fraction),u independent (unit),u together (unit),u known for (fraction),components (unit)
-	// solar_reflectance,Solar reflectance,0.8999999999999985,fraction,280,2500,nm,ASTM G173-03 global tilt,1,,,,
-	// thermal_emittance,Thermal emittance,0.9499999801872775,fraction,2.5,25,µm,Planck blackbody at 300 K,1,,,,
+	// key,label,value (unit),unit,band low (band_unit),band high (band_unit),band_unit,weighting,coverage (fraction),u independent (unit),u together (unit),u worst case (unit),u known for (fraction),components (unit)
+	// solar_reflectance,Solar reflectance,0.8999999999999985,fraction,280,2500,nm,ASTM G173-03 global tilt,1,,,,,
+	// thermal_emittance,Thermal emittance,0.9499999801872775,fraction,2.5,25,µm,Planck blackbody at 300 K; near-normal,1,,,,,
 }
 
 // A day of weather: the same flat sample held at the air temperature and
