@@ -128,6 +128,9 @@ func TestEmittanceConversion(t *testing.T) {
 	if got, want := float64(conv.SRI.Medium), SolarReflectanceIndex(float64(plain.SolarAbsorptance), ratio*float64(plain.ThermalEmittance), WindMedium); math.Abs(got-want) > 1e-4 {
 		t.Errorf("SRI %.4f, want %.4f", got, want)
 	}
+	if conv.CoolingTerms.SolarWm2 != plain.CoolingTerms.SolarWm2 {
+		t.Errorf("absorbed sunlight %v changed by the conversion (was %v): sunlight is not thermal emission", conv.CoolingTerms.SolarWm2, plain.CoolingTerms.SolarWm2)
+	}
 	if conv.ThermalEmittance != plain.ThermalEmittance {
 		t.Errorf("thermal emittance %v changed by the conversion (was %v)", conv.ThermalEmittance, plain.ThermalEmittance)
 	}

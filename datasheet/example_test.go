@@ -111,3 +111,21 @@ func ExampleEmittanceBasis() {
 	// near-normal (default for FTIR data); cooling figures and SRI converted to hemispherical as a smooth dielectric of n 1.5 (× 0.946)
 	// ε 0.960, in the SRI 0.908
 }
+
+// A grey and a darker grey: the colour figures and their difference.
+func ExampleColorDifference() {
+	c := datasheet.DefaultConditions()
+	grey := func(rho string) *datasheet.Figures {
+		s, _ := spectra.Parse(strings.NewReader("wavelength_nm,R\n280,"+rho+"\n2500,"+rho+"\n"), "grey.csv")
+		f, _ := datasheet.Compute(s, spectra.Resolve(s, c.ClosureTol), c)
+		return f
+	}
+	a, b := grey("0.5"), grey("0.4")
+	lab, _ := a.Figure("color_lab")
+	fmt.Println(lab.Text(), a.Color.Reflectance.SRGB)
+	de76, de00, _ := datasheet.ColorDifference(a, b)
+	fmt.Printf("ΔE*ab %.2f, ΔE00 %.2f\n", de76, de00)
+	// Output:
+	// L* 76.07, a* 0.00, b* 0.00 #bcbcbc
+	// ΔE*ab 6.60, ΔE00 4.94
+}

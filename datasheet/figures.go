@@ -213,7 +213,7 @@ func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, err
 	if r := float64(basis.Ratio); !math.IsNaN(r) {
 		ratio = r
 	}
-	m := &cooling{c: c, sky: sky, sun: sun, g: newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK), basis: basis}
+	m := &cooling{c: c, sky: sky, sun: sun, g: newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK), basis: basis, ratio: ratio}
 	f, grads, used := computeOptics(o, c)
 	f.EmittanceBasis = basis
 	for i := range f.Figures {
@@ -222,23 +222,13 @@ func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, err
 		}
 	}
 	f.Splices = append([]spectra.SpliceRecord{}, s.Splices...)
-	oc := withEmittanceRatio(o, ratio)
-	m.addCooling(f, oc, grads, true)
-	if ratio != 1 {
-		// The cooling gradients are with respect to the converted
-		// emittance; the data's is ratio times less.
-		for _, key := range []string{"cooling_power_w_m2", "cooling_power_night_w_m2", "equilibrium_delta_k", "equilibrium_delta_night_k"} {
-			if g, ok := grads[key]; ok {
-				grads[key] = g.plus(ratio-1, gradient{spectra.A: g[spectra.A]})
-			}
-		}
-	}
-	m.addSeries(f, oc)
+	m.addCooling(f, o, grads, true)
+	m.addSeries(f, withEmittanceRatio(o, ratio))
 	addSRI(f, grads, ratio)
 	eval := func(o spectra.Optics, lin func(string) float64) map[string]float64 {
 		alpha := float64(f.SolarAbsorptance) + lin("solar_absorptance")
 		eps := ratio * (float64(f.ThermalEmittance) + lin("thermal_emittance"))
-		r := m.evaluate(withEmittanceRatio(o, ratio).A, alpha)
+		r := m.evaluate(o.A, float64(f.CoolingTerms.SolarAbsorbed)+lin(absorbedSunKey))
 		out := map[string]float64{"equilibrium_delta_k": c.AmbientK - r.eqDay, "equilibrium_delta_night_k": c.AmbientK - r.eqNight}
 		for key, hc := range map[string]float64{"sri_low": WindLow, "sri_medium": WindMedium, "sri_high": WindHigh} {
 			out[key] = SolarReflectanceIndex(alpha, eps, hc)

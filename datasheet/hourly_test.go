@@ -154,8 +154,8 @@ func TestSeriesHours(t *testing.T) {
 			if h.psun != 0 {
 				t.Errorf("hour %d: no sun, but %v W/m² absorbed", i, h.psun)
 			}
-		} else if math.Abs(h.psun-float64(f0.SolarAbsorptance)*w.GlobalWm2) > 1e-9 {
-			t.Errorf("hour %d: sun %v, want α G = %v", i, h.psun, float64(f0.SolarAbsorptance)*w.GlobalWm2)
+		} else if math.Abs(h.psun-float64(f0.CoolingTerms.SolarAbsorbed)*w.GlobalWm2) > 1e-9 {
+			t.Errorf("hour %d: sun %v, want α G = %v", i, h.psun, float64(f0.CoolingTerms.SolarAbsorbed)*w.GlobalWm2)
 		}
 		cc := c
 		cc.AmbientK, cc.DewPointC, cc.IrradianceWm2 = w.AirC+273.15, w.DewPointC, w.GlobalWm2
@@ -231,7 +231,7 @@ func TestSeriesResidual(t *testing.T) {
 				fw := blackbodyFraction(skyWindow.Lo, skyWindow.Hi, h.airK)
 				ew := math.Max(0, math.Min(1, 1-(1-h.sky)/fw))
 				sky := Sky{Model: skyModelClear, AmbientK: h.airK, Window: skyWindow, WindowHemisphericalEmissivity: Num(ew)}
-				st := newCoolGrid(o.A, sky, c.ExchangeBand, h.airK).load(o.A)
+				st := newCoolGrid(o.A, sky, c.ExchangeBand, h.airK).load(o.A, 1)
 				if math.Abs(st.patm-h.patm) > 1e-7 {
 					t.Fatalf("%s hour %d: P_atm %v, table %v", name, i, st.patm, h.patm)
 				}

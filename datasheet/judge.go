@@ -176,9 +176,19 @@ func (j *judge) judge(c Claim) Verdict {
 		v.Pitfalls = append(v.Pitfalls, p)
 	}
 
+	// A cooling verdict always says over what the emittance is held
+	// constant beyond the data.
+	held := ""
+	if spec.cooling && !math.IsNaN(float64(f.CoolingPowerNightWm2)) {
+		held = heldClause(f)
+	}
+	say := func(s Status, format string, a ...any) Verdict {
+		v.Status, v.Reason = s, strings.TrimSuffix(fmt.Sprintf(format, a...), ".")+held+"."
+		return v
+	}
 	computed := float64(fig.Value)
 	if math.IsNaN(computed) && fig.Reason != "" {
-		return cannot("%s.", capitalize(fig.Reason))
+		return say(CannotCheck, "%s.", capitalize(fig.Reason))
 	}
 	if math.IsNaN(computed) {
 		if band, _ := missingBand(spec, fig, f); band != "" {
@@ -187,16 +197,6 @@ func (j *judge) judge(c Claim) Verdict {
 		return cannot("%s.", capitalize(errNoRoot.Error()))
 	}
 	v.Difference = Num(computed - c.Value)
-	// A cooling verdict always says over what the emittance is held
-	// constant beyond the data.
-	held := ""
-	if spec.cooling {
-		held = heldClause(f)
-	}
-	say := func(s Status, format string, a ...any) Verdict {
-		v.Status, v.Reason = s, strings.TrimSuffix(fmt.Sprintf(format, a...), ".")+held+"."
-		return v
-	}
 	if why := coverageShort(spec, fig, f); why != "" {
 		return say(CannotCheck, "%s", why)
 	}
@@ -337,8 +337,8 @@ func missingBand(spec figureSpec, fig Figure, f *Figures) (string, bool) {
 		if nan("cooling_power_night_w_m2") {
 			return bandText(c.ExchangeBand, "µm"), true
 		}
-		if spec.solar && nan("solar_absorptance") {
-			return bandText(c.SolarBand, "nm"), false
+		if spec.solar && nan(fig.Key) {
+			return bandText(spectra.SolarRangeNM, "nm"), false
 		}
 		return "", false
 	}
@@ -422,7 +422,8 @@ func coverageShort(spec figureSpec, fig Figure, f *Figures) string {
 			return s
 		}
 		if spec.solar {
-			return input("solar_reflectance", ", on which the absorbed sunlight rests")
+			return short(float64(f.CoolingTerms.SolarAbsorbedCoverage), fmt.Sprintf("the %s power over %s",
+				c.SolarSpectrum.Weighting(), bandText(spectra.SolarRangeNM, "nm")), ", on which the absorbed sunlight rests")
 		}
 		return ""
 	case spec.sri:

@@ -145,7 +145,7 @@ func TestJudgeKinds(t *testing.T) {
 			claim: Claim{Figure: "cooling_power_w_m2", Value: 50, Tolerance: 5},
 			// the night figure does not rest on the solar data
 			status: CannotCheck, kind: KindPower, computed: math.NaN(), allowed: 5, pitfalls: []PitfallCode{pitfallSolarLateStart},
-			reason: []string{"weighting over the band 280–2500 nm, on which the absorbed sunlight rests", "held constant over 25–100 µm"}},
+			reason: []string{"of the ASTM G173-03 global tilt power over 280–4000 nm, on which the absorbed sunlight rests", "held constant over 25–100 µm"}},
 		{name: "night cooling with solar data from 450 nm", files: []string{"a.csv", uvvis450, "b.csv", ftir90},
 			claim:  Claim{Figure: "cooling_power_night_w_m2", Value: 50, Tolerance: 500},
 			status: Supported, kind: KindPower, computed: math.NaN(), allowed: 500},
