@@ -32,6 +32,28 @@ func ExampleSolarReflectanceIndex() {
 	// bare metal: SRI 49.4
 }
 
+// A two-band sky calibrated on a given emissivity, such as a cloud-corrected
+// one: a horizontal blackbody at the air temperature receives exactly that
+// share of σT⁴.
+func ExampleTwoBandSky() {
+	k := datasheet.TwoBandSky(0.85, 290)
+	fmt.Printf("hemispherical %.4f, window %.4f, zenith transmittance %.4f\n", float64(k.HemisphericalEmissivity),
+		float64(k.WindowHemisphericalEmissivity), float64(k.WindowZenithTransmittance))
+	// Output: hemispherical 0.8500, window 0.5216, zenith transmittance 0.6386
+}
+
+// The correlation's optional terms, off by default, as conditions.
+func ExampleClearSky_terms() {
+	c := datasheet.DefaultConditions()
+	c.HourOfDay, c.StationPressure = datasheet.On(3), datasheet.On(850)
+	k := datasheet.ClearSky(c)
+	fmt.Printf("ε_sky %.4f (hour term %+.4f, pressure term %+.4f)\n", float64(k.Emissivity), float64(k.HourTerm), float64(k.PressureTerm))
+	fmt.Println(c.Text("hour_of_day"), "/", c.Text("station_pressure_hpa"))
+	// Output:
+	// ε_sky 0.7655 (hour term +0.0092, pressure term -0.0180)
+	// 3 h / 850 hPa
+}
+
 // The default clear sky: dew point 10 °C seen from air at 300 K.
 func ExampleClearSky() {
 	c := datasheet.DefaultConditions()
@@ -75,7 +97,7 @@ func ExampleFigures_WriteCSV() {
 	// Output:
 	// key,label,value (unit),unit,band low (band_unit),band high (band_unit),band_unit,weighting,coverage (fraction),u independent (unit),u together (unit),u worst case (unit),u known for (fraction),components (unit)
 	// solar_reflectance,Solar reflectance,0.8999999999999985,fraction,280,2500,nm,ASTM G173-03 global tilt,1,,,,,
-	// thermal_emittance,Thermal emittance,0.9499999801872775,fraction,2.5,25,µm,Planck blackbody at 300 K; near-normal,1,,,,,
+	// thermal_emittance,Thermal emittance,0.9499999801872775,fraction,2.5,25,µm,Planck blackbody at 300 K,1,,,,,
 }
 
 // A day of weather: the same flat sample held at the air temperature and

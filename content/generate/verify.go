@@ -79,6 +79,10 @@ func judge(cl claim, f datasheet.Figure, ok bool) bool {
 	case expectPercent:
 		return ok && cl.value > 1 && math.Abs(cl.value/100-v) <= tol/100
 	case expectPartial:
+		// Below 90 % coverage the figure is not given (docs/cooling.md).
+		if ok && math.IsNaN(v) && cov < 0.90 {
+			return true
+		}
 		return ok && !math.IsNaN(v) && cov < 0.99 && math.Abs(cl.value-v) <= tol
 	case expectUncheckable:
 		return !ok || math.IsNaN(v)
