@@ -83,13 +83,17 @@
     table.closest(".table-scroll").after(more);
     if (tools) { tools.hidden = false; }
 
+    // load calls then once the rows are there; while they load, only the
+    // latest request is kept, and it reads the filter when it runs.
+    var waiting = null;
     function load(then) {
       if (rows) { then(); return; }
+      waiting = then;
       if (loading) { return; }
       loading = true;
       var s = document.createElement("script");
       s.src = table.getAttribute("data-rows");
-      s.onload = function () { rows = window.skysheetRows || []; then(); };
+      s.onload = function () { rows = window.skysheetRows || []; waiting(); };
       document.head.appendChild(s);
     }
     // Column k of a row: text and sort value.
@@ -120,9 +124,9 @@
       for (var k = 2; k < keys.length; k++) { cell(tr, keys[k], value(r, k), "num").textContent = text(r, k); }
       return tr;
     }
+    function termsOf() { return input ? input.value.toLowerCase().split(/\s+/).filter(Boolean) : []; }
     function apply() {
-      var terms = input ? input.value.toLowerCase().split(/\s+/).filter(Boolean) : [];
-      if (!terms.length && sortKey === null) {
+      if (!termsOf().length && sortKey === null) {
         tbody.replaceChildren.apply(tbody, first);
         if (pager) { pager.hidden = false; }
         more.hidden = true;
@@ -131,6 +135,7 @@
         return;
       }
       load(function () {
+        var terms = termsOf();
         var shown = rows.filter(function (r) {
           var all = "";
           for (var k = 0; k < keys.length; k++) { all += " " + text(r, k); }

@@ -9,6 +9,7 @@ import (
 	"os"
 	"os/signal"
 	"path/filepath"
+	"runtime/debug"
 	"strings"
 	"sync"
 	"syscall"
@@ -26,6 +27,13 @@ func init() {
 		run:     runRender,
 	})
 }
+
+// renderMemoryLimit is the soft memory limit of a render. A render keeps
+// only a small summary per material, but the garbage collector would let
+// the heap grow to twice what is live; near this limit it collects sooner
+// instead. It is not a cap: a library whose summaries need more gets more,
+// at some cost in time. GOMEMLIMIT, when set, replaces it.
+const renderMemoryLimit = 384 << 20
 
 const (
 	// siteDir is the folder, inside the library folder, that render writes
@@ -52,6 +60,9 @@ func runRender(e *env, args []string) error {
 	}
 	if *out == "" {
 		*out = filepath.Join(dir, siteDir)
+	}
+	if os.Getenv("GOMEMLIMIT") == "" {
+		debug.SetMemoryLimit(renderMemoryLimit)
 	}
 	// Ctrl-C or a termination request stops the render: the unfinished site
 	// is removed and the old one stays as it was.
