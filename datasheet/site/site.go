@@ -278,11 +278,14 @@ func (b *builder) materialFiles(m *evaluate.Material, cmps []*library.Comparison
 	if err != nil {
 		return fail(err)
 	}
-	return files{
-		dir + "index.html":   html,
-		dir + "spectrum.csv": csv.Bytes(),
-		dir + "figures.json": append(js, '\n'),
-		dir + "claims.json":  claims,
-		dir + "source.md":    m.Source,
-	}, nil
+	out, err := b.weatherFiles(m)
+	if err != nil {
+		return nil, err
+	}
+	out[dir+"index.html"] = html
+	out[dir+"spectrum.csv"] = csv.Bytes()
+	out[dir+"figures.json"] = append(js, '\n')
+	out[dir+"claims.json"] = claims
+	out[dir+"source.md"] = m.Source
+	return out, nil
 }

@@ -23,6 +23,7 @@ type page struct {
 	L         *listingView
 	C         *compareView
 	R         *reviewView
+	W         *weatherView
 }
 
 type siteInfo struct {
@@ -78,6 +79,7 @@ type materialView struct {
 	Assumptions                                            []string
 	Closure                                                closureView
 	Charts                                                 []chartView
+	Series                                                 *seriesLine // figures over a weather series, if any
 	Downloads                                              []link
 	Cautions                                               []string
 	Comparisons                                            []link
