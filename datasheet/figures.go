@@ -152,6 +152,8 @@ type Figures struct {
 	Weather    *SeriesFigures `json:"weather"`
 	Cautions   []string       `json:"cautions"`
 	Provenance Provenance     `json:"provenance"`
+	// Stack is set for a stack of layers (see [ComputeStack]).
+	Stack *StackReport `json:"stack,omitempty"`
 }
 
 // cautions go with every set of figures.

@@ -165,8 +165,28 @@ func Sample(s *spectra.Spectrum, c datasheet.Conditions, claims ...datasheet.Cla
 	return m, nil
 }
 
+// Stack evaluates layers stacked top first under conditions c, outside a
+// library, as [datasheet.ComputeStack] computes them: the stack's optics
+// and figures, as for a measured sample. Its inputs are the layers'.
+func Stack(layers []datasheet.Layer, c datasheet.Conditions) (*Material, error) {
+	st, err := datasheet.ComputeStack(layers, c)
+	if err != nil {
+		return nil, err
+	}
+	m := &Material{Sample: st.Sample, Optics: st.Optics.Optics}
+	m.Solar, m.Thermal = c.Weightings()
+	m.Figures, m.Verdicts, m.Warnings = st.Figures, []datasheet.Verdict{}, warnings(st.Figures)
+	for _, in := range st.Sample.Inputs {
+		m.Inputs = append(m.Inputs, library.Input{Path: in.Name, SHA256: in.SHA256})
+	}
+	return m, nil
+}
+
 // evaluate reads, computes and judges one material.
 func evaluate(lib *library.Library, lm *library.Material) (*Material, error) {
+	if lm.Stack != nil {
+		return evaluateStack(lib, lm)
+	}
 	s, inputs, err := lib.ReadSample(lm)
 	if err != nil {
 		return nil, err
@@ -180,6 +200,36 @@ func evaluate(lib *library.Library, lm *library.Material) (*Material, error) {
 	m := &Material{Summary: Summary{Material: lm, Figures: f, Inputs: inputs, Warnings: append(slices.Clip(s.Warnings), warnings(f)...)}, Sample: s, Optics: o}
 	m.Solar, m.Thermal = c.Weightings()
 	m.Verdicts = datasheet.JudgeAll(lm.Front.Claims, datasheet.JudgeInput{Spectrum: s, Optics: &o, Conditions: c,
+		Figures: f, Angle: lm.Front.Measured.Angle})
+	return m, nil
+}
+
+// evaluateStack reads a stack's layers and computes and judges the stack.
+func evaluateStack(lib *library.Library, lm *library.Material) (*Material, error) {
+	samples, inputs, err := lib.ReadLayers(lm)
+	if err != nil {
+		return nil, err
+	}
+	layers := make([]datasheet.Layer, len(lm.Stack))
+	for i, l := range lm.Stack {
+		layers[i] = datasheet.Layer{Name: l.Name, Sample: samples[i], Conductor: l.Conductor}
+		if l.Material != nil {
+			layers[i].Slug = l.Material.Slug
+		}
+	}
+	c := lm.Conditions
+	st, err := datasheet.ComputeStack(layers, c)
+	if err != nil {
+		return nil, &library.Error{File: lm.Path, Err: fmt.Errorf("%w: %w", library.ErrConditions, err)}
+	}
+	f := st.Figures
+	var warn []string
+	for _, s := range samples {
+		warn = append(warn, s.Warnings...)
+	}
+	m := &Material{Summary: Summary{Material: lm, Figures: f, Inputs: inputs, Warnings: append(warn, warnings(f)...)}, Sample: st.Sample, Optics: st.Optics.Optics}
+	m.Solar, m.Thermal = c.Weightings()
+	m.Verdicts = datasheet.JudgeAll(lm.Front.Claims, datasheet.JudgeInput{Spectrum: st.Sample, Optics: &m.Optics, Conditions: f.Conditions,
 		Figures: f, Angle: lm.Front.Measured.Angle})
 	return m, nil
 }

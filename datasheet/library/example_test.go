@@ -41,5 +41,5 @@ A flat grey reflector.
 	// grey: Grey test panel (invented), 280–2500 nm, solar band 280–2500 nm
 	// content/grey.md:3:1: unknown key: "makr" (did you mean "maker"?)
 	// content/grey.md:1: missing required key: maker (or lab: who made or measured the material)
-	// content/grey.md:1: missing required key: spectra (a list of spectra files, each with file:)
+	// content/grey.md:1: missing required key: spectra (a list of spectra files, each with file:, or a stack of layers)
 }

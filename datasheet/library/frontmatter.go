@@ -14,8 +14,9 @@ import (
 )
 
 // FrontMatter is the YAML block at the top of a content file. A material
-// needs title, maker or lab, and at least one spectra entry; a comparison
-// page has title and compare, and may have slug and summary.
+// needs title, maker or lab, and either at least one spectra entry or a
+// stack of layers; a comparison page has title and compare, and may have
+// slug, summary and reference.
 type FrontMatter struct {
 	Title       string            `yaml:"title"`
 	Slug        string            `yaml:"slug"` // default: from the file name
@@ -31,6 +32,23 @@ type FrontMatter struct {
 	Conditions  Overrides         `yaml:"conditions"`
 	Claims      []datasheet.Claim `yaml:"claims"`
 	Compare     []string          `yaml:"compare"` // slugs of materials: makes the file a comparison page
+	// Stack makes the material a stack of layers, top first, computed
+	// from the layers' spectra instead of measured.
+	Stack []LayerRef `yaml:"stack"`
+	// Reference, on a comparison page, is the slug of the material the
+	// others are compared with (one of compare).
+	Reference string `yaml:"reference"`
+}
+
+// LayerRef is one layer of a stack: another material of the library, or
+// spectra files of its own, with the layer's thickness and thermal
+// conductivity when heat crosses it by conduction (a cover).
+type LayerRef struct {
+	Material        string        `yaml:"material"` // slug of a measured material of the library
+	Name            string        `yaml:"name"`     // for a layer with its own spectra
+	Spectra         []SpectrumRef `yaml:"spectra"`
+	ThicknessMM     *float64      `yaml:"thickness_mm"`
+	ConductivityWmK *float64      `yaml:"conductivity_w_mk"`
 }
 
 // SpectrumRef names one spectra file of a material.
@@ -93,10 +111,67 @@ func (d doc) checkClaims(cs []datasheet.Claim, nodes []*yaml.Node) []error {
 	return errs
 }
 
+// maxLayerMM is the thickest layer a stack accepts: a cover, a film or a
+// fabric, not a wall.
+const maxLayerMM = 1000
+
+// checkStack reports the layers of a stack that are malformed, at the node
+// that is wrong: each layer names a material or has spectra of its own (not
+// both), a name only with its own spectra, thickness and conductivity
+// together, each finite and positive.
+func (d doc) checkStack(layers []LayerRef, key *yaml.Node, nodes []*yaml.Node) []error {
+	if len(layers) < 2 {
+		return []error{d.at(key, ErrMissing, "stack: want a list of at least two layers, top first, each with material: or spectra:")}
+	}
+	if len(nodes) != len(layers) {
+		return nil // the decoder reported the type error
+	}
+	var errs []error
+	for i, l := range layers {
+		n := nodes[i]
+		at := func(key string) *yaml.Node {
+			if v := valueNode(n, key); v != n {
+				return v
+			}
+			return n
+		}
+		own, named := len(l.Spectra) > 0, strings.TrimSpace(l.Material) != ""
+		switch {
+		case own && named:
+			errs = append(errs, d.at(at("spectra"), ErrNotAllowed, "stack layer %d has both material: and spectra:; keep one", i+1))
+		case !own && !named:
+			errs = append(errs, d.at(n, ErrMissing, "stack layer %d: material: (a slug of this library) or spectra: (files of its own)", i+1))
+		case named && strings.TrimSpace(l.Name) != "":
+			errs = append(errs, d.at(at("name"), ErrNotAllowed, "stack layer %d: name: is for a layer with its own spectra; a material layer takes its material's title", i+1))
+		case own && strings.TrimSpace(l.Name) == "":
+			errs = append(errs, d.at(n, ErrMissing, "stack layer %d: name: (a layer with its own spectra needs a name to show)", i+1))
+		}
+		for j, s := range l.Spectra {
+			if strings.TrimSpace(s.File) == "" {
+				sp := at("spectra")
+				if sp.Kind == yaml.SequenceNode && j < len(sp.Content) {
+					sp = sp.Content[j]
+				}
+				errs = append(errs, d.at(sp, ErrMissing, "file (stack layer %d, spectra entry %d)", i+1, j+1))
+			}
+		}
+		if (l.ThicknessMM == nil) != (l.ConductivityWmK == nil) {
+			errs = append(errs, d.at(n, ErrMissing, "stack layer %d: thickness_mm and conductivity_w_mk go together (heat crossing the layer by conduction needs both)", i+1))
+		}
+		if x := l.ThicknessMM; x != nil && !(*x > 0 && *x <= maxLayerMM) {
+			errs = append(errs, d.at(at("thickness_mm"), ErrConditions, "stack layer %d: thickness_mm %g: want 0 < d ≤ %d mm", i+1, *x, maxLayerMM))
+		}
+		if x := l.ConductivityWmK; x != nil && !(*x > 0 && *x <= 1000) {
+			errs = append(errs, d.at(at("conductivity_w_mk"), ErrConditions, "stack layer %d: conductivity_w_mk %g: want 0 < k ≤ 1000 W m⁻¹ K⁻¹", i+1, *x))
+		}
+	}
+	return errs
+}
+
 func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 
 // comparisonKeys are the only keys a comparison page may set.
-var comparisonKeys = map[string]bool{"title": true, "slug": true, "summary": true, "compare": true}
+var comparisonKeys = map[string]bool{"title": true, "slug": true, "summary": true, "compare": true, "reference": true}
 
 // splitFront splits a content file into its YAML text and Markdown body.
 // The YAML text starts on file line 2; the body starts on line bodyLine.
@@ -138,6 +213,7 @@ type frontLines struct {
 	root    *yaml.Node
 	spectra []*yaml.Node // one per spectra entry
 	compare []*yaml.Node // one per compare entry
+	stack   []*yaml.Node // one per stack layer
 }
 
 // parseFront reads and checks the front matter of file.
@@ -164,6 +240,9 @@ func parseFront(file string, yamlText []byte) (FrontMatter, frontLines, doc, err
 	if v := valueNode(root, "compare"); v != root && v.Kind == yaml.SequenceNode {
 		fl.compare = v.Content
 	}
+	if v := valueNode(root, "stack"); v != root && v.Kind == yaml.SequenceNode && len(v.Content) == len(fm.Stack) {
+		fl.stack = v.Content
+	}
 	trim := func(s *string) { *s = strings.TrimSpace(*s) }
 	for _, s := range []*string{&fm.Title, &fm.Slug, &fm.Maker, &fm.Lab, &fm.ProductCode, &fm.Category, &fm.Summary, &fm.License} {
 		trim(s)
@@ -177,18 +256,27 @@ func parseFront(file string, yamlText []byte) (FrontMatter, frontLines, doc, err
 	if valueNode(root, "compare") != root {
 		for i := 0; i+1 < len(root.Content); i += 2 {
 			if k := root.Content[i]; !comparisonKeys[k.Value] {
-				errs = append(errs, d.at(k, ErrNotAllowed, "%s in a comparison page (it has compare:); allowed: title, slug, summary, compare", msg.Quote(k.Value)))
+				errs = append(errs, d.at(k, ErrNotAllowed, "%s in a comparison page (it has compare:); allowed: title, slug, summary, compare, reference", msg.Quote(k.Value)))
 			}
 		}
 		if len(fm.Compare) == 0 {
 			errs = append(errs, d.at(valueNode(root, "compare"), ErrMissing, "compare: want a list of material slugs"))
 		}
+		if r := strings.TrimSpace(fm.Reference); r != "" && !slices.ContainsFunc(fm.Compare, func(s string) bool { return strings.TrimSpace(s) == r }) {
+			best, _ := msg.Nearest(r, fm.Compare)
+			errs = append(errs, d.at(valueNode(root, "reference"), ErrUnknownMaterial, "reference %s is not one of compare (did you mean %q?)", msg.Quote(r), best))
+		}
 	} else {
 		if fm.Maker == "" && fm.Lab == "" {
 			missing("maker", "or lab: who made or measured the material")
 		}
-		if len(fm.Spectra) == 0 {
-			missing("spectra", "a list of spectra files, each with file:")
+		switch stack := valueNode(root, "stack"); {
+		case stack != root && valueNode(root, "spectra") != root:
+			errs = append(errs, d.at(stack, ErrNotAllowed, "stack together with spectra: a stack takes its spectra from its layers; keep one of the two"))
+		case stack != root && stack.Kind == yaml.SequenceNode:
+			errs = append(errs, d.checkStack(fm.Stack, stack, fl.stack)...)
+		case stack == root && len(fm.Spectra) == 0:
+			missing("spectra", "a list of spectra files, each with file:, or a stack of layers")
 		}
 		for i, s := range fm.Spectra {
 			if strings.TrimSpace(s.File) == "" {

@@ -8,9 +8,12 @@ import (
 	"io/fs"
 	"path"
 	"runtime"
+	"slices"
 	"sort"
 	"strings"
 	"sync"
+
+	"gopkg.in/yaml.v3"
 
 	"skysheet/datasheet"
 	"skysheet/spectra"
@@ -42,6 +45,9 @@ type Material struct {
 	Source     []byte               // the whole file
 	Conditions datasheet.Conditions // library conditions with the front matter's overrides
 	Input      Input                // the Markdown file and its SHA-256
+	// Stack holds the layers, top first, of a material declared as a stack
+	// (its figures are computed from theirs); nil for a measured material.
+	Stack []*Layer
 
 	spectra     []spectrumFile // the spectra entries, in front matter order
 	spectraLine int            // file line of the "spectra:" key
@@ -55,6 +61,20 @@ type spectrumFile struct {
 	line, column int
 }
 
+// Layer is one layer of a stack: a measured material of the library or
+// spectra files of its own.
+type Layer struct {
+	Material *Material // the material the layer names; nil for a layer with its own spectra
+	Name     string    // the material's title, or the layer's own name
+	// Conductor is the layer's thickness and thermal conductivity, when
+	// given: heat crosses it by conduction.
+	Conductor *datasheet.Conductor
+
+	slug         string         // as written under material:
+	spectra      []spectrumFile // a layer's own spectra
+	line, column int            // where the layer starts in the front matter
+}
+
 // Comparison is a page that overlays several materials.
 type Comparison struct {
 	Path      string
@@ -64,6 +84,9 @@ type Comparison struct {
 	BodyLine  int
 	Source    []byte
 	Materials []*Material // in the order listed under compare:
+	// Reference is the material the others are compared with, one of
+	// Materials; nil when the page names none.
+	Reference *Material
 }
 
 // Input is a file read to build a page, with its SHA-256 in hex.
@@ -166,6 +189,31 @@ func Load(fsys fs.FS) (*Library, error) {
 			known[r.slug] = true
 		}
 	}
+	// Stacks: each material layer must name a measured material. A stack
+	// whose layer failed to load is left out; the layer's own error is
+	// reported.
+	lib.Materials = slices.DeleteFunc(lib.Materials, func(m *Material) bool {
+		bad := false
+		for i, l := range m.Stack {
+			if l.slug == "" {
+				continue
+			}
+			lm, ok := lib.Material(l.slug)
+			switch {
+			case l.slug == m.Slug:
+				add(errorf(m.Path, l.line, l.column, ErrNotAllowed, "stack layer %d names the stack itself", i+1))
+			case ok && lm.Stack != nil:
+				add(errorf(m.Path, l.line, l.column, ErrNotAllowed, "stack layer %d names %s, itself a stack: name its layers instead", i+1, msg.Quote(l.slug)))
+			case ok:
+				l.Material, l.Name = lm, lm.Front.Title
+				continue
+			case !known[l.slug]:
+				add(errorf(m.Path, l.line, l.column, ErrUnknownMaterial, "stack layer %d: material %s%s", i+1, msg.Quote(l.slug), nearestSlug(l.slug, slugs)))
+			}
+			bad = true
+		}
+		return bad
+	})
 	// A comparison missing any of its materials is left out, as a material
 	// with an error is.
 	resolved := lib.Comparisons[:0]
@@ -177,6 +225,9 @@ func Load(fsys fs.FS) (*Library, error) {
 			}
 		}
 		if len(c.Materials) == len(c.Front.Compare) {
+			if r := strings.TrimSpace(c.Front.Reference); r != "" {
+				c.Reference, _ = lib.Material(r)
+			}
 			resolved = append(resolved, c)
 		}
 	}
@@ -206,23 +257,62 @@ func Load(fsys fs.FS) (*Library, error) {
 // A problem is an [Errors] naming the front-matter entry of the file at
 // fault (or the spectra: key when the files cannot be joined).
 func (l *Library) ReadSample(m *Material) (*spectra.Spectrum, []Input, error) {
-	paths := make([]string, len(m.spectra))
-	for i, f := range m.spectra {
+	s, err := l.read(m.Path, m.spectra, m.spectraLine, 0)
+	if err != nil {
+		return nil, nil, err
+	}
+	return s, m.inputs(s), nil
+}
+
+// ReadLayers reads the spectra of every layer of the stack m, top first,
+// as [Library.ReadSample] reads a material's: a material layer's files as
+// its own front matter names them, a layer's own files as the stack's
+// names them. The inputs are the stack's Markdown file, every layer's
+// files in order, then the spectral sky file of m's conditions, if any.
+// A problem is an [Errors] naming the entry at fault.
+func (l *Library) ReadLayers(m *Material) ([]*spectra.Spectrum, []Input, error) {
+	out := make([]*spectra.Spectrum, len(m.Stack))
+	all := &spectra.Spectrum{}
+	for i, ly := range m.Stack {
+		var err error
+		if ly.Material != nil {
+			out[i], err = l.read(ly.Material.Path, ly.Material.spectra, ly.Material.spectraLine, 0)
+		} else {
+			out[i], err = l.read(m.Path, ly.spectra, ly.line, ly.column)
+		}
+		if err != nil {
+			return nil, nil, err
+		}
+		all.Inputs = append(all.Inputs, out[i].Inputs...)
+	}
+	return out, m.inputs(all), nil
+}
+
+// read reads the spectrum files fs named in file, whose spectra key is at
+// line:col.
+func (l *Library) read(file string, files []spectrumFile, line, col int) (*spectra.Spectrum, error) {
+	paths := make([]string, len(files))
+	for i, f := range files {
 		paths[i] = f.path
 	}
 	s, err := spectra.ReadSample(l.fsys, paths, spectra.SampleOptions{Resolve: resolvePath})
 	if err != nil {
 		var errs Errors
 		for _, e := range splitJoined(err) {
-			at := &Error{File: m.Path, Line: m.spectraLine, Err: fmt.Errorf("%w: %w", ErrSpectrum, e)}
+			at := &Error{File: file, Line: line, Column: col, Err: fmt.Errorf("%w: %w", ErrSpectrum, e)}
 			var fe *spectra.FileError
-			if errors.As(e, &fe) && fe.Index >= 0 && fe.Index < len(m.spectra) {
-				at.Line, at.Column = m.spectra[fe.Index].line, m.spectra[fe.Index].column
+			if errors.As(e, &fe) && fe.Index >= 0 && fe.Index < len(files) {
+				at.Line, at.Column = files[fe.Index].line, files[fe.Index].column
 			}
 			errs = append(errs, at)
 		}
-		return nil, nil, errs
+		return nil, errs
 	}
+	return s, nil
+}
+
+// inputs returns m's Markdown file, the inputs of s and m's sky file.
+func (m *Material) inputs(s *spectra.Spectrum) []Input {
 	inputs := []Input{m.Input}
 	for _, in := range s.Inputs {
 		inputs = append(inputs, Input{Path: in.Name, SHA256: in.SHA256})
@@ -232,7 +322,7 @@ func (l *Library) ReadSample(m *Material) (*spectra.Spectrum, []Input, error) {
 			inputs = append(inputs, *in)
 		}
 	}
-	return s, inputs, nil
+	return inputs
 }
 
 // nearestSlug suggests a known slug close to s, or nothing.
@@ -372,22 +462,25 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 	if m.files.weather == nil && m.Conditions.Weather.Series != nil {
 		m.files.weather = cfg.files.weather // the config's series
 	}
-	for i, ref := range fm.Spectra {
-		at := fl.spectra[i]
-		if v := valueNode(at, "file"); v != at {
-			at = v
+	var es []error
+	m.spectra, es = d.spectrumFiles(fm.Spectra, fl.spectra)
+	errs = append(errs, es...)
+	for i, lr := range fm.Stack {
+		n := fl.stack[i]
+		l := &Layer{slug: strings.TrimSpace(lr.Material), Name: strings.TrimSpace(lr.Name), line: n.Line + d.offset, column: n.Column}
+		if v := valueNode(n, "material"); v != n {
+			l.line, l.column = v.Line+d.offset, v.Column
 		}
-		line, col := at.Line+d.offset, at.Column
-		p, err := resolvePath(file, ref.File)
-		if err != nil {
-			errs = append(errs, &Error{File: file, Line: line, Column: col, Err: fmt.Errorf("spectra file %s: %w", msg.Quote(ref.File), err)})
-			continue
+		if lr.ThicknessMM != nil && lr.ConductivityWmK != nil {
+			l.Conductor = &datasheet.Conductor{ThicknessM: *lr.ThicknessMM / 1000, ConductivityWmK: *lr.ConductivityWmK}
 		}
-		if _, err := fs.Stat(fsys, p); err != nil {
-			errs = append(errs, &Error{File: file, Line: line, Column: col, Err: fmt.Errorf("%w %s: %w%s", ErrSpectrum, p, unwrapPath(err), nearbyFile(fsys, p, ref.File))})
-			continue
+		var nodes []*yaml.Node
+		if v := valueNode(n, "spectra"); v != n && v.Kind == yaml.SequenceNode {
+			nodes = v.Content
 		}
-		m.spectra = append(m.spectra, spectrumFile{path: p, line: line, column: col})
+		l.spectra, es = d.spectrumFiles(lr.Spectra, nodes)
+		errs = append(errs, es...)
+		m.Stack = append(m.Stack, l)
 	}
 	if len(errs) > 0 {
 		r.err = errs
@@ -395,6 +488,31 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 	}
 	r.m = m
 	return r
+}
+
+// spectrumFiles resolves the spectra entries refs (at nodes) and checks
+// that their files exist.
+func (d doc) spectrumFiles(refs []SpectrumRef, nodes []*yaml.Node) ([]spectrumFile, []error) {
+	var out []spectrumFile
+	var errs []error
+	for i, ref := range refs {
+		at := nodes[i]
+		if v := valueNode(at, "file"); v != at {
+			at = v
+		}
+		line, col := at.Line+d.offset, at.Column
+		p, err := resolvePath(d.file, ref.File)
+		if err != nil {
+			errs = append(errs, &Error{File: d.file, Line: line, Column: col, Err: fmt.Errorf("spectra file %s: %w", msg.Quote(ref.File), err)})
+			continue
+		}
+		if _, err := fs.Stat(d.fsys, p); err != nil {
+			errs = append(errs, &Error{File: d.file, Line: line, Column: col, Err: fmt.Errorf("%w %s: %w%s", ErrSpectrum, p, unwrapPath(err), nearbyFile(d.fsys, p, ref.File))})
+			continue
+		}
+		out = append(out, spectrumFile{path: p, line: line, column: col})
+	}
+	return out, errs
 }
 
 // splitJoined returns the errors joined in err by errors.Join, or err

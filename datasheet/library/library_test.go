@@ -55,7 +55,14 @@ func loadRead(fsys fs.FS) (*Library, error) {
 	lib, err := Load(fsys)
 	errs := []error{err}
 	for _, m := range lib.Materials {
-		if _, _, err := lib.ReadSample(m); err != nil {
+		read := lib.ReadSample
+		if m.Stack != nil {
+			read = func(m *Material) (*spectra.Spectrum, []Input, error) {
+				_, in, err := lib.ReadLayers(m)
+				return nil, in, err
+			}
+		}
+		if _, _, err := read(m); err != nil {
 			errs = append(errs, err)
 		}
 	}

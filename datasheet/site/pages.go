@@ -57,6 +57,9 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	for _, s := range fm.Spectra {
 		v.Spectra = append(v.Spectra, spectrumRow{File: s.File, Role: s.Role, Instrument: s.Instrument, Notes: s.Notes})
 	}
+	if f.Stack != nil {
+		v.Stack = stackViewOf(f, root)
+	}
 	body, err := b.md.render(m.Body)
 	if err != nil {
 		return nil, err
@@ -81,6 +84,42 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 		v.Comparisons = append(v.Comparisons, link{Name: x.Front.Title, Href: root + "compare/" + x.Slug + "/index.html"})
 	}
 	return v, nil
+}
+
+// stackViewOf lays out a stack's layers and the cooling of its emitter
+// with and without the layers above, for a page at root.
+func stackViewOf(f *datasheet.Figures, root string) *stackView {
+	st := f.Stack
+	v := &stackView{HEff: fmt.Sprintf("h_eff %s W m⁻² K⁻¹ through the layers above, h %s W m⁻² K⁻¹ without them",
+		strconv.FormatFloat(float64(st.HEffWm2K), 'f', 2, 64), fmtG(float64(st.HWm2K)))}
+	for i, l := range st.Layers {
+		r := layerRow{N: i + 1, Name: l.Name, Thickness: "—", Conductivity: "—", Absorbed: fmtFrac(l.SolarAbsorbed),
+			R: fmtFrac(l.SolarReflectance), T: fmtFrac(l.SolarTransmittance), Eps: fmtFrac(l.ThermalEmittance)}
+		if l.Slug != "" {
+			r.Href = root + materialDir(l.Slug) + "index.html"
+		}
+		if !isNaN(l.ThicknessMM) {
+			r.Thickness, r.Conductivity = fmtG(float64(l.ThicknessMM))+" mm", fmtG(float64(l.ConductivityWmK))+" W m⁻¹ K⁻¹"
+		}
+		v.Layers = append(v.Layers, r)
+	}
+	u := st.Uncovered
+	for _, x := range []struct {
+		key  string
+		with datasheet.Num
+		bare datasheet.Num
+	}{
+		{"cooling_power_w_m2", f.CoolingPowerWm2, u.CoolingPowerWm2},
+		{"cooling_power_night_w_m2", f.CoolingPowerNightWm2, u.CoolingPowerNightWm2},
+		{"equilibrium_delta_k", f.EquilibriumDeltaK, u.EquilibriumDeltaK},
+		{"equilibrium_delta_night_k", f.EquilibriumDeltaNightK, u.EquilibriumDeltaNightK},
+	} {
+		fig := figureOf(f, x.key)
+		bare := fig
+		fig.Value, bare.Value = x.with, x.bare
+		v.Cover = append(v.Cover, coverRow{Label: fig.Label, With: fmtFigure(fig), Without: fmtFigure(bare)})
+	}
+	return v
 }
 
 // keyCard returns the headline card of figure key of f: its value and
@@ -370,6 +409,19 @@ type catalogEntry struct {
 	Inputs      []library.Input    `json:"inputs"`
 	Claims      []catalogClaim     `json:"claims"` // each with its verdict
 	Figures     *datasheet.Figures `json:"figures"`
+	// Stack lists the layers, top first, of a material computed as a
+	// stack; absent for a measured material.
+	Stack []catalogLayer `json:"stack,omitempty"`
+}
+
+// catalogLayer is one layer of a stack in catalog.json: a material of the
+// library (slug and page) or a layer with spectra of its own (name only).
+type catalogLayer struct {
+	Name            string   `json:"name"`
+	Slug            string   `json:"slug,omitempty"`
+	Page            string   `json:"page,omitempty"`
+	ThicknessMM     *float64 `json:"thickness_mm,omitempty"`
+	ConductivityWmK *float64 `json:"conductivity_w_mk,omitempty"`
 }
 
 // catalog is the JSON of catalog.json.
@@ -390,6 +442,7 @@ type catalogCompare struct {
 	Title     string   `json:"title"`
 	Page      string   `json:"page"`
 	Materials []string `json:"materials"`
+	Reference string   `json:"reference,omitempty"` // slug of the material the others are compared with
 }
 
 // CatalogSchema is the version of catalog.json. Keys are only added.
@@ -410,12 +463,26 @@ func (b *builder) catalog(ms []*evaluate.Summary) ([]byte, error) {
 		if e.Tags == nil {
 			e.Tags = []string{}
 		}
+		for i, l := range m.Stack {
+			cl := catalogLayer{Name: l.Name}
+			if l.Material != nil {
+				cl.Slug, cl.Page = l.Material.Slug, materialDir(l.Material.Slug)+"index.html"
+			}
+			if l.Conductor != nil {
+				lr := fm.Stack[i]
+				cl.ThicknessMM, cl.ConductivityWmK = lr.ThicknessMM, lr.ConductivityWmK
+			}
+			e.Stack = append(e.Stack, cl)
+		}
 		c.Materials = append(c.Materials, e)
 	}
 	for _, x := range b.lib.Comparisons {
 		cc := catalogCompare{Slug: x.Slug, Title: x.Front.Title, Page: "compare/" + x.Slug + "/index.html"}
 		for _, m := range x.Materials {
 			cc.Materials = append(cc.Materials, m.Slug)
+		}
+		if x.Reference != nil {
+			cc.Reference = x.Reference.Slug
 		}
 		c.Comparisons = append(c.Comparisons, cc)
 	}

@@ -83,7 +83,27 @@ type materialView struct {
 	Downloads                                              []link
 	Cautions                                               []string
 	Comparisons                                            []link
+	Stack                                                  *stackView // a stack's layers; nil for a measured material
 }
+
+// stackView is a stack's layers and its emitter with and without the
+// layers above it.
+type stackView struct {
+	Layers []layerRow
+	Cover  []coverRow
+	HEff   string // h_eff and h, in words
+}
+
+type layerRow struct {
+	N                                 int
+	Name, Href                        string
+	Thickness, Conductivity, Absorbed string
+	R, T, Eps                         string
+}
+
+// coverRow is one cooling figure of the bottom layer under the layers
+// above it and alone.
+type coverRow struct{ Label, With, Without string }
 
 // column is a column of a material table.
 type column struct {
