@@ -70,10 +70,8 @@ func seriesSummary(w *datasheet.SeriesFigures) string {
 	if isNaN(w.EnergyKWhM2) {
 		return fmt.Sprintf("Over the weather series %s the hourly model could not run: %s", w.Series, firstOf(w.Assumptions...))
 	}
-	return fmt.Sprintf("Over the weather series %s (%s hours from %s to %s): held at the air temperature, %s kWh/m² of cooling; "+
-		"left to float, %s hours below the air (%s K·h), %s K below it on average and at most %s K.",
-		w.Series, fmtCount(w.Hours), w.From[:10], w.To[:10], fmtFixedNum(w.EnergyKWhM2, 1), fmtCount(w.HoursBelowAir),
-		fmtFixedNum(w.DegreeHoursBelowAir, 0), fmtFixedNum(w.MeanDepressionK, 1), fmtFixedNum(w.DeepestDepressionK, 1))
+	return fmt.Sprintf("over %s, %s kWh/m² of cooling held at the air temperature; left to float, %s of %s hours below the air, %s K below it on average.",
+		w.Series, fmtFixedNum(w.EnergyKWhM2, 1), fmtCount(w.HoursBelowAir), fmtCount(w.Hours), fmtFixedNum(w.MeanDepressionK, 1))
 }
 
 // weatherFiles renders the series page of m, if its figures have a series.
