@@ -14,8 +14,16 @@ type Claim struct {
 	// Value is the claimed value, in the figure's own unit (fractions for
 	// reflectance and emittance).
 	Value float64 `yaml:"value" json:"value"`
+	// Values are the claimed components of a colour figure instead of
+	// Value: L*, a*, b* for color_lab, x, y for color_xy.
+	Values []float64 `yaml:"values,omitempty" json:"values,omitempty"`
 	// Tolerance is the claimed ± tolerance; zero means none was given.
+	// For a colour it is the largest colour difference (ΔE, or the
+	// distance in x, y for a chromaticity).
 	Tolerance float64 `yaml:"tolerance,omitempty" json:"tolerance,omitempty"`
+	// DeltaE names the colour difference of an L*a*b* claim: "cie76"
+	// (CIE 1976 ΔE*ab, the default) or "ciede2000".
+	DeltaE string `yaml:"delta_e,omitempty" json:"delta_e,omitempty"`
 	// Basis is what the claimant says the value rests on; empty fields fall
 	// back to the library's defaults.
 	Basis Basis `yaml:"basis,omitempty" json:"basis,omitempty"`
@@ -36,13 +44,19 @@ type Basis struct {
 // MarshalJSON writes the claim with non-finite numbers as null, so that a
 // malformed claim can still be reported.
 func (c Claim) MarshalJSON() ([]byte, error) {
+	var values []Num
+	for _, v := range c.Values {
+		values = append(values, Num(v))
+	}
 	return json.Marshal(struct {
 		Figure    string `json:"figure"`
 		Value     Num    `json:"value"`
+		Values    []Num  `json:"values,omitempty"`
 		Tolerance Num    `json:"tolerance,omitempty"`
+		DeltaE    string `json:"delta_e,omitempty"`
 		Basis     Basis  `json:"basis,omitzero"`
 		Source    string `json:"source,omitempty"`
-	}{c.Figure, Num(c.Value), Num(c.Tolerance), c.Basis, c.Source})
+	}{c.Figure, Num(c.Value), values, Num(c.Tolerance), c.DeltaE, c.Basis, c.Source})
 }
 
 // MarshalJSON writes the basis with non-finite numbers as null.
@@ -68,8 +82,21 @@ func (b Basis) MarshalJSON() ([]byte, error) {
 }
 
 // Text returns the claimed value as written, with its tolerance when one
-// was claimed: "0.95 ± 0.01". It carries no unit.
+// was claimed: "0.95 ± 0.01"; a colour with its components and colour
+// difference: "L* 52, a* 24, b* 18, ΔE00 ≤ 2". It carries no unit.
 func (c Claim) Text() string {
+	if len(c.Values) > 0 {
+		k := figureSpecs[c.Figure].kind
+		s := claimedValuesText(k, c.Values)
+		if c.Tolerance > 0 {
+			name := "distance"
+			if m, err := metricOf(k, c.DeltaE); err == nil {
+				name = m.name
+			}
+			s += ", " + name + " ≤ " + strconv.FormatFloat(c.Tolerance, 'g', -1, 64)
+		}
+		return s
+	}
 	s := strconv.FormatFloat(c.Value, 'g', -1, 64)
 	if c.Tolerance > 0 {
 		s += " ± " + strconv.FormatFloat(c.Tolerance, 'g', -1, 64)

@@ -195,6 +195,13 @@ const (
 	coverageFactor = 2.0
 	// solarStartNM is the wavelength after which solar data start too late.
 	solarStartNM = 300.0
+	// defaultDeltaEUncertainty is the standard uncertainty assumed for a
+	// colour L*a*b* when no tolerance is claimed, as a colour difference
+	// ΔE (either formula).
+	defaultDeltaEUncertainty = 1.0
+	// defaultXYUncertainty is the same for a chromaticity x, y, as a
+	// distance in x, y.
+	defaultXYUncertainty = 0.002
 	// maxAngleDiffDeg is the largest difference between the claimed and the
 	// measured angle of incidence treated as the same basis.
 	maxAngleDiffDeg = 10.0
@@ -208,6 +215,7 @@ type JudgeRules struct {
 	MinCoverage, DefaultUncertainty, DefaultIndexUncertainty, DefaultRelUncertainty float64
 	DefaultPowerFloorWm2, DefaultDeltaFloorK, CoolingCheckLoUM, CoolingCheckHiUM    float64
 	MaxHeldShare, CoverageFactor, SolarStartNM, MaxAngleDiffDeg, MaxFraction        float64
+	DefaultDeltaEUncertainty, DefaultXYUncertainty                                  float64
 }
 
 // Rules are the thresholds the verdicts follow.
@@ -216,6 +224,7 @@ var Rules = JudgeRules{
 	DefaultRelUncertainty: defaultRelUncertainty, DefaultPowerFloorWm2: defaultPowerFloorWm2, DefaultDeltaFloorK: defaultDeltaFloorK,
 	CoolingCheckLoUM: coolingCheckLoUM, CoolingCheckHiUM: coolingCheckHiUM, MaxHeldShare: maxHeldShare,
 	CoverageFactor: coverageFactor, SolarStartNM: solarStartNM, MaxAngleDiffDeg: maxAngleDiffDeg, MaxFraction: maxFraction,
+	DefaultDeltaEUncertainty: defaultDeltaEUncertainty, DefaultXYUncertainty: defaultXYUncertainty,
 }
 
 // edge is the absolute slack when comparing a difference with its
@@ -246,6 +255,11 @@ type Verdict struct {
 	DefaultBasisValue Num       `json:"default_basis_value"`
 	BasisNote         string    `json:"basis_note,omitempty"`
 	Pitfalls          []Pitfall `json:"pitfalls"`
+	// ComputedValues are the computed components of a colour figure
+	// (L*, a*, b* or x, y); Difference is then the distance from the
+	// claimed values, measured as Measure says (e.g. "CIEDE2000 ΔE00").
+	ComputedValues []Num  `json:"computed_values,omitempty"`
+	Measure        string `json:"difference_measure,omitempty"`
 	// Basis is the basis used, in words, each part marked "stated" or
 	// "default"; Defaulted lists the basis keys taken from the defaults.
 	Basis      string     `json:"basis"`
@@ -305,6 +319,9 @@ func (c Claim) Validate() error {
 	if !finite(c.Tolerance) || c.Tolerance < 0 {
 		return fmt.Errorf("%s: tolerance %g: want a positive number or none", c.Figure, c.Tolerance)
 	}
+	if err := c.validateValues(); err != nil {
+		return fmt.Errorf("%s: %v", c.Figure, err)
+	}
 	b := c.Basis
 	for _, band := range []struct {
 		key  string
@@ -329,6 +346,38 @@ func (c Claim) Validate() error {
 	}
 	return nil
 }
+
+// validateValues checks values and delta_e against the claimed figure's
+// kind: a colour figure takes values (as many as it has components) and
+// no value; any other figure neither values nor delta_e.
+func (c Claim) validateValues() error {
+	for _, v := range c.Values {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return fmt.Errorf("values %v: want finite numbers", c.Values)
+		}
+	}
+	spec, known := figureSpecs[c.Figure]
+	names := spec.kind.componentNames()
+	switch {
+	case !known:
+		return nil // judged as an unknown figure
+	case names == nil && len(c.Values) > 0:
+		return fmt.Errorf("values %v: a claim of this figure states one value (value:), not values", c.Values)
+	case names == nil && c.DeltaE != "":
+		return fmt.Errorf("delta_e %q: only claims of an L*a*b* colour take delta_e", c.DeltaE)
+	case names == nil:
+		return nil
+	case len(c.Values) != len(names):
+		return fmt.Errorf("values %v: want the %d values %s, e.g. values: [%s]", c.Values, len(names), strings.Join(names, ", "), examples[spec.kind])
+	case c.Value != 0:
+		return fmt.Errorf("value %g: a colour is claimed with values: [%s], not value:", c.Value, strings.Join(names, ", "))
+	}
+	_, err := metricOf(spec.kind, c.DeltaE)
+	return err
+}
+
+// examples are example values of the multi-component kinds, for messages.
+var examples = map[Kind]string{KindLab: "52.0, 24.5, 18.0", KindChromaticity: "0.41, 0.36"}
 
 // maxFraction is the largest claim read as a fraction, as the readers
 // accept measured fractions up to 1.05; a larger claim of a fraction is not

@@ -22,9 +22,15 @@ const (
 	KindPower                      // a power per area, W/m²
 	KindTemperatureDifference      // a temperature difference, K
 	kindQuantity                   // any other figure with a unit
+	// KindLab is a colour in CIE 1976 L*a*b*, three components; claims
+	// of it are judged by a colour difference ΔE.
+	KindLab
+	// KindChromaticity is a CIE 1931 chromaticity x, y, two components;
+	// claims of it are judged by their distance in x, y.
+	KindChromaticity
 )
 
-var kindWords = [...]string{"", "fraction", "index", "power", "temperature difference", "quantity"}
+var kindWords = [...]string{"", "fraction", "index", "power", "temperature difference", "quantity", "lab colour", "chromaticity"}
 
 // String returns the kind in words, e.g. "fraction" ("" when unknown).
 func (k Kind) String() string {
@@ -54,14 +60,18 @@ func (k *Kind) UnmarshalText(b []byte) error {
 }
 
 // Format writes x as verdicts write numbers of a figure of kind k and the
-// given unit: four decimals for a fraction, one decimal otherwise, followed
-// by the unit when there is one; "n/a" for NaN.
+// given unit: four decimals for a fraction or a chromaticity coordinate,
+// two for an L*a*b* coordinate or colour difference, one decimal
+// otherwise, followed by the unit when there is one; "n/a" for NaN.
 func (k Kind) Format(x float64, unit string) string {
 	if math.IsNaN(x) {
 		return "n/a"
 	}
-	if k == KindFraction || k == kindUnknown && unit == "" {
+	switch {
+	case k == KindFraction || k == KindChromaticity || k == kindUnknown && unit == "":
 		return strconv.FormatFloat(x, 'f', 4, 64)
+	case k == KindLab:
+		return strconv.FormatFloat(x, 'f', 2, 64)
 	}
 	s := strconv.FormatFloat(x, 'f', 1, 64)
 	if unit != "" {
@@ -118,6 +128,8 @@ type figureSpec struct {
 	// pitfalls: solar data (R, or T for a transmittance), infrared
 	// emittance over the thermal or window band, the cooling integrals.
 	solar, transmittance, thermal, window, cooling, sri bool
+	// color: a colour figure, from the data over 380–780 nm under D65.
+	color bool
 	// hc is the convection coefficient of an SRI figure (ASTM E1980
 	// wind class), W m⁻² K⁻¹.
 	hc float64
@@ -153,6 +165,12 @@ var figureSpecs = map[string]figureSpec{
 	"sri_low":                   {kind: KindIndex, conds: sriConds, solar: true, thermal: true, sri: true, hc: WindLow},
 	"sri_medium":                {kind: KindIndex, conds: sriConds, solar: true, thermal: true, sri: true, hc: WindMedium},
 	"sri_high":                  {kind: KindIndex, conds: sriConds, solar: true, thermal: true, sri: true, hc: WindHigh},
+	"color_lab":                 {kind: KindLab, color: true},
+	"color_xy":                  {kind: KindChromaticity, color: true},
+	"luminous_reflectance":      {kind: KindFraction, color: true},
+	"transmitted_color_lab":     {kind: KindLab, color: true, transmittance: true},
+	"transmitted_color_xy":      {kind: KindChromaticity, color: true, transmittance: true},
+	"luminous_transmittance":    {kind: KindFraction, color: true, transmittance: true},
 }
 
 // FigureKeys returns the keys of every figure [Compute] gives, sorted: the
@@ -214,6 +232,9 @@ func (s figureSpec) basisOf(c Conditions, stated map[string]bool, marks bool) (s
 			defaulted = append(defaulted, k.key())
 		}
 		parts = append(parts, w)
+	}
+	if s.color {
+		parts = append(parts, colorWeighting+", 1 nm summation over 380–780 nm")
 	}
 	if s.sri {
 		w := fmt.Sprintf("ASTM E1980 %s wind, h_c %g W m⁻² K⁻¹", windName(s.hc), s.hc)

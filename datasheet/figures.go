@@ -57,6 +57,13 @@ type Figure struct {
 	// Uncertainty is the figure's standard uncertainty when the data give
 	// uncertainties of R or T.
 	Uncertainty *Uncertainty
+	// Components holds every component of a multi-component figure (L*,
+	// a*, b* of a colour; x, y of a chromaticity); Value is then the
+	// first. Nil for a single number.
+	Components []Num
+	// Reason says why Value is n/a when the figure says so itself (a
+	// colour from data that do not cover 380–780 nm); see [Figures.Missing].
+	Reason string
 }
 
 // figureJSON is the JSON form of a Figure.
@@ -70,12 +77,14 @@ type figureJSON struct {
 	Weighting   string       `json:"weighting,omitempty"`
 	Coverage    Num          `json:"coverage"`
 	Uncertainty *Uncertainty `json:"uncertainty,omitempty"`
+	Components  []Num        `json:"components,omitempty"`
+	Reason      string       `json:"reason,omitempty"`
 }
 
 // MarshalJSON writes the figure with its band in its band unit.
 func (f Figure) MarshalJSON() ([]byte, error) {
 	return json.Marshal(figureJSON{f.Key, f.Label, f.Value, f.Unit, bandOut(f.Band, f.BandUnit), f.BandUnit,
-		f.Weighting, f.Coverage, f.Uncertainty})
+		f.Weighting, f.Coverage, f.Uncertainty, f.Components, f.Reason})
 }
 
 // UnmarshalJSON reads the form MarshalJSON writes.
@@ -85,7 +94,7 @@ func (f *Figure) UnmarshalJSON(b []byte) error {
 		return err
 	}
 	*f = Figure{j.Key, j.Label, j.Value, j.Unit, bandFrom(j.Band[0], j.Band[1], j.BandUnit), j.BandUnit,
-		j.Weighting, j.Coverage, j.Uncertainty}
+		j.Weighting, j.Coverage, j.Uncertainty, j.Components, j.Reason}
 	return nil
 }
 
@@ -147,6 +156,9 @@ type Figures struct {
 	CoolingCurve           []CurvePoint  `json:"cooling_curve"`
 	Sensitivity            []Sensitivity `json:"sensitivity"`
 	SRI                    SRI           `json:"sri"`
+	// Color is the colour of the reflectance, and of the transmittance
+	// when it was measured (CIE 1931 2°, D65; see docs/color.md).
+	Color Colors `json:"color"`
 	// Weather holds the figures over the conditions' weather series; nil
 	// (null) when the conditions name none.
 	Weather    *SeriesFigures `json:"weather"`
@@ -207,8 +219,10 @@ func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, err
 		return out
 	}
 	addUncertainty(f, s, o, grads, c.ClosureTol, eval)
+	addColor(f, s, o)
 	f.Cautions = append([]string(nil), cautions...)
 	f.Provenance = provenanceOf(s, f, used)
+	f.Provenance.Weightings = append(f.Provenance.Weightings, colorSource())
 	return f, nil
 }
 

@@ -134,6 +134,9 @@ func (j *judge) judge(c Claim) Verdict {
 	}
 	fig, ok := f.Figure(c.Figure)
 	if !ok {
+		if s, known := figureSpecs[c.Figure]; known && s.transmittance && !m.Spectrum.Has(spectra.T) {
+			return cannot("%s", noTransmittance)
+		}
 		return cannot("skysheet computes no figure %q%s.", c.Figure, suggest(c.Figure, f.Figures))
 	}
 	spec := specOf(fig)
@@ -147,6 +150,10 @@ func (j *judge) judge(c Claim) Verdict {
 			v.BasisNote = fmt.Sprintf("On the default basis (%s) the spectra give %s.",
 				basisShort(spec, d, m.Conditions), v.Format(float64(d.Value)))
 		}
+	}
+
+	if spec.kind.componentNames() != nil {
+		return judgeColor(c, v, fig, spec)
 	}
 
 	// The allowance: the claimed tolerance, or the expanded combined
@@ -164,6 +171,9 @@ func (j *judge) judge(c Claim) Verdict {
 	v.Pitfalls = pitfalls(c, fig, spec, f, o, float64(v.Allowed))
 
 	computed := float64(fig.Value)
+	if math.IsNaN(computed) && fig.Reason != "" {
+		return cannot("%s.", capitalize(fig.Reason))
+	}
 	if math.IsNaN(computed) {
 		if band, _ := missingBand(spec, fig, f); band != "" {
 			return cannot("The data do not reach the band %s at all.", band)
@@ -185,7 +195,7 @@ func (j *judge) judge(c Claim) Verdict {
 		return say(CannotCheck, "%s", why)
 	}
 	if spec.transmittance && !m.Spectrum.Has(spectra.T) {
-		return cannot("No transmittance was measured, and the opaque assumption (T = 0) cannot confirm a claimed transmittance.")
+		return cannot("%s", noTransmittance)
 	}
 	if c.Basis.AngleDeg > 0 && !math.IsNaN(ma) && math.Abs(c.Basis.AngleDeg-ma) > maxAngleDiffDeg {
 		return say(CannotCheck, "The claim is for %g° incidence but the spectra were measured at %g°.", c.Basis.AngleDeg, ma)
@@ -210,6 +220,84 @@ func (j *judge) judge(c Claim) Verdict {
 	}
 	return say(NotSupported, "The spectra give %s, %s %s the claimed %s, outside %s.",
 		v.Format(computed), v.Format(math.Abs(diff)), dir, v.Format(c.Value), allow)
+}
+
+// noTransmittance is the reason a claim of a transmittance cannot be
+// checked against a sample whose transmittance was not measured.
+const noTransmittance = "No transmittance was measured, and the opaque assumption (T = 0) cannot confirm a claimed transmittance."
+
+// judgeColor judges claim c of a multi-component figure fig (a colour or
+// a chromaticity): the distance between the claimed and the computed
+// values (a colour difference ΔE for L*a*b*) against the claimed tolerance
+// or a default allowance. v holds what judge has filled in.
+func judgeColor(c Claim, v Verdict, fig Figure, spec figureSpec) Verdict {
+	cannot := func(format string, a ...any) Verdict {
+		v.Status, v.Reason = CannotCheck, fmt.Sprintf(format, a...)
+		return v
+	}
+	metric, err := metricOf(spec.kind, c.DeltaE)
+	if err != nil { // Validate has checked it; kept for a Claim built in code
+		return cannot("The claim is malformed: %v.", err)
+	}
+	v.Measure = metric.words
+	u, from := defaultDeltaEUncertainty, "default for a colour difference, common practice, no source"
+	if spec.kind == KindChromaticity {
+		u, from = defaultXYUncertainty, "default for a chromaticity, common practice, no source"
+	}
+	if c.Tolerance > 0 {
+		v.Allowed, v.AllowedFrom = Num(c.Tolerance), "claimed tolerance"
+	} else {
+		var uRound float64
+		for _, x := range c.Values {
+			uRound = math.Max(uRound, roundingUncertainty(x))
+		}
+		v.Allowed = Num(coverageFactor * math.Hypot(u, uRound))
+		v.AllowedFrom = fmt.Sprintf("expanded uncertainty (k = %g) of the figure's standard uncertainty %s (%s) and the claim's rounding %s",
+			coverageFactor, v.Format(u), from, v.Format(uRound))
+	}
+	got := make([]float64, len(fig.Components))
+	for i, x := range fig.Components {
+		got[i] = float64(x)
+		if math.IsNaN(got[i]) {
+			if fig.Reason != "" {
+				return cannot("%s.", capitalize(fig.Reason))
+			}
+			return cannot("The spectra give no %s.", spec.kind)
+		}
+	}
+	v.ComputedValues = fig.Components
+	d := metric.dist(got, c.Values)
+	v.Difference = Num(d)
+	claimed, computed := claimedValuesText(spec.kind, c.Values), spec.kind.FormatValues(got)
+	if why := colorOutOfRange(spec.kind, c.Values); why != "" {
+		v.Status, v.Reason = NotSupported, fmt.Sprintf("The claim %s is %s, and the spectra give %s.", claimed, why, computed)
+		return v
+	}
+	allow := "the allowed " + v.Format(float64(v.Allowed)) + " (claimed tolerance)"
+	if c.Tolerance == 0 {
+		allow = "the allowed " + v.Format(float64(v.Allowed)) + " (expanded uncertainty; no tolerance was claimed)"
+	}
+	if d <= float64(v.Allowed)+edge {
+		v.Status, v.Reason = Supported, fmt.Sprintf("The spectra give %s against the claimed %s: %s %s, within %s.",
+			computed, claimed, metric.name, v.Format(d), allow)
+		return v
+	}
+	v.Status, v.Reason = NotSupported, fmt.Sprintf("The spectra give %s against the claimed %s: %s %s, outside %s.",
+		computed, claimed, metric.name, v.Format(d), allow)
+	return v
+}
+
+// colorOutOfRange returns why claimed values of kind k are no colour at
+// all, or "": L* below 0 (less light than none), a chromaticity outside
+// x, y ≥ 0, x + y ≤ 1 (CIE 1931: x + y + z = 1 with z ≥ 0).
+func colorOutOfRange(k Kind, v []float64) string {
+	switch {
+	case k == KindLab && v[0] < 0:
+		return "below L* = 0, the black of no light at all"
+	case k == KindChromaticity && (v[0] < 0 || v[1] < 0 || v[0]+v[1] > 1):
+		return "outside the chromaticity diagram (x, y ≥ 0 and x + y ≤ 1)"
+	}
+	return ""
 }
 
 // figure returns the figure key of f when f was computed without error.
@@ -259,6 +347,9 @@ func (f *Figures) Missing(key string) string {
 	fig, ok := f.Figure(key)
 	if !ok || !math.IsNaN(float64(fig.Value)) {
 		return ""
+	}
+	if fig.Reason != "" {
+		return fig.Reason
 	}
 	band, infrared := missingBand(specOf(fig), fig, f)
 	switch {

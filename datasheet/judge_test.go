@@ -295,11 +295,12 @@ func TestJudgeBasisWordsByKind(t *testing.T) {
 // TestFigureSpecs checks that every figure Compute returns has its entry
 // in the table of kinds, with a kind that fits its unit.
 func TestFigureSpecs(t *testing.T) {
-	f, err := compute(sample(t, "a.csv", uvvisWhite, "b.csv", ftir90), DefaultConditions())
+	// With a transmittance, so that the transmitted colour is computed.
+	f, err := compute(sample(t, "a.csv", "wavelength_nm,R,T\n280,0.5,0.3\n2400,0.5,0.3\n", "b.csv", ftir90), DefaultConditions())
 	if err != nil {
 		t.Fatal(err)
 	}
-	units := map[Kind]string{KindFraction: "", KindIndex: "", KindPower: "W/m²", KindTemperatureDifference: "K"}
+	units := map[Kind]string{KindFraction: "", KindIndex: "", KindPower: "W/m²", KindTemperatureDifference: "K", KindLab: "", KindChromaticity: ""}
 	seen := map[string]bool{}
 	for _, x := range f.Figures {
 		s, ok := figureSpecs[x.Key]
@@ -326,7 +327,7 @@ func TestFigureSpecs(t *testing.T) {
 			t.Errorf("Kind of unit %q = %v, want %v", unit, got, want)
 		}
 	}
-	for _, k := range []Kind{KindFraction, KindIndex, KindPower, KindTemperatureDifference, kindQuantity} {
+	for _, k := range []Kind{KindFraction, KindIndex, KindPower, KindTemperatureDifference, kindQuantity, KindLab, KindChromaticity} {
 		b, err := k.MarshalText()
 		var back Kind
 		if err != nil || back.UnmarshalText(b) != nil || back != k {

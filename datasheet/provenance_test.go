@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"skysheet/spectra"
+	"skysheet/spectra/colorimetry"
 )
 
 func TestProvenance(t *testing.T) {
@@ -38,8 +39,11 @@ func TestProvenance(t *testing.T) {
 	if !strings.HasPrefix(p.Software, "skysheet ") {
 		t.Errorf("software = %q, want \"skysheet VERSION\"", p.Software)
 	}
-	if len(p.Weightings) != 3 {
-		t.Fatalf("weightings = %+v, want the G173 spectrum, the Planck blackbody and the sky", p.Weightings)
+	if len(p.Weightings) != 4 {
+		t.Fatalf("weightings = %+v, want the G173 spectrum, the Planck blackbody, the sky and the CIE tables", p.Weightings)
+	}
+	if w := p.Weightings[3]; w.Name != "CIE 1931 2° observer, illuminant D65" || !strings.Contains(w.Version, "ASTM E308") || w.SHA256 != colorimetry.TableSHA256() {
+		t.Errorf("colour weighting = %+v", w)
 	}
 	if w := p.Weightings[0]; w.Name != "ASTM G173-03 global tilt" || !strings.Contains(w.Version, "ASTM G173-03") || w.SHA256 != spectra.SolarTableSHA256() {
 		t.Errorf("solar weighting = %+v", w)

@@ -56,6 +56,19 @@ func DefaultSkinSetting() SkinSetting {
 	}
 }
 
+// SkinSettingFor returns [DefaultSkinSetting] in the scene of conditions
+// c under sky: the air temperature, sunlight (irradiance and spectrum) and
+// h of c, and L↓ = ε_hemi σT_a⁴ with the hemispherical emissivity of sky
+// (the default L↓ when sky has none).
+func SkinSettingFor(c Conditions, sky Sky) SkinSetting {
+	s := DefaultSkinSetting()
+	s.AirK, s.IrradianceWm2, s.HWm2K, s.SolarSpectrum = c.AmbientK, c.IrradianceWm2, c.HWm2K, c.SolarSpectrum.String()
+	if e := float64(sky.HemisphericalEmissivity); e > 0 && e <= 1 {
+		s.SkyDownWm2 = e * spectra.StefanBoltzmann * math.Pow(c.AmbientK, 4)
+	}
+	return s
+}
+
 // Validate reports the first value of the balance outside its range, as an
 // error wrapping [ErrSystemInput].
 func (s SkinSetting) Validate() error {

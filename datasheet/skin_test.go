@@ -305,3 +305,19 @@ func TestSkinAssumptions(t *testing.T) {
 		t.Errorf("touching fabric not stated: %s", all)
 	}
 }
+
+func TestSkinSettingFor(t *testing.T) {
+	c := DefaultConditions()
+	c.AmbientK, c.IrradianceWm2, c.HWm2K = 305, 800, 4
+	sky := ClearSky(c.DewPointC, c.AmbientK)
+	s := SkinSettingFor(c, sky)
+	// L↓ = ε_hemi σT_a⁴ (Stefan–Boltzmann law), σ from CODATA 2018 (rounded:
+	// agrees to 1e-10 relative with the package's σ from h, c and k).
+	want := float64(sky.HemisphericalEmissivity) * 5.670374419e-8 * math.Pow(305, 4)
+	if math.Abs(s.SkyDownWm2-want) > 1e-6 || s.AirK != 305 || s.IrradianceWm2 != 800 || s.HWm2K != 4 || s.SkinK != 307.15 {
+		t.Errorf("setting %+v, L↓ want %g", s, want)
+	}
+	if s := SkinSettingFor(c, Sky{}); s.SkyDownWm2 != DefaultSkinSetting().SkyDownWm2 {
+		t.Errorf("no sky: L↓ %g", s.SkyDownWm2)
+	}
+}

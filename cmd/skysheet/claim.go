@@ -14,7 +14,9 @@ import (
 
 // parseClaim reads a claim written on the command line:
 // FIGURE=VALUE, FIGURE=VALUE±TOL (also +- or +/- for ±), e.g.
-// "thermal_emittance=0.95±0.02". Errors are bad usage.
+// "thermal_emittance=0.95±0.02"; a colour as its components separated by
+// commas, the tolerance being a colour difference: "color_lab=52,24.5,18±2".
+// Errors are bad usage.
 func parseClaim(s string) (datasheet.Claim, error) {
 	key, val, ok := strings.Cut(s, "=")
 	key, val = strings.TrimSpace(key), strings.TrimSpace(val)
@@ -39,6 +41,19 @@ func parseClaim(s string) (datasheet.Claim, error) {
 			c.Tolerance, val = t, strings.TrimSpace(v)
 			break
 		}
+	}
+	if strings.Contains(val, ",") { // a colour: L*,a*,b* or x,y
+		for _, part := range strings.Split(val, ",") {
+			v, err := strconv.ParseFloat(strings.TrimSpace(part), 64)
+			if err != nil {
+				return datasheet.Claim{}, fmt.Errorf("%s: value %s is not a number", msg.Quote(s), msg.Quote(strings.TrimSpace(part)))
+			}
+			c.Values = append(c.Values, v)
+		}
+		if err := c.Validate(); err != nil {
+			return datasheet.Claim{}, err
+		}
+		return c, nil
 	}
 	v, err := strconv.ParseFloat(val, 64)
 	if err != nil {

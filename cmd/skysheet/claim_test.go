@@ -3,6 +3,7 @@ package main
 import (
 	"encoding/json"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -27,6 +28,12 @@ func TestParseClaim(t *testing.T) {
 		{"thermal_emittance=0.95±x", datasheet.Claim{}, "tolerance"},
 		{"thermal_emittance=0.95±-0.1", datasheet.Claim{}, "tolerance"},
 		{"thermal_emittance=NaN", datasheet.Claim{}, "not a finite number"},
+		{"color_lab=52,24.5,18±2", datasheet.Claim{Figure: "color_lab", Values: []float64{52, 24.5, 18}, Tolerance: 2}, ""},
+		{"color_xy=0.41, 0.36", datasheet.Claim{Figure: "color_xy", Values: []float64{0.41, 0.36}}, ""},
+		{"color_lab=52,24.5", datasheet.Claim{}, "want the 3 values L*, a*, b*"},
+		{"color_lab=52", datasheet.Claim{}, "want the 3 values"},
+		{"color_lab=52,x,18", datasheet.Claim{}, "not a number"},
+		{"solar_reflectance=0.9,0.1", datasheet.Claim{}, "states one value"},
 	} {
 		got, err := parseClaim(tt.in)
 		switch {
@@ -34,7 +41,8 @@ func TestParseClaim(t *testing.T) {
 			t.Errorf("%q: %v", tt.in, err)
 		case tt.errorHas != "" && (err == nil || !strings.Contains(err.Error(), tt.errorHas)):
 			t.Errorf("%q: error %v, want one with %q", tt.in, err, tt.errorHas)
-		case tt.errorHas == "" && (got.Figure != tt.want.Figure || got.Value != tt.want.Value || got.Tolerance != tt.want.Tolerance):
+		case tt.errorHas == "" && (got.Figure != tt.want.Figure || got.Value != tt.want.Value || got.Tolerance != tt.want.Tolerance ||
+			!slices.Equal(got.Values, tt.want.Values)):
 			t.Errorf("%q: %+v, want %+v", tt.in, got, tt.want)
 		}
 	}

@@ -17,8 +17,8 @@ import (
 func init() {
 	register(&command{
 		name:    "figures",
-		args:    "FILE...",
-		summary: "compute solar and thermal figures of one sample from its spectrum files",
+		args:    "FILE... | --stack LAYER,LAYER...",
+		summary: "compute solar and thermal figures of one sample from its spectrum files, or of a stack of layers",
 		run:     runFigures,
 	})
 }
@@ -37,22 +37,38 @@ func runFigures(e *env, args []string) error {
 		claims = append(claims, c)
 		return err
 	})
+	deltaE := fs.String("delta-e", "", "with --claim of color_lab: the colour difference it is judged by, cie76 (CIE 1976 ΔE*ab, the default) or ciede2000")
 	angle := fs.Float64("angle", 0, "with --claim: the angle of incidence the claim is stated at, degrees")
 	strict := fs.Bool("strict", false, "with --claim: also fail when a claim cannot be checked")
+	stackSpec := fs.String("stack", "", "compute a stack of layers instead of one sample: `LAYER,LAYER...` top first, each layer FILE[+FILE...] with optionally @MM:K, its thickness in mm and conductivity in W m⁻¹ K⁻¹ (e.g. cover.csv@3:0.04,emitter-uv.csv+emitter-ir.csv)")
 	files, err := parseFlags(fs, args)
 	if err != nil {
 		return err
 	}
-	if len(files) == 0 {
+	var stack []stackLayer
+	if *stackSpec != "" {
+		if len(files) > 0 {
+			return usagef("--stack names the files of every layer: give no other files")
+		}
+		if len(claims) > 0 {
+			return usagef("--claim does not go with --stack; put the stack in a library to judge its claims")
+		}
+		if stack, err = parseStack(*stackSpec); err != nil {
+			return usagef("%v", err)
+		}
+	} else if len(files) == 0 {
 		return usagef("no spectrum files given")
 	}
-	if len(claims) == 0 && (*angle != 0 || *strict) {
-		return usagef("--angle and --strict go with --claim")
+	if len(claims) == 0 && (*angle != 0 || *strict || *deltaE != "") {
+		return usagef("--angle, --strict and --delta-e go with --claim")
 	}
 	if len(claims) > 0 {
 		b := claimBasis(fs, &c, *angle)
 		for i := range claims {
 			claims[i].Basis = b
+			if len(claims[i].Values) == 3 {
+				claims[i].DeltaE = *deltaE
+			}
 			if err := claims[i].Validate(); err != nil {
 				return usagef("--claim %v", err)
 			}
@@ -75,6 +91,9 @@ func runFigures(e *env, args []string) error {
 	}
 	if err := validateSample(so); err != nil {
 		return err
+	}
+	if stack != nil {
+		return runStack(e, stack, so, c, *save, *asJSON)
 	}
 	s, err := readSample(files, so)
 	if err != nil {
@@ -133,6 +152,7 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 		fmt.Fprintf(tw, "%s\t%s\t%s\n", x.BandText(), x.Weighting, fmtPercent(x.Coverage))
 	}
 	tw.Flush()
+	printColor(w, f.Color)
 	cl := f.Closure
 	fmt.Fprintln(w)
 	switch {
@@ -148,6 +168,9 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	}
 	printSplices(w, f.Splices)
 	printCooling(w, f)
+	if f.Stack != nil {
+		printStack(w, f.Stack, f)
+	}
 	printSeries(w, f.Weather)
 	fmt.Fprintln(w, "\nAssumptions:")
 	for _, a := range f.Assumptions {
@@ -170,6 +193,20 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 		fmt.Fprintln(w, "\nCautions:")
 		for _, x := range f.Cautions {
 			fmt.Fprintf(w, "  - %s\n", x)
+		}
+	}
+}
+
+// printColor writes the screen colour of the reflectance (and of the
+// transmittance) with its note, or why there is none.
+func printColor(w io.Writer, c datasheet.Colors) {
+	for _, x := range []*datasheet.Color{&c.Reflectance, c.Transmittance} {
+		switch {
+		case x == nil:
+		case x.Reason != "":
+			fmt.Fprintf(w, "\nColour of the %s: n/a, %s.\n", x.Of, x.Reason)
+		default:
+			fmt.Fprintf(w, "\nColour of the %s on screen: sRGB %s. %s\n", x.Of, x.SRGB, x.Note)
 		}
 	}
 }
@@ -261,6 +298,9 @@ func fmtEnergy(v datasheet.Num) string {
 // writes it for a reader (a temperature difference as where the surface
 // settles).
 func fmtFigure(x datasheet.Figure, v datasheet.Num) string {
+	if x.Components != nil {
+		return x.Text()
+	}
 	return x.Kind().Words(float64(v), x.Unit)
 }
 

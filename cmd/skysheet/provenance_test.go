@@ -44,7 +44,7 @@ func TestFiguresProvenance(t *testing.T) {
 	if len(p.Inputs) != 2 || p.Inputs[0].SHA256 != sums[0] || p.Inputs[1].SHA256 != sums[1] || p.Inputs[1].Name != files[1] {
 		t.Errorf("JSON provenance inputs = %+v", p.Inputs)
 	}
-	if len(p.Weightings) != 3 || p.Settings.PlanckStepNM != 10 || p.Settings.ClosureTolerance != 0.02 {
+	if len(p.Weightings) != 4 || p.Settings.PlanckStepNM != 10 || p.Settings.ClosureTolerance != 0.02 {
 		t.Errorf("JSON provenance = %+v", p)
 	}
 }

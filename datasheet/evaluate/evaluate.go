@@ -25,6 +25,11 @@ type Summary struct {
 	// Markdown file, the spectrum files and reference standards in the
 	// order read, then a spectral sky file.
 	Inputs []library.Input
+	// Worn holds, for each comparison page (by slug) that lists the
+	// material and names a reference, its figures as a textile: UV
+	// through it and, when the page names a skin, the heat reaching the
+	// skin beneath. Nil when there is none.
+	Worn map[string]*Worn
 	// Warnings are sentences about the data that a reader should notice
 	// but that do not stop the page, such as a splice whose mismatch
 	// exceeds its tolerance.
@@ -63,6 +68,7 @@ type Options struct {
 // [library.Errors] with the problems of every other material, in library
 // order.
 func Library(lib *library.Library, opt Options, each func(*Material) error) ([]*Summary, error) {
+	wear := wearing(lib)
 	n := len(lib.Materials)
 	sums := make([]*Summary, n)
 	errs := make([]error, n)
@@ -77,6 +83,9 @@ func Library(lib *library.Library, opt Options, each func(*Material) error) ([]*
 		wg.Go(func() {
 			for i := range next {
 				m, err := evaluate(lib, lib.Materials[i])
+				if err == nil {
+					m.Worn = wear.of(m)
+				}
 				if err == nil && each != nil {
 					err = each(m)
 				}

@@ -38,6 +38,10 @@ type FrontMatter struct {
 	// Reference, on a comparison page, is the slug of the material the
 	// others are compared with (one of compare).
 	Reference string `yaml:"reference"`
+	// Skin, on a comparison page with a reference, is the slug of a
+	// skin-like surface: each material is then also worn over it as a
+	// textile (heat reaching the skin).
+	Skin string `yaml:"skin"`
 }
 
 // LayerRef is one layer of a stack: another material of the library, or
@@ -102,6 +106,12 @@ func (d doc) checkClaims(cs []datasheet.Claim, nodes []*yaml.Node) []error {
 				node = at("value")
 			case !finite(c.Tolerance) || c.Tolerance < 0:
 				node = at("tolerance")
+			case strings.Contains(err.Error(), ": delta_e "):
+				node = at("delta_e")
+			case strings.Contains(err.Error(), ": values "):
+				node = at("values")
+			case strings.Contains(err.Error(), ": value "):
+				node = at("value")
 			default:
 				node = at("basis")
 			}
@@ -171,7 +181,7 @@ func (d doc) checkStack(layers []LayerRef, key *yaml.Node, nodes []*yaml.Node) [
 func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 
 // comparisonKeys are the only keys a comparison page may set.
-var comparisonKeys = map[string]bool{"title": true, "slug": true, "summary": true, "compare": true, "reference": true}
+var comparisonKeys = map[string]bool{"title": true, "slug": true, "summary": true, "compare": true, "reference": true, "skin": true}
 
 // splitFront splits a content file into its YAML text and Markdown body.
 // The YAML text starts on file line 2; the body starts on line bodyLine.
@@ -256,7 +266,7 @@ func parseFront(file string, yamlText []byte) (FrontMatter, frontLines, doc, err
 	if valueNode(root, "compare") != root {
 		for i := 0; i+1 < len(root.Content); i += 2 {
 			if k := root.Content[i]; !comparisonKeys[k.Value] {
-				errs = append(errs, d.at(k, ErrNotAllowed, "%s in a comparison page (it has compare:); allowed: title, slug, summary, compare, reference", msg.Quote(k.Value)))
+				errs = append(errs, d.at(k, ErrNotAllowed, "%s in a comparison page (it has compare:); allowed: title, slug, summary, compare, reference, skin", msg.Quote(k.Value)))
 			}
 		}
 		if len(fm.Compare) == 0 {
@@ -265,6 +275,9 @@ func parseFront(file string, yamlText []byte) (FrontMatter, frontLines, doc, err
 		if r := strings.TrimSpace(fm.Reference); r != "" && !slices.ContainsFunc(fm.Compare, func(s string) bool { return strings.TrimSpace(s) == r }) {
 			best, _ := msg.Nearest(r, fm.Compare)
 			errs = append(errs, d.at(valueNode(root, "reference"), ErrUnknownMaterial, "reference %s is not one of compare (did you mean %q?)", msg.Quote(r), best))
+		}
+		if strings.TrimSpace(fm.Skin) != "" && strings.TrimSpace(fm.Reference) == "" {
+			errs = append(errs, d.at(valueNode(root, "skin"), ErrMissing, "reference: skin: compares textiles worn over a skin-like surface against a reference; name the reference material"))
 		}
 	} else {
 		if fm.Maker == "" && fm.Lab == "" {

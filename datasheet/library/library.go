@@ -87,6 +87,11 @@ type Comparison struct {
 	// Reference is the material the others are compared with, one of
 	// Materials; nil when the page names none.
 	Reference *Material
+	// Skin is the skin-like surface the materials are worn over, with a
+	// reference; nil when the page names none.
+	Skin *Material
+
+	skinLine int
 }
 
 // Input is a file read to build a page, with its SHA-256 in hex.
@@ -227,6 +232,15 @@ func Load(fsys fs.FS) (*Library, error) {
 		if len(c.Materials) == len(c.Front.Compare) {
 			if r := strings.TrimSpace(c.Front.Reference); r != "" {
 				c.Reference, _ = lib.Material(r)
+			}
+			if sk := strings.TrimSpace(c.Front.Skin); sk != "" {
+				var ok bool
+				if c.Skin, ok = lib.Material(sk); !ok {
+					if !known[sk] {
+						add(errorf(c.Path, c.skinLine, 0, ErrUnknownMaterial, "skin %s%s", msg.Quote(sk), nearestSlug(sk, slugs)))
+					}
+					continue
+				}
 			}
 			resolved = append(resolved, c)
 		}
@@ -438,7 +452,8 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 	fm.Slug = r.slug
 	if len(fm.Compare) > 0 {
 		r.isCompare = true
-		c := &Comparison{Path: file, Slug: r.slug, Front: fm, Body: body, BodyLine: bodyLine, Source: src}
+		c := &Comparison{Path: file, Slug: r.slug, Front: fm, Body: body, BodyLine: bodyLine, Source: src,
+			skinLine: valueNode(fl.root, "skin").Line + d.offset}
 		for _, n := range fl.compare {
 			r.compareLines = append(r.compareLines, n.Line+d.offset)
 		}

@@ -100,3 +100,23 @@ func TestComparisonReference(t *testing.T) {
 	_, err = loadRead(fsys)
 	checkErrors(t, err, []errAt{{ErrUnknownMaterial, "content/whites.md", 4, `did you mean "flat"?`}})
 }
+
+func TestComparisonSkin(t *testing.T) {
+	fsys := baseFS()
+	fsys["content/other.md"] = &fstest.MapFile{Data: fsys["content/flat.md"].Data}
+	fsys["content/skin.md"] = &fstest.MapFile{Data: fsys["content/flat.md"].Data}
+	fsys["content/whites.md"] = &fstest.MapFile{Data: []byte("---\ntitle: Whites\ncompare: [other, flat]\nreference: flat\nskin: skin\n---\n")}
+	lib, err := loadRead(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c := lib.Comparisons[0]; c.Skin == nil || c.Skin.Slug != "skin" {
+		t.Errorf("skin %+v", c.Skin)
+	}
+	fsys["content/whites.md"] = &fstest.MapFile{Data: []byte("---\ntitle: Whites\ncompare: [other, flat]\nreference: flat\nskin: skni\n---\n")}
+	_, err = loadRead(fsys)
+	checkErrors(t, err, []errAt{{ErrUnknownMaterial, "content/whites.md", 5, `did you mean "skin"?`}})
+	fsys["content/whites.md"] = &fstest.MapFile{Data: []byte("---\ntitle: Whites\ncompare: [other, flat]\nskin: skin\n---\n")}
+	_, err = loadRead(fsys)
+	checkErrors(t, err, []errAt{{ErrMissing, "content/whites.md", 4, "name the reference"}})
+}

@@ -42,7 +42,11 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	counts.Add(vs...)
 	v.ClaimCounts = countWords(counts)
 	refs := claimRefs(v.Claims)
+	v.Colors = colorViews(f, refs)
 	for _, x := range f.Figures {
+		if x.IsColor() { // shown with the swatch in the head
+			continue
+		}
 		r := figRow{Key: x.Key, Label: x.Label, Value: fmtFigure(x), Band: x.BandText(),
 			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage), Claims: refs[x.Key]}
 		r.Unc, r.UncCover = fmtUnc(x.Uncertainty)
@@ -86,6 +90,51 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	return v, nil
 }
 
+// minShownTransmittance is the least luminous transmittance for which a
+// datasheet shows the transmitted colour: below it the sample is opaque to
+// the eye and its "colour" is black (the figures are still computed).
+const minShownTransmittance = 0.01
+
+// colorViews describes the colours of f for the head of a datasheet: the
+// reflected colour, and the transmitted one when transmittance was
+// measured, with the claims of their figures.
+func colorViews(f *datasheet.Figures, refs map[string][]claimRef) []colorView {
+	var out []colorView
+	for _, c := range []struct {
+		title, prefix, lum string
+		x                  *datasheet.Color
+	}{
+		{"Colour", "", "luminous_reflectance", &f.Color.Reflectance},
+		{"Transmitted colour", "transmitted_", "luminous_transmittance", f.Color.Transmittance},
+	} {
+		if c.x == nil || c.prefix != "" && c.x.Reason == "" && float64(c.x.Luminous) < minShownTransmittance {
+			continue
+		}
+		cv := colorView{Title: c.title}
+		for _, k := range []string{c.prefix + "color_lab", c.prefix + "color_xy", c.lum} {
+			cv.Claims = append(cv.Claims, refs[k]...)
+		}
+		if c.x.Reason != "" {
+			cv.Note = "n/a: " + c.x.Reason + "."
+			out = append(out, cv)
+			continue
+		}
+		lab, _ := f.Figure(c.prefix + "color_lab")
+		xy, _ := f.Figure(c.prefix + "color_xy")
+		lum, _ := f.Figure(c.lum)
+		cv.Hex = c.x.SRGB
+		cv.Values = lab.Text() + " · " + xy.Text() + " · " + strings.ToLower(lum.Label[:1]) + strings.TrimSuffix(lum.Label[1:], " (D65, Y/100)") + " " + fmtFrac(lum.Value)
+		cv.Note = "D65, 2°. Swatch sRGB " + c.x.SRGB + ", approximate on screen; "
+		if c.x.Clipped {
+			cv.Note += "this colour lies outside the sRGB gamut and is shown clipped, duller than it is."
+		} else {
+			cv.Note += "colours outside the sRGB gamut are shown clipped (not this one)."
+		}
+		out = append(out, cv)
+	}
+	return out
+}
+
 // stackViewOf lays out a stack's layers and the cooling of its emitter
 // with and without the layers above, for a page at root.
 func stackViewOf(f *datasheet.Figures, root string) *stackView {
@@ -118,6 +167,134 @@ func stackViewOf(f *datasheet.Figures, root string) *stackView {
 		bare := fig
 		fig.Value, bare.Value = x.with, x.bare
 		v.Cover = append(v.Cover, coverRow{Label: fig.Label, With: fmtFigure(fig), Without: fmtFigure(bare)})
+	}
+	return v
+}
+
+// referenceOf lays out the differences of each of ms from comparison c's
+// reference, as textiles: optics, UV and, over c's skin, the heat reaching
+// the skin and the fabric's temperature, by day and by night.
+func referenceOf(c *library.Comparison, ms []*evaluate.Summary, root string) *referenceView {
+	v := &referenceView{Name: c.Reference.Front.Title, Cautions: WornCautions}
+	var ref *evaluate.Summary
+	for _, m := range ms {
+		if m.Slug == c.Reference.Slug {
+			ref = m
+		}
+	}
+	if c.Skin != nil {
+		v.Skin, v.SkinHref = c.Skin.Front.Title, root+materialDir(c.Skin.Slug)+"index.html"
+	}
+	nan := datasheet.Num(math.NaN())
+	type getter func(m *evaluate.Summary) datasheet.Num
+	worn := func(m *evaluate.Summary) *evaluate.Worn {
+		if m == nil {
+			return nil
+		}
+		return m.Worn[c.Slug]
+	}
+	balance := func(day bool, pick func(*datasheet.SkinBalance) float64) getter {
+		return func(m *evaluate.Summary) datasheet.Num {
+			w := worn(m)
+			if w == nil {
+				return nan
+			}
+			b := w.Night
+			if day {
+				b = w.Day
+			}
+			if b == nil {
+				return nan
+			}
+			return datasheet.Num(pick(b))
+		}
+	}
+	gain := func(b *datasheet.SkinBalance) float64 { return b.SkinGainWm2 }
+	fabricC := func(b *datasheet.SkinBalance) float64 { return b.FabricK - 273.15 }
+	fig := func(key string) getter {
+		return func(m *evaluate.Summary) datasheet.Num { return figureOf(m.Figures, key).Value }
+	}
+	rows := []struct {
+		label  string
+		get    getter
+		digits int
+		unit   string
+		skin   bool
+	}{
+		{"Solar reflectance", fig("solar_reflectance"), 3, "", false},
+		{"Solar transmittance", fig("solar_transmittance"), 3, "", false},
+		{"UV transmittance, erythemally weighted", func(m *evaluate.Summary) datasheet.Num {
+			if w := worn(m); w != nil {
+				return w.UV.Transmittance
+			}
+			return nan
+		}, 3, "", false},
+		{"Window emittance", fig("window_emittance"), 3, "", false},
+		{"Heat reaching the skin, sun", balance(true, gain), 0, "W/m²", true},
+		{"Heat reaching the skin, night", balance(false, gain), 0, "W/m²", true},
+		{"Fabric temperature, sun", balance(true, fabricC), 1, "°C", true},
+		{"Fabric temperature, night", balance(false, fabricC), 1, "°C", true},
+	}
+	num := func(x datasheet.Num, digits int, unit string, sign bool) string {
+		if isNaN(x) {
+			return "—"
+		}
+		f := "%." + strconv.Itoa(digits) + "f"
+		if sign {
+			f = "%+." + strconv.Itoa(digits) + "f"
+		}
+		s := strings.Replace(fmt.Sprintf(f, float64(x)), "-", "−", 1)
+		if unit != "" {
+			s += " " + unit
+		}
+		return s
+	}
+	for _, r := range rows {
+		if r.skin && c.Skin == nil {
+			continue
+		}
+		row := referenceRow{Label: r.label}
+		rv := nan
+		if ref != nil {
+			rv = r.get(ref)
+		}
+		for _, m := range ms {
+			x := r.get(m)
+			cell := referenceCell{Value: num(x, r.digits, r.unit, false)}
+			switch {
+			case m == ref:
+				cell.Diff = "reference"
+			case !isNaN(x) && !isNaN(rv):
+				cell.Diff = "Δ " + num(x-rv, r.digits, r.unit, true)
+			}
+			row.Cells = append(row.Cells, cell)
+		}
+		v.Rows = append(v.Rows, row)
+	}
+	// The UV protection factor it implies, 1/T_ery.
+	uvf := referenceRow{Label: "UV protection factor implied, 1/T_ery"}
+	for _, m := range ms {
+		cell := referenceCell{Value: "—"}
+		if w := worn(m); w != nil {
+			switch {
+			case w.UV.AboveCap:
+				cell.Value = "above 1000"
+			case !isNaN(w.UV.Factor):
+				cell.Value = strconv.FormatFloat(float64(w.UV.Factor), 'f', 0, 64)
+			}
+		}
+		uvf.Cells = append(uvf.Cells, cell)
+	}
+	v.Rows = append(v.Rows[:3], append([]referenceRow{uvf}, v.Rows[3:]...)...)
+	for _, m := range ms {
+		if w := worn(m); w != nil {
+			if w.Problem != "" {
+				v.Problems = append(v.Problems, m.Front.Title+": "+w.Problem)
+			}
+			if w.Day != nil && v.Setting == nil {
+				v.Setting = w.Setting.Assumptions()
+			}
+		}
 	}
 	return v
 }
@@ -380,6 +557,9 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 		cond.Cells = append(cond.Cells, fmt.Sprintf("%s, %s; %s at %s", cc.Text("solar_band_nm"), cc.SolarSpectrum, cc.Text("thermal_band_um"), cc.Text("temperature_k")))
 	}
 	v.Rows = append(v.Rows, cond)
+	if c.Reference != nil {
+		v.Reference = referenceOf(c, ms, p.Root)
+	}
 	p.C = v
 	html, err := b.execute("compare", p)
 	if err != nil {
@@ -443,6 +623,7 @@ type catalogCompare struct {
 	Page      string   `json:"page"`
 	Materials []string `json:"materials"`
 	Reference string   `json:"reference,omitempty"` // slug of the material the others are compared with
+	Skin      string   `json:"skin,omitempty"`      // slug of the skin-like surface they are worn over
 }
 
 // CatalogSchema is the version of catalog.json. Keys are only added.
@@ -483,6 +664,9 @@ func (b *builder) catalog(ms []*evaluate.Summary) ([]byte, error) {
 		}
 		if x.Reference != nil {
 			cc.Reference = x.Reference.Slug
+		}
+		if x.Skin != nil {
+			cc.Skin = x.Skin.Slug
 		}
 		c.Comparisons = append(c.Comparisons, cc)
 	}

@@ -320,7 +320,7 @@ func TestUncertaintyWords(t *testing.T) {
 	page := string(renderTest(t, testLibrary(t), Options{})["m/frostline/index.html"])
 	// Frostline states u_R for its UV-Vis-NIR file only: the cooling
 	// figures rest about half on the FTIR file, which states none.
-	if !regexp.MustCompile(`<td class="num">±[0-9.]+ / ±[0-9.]+ <a href="#note-uncertainty">\(covers [0-9]+ %\)</a></td>`).MatchString(page) {
+	if !regexp.MustCompile(`<td class="num"><span class="unc">±[0-9.]+ / ±[0-9.]+</span> <a href="#note-uncertainty">\(covers [0-9]+ %\)</a></td>`).MatchString(page) {
 		t.Error("no partial uncertainty in words")
 	}
 	if !strings.Contains(page, `id="note-uncertainty"`) || strings.Contains(page, "partial,") {

@@ -72,3 +72,46 @@ func TestStackPage(t *testing.T) {
 	}
 	checkLinks(t, out)
 }
+
+func TestReferencePage(t *testing.T) {
+	mat := func(title, file string) *fstest.MapFile {
+		return &fstest.MapFile{Data: []byte("---\ntitle: " + title + "\nmaker: m\nspectra: [{file: " + file + "}]\n---\n")}
+	}
+	fsys := fstest.MapFS{
+		"skysheet.yaml":       {Data: []byte("title: Textiles (invented)\n")},
+		"content/cotton.md":   mat("Cotton-like (invented)", "cotton.csv"),
+		"content/cotton.csv":  {Data: []byte("wavelength_nm,R,T\n250,0.3,0.05\n2500,0.5,0.3\n30000,0.05,0.05\n")},
+		"content/cool.md":     mat("Cool weave (invented)", "cool.csv"),
+		"content/cool.csv":    {Data: []byte("wavelength_nm,R,T\n250,0.6,0\n2500,0.7,0.2\n30000,0.05,0.4\n")},
+		"content/skin.md":     mat("Skin-like surface (invented)", "skin.csv"),
+		"content/skin.csv":    {Data: []byte("wavelength_nm,R\n250,0.3\n30000,0.03\n")},
+		"content/textiles.md": {Data: []byte("---\ntitle: Textiles\ncompare: [cotton, cool]\nreference: cotton\nskin: skin\n---\n")},
+	}
+	lib, err := library.Load(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := renderTest(t, lib, Options{})
+	page := string(out["compare/textiles/index.html"])
+	for _, want := range []string{
+		"Against the reference: Cotton-like (invented)",
+		`<th scope="row">Solar reflectance</th><td class="num">`,
+		`<span class="sub">reference</span>`,
+		`<span class="sub">Δ &#43;`,
+		"UV transmittance, erythemally weighted",
+		"UV protection factor implied",
+		"Heat reaching the skin, sun",
+		"Fabric temperature, night",
+		`<a href="../../m/skin/index.html">Skin-like surface (invented)</a>`,
+		"no substitute for thermal-comfort testing or UV-protection testing",
+		"People in heat need shade, water and rest",
+		"not a rating",
+		"Skin held at 307.15 K", // the balance's assumptions
+	} {
+		if !strings.Contains(page, want) {
+			t.Errorf("the comparison lacks %q", want)
+		}
+
+	}
+	checkLinks(t, out)
+}

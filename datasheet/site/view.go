@@ -48,6 +48,16 @@ type figRow struct {
 	Claims   []claimRef // claims of this figure
 }
 
+// colorView is the colour of a material's reflectance or transmittance
+// for the datasheet: a swatch and its figures, or why there is none.
+type colorView struct {
+	Title  string // "Colour", "Transmitted colour"
+	Hex    string // sRGB "#rrggbb"; "" when there is no colour
+	Values string // "L* 52.10, a* 24.31, b* 18.02 · x 0.4123, y 0.3567 · luminous reflectance 0.212"
+	Note   string // the screen note, or why there is no colour
+	Claims []claimRef
+}
+
 type spectrumRow struct{ File, Role, Instrument, Notes string }
 
 type closureView struct {
@@ -66,6 +76,7 @@ type materialView struct {
 	Category                                               link
 	Tags                                                   []link
 	Key                                                    []keyFig
+	Colors                                                 []colorView
 	Figures                                                []figRow
 	HasUnc                                                 bool
 	Claims                                                 []claimView
@@ -156,6 +167,33 @@ type compareView struct {
 	Columns        []compareCol
 	Rows           []compareRow
 	Cautions       []string
+	Reference      *referenceView // nil when the page names no reference
+}
+
+// referenceView is each material's differences from the page's reference
+// material, as textiles.
+type referenceView struct {
+	Name, Skin, SkinHref string
+	Rows                 []referenceRow
+	Setting              []string // the skin balance's assumptions
+	Problems             []string // why a material has no skin figures
+	Cautions             []string
+}
+
+type referenceRow struct {
+	Label string
+	Cells []referenceCell
+}
+
+// referenceCell is a value and its difference from the reference's ("" in
+// the reference's own column).
+type referenceCell struct{ Value, Diff string }
+
+// WornCautions are printed on a comparison page with a reference.
+var WornCautions = []string{
+	"These figures compare fabrics under one stated scene from their spectra. They are no substitute for thermal-comfort testing or UV-protection testing, and they do not predict how anyone feels.",
+	"People in heat need shade, water and rest, whatever they wear. Follow local heat-health guidance.",
+	"The UV figure is an erythemally weighted estimate on the ASTM G173 global tilt spectrum, not the solar spectrum the textile UV-protection standards use: it is not a rating.",
 }
 
 // Cautions are printed on every datasheet and comparison.
@@ -214,6 +252,12 @@ func fmtNumber(k datasheet.Kind, v datasheet.Num, unit string) string {
 // fmtFigure formats a figure's value in its unit (see fmtNumber); a
 // temperature difference in words, as where the surface settles.
 func fmtFigure(x datasheet.Figure) string {
+	if x.Components != nil {
+		if isNaN(x.Value) {
+			return "—"
+		}
+		return x.Text()
+	}
 	if k := x.Kind(); k == datasheet.KindTemperatureDifference && !isNaN(x.Value) {
 		return k.Words(float64(x.Value), x.Unit)
 	}

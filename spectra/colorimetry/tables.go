@@ -1,8 +1,10 @@
 package colorimetry
 
 import (
+	"crypto/sha256"
 	_ "embed"
 	"encoding/csv"
+	"encoding/hex"
 	"fmt"
 	"strconv"
 	"strings"
@@ -97,4 +99,11 @@ func (t *cie) sum(v *[nVis]float64) XYZ {
 		c.Z += t.wz[i] * x
 	}
 	return c
+}
+
+// TableSHA256 returns the SHA-256 (lower-case hex) of the embedded CIE
+// table, so that reports can name the exact copy they used.
+func TableSHA256() string {
+	sum := sha256.Sum256([]byte(cieCSV))
+	return hex.EncodeToString(sum[:])
 }

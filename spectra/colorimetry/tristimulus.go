@@ -178,3 +178,24 @@ func (c XYZ) Chromaticity() (x, y float64, ok bool) {
 	}
 	return c.X / sum, c.Y / sum, true
 }
+
+// Coverage returns the share of the luminous weight of 380–780 nm (the
+// ASTM E308 weights of ȳ under D65 at the whole nanometres, Σ = 100) that
+// falls inside some piece of s: 1 when the data cover the range, less when
+// they start late, stop early or leave gaps. It tells how much is missing,
+// not that a colour can be computed: that needs one piece over the whole
+// range ([Tristimulus]).
+func Coverage(s spectra.Series) float64 {
+	t := tables()
+	var in float64
+	for i := range nVis {
+		nm := float64(visLo + i)
+		for _, p := range s.Pieces {
+			if len(p.NM) > 0 && p.NM[0] <= nm+edgeTol && p.NM[len(p.NM)-1] >= nm-edgeTol {
+				in += t.wy[i]
+				break
+			}
+		}
+	}
+	return min(in/100, 1)
+}
