@@ -39,9 +39,54 @@ type Conditions struct {
 	ExchangeBand  spectra.Interval // exchange_band_um
 	Sky           SkyChoice        // sky
 
+	// The optional terms of the clear-sky correlation (Berdahl & Martin
+	// 1984), off by default: the hour of the day, 0–24 h from local
+	// midnight, and the station pressure in hPa. See [ClearSky].
+	HourOfDay       Optional // hour_of_day
+	StationPressure Optional // station_pressure_hpa
+
 	// Weather names an hourly weather series to run the hourly model
 	// over (docs/cooling.md, "Over a weather series"); none by default.
 	Weather WeatherChoice // weather
+}
+
+// Optional is a condition that may be off (the zero value) or hold a
+// value. Its text and JSON forms are "off" and null when off.
+type Optional struct {
+	V  float64 // the value, in the condition's unit
+	On bool
+}
+
+// On returns an Optional that holds v.
+func On(v float64) Optional { return Optional{V: v, On: true} }
+
+// String returns the value, or "off".
+func (o Optional) String() string {
+	if !o.On {
+		return "off"
+	}
+	return strconv.FormatFloat(o.V, 'g', -1, 64)
+}
+
+// MarshalJSON writes the value, or null when off.
+func (o Optional) MarshalJSON() ([]byte, error) {
+	if !o.On {
+		return []byte("null"), nil
+	}
+	return json.Marshal(o.V)
+}
+
+// UnmarshalJSON reads a number, or null (off).
+func (o *Optional) UnmarshalJSON(b []byte) error {
+	var v *float64
+	if err := json.Unmarshal(b, &v); err != nil {
+		return err
+	}
+	*o = Optional{}
+	if v != nil {
+		*o = On(*v)
+	}
+	return nil
 }
 
 // DefaultConditions returns the defaults: solar 280–2500 nm under the ASTM
@@ -208,6 +253,8 @@ const (
 	condH
 	condExchangeBand
 	condSky
+	condHour
+	condPressure
 	condWeather
 	numConditions
 )
@@ -227,6 +274,8 @@ var conditionTable = [numConditions]struct{ key, label, unit string }{
 	condH:             {"h_w_m2k", "Heat-transfer coefficient h", "W m⁻² K⁻¹"},
 	condExchangeBand:  {"exchange_band_um", "Exchange band", "µm"},
 	condSky:           {"sky", "Sky", ""},
+	condHour:          {"hour_of_day", "Hour of day (sky term)", "h"},
+	condPressure:      {"station_pressure_hpa", "Station pressure (sky term)", "hPa"},
 	condWeather:       {"weather", "Weather series", ""},
 }
 
@@ -269,6 +318,10 @@ func (k condition) field(c *Conditions) any {
 		return &c.ExchangeBand
 	case condSky:
 		return &c.Sky
+	case condHour:
+		return &c.HourOfDay
+	case condPressure:
+		return &c.StationPressure
 	case condWeather:
 		return &c.Weather
 	}
@@ -286,6 +339,8 @@ func (k condition) same(a, b Conditions) bool {
 		return *p == *k.field(&b).(*SolarSpectrum)
 	case *SkyChoice:
 		return *p == *k.field(&b).(*SkyChoice)
+	case *Optional:
+		return *p == *k.field(&b).(*Optional)
 	case *WeatherChoice:
 		return *p == *k.field(&b).(*WeatherChoice)
 	}
@@ -308,6 +363,11 @@ func (k condition) text(c Conditions) string {
 		return p.Weighting().String()
 	case *SkyChoice:
 		return p.String()
+	case *Optional:
+		if !p.On {
+			return "off"
+		}
+		return fmtShort(p.V) + " " + unit
 	case *WeatherChoice:
 		return p.String()
 	}
@@ -343,6 +403,11 @@ func (k condition) words(c Conditions) string {
 		return "h " + k.text(c)
 	case condIrradiance:
 		return "sun " + k.text(c)
+	case condHour, condPressure:
+		if !c.Sky.Clear() || !k.field(&c).(*Optional).On {
+			return ""
+		}
+		return strings.ToLower(conditionTable[k].label[:strings.Index(conditionTable[k].label, " (")]) + " " + k.text(c)
 	case condWeather:
 		if c.Weather.File == "" {
 			return ""
@@ -423,6 +488,16 @@ func (c *Conditions) Set(key string, v any) error {
 			return fmt.Errorf("%s: %w: want %q or a file name, found %v", key, ErrConditionType, skyClearWords, quoted(v))
 		}
 		return p.UnmarshalText([]byte(s))
+	case *Optional:
+		if x, ok := number(v); ok {
+			*p = On(x)
+			return nil
+		}
+		if s, ok := v.(string); v == nil || ok && (s == "off" || s == "") {
+			*p = Optional{}
+			return nil
+		}
+		return fmt.Errorf("%s: %w: want a number in %s or off, found %v", key, ErrConditionType, unit, quoted(v))
 	case *WeatherChoice:
 		s, ok := v.(string)
 		if !ok {
@@ -445,6 +520,7 @@ type Condition struct {
 	Key   string // as in skysheet.yaml and JSON, e.g. "thermal_band_um"
 	Label string // e.g. "Thermal band"
 	Value string // with its unit, e.g. "2.5–25 µm"
+	Off   bool   // an optional condition that is not in use ("off")
 }
 
 // Text returns the value of the condition named key with its unit, as
@@ -464,7 +540,11 @@ func (c Conditions) List() []Condition {
 		if k == condWeather && c.Weather.File == "" {
 			continue
 		}
-		out = append(out, Condition{Key: k.key(), Label: conditionTable[k].label, Value: k.text(c)})
+		x := Condition{Key: k.key(), Label: conditionTable[k].label, Value: k.text(c)}
+		if o, ok := k.field(&c).(*Optional); ok {
+			x.Off = !o.On
+		}
+		out = append(out, x)
 	}
 	return out
 }

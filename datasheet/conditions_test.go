@@ -16,7 +16,8 @@ func TestConditionsJSON(t *testing.T) {
 	// The schema documented in the README (conditions of figures.json).
 	const want = `{"solar_band_nm":[280,2500],"solar_spectrum":"global","thermal_band_um":[2.5,25],` +
 		`"window_band_um":[8,13],"temperature_k":300,"closure_tolerance":0.02,"ambient_k":300,"dew_point_c":10,` +
-		`"irradiance_w_m2":1000,"h_w_m2k":6,"exchange_band_um":[2.5,100],"sky":"clear two-band","weather":"none"}`
+		`"irradiance_w_m2":1000,"h_w_m2k":6,"exchange_band_um":[2.5,100],"sky":"clear two-band",` +
+		`"hour_of_day":null,"station_pressure_hpa":null,"weather":"none"}`
 	c := DefaultConditions()
 	got, err := json.Marshal(c)
 	if err != nil || string(got) != want {
@@ -25,6 +26,24 @@ func TestConditionsJSON(t *testing.T) {
 	var back Conditions
 	if err := json.Unmarshal(got, &back); err != nil || back != c {
 		t.Errorf("round trip: %+v, %v", back, err)
+	}
+	// An optional condition that is on is written as its number.
+	c.HourOfDay, c.StationPressure = On(3.5), On(950)
+	got, _ = json.Marshal(c)
+	if !strings.Contains(string(got), `"hour_of_day":3.5,"station_pressure_hpa":950,`) {
+		t.Errorf("JSON %s", got)
+	}
+	back = Conditions{}
+	if err := json.Unmarshal(got, &back); err != nil || back != c {
+		t.Errorf("round trip: %+v, %v", back, err)
+	}
+	for _, off := range []any{nil, "off", ""} {
+		if err := back.Set("hour_of_day", off); err != nil || back.HourOfDay.On {
+			t.Errorf("Set(hour_of_day, %v): %v, %+v", off, err, back.HourOfDay)
+		}
+	}
+	if err := back.Set("hour_of_day", "noon"); !errors.Is(err, ErrConditionType) {
+		t.Errorf("Set(hour_of_day, noon): %v", err)
 	}
 	var keys []string
 	for _, x := range c.List() {

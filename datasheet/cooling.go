@@ -115,6 +115,14 @@ func (c Conditions) validateCooling() error {
 		um := bandOut(b, "µm")
 		return fmt.Errorf("exchange band %g–%g µm: want 0.1 ≤ low < high ≤ 1000", um[0], um[1])
 	}
+	if h := c.HourOfDay; h.On && !(h.V >= 0 && h.V <= 24) {
+		return fmt.Errorf("hour of day %g h: want 0–24 h from local midnight, or off", h.V)
+	}
+	// Bounds that catch a pressure in kPa or in Pa, not the range of the
+	// correlation's stations.
+	if p := c.StationPressure; p.On && !(p.V >= 500 && p.V <= 1100) {
+		return fmt.Errorf("station pressure %g hPa: want 500–1100 hPa (hectopascal, i.e. millibar), or off", p.V)
+	}
 	if !c.Sky.Clear() {
 		if c.Sky.Spectrum == nil {
 			return fmt.Errorf("sky %q: the spectral sky file was not read (want %q or a file with a T column)", c.Sky.File, skyClearWords)
@@ -129,7 +137,7 @@ func (c Conditions) validateCooling() error {
 // skyFor returns the sky of c.
 func skyFor(c Conditions) (Sky, error) {
 	if c.Sky.Clear() {
-		return ClearSky(c.DewPointC, c.AmbientK), nil
+		return ClearSky(c), nil
 	}
 	return spectralSky(c.Sky.Spectrum, c.Sky.File, c.AmbientK)
 }
@@ -289,7 +297,12 @@ func (g *coolGrid) setSky(sky Sky) {
 	}
 	for i := range g.spans {
 		sp := &g.spans[i]
-		ea, eb := sky.zenithOn(g.nodes[sp.a], g.nodes[sp.a+1])
+		a, b := g.nodes[sp.a], g.nodes[sp.a+1]
+		if sky.Model != skyModelSpectral {
+			sp.skyL, sp.skyR = sky.hemisphericalOn(a, b)
+			continue
+		}
+		ea, eb := sky.zenithOn(a, b)
 		sp.skyL, sp.skyR = hemiOf(ea), hemiOf(eb)
 	}
 }
@@ -559,7 +572,14 @@ func (m *cooling) weighting(withSun, withH bool) string {
 	c := m.c
 	var out string
 	if m.sky.Model == skyModelClear {
-		out = fmt.Sprintf("clear two-band sky, dew point %s °C; air %s K", fmtG(c.DewPointC), fmtG(c.AmbientK))
+		out = fmt.Sprintf("clear two-band sky, dew point %s °C", fmtG(c.DewPointC))
+		if c.HourOfDay.On {
+			out += fmt.Sprintf(", hour %s h", fmtG(c.HourOfDay.V))
+		}
+		if c.StationPressure.On {
+			out += fmt.Sprintf(", station pressure %s hPa", fmtG(c.StationPressure.V))
+		}
+		out += fmt.Sprintf("; air %s K", fmtG(c.AmbientK))
 	} else {
 		out = fmt.Sprintf("spectral sky %s; air %s K", m.sky.Source, fmtG(c.AmbientK))
 	}
@@ -657,7 +677,7 @@ func (m *cooling) sensitivity(a spectra.Series, alpha float64, base coolFigures)
 	row := func(param, unit string, change float64, alt Conditions, note string) {
 		mm := &cooling{c: alt, sun: m.sun, sky: m.sky, g: m.g}
 		if alt.DewPointC != c.DewPointC {
-			mm.sky = ClearSky(alt.DewPointC, alt.AmbientK)
+			mm.sky = ClearSky(alt)
 			mm.g = m.g.withSky(mm.sky)
 		}
 		r := mm.evaluate(a, alpha)
@@ -679,8 +699,8 @@ func (m *cooling) sensitivity(a spectra.Series, alpha float64, base coolFigures)
 			alt.DewPointC += dd
 			if alt.validateCooling() == nil {
 				note := ""
-				if alt := ClearSky(alt.DewPointC, alt.AmbientK); m.sky.Clamped && alt.Clamped && alt.WindowEmissivity == m.sky.WindowEmissivity {
-					note = fmt.Sprintf("the window emissivity stays clamped at %g", float64(alt.WindowEmissivity))
+				if alt := ClearSky(alt); m.sky.Clamped && alt.Clamped && alt.WindowHemisphericalEmissivity == m.sky.WindowHemisphericalEmissivity {
+					note = fmt.Sprintf("the window emissivity stays clamped at %g", float64(alt.WindowHemisphericalEmissivity))
 				}
 				row("dew_point_c", "°C", dd, alt, note)
 			}
@@ -695,6 +715,13 @@ func (m *cooling) assumptions(r coolFigures) []string {
 	ex := bandOut(c.ExchangeBand, "µm")
 	var out []string
 	out = append(out, "Sky: "+m.sky.Description)
+	if k := m.sky; k.Clamped {
+		out = append(out, fmt.Sprintf("Outside the sky model: the correlation's emissivity %.4f lies beyond what the two-band sky "+
+			"can represent at %s K (%.4f to 1, the window %s); the cooling figures are those of a sky of emissivity %.4f.",
+			float64(k.Emissivity), fmtG(k.AmbientK), 1-float64(k.WindowFraction),
+			map[bool]string{true: "fully transparent at the dry end", false: "opaque at the humid end"}[k.WindowHemisphericalEmissivity == 0],
+			float64(k.HemisphericalEmissivity)))
+	}
 	if m.g == nil {
 		return append(out, fmt.Sprintf("No emittance data reach into the exchange band %g–%g µm: cooling figures cannot be computed.",
 			ex[0], ex[1]))

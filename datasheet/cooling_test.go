@@ -89,18 +89,17 @@ func TestBlackbodyNetPower(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		// Independent: ε_sky by the stated correlation, F_w by Simpson
-		// integration of Planck's law, the window's hemispherical emissivity
-		// 1 − 2E₃(τ) (A&S 5.1); for a blackbody at ambient,
-		// P_net = σT⁴ (1 − ε_eff) with ε_eff = 1 − F_w·2E₃(τ) (Stefan–Boltzmann law).
+		// Independent: ε_sky by the stated correlation (Berdahl & Martin
+		// 1984, a hemispherical flux), F_w by Simpson integration of
+		// Planck's law, the window's hemispherical emissivity
+		// ε_w = 1 − (1 − ε_sky)/F_w clamped to 0..1; for a blackbody at
+		// ambient, P_net = σT⁴ (1 − ε_eff) with ε_eff = 1 − F_w (1 − ε_w)
+		// (Stefan–Boltzmann law), which is ε_sky unless clamped.
 		sigmaT4 := sigmaCODATA * math.Pow(tt.amb, 4)
 		fw := math.Pi * integrate(func(nm float64) float64 { return planckRef(nm, tt.amb) }, 8000, 13000, 2000) / sigmaT4
 		epsSky := 0.711 + 0.56*tt.dp/100 + 0.73*tt.dp*tt.dp/1e4
 		ew := math.Max(0, math.Min(1, 1-(1-epsSky)/fw))
-		effective := 1 - fw*2*expIntegral3(-math.Log(1-ew))
-		if ew == 0 {
-			effective = 1 - fw
-		}
+		effective := 1 - fw*(1-ew)
 		want := sigmaT4 * (1 - effective)
 		if got := float64(f.CoolingPowerNightWm2); math.Abs(got-want) > 0.01 {
 			t.Errorf("T_dp %g °C, T %g K, band %v: P_net = %.4f W/m², want σT⁴(1 − ε_eff) = %.4f", tt.dp, tt.amb, tt.band, got, want)
@@ -181,7 +180,7 @@ func TestGridFineEnough(t *testing.T) {
 	c := DefaultConditions()
 	for _, s := range []*spectra.Spectrum{whiteSample(t), selectiveSample()} {
 		o := spectra.Resolve(s, c.ClosureTol)
-		sky := ClearSky(c.DewPointC, c.AmbientK)
+		sky := ClearSky(c)
 		var got [2]coolFigures
 		for i, step := range []float64{referenceStep, referenceStep / 4} {
 			m := &cooling{c: c, sky: sky, g: newCoolGridStep(o.A, sky, c.ExchangeBand, c.AmbientK, step)}

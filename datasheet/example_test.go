@@ -34,14 +34,17 @@ func ExampleSolarReflectanceIndex() {
 
 // The default clear sky: dew point 10 °C seen from air at 300 K.
 func ExampleClearSky() {
-	k := datasheet.ClearSky(10, 300)
-	fmt.Printf("ε_sky %.4f, F_w %.4f, ε_w %.4f, hemisphere %.4f, clamped %v\n",
-		float64(k.Emissivity), float64(k.WindowFraction), float64(k.WindowEmissivity), float64(k.HemisphericalEmissivity), k.Clamped)
-	dry := datasheet.ClearSky(-20, 300)
-	fmt.Printf("dew point −20 °C: ε_w %.0f, clamped %v\n", float64(dry.WindowEmissivity), dry.Clamped)
+	c := datasheet.DefaultConditions()
+	k := datasheet.ClearSky(c)
+	fmt.Printf("ε_sky %.4f, F_w %.4f, window %.4f over the hemisphere, zenith transmittance %.4f, clamped %v\n",
+		float64(k.Emissivity), float64(k.WindowFraction), float64(k.WindowHemisphericalEmissivity),
+		float64(k.WindowZenithTransmittance), k.Clamped)
+	c.DewPointC = -20
+	dry := datasheet.ClearSky(c)
+	fmt.Printf("dew point −20 °C: window %.0f, clamped %v\n", float64(dry.WindowHemisphericalEmissivity), dry.Clamped)
 	// Output:
-	// ε_sky 0.7743, F_w 0.3222, ε_w 0.2994, hemisphere 0.8227, clamped false
-	// dew point −20 °C: ε_w 0, clamped true
+	// ε_sky 0.7743, F_w 0.3222, window 0.2994 over the hemisphere, zenith transmittance 0.8164, clamped false
+	// dew point −20 °C: window 0, clamped true
 }
 
 // A day of weather: the same flat sample held at the air temperature and

@@ -146,14 +146,12 @@ type hourlyModel struct {
 
 // windowHemispherical returns e_w, the hemispherical emissivity inside the
 // atmospheric window of the clear two-band sky whose broadband emissivity
-// is eps at airK: the sky of [ClearSky] with the correlation's value
-// replaced by eps. It is the one place the hourly model depends on how the
-// two-band sky is calibrated; TestSeriesConstant checks it against the
-// steady-state figures.
+// is eps at airK: the sky of [TwoBandSky]. It is the one place the hourly
+// model depends on how the two-band sky is calibrated; TestSeriesConstant
+// checks it against the steady-state figures.
 func windowHemispherical(eps, airK float64) float64 {
-	fw := blackbodyFraction(skyWindow.Lo, skyWindow.Hi, airK)
-	ew := math.Max(0, math.Min(1, 1-(1-eps)/fw))
-	return hemispherical(ew)
+	_, ew, _ := windowCalibration(eps, airK)
+	return ew
 }
 
 // hour runs the model for one hour of weather.

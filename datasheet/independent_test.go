@@ -114,7 +114,9 @@ func TestIndependentRecomputation(t *testing.T) {
 	}
 	thermal := num / den
 
-	// Sky: ε_sky = 0.711 + 0.56 x + 0.73 x², x = T_dp/100; ε_w = 1 − (1 − ε_sky)/F_w.
+	// Sky: ε_sky = 0.711 + 0.56 x + 0.73 x², x = T_dp/100, the hemispherical
+	// flux on a horizontal surface over σT⁴ (Berdahl & Martin 1984); the
+	// window's hemispherical emissivity ε_w = 1 − (1 − ε_sky)/F_w.
 	const ta, dp, h, sun = 300.0, 10.0, 6.0, 1000.0
 	sigmaT4 := sigmaCODATA * math.Pow(ta, 4)
 	var fw float64
@@ -124,6 +126,27 @@ func TestIndependentRecomputation(t *testing.T) {
 	fw /= sigmaT4
 	epsSky := 0.711 + 0.56*dp/100 + 0.73*(dp/100)*(dp/100)
 	ew := math.Max(0, math.Min(1, 1-(1-epsSky)/fw))
+	// The zenith transmittance t of the window whose angular law
+	// ε(θ) = 1 − t^(1/cos θ) gives ε_w over the hemisphere: bisection on a
+	// 400-step midpoint sum of 2 ∫ sin θ cos θ ε(θ) dθ.
+	const steps = 400
+	hemi := func(t float64) float64 {
+		var s float64
+		for k := range steps {
+			th := (float64(k) + 0.5) * math.Pi / 2 / steps
+			s += 2 * math.Sin(th) * math.Cos(th) * (1 - math.Pow(t, 1/math.Cos(th))) * (math.Pi / 2 / steps)
+		}
+		return s
+	}
+	tz := 0.0
+	for lo, hi, i := 0.0, 1.0, 0; i < 60; i++ {
+		tz = (lo + hi) / 2
+		if hemi(tz) > ew { // too opaque: raise t
+			lo = tz
+		} else {
+			hi = tz
+		}
+	}
 
 	// Exchange band 2.5–100 µm on a 1 nm grid.
 	var grid, e, bAmb []float64
@@ -138,12 +161,12 @@ func TestIndependentRecomputation(t *testing.T) {
 		return math.Pi * s
 	}
 	// P_atm = 2π ∫₀^{π/2} sin θ cos θ ∫ ε ε_sky(λ, θ) B(λ, T_amb) dλ dθ,
-	// midpoint rule over θ with 400 steps.
+	// midpoint rule over θ with 400 steps, the window under the angular law
+	// from its zenith transmittance.
 	var pAtm float64
-	const steps = 400
 	for k := range steps {
 		th := (float64(k) + 0.5) * math.Pi / 2 / steps
-		win := 1 - math.Pow(1-ew, 1/math.Cos(th))
+		win := 1 - math.Pow(tz, 1/math.Cos(th))
 		var s float64
 		for i, x := range grid {
 			sky := 1.0
@@ -199,7 +222,8 @@ func TestIndependentRecomputation(t *testing.T) {
 		{"SRI low", float64(f.SRI.Low), sri(5), 0.6},
 		{"SRI medium", float64(f.SRI.Medium), sri(12), 0.6},
 		{"SRI high", float64(f.SRI.High), sri(30), 0.6},
-		{"sky window emissivity", float64(f.Sky.WindowEmissivity), ew, 1e-4},
+		{"sky window emissivity", float64(f.Sky.WindowHemisphericalEmissivity), ew, 1e-4},
+		{"sky window zenith transmittance", float64(f.Sky.WindowZenithTransmittance), tz, 1e-4},
 	} {
 		t.Logf("%s: %.5f, independent %.5f", tt.name, tt.got, tt.want)
 		if math.Abs(tt.got-tt.want) > tt.tol {

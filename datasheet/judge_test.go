@@ -25,17 +25,18 @@ const (
 )
 
 // blackbodyNight is the night cooling power at T_s = T_amb of a surface of
-// emittance 1 under the default clear sky: P = σT⁴ F_w 2E₃(τ), τ = −ln(1 −
-// ε_w), with F_w by Simpson integration of Planck's law, ε_sky from the
-// stated correlation (coefficients from memory) and the hemispherical
-// window emissivity 1 − 2E₃(τ) (Abramowitz & Stegun 5.1); the sky is black
-// outside the window, so only the window counts (Stefan–Boltzmann law).
+// emittance 1 under the default clear sky: the sky is black outside the
+// window, so only the window counts, P = σT⁴ F_w (1 − ε_w) with the window's
+// hemispherical emissivity ε_w = 1 − (1 − ε_sky)/F_w clamped to 0..1; F_w by
+// Simpson integration of Planck's law, ε_sky from the stated correlation
+// (Berdahl & Martin 1984, a hemispherical flux; coefficients from memory),
+// Stefan–Boltzmann law. Unclamped, that is σT⁴ (1 − ε_sky).
 func blackbodyNight(dewPointC, ambientK float64) float64 {
 	sigmaT4 := sigmaCODATA * math.Pow(ambientK, 4)
 	fw := math.Pi * integrate(func(nm float64) float64 { return planckRef(nm, ambientK) }, 8000, 13000, 2000) / sigmaT4
 	epsSky := 0.711 + 0.56*dewPointC/100 + 0.73*dewPointC*dewPointC/1e4
 	ew := math.Max(0, math.Min(1, 1-(1-epsSky)/fw))
-	return sigmaT4 * fw * 2 * expIntegral3(-math.Log(1-ew))
+	return sigmaT4 * fw * (1 - ew)
 }
 
 // bbShare is the share of blackbody power at kelvin over a–b nm within

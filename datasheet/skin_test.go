@@ -309,7 +309,7 @@ func TestSkinAssumptions(t *testing.T) {
 func TestSkinSettingFor(t *testing.T) {
 	c := DefaultConditions()
 	c.AmbientK, c.IrradianceWm2, c.HWm2K = 305, 800, 4
-	sky := ClearSky(c.DewPointC, c.AmbientK)
+	sky := ClearSky(c)
 	s := SkinSettingFor(c, sky)
 	// L↓ = ε_hemi σT_a⁴ (Stefan–Boltzmann law), σ from CODATA 2018 (rounded:
 	// agrees to 1e-10 relative with the package's σ from h, c and k).

@@ -6,8 +6,10 @@ import (
 	"math"
 	"sort"
 	"strconv"
+	"strings"
 	"sync"
 
+	"skysheet/datasheet/weather"
 	"skysheet/spectra"
 )
 
@@ -29,10 +31,11 @@ var skyRangeNM = [2]float64{1000, 1e6}
 var skyWindow = spectra.Interval{Lo: 8000, Hi: 13000}
 
 // Sky is the downward thermal emission of the atmosphere seen by a
-// horizontal surface: a zenith spectral emissivity ε_sky(λ, 0) and its
-// angular extension ε_sky(λ, θ) = 1 − (1 − ε_sky(λ, 0))^(1/cos θ). Its
-// exported fields describe it for the output; build one with [ClearSky] or
-// spectralSky.
+// horizontal surface. A spectral sky is a zenith spectral emissivity
+// ε_sky(λ, 0) with the angular extension ε_sky(λ, θ) = 1 − (1 − ε_sky(λ, 0))^(1/cos θ);
+// the clear two-band sky is calibrated on the hemispherical flux its
+// correlation was fitted to. Its exported fields describe it for the output;
+// build one with [ClearSky] or spectralSky.
 type Sky struct {
 	Model  string `json:"model"`            // "clear two-band" or "spectral"
 	Source string `json:"source,omitempty"` // spectral sky: the file it came from
@@ -42,17 +45,23 @@ type Sky struct {
 	// DewPointC is the dew point behind the clear sky; null for a spectral
 	// sky.
 	DewPointC Num `json:"dew_point_c"`
-	// Emissivity is the broadband clear-sky emissivity ε_sky: from the dew
-	// point correlation for the clear sky, the blackbody-weighted zenith
-	// emissivity for a spectral sky.
+	// HourTerm and PressureTerm are the optional hour-of-day and
+	// station-pressure terms of the correlation included in Emissivity;
+	// null when not used.
+	HourTerm     Num `json:"hour_term"`
+	PressureTerm Num `json:"pressure_term"`
+	// Emissivity is the broadband sky emissivity ε_sky, downward long-wave
+	// flux on a horizontal surface over σT_a⁴: from the dew point
+	// correlation (with its optional terms) for the clear sky, from the
+	// file for a spectral sky.
 	Emissivity Num `json:"emissivity"`
 	// ZenithEmissivity is the blackbody-weighted mean of ε_sky(λ, 0) at
-	// AmbientK over all wavelengths as modelled; it differs from Emissivity
-	// only when the window emissivity was clamped.
+	// AmbientK over all wavelengths as modelled.
 	ZenithEmissivity Num `json:"zenith_emissivity"`
 	// HemisphericalEmissivity is the effective emissivity of the whole sky
-	// hemisphere seen by a horizontal blackbody at AmbientK: downward flux
-	// over σT⁴.
+	// hemisphere as modelled, seen by a horizontal blackbody at AmbientK:
+	// downward flux over σT⁴. For the clear sky it equals Emissivity unless
+	// the window was clamped.
 	HemisphericalEmissivity Num `json:"hemispherical_emissivity"`
 	// Window is the atmospheric window of the two-band model, in nm
 	// (written in µm: window_um).
@@ -60,11 +69,19 @@ type Sky struct {
 	// WindowFraction is F_w, the fraction of blackbody emission at AmbientK
 	// that falls in the window.
 	WindowFraction Num `json:"window_fraction"`
-	// WindowEmissivity is ε_w, the zenith emissivity inside the window
-	// (for a spectral sky, its blackbody-weighted mean there).
-	WindowEmissivity Num `json:"window_emissivity"`
-	// Clamped reports that the dew point asked for a window emissivity
-	// outside 0..1 and it was clamped.
+	// WindowEmissivity is the zenith emissivity inside the window (for a
+	// spectral sky, its blackbody-weighted mean there);
+	// WindowZenithTransmittance is 1 minus it.
+	WindowEmissivity          Num `json:"window_emissivity"`
+	WindowZenithTransmittance Num `json:"window_zenith_transmittance"`
+	// WindowHemisphericalEmissivity is the emissivity of the whole sky
+	// hemisphere inside the window, seen by a surface whose emittance does
+	// not depend on angle: ε_w = 1 − (1 − ε_sky)/F_w for the clear sky, the
+	// blackbody-weighted mean of the angular law's for a spectral sky.
+	WindowHemisphericalEmissivity Num `json:"window_hemispherical_emissivity"`
+	// Clamped reports that ε_sky asked for a window emissivity outside 0..1
+	// and it was clamped: the sky lies outside what the two-band model can
+	// represent.
 	Clamped bool `json:"clamped"`
 	// Description says all of the above in plain words.
 	Description string `json:"description"`
@@ -75,39 +92,28 @@ type Sky struct {
 // skyWindowUM is skyWindow in µm, for sentences.
 var skyWindowUM = bandOut(skyWindow, "µm")
 
-// skyJSON is the JSON form of a Sky.
-type skyJSON struct {
-	Model                   string     `json:"model"`
-	Source                  string     `json:"source,omitempty"`
-	AmbientK                float64    `json:"ambient_k"`
-	DewPointC               Num        `json:"dew_point_c"`
-	Emissivity              Num        `json:"emissivity"`
-	ZenithEmissivity        Num        `json:"zenith_emissivity"`
-	HemisphericalEmissivity Num        `json:"hemispherical_emissivity"`
-	WindowUM                [2]float64 `json:"window_um"`
-	WindowFraction          Num        `json:"window_fraction"`
-	WindowEmissivity        Num        `json:"window_emissivity"`
-	Clamped                 bool       `json:"clamped"`
-	Description             string     `json:"description"`
-}
-
 // MarshalJSON writes the sky with its window in µm.
 func (k Sky) MarshalJSON() ([]byte, error) {
-	return json.Marshal(skyJSON{k.Model, k.Source, k.AmbientK, k.DewPointC, k.Emissivity, k.ZenithEmissivity,
-		k.HemisphericalEmissivity, bandOut(k.Window, "µm"), k.WindowFraction, k.WindowEmissivity, k.Clamped, k.Description})
+	type plain Sky
+	return json.Marshal(struct {
+		plain
+		WindowUM [2]float64 `json:"window_um"`
+	}{plain(k), bandOut(k.Window, "µm")})
 }
 
 // UnmarshalJSON reads the form MarshalJSON writes; a spectral sky's data
 // are not in it.
 func (k *Sky) UnmarshalJSON(b []byte) error {
-	var j skyJSON
+	type plain Sky
+	var j struct {
+		plain
+		WindowUM [2]float64 `json:"window_um"`
+	}
 	if err := json.Unmarshal(b, &j); err != nil {
 		return err
 	}
-	*k = Sky{Model: j.Model, Source: j.Source, AmbientK: j.AmbientK, DewPointC: j.DewPointC, Emissivity: j.Emissivity,
-		ZenithEmissivity: j.ZenithEmissivity, HemisphericalEmissivity: j.HemisphericalEmissivity,
-		Window: bandFrom(j.WindowUM[0], j.WindowUM[1], "µm"), WindowFraction: j.WindowFraction,
-		WindowEmissivity: j.WindowEmissivity, Clamped: j.Clamped, Description: j.Description}
+	*k = Sky(j.plain)
+	k.Window = bandFrom(j.WindowUM[0], j.WindowUM[1], "µm")
 	return nil
 }
 
@@ -118,30 +124,94 @@ func BerdahlMartin(dewPointC float64) float64 {
 	return 0.711 + 0.56*x + 0.73*x*x
 }
 
-// ClearSky returns the clear two-band sky for a dew point (°C) at an air
-// temperature (K): emissivity 1 outside 8–13 µm and ε_w inside, with
-// ε_w = 1 − (1 − ε_sky)/F_w clamped to 0..1, so that the blackbody-weighted
-// mean at ambientK equals ε_sky from [BerdahlMartin] unless clamped.
-func ClearSky(dewPointC, ambientK float64) Sky {
-	eps := BerdahlMartin(dewPointC)
-	fw := blackbodyFraction(skyWindow.Lo, skyWindow.Hi, ambientK)
-	ew := 1 - (1-eps)/fw
-	clamped := ew < 0 || ew > 1
-	ew = math.Max(0, math.Min(1, ew))
-	k := Sky{Model: skyModelClear, AmbientK: ambientK, DewPointC: Num(dewPointC), Emissivity: Num(eps),
-		Window: skyWindow, WindowFraction: Num(fw), WindowEmissivity: Num(ew), Clamped: clamped}
-	k.ZenithEmissivity = Num(1 - fw*(1-ew))
-	k.HemisphericalEmissivity = Num(1 - fw*(1-hemispherical(ew)))
-	k.Description = fmt.Sprintf("Clear sky, two-band model: broadband emissivity %.3f from the dew point %s °C "+
-		"(Berdahl & Martin 1984 correlation); emissivity 1 outside %g–%g µm and %.3f inside, so that a %s K "+
-		"blackbody sees the same mean (%.1f %% of its emission falls in %g–%g µm).",
-		eps, fmtG(dewPointC), skyWindowUM[0], skyWindowUM[1], ew, fmtG(ambientK), 100*fw, skyWindowUM[0], skyWindowUM[1])
-	if clamped {
-		k.Description += fmt.Sprintf(" The window emissivity this asks for, %.3f, lies outside 0..1 and was clamped "+
-			"to %g: the sky's broadband emissivity becomes %.3f instead of %.3f.", 1-(1-eps)/fw, ew, float64(k.ZenithEmissivity), eps)
+// ClearSky returns the clear two-band sky of the conditions c: the
+// broadband emissivity ε_sky of [BerdahlMartin] at c.DewPointC, plus the
+// correlation's hour-of-day and station-pressure terms when c turns them
+// on, seen from air at c.AmbientK. See [TwoBandSky] for the model.
+func ClearSky(c Conditions) Sky {
+	eps := BerdahlMartin(c.DewPointC)
+	hour, pressure := math.NaN(), math.NaN()
+	if c.HourOfDay.On {
+		hour = weather.HourTerm(c.HourOfDay.V)
+		eps += hour
 	}
-	k.Description += angularWords(k)
+	if c.StationPressure.On {
+		pressure = weather.PressureTerm(c.StationPressure.V)
+		eps += pressure
+	}
+	k := TwoBandSky(eps, c.AmbientK)
+	k.DewPointC, k.HourTerm, k.PressureTerm = Num(c.DewPointC), Num(hour), Num(pressure)
+	from := "from the dew point " + fmtG(c.DewPointC) + " °C"
+	var terms []string
+	if c.HourOfDay.On {
+		terms = append(terms, fmt.Sprintf("the hour-of-day term %+.4f at %s h", hour, fmtG(c.HourOfDay.V)))
+	}
+	if c.StationPressure.On {
+		terms = append(terms, fmt.Sprintf("the station-pressure term %+.4f at %s hPa", pressure, fmtG(c.StationPressure.V)))
+	}
+	if len(terms) > 0 {
+		from += " with " + strings.Join(terms, " and ")
+	}
+	k.Description = fmt.Sprintf("Clear sky, two-band model: emissivity ε_sky %.3f %s (Berdahl & Martin 1984 correlation "+
+		"of the downward long-wave flux on a horizontal surface, L↓ = ε_sky σT_a⁴); ", eps, from) + k.Description
 	return k
+}
+
+// TwoBandSky returns the two-band sky whose downward flux on a horizontal
+// surface at an air temperature of ambientK is emissivity × σT⁴: the sky is
+// black outside the 8–13 µm window and, inside it, has the hemispherical
+// emissivity
+//
+//	ε_w = 1 − (1 − emissivity)/F_w,
+//
+// F_w being the fraction of blackbody emission at ambientK in the window,
+// clamped to 0..1 (the sky is then Clamped: the two-band model cannot be as
+// dry, or as humid, as asked). A surface whose emittance does not depend on
+// angle receives ε_w with no further angular factor. The equivalent zenith
+// window transmittance t solves 2∫₀¹ μ t^(1/μ) dμ = 1 − ε_w, so that the
+// angular law ε(θ) = 1 − t^(1/cos θ) gives back ε_w over the hemisphere; it
+// is reported, and serves an emitter whose emittance depends on angle.
+func TwoBandSky(emissivity, ambientK float64) Sky {
+	fw, ew, asked := windowCalibration(emissivity, ambientK)
+	ez := zenithOf(ew)
+	k := Sky{Model: skyModelClear, AmbientK: ambientK, DewPointC: Num(math.NaN()), HourTerm: Num(math.NaN()),
+		PressureTerm: Num(math.NaN()), Emissivity: Num(emissivity), Window: skyWindow, WindowFraction: Num(fw),
+		WindowEmissivity: Num(ez), WindowZenithTransmittance: Num(1 - ez), WindowHemisphericalEmissivity: Num(ew),
+		Clamped: asked != ew}
+	k.ZenithEmissivity = Num(1 - fw*(1-ez))
+	k.HemisphericalEmissivity = Num(1 - fw*(1-ew))
+	k.Description = fmt.Sprintf("emissivity 1 outside %g–%g µm and %.3f inside over the hemisphere, so that the flux is "+
+		"ε_sky σT_a⁴ at %s K (%.1f %% of a blackbody's emission falls in %g–%g µm).",
+		skyWindowUM[0], skyWindowUM[1], ew, fmtG(ambientK), 100*fw, skyWindowUM[0], skyWindowUM[1])
+	if k.Clamped {
+		k.Description += fmt.Sprintf(" That asks for a window emissivity of %.3f, outside 0..1: the two-band sky cannot be "+
+			"that %s; the window was clamped to %g and the sky's emissivity is %.3f instead of %.3f.",
+			asked, map[bool]string{true: "dry", false: "humid"}[asked < 0], ew, float64(k.HemisphericalEmissivity), emissivity)
+	}
+	k.Description += fmt.Sprintf(" The surface is taken as diffuse, so no further angular factor applies; the window's "+
+		"equivalent zenith transmittance is %.3f (ε(θ) = 1 − t^(1/cos θ), common practice).", 1-ez)
+	return k
+}
+
+// windowCalibration returns the window fraction F_w at ambientK and the
+// hemispherical window emissivity ew = 1 − (1 − emissivity)/F_w, clamped to
+// 0..1, of the two-band sky; asked is the value before clamping.
+func windowCalibration(emissivity, ambientK float64) (fw, ew, asked float64) {
+	fw = blackbodyFraction(skyWindow.Lo, skyWindow.Hi, ambientK)
+	asked = 1 - (1-emissivity)/fw
+	return fw, math.Max(0, math.Min(1, asked)), asked
+}
+
+// zenithOf returns the zenith emissivity e whose hemispherical emissivity
+// h(e) is hemi (0..1), inverting the angular law by Brent's method.
+func zenithOf(hemi float64) float64 {
+	switch {
+	case hemi <= 0:
+		return 0
+	case hemi >= 1:
+		return 1
+	}
+	return brent(func(e float64) float64 { return hemispherical(e) - hemi }, 0, 1, -hemi, 1-hemi, 1e-15)
 }
 
 // spectralSky returns the sky whose zenith emissivity is 1 − T(λ), T being
@@ -169,7 +239,7 @@ func spectralSky(s *spectra.Spectrum, name string, ambientK float64) (Sky, error
 		return Sky{}, fmt.Errorf("sky %s: %w: a spectral sky needs a T column (zenith atmospheric transmittance) with at least two values in one segment", name, spectra.ErrNoValues)
 	}
 	k := Sky{Model: skyModelSpectral, Source: name, AmbientK: ambientK, DewPointC: Num(math.NaN()),
-		Window: skyWindow, zenith: z}
+		HourTerm: Num(math.NaN()), PressureTerm: Num(math.NaN()), Window: skyWindow, zenith: z}
 	// Broadband figures: ε = 1 outside the file, so only the transmitted
 	// part needs integrating over the file's range, and only where a
 	// blackbody near ambient emits at all (1 µm to 1 mm: outside, less than
@@ -189,31 +259,30 @@ func spectralSky(s *spectra.Spectrum, name string, ambientK float64) (Sky, error
 		transH += (b - a) / 2 * ((1-hemispherical(ea))*ba + (1-hemispherical(eb))*bb)
 	}
 	k.ZenithEmissivity = Num(1 - math.Pi*transZ/sigmaT4)
-	k.Emissivity = k.ZenithEmissivity
 	k.HemisphericalEmissivity = Num(1 - math.Pi*transH/sigmaT4)
+	k.Emissivity = k.HemisphericalEmissivity
 	wlo, whi := skyWindow.Lo, skyWindow.Hi
 	k.WindowFraction = Num(blackbodyFraction(wlo, whi, ambientK))
-	var we, w float64
+	var we, wh, w float64
 	wg := skyGrid(k, wlo, whi)
 	for i := 1; i < len(wg); i++ {
 		a, b := wg[i-1], wg[i]
 		ea, eb := k.zenithOn(a, b)
 		ba, bb := spectra.Planck(a, ambientK), spectra.Planck(b, ambientK)
 		we += (b - a) / 2 * (ea*ba + eb*bb)
+		wh += (b - a) / 2 * (hemispherical(ea)*ba + hemispherical(eb)*bb)
 		w += (b - a) / 2 * (ba + bb)
 	}
 	k.WindowEmissivity = Num(we / w)
+	k.WindowZenithTransmittance = 1 - k.WindowEmissivity
+	k.WindowHemisphericalEmissivity = Num(wh / w)
 	k.Description = fmt.Sprintf("Spectral sky from %s: zenith emissivity 1 − T(λ) from its transmittance column over %s–%s µm, "+
-		"opaque (emissivity 1) outside that range; blackbody-weighted zenith emissivity %.3f at %s K, %.3f over %g–%g µm.",
-		name, fmtG(lo/1000), fmtG(hi/1000), float64(k.ZenithEmissivity), fmtG(ambientK), float64(k.WindowEmissivity), skyWindowUM[0], skyWindowUM[1])
-	k.Description += angularWords(k)
+		"opaque (emissivity 1) outside that range; blackbody-weighted zenith emissivity %.3f at %s K, %.3f over %g–%g µm. "+
+		"Away from the zenith ε(λ, θ) = 1 − (1 − ε(λ, 0))^(1/cos θ) (common practice); over the whole hemisphere the "+
+		"sky's effective emissivity is %.3f. The surface is taken as diffuse: its emittance does not depend on angle.",
+		name, fmtG(lo/1000), fmtG(hi/1000), float64(k.ZenithEmissivity), fmtG(ambientK), float64(k.WindowEmissivity),
+		skyWindowUM[0], skyWindowUM[1], float64(k.HemisphericalEmissivity))
 	return k, nil
-}
-
-func angularWords(k Sky) string {
-	return fmt.Sprintf(" Away from the zenith ε(λ, θ) = 1 − (1 − ε(λ, 0))^(1/cos θ) (common practice); over the "+
-		"whole hemisphere the sky's effective emissivity is %.3f. The surface is taken as diffuse: its emittance "+
-		"does not depend on angle.", float64(k.HemisphericalEmissivity))
 }
 
 // zenithAt returns the zenith spectral emissivity ε_sky(λ, 0) at nm. At a
@@ -235,6 +304,23 @@ func (k Sky) zenithAt(nm float64) float64 {
 // with cos θ = mu, 0 < mu ≤ 1.
 func (k Sky) at(nm, mu float64) float64 {
 	return 1 - math.Pow(1-k.zenithAt(nm), 1/mu)
+}
+
+// hemisphericalOn returns the hemispherical sky emissivity, as a surface
+// whose emittance does not depend on angle receives it, at a and b as seen
+// from inside the interval (a, b), which must hold no breakpoint of the sky.
+// The clear sky gives its calibrated window value; a spectral sky the
+// angular law applied to its zenith emissivity.
+func (k Sky) hemisphericalOn(a, b float64) (ha, hb float64) {
+	if k.Model != skyModelSpectral {
+		if m := (a + b) / 2; m > skyWindow.Lo && m < skyWindow.Hi {
+			w := float64(k.WindowHemisphericalEmissivity)
+			return w, w
+		}
+		return 1, 1
+	}
+	ea, eb := k.zenithOn(a, b)
+	return hemispherical(ea), hemispherical(eb)
 }
 
 // zenithOn returns the zenith emissivity at a and b as seen from inside the

@@ -97,12 +97,20 @@ func TestBlackbodyFraction(t *testing.T) {
 	}
 }
 
+// clearAt returns the clear sky at a dew point (°C) and air temperature (K)
+// under otherwise default conditions.
+func clearAt(dp, amb float64) Sky {
+	c := DefaultConditions()
+	c.DewPointC, c.AmbientK = dp, amb
+	return ClearSky(c)
+}
+
 func TestClearSky(t *testing.T) {
 	for _, tt := range []struct {
 		name        string
 		dp, amb     float64
 		clamped     bool
-		wantWindowE float64 // NaN: check the mean instead
+		wantWindowE float64 // NaN: check the flux instead
 	}{
 		{"default", 10, 300, false, math.NaN()},
 		{"humid", 20, 300, false, math.NaN()},
@@ -111,30 +119,139 @@ func TestClearSky(t *testing.T) {
 		{"very humid clamps to 1", 40, 320, true, 1},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
-			k := ClearSky(tt.dp, tt.amb)
+			k := clearAt(tt.dp, tt.amb)
 			if k.Clamped != tt.clamped {
 				t.Fatalf("clamped = %v, want %v", k.Clamped, tt.clamped)
 			}
 			if !tt.clamped {
-				// Stated definition: the blackbody-weighted mean of the
-				// zenith emissivity at ambient equals ε_sky (Berdahl & Martin).
-				f := func(nm float64) float64 { return k.zenithAt(nm) * planckRef(nm, tt.amb) }
+				// Stated definition: a horizontal blackbody receives
+				// ε_sky σT⁴ (Berdahl & Martin): the blackbody-weighted mean of
+				// the hemispherical sky emissivity, by Simpson integration.
+				f := func(nm float64) float64 {
+					h, _ := k.hemisphericalOn(nm, nm)
+					return h * planckRef(nm, tt.amb)
+				}
 				const e = 1e-7 // keep each part on its own side of the window's edges
 				// Beyond 1 mm (ε = 1) the Rayleigh–Jeans law gives
 				// ∫ B dλ = 2ckT/(3λ³).
 				tail := 2 * 299792458.0 * 1.380649e-23 * tt.amb / (3 * 1e-9)
-				mean := math.Pi * (integrate(f, 100, 8000-e, 20000) + integrate(f, 8000, 13000, 2000) + integrate(f, 13000+e, 1e6, 200000) + tail) /
+				mean := math.Pi * (integrate(f, 100, 8000-e, 20000) + integrate(f, 8000+e, 13000-e, 2000) + integrate(f, 13000+e, 1e6, 200000) + tail) /
 					(sigmaCODATA * math.Pow(tt.amb, 4))
 				if want := BerdahlMartin(tt.dp); math.Abs(mean-want) > 1e-6 {
-					t.Errorf("blackbody-weighted zenith emissivity %.7f, want ε_sky %.7f", mean, want)
+					t.Errorf("blackbody-weighted hemispherical emissivity %.7f, want ε_sky %.7f", mean, want)
 				}
-			} else if float64(k.WindowEmissivity) != tt.wantWindowE {
-				t.Errorf("ε_w = %g, want %g", float64(k.WindowEmissivity), tt.wantWindowE)
+			} else if float64(k.WindowHemisphericalEmissivity) != tt.wantWindowE {
+				t.Errorf("ε_w = %g, want %g", float64(k.WindowHemisphericalEmissivity), tt.wantWindowE)
 			}
 			if !strings.Contains(k.Description, "dew point") || (tt.clamped && !strings.Contains(k.Description, "clamped")) {
 				t.Errorf("description does not say it: %s", k.Description)
 			}
 		})
+	}
+}
+
+// TestClearSkyFlux checks that the two-band sky gives the correlation's
+// hemispherical flux L↓ = ε_sky σT_a⁴ (Berdahl & Martin 1984, Solar Energy
+// 32, 663: the correlation was fitted to pyrgeometer measurements of the
+// downward long-wave flux on a horizontal surface; from memory), and that the
+// reported zenith transmittance of the window gives the same flux under the
+// angular law.
+func TestClearSkyFlux(t *testing.T) {
+	for _, amb := range []float64{300, 305} {
+		sigmaT4 := sigmaCODATA * math.Pow(amb, 4)
+		fw := math.Pi * integrate(func(nm float64) float64 { return planckRef(nm, amb) }, 8000, 13000, 2000) / sigmaT4
+		for dp := -5.0; dp <= 25; dp++ {
+			k := clearAt(dp, amb)
+			if k.Clamped {
+				t.Fatalf("T_dp %g °C, air %g K: clamped", dp, amb)
+			}
+			x := dp / 100
+			want := (0.711 + 0.56*x + 0.73*x*x) * sigmaT4
+			// The flux as the cooling integrals take it: black outside the
+			// window, the hemispherical window value inside.
+			hw, _ := k.hemisphericalOn(10000, 10000)
+			if got := sigmaT4 * ((1 - fw) + fw*hw); math.Abs(got-want) > 1e-6*want {
+				t.Errorf("T_dp %g °C, air %g K: L↓ = %.7f W/m², want ε_sky σT⁴ = %.7f", dp, amb, got, want)
+			}
+			// The same from the zenith transmittance t: the window's
+			// hemispherical emissivity is 1 − 2E₃(−ln t) (A&S 5.1).
+			tz := float64(k.WindowZenithTransmittance)
+			if got := sigmaT4 * ((1 - fw) + fw*(1-2*expIntegral3(-math.Log(tz)))); math.Abs(got-want) > 1e-6*want {
+				t.Errorf("T_dp %g °C, air %g K: from the zenith transmittance %.6f, L↓ = %.7f W/m², want %.7f", dp, amb, tz, got, want)
+			}
+			if got := float64(k.HemisphericalEmissivity) * sigmaT4; math.Abs(got-want) > 1e-6*want {
+				t.Errorf("T_dp %g °C, air %g K: reported hemispherical emissivity gives %.7f W/m², want %.7f", dp, amb, got, want)
+			}
+		}
+	}
+}
+
+// TestBlackNightPower checks the night cooling power of a black surface at
+// 300 K under the default clear sky (dew point 10 °C): σT⁴ (1 − ε_sky), the
+// correlation used as published, about 103.7 W/m².
+func TestBlackNightPower(t *testing.T) {
+	c := DefaultConditions()
+	c.IrradianceWm2 = 0
+	f, err := compute(constSample(1, 1000, 200000), c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	x := c.DewPointC / 100
+	epsSky := 0.711 + 0.56*x + 0.73*x*x                          // Berdahl & Martin (1984), from memory
+	want := sigmaCODATA * math.Pow(c.AmbientK, 4) * (1 - epsSky) // Stefan–Boltzmann law, CODATA 2018 σ
+	if math.Abs(want-103.7) > 0.2 {
+		t.Fatalf("recomputed %.3f W/m², outside 103.7 ± 0.2", want)
+	}
+	if got := float64(f.CoolingPowerNightWm2); math.Abs(got-want) > 0.01 {
+		t.Errorf("black surface at night: %.4f W/m², want σT⁴(1 − ε_sky) = %.4f", got, want)
+	}
+}
+
+// TestSkyTerms checks the optional terms of the correlation (Berdahl &
+// Martin 1984, from memory): Δε = 0.013 cos(2π t/24) and 0.00012 (P − 1000),
+// recomputed here, off by default.
+func TestSkyTerms(t *testing.T) {
+	c := DefaultConditions()
+	base := ClearSky(c)
+	if !math.IsNaN(float64(base.HourTerm)) || !math.IsNaN(float64(base.PressureTerm)) {
+		t.Fatalf("terms on by default: %v %v", base.HourTerm, base.PressureTerm)
+	}
+	c.HourOfDay, c.StationPressure = On(3), On(850)
+	k := ClearSky(c)
+	dh, dp := 0.013*math.Cos(2*math.Pi*3/24), 0.00012*(850-1000)
+	if got := float64(k.Emissivity - base.Emissivity); math.Abs(got-(dh+dp)) > 1e-12 {
+		t.Errorf("terms add %.6f, want %.6f", got, dh+dp)
+	}
+	if math.Abs(float64(k.HourTerm)-dh) > 1e-12 || math.Abs(float64(k.PressureTerm)-dp) > 1e-12 {
+		t.Errorf("terms %v %v, want %v %v", k.HourTerm, k.PressureTerm, dh, dp)
+	}
+	if !strings.Contains(k.Description, "hour-of-day term") || !strings.Contains(k.Description, "850 hPa") {
+		t.Errorf("description does not name the terms: %s", k.Description)
+	}
+	for _, bad := range []Conditions{{HourOfDay: On(25)}, {StationPressure: On(101.3)}} {
+		c := DefaultConditions()
+		c.HourOfDay, c.StationPressure = bad.HourOfDay, bad.StationPressure
+		if err := c.Validate(); err == nil {
+			t.Errorf("%+v passes Validate", bad)
+		}
+	}
+}
+
+// TestSkyOutsideModel checks that a sky drier than the two-band model can
+// represent is named in the figures' assumptions.
+func TestSkyOutsideModel(t *testing.T) {
+	c := DefaultConditions()
+	c.DewPointC = -20
+	f, err := compute(constSample(0.9, 1000, 200000), c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var found bool
+	for _, a := range f.Assumptions {
+		found = found || strings.HasPrefix(a, "Outside the sky model")
+	}
+	if !found {
+		t.Errorf("no assumption names the clamped sky: %q", f.Assumptions)
 	}
 }
 
@@ -177,7 +294,7 @@ func TestGaussLegendreExact(t *testing.T) {
 }
 
 func TestSkyAngle(t *testing.T) {
-	k := ClearSky(10, 300)
+	k := clearAt(10, 300)
 	ew := float64(k.WindowEmissivity)
 	for _, tt := range []struct{ nm, mu, want float64 }{
 		{10000, 1, ew},
@@ -203,7 +320,7 @@ func skyFile(ew float64) string {
 }
 
 func TestSpectralSkyMatchesTwoBand(t *testing.T) {
-	clear := ClearSky(10, 300)
+	clear := clearAt(10, 300)
 	s, err := spectra.Parse(strings.NewReader(skyFile(float64(clear.WindowEmissivity))), "sky.csv")
 	if err != nil {
 		t.Fatal(err)

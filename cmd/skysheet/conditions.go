@@ -58,6 +58,30 @@ func (f bandFlag) Set(s string) error {
 	return nil
 }
 
+// optionalFlag is a flag holding an optional condition: a number, or
+// "off".
+type optionalFlag struct{ o *datasheet.Optional }
+
+func (f optionalFlag) String() string {
+	if f.o == nil {
+		return ""
+	}
+	return f.o.String()
+}
+
+func (f optionalFlag) Set(s string) error {
+	if s = strings.TrimSpace(s); s == "off" {
+		*f.o = datasheet.Optional{}
+		return nil
+	}
+	x, err := strconv.ParseFloat(s, 64)
+	if err != nil {
+		return fmt.Errorf("%q: want a number or off", s)
+	}
+	*f.o = datasheet.On(x)
+	return nil
+}
+
 // conditionFlags adds the flags for every condition, with c's values as
 // defaults.
 func conditionFlags(fs *flag.FlagSet, c *datasheet.Conditions) {
@@ -72,6 +96,8 @@ func conditionFlags(fs *flag.FlagSet, c *datasheet.Conditions) {
 	fs.Float64Var(&c.IrradianceWm2, "irradiance", c.IrradianceWm2, "solar irradiance for cooling with sun, W/m²")
 	fs.Float64Var(&c.HWm2K, "h-conv", c.HWm2K, "non-radiative (convective and conductive) heat-transfer coefficient, W m⁻² K⁻¹")
 	fs.Var(bandFlag{&c.ExchangeBand, "µm"}, "exchange-band", "thermal exchange band of the cooling integrals in µm, LO,HI")
+	fs.Var(optionalFlag{&c.HourOfDay}, "hour-of-day", "add the hour-of-day term of the clear-sky correlation at this `HOUR` (0–24 from local midnight), or off")
+	fs.Var(optionalFlag{&c.StationPressure}, "station-pressure", "add the station-pressure term of the clear-sky correlation at this pressure in `HPA`, or off")
 	fs.TextVar(&c.Weather, "weather", c.Weather, "hourly weather series `FILE` (docs/format.md) to run the hourly cooling model over")
 	fs.TextVar(&c.Sky, "sky", c.Sky, "sky of the cooling figures: a spectral sky `FILE` with a T column (zenith atmospheric transmittance), or clear two-band")
 }

@@ -185,6 +185,9 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	fmt.Fprintf(w, "  closure tolerance %s\n", c.Text("closure_tolerance"))
 	fmt.Fprintf(w, "  cooling: air %s, dew point %s, sun %s, h %s, exchange band %s, sky %s\n",
 		c.Text("ambient_k"), c.Text("dew_point_c"), c.Text("irradiance_w_m2"), c.Text("h_w_m2k"), c.Text("exchange_band_um"), c.Sky)
+	if c.HourOfDay.On || c.StationPressure.On {
+		fmt.Fprintf(w, "  terms of the clear-sky correlation: hour of day %s, station pressure %s\n", c.Text("hour_of_day"), c.Text("station_pressure_hpa"))
+	}
 	if c.Weather.File != "" {
 		fmt.Fprintf(w, "  weather series %s\n", c.Weather)
 	}

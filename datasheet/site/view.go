@@ -308,7 +308,9 @@ func fmtNM(nm float64) string { return fmtG(math.Round(nm*100) / 100) }
 func conditionPairs(c datasheet.Conditions) []pair {
 	var ps []pair
 	for _, x := range c.List() {
-		ps = append(ps, pair{x.Label, x.Value})
+		if !x.Off {
+			ps = append(ps, pair{x.Label, x.Value})
+		}
 	}
 	return ps
 }
