@@ -1,17 +1,29 @@
 package datasheet
 
 import (
+	"cmp"
 	"fmt"
 	"math"
+	"slices"
 
 	"skysheet/spectra"
 )
 
 // Uncertainty is the standard uncertainty of a figure, in the figure's unit,
 // propagated from the standard uncertainties of R and T given with the data
-// two ways: as if the errors at different wavelengths were independent
-// (Uncorrelated) and as if they moved together (Correlated). The errors of
-// R and those of T are taken as independent of each other.
+// (docs/cooling.md, "Uncertainty"), three ways:
+//
+//   - Uncorrelated ("if noise"): the errors are correlated within a
+//     spectral resolution element of each file and independent beyond it
+//     and between files, so that the figure does not depend on how finely
+//     the file was exported.
+//   - Correlated ("together", "if offset"): the errors of each file (one
+//     instrument) move as one, those of different files independently.
+//   - WorstCase: the errors of every file move as one, with the signs
+//     that add up: Σ over files of |the figure's move with that file's
+//     errors|, the bound whatever the correlation between instruments.
+//
+// The errors of R and those of T are taken as independent of each other.
 //
 // Reach is the share of the figure's sensitivity, Σ|∂F/∂x| over the
 // wavelengths it rests on, that falls where an uncertainty was stated; below
@@ -20,6 +32,7 @@ import (
 type Uncertainty struct {
 	Uncorrelated Num `json:"uncorrelated"`
 	Correlated   Num `json:"correlated"`
+	WorstCase    Num `json:"worst_case"`
 	Reach        Num `json:"reach"`
 }
 
@@ -128,20 +141,18 @@ type nonlinearEval func(o spectra.Optics, lin func(key string) float64) map[stri
 type probe struct {
 	delta      gradient // (o⁺ − o⁻)/2 at every point, indexed like o
 	slot       [3][][]int
-	nslots     int
 	plus, mins map[string]float64
 }
 
 // newProbe moves quantity q of s up and down by its uncertainty and
 // recomputes the nonlinear figures both ways with eval.
-func newProbe(s *spectra.Spectrum, q spectra.Quantity, o spectra.Optics, tol float64, grads map[string]gradient, eval nonlinearEval) *probe {
+func newProbe(s *spectra.Spectrum, q spectra.Quantity, o spectra.Optics, tol float64, grads map[string]gradient, eval nonlinearEval, rt *rowTable) *probe {
 	op := spectra.Resolve(shifted(s, q, +1), tol)
 	om := spectra.Resolve(shifted(s, q, -1), tol)
 	pr := &probe{}
 	// Pointwise changes. Resolve works wavelength by wavelength, so the
 	// change at one point comes from that wavelength's own uncertainty; the
-	// slots group the R, T and A values of one wavelength.
-	slots := map[float64]int{}
+	// slots (the rows of rt) group the R, T and A values of one wavelength.
 	for qi, pair := range [3][3]spectra.Series{{o.R, op.R, om.R}, {o.T, op.T, om.T}, {o.A, op.A, om.A}} {
 		base, up, dn := pair[0], pair[1], pair[2]
 		pr.delta[qi] = make([][]float64, len(base.Pieces))
@@ -157,17 +168,11 @@ func newProbe(s *spectra.Spectrum, q spectra.Quantity, o spectra.Optics, tol flo
 			sl := make([]int, len(pc.V))
 			for j, nm := range pc.NM {
 				d[j] = (up.Pieces[p].V[j] - dn.Pieces[p].V[j]) / 2
-				k, ok := slots[nm]
-				if !ok {
-					k = len(slots)
-					slots[nm] = k
-				}
-				sl[j] = k
+				sl[j] = rt.slot(nm)
 			}
 			pr.delta[qi][p], pr.slot[qi][p] = d, sl
 		}
 	}
-	pr.nslots = len(slots)
 	// Linear figures move by exactly ±Σ g·δ; the nonlinear ones are
 	// recomputed from the moved optics.
 	lin := func(sign float64) func(string) float64 {
@@ -259,10 +264,10 @@ func reachOf(g gradient, mask [3][][]bool) float64 {
 	return c / t
 }
 
-// uncorrelated returns √Σ (Σ_q g·δ)² over wavelengths: the figure's
-// standard uncertainty when the errors at different wavelengths are
-// independent, by the linearised gradient g.
-func (pr *probe) uncorrelated(g gradient, buf []float64) float64 {
+// bySlot sets buf[k] to Σ_q g·δ over the values at row k: the change of
+// a linear figure when the quantity moves by its uncertainty at that
+// wavelength alone.
+func (pr *probe) bySlot(g gradient, buf []float64) {
 	clear(buf)
 	for q := range g {
 		for p, row := range g[q] {
@@ -277,11 +282,138 @@ func (pr *probe) uncorrelated(g gradient, buf []float64) float64 {
 			}
 		}
 	}
-	var sum float64
-	for _, t := range buf {
-		sum += t * t
+}
+
+// rowTable lists the wavelengths of a spectrum's rows with the file each
+// comes from (its group) and its position in resolution elements, sorted
+// by group, then wavelength; slot finds a row by wavelength.
+type rowTable struct {
+	nm    []float64
+	group []int
+	pos   []float64 // ∫ dλ / w(λ): resolution elements from an arbitrary origin
+	index map[float64]int
+}
+
+// newRowTable returns the rows of s. A row whose file is not known (a
+// spectrum built without a reader) is its own group with the default
+// resolution of a nm axis.
+func newRowTable(s *spectra.Spectrum) *rowTable {
+	type row struct {
+		nm, pos float64
+		group   int
 	}
-	return math.Sqrt(sum)
+	var rows []row
+	for i := range s.Segments {
+		g := &s.Segments[i]
+		for _, nm := range g.NM {
+			m, ok := s.MeasurementAt(g, nm)
+			group := -1
+			res := spectra.DefaultResolution("nm")
+			if ok {
+				res = m.Resolution
+				for k := range s.Measurements {
+					if s.Measurements[k].Source == m.Source {
+						group = k
+						break
+					}
+				}
+			}
+			rows = append(rows, row{nm: nm, pos: elements(res, nm), group: group})
+		}
+	}
+	slices.SortFunc(rows, func(a, b row) int {
+		if a.group != b.group {
+			return a.group - b.group
+		}
+		return cmp.Compare(a.nm, b.nm)
+	})
+	rt := &rowTable{nm: make([]float64, len(rows)), group: make([]int, len(rows)), pos: make([]float64, len(rows)),
+		index: make(map[float64]int, len(rows))}
+	for k, r := range rows {
+		rt.nm[k], rt.group[k], rt.pos[k] = r.nm, r.group, r.pos
+		rt.index[r.nm] = k
+	}
+	return rt
+}
+
+// slot returns the row of wavelength nm, adding one (a group of its own)
+// if the spectrum has none there.
+func (rt *rowTable) slot(nm float64) int {
+	if k, ok := rt.index[nm]; ok {
+		return k
+	}
+	k := len(rt.nm)
+	rt.nm, rt.group, rt.pos = append(rt.nm, nm), append(rt.group, -2-k), append(rt.pos, 0)
+	rt.index[nm] = k
+	return k
+}
+
+// elements returns the position of wavelength nm in resolution elements of
+// r: ∫ dλ / w(λ) with w = max(NM, λ²Δν̃) (see [spectra.Resolution.Width]),
+// in closed form.
+func elements(r spectra.Resolution, nm float64) float64 {
+	a, b := r.NM, r.Wavenumber*1e-7 // w = max(a, b λ²)
+	switch {
+	case b <= 0:
+		return nm / a
+	case a <= 0:
+		return -1 / (b * nm)
+	}
+	c := math.Sqrt(a / b) // where a = b λ²
+	if nm <= c {
+		return nm / a
+	}
+	return c/a + 1/(b*c) - 1/(b*nm)
+}
+
+// spread returns the standard uncertainty of a linear figure whose change
+// per row is b: √(Σ_k Σ_l b_k b_l ρ_kl) with ρ_kl = max(0, 1 − |pos_k −
+// pos_l|) within a file and 0 between files. The triangular correlation
+// is that of errors averaged over one resolution element (a box filter's
+// autocorrelation), so it is positive semi-definite; on a grid of whole
+// fractions of an element its sum over neighbours, times the spacing, is
+// exactly one element, so the result does not depend on the spacing.
+func (rt *rowTable) spread(b []float64) float64 {
+	var sum float64
+	n := len(b)
+	for k := 0; k < n; k++ {
+		x := b[k]
+		if x == 0 {
+			continue
+		}
+		sum += x * x
+		gk, pk := rt.group[k], rt.pos[k]
+		for l := k + 1; l < n && rt.group[l] == gk; l++ {
+			d := rt.pos[l] - pk
+			if d >= 1 {
+				break
+			}
+			sum += 2 * x * b[l] * (1 - d)
+		}
+	}
+	return math.Sqrt(math.Max(0, sum))
+}
+
+// byGroup returns, with c_f = Σ_k∈f b_k the change of a linear figure when
+// the errors of file f move as one, √Σ_f c_f² (files independent) and
+// Σ_f |c_f| (files fully correlated, with the signs that add up: the bound
+// whatever the correlation between instruments), and the number of files
+// with a non-zero c_f.
+func (rt *rowTable) byGroup(b []float64) (together, bound float64, files int) {
+	var sum, part float64
+	n, files := len(b), 0
+	for k := 0; k < n; k++ {
+		part += b[k]
+		if k == n-1 || rt.group[k+1] != rt.group[k] {
+			if part != 0 {
+				files++
+			}
+			sum += part * part
+			bound += math.Abs(part)
+			part = 0
+		}
+	}
+	return math.Sqrt(sum), bound, files
 }
 
 // addUncertainty sets the uncertainty of every figure in f when s gives
@@ -294,12 +426,16 @@ func (pr *probe) uncorrelated(g gradient, buf []float64) float64 {
 // figure that is Σ ∂F/∂q δq exactly, the others are recomputed by eval.
 func addUncertainty(f *Figures, s *spectra.Spectrum, o spectra.Optics, grads map[string]gradient, tol float64, eval nonlinearEval) {
 	var probes []*probe
+	var rt *rowTable
 	for _, q := range []spectra.Quantity{spectra.R, spectra.T} {
 		ok, lo, hi := hasUncertainty(s, q)
 		if !ok {
 			continue
 		}
-		probes = append(probes, newProbe(s, q, o, tol, grads, eval))
+		if rt == nil {
+			rt = newRowTable(s)
+		}
+		probes = append(probes, newProbe(s, q, o, tol, grads, eval, rt))
 		f.Assumptions = append(f.Assumptions, fmt.Sprintf("The standard uncertainty of %s is given over %s–%s nm; "+
 			"elsewhere %s is taken as exact, which understates the uncertainty of figures that reach there.",
 			q, fmtNM(lo), fmtNM(hi), q))
@@ -307,16 +443,11 @@ func addUncertainty(f *Figures, s *spectra.Spectrum, o spectra.Optics, grads map
 	if len(probes) == 0 {
 		return
 	}
-	f.Assumptions = append(f.Assumptions, "Uncertainties are standard uncertainties propagated two ways: errors independent "+
-		"from wavelength to wavelength (root-sum-square of the linearised terms) and errors moving together (the figure "+
-		"recomputed with R, then T, moved up and down by their uncertainties everywhere at once); the errors of R and "+
-		"those of T are taken as independent of each other.")
-	n := 0
-	for _, pr := range probes {
-		n = max(n, pr.nslots)
-	}
+	words := "Uncertainties: errors correlated within a resolution element, independent beyond it (noise); each file's " +
+		"errors as one, files independent (together); every file's as one, adding up (worst case); R and T independent."
+	f.Assumptions = append(f.Assumptions, words)
 	mask := statedMask(s, o)
-	buf := make([]float64, n)
+	buf := make([]float64, len(rt.nm))
 	for i := range f.Figures {
 		x := &f.Figures[i]
 		if math.IsNaN(float64(x.Value)) {
@@ -330,17 +461,26 @@ func addUncertainty(f *Figures, s *spectra.Spectrum, o spectra.Optics, grads map
 		if reach < minReach {
 			continue
 		}
-		var u2, c2 float64
+		var u2, t2, w2 float64
 		for _, pr := range probes {
-			c := pr.together(g)
+			w := pr.together(g)
 			if xp, ok := pr.plus[x.Key]; ok {
-				c = (xp - pr.mins[x.Key]) / 2
+				w = (xp - pr.mins[x.Key]) / 2
 			}
-			c2 += c * c
-			u := pr.uncorrelated(g, buf)
+			pr.bySlot(g, buf)
+			u := rt.spread(buf)
 			u2 += u * u
+			t, bound, files := rt.byGroup(buf)
+			if files <= 1 {
+				// One file: together is the worst case, recomputed
+				// where the figure is not linear.
+				t, bound = w, w
+			}
+			t2 += t * t
+			w2 += bound * bound
 		}
-		x.Uncertainty = &Uncertainty{Uncorrelated: Num(math.Sqrt(u2)), Correlated: Num(math.Sqrt(c2)), Reach: Num(reach)}
+		x.Uncertainty = &Uncertainty{Uncorrelated: Num(math.Sqrt(u2)), Correlated: Num(math.Sqrt(t2)),
+			WorstCase: Num(math.Sqrt(w2)), Reach: Num(reach)}
 	}
 }
 

@@ -206,3 +206,203 @@ func TestUncertaintyReach(t *testing.T) {
 		}
 	}
 }
+
+// resampled writes quantity R of s, with a constant u_R, on a grid of
+// step in the axis unit ("nm" or "cm-1") over [lo, hi], linear between
+// s's points: what a user gets by exporting the same measurement more
+// finely or more coarsely.
+func resampled(t *testing.T, s *spectra.Spectrum, unit string, lo, hi, step, u float64) string {
+	t.Helper()
+	r := s.Series(spectra.R)
+	var b strings.Builder
+	fmt.Fprintf(&b, "# sample: resampled test data (invented)\n# u_R: %g\n", u)
+	if unit == "nm" {
+		b.WriteString("wavelength_nm,R\n")
+	} else {
+		b.WriteString("wavenumber_cm-1,R\n")
+	}
+	n := int(math.Round((hi - lo) / step))
+	for i := 0; i <= n; i++ {
+		x := lo + float64(i)*step
+		nm := x
+		if unit != "nm" {
+			nm = 1e7 / x
+		}
+		v, ok := r.At(nm)
+		if !ok {
+			t.Fatalf("no R at %g nm", nm)
+		}
+		fmt.Fprintf(&b, "%g,%.6f\n", x, v)
+	}
+	return b.String()
+}
+
+// TestUncertaintyResampling checks that the uncertainty of every figure
+// does not depend on how finely a file was exported (docs/cooling.md,
+// "Uncertainty"): the white coating's UV-Vis-NIR file on 2 nm and 0.5 nm
+// grids and its FTIR file on 4 cm⁻¹ and 1 cm⁻¹ grids, at their default
+// resolutions of 2 nm and 4 cm⁻¹, give uncertainties within 5 % of each
+// other. Errors independent from point to point would give half as much
+// on the finer grids (1/√4).
+func TestUncertaintyResampling(t *testing.T) {
+	white := whiteSample(t)
+	sample := func(uvStep, irStep float64) *Figures {
+		uv := mustParse(t, resampled(t, white, "nm", 280, 2500, uvStep, 0.005), "uv.csv")
+		ir := mustParse(t, resampled(t, white, "cm-1", 400, 4000, irStep, 0.01), "ir.csv")
+		s, err := spectra.Join([]*spectra.Spectrum{uv, ir}, spectra.SpliceOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		f, err := compute(s, DefaultConditions())
+		if err != nil {
+			t.Fatal(err)
+		}
+		return f
+	}
+	coarse, fine := sample(2, 4), sample(0.5, 1)
+	checked := 0
+	for _, x := range coarse.Figures {
+		y, _ := fine.Figure(x.Key)
+		if x.Uncertainty == nil || y.Uncertainty == nil {
+			if (x.Uncertainty == nil) != (y.Uncertainty == nil) {
+				t.Errorf("%s: uncertainty %+v on the coarse grid, %+v on the fine one", x.Key, x.Uncertainty, y.Uncertainty)
+			}
+			continue
+		}
+		checked++
+		for _, c := range []struct {
+			name string
+			a, b Num
+		}{{"noise", x.Uncertainty.Uncorrelated, y.Uncertainty.Uncorrelated}, {"together", x.Uncertainty.Correlated, y.Uncertainty.Correlated},
+			{"worst case", x.Uncertainty.WorstCase, y.Uncertainty.WorstCase}} {
+			t.Logf("%s %s: %.4g coarse, %.4g fine", x.Key, c.name, float64(c.a), float64(c.b))
+			if !(c.a > 0) || math.Abs(float64(c.b/c.a)-1) > 0.05 {
+				t.Errorf("%s (%s): %.4g on the coarse grid, %.4g on the fine one: more than 5 %% apart", x.Key, c.name, float64(c.a), float64(c.b))
+			}
+		}
+	}
+	if checked < 10 {
+		t.Errorf("only %d figures with an uncertainty", checked)
+	}
+}
+
+// TestUncertaintyByFile checks the three cases against the figures
+// recomputed with each file's R moved on its own (JCGM 100:2008 5.2.2,
+// the fully correlated case within a file): together is the root sum of
+// squares of the files' moves, the worst case the sum of their sizes; a
+// figure that rests on one file alone has together equal to the worst
+// case, the figure recomputed with that file moved.
+func TestUncertaintyByFile(t *testing.T) {
+	white := whiteSample(t)
+	const uUV, uIR = 0.005, 0.01
+	uvText := resampled(t, white, "nm", 280, 2500, 5, uUV)
+	irText := resampled(t, white, "cm-1", 400, 4000, 4, uIR)
+	join := func(uv, ir string, move [2]float64) *Figures {
+		a, b := mustParse(t, uv, "uv.csv"), mustParse(t, ir, "ir.csv")
+		for k, p := range []*spectra.Spectrum{a, b} {
+			for i := range p.Segments {
+				g := &p.Segments[i]
+				for j := range g.Values[spectra.R] {
+					g.Values[spectra.R][j] += move[k]
+				}
+				if move != [2]float64{} {
+					g.Values[spectra.UR] = nil
+				}
+			}
+		}
+		s, err := spectra.Join([]*spectra.Spectrum{a, b}, spectra.SpliceOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		f, err := compute(s, DefaultConditions())
+		if err != nil {
+			t.Fatal(err)
+		}
+		return f
+	}
+	f := join(uvText, irText, [2]float64{})
+	half := func(key string, up, dn [2]float64) float64 {
+		a, _ := join(uvText, irText, up).Figure(key)
+		b, _ := join(uvText, irText, dn).Figure(key)
+		return float64(a.Value-b.Value) / 2
+	}
+	for _, tt := range []struct {
+		key     string
+		linear  bool
+		oneFile bool
+	}{
+		{"solar_reflectance", true, true},
+		{"thermal_emittance", true, true},
+		{"cooling_power_w_m2", true, false},
+		{"cooling_power_night_w_m2", true, false}, // the UV-Vis-NIR file reaches 2.5 µm, inside the exchange band
+		{"equilibrium_delta_k", false, false},
+		{"sri_medium", false, false},
+	} {
+		x, _ := f.Figure(tt.key)
+		u := x.Uncertainty
+		if u == nil {
+			t.Fatalf("%s: no uncertainty", tt.key)
+		}
+		cUV := half(tt.key, [2]float64{uUV, 0}, [2]float64{-uUV, 0})
+		cIR := half(tt.key, [2]float64{0, uIR}, [2]float64{0, -uIR})
+		all := half(tt.key, [2]float64{uUV, uIR}, [2]float64{-uUV, -uIR})
+		tol := 1e-9 * math.Max(1, math.Abs(all))
+		if !tt.linear {
+			tol = 0.02 * math.Abs(all) // linearised per file
+		}
+		t.Logf("%s: files %.5g, %.5g; all %.5g; got together %.5g worst %.5g noise %.5g", tt.key, cUV, cIR, all,
+			float64(u.Correlated), float64(u.WorstCase), float64(u.Uncorrelated))
+		worst := math.Abs(cUV) + math.Abs(cIR)
+		if tt.oneFile {
+			worst = math.Abs(all)
+		}
+		if math.Abs(float64(u.WorstCase)-worst) > tol {
+			t.Errorf("%s: worst case %.10g, want %.10g", tt.key, float64(u.WorstCase), worst)
+		}
+		if want := math.Hypot(cUV, cIR); math.Abs(float64(u.Correlated)-want) > tol {
+			t.Errorf("%s: together %.10g, want %.10g", tt.key, float64(u.Correlated), want)
+		}
+		if tt.oneFile && math.Abs(float64(u.Correlated-u.WorstCase)) > 1e-6*float64(u.WorstCase) {
+			t.Errorf("%s rests on one file: together %v, worst case %v", tt.key, u.Correlated, u.WorstCase)
+		}
+		if !(u.Uncorrelated < u.Correlated) {
+			t.Errorf("%s: noise %v not below together %v", tt.key, u.Uncorrelated, u.Correlated)
+		}
+	}
+}
+
+// TestSpreadBruteForce checks rowTable.spread against the double sum
+// Σ_k Σ_l b_k b_l ρ_kl written out with the correlation computed from the
+// wavelengths directly: ρ = max(0, 1 − |Δ|/w) with Δ in nm for a nm
+// resolution and in cm⁻¹ for a wavenumber one, zero between files.
+func TestSpreadBruteForce(t *testing.T) {
+	uv := mustParse(t, "# resolution: 3 nm\nwavelength_nm,R\n400,0.5\n401,0.5\n402.5,0.5\n404,0.5\n409,0.5\n410,0.5\n", "uv.csv")
+	ir := mustParse(t, "# resolution: 8 cm-1\nwavenumber_cm-1,R\n1010,0.1\n1006,0.1\n1003,0.1\n1000,0.1\n990,0.1\n", "ir.csv")
+	s, err := spectra.Join([]*spectra.Spectrum{uv, ir}, spectra.SpliceOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rt := newRowTable(s)
+	rng := rand.New(rand.NewPCG(2, 3))
+	b := make([]float64, len(rt.nm))
+	for k := range b {
+		b[k] = rng.NormFloat64()
+	}
+	var want float64
+	for k := range b {
+		for l := range b {
+			ik, il := rt.nm[k] < 1000, rt.nm[l] < 1000 // the UV file
+			if ik != il {
+				continue
+			}
+			d := math.Abs(rt.nm[k]-rt.nm[l]) / 3
+			if !ik {
+				d = math.Abs(1e7/rt.nm[k]-1e7/rt.nm[l]) / 8
+			}
+			want += b[k] * b[l] * math.Max(0, 1-d)
+		}
+	}
+	if got := rt.spread(b); math.Abs(got-math.Sqrt(want)) > 1e-12 {
+		t.Errorf("spread %.15g, want %.15g", got, math.Sqrt(want))
+	}
+}

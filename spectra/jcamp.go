@@ -62,9 +62,7 @@ func parseJCAMP(r io.Reader, name string) (*Spectrum, error) {
 		return nil, err
 	}
 	j := jcamp{file: name, s: &Spectrum{Sources: []string{name}}}
-	for i := range j.consts {
-		j.consts[i] = math.NaN()
-	}
+	j.meta = newFileMeta()
 	if err := j.build(recs); err != nil {
 		return nil, err
 	}
@@ -214,10 +212,10 @@ func metaKeyOf(label string) string {
 
 // jcamp holds what the reader has found.
 type jcamp struct {
-	file   string
-	s      *Spectrum
-	consts [numQuantities]float64
-	recs   map[string]*record
+	file string
+	s    *Spectrum
+	meta *fileMeta
+	recs map[string]*record
 }
 
 func (j *jcamp) errAt(line int, err error) error {
@@ -266,7 +264,7 @@ func (j *jcamp) build(recs []*record) error {
 				v = strings.TrimSpace(v + " " + t)
 			}
 		}
-		if err := addMeta(j.s, &j.consts, key, v); err != nil {
+		if err := addMeta(j.s, j.meta, key, v); err != nil {
 			return j.errAt(r.line, err)
 		}
 	}
@@ -780,7 +778,8 @@ func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, xf, yf float64) erro
 	}
 	g.Values[yu.q] = v
 	j.s.Segments = []Segment{g}
-	applyConstantUncertainty(j.s, &j.consts)
+	applyConstantUncertainty(j.s, &j.meta.consts)
+	j.s.Measurements = []Measurement{j.meta.measurement(j.file, xu.String(), j.s)}
 	if yu.absorbance {
 		j.s.Notes = append(j.s.Notes, fmt.Sprintf("%s gives absorbance (decadic); converted to transmittance as T = 10^(−A).", j.file))
 	}

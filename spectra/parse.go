@@ -195,9 +195,9 @@ type parser struct {
 	lastX   float64
 	lastLn  int
 	seenX   map[float64]int
-	dec     string                 // the decimal form of the last number read
-	consts  [numQuantities]float64 // constant uncertainties from metadata, NaN if none
-	grouped int                    // axis values written like 2.500 (see thousandsWarning)
+	dec     string    // the decimal form of the last number read
+	fm      *fileMeta // what the metadata set
+	grouped int       // axis values written like 2.500 (see thousandsWarning)
 }
 
 func (p *parser) errf(col int, err error) error {
@@ -222,9 +222,7 @@ func (p *parser) errf(col int, err error) error {
 // a quoted cell may hold the delimiter ("R, %"); space-separated rows by
 // runs of spaces.
 func (p *parser) run(data []byte) error {
-	for i := range p.consts {
-		p.consts[i] = math.NaN()
-	}
+	p.fm = newFileMeta()
 	pos, header := 0, false
 	for pos < len(data) && !header {
 		start := pos
@@ -295,7 +293,8 @@ func (p *parser) run(data []byte) error {
 	if (p.dir < 0) != (p.unit == axisWavenumber) {
 		p.reverse()
 	}
-	applyConstantUncertainty(p.s, &p.consts)
+	applyConstantUncertainty(p.s, &p.fm.consts)
+	p.s.Measurements = []Measurement{p.fm.measurement(p.file, p.unit.String(), p.s)}
 	if w := thousandsWarning(p.file, p.grouped, p.rows, p.s); w != "" {
 		p.s.Warnings = append(p.s.Warnings, w)
 	}
@@ -415,7 +414,7 @@ func (p *parser) meta(s string) error {
 	if k == "" || strings.ContainsAny(k, " \t") && len(strings.Fields(k)) > 4 {
 		return nil
 	}
-	if err := addMeta(p.s, &p.consts, k, v); err != nil {
+	if err := addMeta(p.s, p.fm, k, v); err != nil {
 		return p.errf(0, err)
 	}
 	return nil
@@ -423,10 +422,12 @@ func (p *parser) meta(s string) error {
 
 // addMeta records the metadata field k: v in s, giving their meaning to the
 // keys that have one: u_R and u_T (a constant standard uncertainty, stored in
-// consts and kept as metadata), "processing note" (appended to s.Notes) and
-// "splice" (a [SpliceRecord] in JSON, appended to s.Splices). Readers of
-// every format share it, so that [Write] and [Parse] round-trip all of them.
-func addMeta(s *Spectrum, consts *[numQuantities]float64, k, v string) error {
+// m and kept as metadata), "resolution" and "emittance" (the file's
+// [Measurement], stored in m and kept as metadata), "processing note"
+// (appended to s.Notes) and "splice" (a [SpliceRecord] in JSON, appended to
+// s.Splices). Readers of every format share it, so that [Write] and [Parse]
+// round-trip all of them.
+func addMeta(s *Spectrum, m *fileMeta, k, v string) error {
 	switch normKey(k) {
 	case normKey(noteKey):
 		s.Notes = append(s.Notes, v)
@@ -442,9 +443,17 @@ func addMeta(s *Spectrum, consts *[numQuantities]float64, k, v string) error {
 	s.Meta = append(s.Meta, Field{Key: k, Value: v})
 	switch normKey(k) {
 	case "u_r", "u(r)":
-		return constU(consts, UR, v)
+		return constU(&m.consts, UR, v)
 	case "u_t", "u(t)":
-		return constU(consts, UT, v)
+		return constU(&m.consts, UT, v)
+	case resolutionKey:
+		return m.setResolution(v)
+	case emittanceKey:
+		b, err := ParseEmittanceBasis(v)
+		if err != nil {
+			return fmt.Errorf("%w: %v", errBadMetadata, err)
+		}
+		m.basis = b
 	}
 	return nil
 }

@@ -92,6 +92,10 @@ type Spectrum struct {
 	// mislabelled (a thousands separator read as a decimal point, say).
 	// They are not errors; callers show them beside the figures.
 	Warnings []string
+	// Measurements describe how each file was measured, in the order
+	// read (see [Measurement]); [Spectrum.MeasurementAt] finds the one
+	// behind a value.
+	Measurements []Measurement
 }
 
 // Get returns the first metadata value for key (compared without case) and
@@ -180,6 +184,7 @@ func merge(parts ...*Spectrum) (*Spectrum, error) {
 		out.Splices = append(out.Splices, p.Splices...)
 		out.Inputs = append(out.Inputs, p.Inputs...)
 		out.Warnings = append(out.Warnings, p.Warnings...)
+		out.Measurements = append(out.Measurements, p.Measurements...)
 	}
 	sort.SliceStable(segs, func(i, j int) bool { return segs[i].NM[0] < segs[j].NM[0] })
 	for i, g := range segs {

@@ -528,6 +528,8 @@ func (s *Spectrum) clone() *Spectrum {
 		Splices:  append([]SpliceRecord(nil), s.Splices...),
 		Warnings: append([]string(nil), s.Warnings...),
 		Segments: make([]Segment, len(s.Segments)),
+
+		Measurements: append([]Measurement(nil), s.Measurements...),
 	}
 	for i, g := range s.Segments {
 		n := Segment{Source: g.Source, NM: append([]float64(nil), g.NM...)}

@@ -136,7 +136,7 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	}
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	if withU {
-		fmt.Fprintln(tw, "Figure\tValue\tu indep.\tu together\tu known for\tBand\tWeighting\tCoverage")
+		fmt.Fprintln(tw, "Figure\tValue\tu noise\tu together\tu worst\tu known for\tBand\tWeighting\tCoverage")
 	} else {
 		fmt.Fprintln(tw, "Figure\tValue\tBand\tWeighting\tCoverage")
 	}
@@ -144,9 +144,10 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 		fmt.Fprintf(tw, "%s\t%s\t", x.Label, fmtFigure(x, x.Value))
 		if withU {
 			if u := x.Uncertainty; u != nil {
-				fmt.Fprintf(tw, "±%s\t±%s\t%s\t", fmtUncertainty(x, u.Uncorrelated), fmtUncertainty(x, u.Correlated), fmtPercent(u.Reach))
+				fmt.Fprintf(tw, "±%s\t±%s\t±%s\t%s\t", fmtUncertainty(x, u.Uncorrelated), fmtUncertainty(x, u.Correlated),
+					fmtUncertainty(x, u.WorstCase), fmtPercent(u.Reach))
 			} else {
-				fmt.Fprint(tw, "\t\t\t")
+				fmt.Fprint(tw, "\t\t\t\t")
 			}
 		}
 		fmt.Fprintf(tw, "%s\t%s\t%s\n", x.BandText(), x.Weighting, fmtPercent(x.Coverage))

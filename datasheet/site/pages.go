@@ -322,7 +322,8 @@ func keyCard(f *datasheet.Figures, key, label, note string) keyFig {
 
 // plusMinus writes " ±u" for a figure with a standard uncertainty u, two
 // significant digits, the larger of the two cases the datasheet's table
-// gives (errors independent between wavelengths, errors moving together);
+// gives (errors independent beyond a resolution element, each file's
+// errors moving as one);
 // "" when it has none.
 func plusMinus(x datasheet.Figure) string {
 	u := x.Uncertainty

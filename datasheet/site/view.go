@@ -264,8 +264,9 @@ func fmtFigure(x datasheet.Figure) string {
 	return fmtNumber(x.Kind(), x.Value, x.Unit)
 }
 
-// fmtUnc formats a figure's standard uncertainty as "±indep. / ±together"
-// (errors independent between wavelengths, errors moving together), two
+// fmtUnc formats a figure's standard uncertainty as "±noise / ±together"
+// (errors independent beyond a resolution element, each file's errors
+// moving as one), two
 // significant digits; and, when the stated uncertainties of R and T cover
 // less than all of what the figure depends on (its sensitivity), the
 // share they cover in plain words: "covers 48 %" (the datasheet explains
