@@ -234,3 +234,21 @@ func claimedValuesText(k Kind, v []float64) string {
 	}
 	return strings.Join(parts, ", ")
 }
+
+// ColorDifference returns the colour difference between the reflected
+// colours of a and b, CIE 1976 ΔE*ab and CIEDE2000 ΔE00; ok is false when
+// either has no colour.
+func ColorDifference(a, b *Figures) (de76, de2000 float64, ok bool) {
+	if a == nil || b == nil {
+		return 0, 0, false
+	}
+	la, lb := a.Color.Reflectance.Lab, b.Color.Reflectance.Lab
+	for i := range la {
+		if math.IsNaN(float64(la[i])) || math.IsNaN(float64(lb[i])) {
+			return 0, 0, false
+		}
+	}
+	x := colorimetry.Lab{L: float64(la[0]), A: float64(la[1]), B: float64(la[2])}
+	y := colorimetry.Lab{L: float64(lb[0]), A: float64(lb[1]), B: float64(lb[2])}
+	return colorimetry.DeltaE76(x, y), colorimetry.DeltaE2000(x, y), true
+}

@@ -186,3 +186,28 @@ func TestColorClaimText(t *testing.T) {
 		t.Errorf("JSON %s (%v)", data, err)
 	}
 }
+
+func TestColorDifference(t *testing.T) {
+	grey := func(rho string) *Figures {
+		f, err := compute(sample(t, "a.csv", "wavelength_nm,R\n280,"+rho+"\n2400,"+rho+"\n"), DefaultConditions())
+		if err != nil {
+			t.Fatal(err)
+		}
+		return f
+	}
+	a, b := grey("0.5"), grey("0.2")
+	de76, de00, ok := ColorDifference(a, b)
+	// Two greys differ only in L*: ΔE*ab = |ΔL*|, and ΔE00 its lightness
+	// term (closed forms above).
+	l1, l2 := lstarOf(0.5), lstarOf(0.2)
+	if !ok || math.Abs(de76-math.Abs(l1-l2)) > 1e-9 || math.Abs(de00-de2000Lightness(l1, l2)) > 1e-9 {
+		t.Errorf("ΔE = %g, %g (%v), want %g, %g", de76, de00, ok, math.Abs(l1-l2), de2000Lightness(l1, l2))
+	}
+	short, err := compute(sample(t, "a.csv", "wavelength_nm,R\n400,0.5\n2400,0.5\n"), DefaultConditions())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, _, ok := ColorDifference(a, short); ok {
+		t.Error("a colour difference with a sample that has no colour")
+	}
+}

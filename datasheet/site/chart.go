@@ -126,6 +126,10 @@ type pointSet struct {
 	title  []string // tooltip
 	slug   []string
 	colors []rgba
+	// stroke is the ring around each point; the zero value is white.
+	// Points drawn in a material's own colour take a dark ring, so that a
+	// white or pale material shows on the white plot.
+	stroke rgba
 	pix    [][2]int  // pixel positions, filled while rendering
 	box    chart.Box // the plot box, filled while rendering
 }
@@ -867,13 +871,17 @@ func (ps *pointSet) anchors() string {
 		family = "'" + f.Name(truetype.NameIDFontFamily) + "',sans-serif"
 	}
 	spots := ps.labelSpots()
+	ring := "#ffffff"
+	if ps.stroke != (rgba{}) {
+		ring = ps.stroke.css()
+	}
 	for i, p := range ps.pix {
 		col := colPalette[0]
 		if i < len(ps.colors) {
 			col = ps.colors[i]
 		}
-		fmt.Fprintf(&b, `<a href="%s" data-slug="%s"><title>%s</title><circle cx="%d" cy="%d" r="%d" style="fill:%s;stroke:#ffffff;stroke-width:1.5"/>`,
-			html.EscapeString(ps.href[i]), html.EscapeString(ps.slug[i]), html.EscapeString(ps.title[i]), p[0], p[1], pointRadius, col.css())
+		fmt.Fprintf(&b, `<a href="%s" data-slug="%s"><title>%s</title><circle cx="%d" cy="%d" r="%d" style="fill:%s;stroke:%s;stroke-width:1.5"/>`,
+			html.EscapeString(ps.href[i]), html.EscapeString(ps.slug[i]), html.EscapeString(ps.title[i]), p[0], p[1], pointRadius, col.css(), ring)
 		if ps.label[i] != "" {
 			fmt.Fprintf(&b, `<text x="%d" y="%d" style="font-size:%gpx;font-family:%s;fill:%s;stroke:#ffffff;stroke-width:3px;stroke-linejoin:round;paint-order:stroke">%s</text>`,
 				spots[i][0], spots[i][1], float64(textLabel), html.EscapeString(family), colText.css(), html.EscapeString(ps.label[i]))

@@ -367,6 +367,14 @@ func (b *builder) table(id, root string, ms []*evaluate.Summary, numbers map[str
 		}
 		for _, col := range tableFigures {
 			x := figureOf(m.Figures, col.Key)
+			if x.Key == "color_lab" { // a swatch and L*
+				cl := cell{Key: col.Key, Text: "—", Value: sortValue(x.Value)}
+				if !isNaN(x.Value) && m.Figures != nil {
+					cl.Text, cl.Swatch = strconv.FormatFloat(float64(x.Value), 'f', 1, 64), m.Figures.Color.Reflectance.SRGB
+				}
+				r.Cells = append(r.Cells, cl)
+				continue
+			}
 			r.Cells = append(r.Cells, cell{Key: col.Key, Text: fmtNumber(x.Kind(), x.Value, "") + plusMinus(x), Value: sortValue(x.Value)})
 		}
 		t.Rows = append(t.Rows, r)
@@ -442,6 +450,9 @@ func (b *builder) indexFiles(out files) error {
 		return &library.Error{File: "index.html", Err: fmt.Errorf("scatter chart: %w", err)}
 	}
 	v.Scatter = sc
+	if v.ColorCharts, err = colorCharts(ms, v.Table.Rows); err != nil {
+		return &library.Error{File: "index.html", Err: fmt.Errorf("colour charts: %w", err)}
+	}
 	for _, kind := range []string{"category", "tag"} {
 		slugs, names, members := b.groups(kind == "tag")
 		for _, s := range slugs {
@@ -552,6 +563,7 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 		v.Rows = append(v.Rows, r)
 	}
 	v.Rows = append(v.Rows, seriesRows(ms)...)
+	v.Rows = append(v.Rows, compareColors(ms)...)
 	cond := compareRow{Label: "Conditions"}
 	for _, m := range ms {
 		cc := m.Conditions
@@ -568,6 +580,39 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 	}
 	out[name] = html
 	return nil
+}
+
+// compareColors returns the rows of a comparison that show the materials'
+// colours: their swatches, and the colour difference of each material from
+// each one before it.
+func compareColors(ms []*evaluate.Summary) []compareRow {
+	sw := compareRow{Label: "Colour on screen (sRGB, approximate)"}
+	any := false
+	for _, m := range ms {
+		h := m.Figures.Color.Reflectance.SRGB
+		sw.Swatches = append(sw.Swatches, h)
+		any = any || h != ""
+	}
+	if !any {
+		return nil
+	}
+	rows := []compareRow{sw}
+	for i := 0; i < len(ms)-1; i++ {
+		r := compareRow{Label: "Colour difference from " + ms[i].Front.Title}
+		for j, m := range ms {
+			de76, de00, ok := datasheet.ColorDifference(ms[i].Figures, m.Figures)
+			switch {
+			case j <= i:
+				r.Cells = append(r.Cells, "")
+			case !ok:
+				r.Cells = append(r.Cells, "—")
+			default:
+				r.Cells = append(r.Cells, fmt.Sprintf("ΔE*ab %.1f, ΔE00 %.1f", de76, de00))
+			}
+		}
+		rows = append(rows, r)
+	}
+	return rows
 }
 
 // catalogEntry is one material in catalog.json.

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"html/template"
 	"math"
+	"strconv"
 	"strings"
 
 	"skysheet/datasheet"
@@ -407,4 +408,99 @@ func scatterChart(ms []*evaluate.Summary, rows []row) (*chartView, error) {
 		return nil, err
 	}
 	return &chartView{ID: "library-scatter", Title: "Solar reflectance against atmospheric-window emittance", Caption: caption, SVG: template.HTML(svg)}, nil
+}
+
+// colorW and colorH are the size of each colour chart of the index, drawn
+// two to a row on a wide screen and one above the other on a phone.
+const colorW, colorH = 560, 440
+
+// hexColor reads "#rrggbb"; ok is false for anything else.
+func hexColor(s string) (rgba, bool) {
+	var c rgba
+	if len(s) != 7 || s[0] != '#' {
+		return c, false
+	}
+	v, err := strconv.ParseUint(s[1:], 16, 32)
+	if err != nil {
+		return c, false
+	}
+	return rgba{uint8(v >> 16), uint8(v >> 8), uint8(v), 0xff}, true
+}
+
+// colorCharts plots the solar and the near-IR reflectance of each material
+// against its lightness L*, each point in the material's own colour
+// (its sRGB swatch, ringed dark so that pale colours show): what a colour
+// costs in sunlight, and what a pigment that reflects the near infrared
+// wins back. Materials without a colour or the reflectance are left out
+// and named; nil when no material has both.
+func colorCharts(ms []*evaluate.Summary, rows []row) ([]chartView, error) {
+	var shown []*evaluate.Summary
+	var idx []int
+	var skipped []string
+	for i, m := range ms {
+		lab, _ := m.Figures.Figure("color_lab")
+		if isNaN(lab.Value) || isNaN(m.Figures.SolarReflectance) {
+			skipped = append(skipped, m.Front.Title)
+			continue
+		}
+		shown = append(shown, m)
+		idx = append(idx, i)
+	}
+	if len(shown) == 0 {
+		return nil, nil
+	}
+	labels := pointLabels(shown)
+	var out []chartView
+	for _, c := range []struct {
+		id, name, short string
+		value           func(*datasheet.Figures) datasheet.Num
+	}{
+		{"color-solar", "Solar reflectance", "solar reflectance", func(f *datasheet.Figures) datasheet.Num { return f.SolarReflectance }},
+		{"color-nir", "Near-IR reflectance", "near-IR reflectance", func(f *datasheet.Figures) datasheet.Num { return f.NIRReflectance }},
+	} {
+		ps := &pointSet{stroke: colText}
+		var desc, missing []string
+		for k, m := range shown {
+			y := c.value(m.Figures)
+			if isNaN(y) {
+				missing = append(missing, m.Front.Title)
+				continue
+			}
+			lab, _ := m.Figures.Figure("color_lab")
+			col, ok := hexColor(m.Figures.Color.Reflectance.SRGB)
+			if !ok {
+				col = colPalette[0]
+			}
+			ps.x, ps.y = append(ps.x, float64(lab.Value)), append(ps.y, float64(y))
+			ps.href = append(ps.href, rows[idx[k]].Href)
+			ps.slug = append(ps.slug, m.Slug)
+			ps.label = append(ps.label, labels[k])
+			title := fmt.Sprintf("%s (%s): L* %s, %s %s, colour %s", m.Front.Title, labels[k],
+				strconv.FormatFloat(float64(lab.Value), 'f', 1, 64), c.short, fmtFrac(y), m.Figures.Color.Reflectance.SRGB)
+			ps.title = append(ps.title, title)
+			desc = append(desc, title)
+			ps.colors = append(ps.colors, col)
+		}
+		if len(ps.x) == 0 {
+			continue
+		}
+		p := plot{width: colorW, height: colorH, xName: "Lightness L* (D65, 2°)", yName: c.name,
+			xLo: 0, xHi: 100, yLo: 0, yHi: 1, xTicks: []float64{0, 20, 40, 60, 80, 100}, xFmt: "0", yFmt: "1",
+			points: ps, noLegend: true}
+		svg, err := p.svg(fmt.Sprintf("Scatter chart of %s against lightness L*. %s.", c.short, strings.Join(desc, ". ")))
+		if err != nil {
+			return nil, err
+		}
+		caption := fmt.Sprintf("Each point is a material in its own colour (the sRGB swatch of its datasheet, approximate on screen), linked to its datasheet; %d shown.", len(ps.x))
+		if c.id == "color-solar" {
+			caption += " A darker colour absorbs more sunlight: this is what a colour costs."
+		} else {
+			caption += " Pigments that reflect the near infrared sit high here whatever their colour: this is what they win back."
+		}
+		if n := append(append([]string{}, skipped...), missing...); len(n) > 0 {
+			caption += " Not shown (no colour or no reflectance): " + strings.Join(n, "; ") + "."
+		}
+		out = append(out, chartView{ID: c.id, Title: c.name + " against lightness L*", Caption: caption, SVG: template.HTML(svg)})
+	}
+	return out, nil
 }

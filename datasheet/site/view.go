@@ -122,7 +122,9 @@ type column struct {
 	Numeric          bool
 }
 
-type cell struct{ Key, Text, Value string }
+// cell is a cell of a material table; Swatch, when set, is a colour
+// "#rrggbb" shown before the text.
+type cell struct{ Key, Text, Value, Swatch string }
 
 type row struct {
 	N                        int
@@ -143,6 +145,7 @@ type indexView struct {
 	ClaimWords  string                  // the counts in words
 	Table       tableView
 	Scatter     *chartView
+	ColorCharts []chartView
 	Categories  []link
 	Tags        []link
 	Comparisons []link
@@ -158,6 +161,9 @@ type compareCol struct{ Name, Href, Note, Color string }
 type compareRow struct {
 	Label string
 	Cells []string
+	// Swatches, when set, replaces Cells: one colour "#rrggbb" per
+	// material ("" for none).
+	Swatches []string
 }
 
 type compareView struct {
@@ -209,6 +215,7 @@ var tableFigures = []column{
 	{Key: "thermal_emittance", Label: "Thermal emittance", Numeric: true},
 	{Key: "window_emittance", Label: "Window emittance", Numeric: true},
 	{Key: "cooling_power_w_m2", Label: "Net cooling, day", Unit: "W/m²", Numeric: true},
+	{Key: "color_lab", Label: "Colour", Unit: "L*", Numeric: true},
 }
 
 // figureOf returns the figure of f with the given key; a figure without
