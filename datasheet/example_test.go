@@ -47,6 +47,37 @@ func ExampleClearSky() {
 	// dew point −20 °C: window 0, clamped true
 }
 
+func ExampleFigures_WriteCSV() {
+	// A flat reflectance of 0.9 over the solar band and 0.05 over the
+	// thermal band: band-weighted means of a constant are that constant,
+	// here to the last bit the integration keeps (every number is written
+	// in full precision), the thermal one with the 2500–2501 nm ramp.
+	s, err := spectra.Parse(strings.NewReader("wavelength_nm,R\n280,0.9\n2500,0.9\n2501,0.05\n25000,0.05\n"), "flat.csv")
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	c := datasheet.DefaultConditions()
+	f, err := datasheet.Compute(s, spectra.Resolve(s, c.ClosureTol), c)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	var b strings.Builder
+	f.WriteCSV(&b)
+	lines := strings.Split(b.String(), "\n")
+	fmt.Println(lines[0])
+	for _, l := range lines[1:] {
+		if strings.HasPrefix(l, "solar_reflectance,") || strings.HasPrefix(l, "thermal_emittance,") {
+			fmt.Println(l)
+		}
+	}
+	// Output:
+	// key,label,value (unit),unit,band low (band_unit),band high (band_unit),band_unit,weighting,coverage (fraction),u independent (unit),u together (unit),u known for (fraction),components (unit)
+	// solar_reflectance,Solar reflectance,0.8999999999999985,fraction,280,2500,nm,ASTM G173-03 global tilt,1,,,,
+	// thermal_emittance,Thermal emittance,0.9499999801872775,fraction,2.5,25,µm,Planck blackbody at 300 K,1,,,,
+}
+
 // A day of weather: the same flat sample held at the air temperature and
 // left to float, hour by hour.
 func ExampleCompute_weather() {

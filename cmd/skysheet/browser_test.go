@@ -91,6 +91,7 @@ func TestBrowser(t *testing.T) {
 	t.Run("ChartRows", func(t *testing.T) { testChartRows(t, bctx, srv.URL, slugs) })
 	t.Run("PrintPDF", func(t *testing.T) { testPrint(t, bctx, srv.URL, slugs) })
 	t.Run("Phone", func(t *testing.T) { testPhone(t, bctx, srv, slugs) })
+	t.Run("Search", func(t *testing.T) { testSearch(t, bctx, out, con) })
 	t.Run("Accessibility", func(t *testing.T) { testAxe(t, bctx, srv.URL) })
 }
 
@@ -942,4 +943,87 @@ func TestFigureHeadingsExplained(t *testing.T) {
 	if withUnc == 0 {
 		t.Error("no demo datasheet has an uncertainty column: its note went unchecked")
 	}
+}
+
+// testSearch uses the search box of a datasheet opened from file://, as a
+// reader with the site on disk would (a page from file:// may load a
+// script but not fetch a file): a word of a title, maker, lab, product
+// code, tag or notes lists the materials holding it, a link leads to the
+// material, nothing is logged as an error, and axe-core finds no serious
+// violation with the list open.
+func testSearch(t *testing.T, ctx context.Context, site string, con *consoleLog) {
+	page := (&url.URL{Scheme: "file", Path: filepath.ToSlash(site) + "/m/bw-93/index.html"}).String()
+	if err := chromedp.Do(ctx, chromedp.Navigate(page), settle()); err != nil {
+		t.Fatalf("loading %s: %v", page, err)
+	}
+	con.take()
+	search := func(text string) []string {
+		err := chromedp.Do(ctx,
+			chromedp.Evaluate[chromedp.Void](`(() => { const f = document.getElementById('site-search'); f.value = ''; f.dispatchEvent(new Event('input', {bubbles: true})); })()`),
+			chromedp.SendKeys(chromedp.CSS("#site-search"), text),
+			chromedp.Poll[chromedp.Void](`document.getElementById('site-search-count').textContent !== ''`, chromedp.WithPollingTimeout(10*time.Second)),
+		)
+		if err != nil {
+			t.Fatalf("typing %q into the search box: %v", text, err)
+		}
+		return eval[[]string](t, ctx, `Array.from(document.querySelectorAll('#site-search-results a')).map(a => a.dataset.slug)`)
+	}
+	for _, c := range []struct {
+		text string
+		want []string
+	}{
+		{"Kestrelweave", []string{"kw-21"}},          // maker, another case
+		{"BX-7", []string{"bx-7"}},                   // product code
+		{"titania", []string{"bw-93", "bw-93-aged"}}, // tag
+		{"skeleton", []string{"px-2"}},               // a word of the notes only
+		{"glazed tile", []string{"at-w"}},            // every word must match
+		{"zzqx-nothing", []string{}},
+	} {
+		got := search(c.text)
+		if strings.Join(sortedCopy(got), " ") != strings.Join(sortedCopy(c.want), " ") {
+			t.Errorf("search %q lists %v, want %v", c.text, got, c.want)
+		}
+	}
+	if msg := eval[string](t, ctx, `document.getElementById('site-search-count').textContent`); msg != "No material matches." {
+		t.Errorf("no match: the count says %q", msg)
+	}
+
+	search("kestrelweave")
+	href := eval[string](t, ctx, `document.querySelector('#site-search-results a').href`)
+	if !strings.HasSuffix(href, "/m/kw-21/index.html") {
+		t.Errorf("the match links %s", href)
+	}
+	if errs := con.take(); len(errs) > 0 {
+		t.Errorf("errors while searching:\n%s", strings.Join(errs, "\n"))
+	}
+	if err := chromedp.Do(ctx, chromedp.Navigate(href), settle()); err != nil {
+		t.Errorf("following the match to its datasheet: %v", err)
+	}
+
+	// axe-core last: it reads the stylesheets, which a page from file://
+	// may not, and logs that as an error.
+	if err := chromedp.Do(ctx, chromedp.Navigate(page), settle()); err != nil {
+		t.Fatalf("loading %s: %v", page, err)
+	}
+	search("white")
+	if src, err := os.ReadFile(axeScript); err == nil {
+		if err := chromedp.Do(ctx, chromedp.Evaluate[chromedp.Void](string(src))); err != nil {
+			t.Fatalf("loading axe-core: %v", err)
+		}
+		vs, err := chromedp.Run(ctx, chromedp.Evaluate[[]axeViolation](axeRunJS, chromedp.EvalAwaitPromise))
+		if err != nil {
+			t.Fatalf("running axe-core on the open search list: %v", err)
+		}
+		for _, v := range vs {
+			msg := fmt.Sprintf("search list open: %s (%s): %s\n\t%s", v.ID, v.Impact, v.Help, strings.Join(v.Targets, "\n\t"))
+			if v.Impact == "serious" || v.Impact == "critical" {
+				t.Error(msg)
+			} else {
+				t.Log(msg)
+			}
+		}
+	} else if os.Getenv("CI") != "" {
+		t.Fatalf("axe-core unavailable in CI: %v", err)
+	}
+	con.take()
 }

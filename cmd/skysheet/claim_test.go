@@ -1,9 +1,12 @@
 package main
 
 import (
+	"encoding/csv"
 	"encoding/json"
+	"math"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -107,5 +110,36 @@ func TestFiguresClaim(t *testing.T) {
 	v := r.Materials[0].Verdicts[0]
 	if v.Status != datasheet.Supported || v.Claim.Basis.SolarBandNM[1] != 4000 || !r.OK {
 		t.Errorf("--json: verdict %+v", v)
+	}
+}
+
+// TestFiguresCSV checks that figures --csv gives every figure of --json,
+// in order, with the same value to the last bit.
+func TestFiguresCSV(t *testing.T) {
+	code, out, errs := runCLI(figuresArgs("--csv")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	rows, err := csv.NewReader(strings.NewReader(out)).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, js, _ := runCLI(figuresArgs("--json")...)
+	var f datasheet.Figures
+	if err := json.Unmarshal([]byte(js), &f); err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) != len(f.Figures)+1 || rows[0][2] != "value (unit)" {
+		t.Fatalf("%d rows for %d figures, header %q", len(rows), len(f.Figures), rows[0])
+	}
+	for i, x := range f.Figures {
+		r := rows[i+1]
+		v, err := strconv.ParseFloat(r[2], 64)
+		if r[0] != x.Key || (err != nil || v != float64(x.Value)) && !(r[2] == "" && math.IsNaN(float64(x.Value))) {
+			t.Errorf("row %d: %q, want %s = %v", i+1, r, x.Key, x.Value)
+		}
+	}
+	if code, _, errs := runCLI(figuresArgs("--csv", "--json")...); code != 2 || !strings.Contains(errs, "give one") {
+		t.Errorf("--csv --json: exit %d, %s", code, errs)
 	}
 }

@@ -28,6 +28,7 @@ func runFigures(e *env, args []string) error {
 	fs := newFlags(e, commands["figures"])
 	conditionFlags(fs, &c)
 	asJSON := fs.Bool("json", false, "print one JSON object instead of a table")
+	asCSV := fs.Bool("csv", false, "print the figures as CSV: one row per figure, full precision, units in the column names")
 	var so sampleOptions
 	sampleFlags(fs, "splice-", &so)
 	save := fs.String("save-spectrum", "", "also write the joined, corrected spectrum to this file in the neutral format")
@@ -58,6 +59,12 @@ func runFigures(e *env, args []string) error {
 		}
 	} else if len(files) == 0 {
 		return usagef("no spectrum files given")
+	}
+	if *asJSON && *asCSV {
+		return usagef("--json and --csv: give one")
+	}
+	if len(claims) > 0 && *asCSV {
+		return usagef("--csv prints figures, not the verdicts of --claim")
 	}
 	if len(claims) == 0 && (*angle != 0 || *strict || *deltaE != "") {
 		return usagef("--angle, --strict and --delta-e go with --claim")
@@ -118,6 +125,9 @@ func runFigures(e *env, args []string) error {
 		return printClaims(e, files, m, *asJSON, *strict)
 	}
 	f := m.Figures
+	if *asCSV {
+		return f.WriteCSV(rawWriter(e.stdout))
+	}
 	if *asJSON {
 		enc := json.NewEncoder(rawWriter(e.stdout))
 		enc.SetIndent("", "  ")

@@ -6,13 +6,14 @@ import (
 	"path/filepath"
 	"strings"
 
+	"skysheet/datasheet/library"
 	"skysheet/spectra"
 )
 
 func init() {
 	register(&command{
 		name:    "import",
-		args:    "FILE... -o DIR",
+		args:    "FILE... -o DIR [--material FILE.md]",
 		summary: "convert instrument exports (JCAMP-DX .jdx/.dx, or neutral files) into neutral-format files in DIR",
 		run:     runImport,
 	})
@@ -21,6 +22,7 @@ func init() {
 func runImport(e *env, args []string) error {
 	fs := newFlags(e, commands["import"])
 	dir := fs.String("o", "", "output directory (created if missing)")
+	material := fs.String("material", "", "also write a material's Markdown `FILE` (e.g. content/coatings/w-7.md) listing the converted files, filled from what they say, with blanks to fill in; never overwrites")
 	maxSize := maxFileSizeFlag(fs)
 	files, err := parseFlags(fs, args)
 	if err != nil {
@@ -44,6 +46,11 @@ func runImport(e *env, args []string) error {
 	}
 	for _, out := range names {
 		if err := refuseOverwrite(out, files); err != nil {
+			return err
+		}
+	}
+	if *material != "" {
+		if err := checkMaterialPath(*material, names); err != nil {
 			return err
 		}
 	}
@@ -76,6 +83,13 @@ func runImport(e *env, args []string) error {
 			fmt.Fprintf(e.stdout, "  note: %s\n", n)
 		}
 		printWarnings(e.stderr, "import", s)
+	}
+	if *material != "" {
+		d := &materialDraft{path: *material, ins: files, outs: names, specs: specs}
+		if err := d.write(); err != nil {
+			return err
+		}
+		fmt.Fprintf(e.stdout, "%s: written; fill in each value starting with %s (skysheet review lists them)\n", *material, library.Blank)
 	}
 	return nil
 }

@@ -28,6 +28,7 @@ var (
 	ErrNotAllowed      = errors.New("key not allowed here")
 	ErrUnknownFigure   = errors.New("no such figure")
 	ErrClaim           = errors.New("bad claim")
+	ErrBlank           = errors.New("blank not filled in")
 )
 
 // Error is a problem at a place in a library file. Line and Column are

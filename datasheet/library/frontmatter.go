@@ -6,6 +6,7 @@ import (
 	"math"
 	"slices"
 	"strings"
+	"unicode/utf8"
 
 	"gopkg.in/yaml.v3"
 
@@ -300,6 +301,7 @@ func parseFront(file string, yamlText []byte) (FrontMatter, frontLines, doc, err
 	for i, t := range fm.Tags {
 		fm.Tags[i] = strings.TrimSpace(t)
 	}
+	errs = append(errs, d.blanks(root, "")...)
 	if v := valueNode(root, "claims"); v != root && v.Kind == yaml.SequenceNode && len(v.Content) == len(fm.Claims) {
 		errs = append(errs, d.checkClaims(fm.Claims, v.Content)...)
 	}
@@ -307,4 +309,57 @@ func parseFront(file string, yamlText []byte) (FrontMatter, frontLines, doc, err
 		return fm, fl, d, errs
 	}
 	return fm, fl, d, nil
+}
+
+// Blank starts a value that is still to be filled in, as "skysheet import
+// --material" writes them: "FILL IN: who made the material". A front
+// matter value or a body line holding it is an [ErrBlank].
+const Blank = "FILL IN"
+
+// blanks reports every scalar under n whose value starts with [Blank], at
+// its line and column, naming its key.
+func (d doc) blanks(n *yaml.Node, key string) []error {
+	var errs []error
+	switch n.Kind {
+	case yaml.ScalarNode:
+		if strings.HasPrefix(strings.TrimSpace(n.Value), Blank) {
+			what := strings.TrimSpace(strings.TrimPrefix(strings.TrimSpace(n.Value), Blank))
+			what = strings.TrimSpace(strings.TrimPrefix(what, ":"))
+			errs = append(errs, d.at(n, ErrBlank, "%s: %s", key, cutBlank(what)))
+		}
+	case yaml.MappingNode:
+		for i := 0; i+1 < len(n.Content); i += 2 {
+			k := n.Content[i].Value
+			if key != "" {
+				k = key + "." + k
+			}
+			errs = append(errs, d.blanks(n.Content[i+1], k)...)
+		}
+	case yaml.SequenceNode:
+		for i, c := range n.Content {
+			errs = append(errs, d.blanks(c, fmt.Sprintf("%s[%d]", key, i+1))...)
+		}
+	}
+	return errs
+}
+
+// bodyBlanks reports every line of a Markdown body holding [Blank];
+// the body starts on file line first.
+func bodyBlanks(file string, body []byte, first int) []error {
+	var errs []error
+	for i, l := range bytes.Split(body, []byte("\n")) {
+		if c := bytes.Index(l, []byte(Blank)); c >= 0 {
+			errs = append(errs, errorf(file, first+i, utf8.RuneCount(l[:c])+1, ErrBlank, "in the text: %s", cutBlank(strings.TrimSpace(string(l[c:])))))
+		}
+	}
+	return errs
+}
+
+// cutBlank cuts what a blank asks for to 160 characters: long enough for
+// the hints import writes, short enough for one message.
+func cutBlank(s string) string {
+	if r := []rune(s); len(r) > 160 {
+		return string(r[:159]) + "…"
+	}
+	return s
 }

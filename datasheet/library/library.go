@@ -428,6 +428,9 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 	if err != nil {
 		// Known by its slug all the same, so that comparisons listing it
 		// do not report it missing on top of its own errors.
+		if bb := bodyBlanks(file, body, bodyLine); len(bb) > 0 {
+			err = Join(err, Errors(bb))
+		}
 		r.err, r.isCompare = err, len(fm.Compare) > 0
 		if r.slug = fm.Slug; r.slug == "" {
 			r.slug = Slugify(strings.TrimSuffix(path.Base(file), path.Ext(file)))
@@ -435,6 +438,7 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 		return r
 	}
 	var errs Errors
+	errs = append(errs, bodyBlanks(file, body, bodyLine)...)
 	slugNode := valueNode(fl.root, "slug")
 	r.slugLine = slugNode.Line + d.offset
 	if fm.Slug == "" {

@@ -6,13 +6,14 @@
 //
 // # Output
 //
-//	index.html                            library index
-//	m/SLUG/index.html                     datasheet; beside it spectrum.csv, figures.json, claims.json, source.md
-//	materials/by-category/CAT/index.html  materials of one category
-//	materials/by-tag/TAG/index.html       materials with one tag
+//	index.html                            library index; beside it materials.csv, its table
+//	m/SLUG/index.html                     datasheet; beside it spectrum.csv, figures.json, figures.csv, claims.json, source.md
+//	materials/by-category/CAT/index.html  materials of one category, with materials.csv
+//	materials/by-tag/TAG/index.html       materials with one tag, with materials.csv
 //	compare/SLUG/index.html               comparison pages
 //	review/index.html                     claims not supported or not checkable
 //	catalog.json                          every material's metadata, figures and claims with verdicts
+//	search.js                             the search index, loaded by site.js when the search box is used
 //	assets/style.css, assets/site.js
 //
 // Links are relative and name index.html, so the site works from file://

@@ -79,6 +79,7 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	v.Downloads = []link{
 		{Name: "spectrum.csv", Href: "spectrum.csv", Note: "the spectrum, normalised to the neutral column format"},
 		{Name: "figures.json", Href: "figures.json", Note: fmt.Sprintf("every figure with its basis (schema %d)", f.Schema)},
+		{Name: "figures.csv", Href: "figures.csv", Note: "every figure as a table, with its unit, band, coverage and uncertainty"},
 		{Name: "source.md", Href: "source.md", Note: "the Markdown source with its front matter"},
 	}
 	if len(vs) > 0 {
@@ -441,6 +442,9 @@ func (b *builder) indexFiles(out files) error {
 	p := b.newPage("index", b.site.Title, "index.html")
 	ms, numbers := b.ordered()
 	v := &indexView{Count: len(ms), Table: b.table("library-table", "", ms, numbers)}
+	if err := b.addTableCSV(out, "", &v.Table, ms, numbers); err != nil {
+		return err
+	}
 	for _, m := range ms {
 		v.Claims.Add(m.Verdicts...)
 	}
@@ -499,6 +503,9 @@ func (b *builder) listingFiles(out files) error {
 				numbers[m.Slug] = i + 1
 			}
 			p.L = &listingView{Kind: label, Name: names[s], Table: b.table("", p.Root, members[s], numbers)}
+			if err := b.addTableCSV(out, listingDir(kind, s), &p.L.Table, members[s], numbers); err != nil {
+				return err
+			}
 			html, err := b.execute("listing", p)
 			if err != nil {
 				return &library.Error{File: name, Err: err}

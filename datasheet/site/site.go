@@ -188,6 +188,11 @@ func (b *builder) render() (files, error) {
 	if err := b.reviewFiles(out); err != nil {
 		errs = append(errs, err)
 	}
+	if data, err := b.searchIndex(); err != nil {
+		errs = append(errs, err)
+	} else {
+		out[searchIndexName] = data
+	}
 	for _, a := range []string{"style.css", "site.js"} {
 		data, err := b.asset(a)
 		if err != nil {
@@ -278,6 +283,10 @@ func (b *builder) materialFiles(m *evaluate.Material, cmps []*library.Comparison
 	if err != nil {
 		return fail(err)
 	}
+	var figCSV bytes.Buffer
+	if err := m.Figures.WriteCSV(&figCSV); err != nil {
+		return fail(err)
+	}
 	out, err := b.weatherFiles(m)
 	if err != nil {
 		return nil, err
@@ -285,6 +294,7 @@ func (b *builder) materialFiles(m *evaluate.Material, cmps []*library.Comparison
 	out[dir+"index.html"] = html
 	out[dir+"spectrum.csv"] = csv.Bytes()
 	out[dir+"figures.json"] = append(js, '\n')
+	out[dir+"figures.csv"] = figCSV.Bytes()
 	out[dir+"claims.json"] = claims
 	out[dir+"source.md"] = m.Source
 	return out, nil

@@ -137,6 +137,7 @@ type tableView struct {
 	ID      string
 	Columns []column
 	Rows    []row
+	CSV     string // the table as CSV, relative to the page; "" for none
 }
 
 type indexView struct {

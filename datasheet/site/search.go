@@ -1,0 +1,102 @@
+package site
+
+import (
+	"bytes"
+	"encoding/json"
+	"strings"
+	"unicode"
+	"unicode/utf8"
+
+	"skysheet/datasheet/evaluate"
+)
+
+// searchIndexName is the script holding the library-wide search index, at
+// the site's root. A script rather than JSON: a page opened from file://
+// may load a script but not fetch a file.
+const searchIndexName = "search.js"
+
+// maxNoteBytes caps the words a material's notes add to the search index,
+// so that the index stays a few hundred bytes per material.
+const maxNoteBytes = 240
+
+// stopWords are left out of the notes' words (common English words that
+// would match nearly every material).
+var stopWords = map[string]bool{}
+
+func init() {
+	for _, w := range strings.Fields(`the and for are but not you all any can has had her was one our out his how its may who did
+		get let put say she too use with from this that they them then than there these those what when where which while
+		will would been being have into over under more most also only such each both other some very just about after
+		before between through during without within upon here your their were does done per via is it of on in at to by
+		as an or be so no if we`) {
+		stopWords[w] = true
+	}
+}
+
+// searchIndex returns the search script: one entry per material in library
+// order, [slug, title, maker or lab, words], the words being the lab (when
+// a maker is named), product code, category, tags and, up to maxNoteBytes,
+// the distinct words of the notes, in lower case. site.js loads it when
+// the search box is first used.
+func (b *builder) searchIndex() ([]byte, error) {
+	entries := make([][4]string, 0, len(b.sums))
+	for _, m := range b.sums {
+		entries = append(entries, searchEntry(m))
+	}
+	var buf bytes.Buffer
+	buf.WriteString("window.skysheetSearchIndex = ")
+	enc := json.NewEncoder(&buf) // escapes <, > and &: safe in a script
+	if err := enc.Encode(entries); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
+// searchEntry is one material's entry of the search index.
+func searchEntry(m *evaluate.Summary) [4]string {
+	fm := m.Front
+	who := firstOf(fm.Maker, fm.Lab)
+	seen := map[string]bool{}
+	for _, w := range searchWords(fm.Title + " " + who) {
+		seen[w] = true // found in the title or maker already
+	}
+	var words []string
+	add := func(text string, limit int) {
+		n := 0
+		for _, w := range searchWords(text) {
+			if seen[w] {
+				continue
+			}
+			if limit > 0 && n+len(w)+1 > limit {
+				return
+			}
+			seen[w] = true
+			words = append(words, w)
+			n += len(w) + 1
+		}
+	}
+	if fm.Maker != "" {
+		add(fm.Lab, 0)
+	}
+	add(fm.ProductCode+" "+fm.Category+" "+strings.Join(fm.Tags, " "), 0)
+	add(string(m.Body), maxNoteBytes)
+	return [4]string{m.Slug, fm.Title, who, strings.Join(words, " ")}
+}
+
+// searchWords splits text into lower-case words of letters and digits
+// (joined by inner hyphens, points or commas, as in "bw-93" or "0.95"),
+// leaving out words shorter than three characters, numbers without a
+// letter, stop words and Markdown.
+func searchWords(text string) []string {
+	var out []string
+	for _, f := range strings.FieldsFunc(strings.ToLower(text), func(r rune) bool {
+		return !(unicode.IsLetter(r) || unicode.IsNumber(r) || r == '-' || r == '.' || r == ',')
+	}) {
+		w := strings.Trim(f, "-.,")
+		if utf8.RuneCountInString(w) < 3 || stopWords[w] || !strings.ContainsFunc(w, unicode.IsLetter) {
+			continue
+		}
+		out = append(out, w)
+	}
+	return out
+}
