@@ -212,15 +212,15 @@ const (
 // no source, except where a constant names its source). docs/review.md
 // states them for readers.
 type JudgeRules struct {
-	MinCoverage, DefaultUncertainty, DefaultIndexUncertainty, DefaultRelUncertainty float64
-	DefaultPowerFloorWm2, DefaultDeltaFloorK, CoolingCheckLoUM, CoolingCheckHiUM    float64
-	MaxHeldShare, CoverageFactor, SolarStartNM, MaxAngleDiffDeg, MaxFraction        float64
-	DefaultDeltaEUncertainty, DefaultXYUncertainty                                  float64
+	MinCoverage, MinShownCoverage, DefaultUncertainty, DefaultIndexUncertainty, DefaultRelUncertainty float64
+	DefaultPowerFloorWm2, DefaultDeltaFloorK, CoolingCheckLoUM, CoolingCheckHiUM                      float64
+	MaxHeldShare, CoverageFactor, SolarStartNM, MaxAngleDiffDeg, MaxFraction                          float64
+	DefaultDeltaEUncertainty, DefaultXYUncertainty                                                    float64
 }
 
 // Rules are the thresholds the verdicts follow.
 var Rules = JudgeRules{
-	MinCoverage: minCoverage, DefaultUncertainty: defaultUncertainty, DefaultIndexUncertainty: defaultIndexUncertainty,
+	MinCoverage: minCoverage, MinShownCoverage: minShownCoverage, DefaultUncertainty: defaultUncertainty, DefaultIndexUncertainty: defaultIndexUncertainty,
 	DefaultRelUncertainty: defaultRelUncertainty, DefaultPowerFloorWm2: defaultPowerFloorWm2, DefaultDeltaFloorK: defaultDeltaFloorK,
 	CoolingCheckLoUM: coolingCheckLoUM, CoolingCheckHiUM: coolingCheckHiUM, MaxHeldShare: maxHeldShare,
 	CoverageFactor: coverageFactor, SolarStartNM: solarStartNM, MaxAngleDiffDeg: maxAngleDiffDeg, MaxFraction: maxFraction,

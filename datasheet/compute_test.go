@@ -236,3 +236,44 @@ func TestKindWords(t *testing.T) {
 		t.Errorf("a power in words: %q", got)
 	}
 }
+
+// TestOrigins checks that a file giving R and A but not T has T derived
+// as 1 − R − A and that the figures say so: A = 0.10 is the solar
+// absorptance, not 1 − R.
+func TestOrigins(t *testing.T) {
+	for _, tc := range []struct {
+		name, in   string
+		alpha, tau float64 // expected solar absorptance and transmittance
+		origins    Origins
+		text       string
+	}{
+		// R + T + A = 1 with R 0.05, A 0.10: T = 0.85, α = A = 0.10.
+		{"R and A", "wavelength_nm,R,A\n250,0.05,0.10\n30000,0.05,0.10\n", 0.10, 0.85,
+			Origins{"measured", "derived", "measured"}, "T derived as T = 1 − R − A"},
+		// R alone: T = 0 assumed, α = 1 − R = 0.95.
+		{"R only", "wavelength_nm,R\n250,0.05\n30000,0.05\n", 0.95, 0,
+			Origins{"measured", "assumed 0", "derived"}, "R measured; T assumed 0; A derived as A = 1 − R − T"},
+		{"all three", "wavelength_nm,R,T,A\n250,0.05,0.85,0.10\n30000,0.05,0.85,0.10\n", 0.10, 0.85,
+			Origins{"measured", "measured", "measured"}, "R measured; T measured; A measured"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			s, err := spectra.Parse(strings.NewReader(tc.in), "x.csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			f, err := compute(s, DefaultConditions())
+			if err != nil {
+				t.Fatal(err)
+			}
+			if math.Abs(float64(f.SolarAbsorptance)-tc.alpha) > 1e-9 || math.Abs(float64(f.SolarTransmittance)-tc.tau) > 1e-9 {
+				t.Errorf("α %g, τ %g; want %g, %g", f.SolarAbsorptance, f.SolarTransmittance, tc.alpha, tc.tau)
+			}
+			if f.Origins != tc.origins {
+				t.Errorf("origins %+v, want %+v", f.Origins, tc.origins)
+			}
+			if !strings.Contains(f.Origins.Text(), tc.text) {
+				t.Errorf("origins say %q, want %q", f.Origins.Text(), tc.text)
+			}
+		})
+	}
+}

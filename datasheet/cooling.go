@@ -23,11 +23,17 @@ type CurvePoint struct {
 // CoolingTerms are the parts of the net cooling power at T_s = T_amb and
 // what the held-constant extension of the data carries.
 type CoolingTerms struct {
-	RadiatedWm2       Num `json:"radiated_w_m2"`    // P_rad(T_amb)
-	AtmosphericWm2    Num `json:"atmospheric_w_m2"` // P_atm, absorbed from the sky
-	SolarWm2          Num `json:"solar_w_m2"`       // P_sun, absorbed sunlight
-	EquilibriumK      Num `json:"equilibrium_k"`    // T_eq with sun
-	EquilibriumNightK Num `json:"equilibrium_night_k"`
+	RadiatedWm2    Num `json:"radiated_w_m2"`    // P_rad(T_amb)
+	AtmosphericWm2 Num `json:"atmospheric_w_m2"` // P_atm, absorbed from the sky
+	SolarWm2       Num `json:"solar_w_m2"`       // P_sun, absorbed sunlight
+	// SolarAbsorbed is the share of the sunlight absorbed over the whole
+	// ASTM G173-03 range 280–4000 nm (the chosen spectrum's weighting), on
+	// which P_sun rests; SolarAbsorbedCoverage is the share of that
+	// spectrum's power where the data give the absorptance.
+	SolarAbsorbed         Num `json:"solar_absorbed_fraction"`
+	SolarAbsorbedCoverage Num `json:"solar_absorbed_coverage"`
+	EquilibriumK          Num `json:"equilibrium_k"` // T_eq with sun
+	EquilibriumNightK     Num `json:"equilibrium_night_k"`
 	// HeldShare is the share of the exchange band's blackbody power at
 	// T_amb that falls where the emittance is held constant.
 	HeldShare Num `json:"held_share"`
@@ -600,14 +606,20 @@ func (m *cooling) weighting(withSun, withH bool) string {
 // evaluations of the uncertainty).
 func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]gradient, full bool) {
 	c := m.c
-	alpha := float64(f.SolarAbsorptance)
+	sa := absorbedSun(o.A, m.sun)
+	alpha, sunReason := sa.Value, ""
+	if sa.Coverage < minSunCoverage {
+		alpha = math.NaN()
+		sunReason = fmt.Sprintf("the data cover only %.1f %% of the %s power over %g–%g nm, on which the absorbed sunlight rests "+
+			"(at least %g %% is needed)", 100*sa.Coverage, m.sun, spectra.SolarRangeNM.Lo, spectra.SolarRangeNM.Hi, 100*minSunCoverage)
+	}
 	r := m.evaluate(o.A, alpha)
 	f.Sky = m.sky
 	f.CoolingPowerWm2, f.CoolingPowerNightWm2 = Num(r.day), Num(r.night)
 	f.EquilibriumDeltaK = Num(c.AmbientK - r.eqDay)
 	f.EquilibriumDeltaNightK = Num(c.AmbientK - r.eqNight)
 	f.CoolingTerms = CoolingTerms{RadiatedWm2: Num(r.prad), AtmosphericWm2: Num(r.patm), SolarWm2: Num(r.psun),
-		EquilibriumK: Num(r.eqDay), EquilibriumNightK: Num(r.eqNight),
+		SolarAbsorbed: Num(alpha), SolarAbsorbedCoverage: Num(sa.Coverage), EquilibriumK: Num(r.eqDay), EquilibriumNightK: Num(r.eqNight),
 		HeldShare: Num(math.NaN()), HeldEmittedWm2: Num(math.NaN()), HeldBands: []spectra.Interval{}}
 	f.HeldPowerWm2 = Num(math.NaN())
 	if m.g != nil {
@@ -624,16 +636,23 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 	}
 	band := c.ExchangeBand
 	fig := func(key, label, unit string, v Num, sun, h bool, coverage float64) {
-		f.Figures = append(f.Figures, Figure{Key: key, Label: label, Value: v, Unit: unit, Band: band, BandUnit: "µm",
-			Weighting: m.weighting(sun, h), Coverage: Num(coverage)})
+		x := Figure{Key: key, Label: label, Value: v, Unit: unit, Band: band, BandUnit: "µm",
+			Weighting: m.weighting(sun, h), Coverage: Num(coverage)}
+		if sun && m.g != nil {
+			x.Reason = sunReason
+		}
+		f.Figures = append(f.Figures, x)
 	}
-	dayCov := math.Min(cov, float64(f.SolarCoverage))
+	dayCov := math.Min(cov, sa.Coverage)
 	fig("cooling_power_w_m2", "Cooling power at ambient, with sun", "W/m²", f.CoolingPowerWm2, true, false, dayCov)
 	fig("cooling_power_night_w_m2", "Cooling power at ambient, at night", "W/m²", f.CoolingPowerNightWm2, false, false, cov)
 	fig("equilibrium_delta_k", "Equilibrium with sun", "K", f.EquilibriumDeltaK, true, true, dayCov)
 	fig("equilibrium_delta_night_k", "Equilibrium at night", "K", f.EquilibriumDeltaNightK, false, true, cov)
-	if grads != nil && r.state != nil {
-		m.addGradients(grads, r, c)
+	if grads != nil {
+		grads[absorbedSunKey] = gradient{spectra.A: sa.Coef}
+		if r.state != nil {
+			m.addGradients(grads, r, c)
+		}
 	}
 	if !full {
 		return
@@ -647,12 +666,31 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 		}
 	}
 	f.Sensitivity = m.sensitivity(o.A, alpha, r)
-	f.Assumptions = append(f.Assumptions, m.assumptions(r)...)
+	f.Assumptions = append(f.Assumptions, m.assumptions(r, sa)...)
+}
+
+// minSunCoverage is the share of the solar spectrum's power over
+// 280–4000 nm that the data must cover for the absorbed sunlight, and so
+// the figures with sun, to be given (common practice, no source).
+const minSunCoverage = 0.9
+
+// absorbedSunKey names the gradient of the absorbed share of sunlight
+// among the figures' gradients; it is not a figure.
+const absorbedSunKey = "cooling_terms.solar_absorbed_fraction"
+
+// absorbedSun returns the share of sunlight that a surface of spectral
+// absorptance a absorbs over the whole range of the ASTM G173-03 tables,
+// 280–4000 nm, weighted by sun: ∫ α E dλ / ∫ E dλ over the part the data
+// cover, with that part's share of the spectrum's power as its coverage.
+// P_sun is the stated irradiance times it: the spectrum's shape scaled to
+// the irradiance.
+func absorbedSun(a spectra.Series, sun spectra.Weighting) spectra.Mean {
+	return spectra.BandMean(a, sun, spectra.SolarRangeNM.Lo, spectra.SolarRangeNM.Hi)
 }
 
 // addGradients stores the gradients of the cooling figures.
 func (m *cooling) addGradients(grads map[string]gradient, r coolFigures, c Conditions) {
-	gAlpha := grads["solar_absorptance"]
+	gAlpha := grads[absorbedSunKey]
 	night := gradient{spectra.A: r.state.gradA(c.AmbientK)}
 	grads["cooling_power_night_w_m2"] = night
 	grads["cooling_power_w_m2"] = night.plus(-c.IrradianceWm2, gAlpha)
@@ -710,7 +748,7 @@ func (m *cooling) sensitivity(a spectra.Series, alpha float64, base coolFigures)
 }
 
 // assumptions states the cooling model in sentences.
-func (m *cooling) assumptions(r coolFigures) []string {
+func (m *cooling) assumptions(r coolFigures, sa spectra.Mean) []string {
 	c := m.c
 	ex := bandOut(c.ExchangeBand, "µm")
 	var out []string
@@ -726,9 +764,18 @@ func (m *cooling) assumptions(r coolFigures) []string {
 		return append(out, fmt.Sprintf("No emittance data reach into the exchange band %g–%g µm: cooling figures cannot be computed.",
 			ex[0], ex[1]))
 	}
+	lo, hi := spectra.SolarRangeNM.Lo, spectra.SolarRangeNM.Hi
+	sun := fmt.Sprintf("P_sun = %s W/m² × %.4f, the share of the %s sunlight absorbed over %g–%g nm",
+		fmtG(c.IrradianceWm2), sa.Value, m.sun, lo, hi)
+	if sa.Coverage < minSunCoverage {
+		sun = fmt.Sprintf("P_sun not given: the data cover %.1f %% of the %s sunlight over %g–%g nm (at least %g %% is needed)",
+			100*sa.Coverage, m.sun, lo, hi, 100*minSunCoverage)
+	} else if sa.Coverage < 1 {
+		sun += fmt.Sprintf(" (mean over the %.1f %% the data cover)", 100*sa.Coverage)
+	}
 	out = append(out, fmt.Sprintf("Cooling: P_net(T_s) = P_rad(T_s) − P_atm − P_sun − h (T_amb − T_s) with P_rad and P_atm over %g–%g µm, "+
-		"air at %s K, h = %s W m⁻² K⁻¹, sun %s W/m² × solar absorptance; the cooling power is P_net at T_s = T_amb, "+
-		"where the convective term vanishes.", ex[0], ex[1], fmtG(c.AmbientK), fmtG(c.HWm2K), fmtG(c.IrradianceWm2)))
+		"air at %s K, h = %s W m⁻² K⁻¹, %s; the cooling power is P_net at T_s = T_amb.",
+		ex[0], ex[1], fmtG(c.AmbientK), fmtG(c.HWm2K), sun))
 	if len(m.g.held) > 0 {
 		var parts []string
 		for _, h := range m.g.held {
@@ -737,9 +784,6 @@ func (m *cooling) assumptions(r coolFigures) []string {
 		out = append(out, fmt.Sprintf("The data stop short of the exchange band over %s: the nearest measured emittance is held constant there. "+
 			"That part carries %.1f W/m² of blackbody power at %s K (%.1f %% of the band's), of which the sample emits %.1f W/m².",
 			strings.Join(parts, ", "), m.g.heldPower, fmtG(c.AmbientK), 100*m.g.heldPower/m.g.bbPower, r.state.heldEmit))
-	}
-	if s := c.SolarBand.Hi / 1000; s > ex[0] {
-		out = append(out, fmt.Sprintf("The solar band reaches %g µm, into the exchange band (from %g µm): absorbed sunlight and thermal exchange overlap there.", s, ex[0]))
 	}
 	if r.errDay != nil && !math.IsNaN(r.psun) {
 		out = append(out, "Equilibrium with sun: "+r.errDay.Error()+".")

@@ -69,7 +69,7 @@ func coolingOf(t *testing.T, s *spectra.Spectrum, c Conditions) (*Figures, coolF
 	}
 	o := spectra.Resolve(s, c.ClosureTol)
 	m := &cooling{c: c, sky: sky, sun: spectra.SolarGlobal(), g: newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK)}
-	return f, m.evaluate(o.A, float64(f.SolarAbsorptance))
+	return f, m.evaluate(o.A, float64(f.CoolingTerms.SolarAbsorbed))
 }
 
 func TestBlackbodyNetPower(t *testing.T) {
@@ -340,5 +340,91 @@ func TestConditionMessagesRounded(t *testing.T) {
 	err := c.Validate()
 	if err == nil || !strings.Contains(err.Error(), "(16.85 °C)") {
 		t.Errorf("message %v, want the air at 16.85 °C", err)
+	}
+}
+
+// g173Table reads the global tilt column of the embedded ASTM G173-03 table
+// with the test's own reader: wavelengths (nm) and W m⁻² nm⁻¹.
+func g173Table(t *testing.T) (nm, e []float64) {
+	t.Helper()
+	for _, r := range plainTable(t, "../spectra/astm-g173-03.csv", 2, ",", false, 3) {
+		nm, e = append(nm, r[0]), append(e, r[2])
+	}
+	return nm, e
+}
+
+// trapezoidOver integrates the table by the trapezoid rule over its own
+// points between lo and hi, which must be points of the table.
+func trapezoidOver(nm, e []float64, lo, hi float64) float64 {
+	var s float64
+	for i := 1; i < len(nm); i++ {
+		if nm[i-1] >= lo && nm[i] <= hi {
+			s += (nm[i] - nm[i-1]) * (e[i-1] + e[i]) / 2
+		}
+	}
+	return s
+}
+
+// TestAbsorbedSunlight checks P_sun = I ∫ α E dλ / ∫ E dλ over the whole
+// ASTM G173-03 range 280–4000 nm, against the table read and integrated
+// here; the standard quotes 1000.4 W/m² for the global tilt total (ASTM
+// G173-03; spectra/astm-g173-03.md).
+func TestAbsorbedSunlight(t *testing.T) {
+	nm, e := g173Table(t)
+	total := trapezoidOver(nm, e, 280, 4000)
+	if math.Abs(total-1000.4) > 0.05 {
+		t.Fatalf("G173 global tilt total %.3f W/m², the standard quotes 1000.4", total)
+	}
+	const step = 0.01 // nm: the width of the steps below
+	for _, tt := range []struct {
+		name     string
+		rows     [][2]float64 // wavelength nm, R (T = 0: A = 1 − R)
+		want     float64      // P_sun at I = 1000.4 W/m², W/m²
+		coverage float64
+	}{
+		// Black over the whole range: all of the stated irradiance.
+		{"black", [][2]float64{{280, 0}, {4000, 0}}, 1000.4, 1},
+		// Absorbing only beyond 2500 nm, as white paints do: the sunlight of
+		// 2500–4000 nm, which a solar band ending at 2500 nm leaves out.
+		{"absorbs beyond 2.5 µm", [][2]float64{{280, 1}, {2500, 1}, {2500 + step, 0}, {4000, 0}},
+			1000.4 * trapezoidOver(nm, e, 2500, 4000) / total, 1},
+		// Data to 2500 nm only: the mean over the covered part, with the
+		// covered share of the spectrum's power as coverage.
+		{"grey to 2.5 µm", [][2]float64{{280, 0.5}, {2500, 0.5}}, 1000.4 * 0.5, trapezoidOver(nm, e, 280, 2500) / total},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			c := DefaultConditions()
+			c.IrradianceWm2 = 1000.4
+			s := mustParse(t, sampleCSV(tt.rows), "sun.csv")
+			f, err := compute(s, c)
+			if err != nil {
+				t.Fatal(err)
+			}
+			ct := f.CoolingTerms
+			if got := float64(ct.SolarWm2); math.Abs(got-tt.want) > 1e-3 {
+				t.Errorf("P_sun = %.4f W/m², want %.4f", got, tt.want)
+			}
+			if got := float64(ct.SolarAbsorbedCoverage); math.Abs(got-tt.coverage) > 1e-6 {
+				t.Errorf("coverage %.6f, want %.6f", got, tt.coverage)
+			}
+			if got, want := float64(ct.SolarAbsorbed)*c.IrradianceWm2, float64(ct.SolarWm2); math.Abs(got-want) > 1e-9 {
+				t.Errorf("absorbed share × I = %g, P_sun %g", got, want)
+			}
+		})
+	}
+	// The solar absorptance figure keeps its stated band: 0 for the sample
+	// that absorbs only beyond 2.5 µm, while P_sun counts that sunlight.
+	f, err := compute(mustParse(t, sampleCSV([][2]float64{{280, 1}, {2500, 1}, {2500 + step, 0}, {4000, 0}}), "sun.csv"), DefaultConditions())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if f.SolarAbsorptance != 0 || !(f.CoolingTerms.SolarWm2 > 5) {
+		t.Errorf("α_sol %g over 280–2500 nm, P_sun %g W/m²", float64(f.SolarAbsorptance), float64(f.CoolingTerms.SolarWm2))
+	}
+	b, _ := json.Marshal(f.CoolingTerms)
+	for _, k := range []string{`"solar_w_m2":`, `"solar_absorbed_fraction":`, `"solar_absorbed_coverage":`} {
+		if !strings.Contains(string(b), k) {
+			t.Errorf("cooling_terms JSON lacks %s: %s", k, b)
+		}
 	}
 }

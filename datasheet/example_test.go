@@ -32,6 +32,28 @@ func ExampleSolarReflectanceIndex() {
 	// bare metal: SRI 49.4
 }
 
+// A two-band sky calibrated on a given emissivity, such as a cloud-corrected
+// one: a horizontal blackbody at the air temperature receives exactly that
+// share of σT⁴.
+func ExampleTwoBandSky() {
+	k := datasheet.TwoBandSky(0.85, 290)
+	fmt.Printf("hemispherical %.4f, window %.4f, zenith transmittance %.4f\n", float64(k.HemisphericalEmissivity),
+		float64(k.WindowHemisphericalEmissivity), float64(k.WindowZenithTransmittance))
+	// Output: hemispherical 0.8500, window 0.5216, zenith transmittance 0.6386
+}
+
+// The correlation's optional terms, off by default, as conditions.
+func ExampleClearSky_terms() {
+	c := datasheet.DefaultConditions()
+	c.HourOfDay, c.StationPressure = datasheet.On(3), datasheet.On(850)
+	k := datasheet.ClearSky(c)
+	fmt.Printf("ε_sky %.4f (hour term %+.4f, pressure term %+.4f)\n", float64(k.Emissivity), float64(k.HourTerm), float64(k.PressureTerm))
+	fmt.Println(c.Text("hour_of_day"), "/", c.Text("station_pressure_hpa"))
+	// Output:
+	// ε_sky 0.7655 (hour term +0.0092, pressure term -0.0180)
+	// 3 h / 850 hPa
+}
+
 // The default clear sky: dew point 10 °C seen from air at 300 K.
 func ExampleClearSky() {
 	c := datasheet.DefaultConditions()
@@ -97,4 +119,22 @@ func ExampleCompute_weather() {
 	// Output:
 	// Test roof (invented): 24 hours on 1 day, 24 of them below the air
 	// energy > 0: true
+}
+
+// A grey and a darker grey: the colour figures and their difference.
+func ExampleColorDifference() {
+	c := datasheet.DefaultConditions()
+	grey := func(rho string) *datasheet.Figures {
+		s, _ := spectra.Parse(strings.NewReader("wavelength_nm,R\n280,"+rho+"\n2500,"+rho+"\n"), "grey.csv")
+		f, _ := datasheet.Compute(s, spectra.Resolve(s, c.ClosureTol), c)
+		return f
+	}
+	a, b := grey("0.5"), grey("0.4")
+	lab, _ := a.Figure("color_lab")
+	fmt.Println(lab.Text(), a.Color.Reflectance.SRGB)
+	de76, de00, _ := datasheet.ColorDifference(a, b)
+	fmt.Printf("ΔE*ab %.2f, ΔE00 %.2f\n", de76, de00)
+	// Output:
+	// L* 76.07, a* 0.00, b* 0.00 #bcbcbc
+	// ΔE*ab 6.60, ΔE00 4.94
 }

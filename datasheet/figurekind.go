@@ -116,7 +116,7 @@ func (k Kind) FormatSigned(x float64, unit string) string {
 // allConds are every condition a figure may rest on, in the order a
 // verdict's basis names them, for a figure the table below does not know.
 var allConds = []condition{condSolarBand, condSolarSpectrum, condThermalBand, condWindowBand, condTemperature,
-	condSky, condDewPoint, condAmbient, condH, condIrradiance, condExchangeBand}
+	condSky, condDewPoint, condHour, condPressure, condAmbient, condH, condIrradiance, condExchangeBand}
 
 // figureSpec is how claims of one figure are judged.
 type figureSpec struct {
@@ -139,15 +139,17 @@ type figureSpec struct {
 var (
 	solarConds   = []condition{condSolarBand, condSolarSpectrum}
 	sriConds     = []condition{condSolarBand, condSolarSpectrum, condThermalBand, condTemperature}
-	dayPower     = []condition{condSky, condDewPoint, condAmbient, condIrradiance, condSolarSpectrum, condSolarBand, condExchangeBand}
-	nightPower   = []condition{condSky, condDewPoint, condAmbient, condExchangeBand}
-	dayBalance   = []condition{condSky, condDewPoint, condAmbient, condH, condIrradiance, condSolarSpectrum, condSolarBand, condExchangeBand}
-	nightBalance = []condition{condSky, condDewPoint, condAmbient, condH, condExchangeBand}
+	dayPower     = []condition{condSky, condDewPoint, condHour, condPressure, condAmbient, condIrradiance, condSolarSpectrum, condExchangeBand}
+	nightPower   = []condition{condSky, condDewPoint, condHour, condPressure, condAmbient, condExchangeBand}
+	dayBalance   = []condition{condSky, condDewPoint, condHour, condPressure, condAmbient, condH, condIrradiance, condSolarSpectrum, condExchangeBand}
+	nightBalance = []condition{condSky, condDewPoint, condHour, condPressure, condAmbient, condH, condExchangeBand}
 )
 
 // figureSpecs is the one table of how each figure that [Compute] returns is
 // judged. The cooling power at T_s = T_amb does not depend on h
-// (docs/cooling.md), so only the equilibria list it. TestFigureSpecs checks
+// (docs/cooling.md), so only the equilibria list it; the absorbed sunlight
+// is over the whole ASTM G173-03 range, so no cooling figure lists the
+// solar band. TestFigureSpecs checks
 // that every computed figure is here, with a kind that fits its unit.
 var figureSpecs = map[string]figureSpec{
 	"solar_reflectance":         {kind: KindFraction, conds: solarConds, solar: true},

@@ -6,6 +6,7 @@ import (
 	"math"
 	"slices"
 	"strconv"
+	"strings"
 
 	"skysheet/spectra"
 )
@@ -61,9 +62,14 @@ type Figure struct {
 	// a*, b* of a colour; x, y of a chromaticity); Value is then the
 	// first. Nil for a single number.
 	Components []Num
-	// Reason says why Value is n/a when the figure says so itself (a
-	// colour from data that do not cover 380–780 nm); see [Figures.Missing].
+	// Reason says why Value is n/a: too little of its weighting covered
+	// by data, none of its band, or what the figure says itself (a colour
+	// from data that do not cover 380–780 nm); see [Figures.Missing].
 	Reason string
+	// Partial marks a value whose weighting is covered by data less than
+	// fully (see docs/cooling.md, "Where the models stop").
+	Partial bool
+	short   string // Reason in a few words, when it is long
 }
 
 // figureJSON is the JSON form of a Figure.
@@ -79,12 +85,13 @@ type figureJSON struct {
 	Uncertainty *Uncertainty `json:"uncertainty,omitempty"`
 	Components  []Num        `json:"components,omitempty"`
 	Reason      string       `json:"reason,omitempty"`
+	Partial     bool         `json:"partial,omitempty"`
 }
 
 // MarshalJSON writes the figure with its band in its band unit.
 func (f Figure) MarshalJSON() ([]byte, error) {
 	return json.Marshal(figureJSON{f.Key, f.Label, f.Value, f.Unit, bandOut(f.Band, f.BandUnit), f.BandUnit,
-		f.Weighting, f.Coverage, f.Uncertainty, f.Components, f.Reason})
+		f.Weighting, f.Coverage, f.Uncertainty, f.Components, f.Reason, f.Partial})
 }
 
 // UnmarshalJSON reads the form MarshalJSON writes.
@@ -94,7 +101,7 @@ func (f *Figure) UnmarshalJSON(b []byte) error {
 		return err
 	}
 	*f = Figure{j.Key, j.Label, j.Value, j.Unit, bandFrom(j.Band[0], j.Band[1], j.BandUnit), j.BandUnit,
-		j.Weighting, j.Coverage, j.Uncertainty, j.Components, j.Reason}
+		j.Weighting, j.Coverage, j.Uncertainty, j.Components, j.Reason, j.Partial, ""}
 	return nil
 }
 
@@ -120,6 +127,33 @@ type ClosureReport struct {
 	Problems   []string `json:"problems"`
 }
 
+// Origins says how each of R, T and A behind the figures was obtained:
+// "measured", "derived" (1 minus the other two), "assumed 0" (transmittance
+// not measured, the sample taken as opaque), or several joined by "and"
+// when they differ over the range.
+type Origins struct {
+	R string `json:"R"`
+	T string `json:"T"`
+	A string `json:"A"`
+}
+
+// Text says the origins in one line, e.g. "R measured; T derived as
+// 1 − R − A; A measured".
+func (o Origins) Text() string {
+	var parts []string
+	for _, x := range []struct{ q, v, rest string }{{"R", o.R, "T − A"}, {"T", o.T, "R − A"}, {"A", o.A, "R − T"}} {
+		if x.v == "" {
+			continue
+		}
+		w := x.q + " " + x.v
+		if strings.Contains(x.v, "derived") {
+			w = strings.Replace(w, "derived", "derived as "+x.q+" = 1 − "+x.rest, 1)
+		}
+		parts = append(parts, w)
+	}
+	return strings.Join(parts, "; ")
+}
+
 // Figures is everything computed for one sample. Its JSON form is the schema
 // printed by "skysheet figures --json" and written as figures.json.
 type Figures struct {
@@ -136,9 +170,14 @@ type Figures struct {
 	WindowEmittance    Num           `json:"window_emittance"`
 	WindowCoverage     Num           `json:"window_coverage"`
 	Closure            ClosureReport `json:"closure"`
-	Assumptions        []string      `json:"assumptions"`
-	Conditions         Conditions    `json:"conditions"`
-	Figures            []Figure      `json:"figures"`
+	Origins            Origins       `json:"origins"`
+	// Warnings are the readers' plausibility warnings about the input
+	// files (a percent column holding fractions, an axis in the wrong
+	// unit), one sentence each naming the file; empty when none.
+	Warnings    []string   `json:"warnings"`
+	Assumptions []string   `json:"assumptions"`
+	Conditions  Conditions `json:"conditions"`
+	Figures     []Figure   `json:"figures"`
 	// Splices lists every junction where two instruments' data were
 	// spliced, with the mismatch found there; empty when none.
 	Splices []spectra.SpliceRecord `json:"splices"`
@@ -161,9 +200,13 @@ type Figures struct {
 	Color Colors `json:"color"`
 	// Weather holds the figures over the conditions' weather series; nil
 	// (null) when the conditions name none.
-	Weather    *SeriesFigures `json:"weather"`
-	Cautions   []string       `json:"cautions"`
-	Provenance Provenance     `json:"provenance"`
+	Weather *SeriesFigures `json:"weather"`
+	// ModelNotes say where the SRI and cooling models stop applying to
+	// this sample (it transmits; its emittance is below the SRI's range),
+	// each naming the figures it concerns; empty when none.
+	ModelNotes []ModelNote `json:"model_notes"`
+	Cautions   []string    `json:"cautions"`
+	Provenance Provenance  `json:"provenance"`
 	// Stack is set for a stack of layers (see [ComputeStack]).
 	Stack *StackReport `json:"stack,omitempty"`
 }
@@ -205,13 +248,14 @@ func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, err
 	m := &cooling{c: c, sky: sky, sun: sun, g: newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK)}
 	f, grads, used := computeOptics(o, c)
 	f.Splices = append([]spectra.SpliceRecord{}, s.Splices...)
+	f.Warnings = append([]string{}, s.Warnings...)
 	m.addCooling(f, o, grads, true)
 	m.addSeries(f, o)
 	addSRI(f, grads)
 	eval := func(o spectra.Optics, lin func(string) float64) map[string]float64 {
 		alpha := float64(f.SolarAbsorptance) + lin("solar_absorptance")
 		eps := float64(f.ThermalEmittance) + lin("thermal_emittance")
-		r := m.evaluate(o.A, alpha)
+		r := m.evaluate(o.A, float64(f.CoolingTerms.SolarAbsorbed)+lin(absorbedSunKey))
 		out := map[string]float64{"equilibrium_delta_k": c.AmbientK - r.eqDay, "equilibrium_delta_night_k": c.AmbientK - r.eqNight}
 		for key, hc := range map[string]float64{"sri_low": WindLow, "sri_medium": WindMedium, "sri_high": WindHigh} {
 			out[key] = SolarReflectanceIndex(alpha, eps, hc)
@@ -219,7 +263,9 @@ func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, err
 		return out
 	}
 	addUncertainty(f, s, o, grads, c.ClosureTol, eval)
-	addColor(f, s, o)
+	addModelNotes(f, o, c)
+	applyCoverage(f)
+	addColor(f, s, o) // after the coverage rule: colours have their own
 	f.Cautions = append([]string(nil), cautions...)
 	f.Provenance = provenanceOf(s, f, used)
 	f.Provenance.Weightings = append(f.Provenance.Weightings, colorSource())
@@ -271,6 +317,7 @@ func computeOptics(o spectra.Optics, c Conditions) (*Figures, map[string]gradien
 	f.WindowEmittance, f.WindowCoverage = Num(we.Value), Num(we.Coverage)
 
 	cl := o.Closure
+	f.Origins = Origins{R: o.Origin[spectra.R].String(), T: o.Origin[spectra.T].String(), A: o.Origin[spectra.A].String()}
 	f.Closure = ClosureReport{OK: cl.OK(), Tolerance: cl.Tolerance, Checked: cl.Checked,
 		Residual: cl.Residual, ResidualNM: cl.ResidualNM, Excess: cl.Excess, ExcessNM: cl.ExcessNM,
 		Min: cl.Min, MinNM: cl.MinNM, MinOf: cl.MinOf.String(), Problems: cl.Problems}

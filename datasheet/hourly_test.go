@@ -154,8 +154,8 @@ func TestSeriesHours(t *testing.T) {
 			if h.psun != 0 {
 				t.Errorf("hour %d: no sun, but %v W/m² absorbed", i, h.psun)
 			}
-		} else if math.Abs(h.psun-float64(f0.SolarAbsorptance)*w.GlobalWm2) > 1e-9 {
-			t.Errorf("hour %d: sun %v, want α G = %v", i, h.psun, float64(f0.SolarAbsorptance)*w.GlobalWm2)
+		} else if math.Abs(h.psun-float64(f0.CoolingTerms.SolarAbsorbed)*w.GlobalWm2) > 1e-9 {
+			t.Errorf("hour %d: sun %v, want α G = %v", i, h.psun, float64(f0.CoolingTerms.SolarAbsorbed)*w.GlobalWm2)
 		}
 		cc := c
 		cc.AmbientK, cc.DewPointC, cc.IrradianceWm2 = w.AirC+273.15, w.DewPointC, w.GlobalWm2

@@ -103,6 +103,16 @@ func TestIndependentRecomputation(t *testing.T) {
 		den += e
 	}
 	alpha := 1 - num/den
+	// Absorbed sunlight over the whole G173 range 280–4000 nm on the
+	// joined spectrum, ∫ α E dλ / ∫ E dλ, α = 1 − R − T (the infrared file
+	// opaque), the same midpoint sums.
+	num, den = 0, 0
+	for x := 280 + 0.025; x < 4000; x += 0.05 {
+		e := linear(gnm, gw, x)
+		num += e * linear(nm, em, x)
+		den += e
+	}
+	absorbed := num / den
 
 	planck := func(x, T float64) float64 { return planckRef(x, T) }
 	// Thermal emittance for the SRI: Planck 300 K over 2.5–25 µm.
@@ -177,7 +187,7 @@ func TestIndependentRecomputation(t *testing.T) {
 		}
 		pAtm += 2 * math.Pi * math.Sin(th) * math.Cos(th) * s * (math.Pi / 2 / steps)
 	}
-	pSun := sun * alpha
+	pSun := sun * absorbed
 	net := func(T, ps float64) float64 { return pRad(T) - pAtm - ps - h*(ta-T) }
 	bisect := func(f func(float64) float64, lo, hi float64) float64 {
 		for range 60 {

@@ -170,9 +170,27 @@ func (j *judge) judge(c Claim) Verdict {
 	o := j.resolved(cond.ClosureTol) // for the pitfalls
 	v.Pitfalls = pitfalls(c, fig, spec, f, o, float64(v.Allowed))
 
+	// A cooling verdict always says over what the emittance is held
+	// constant beyond the data.
+	held := ""
+	if spec.cooling && !math.IsNaN(float64(f.CoolingTerms.HeldShare)) { // the data reach the exchange band
+		held = heldClause(f)
+	}
+	say := func(s Status, format string, a ...any) Verdict {
+		v.Status, v.Reason = s, strings.TrimSuffix(fmt.Sprintf(format, a...), ".")+held+"."
+		return v
+	}
 	computed := float64(fig.Value)
-	if math.IsNaN(computed) && fig.Reason != "" {
-		return cannot("%s.", capitalize(fig.Reason))
+	// A figure withheld because the data cover too little of its
+	// weighting says so, as a claim of a figure with a value would; one
+	// that says itself why it has no value, says that.
+	if math.IsNaN(computed) && strings.HasPrefix(fig.Reason, withheldPrefix) {
+		if why := coverageShort(spec, fig, f); why != "" {
+			return say(CannotCheck, "%s", why)
+		}
+	}
+	if math.IsNaN(computed) && fig.Reason != "" && fig.Reason != f.missingWords(fig) {
+		return say(CannotCheck, "%s.", capitalize(fig.Reason))
 	}
 	if math.IsNaN(computed) {
 		if band, _ := missingBand(spec, fig, f); band != "" {
@@ -181,16 +199,6 @@ func (j *judge) judge(c Claim) Verdict {
 		return cannot("%s.", capitalize(errNoRoot.Error()))
 	}
 	v.Difference = Num(computed - c.Value)
-	// A cooling verdict always says over what the emittance is held
-	// constant beyond the data.
-	held := ""
-	if spec.cooling {
-		held = heldClause(f)
-	}
-	say := func(s Status, format string, a ...any) Verdict {
-		v.Status, v.Reason = s, strings.TrimSuffix(fmt.Sprintf(format, a...), ".")+held+"."
-		return v
-	}
 	if why := coverageShort(spec, fig, f); why != "" {
 		return say(CannotCheck, "%s", why)
 	}
@@ -331,8 +339,8 @@ func missingBand(spec figureSpec, fig Figure, f *Figures) (string, bool) {
 		if nan("cooling_power_night_w_m2") {
 			return bandText(c.ExchangeBand, "µm"), true
 		}
-		if spec.solar && nan("solar_absorptance") {
-			return bandText(c.SolarBand, "nm"), false
+		if spec.solar && nan(fig.Key) {
+			return bandText(spectra.SolarRangeNM, "nm"), false
 		}
 		return "", false
 	}
@@ -351,6 +359,11 @@ func (f *Figures) Missing(key string) string {
 	if fig.Reason != "" {
 		return fig.Reason
 	}
+	return f.missingWords(fig)
+}
+
+// missingWords says which data figure fig of f lacks, from its band.
+func (f *Figures) missingWords(fig Figure) string {
 	band, infrared := missingBand(specOf(fig), fig, f)
 	switch {
 	case band == "":
@@ -392,40 +405,13 @@ func assumedUncertainty(k Kind, claimed float64, unit string) (float64, string) 
 }
 
 // coverageShort returns why the data cover too little of what figure fig
-// (of f) rests on, or "".
+// (of f) rests on for a claim of it to be checked, or "".
 func coverageShort(spec figureSpec, fig Figure, f *Figures) string {
-	short := func(cov float64, what, rests string) string {
-		if cov >= minCoverage {
-			return ""
-		}
-		return fmt.Sprintf("The data cover only %.1f %% of %s%s (at least %g %% is needed).", 100*cov, what, rests, 100*minCoverage)
-	}
-	input := func(key, rests string) string {
-		x, ok := f.Figure(key)
-		if !ok {
-			return ""
-		}
-		return short(float64(x.Coverage), fmt.Sprintf("the %s weighting over the %s", x.Weighting, bandWords(x)), rests)
-	}
-	switch {
-	case spec.cooling:
-		c := f.Conditions
-		check := coolingCheckBand(c)
-		if s := short(measuredShare(f, check), fmt.Sprintf("the blackbody power at %g K over %s", c.AmbientK, bandText(check, "µm")),
-			fmt.Sprintf(", the part of the exchange band %s that must be measured", bandText(c.ExchangeBand, "µm"))); s != "" {
-			return s
-		}
-		if spec.solar {
-			return input("solar_reflectance", ", on which the absorbed sunlight rests")
-		}
+	p, short := shortOf(coverageParts(spec, fig, f), minCoverage)
+	if !short {
 		return ""
-	case spec.sri:
-		if s := input("solar_reflectance", ", on which the index's solar absorptance rests"); s != "" {
-			return s
-		}
-		return input("thermal_emittance", ", on which the index's thermal emittance rests")
 	}
-	return short(float64(fig.Coverage), fmt.Sprintf("the %s weighting over the %s", fig.Weighting, bandWords(fig)), "")
+	return fmt.Sprintf("The data cover only %.1f %% of %s%s (at least %g %% is needed).", 100*p.cov, p.what, p.rest, 100*minCoverage)
 }
 
 // coolingCheckBand returns the part of c's exchange band that the data

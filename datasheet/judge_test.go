@@ -101,8 +101,9 @@ func TestJudgeKinds(t *testing.T) {
 		{name: "SRI when the infrared data stop at 20 µm",
 			files: []string{"a.csv", uvvisWhite, "b.csv", ftir90to20},
 			claim: Claim{Figure: "sri_low", Value: 100},
-			// coverage 88.4 %: Planck 300 K share of 2.5–20 in 2.5–25 µm (see TestJudge)
-			status: CannotCheck, kind: KindIndex, computed: 100, allowed: math.NaN(), pitfalls: []PitfallCode{pitfallInfraredShort},
+			// coverage 88.4 %: Planck 300 K share of 2.5–20 in 2.5–25 µm (see TestJudge);
+			// below 90 % the index is not given (TestCoverageGate).
+			status: CannotCheck, kind: KindIndex, computed: math.NaN(), allowed: math.NaN(), pitfalls: []PitfallCode{pitfallInfraredShort},
 			reason: []string{"88.4 %", "on which the index's thermal emittance rests"}, tol: 1e-6},
 
 		// A blackbody surface (ε = 1 measured over 0.25–25 µm, held
@@ -145,7 +146,7 @@ func TestJudgeKinds(t *testing.T) {
 			claim: Claim{Figure: "cooling_power_w_m2", Value: 50, Tolerance: 5},
 			// the night figure does not rest on the solar data
 			status: CannotCheck, kind: KindPower, computed: math.NaN(), allowed: 5, pitfalls: []PitfallCode{pitfallSolarLateStart},
-			reason: []string{"weighting over the band 280–2500 nm, on which the absorbed sunlight rests", "held constant over 25–100 µm"}},
+			reason: []string{"of the ASTM G173-03 global tilt power over 280–4000 nm, on which the absorbed sunlight rests", "held constant over 25–100 µm"}},
 		{name: "night cooling with solar data from 450 nm", files: []string{"a.csv", uvvis450, "b.csv", ftir90},
 			claim:  Claim{Figure: "cooling_power_night_w_m2", Value: 50, Tolerance: 500},
 			status: Supported, kind: KindPower, computed: math.NaN(), allowed: 500},
@@ -245,21 +246,23 @@ func TestJudgeBasisWordsByKind(t *testing.T) {
 		{Claim{Figure: "cooling_power_night_w_m2", Value: 50},
 			"clear two-band sky (default), dew point 10 °C (default), air at 300 K (default), exchange band 2.5–100 µm (default)",
 			[]string{"sky", "dew_point_c", "ambient_k", "exchange_band_um"}, ""},
+		// The absorbed sunlight is over the whole G173 range: no solar band.
 		{Claim{Figure: "cooling_power_w_m2", Value: 50},
 			"clear two-band sky (default), dew point 10 °C (default), air at 300 K (default), sun 1000 W/m² (default), " +
-				"ASTM G173-03 global tilt spectrum (default), solar band 280–2500 nm (default), exchange band 2.5–100 µm (default)",
-			[]string{"sky", "dew_point_c", "ambient_k", "irradiance_w_m2", "solar_spectrum", "solar_band_nm", "exchange_band_um"}, ""},
+				"ASTM G173-03 global tilt spectrum (default), exchange band 2.5–100 µm (default)",
+			[]string{"sky", "dew_point_c", "ambient_k", "irradiance_w_m2", "solar_spectrum", "exchange_band_um"}, ""},
 		{Claim{Figure: "equilibrium_delta_night_k", Value: 5},
 			"clear two-band sky (default), dew point 10 °C (default), air at 300 K (default), h 6 W m⁻² K⁻¹ (default), exchange band 2.5–100 µm (default)",
 			[]string{"sky", "dew_point_c", "ambient_k", "h_w_m2k", "exchange_band_um"}, ""},
-		// A stated solar band changes the daytime power only (through α):
-		// the default-basis value is shown for it, not for the night.
-		{Claim{Figure: "equilibrium_delta_k", Value: 5, Basis: Basis{SolarBandNM: []float64{280, 4000}}},
+		// A stated solar spectrum changes the daytime power only (through
+		// the absorbed sunlight): the default-basis value is shown for it,
+		// not for the night.
+		{Claim{Figure: "equilibrium_delta_k", Value: 5, Basis: Basis{SolarSpectrum: "direct"}},
 			"clear two-band sky (default), dew point 10 °C (default), air at 300 K (default), h 6 W m⁻² K⁻¹ (default), sun 1000 W/m² (default), " +
-				"ASTM G173-03 global tilt spectrum (default), solar band 280–4000 nm (stated), exchange band 2.5–100 µm (default)",
-			[]string{"sky", "dew_point_c", "ambient_k", "h_w_m2k", "irradiance_w_m2", "solar_spectrum", "exchange_band_um"},
-			"On the default basis (clear two-band sky, dew point 10 °C, air at 300 K, h 6 W m⁻² K⁻¹, sun 1000 W/m², ASTM G173-03 global tilt spectrum, solar band 280–2500 nm, exchange band 2.5–100 µm) the spectra give"},
-		{Claim{Figure: "cooling_power_night_w_m2", Value: 50, Basis: Basis{SolarBandNM: []float64{280, 4000}}},
+				"ASTM G173-03 direct + circumsolar spectrum (stated), exchange band 2.5–100 µm (default)",
+			[]string{"sky", "dew_point_c", "ambient_k", "h_w_m2k", "irradiance_w_m2", "exchange_band_um"},
+			"On the default basis (clear two-band sky, dew point 10 °C, air at 300 K, h 6 W m⁻² K⁻¹, sun 1000 W/m², ASTM G173-03 global tilt spectrum, exchange band 2.5–100 µm) the spectra give"},
+		{Claim{Figure: "cooling_power_night_w_m2", Value: 50, Basis: Basis{SolarSpectrum: "direct"}},
 			"clear two-band sky (default), dew point 10 °C (default), air at 300 K (default), exchange band 2.5–100 µm (default)",
 			[]string{"sky", "dew_point_c", "ambient_k", "exchange_band_um"}, ""},
 		{Claim{Figure: "sri_low", Value: 100, Basis: Basis{TemperatureK: 320}},

@@ -714,6 +714,7 @@ func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, xf, yf float64) erro
 	g := Segment{Source: j.file, NM: make([]float64, len(pts)), Values: [numQuantities][]float64{}}
 	v := make([]float64, len(pts))
 	values := 0
+	maxPct := 0.0 // the largest |Y| of a percent ordinate, for percentWarnings
 	for i, p := range pts {
 		at := func(name string, err error) error {
 			return &ParseError{File: j.file, Line: p.line, Column: p.col, Name: name, Err: err}
@@ -760,6 +761,7 @@ func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, xf, yf float64) erro
 			if !(y >= -5 && y <= 105) {
 				return at("Y value", fmt.Errorf("Y %s %w: YUNITS=%s is percent, want -5..105", fmtNum(y), errOutOfRange, msg.Cut(yu.written)))
 			}
+			maxPct = math.Max(maxPct, math.Abs(y))
 			y = decimalClean(y / 100)
 		default:
 			if !(y >= -0.05 && y <= 1.05) {
@@ -780,6 +782,13 @@ func (j *jcamp) store(pts []rawPoint, xu jcampX, yu jcampY, xf, yf float64) erro
 	j.s.Segments = []Segment{g}
 	applyConstantUncertainty(j.s, &j.meta.consts)
 	j.s.Measurements = []Measurement{j.meta.measurement(j.file, xu.String(), j.s)}
+	if w := axisUnitWarning(j.file, [...]axis{xNM: axisNM, xUM: axisUM, xWavenumber: axisWavenumber}[xu], j.s); w != "" {
+		j.s.Warnings = append(j.s.Warnings, w)
+	}
+	if yu.percent {
+		j.s.Warnings = append(j.s.Warnings, percentWarnings(j.file, []column{{q: yu.q, percent: true, name: "YUNITS=" + yu.written}}, []float64{maxPct})...)
+	}
+	j.s.Warnings = append(j.s.Warnings, constUncertaintyWarnings(j.file, &j.meta.consts)...)
 	if yu.absorbance {
 		j.s.Notes = append(j.s.Notes, fmt.Sprintf("%s gives absorbance (decadic); converted to transmittance as T = 10^(−A).", j.file))
 	}

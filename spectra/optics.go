@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 )
 
 // DefaultClosureTol is the default tolerance on |R+T+A−1|, and on how far
@@ -15,11 +16,38 @@ const DefaultClosureTol = 0.02
 type Optics struct {
 	R, T, A Series // A is also the spectral emittance (Kirchhoff's law)
 	UR, UT  Series // standard uncertainties of R and T; empty when unknown
-	// Derived[q] is true where quantity q was derived, not measured, at
-	// some wavelength.
-	Derived     [3]bool
+	// Origin[q] says how quantity q (R, T or A) was obtained: measured,
+	// derived from the other two, assumed 0, or several of these over
+	// different ranges.
+	Origin      [3]Origin
 	Closure     Closure
 	Assumptions []string
+}
+
+// Origin says how [Resolve] obtained a quantity; the flags combine when it
+// was obtained differently over different ranges.
+type Origin uint8
+
+// The origins of a quantity.
+const (
+	Measured    Origin = 1 << iota // read from the data
+	Derived                        // 1 minus the other two (for a stack: from its layers)
+	AssumedZero                    // transmittance not measured: taken as 0, the sample opaque
+)
+
+// String writes the origin in words, e.g. "measured", "derived",
+// "measured and assumed 0"; "" when none.
+func (o Origin) String() string {
+	var parts []string
+	for _, x := range []struct {
+		f Origin
+		w string
+	}{{Measured, "measured"}, {Derived, "derived"}, {AssumedZero, "assumed 0"}} {
+		if o&x.f != 0 {
+			parts = append(parts, x.w)
+		}
+	}
+	return strings.Join(parts, " and ")
 }
 
 // Closure is the result of checking R+T+A = 1 and 0 ≤ R, T, A.
@@ -46,16 +74,22 @@ func (c Closure) OK() bool { return len(c.Problems) == 0 }
 
 // Resolve completes R, T and A at every measured wavelength:
 //   - A = 1 − R − T where A is not measured;
-//   - T = 0 (opaque) where T is not measured, said as an assumption;
+//   - T = 1 − R − A where R and A are measured but T is not;
+//   - T = 0 (opaque) where only R or only A is measured, said as an
+//     assumption;
 //   - R = 1 − T − A where only T and A (or only A) are measured.
 //
 // Where R, T and A are all measured it checks |R+T+A−1| ≤ tol; everywhere it
-// checks R+T ≤ 1+tol and that no value is below −tol. The spectrum's
-// processing notes come first among the assumptions.
+// checks R+T ≤ 1+tol, R+A ≤ 1+tol where T is derived, and that no value is
+// below −tol. The spectrum's processing notes come first among the
+// assumptions; Origin says which quantities were derived.
 func Resolve(s *Spectrum, tol float64) Optics {
 	o := Optics{Closure: Closure{Tolerance: tol, Min: math.Inf(1), Excess: math.Inf(-1)}}
 	c := &o.Closure
-	var opaque, derivedA, derivedR, noRA spans
+	var opaque, derivedA, derivedR, derivedT, noRA spans
+	var measured [3]bool
+	// overRA is the largest R+A−1 where T is derived from them, at overRANM.
+	overRA, overRANM := math.Inf(-1), 0.0
 	for _, g := range s.Segments {
 		var pr, pt, pa, pur, put Piece
 		pieces := [numQuantities]*Piece{&pr, &pt, &pa, &pur, &put}
@@ -74,6 +108,9 @@ func Resolve(s *Spectrum, tol float64) Optics {
 					c.Min, c.MinNM, c.MinOf = v[q], nm, q
 				}
 			}
+			for _, q := range []Quantity{R, T, A} {
+				measured[q] = measured[q] || has[q]
+			}
 			r, t, a := v[R], v[T], v[A]
 			switch {
 			case has[R] && has[T] && has[A]:
@@ -86,8 +123,11 @@ func Resolve(s *Spectrum, tol float64) Optics {
 				a = 1 - r - t
 				derivedA.add(nm)
 			case has[R] && has[A]:
-				t = 0
-				opaque.add(nm)
+				t = 1 - r - a
+				derivedT.add(nm)
+				if ex := r + a - 1; ex > overRA {
+					overRA, overRANM = ex, nm
+				}
 			case has[R]:
 				t, a = 0, 1-r
 				opaque.add(nm)
@@ -131,7 +171,17 @@ func Resolve(s *Spectrum, tol float64) Optics {
 	if math.IsInf(c.Excess, -1) {
 		c.Excess = 0
 	}
-	o.Derived = [3]bool{!derivedR.empty(), !opaque.empty(), !derivedA.empty()}
+	for q, d := range []spans{derivedR, derivedT, derivedA} {
+		if measured[q] {
+			o.Origin[q] |= Measured
+		}
+		if !d.empty() {
+			o.Origin[q] |= Derived
+		}
+	}
+	if !opaque.empty() {
+		o.Origin[T] |= AssumedZero
+	}
 	lo, hi := s.Range()
 	whole := func(sp spans) bool { return sp.first == lo && sp.last == hi && !s.Has(T) }
 	o.Assumptions = append(o.Assumptions, s.Notes...)
@@ -145,6 +195,9 @@ func Resolve(s *Spectrum, tol float64) Optics {
 	if !derivedA.empty() {
 		o.Assumptions = append(o.Assumptions, fmt.Sprintf("Absorptance derived as A = 1 − R − T over %s.", derivedA))
 	}
+	if !derivedT.empty() {
+		o.Assumptions = append(o.Assumptions, fmt.Sprintf("Transmittance derived as T = 1 − R − A over %s.", derivedT))
+	}
 	if !derivedR.empty() {
 		o.Assumptions = append(o.Assumptions, fmt.Sprintf("Reflectance derived as R = 1 − T − A over %s.", derivedR))
 	}
@@ -157,6 +210,9 @@ func Resolve(s *Spectrum, tol float64) Optics {
 	}
 	if c.Excess > tol {
 		c.Problems = append(c.Problems, fmt.Sprintf("R+T exceeds 1 by %.4f at %s nm (tolerance %g).", c.Excess, fmtNM(c.ExcessNM), tol))
+	}
+	if overRA > tol {
+		c.Problems = append(c.Problems, fmt.Sprintf("R+A exceeds 1 by %.4f at %s nm (tolerance %g), so T = 1 − R − A is negative there.", overRA, fmtNM(overRANM), tol))
 	}
 	if c.Min < -tol {
 		c.Problems = append(c.Problems, fmt.Sprintf("%s is %.4f at %s nm, below −%g.", c.MinOf, c.Min, fmtNM(c.MinNM), tol))

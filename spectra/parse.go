@@ -198,6 +198,7 @@ type parser struct {
 	dec     string    // the decimal form of the last number read
 	fm      *fileMeta // what the metadata set
 	grouped int       // axis values written like 2.500 (see thousandsWarning)
+	maxAbs  []float64 // per value column, the largest |value| as written
 }
 
 func (p *parser) errf(col int, err error) error {
@@ -297,7 +298,11 @@ func (p *parser) run(data []byte) error {
 	p.s.Measurements = []Measurement{p.fm.measurement(p.file, p.unit.String(), p.s)}
 	if w := thousandsWarning(p.file, p.grouped, p.rows, p.s); w != "" {
 		p.s.Warnings = append(p.s.Warnings, w)
+	} else if w := axisUnitWarning(p.file, p.unit, p.s); w != "" {
+		p.s.Warnings = append(p.s.Warnings, w)
 	}
+	p.s.Warnings = append(p.s.Warnings, percentWarnings(p.file, p.cols, p.maxAbs)...)
+	p.s.Warnings = append(p.s.Warnings, constUncertaintyWarnings(p.file, &p.fm.consts)...)
 	return nil
 }
 
@@ -521,6 +526,15 @@ func (p *parser) header(f []string, text string) error {
 		seen[c.q] = i + 2
 		p.cols = append(p.cols, c)
 	}
+	// An uncertainty column without its own unit follows the unit of the
+	// column it belongs to: a plain u_R beside R (%) is in percent.
+	for i, c := range p.cols {
+		if base, ok := uncertaintyOf[c.q]; ok && !c.percent {
+			if j, has := seen[base]; has && p.cols[j-2].percent {
+				p.cols[i].percent = true
+			}
+		}
+	}
 	if _, r := seen[R]; !r {
 		if _, t := seen[T]; !t {
 			if _, a := seen[A]; !a {
@@ -529,8 +543,13 @@ func (p *parser) header(f []string, text string) error {
 		}
 	}
 	p.seenX = map[float64]int{}
+	p.maxAbs = make([]float64, len(p.cols))
 	return nil
 }
+
+// uncertaintyOf maps each uncertainty column to the column whose unit it
+// follows when it carries none of its own.
+var uncertaintyOf = map[Quantity]Quantity{UR: R, UT: T}
 
 // number reads the cell orig of column col; the decimal form it read (a
 // decimal comma made a point) is left in p.dec for scaled.
@@ -625,6 +644,7 @@ func (p *parser) row(f []string) error {
 			if err := p.checkRange(v, c, s, i+2); err != nil {
 				return err
 			}
+			p.maxAbs[i] = math.Max(p.maxAbs[i], math.Abs(v))
 			if c.percent {
 				v = scaled(p.dec, v, -2) // 88.112 % is 0.88112, not 88.112/100 = 0.8811199999999999
 			}

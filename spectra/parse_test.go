@@ -248,3 +248,43 @@ func FuzzParse(f *testing.F) {
 		checkRoundTrip(t, s)
 	})
 }
+
+// TestUncertaintyUnit checks the rule of docs/format.md: an uncertainty
+// column follows the unit of its column unless it carries its own.
+func TestUncertaintyUnit(t *testing.T) {
+	for _, tc := range []struct {
+		name, header string
+		row          string
+		r, u         float64
+	}{
+		// 0.5 beside R (%) is 0.5 %, i.e. 0.005.
+		{"plain u_R beside R (%)", "wavelength_nm,R (%),u_R", "80,0.5", 0.80, 0.005},
+		{"u_R (%) beside R (%)", "wavelength_nm,R (%),u_R (%)", "80,0.5", 0.80, 0.005},
+		{"u_R (%) beside a fraction", "wavelength_nm,R,u_R (%)", "0.8,0.5", 0.80, 0.005},
+		{"plain u_R beside a fraction", "wavelength_nm,R,u_R", "0.8,0.005", 0.80, 0.005},
+		{"u_R_pct beside R_pct, u_T beside a fraction T", "wavelength_nm,R_pct,u_R,T,u_T", "80,0.5,0.1,0.002", 0.80, 0.005},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			in := tc.header + "\n400," + tc.row + "\n500," + tc.row + "\n"
+			s, err := Parse(strings.NewReader(in), "u.csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			r, _ := s.Series(R).At(450)
+			u, _ := s.Series(UR).At(450)
+			if math.Abs(r-tc.r) > 1e-12 || math.Abs(u-tc.u) > 1e-12 {
+				t.Errorf("R %g, u_R %g; want %g, %g", r, u, tc.r, tc.u)
+			}
+			if s.Has(UT) {
+				if ut, _ := s.Series(UT).At(450); math.Abs(ut-0.002) > 1e-12 {
+					t.Errorf("u_T %g, want 0.002 (T is a fraction)", ut)
+				}
+			}
+		})
+	}
+	// A plain u_R beside R (%) is checked as a percentage: 150 is out of range.
+	_, err := Parse(strings.NewReader("wavelength_nm,R (%),u_R\n400,80,150\n500,80,1\n"), "u.csv")
+	if !errors.Is(err, errOutOfRange) || !strings.Contains(err.Error(), "0..100") {
+		t.Errorf("err %v", err)
+	}
+}

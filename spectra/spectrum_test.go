@@ -54,14 +54,31 @@ func TestResolve(t *testing.T) {
 		r, tr, a float64
 		says     string // an assumption that must be stated
 		ok       bool
+		origin   [3]Origin // of R, T and A
 	}{
-		{"R only: opaque", "wavelength_nm,R\n400,0.9\n500,0.8\n", 500, 0.8, 0, 0.2, "taken as opaque (T = 0)", true},
-		{"R and T", "wavelength_nm,R,T\n400,0.5,0.3\n500,0.6,0.3\n", 500, 0.6, 0.3, 0.1, "A = 1 − R − T", true},
-		{"T and A", "wavelength_nm,T,A\n400,0.5,0.3\n500,0.6,0.3\n", 500, 0.1, 0.6, 0.3, "R = 1 − T − A", true},
-		{"A only", "wavelength_nm,A\n400,0.5\n500,0.6\n", 500, 0.4, 0, 0.6, "opaque", true},
-		{"R+T above one", "wavelength_nm,R,T\n400,0.9,0.2\n500,0.6,0.3\n", 400, 0.9, 0.2, -0.1, "Kirchhoff", false},
-		{"negative", "wavelength_nm,R\n400,-0.04\n500,0.6\n", 400, -0.04, 0, 1.04, "opaque", false},
-		{"within tolerance", "wavelength_nm,R,T,A\n400,0.5,0.2,0.31\n500,0.6,0.2,0.2\n", 400, 0.5, 0.2, 0.31, "Kirchhoff", true},
+		{"R only: opaque", "wavelength_nm,R\n400,0.9\n500,0.8\n", 500, 0.8, 0, 0.2, "taken as opaque (T = 0)", true,
+			[3]Origin{Measured, AssumedZero, Derived}},
+		{"R and T", "wavelength_nm,R,T\n400,0.5,0.3\n500,0.6,0.3\n", 500, 0.6, 0.3, 0.1, "A = 1 − R − T", true,
+			[3]Origin{Measured, Measured, Derived}},
+		// R + T + A = 1 gives T = 1 − 0.85 − 0.10 = 0.05, not 0: the
+		// solar absorptance is then 0.10, not 1 − R = 0.15.
+		{"R and A: T derived", "wavelength_nm,R,A\n400,0.85,0.10\n500,0.85,0.10\n", 500, 0.85, 0.05, 0.10, "T = 1 − R − A", true,
+			[3]Origin{Measured, Derived, Measured}},
+		{"R and A above one", "wavelength_nm,R,A\n400,0.95,0.10\n500,0.85,0.10\n", 400, 0.95, -0.05, 0.10, "R+A exceeds 1 by 0.0500 at 400 nm", false,
+			[3]Origin{Measured, Derived, Measured}},
+		{"T and A", "wavelength_nm,T,A\n400,0.5,0.3\n500,0.6,0.3\n", 500, 0.1, 0.6, 0.3, "R = 1 − T − A", true,
+			[3]Origin{Derived, Measured, Measured}},
+		{"A only", "wavelength_nm,A\n400,0.5\n500,0.6\n", 500, 0.4, 0, 0.6, "opaque", true,
+			[3]Origin{Derived, AssumedZero, Measured}},
+		{"R+T above one", "wavelength_nm,R,T\n400,0.9,0.2\n500,0.6,0.3\n", 400, 0.9, 0.2, -0.1, "Kirchhoff", false,
+			[3]Origin{Measured, Measured, Derived}},
+		{"negative", "wavelength_nm,R\n400,-0.04\n500,0.6\n", 400, -0.04, 0, 1.04, "opaque", false,
+			[3]Origin{Measured, AssumedZero, Derived}},
+		{"within tolerance", "wavelength_nm,R,T,A\n400,0.5,0.2,0.31\n500,0.6,0.2,0.2\n", 400, 0.5, 0.2, 0.31, "Kirchhoff", true,
+			[3]Origin{Measured, Measured, Measured}},
+		// T measured in the visible only: measured there, taken as 0 beyond.
+		{"T over part", "wavelength_nm,R,T\n400,0.5,0.3\n500,0.6,0.3\n\n600,0.6,\n700,0.6,\n", 700, 0.6, 0, 0.4, "not measured over 600–700 nm", true,
+			[3]Origin{Measured, Measured | AssumedZero, Derived}},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			o := Resolve(mustParse(t, "x", tt.in), 0.02)
@@ -73,8 +90,11 @@ func TestResolve(t *testing.T) {
 					t.Errorf("at %g nm: got %g (%v), want %g", tt.at, v, ok, c.want)
 				}
 			}
-			if !strings.Contains(strings.Join(o.Assumptions, " "), tt.says) {
-				t.Errorf("assumptions %q do not say %q", o.Assumptions, tt.says)
+			if o.Origin != tt.origin {
+				t.Errorf("origin %v, want %v", o.Origin, tt.origin)
+			}
+			if all := strings.Join(append(o.Assumptions, o.Closure.Problems...), " "); !strings.Contains(all, tt.says) {
+				t.Errorf("assumptions and problems %q do not say %q", all, tt.says)
 			}
 			if o.Closure.OK() != tt.ok {
 				t.Errorf("closure ok = %v, want %v: %v", o.Closure.OK(), tt.ok, o.Closure.Problems)

@@ -60,7 +60,7 @@ func Stack(layers []Optics) (StackOptics, error) {
 	}
 	n := len(layers)
 	out := StackOptics{Absorbed: make([]Series, n)}
-	out.Derived = [3]bool{true, true, true}
+	out.Origin = [3]Origin{Derived, Derived, Derived}
 	var clipped spans
 	var work stackWork
 	for _, sp := range common {

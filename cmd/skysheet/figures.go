@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"text/tabwriter"
@@ -150,8 +151,20 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 	} else {
 		fmt.Fprintln(tw, "Figure\tValue\tBand\tWeighting\tCoverage")
 	}
+	var missing []string
 	for _, x := range f.Figures {
-		fmt.Fprintf(tw, "%s\t%s\t", x.Label, fmtFigure(x, x.Value))
+		v := fmtFigure(x, x.Value)
+		switch {
+		case x.Reason != "":
+			v += " (see below)"
+			missing = append(missing, fmt.Sprintf("%s: n/a, %s", x.Label, x.Reason))
+		case x.Partial:
+			v += " (partial data)"
+		}
+		for _, n := range f.NotesFor(x.Key) {
+			v += " [" + n.Code + "]"
+		}
+		fmt.Fprintf(tw, "%s\t%s\t", x.Label, v)
 		if withU {
 			if u := x.Uncertainty; u != nil {
 				fmt.Fprintf(tw, "±%s\t±%s\t±%s\t%s\t", fmtUncertainty(x, u.Uncorrelated), fmtUncertainty(x, u.Correlated),
@@ -163,6 +176,16 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 		fmt.Fprintf(tw, "%s\t%s\t%s\n", x.BandText(), x.Weighting, fmtPercent(x.Coverage))
 	}
 	tw.Flush()
+	for _, m := range missing {
+		fmt.Fprintf(w, "  - %s\n", m)
+	}
+	if slices.ContainsFunc(f.Figures, func(x datasheet.Figure) bool { return x.Partial }) {
+		fmt.Fprintf(w, "  Partial data: the data cover %g–%g %% of the figure's weighting; below %g %% a figure is not given.\n",
+			100*datasheet.Rules.MinShownCoverage, 100*datasheet.Rules.MinCoverage, 100*datasheet.Rules.MinShownCoverage)
+	}
+	for _, n := range f.ModelNotes {
+		fmt.Fprintf(w, "  [%s] %s\n", n.Code, n.Text)
+	}
 	printColor(w, f.Color)
 	cl := f.Closure
 	fmt.Fprintln(w)
@@ -176,6 +199,9 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 		fmt.Fprintf(w, "Closure: holds; |R+T+A-1| at most %.4f (at %s nm), tolerance %g\n", cl.Residual, fmtNM(cl.ResidualNM), cl.Tolerance)
 	default:
 		fmt.Fprintf(w, "Closure: R, T and A were not all measured; R+T ≤ 1 and no negative values, tolerance %g\n", cl.Tolerance)
+	}
+	if o := f.Origins.Text(); o != "" {
+		fmt.Fprintf(w, "R, T and A: %s\n", o)
 	}
 	printSplices(w, f.Splices)
 	printCooling(w, f)

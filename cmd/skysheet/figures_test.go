@@ -3,8 +3,10 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"math"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -171,5 +173,72 @@ func TestFiguresHumanOutput(t *testing.T) {
 		if !strings.Contains(out, want) {
 			t.Errorf("human output lacks %q", want)
 		}
+	}
+}
+
+// TestFiguresOrigins checks that figures says which of R, T and A was
+// derived, in the table and in JSON: a file with R and A has T = 1 − R − A.
+func TestFiguresOrigins(t *testing.T) {
+	file := writeFile(t, "ra.csv", "wavelength_nm,R,A\n250,0.05,0.10\n30000,0.05,0.10\n")
+	code, out, errs := runCLI("figures", file)
+	if code != 0 || !strings.Contains(out, "R, T and A: R measured; T derived as T = 1 − R − A; A measured") {
+		t.Errorf("exit %d\n%s%s", code, out, errs)
+	}
+	code, out, errs = runCLI("figures", "--json", file)
+	var f struct {
+		Origins          map[string]string `json:"origins"`
+		SolarAbsorptance float64           `json:"solar_absorptance"`
+	}
+	if err := json.Unmarshal([]byte(out), &f); code != 0 || err != nil {
+		t.Fatalf("exit %d, %v\n%s", code, err, errs)
+	}
+	// R + T + A = 1: α is the stated A, 0.10, not 1 − R = 0.95.
+	if f.Origins["T"] != "derived" || math.Abs(f.SolarAbsorptance-0.10) > 1e-9 {
+		t.Errorf("origins %v, α %g", f.Origins, f.SolarAbsorptance)
+	}
+}
+
+// TestFiguresCoverageAndNotes checks the CLI's table and JSON for a figure
+// covered less than 90 % (n/a with the reason; null with "reason"), one
+// covered 90–98 % ("partial data") and a transmitting sample's notes.
+func TestFiguresCoverageAndNotes(t *testing.T) {
+	// Infrared data to 19 µm: about 85 % of the Planck 300 K weighting
+	// over 2.5–25 µm (datasheet.TestCoverageGate).
+	short := writeFile(t, "short.csv", "wavelength_nm,R\n280,0.9\n2500,0.9\n\n2500.1,0.1\n19000,0.1\n")
+	code, out, errs := runCLI("figures", short)
+	if code != 0 || !regexp.MustCompile(`Thermal emittance +n/a \(see below\)`).MatchString(out) ||
+		!regexp.MustCompile(`  - Thermal emittance: n/a, not given: the data cover only 85\.\d % of the Planck blackbody at 300 K weighting`).MatchString(out) {
+		t.Errorf("exit %d\n%s%s", code, out, errs)
+	}
+	_, out, _ = runCLI("figures", "--json", short)
+	var f struct {
+		ThermalEmittance *float64 `json:"thermal_emittance"`
+		Figures          []struct {
+			Key     string   `json:"key"`
+			Value   *float64 `json:"value"`
+			Reason  string   `json:"reason"`
+			Partial bool     `json:"partial"`
+		} `json:"figures"`
+	}
+	if err := json.Unmarshal([]byte(out), &f); err != nil {
+		t.Fatal(err)
+	}
+	for _, x := range f.Figures {
+		if x.Key == "thermal_emittance" && (x.Value != nil || !strings.Contains(x.Reason, "at least 90 % is needed")) {
+			t.Errorf("JSON thermal emittance %v, reason %q", x.Value, x.Reason)
+		}
+	}
+	if f.ThermalEmittance != nil {
+		t.Errorf("headline thermal emittance %v, want null", *f.ThermalEmittance)
+	}
+	partial := writeFile(t, "partial.csv", "wavelength_nm,R\n280,0.9\n2500,0.9\n\n2500.1,0.1\n22500,0.1\n")
+	if _, out, _ := runCLI("figures", partial); !regexp.MustCompile(`Thermal emittance +0\.9000 \(partial data\)`).MatchString(out) ||
+		!strings.Contains(out, "Partial data: the data cover 90–98 % of the figure's weighting") {
+		t.Errorf("partial:\n%s", out)
+	}
+	glass := writeFile(t, "glass.csv", "wavelength_nm,R,T\n280,0.08,0.83\n2500,0.08,0.83\n\n2600,0.05,0\n25000,0.05,0\n")
+	if _, out, _ := runCLI("figures", glass); !regexp.MustCompile(`SRI, low wind +[0-9.]+ \[sri-not-opaque\]`).MatchString(out) ||
+		!strings.Contains(out, "[cooling-lone-layer] The cooling figures take a lone layer") {
+		t.Errorf("glass:\n%s", out)
 	}
 }

@@ -270,4 +270,11 @@ func TestWarningsShown(t *testing.T) {
 			t.Errorf("%v: exit %d, no warning\n%s%s", args, code, out, errs)
 		}
 	}
+	// figures --json carries them too, and the exit status stays 0.
+	pct := writeFile(t, "pct.csv", "wavelength_nm,R (%)\n280,0.9\n2500,0.9\n")
+	code, out, errs := runCLI("figures", "--json", pct)
+	if code != 0 || !strings.Contains(errs, "warning: "+pct+": column 2 (R (%)) is marked as percent") ||
+		!strings.Contains(out, `"warnings": [`) || !strings.Contains(out, "fractions in a percent column?") {
+		t.Errorf("exit %d\n%s%s", code, out, errs)
+	}
 }

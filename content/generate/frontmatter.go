@@ -35,6 +35,8 @@ type measured struct{ date, instrument, angle, reference, operator, notes string
 type claim struct {
 	figure    string
 	value     float64
+	values    []float64 // a colour's components, written instead of value
+	deltaE    string    // the colour difference of an L*a*b* claim, "" for the default
 	tolerance float64
 	basis     basis
 	source    string
@@ -144,9 +146,20 @@ func (m *material) markdown() []byte {
 		w("claims:\n")
 		for _, c := range m.claims {
 			w("  - figure: %s\n", c.figure)
-			w("    value: %s\n", yamlNumber(c.value))
+			if c.values != nil {
+				var vs []string
+				for _, v := range c.values {
+					vs = append(vs, yamlNumber(v))
+				}
+				w("    values: [%s]\n", strings.Join(vs, ", "))
+			} else {
+				w("    value: %s\n", yamlNumber(c.value))
+			}
 			if c.tolerance > 0 {
 				w("    tolerance: %s\n", yamlNumber(c.tolerance))
+			}
+			if c.deltaE != "" {
+				w("    delta_e: %s\n", c.deltaE)
 			}
 			var parts []string
 			if c.basis.solarBandNM[1] > 0 {

@@ -85,6 +85,7 @@ func withMeta(f fileSpec, kv ...string) fileSpec {
 func materials() []material {
 	return []material{
 		bw93(), bw93Aged(), bx7(), dg40(), px2(), sf50(), kw21(), qlse3(), cl4(), atw(),
+		tc31(), tr30(), sg12(),
 	}
 }
 
@@ -503,6 +504,100 @@ therefore a mean over the part of the 2.5–25 µm band the data cover, and its 
 	}
 }
 
+// terracotta is the colour of both terracotta coatings: red and yellow
+// iron oxides in an acrylic binder.
+func terracotta(nm float64) float64 { return ironOxideRed(nm) + 1.2*ironOxideYellow(nm) }
+
+// slate is the colour of the cool slate grey: a black that absorbs only in
+// the visible, warmed slightly with yellow iron oxide.
+func slate(nm float64) float64 { return 120*visibleBlack(nm) + 0.3*ironOxideYellow(nm) }
+
+func tc31() material {
+	return material{
+		path:  "paints/tc-31.md",
+		title: "Terrazane TC-31 cool terracotta roof coating", maker: "Terrazane Coatings (invented)",
+		productCode: "TC-31", category: "paint", tags: []string{"terracotta", "cool-colour", "acrylic", "iron-oxide", "roof"},
+		summary: "Terracotta acrylic roof coating with pigments that let the near infrared through to a white primer (invented product, synthetic spectra).",
+		license: "MIT",
+		files:   []fileSpec{uvFile("Terrazane TC-31 panel 1", "2026-04-02", "R"), irWavenumber("Terrazane TC-31 panel 1", "2026-04-02", "R")},
+		measured: measured{date: "2026-04-02", instrument: bothInstr, angle: "8°", reference: bothRefs, operator: operator,
+			notes: "100 µm topcoat over a white TiO₂ primer on steel. " + "Synthetic data, not a measurement."},
+		claims: []claim{
+			{figure: "color_lab", values: []float64{46, 27, 18}, tolerance: 2, deltaE: "ciede2000", source: "TC-31 colour card (invented)"},
+			{figure: "solar_reflectance", value: 0.39, tolerance: 0.02, source: "TC-31 product sheet (invented)"},
+		},
+		model: colouredPaint{x: 0.1, s550: 30, p: 1.2, pigmentK: terracotta, primer: whitePrimer}.at,
+		body: body(`## What it is
+
+TC-31 is an invented "cool colour" roof coating: the terracotta of a clay roof, from red and yellow
+iron oxides, in a film thin and clear enough in the near infrared that a white primer under it sends
+that part of sunlight back. About half of the sun's energy arrives in the near infrared, which the
+eye does not see.
+
+## What to look for
+
+- The colour: compare it with TR-30, a conventional coating of nearly the same colour.
+- The near-IR reflectance, well above TR-30's: the same colour costs less sunlight.
+- The index chart of solar reflectance against lightness L* places the two side by side.`),
+	}
+}
+
+func tr30() material {
+	return material{
+		path:  "paints/tr-30.md",
+		title: "Terrazane TR-30 terracotta roof coating (conventional)", maker: "Terrazane Coatings (invented)",
+		productCode: "TR-30", category: "paint", tags: []string{"terracotta", "acrylic", "iron-oxide", "carbon-black", "roof"},
+		summary: "Conventional terracotta acrylic roof coating, toned with carbon black over a grey primer (invented product, synthetic spectra).",
+		license: "MIT",
+		files:   []fileSpec{uvFile("Terrazane TR-30 panel 1", "2026-04-02", "R"), irWavenumber("Terrazane TR-30 panel 1", "2026-04-02", "R")},
+		measured: measured{date: "2026-04-02", instrument: bothInstr, angle: "8°", reference: bothRefs, operator: operator,
+			notes: "100 µm topcoat over a grey primer on steel. " + "Synthetic data, not a measurement."},
+		claims: []claim{
+			{figure: "color_lab", values: []float64{45, 25, 17}, tolerance: 1, source: "TR-30 colour card (invented)"},
+		},
+		model: colouredPaint{x: 0.1, s550: 30, p: 1.2, pigmentK: terracotta, blackK: 0.5, primer: greyPrimer}.at,
+		body: body(`## What it is
+
+TR-30 is an invented conventional terracotta roof coating: the same iron oxides as TC-31, toned with
+a little carbon black, over a grey primer. It is in the library as the conventional counterpart of
+TC-31, of nearly the same colour.
+
+## What to look for
+
+- Carbon black absorbs on into the near infrared, and the grey primer sends little back: the
+  near-IR reflectance is far below TC-31's while the visible colour hardly differs.
+- The colour difference to TC-31 is on the comparison page of cool colours.`),
+	}
+}
+
+func sg12() material {
+	return material{
+		path:  "paints/sg-12.md",
+		title: "Slatemoor SG-12 cool slate grey roof coating", maker: "Slatemoor Finishes (invented)",
+		productCode: "SG-12", category: "paint", tags: []string{"grey", "cool-colour", "acrylic", "roof"},
+		summary: "Slate grey acrylic roof coating with a black that absorbs only in the visible, over a white primer (invented product, synthetic spectra).",
+		license: "MIT",
+		files:   []fileSpec{uvFile("Slatemoor SG-12 panel 2", "2026-04-03", "R"), irWavenumber("Slatemoor SG-12 panel 2", "2026-04-03", "R")},
+		measured: measured{date: "2026-04-03", instrument: bothInstr, angle: "8°", reference: bothRefs, operator: operator,
+			notes: "100 µm topcoat over a white TiO₂ primer on steel. " + "Synthetic data, not a measurement."},
+		claims: []claim{
+			{figure: "luminous_reflectance", value: 0.08, tolerance: 0.01, source: "SG-12 colour card (invented)"},
+			{figure: "solar_reflectance", value: 0.32, tolerance: 0.02, source: "SG-12 product sheet (invented)"},
+		},
+		model: colouredPaint{x: 0.1, s550: 20, p: 1.2, pigmentK: slate, primer: whitePrimer}.at,
+		body: body(`## What it is
+
+SG-12 is an invented dark slate grey roof coating. Its black pigment absorbs across the visible and
+stops absorbing near 750 nm, so the near infrared crosses the film to a white primer and comes back.
+
+## What to look for
+
+- A luminous reflectance near 0.08, close to the conventional dark grey DG-40, but a solar
+  reflectance about five times DG-40's: the dark colour is kept, most of the near infrared is not absorbed.
+- The jump in reflectance near 750 nm, where the pigment stops absorbing.`),
+	}
+}
+
 // comparisons returns the demo comparison pages.
 func comparisons() []comparison {
 	return []comparison{
@@ -528,6 +623,18 @@ All materials and spectra here are invented; the spectra are synthetic data, not
 polyester film emits wherever its bands are strong, inside and outside the atmospheric window; the
 multilayer prototype emits mainly between 8 and 13 µm. Compare their thermal charts: the film's
 emittance is spread over the whole band, the prototype's is concentrated in the window.
+
+All materials and spectra here are invented; the spectra are synthetic data, not a measurement.`,
+		},
+		{
+			path:    "compare/cool-colours.md",
+			title:   "Cool colours: terracotta and slate grey against conventional pigments",
+			summary: "Two coloured coatings that reflect the near infrared beside conventional coatings of similar colour (invented materials).",
+			slugs:   []string{"tc-31", "tr-30", "sg-12", "dg-40"},
+			body: `A buyer chooses the colour; the pigments decide how much sunlight that colour costs. The cool
+terracotta TC-31 and the conventional TR-30 differ by little more than 1 in ΔE00, close to a match, yet the
+cool one reflects far more of the near infrared. The cool slate grey SG-12 is a little lighter than the
+conventional dark grey DG-40, and its solar reflectance is several times higher.
 
 All materials and spectra here are invented; the spectra are synthetic data, not a measurement.`,
 		},

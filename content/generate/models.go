@@ -213,3 +213,53 @@ func glazedTile(nm float64) point {
 	r, _ := saunderson(rb, 0, r0, 0.6)
 	return point{R: clamp01(r)}
 }
+
+// colouredPaint is a pigmented acrylic topcoat x mm thick over a primer of
+// reflectance primer(nm), by Kubelka–Munk with the Saunderson correction.
+// Its colour comes from pigments that absorb in the visible (pigmentK); a
+// conventional tint darkens it with carbon black (blackK at 550 nm), which
+// absorbs on into the near infrared, while a cool tint uses a black that
+// absorbs only in the visible and lets the near infrared through to a
+// white primer, which sends it back.
+type colouredPaint struct {
+	x        float64                  // dry film thickness, mm
+	s550, p  float64                  // scattering at 550 nm (mm⁻¹) and its fall with wavelength
+	pigmentK func(nm float64) float64 // colour pigments' absorption, mm⁻¹
+	blackK   float64                  // carbon black at 550 nm, mm⁻¹, falling as (550/λ)^0.75
+	primer   func(nm float64) float64 // reflectance of the primer under the film
+}
+
+func (c colouredPaint) at(nm float64) point {
+	nu := wavenumber(nm)
+	s := c.s550 * math.Pow(550/nm, c.p) / (1 + math.Pow(nm/3000, 3))
+	k := 0.7*(0.004+acrylic.at(nu)+nirOvertones.at(nu)+fingerprint(nu, 18)) + c.pigmentK(nm) + c.blackK*math.Pow(550/nm, 0.75)
+	k += 0.7 * 40 * fall(nm, 292, 7) // binder UV absorption
+	rl, tl := kmSlab(k, s, c.x)
+	rb := onBacking(rl, tl, c.primer(nm))
+	r0 := 0.045 + 0.05*lorentz(nu, 1155, 120) + 0.03*lorentz(nu, 1730, 60)
+	r, _ := saunderson(rb, 0, r0, 0.55)
+	return point{R: clamp01(r)}
+}
+
+// ironOxideRed is a red iron oxide pigment: strong absorption below its
+// edge near 580 nm, a weak Fe³⁺ band near 870 nm, and next to nothing in
+// the near infrared (mm⁻¹).
+func ironOxideRed(nm float64) float64 {
+	return 90*fall(nm, 575, 16) + 6*gauss(nm, 870, 140) + 3*fall(nm, 680, 40)
+}
+
+// ironOxideYellow is a yellow iron oxide pigment: its edge lies near 490
+// nm, so it takes the blue out of a red and warms it towards terracotta.
+func ironOxideYellow(nm float64) float64 { return 80*fall(nm, 490, 18) + 4*gauss(nm, 920, 160) }
+
+// visibleBlack is a black that absorbs across the visible and stops near
+// 750 nm (as perylene-type "infrared-transparent" blacks do), mm⁻¹ per unit
+// loading.
+func visibleBlack(nm float64) float64 { return fall(nm, 745, 22) }
+
+// whitePrimer is a TiO₂ primer under a cool coating: white from the visible
+// to the near infrared, darker in the UV below rutile's edge.
+func whitePrimer(nm float64) float64 { return 0.08 + 0.8*rise(nm, 405, 8) - 0.1*rise(nm, 1900, 300) }
+
+// greyPrimer is the grey primer of a conventional coating.
+func greyPrimer(float64) float64 { return 0.32 }

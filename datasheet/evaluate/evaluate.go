@@ -31,8 +31,8 @@ type Summary struct {
 	// skin beneath. Nil when there is none.
 	Worn map[string]*Worn
 	// Warnings are sentences about the data that a reader should notice
-	// but that do not stop the page, such as a splice whose mismatch
-	// exceeds its tolerance.
+	// but that do not stop the page: the readers' plausibility warnings,
+	// then each splice whose mismatch exceeds its tolerance.
 	Warnings []string
 }
 
@@ -166,7 +166,7 @@ func Sample(s *spectra.Spectrum, c datasheet.Conditions, claims ...datasheet.Cla
 	}
 	m := &Material{Sample: s, Optics: o}
 	m.Solar, m.Thermal = c.Weightings()
-	m.Figures, m.Warnings = f, warnings(f)
+	m.Figures, m.Warnings = f, append(slices.Clip(s.Warnings), warnings(f)...)
 	m.Verdicts = datasheet.JudgeAll(claims, datasheet.JudgeInput{Spectrum: s, Optics: &o, Conditions: c, Figures: f})
 	for _, in := range s.Inputs {
 		m.Inputs = append(m.Inputs, library.Input{Path: in.Name, SHA256: in.SHA256})

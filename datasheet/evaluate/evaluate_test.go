@@ -309,3 +309,22 @@ func TestReaderWarnings(t *testing.T) {
 		t.Errorf("warnings %q", w)
 	}
 }
+
+// TestPlausibilityWarnings checks that the readers' plausibility warnings
+// are warnings of the material, in its figures and its summary, and stop
+// nothing.
+func TestPlausibilityWarnings(t *testing.T) {
+	fsys := baseFS()
+	fsys["content/flat/solar.csv"].Data = []byte("wavelength_nm,R (%)\n280,0.9\n2500,0.9\n")
+	ms, err := All(load(t, fsys), Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := ms[0].Warnings
+	if len(w) != 1 || !strings.HasPrefix(w[0], "content/flat/solar.csv: column 2 (R (%))") || !strings.Contains(w[0], "fractions in a percent column?") {
+		t.Errorf("warnings %q", w)
+	}
+	if fw := ms[0].Figures.Warnings; len(fw) != 1 || fw[0] != w[0] {
+		t.Errorf("figures' warnings %q", fw)
+	}
+}

@@ -20,12 +20,16 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	v := &materialView{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
 		Summary: fm.Summary, License: fm.License, Inputs: m.Inputs, Cautions: cautionsOf(f),
 		Conditions: conditionPairs(m.Conditions), Overridden: fm.Conditions.Keys(),
-		Assumptions: f.Assumptions, Closure: closureOf(f), Measured: measuredPairs(fm.Measured)}
+		Assumptions: f.Assumptions, Closure: closureOf(f), Measured: measuredPairs(fm.Measured), Warnings: m.Warnings}
 	if s := library.Slugify(fm.Category); s != "" {
 		v.Category = link{Name: fm.Category, Href: root + listingDir("category", s) + "index.html"}
 	}
 	for _, t := range uniqueTags(fm.Tags) {
 		v.Tags = append(v.Tags, link{Name: t, Href: root + listingDir("tag", tagSlug(t)) + "index.html"})
+	}
+	refs := noteRefs(f, "")
+	for _, n := range f.ModelNotes {
+		v.ModelNotes = append(v.ModelNotes, modelNoteView{ID: "model-" + n.Code, Mark: refs[n.Code].Mark, Text: n.Text})
 	}
 	c := m.Conditions
 	v.Key = append(v.Key,
@@ -37,18 +41,28 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	if m.Sample.Has(spectra.T) {
 		v.Key = append(v.Key, keyCard(f, "solar_transmittance", "Solar transmittance", c.Text("solar_band_nm")))
 	}
+	for i := range v.Key {
+		v.Key[i].Notes = figureNotes(f, v.Key[i].key, refs)
+	}
 	v.Claims = claimViews(vs)
 	var counts datasheet.VerdictCounts
 	counts.Add(vs...)
 	v.ClaimCounts = countWords(counts)
-	refs := claimRefs(v.Claims)
-	v.Colors = colorViews(f, refs)
+	crefs := claimRefs(v.Claims)
+	v.Colors = colorViews(f, crefs)
 	for _, x := range f.Figures {
 		if x.IsColor() { // shown with the swatch in the head
 			continue
 		}
 		r := figRow{Key: x.Key, Label: x.Label, Value: fmtFigure(x), Band: x.BandText(),
-			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage), Claims: refs[x.Key]}
+			Weighting: x.Weighting, Coverage: fmtPercent(x.Coverage), Claims: crefs[x.Key],
+			Partial: x.Partial, Notes: figureNotes(f, x.Key, refs)}
+		if isNaN(x.Value) {
+			r.Value, r.Why = "n/a", firstOf(x.ShortReason(), "not computed")
+		}
+		if x.Partial || x.ShortReason() != x.Reason { // partial, or withheld for its coverage
+			v.Thresholds = &thresholds{fmtG(100*datasheet.Rules.MinCoverage) + " %", fmtG(100*datasheet.Rules.MinShownCoverage) + " %"}
+		}
 		r.Unc, r.UncCover = fmtUnc(x.Uncertainty)
 		if r.Unc != "" {
 			v.HasUnc = true
@@ -309,16 +323,51 @@ func keyCard(f *datasheet.Figures, key, label, note string) keyFig {
 	if isNaN(x.Value) {
 		why := "not computed"
 		if f != nil {
-			if m := f.Missing(key); m != "" {
+			if m := figureOf(f, key).ShortReason(); m != "" {
 				why = m
 			}
 		}
-		return keyFig{Label: label, Value: "n/a", Note: why}
+		return keyFig{Label: label, Value: "n/a", Note: why, key: key}
 	}
 	if pm := plusMinus(x); pm != "" {
 		note = strings.TrimSpace(pm) + "; " + note // in the value's unit, shown above
 	}
-	return keyFig{Label: label, Value: fmtNumber(x.Kind(), x.Value, ""), Unit: x.Unit, Note: note}
+	return keyFig{Label: label, Value: fmtNumber(x.Kind(), x.Value, ""), Unit: x.Unit, Note: note, Partial: x.Partial, key: key}
+}
+
+// noteMarks are the marks of the model notes, the same on every page.
+var noteMarks = map[string]string{
+	datasheet.NoteSRINotOpaque:     "†",
+	datasheet.NoteCoolingLoneLayer: "‡",
+	datasheet.NoteSRILowEmittance:  "§",
+}
+
+// noteLabels say each model note in a few words, for links to it.
+var noteLabels = map[string]string{
+	datasheet.NoteSRINotOpaque:     "the SRI is defined for opaque surfaces",
+	datasheet.NoteCoolingLoneLayer: "a lone layer with nothing behind it",
+	datasheet.NoteSRILowEmittance:  "the SRI applies to emittances above 0.1",
+}
+
+// noteRefs returns a reference to each model note of f by code, with
+// href (the datasheet's address, "" on the datasheet itself) before its
+// anchor.
+func noteRefs(f *datasheet.Figures, href string) map[string]noteRef {
+	out := map[string]noteRef{}
+	for _, n := range f.ModelNotes {
+		out[n.Code] = noteRef{ID: href + "#model-" + n.Code, Mark: firstOf(noteMarks[n.Code], "*"), Label: firstOf(noteLabels[n.Code], n.Code)}
+	}
+	return out
+}
+
+// figureNotes returns the references to the model notes that concern
+// figure key.
+func figureNotes(f *datasheet.Figures, key string, refs map[string]noteRef) []noteRef {
+	var out []noteRef
+	for _, n := range f.NotesFor(key) {
+		out = append(out, refs[n.Code])
+	}
+	return out
 }
 
 // plusMinus writes " ±u" for a figure with a standard uncertainty u, two
@@ -376,7 +425,19 @@ func (b *builder) table(id, root string, ms []*evaluate.Summary, numbers map[str
 				r.Cells = append(r.Cells, cl)
 				continue
 			}
-			r.Cells = append(r.Cells, cell{Key: col.Key, Text: fmtNumber(x.Kind(), x.Value, "") + plusMinus(x), Value: sortValue(x.Value)})
+			c := cell{Key: col.Key, Text: fmtNumber(x.Kind(), x.Value, "") + plusMinus(x), Value: sortValue(x.Value), Partial: x.Partial}
+			switch {
+			case !isNaN(x.Value):
+			case x.Reason != "":
+				c.Text, c.Why = "n/a", x.ShortReason()
+			}
+			r.Cells = append(r.Cells, c)
+		}
+		if m.Figures != nil {
+			refs := noteRefs(m.Figures, r.Href)
+			for _, n := range m.Figures.ModelNotes {
+				r.Notes = append(r.Notes, refs[n.Code])
+			}
 		}
 		t.Rows = append(t.Rows, r)
 	}

@@ -327,3 +327,111 @@ func TestUncertaintyWords(t *testing.T) {
 		t.Error("the explanation is not reachable, or the old wording remains")
 	}
 }
+
+// TestDataWarnings checks that the readers' plausibility warnings are on
+// the datasheet, naming the file.
+func TestDataWarnings(t *testing.T) {
+	fsys := fstest.MapFS{
+		"skysheet.yaml": {Data: []byte("title: Warnings (invented)\n")},
+		"content/w.md":  {Data: []byte("---\ntitle: Mislabelled (invented)\nmaker: Test maker (invented)\nspectra: [{file: uv.csv}]\n---\n")},
+		// Fractions under a percent header.
+		"content/uv.csv": {Data: []byte("wavelength_nm,R (%)\n280,0.9\n2500,0.9\n")},
+	}
+	lib, err := library.Load(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	page := string(renderTest(t, lib, Options{})["m/w/index.html"])
+	if !regexp.MustCompile(`(?s)<div class="data-warnings" role="note".*<li>content/uv.csv: column 2 \(R \(%\)\) is marked as percent but every value is at most 1.05 \(largest 0.9\): fractions in a percent column\?`).MatchString(page) {
+		t.Error("the datasheet does not show the warning")
+	}
+	plain := string(renderTest(t, testLibrary(t), Options{})["m/frostline/index.html"])
+	if plain == "" || strings.Contains(plain, "data-warnings") {
+		t.Error("a warning box without warnings")
+	}
+}
+
+// TestCoverageMarks checks how the site writes a figure covered 90–98 %
+// by data (a "partial data" mark) and one covered less than 90 % (n/a
+// with the reason), on the datasheet and in the index. The infrared data
+// stop at 22.5 µm (95.0 % of the Planck 300 K weighting over 2.5–25 µm)
+// and at 19 µm (85.3 %); see datasheet.TestCoverageGate.
+func TestCoverageMarks(t *testing.T) {
+	md := func(title string) []byte {
+		return []byte("---\ntitle: " + title + " (invented)\nmaker: Test maker (invented)\nspectra: [{file: " + strings.ToLower(title) + ".csv}]\n---\n")
+	}
+	fsys := fstest.MapFS{
+		"skysheet.yaml":        {Data: []byte("title: Coverage (invented)\n")},
+		"content/partial.md":   {Data: md("Partial")},
+		"content/partial.csv":  {Data: []byte("wavelength_nm,R\n280,0.9\n2500,0.9\n\n2500.1,0.1\n22500,0.1\n")},
+		"content/withheld.md":  {Data: md("Withheld")},
+		"content/withheld.csv": {Data: []byte("wavelength_nm,R\n280,0.9\n2500,0.9\n\n2500.1,0.1\n19000,0.1\n")},
+	}
+	lib, err := library.Load(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := renderTest(t, lib, Options{})
+	partial, withheld, index := string(out["m/partial/index.html"]), string(out["m/withheld/index.html"]), string(out["index.html"])
+	for _, c := range []struct{ page, name, re string }{
+		{partial, "partial row", `<tr data-key="thermal_emittance"><th scope="row">Thermal emittance</th><td class="num">0.900 <span class="partial">partial data</span></td>`},
+		{partial, "partial card", `<dt>Thermal emittance</dt><dd><span class="big">0.900</span> <span class="partial">partial data</span>`},
+		{withheld, "n/a row", `<tr data-key="thermal_emittance"><th scope="row">Thermal emittance</th><td class="num">n/a<span class="sub why">coverage &lt; 90 %</span></td>`},
+		{withheld, "n/a card", `<dt>Thermal emittance</dt><dd><span class="big">n/a</span><span class="note">coverage &lt; 90 %</span>`},
+		{withheld, "full reason", `<li>Not given, as the data cover only 85\.\d % of the Planck blackbody at 300 K weighting over the band 2\.5–25 µm \(at least 90 % is needed\): Thermal emittance; SRI, low wind; SRI, medium wind; SRI, high wind\.</li>`},
+		{index, "index partial", `data-key="thermal_emittance" data-value="[0-9.]+">0\.900 <span class="partial">partial</span></td>`},
+		{index, "index n/a", `data-key="thermal_emittance" data-value="">n/a<span class="sub why">coverage &lt; 90 %</span></td>`},
+		{withheld, "thresholds said", `Below 98 % a value is marked <span class="partial">partial data</span>; below 90 % it is not given \(n/a\)\.`},
+	} {
+		if !regexp.MustCompile(c.re).MatchString(c.page) {
+			t.Errorf("%s: no match for %s", c.name, c.re)
+		}
+	}
+	if strings.Contains(withheld, "0.900") && strings.Contains(withheld, `data-key="thermal_emittance"><th scope="row">Thermal emittance</th><td class="num">0.9`) {
+		t.Error("the withheld emittance is shown")
+	}
+}
+
+// TestModelNotesShown checks that a transmitting sample's notes (the SRI
+// is defined for opaque surfaces; the cooling figures take a lone layer
+// with nothing behind it) are on its datasheet beside the figures, marked
+// on the figures they concern, and marked with words in the index row.
+func TestModelNotesShown(t *testing.T) {
+	fsys := fstest.MapFS{
+		"skysheet.yaml":    {Data: []byte("title: Notes (invented)\n")},
+		"content/glass.md": {Data: []byte("---\ntitle: Clear pane (invented)\nmaker: Test maker (invented)\nspectra: [{file: glass.csv}]\n---\n")},
+		// T = 0.83 over the solar band: 83 % of sunlight transmitted.
+		"content/glass.csv": {Data: []byte("wavelength_nm,R,T\n280,0.08,0.83\n2500,0.08,0.83\n\n2600,0.05,0\n25000,0.05,0\n")},
+		"content/white.md":  {Data: []byte("---\ntitle: White (invented)\nmaker: Test maker (invented)\nspectra: [{file: white.csv}]\n---\n")},
+		"content/white.csv": {Data: []byte("wavelength_nm,R\n280,0.9\n2500,0.9\n\n2600,0.05\n25000,0.05\n")},
+	}
+	lib, err := library.Load(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := renderTest(t, lib, Options{})
+	glass, white, index := string(out["m/glass/index.html"]), string(out["m/white/index.html"]), string(out["index.html"])
+	for _, want := range []string{
+		`<li id="model-sri-not-opaque"><span class="mark" aria-hidden="true">†</span> The SRI (ASTM E1980) is defined for opaque surfaces; this sample transmits 83.0 % of sunlight`,
+		`<li id="model-cooling-lone-layer"><span class="mark" aria-hidden="true">‡</span> The cooling figures take a lone layer radiating from its upper face, with nothing behind it`,
+		`<th scope="row">SRI, low wind</th><td class="num">`,
+		`<a class="model-mark" href="#model-sri-not-opaque"><span aria-hidden="true">†</span><span class="vh"> (note: the SRI is defined for opaque surfaces)</span></a>`,
+		`<a class="model-mark" href="#model-cooling-lone-layer"><span aria-hidden="true">‡</span><span class="vh"> (note: a lone layer with nothing behind it)</span></a>`,
+	} {
+		if !strings.Contains(glass, want) {
+			t.Errorf("the glass's datasheet lacks %q", want)
+		}
+	}
+	if !regexp.MustCompile(`<th scope="row">SRI, low wind</th><td class="num">[0-9.]+<a class="model-mark" href="#model-sri-not-opaque">`).MatchString(glass) {
+		t.Error("the SRI row is not marked")
+	}
+	if !regexp.MustCompile(`<dt>Net cooling, day</dt><dd><span class="big">[-0-9.]+</span> <span class="unit">W/m²</span><a class="model-mark" href="#model-cooling-lone-layer">`).MatchString(glass) {
+		t.Error("the cooling card is not marked")
+	}
+	if !strings.Contains(index, `<a href="m/glass/index.html">Clear pane (invented)</a><a class="model-mark" href="m/glass/index.html#model-sri-not-opaque"><span aria-hidden="true">†</span><span class="vh"> (note: the SRI is defined for opaque surfaces)</span></a>`) {
+		t.Error("the index row of the glass is not marked")
+	}
+	if strings.Contains(white, "model-mark") || strings.Contains(white, "model-notes") || strings.Contains(index, `White (invented)</a><a class="model-mark"`) {
+		t.Error("an opaque white is marked")
+	}
+}

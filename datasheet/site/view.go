@@ -38,10 +38,26 @@ type link struct {
 
 type pair struct{ K, V string }
 
-type keyFig struct{ Label, Value, Unit, Note string }
+type keyFig struct {
+	Label, Value, Unit, Note string
+	Partial                  bool
+	Notes                    []noteRef
+	key                      string // the figure's key
+}
+
+// noteRef points from a figure to a model note of its datasheet.
+type noteRef struct {
+	ID, Mark, Label string // Label: what the note says, in a few words
+}
+
+// modelNoteView is a model note on the datasheet.
+type modelNoteView struct{ ID, Mark, Text string }
 
 type figRow struct {
 	Key, Label, Value, Unc, Band, Weighting, Coverage string
+	Why                                               string // why there is no value
+	Partial                                           bool
+	Notes                                             []noteRef
 	// UncCover is, when the stated uncertainties cover only part of what
 	// the figure depends on, that share in words ("covers 48 %").
 	UncCover string
@@ -60,10 +76,14 @@ type colorView struct {
 
 type spectrumRow struct{ File, Role, Instrument, Notes string }
 
+// thresholds are the coverage thresholds of the figures, "98 %".
+type thresholds struct{ Full, Shown string }
+
 type closureView struct {
 	OK       bool
 	Summary  string
 	Problems []string
+	Origins  string // how R, T and A were obtained
 }
 
 type chartView struct {
@@ -88,6 +108,9 @@ type materialView struct {
 	Conditions                                             []pair
 	Overridden                                             []string
 	Assumptions                                            []string
+	Warnings                                               []string // about the input data, not errors
+	ModelNotes                                             []modelNoteView
+	Thresholds                                             *thresholds // of coverage, when a figure is partial or not given
 	Closure                                                closureView
 	Charts                                                 []chartView
 	Series                                                 *seriesLine // figures over a weather series, if any
@@ -124,13 +147,18 @@ type column struct {
 
 // cell is a cell of a material table; Swatch, when set, is a colour
 // "#rrggbb" shown before the text.
-type cell struct{ Key, Text, Value, Swatch string }
+type cell struct {
+	Key, Text, Value, Swatch string
+	Why                      string // why there is no value, in a few words
+	Partial                  bool
+}
 
 type row struct {
 	N                        int
 	Slug, Href, Title, Maker string
 	Category                 link
 	Cells                    []cell
+	Notes                    []noteRef // the model notes of the material, linking to its datasheet
 }
 
 type tableView struct {
@@ -327,7 +355,7 @@ func conditionPairs(c datasheet.Conditions) []pair {
 // closureOf describes the closure check as the CLI does.
 func closureOf(f *datasheet.Figures) closureView {
 	cl := f.Closure
-	v := closureView{OK: cl.OK, Problems: cl.Problems}
+	v := closureView{OK: cl.OK, Problems: cl.Problems, Origins: f.Origins.Text()}
 	switch {
 	case !cl.OK:
 		v.Summary = fmt.Sprintf("fails (tolerance %g).", cl.Tolerance)

@@ -49,3 +49,11 @@ func ExampleDeltaE2000() {
 	fmt.Printf("ΔE00 %.4f, ΔE*ab %.4f\n", colorimetry.DeltaE2000(a, b), colorimetry.DeltaE76(a, b))
 	// Output: ΔE00 27.1492, ΔE*ab 36.8680
 }
+
+func ExampleCoverage() {
+	// Data from 400 nm on miss 380–400 nm, where the eye sees almost
+	// nothing: there is no colour, but most of the luminous weight is there.
+	s := spectra.Series{Pieces: []spectra.Piece{{NM: []float64{400, 900}, V: []float64{0.5, 0.5}}}}
+	fmt.Printf("%.5f\n", colorimetry.Coverage(s))
+	// Output: 0.99998
+}
