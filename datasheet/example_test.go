@@ -138,3 +138,26 @@ func ExampleColorDifference() {
 	// L* 76.07, a* 0.00, b* 0.00 #bcbcbc
 	// ΔE*ab 6.60, ΔE00 4.94
 }
+
+// Clear glass transmits: its SRI and cooling figures carry notes.
+func ExampleFigures_NotesFor() {
+	in := "wavelength_nm,R,T\n280,0.08,0.83\n2500,0.08,0.83\n\n2600,0.05,0\n25000,0.05,0\n"
+	s, _ := spectra.Parse(strings.NewReader(in), "glass.csv")
+	c := datasheet.DefaultConditions()
+	f, _ := datasheet.Compute(s, spectra.Resolve(s, c.ClosureTol), c)
+	for _, n := range f.NotesFor("sri_low") {
+		fmt.Println(n.Code+":", n.Text)
+	}
+	// Output: sri-not-opaque: The SRI (ASTM E1980) is defined for opaque surfaces; this sample transmits 83.0 % of sunlight and 0.0 % of thermal radiation.
+}
+
+// A figure covered less than 90 % by data has no value, and says why.
+func ExampleFigure_ShortReason() {
+	in := "wavelength_nm,R\n280,0.9\n2500,0.9\n\n2500.1,0.1\n19000,0.1\n" // infrared data stop at 19 µm
+	s, _ := spectra.Parse(strings.NewReader(in), "short.csv")
+	c := datasheet.DefaultConditions()
+	f, _ := datasheet.Compute(s, spectra.Resolve(s, c.ClosureTol), c)
+	x, _ := f.Figure("thermal_emittance")
+	fmt.Println(x.Value, x.ShortReason())
+	// Output: NaN coverage < 90 %
+}

@@ -36,3 +36,14 @@ func ExampleParse_error() {
 	fmt.Println(err)
 	// Output: white.csv:3: column 2 (R): "0,9x" is not a number
 }
+
+// A file with R and A but no T: T is derived as 1 − R − A, and the
+// origins say so.
+func ExampleResolve_origin() {
+	in := "wavelength_nm,R,A\n300,0.05,0.10\n2500,0.05,0.10\n"
+	s, _ := spectra.Parse(strings.NewReader(in), "ra.csv")
+	o := spectra.Resolve(s, spectra.DefaultClosureTol)
+	t, _ := o.T.At(1000)
+	fmt.Printf("T = %.2f; R %s, T %s, A %s\n", t, o.Origin[spectra.R], o.Origin[spectra.T], o.Origin[spectra.A])
+	// Output: T = 0.85; R measured, T derived, A measured
+}
