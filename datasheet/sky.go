@@ -184,7 +184,10 @@ func TwoBandSky(emissivity, ambientK float64) Sky {
 		"ε_sky σT_a⁴ at %s K (%.1f %% of a blackbody's emission falls in %g–%g µm).",
 		skyWindowUM[0], skyWindowUM[1], ew, fmtG(ambientK), 100*fw, skyWindowUM[0], skyWindowUM[1])
 	if k.Clamped {
-		k.Description += fmt.Sprintf(" That asks for a window emissivity of %.3f, outside 0..1: the two-band sky cannot be "+
+		k.Description = fmt.Sprintf("emissivity 1 outside %g–%g µm and %.3f inside over the hemisphere at %s K "+
+			"(%.1f %% of a blackbody's emission falls in %g–%g µm).",
+			skyWindowUM[0], skyWindowUM[1], ew, fmtG(ambientK), 100*fw, skyWindowUM[0], skyWindowUM[1])
+		k.Description += fmt.Sprintf(" ε_sky would need a window emissivity of %.3f, outside 0..1: the two-band sky cannot be "+
 			"that %s; the window was clamped to %g and the sky's emissivity is %.3f instead of %.3f.",
 			asked, map[bool]string{true: "dry", false: "humid"}[asked < 0], ew, float64(k.HemisphericalEmissivity), emissivity)
 	}

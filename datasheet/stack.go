@@ -93,6 +93,7 @@ func ComputeStack(layers []Layer, c Conditions) (*Stacked, error) {
 	if err != nil {
 		return nil, fmt.Errorf("stack: %w", err)
 	}
+	heff = round3(heff) // a condition people read: to 0.001 W m⁻² K⁻¹
 	so, err := spectra.Stack(opt)
 	if err != nil {
 		return nil, err
@@ -143,8 +144,8 @@ func stackAssumptions(layers []Layer, h, heff float64, conducts bool) []string {
 	}
 	if conducts {
 		out = append(out, fmt.Sprintf("The layers above the bottom one block the wind: the non-radiative exchange crosses them by conduction "+
-			"in series with the outside air, h_eff = 1/(1/h + Σ dᵢ/kᵢ) = %s W m⁻² K⁻¹ with h = %s W m⁻² K⁻¹ (common practice, no source). "+
-			"Without the cover the bottom layer alone exchanges with h.", fmtG(round3(heff)), fmtG(h)))
+			"in series with the outside air, h_eff = 1/(1/h + Σ dᵢ/kᵢ) = %s W m⁻² K⁻¹ (to 0.001) with h = %s W m⁻² K⁻¹ (common practice, no source). "+
+			"Without the cover the bottom layer alone exchanges with h.", fmtG(heff), fmtG(h)))
 	} else {
 		out = append(out, fmt.Sprintf("No layer gives a thickness and conductivity: the stack exchanges heat with the air through h = %s W m⁻² K⁻¹, as the bottom layer alone would.", fmtG(h)))
 	}

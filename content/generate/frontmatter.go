@@ -185,16 +185,24 @@ func (m *material) markdown() []byte {
 
 // comparison is a comparison page.
 type comparison struct {
-	path    string
-	title   string
-	summary string
-	slugs   []string
-	body    string
+	path      string
+	title     string
+	summary   string
+	slugs     []string
+	reference string // slug of the reference material, or ""
+	skin      string // slug of the skin-like surface, or ""
+	body      string
 }
 
 func (c *comparison) markdown() []byte {
 	var b strings.Builder
-	fmt.Fprintf(&b, "---\ntitle: %s\ncompare: [%s]\nsummary: %s\n---\n\n%s\n",
-		yamlString(c.title), strings.Join(c.slugs, ", "), yamlString(c.summary), strings.TrimSpace(c.body))
+	fmt.Fprintf(&b, "---\ntitle: %s\ncompare: [%s]\n", yamlString(c.title), strings.Join(c.slugs, ", "))
+	if c.reference != "" {
+		fmt.Fprintf(&b, "reference: %s\n", c.reference)
+	}
+	if c.skin != "" {
+		fmt.Fprintf(&b, "skin: %s\n", c.skin)
+	}
+	fmt.Fprintf(&b, "summary: %s\n---\n\n%s\n", yamlString(c.summary), strings.TrimSpace(c.body))
 	return []byte(b.String())
 }

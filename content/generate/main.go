@@ -1,6 +1,7 @@
 // Command generate writes skysheet's demo library: skysheet.yaml at the
-// repository root and, under content/, ten invented materials (Markdown with
-// front matter, plus their spectrum files) and a comparison page. Everything
+// repository root and, under content/, seventeen invented materials (Markdown
+// with front matter, plus their spectrum files), two systems computed as
+// stacks of layers, and the comparison pages. Everything
 // it writes is an invented scenario — an invented laboratory, invented
 // makers and products — and every spectrum is synthetic data, not a
 // measurement.
@@ -60,6 +61,13 @@
 //     silicate Christiansen minimum (~7.5 µm) and reststrahlen peaks (~9.4 and
 //     ~21 µm). Its absorptance is also "measured" with a small offset and
 //     ripple so that closure R + T + A = 1 holds only within a tolerance.
+//   - The porous polyethylene cover and the infrared-clear knit:
+//     Kubelka–Munk for a mostly-void polymer whose pores scatter sunlight
+//     and whose few C–H bands (3.4, 6.8, 13.9 µm) are all it absorbs in the
+//     thermal infrared. The cotton-like weave: cellulose, absorbing strongly
+//     across the thermal infrared. The skin-like surface: an invented
+//     reflectance shaped after published ranges (melanin, haemoglobin dips,
+//     water bands; from memory), not a measurement of anyone.
 //   - The glazed tile: a zircon-opacified silicate glaze (Kubelka–Munk) over
 //     a buff clay body; opaque in the thermal infrared, with silicate
 //     reststrahlen bands lowering its window emittance.
@@ -93,6 +101,14 @@ func library() []output {
 		out = append(out, output{filepath.ToSlash(filepath.Join("content", m.path)), m.markdown()})
 		for _, f := range m.files {
 			out = append(out, output{filepath.ToSlash(filepath.Join("content", m.folder(), f.name)), f.render(m.model)})
+		}
+	}
+	for _, st := range stacks() {
+		out = append(out, output{filepath.ToSlash(filepath.Join("content", st.path)), st.markdown()})
+		for _, l := range st.layers {
+			for _, f := range l.files {
+				out = append(out, output{filepath.ToSlash(filepath.Join("content", st.folder(), f.name)), f.render(l.model)})
+			}
 		}
 	}
 	for _, c := range comparisons() {

@@ -33,7 +33,7 @@ func TestLibraryDeterministic(t *testing.T) {
 // (docs/demo.md); the generator must write no other.
 var contractKeys = map[string]bool{"title": true, "slug": true, "maker": true, "lab": true, "product_code": true,
 	"category": true, "tags": true, "summary": true, "license": true, "spectra": true, "measured": true,
-	"conditions": true, "claims": true, "compare": true}
+	"conditions": true, "claims": true, "compare": true, "stack": true, "reference": true, "skin": true}
 
 func TestFrontMatterKeys(t *testing.T) {
 	for _, f := range library() {

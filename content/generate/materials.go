@@ -86,6 +86,7 @@ func materials() []material {
 	return []material{
 		bw93(), bw93Aged(), bx7(), dg40(), px2(), sf50(), kw21(), qlse3(), cl4(), atw(),
 		tc31(), tr30(), sg12(),
+		pc3(), co1(), pw2(), sk1(),
 	}
 }
 
@@ -635,6 +636,44 @@ All materials and spectra here are invented; the spectra are synthetic data, not
 terracotta TC-31 and the conventional TR-30 differ by little more than 1 in ΔE00, close to a match, yet the
 cool one reflects far more of the near infrared. The cool slate grey SG-12 is a little lighter than the
 conventional dark grey DG-40, and its solar reflectance is several times higher.
+
+All materials and spectra here are invented; the spectra are synthetic data, not a measurement.`,
+		},
+		{
+			path:    "compare/covered-emitter.md",
+			title:   "QL-SE3 with its porous cover and without it",
+			summary: "The selective emitter under a 3 mm porous polyethylene cover beside the bare emitter (invented materials, computed system).",
+			slugs:   []string{"ql-se3-covered", "ql-se3"},
+			body: `The cover reflects most sunlight, passes most of the window radiation and holds off the wind.
+Its cooling power at the air's temperature is a little lower than the bare emitter's, since the
+cover absorbs and scatters part of what the emitter sends out; the temperature the emitter settles
+at is lower, since the wind no longer brings heat back in. The covered system's page gives the
+layers and the assumptions of the model.
+
+All materials and spectra here are invented; the spectra are synthetic data, not a measurement.`,
+		},
+		{
+			path:    "compare/car-cover.md",
+			title:   "A dark panel with a reflective cover fabric and without it",
+			summary: "DG-40 bare and under the RF-1 cover fabric (invented materials, computed system).",
+			slugs:   []string{"dg-40-under-film", "dg-40"},
+			body: `The cover fabric turns a surface that absorbs almost all sunlight into one that reflects most of
+it. The system page shows where the rest of the sunlight is absorbed: mostly in the fabric, which
+then warms the panel beneath less than the same sunlight absorbed by the paint would.
+
+All materials and spectra here are invented; the spectra are synthetic data, not a measurement.`,
+		},
+		{
+			path:      "compare/textiles-over-skin.md",
+			title:     "Two textiles over a skin-like surface",
+			summary:   "An infrared-clear knit against an ordinary cotton-like weave, worn over an invented skin-like spectrum (invented materials).",
+			slugs:     []string{"co-1", "pw-2"},
+			reference: "co-1",
+			skin:      "sk-1",
+			body: `The cotton-like weave is the reference. The table under the charts gives each textile's
+differences from it, and the heat that reaches the skin-like surface beneath when each is worn, by
+day in full sun and at night, from a simple steady balance of fabric and skin. The skin-like surface
+SK-1 is an invented spectrum, not a measurement of anyone's skin.
 
 All materials and spectra here are invented; the spectra are synthetic data, not a measurement.`,
 		},
