@@ -39,6 +39,11 @@ type Basis struct {
 	WindowBandUM  []float64 `yaml:"window_band_um,omitempty" json:"window_band_um,omitempty"`
 	TemperatureK  float64   `yaml:"temperature_k,omitempty" json:"temperature_k,omitempty"`
 	AngleDeg      float64   `yaml:"angle_deg,omitempty" json:"angle_deg,omitempty"`
+	// Emittance is the emittance basis claimed: "near-normal" or
+	// "hemispherical"; RefractiveIndex, when stated, converts near-normal
+	// data to hemispherical (the refractive_index condition).
+	Emittance       string  `yaml:"emittance,omitempty" json:"emittance,omitempty"`
+	RefractiveIndex float64 `yaml:"refractive_index,omitempty" json:"refractive_index,omitempty"`
 }
 
 // MarshalJSON writes the claim with non-finite numbers as null, so that a
@@ -78,7 +83,10 @@ func (b Basis) MarshalJSON() ([]byte, error) {
 		WindowBandUM  []Num  `json:"window_band_um,omitempty"`
 		TemperatureK  Num    `json:"temperature_k,omitempty"`
 		AngleDeg      Num    `json:"angle_deg,omitempty"`
-	}{nums(b.SolarBandNM), b.SolarSpectrum, nums(b.ThermalBandUM), nums(b.WindowBandUM), Num(b.TemperatureK), Num(b.AngleDeg)})
+		Emittance     string `json:"emittance,omitempty"`
+		Refractive    Num    `json:"refractive_index,omitempty"`
+	}{nums(b.SolarBandNM), b.SolarSpectrum, nums(b.ThermalBandUM), nums(b.WindowBandUM), Num(b.TemperatureK), Num(b.AngleDeg),
+		b.Emittance, Num(b.RefractiveIndex)})
 }
 
 // Text returns the claimed value as written, with its tolerance when one

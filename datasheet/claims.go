@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"strings"
 
+	"skysheet/spectra"
 	"skysheet/spectra/msg"
 )
 
@@ -109,6 +110,9 @@ const (
 	// transmittance exceeds 0.01; ASTM E1980 defines the index for opaque
 	// surfaces.
 	pitfallSRITranslucent
+	// pitfallEmittanceBasis: a claim on one emittance basis (near-normal
+	// or hemispherical) of a figure that rests on the other.
+	pitfallEmittanceBasis
 )
 
 var pitfallNames = map[PitfallCode]string{
@@ -118,6 +122,7 @@ var pitfallNames = map[PitfallCode]string{
 	pitfallPercent:        "percent-for-fraction",
 	pitfallHeldLarge:      "held-emittance-large",
 	pitfallSRITranslucent: "sri-not-opaque",
+	pitfallEmittanceBasis: "emittance-basis",
 }
 
 // String returns the pitfall's code word, e.g. "percent-for-fraction".
@@ -304,6 +309,13 @@ func (b Basis) apply(c Conditions) (Conditions, map[string]bool) {
 	if b.AngleDeg > 0 {
 		stated["angle_deg"] = true
 	}
+	if b.RefractiveIndex > 0 {
+		c.RefractiveIndex = On(b.RefractiveIndex)
+		stated[condRefractive.key()] = true
+	}
+	if b.Emittance != "" {
+		stated["emittance"] = true
+	}
 	return c, stated
 }
 
@@ -343,6 +355,12 @@ func (c Claim) Validate() error {
 	}
 	if !finite(b.AngleDeg) || b.AngleDeg < 0 || b.AngleDeg >= 90 {
 		return fmt.Errorf("%s: basis angle_deg %g: want 0 ≤ angle < 90", c.Figure, b.AngleDeg)
+	}
+	if _, err := spectra.ParseEmittanceBasis(b.Emittance); err != nil {
+		return fmt.Errorf("%s: basis %v", c.Figure, err)
+	}
+	if n := b.RefractiveIndex; !finite(n) || n != 0 && !(n > 1 && n <= maxRefractiveIndex) {
+		return fmt.Errorf("%s: basis refractive_index %g: want a real index above 1 and at most %g", c.Figure, n, float64(maxRefractiveIndex))
 	}
 	return nil
 }

@@ -44,6 +44,10 @@ type Conditions struct {
 	// midnight, and the station pressure in hPa. See [ClearSky].
 	HourOfDay       Optional // hour_of_day
 	StationPressure Optional // station_pressure_hpa
+	// RefractiveIndex, when on, converts near-normal emittance data to
+	// hemispherical for the cooling figures and the SRI, as a smooth
+	// dielectric of this index (see docs/cooling.md).
+	RefractiveIndex Optional // refractive_index
 
 	// Weather names an hourly weather series to run the hourly model
 	// over (docs/cooling.md, "Over a weather series"); none by default.
@@ -256,6 +260,7 @@ const (
 	condHour
 	condPressure
 	condWeather
+	condRefractive
 	numConditions
 )
 
@@ -277,6 +282,7 @@ var conditionTable = [numConditions]struct{ key, label, unit string }{
 	condHour:          {"hour_of_day", "Hour of day (sky term)", "h"},
 	condPressure:      {"station_pressure_hpa", "Station pressure (sky term)", "hPa"},
 	condWeather:       {"weather", "Weather series", ""},
+	condRefractive:    {"refractive_index", "Refractive index (near-normal to hemispherical)", ""},
 }
 
 func (k condition) key() string { return conditionTable[k].key }
@@ -324,6 +330,8 @@ func (k condition) field(c *Conditions) any {
 		return &c.StationPressure
 	case condWeather:
 		return &c.Weather
+	case condRefractive:
+		return &c.RefractiveIndex
 	}
 	panic("datasheet: unknown condition " + strconv.Itoa(int(k)))
 }
@@ -413,6 +421,11 @@ func (k condition) words(c Conditions) string {
 			return ""
 		}
 		return "weather series " + c.Weather.File
+	case condRefractive:
+		if !c.RefractiveIndex.On {
+			return ""
+		}
+		return "near-normal emittance converted to hemispherical at n " + fmtShort(c.RefractiveIndex.V)
 	}
 	return k.key()
 }
@@ -633,6 +646,9 @@ func (c Conditions) Validate() error {
 	}
 	if !(c.ClosureTol >= 0) || c.ClosureTol > 1 {
 		return fmt.Errorf("closure tolerance %g: want 0..1", c.ClosureTol)
+	}
+	if n := c.RefractiveIndex; n.On && !(n.V > 1 && n.V <= maxRefractiveIndex) {
+		return fmt.Errorf("refractive index %g: want a real index above 1 and at most %g, or off", n.V, float64(maxRefractiveIndex))
 	}
 	if c.Weather.File != "" && c.Weather.Series == nil {
 		return fmt.Errorf("weather series %q: the file was not read", c.Weather.File)

@@ -17,7 +17,7 @@ func TestConditionsJSON(t *testing.T) {
 	const want = `{"solar_band_nm":[280,2500],"solar_spectrum":"global","thermal_band_um":[2.5,25],` +
 		`"window_band_um":[8,13],"temperature_k":300,"closure_tolerance":0.02,"ambient_k":300,"dew_point_c":10,` +
 		`"irradiance_w_m2":1000,"h_w_m2k":6,"exchange_band_um":[2.5,100],"sky":"clear two-band",` +
-		`"hour_of_day":null,"station_pressure_hpa":null,"weather":"none"}`
+		`"hour_of_day":null,"station_pressure_hpa":null,"weather":"none","refractive_index":null}`
 	c := DefaultConditions()
 	got, err := json.Marshal(c)
 	if err != nil || string(got) != want {

@@ -342,13 +342,16 @@ type coolState struct {
 	wrad     []float64 // per node: Σ (Δλ/2)·ε, so that P_rad(T) = π Σ wrad·B
 	patm     float64   // P_atm, W/m²
 	heldEmit float64   // π ∫ ε B(T_amb) over the held part, W/m²
+	k        float64   // ε = k·a: the near-normal to hemispherical ratio, or 1
 }
 
-func (g *coolGrid) load(a spectra.Series) *coolState {
-	s := &coolState{g: g, a: a, wrad: make([]float64, len(g.nodes))}
+// load loads emittance k·a, where a is the data's emittance and k converts
+// it to hemispherical (1 for none).
+func (g *coolGrid) load(a spectra.Series, k float64) *coolState {
+	s := &coolState{g: g, a: a, wrad: make([]float64, len(g.nodes)), k: k}
 	for _, sp := range g.spans {
 		d := (g.nodes[sp.a+1] - g.nodes[sp.a]) / 2
-		el, er := sp.left.eval(a), sp.right.eval(a)
+		el, er := k*sp.left.eval(a), k*sp.right.eval(a)
 		s.wrad[sp.a] += d * el
 		s.wrad[sp.a+1] += d * er
 		s.patm += d * (el*sp.skyL*g.bAmb[sp.a] + er*sp.skyR*g.bAmb[sp.a+1])
@@ -517,7 +520,7 @@ func (s *coolState) gradA(t float64) [][]float64 {
 		}
 	}
 	for _, sp := range g.spans {
-		d := math.Pi * (g.nodes[sp.a+1] - g.nodes[sp.a]) / 2
+		d := s.k * math.Pi * (g.nodes[sp.a+1] - g.nodes[sp.a]) / 2
 		put(sp.left, d*(bt[sp.a]-sp.skyL*g.bAmb[sp.a]))
 		put(sp.right, d*(bt[sp.a+1]-sp.skyR*g.bAmb[sp.a+1]))
 	}
@@ -536,6 +539,11 @@ type cooling struct {
 	sky Sky
 	sun spectra.Weighting
 	g   *coolGrid // nil: no emittance data in the exchange band
+	// basis is the emittance basis of the figures, named in their
+	// weighting; ratio multiplies the data's emittance in the exchange
+	// band to make it hemispherical (0: none).
+	basis EmittanceBasis
+	ratio float64
 }
 
 // coolFigures are the scalar results of one evaluation.
@@ -559,7 +567,11 @@ func (m *cooling) evaluate(a spectra.Series, alpha float64) coolFigures {
 	if !m.g.fits(a) {
 		m.g = newCoolGrid(a, m.sky, m.c.ExchangeBand, m.c.AmbientK)
 	}
-	s := m.g.load(a)
+	k := 1.0
+	if m.ratio > 0 {
+		k = m.ratio
+	}
+	s := m.g.load(a, k)
 	r.state = s
 	r.prad, r.patm = s.prad(m.c.AmbientK), s.patm
 	r.psun = m.c.IrradianceWm2 * alpha
@@ -596,6 +608,9 @@ func (m *cooling) weighting(withSun, withH bool) string {
 		out += fmt.Sprintf("; sun %s W/m², %s shape", fmtG(c.IrradianceWm2), m.sun)
 	} else {
 		out += "; no sun"
+	}
+	if b := m.basis.short(); b != "" {
+		out += "; " + b
 	}
 	return out
 }
@@ -713,7 +728,7 @@ func (m *cooling) sensitivity(a spectra.Series, alpha float64, base coolFigures)
 	}
 	c := m.c
 	row := func(param, unit string, change float64, alt Conditions, note string) {
-		mm := &cooling{c: alt, sun: m.sun, sky: m.sky, g: m.g}
+		mm := &cooling{c: alt, sun: m.sun, sky: m.sky, g: m.g, basis: m.basis, ratio: m.ratio}
 		if alt.DewPointC != c.DewPointC {
 			mm.sky = ClearSky(alt)
 			mm.g = m.g.withSky(mm.sky)

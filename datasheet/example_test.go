@@ -95,9 +95,9 @@ func ExampleFigures_WriteCSV() {
 		}
 	}
 	// Output:
-	// key,label,value (unit),unit,band low (band_unit),band high (band_unit),band_unit,weighting,coverage (fraction),u independent (unit),u together (unit),u known for (fraction),components (unit)
-	// solar_reflectance,Solar reflectance,0.8999999999999985,fraction,280,2500,nm,ASTM G173-03 global tilt,1,,,,
-	// thermal_emittance,Thermal emittance,0.9499999801872775,fraction,2.5,25,µm,Planck blackbody at 300 K,1,,,,
+	// key,label,value (unit),unit,band low (band_unit),band high (band_unit),band_unit,weighting,coverage (fraction),u independent (unit),u together (unit),u worst case (unit),u known for (fraction),components (unit)
+	// solar_reflectance,Solar reflectance,0.8999999999999985,fraction,280,2500,nm,ASTM G173-03 global tilt,1,,,,,
+	// thermal_emittance,Thermal emittance,0.9499999801872775,fraction,2.5,25,µm,Planck blackbody at 300 K,1,,,,,
 }
 
 // A day of weather: the same flat sample held at the air temperature and
@@ -119,6 +119,19 @@ func ExampleCompute_weather() {
 	// Output:
 	// Test roof (invented): 24 hours on 1 day, 24 of them below the air
 	// energy > 0: true
+}
+
+func ExampleEmittanceBasis() {
+	in := "wavelength_um,R\n0.28,0.95\n2.5,0.95\n2.5001,0.04\n25,0.04\n"
+	s, _ := spectra.Parse(strings.NewReader(in), "flat.csv")
+	c := datasheet.DefaultConditions()
+	c.RefractiveIndex = datasheet.On(1.5)
+	f, _ := datasheet.Compute(s, spectra.Resolve(s, c.ClosureTol), c)
+	fmt.Println(f.EmittanceBasis.Words())
+	fmt.Printf("ε %.3f, in the SRI %.3f\n", f.ThermalEmittance, f.SRI.ThermalEmittance)
+	// Output:
+	// near-normal (default for FTIR data); cooling figures and SRI converted to hemispherical as a smooth dielectric of n 1.5 (× 0.946)
+	// ε 0.960, in the SRI 0.908
 }
 
 // A grey and a darker grey: the colour figures and their difference.

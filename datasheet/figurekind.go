@@ -138,11 +138,11 @@ type figureSpec struct {
 // The conditions behind the kinds of figures.
 var (
 	solarConds   = []condition{condSolarBand, condSolarSpectrum}
-	sriConds     = []condition{condSolarBand, condSolarSpectrum, condThermalBand, condTemperature}
-	dayPower     = []condition{condSky, condDewPoint, condHour, condPressure, condAmbient, condIrradiance, condSolarSpectrum, condExchangeBand}
-	nightPower   = []condition{condSky, condDewPoint, condHour, condPressure, condAmbient, condExchangeBand}
-	dayBalance   = []condition{condSky, condDewPoint, condHour, condPressure, condAmbient, condH, condIrradiance, condSolarSpectrum, condExchangeBand}
-	nightBalance = []condition{condSky, condDewPoint, condHour, condPressure, condAmbient, condH, condExchangeBand}
+	sriConds     = []condition{condSolarBand, condSolarSpectrum, condThermalBand, condTemperature, condRefractive}
+	dayPower     = []condition{condSky, condDewPoint, condHour, condPressure, condAmbient, condIrradiance, condSolarSpectrum, condExchangeBand, condRefractive}
+	nightPower   = []condition{condSky, condDewPoint, condHour, condPressure, condAmbient, condExchangeBand, condRefractive}
+	dayBalance   = []condition{condSky, condDewPoint, condHour, condPressure, condAmbient, condH, condIrradiance, condSolarSpectrum, condExchangeBand, condRefractive}
+	nightBalance = []condition{condSky, condDewPoint, condHour, condPressure, condAmbient, condH, condExchangeBand, condRefractive}
 )
 
 // figureSpecs is the one table of how each figure that [Compute] returns is

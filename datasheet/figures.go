@@ -185,16 +185,20 @@ type Figures struct {
 	// Cooling under the stated sky (see docs/cooling.md). The cooling powers
 	// are P_net at T_s = T_amb in W/m², with and without sun; the equilibrium
 	// figures are T_amb − T_eq in K, positive below ambient.
-	CoolingPowerWm2        Num           `json:"cooling_power_w_m2"`
-	CoolingPowerNightWm2   Num           `json:"cooling_power_night_w_m2"`
-	EquilibriumDeltaK      Num           `json:"equilibrium_delta_k"`
-	EquilibriumDeltaNightK Num           `json:"equilibrium_delta_night_k"`
-	CoolingTerms           CoolingTerms  `json:"cooling_terms"`
-	HeldPowerWm2           Num           `json:"held_power_w_m2"` // blackbody power at T_amb where emittance is held constant
-	Sky                    Sky           `json:"sky"`
-	CoolingCurve           []CurvePoint  `json:"cooling_curve"`
-	Sensitivity            []Sensitivity `json:"sensitivity"`
-	SRI                    SRI           `json:"sri"`
+	CoolingPowerWm2        Num          `json:"cooling_power_w_m2"`
+	CoolingPowerNightWm2   Num          `json:"cooling_power_night_w_m2"`
+	EquilibriumDeltaK      Num          `json:"equilibrium_delta_k"`
+	EquilibriumDeltaNightK Num          `json:"equilibrium_delta_night_k"`
+	CoolingTerms           CoolingTerms `json:"cooling_terms"`
+	// EmittanceBasis says whether the emittance data are near-normal or
+	// hemispherical and whether the cooling figures and the SRI were
+	// converted.
+	EmittanceBasis EmittanceBasis `json:"emittance_basis"`
+	HeldPowerWm2   Num            `json:"held_power_w_m2"` // blackbody power at T_amb where emittance is held constant
+	Sky            Sky            `json:"sky"`
+	CoolingCurve   []CurvePoint   `json:"cooling_curve"`
+	Sensitivity    []Sensitivity  `json:"sensitivity"`
+	SRI            SRI            `json:"sri"`
 	// Color is the colour of the reflectance, and of the transmittance
 	// when it was measured (CIE 1931 2°, D65; see docs/color.md).
 	Color Colors `json:"color"`
@@ -245,16 +249,24 @@ func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, err
 		o = spectra.Resolve(s, c.ClosureTol)
 	}
 	sun := c.SolarSpectrum.Weighting()
-	m := &cooling{c: c, sky: sky, sun: sun, g: newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK)}
+	basis := emittanceBasisOf(s, c)
+	// ratio converts near-normal emittance to hemispherical for the
+	// cooling figures and the SRI; 1 when no conversion is asked.
+	ratio := 1.0
+	if r := float64(basis.Ratio); !math.IsNaN(r) {
+		ratio = r
+	}
+	m := &cooling{c: c, sky: sky, sun: sun, g: newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK), basis: basis, ratio: ratio}
 	f, grads, used := computeOptics(o, c)
+	f.EmittanceBasis = basis
 	f.Splices = append([]spectra.SpliceRecord{}, s.Splices...)
 	f.Warnings = append([]string{}, s.Warnings...)
 	m.addCooling(f, o, grads, true)
-	m.addSeries(f, o)
-	addSRI(f, grads)
+	m.addSeries(f, withEmittanceRatio(o, ratio))
+	addSRI(f, grads, ratio)
 	eval := func(o spectra.Optics, lin func(string) float64) map[string]float64 {
 		alpha := float64(f.SolarAbsorptance) + lin("solar_absorptance")
-		eps := float64(f.ThermalEmittance) + lin("thermal_emittance")
+		eps := ratio * (float64(f.ThermalEmittance) + lin("thermal_emittance"))
 		r := m.evaluate(o.A, float64(f.CoolingTerms.SolarAbsorbed)+lin(absorbedSunKey))
 		out := map[string]float64{"equilibrium_delta_k": c.AmbientK - r.eqDay, "equilibrium_delta_night_k": c.AmbientK - r.eqNight}
 		for key, hc := range map[string]float64{"sri_low": WindLow, "sri_medium": WindMedium, "sri_high": WindHigh} {

@@ -231,7 +231,7 @@ func TestSeriesResidual(t *testing.T) {
 				fw := blackbodyFraction(skyWindow.Lo, skyWindow.Hi, h.airK)
 				ew := math.Max(0, math.Min(1, 1-(1-h.sky)/fw))
 				sky := Sky{Model: skyModelClear, AmbientK: h.airK, Window: skyWindow, WindowHemisphericalEmissivity: Num(ew)}
-				st := newCoolGrid(o.A, sky, c.ExchangeBand, h.airK).load(o.A)
+				st := newCoolGrid(o.A, sky, c.ExchangeBand, h.airK).load(o.A, 1)
 				if math.Abs(st.patm-h.patm) > 1e-7 {
 					t.Fatalf("%s hour %d: P_atm %v, table %v", name, i, st.patm, h.patm)
 				}

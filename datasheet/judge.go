@@ -143,6 +143,9 @@ func (j *judge) judge(c Claim) Verdict {
 	v.Label, v.Unit, v.Kind, v.Computed = fig.Label, fig.Unit, spec.kind, fig.Value
 	ma := measuredAngle(m)
 	v.Basis, v.Defaulted = basisWords(spec, cond, stated, c.Basis.AngleDeg, ma)
+	if b, _ := spectra.ParseEmittanceBasis(c.Basis.Emittance); b != spectra.EmittanceUnstated && spec.emittance() {
+		v.Basis += ", " + b.String() + " emittance (stated)"
+	}
 	if cond != m.Conditions && !spec.sameBasis(cond, m.Conditions) {
 		df, err := j.figures(m.Conditions)
 		if d, ok := df.figure(err, c.Figure); ok {
@@ -169,6 +172,9 @@ func (j *judge) judge(c Claim) Verdict {
 	}
 	o := j.resolved(cond.ClosureTol) // for the pitfalls
 	v.Pitfalls = pitfalls(c, fig, spec, f, o, float64(v.Allowed))
+	if p, ok := j.emittancePitfall(c, fig, spec, f, cond); ok {
+		v.Pitfalls = append(v.Pitfalls, p)
+	}
 
 	// A cooling verdict always says over what the emittance is held
 	// constant beyond the data.
@@ -665,4 +671,68 @@ func basisShort(s figureSpec, d Figure, c Conditions) string {
 	}
 	w, _ := s.basisOf(c, nil, false)
 	return w
+}
+
+// emittance reports whether figures of the spec rest on the emittance.
+func (s figureSpec) emittance() bool { return s.thermal || s.window || s.cooling || s.sri }
+
+// illustrativeIndex is the refractive index used to show what a
+// near-normal figure would be on a hemispherical basis when none is stated:
+// a typical polymer or glass (common practice, no source).
+const illustrativeIndex = 1.5
+
+// emittancePitfall names the pitfall emittance-basis when claim c states an
+// emittance basis other than the one figure fig of f rests on, with the
+// figure on both bases where it can be had: the other value by the Fresnel
+// ratio for a smooth dielectric of the stated refractive index (or 1.5,
+// said to be illustrative), recomputed for the cooling figures and the SRI.
+func (j *judge) emittancePitfall(c Claim, fig Figure, spec figureSpec, f *Figures, cond Conditions) (Pitfall, bool) {
+	claimed, _ := spectra.ParseEmittanceBasis(c.Basis.Emittance)
+	if claimed == spectra.EmittanceUnstated || !spec.emittance() {
+		return Pitfall{}, false
+	}
+	eb := f.EmittanceBasis
+	has := eb.Figures
+	if spec.thermal && !spec.sri || spec.window {
+		has = eb.Data // the band figures are never converted
+	}
+	if has == claimed || has == spectra.EmittanceUnstated {
+		return Pitfall{}, false
+	}
+	n, nWords := illustrativeIndex, fmt.Sprintf("n %g, illustrative: state refractive_index for the material's own", illustrativeIndex)
+	if cond.RefractiveIndex.On {
+		n, nWords = cond.RefractiveIndex.V, "n "+fmtG(cond.RefractiveIndex.V)+", stated"
+	}
+	ratio := hemisphericalRatio(n)
+	val := float64(fig.Value)
+	other := math.NaN()
+	switch {
+	case spec.thermal && !spec.sri || spec.window:
+		if claimed == spectra.EmittanceHemispherical {
+			other = val * ratio
+		} else {
+			other = val / ratio
+		}
+	case eb.Data == spectra.EmittanceNearNormal:
+		// Cooling figures and SRI: recomputed with the conversion on (the
+		// claim is hemispherical) or off (the claim is near-normal).
+		alt := cond
+		alt.RefractiveIndex = Optional{}
+		if claimed == spectra.EmittanceHemispherical {
+			alt.RefractiveIndex = On(n)
+		}
+		if af, err := j.figures(alt); err == nil {
+			if x, ok := af.Figure(fig.Key); ok {
+				other = float64(x.Value)
+			}
+		}
+	}
+	k := fig.Kind()
+	text := fmt.Sprintf("The claim is for %s emittance but the figure rests on %s emittance (%s): %s.",
+		claimed, has, eb.From, k.Format(val, fig.Unit))
+	if !math.IsNaN(other) && !math.IsNaN(val) {
+		text = fmt.Sprintf("The claim is for %s emittance but the figure rests on %s emittance (%s): %s %s, about %s %s as a smooth dielectric (Fresnel, %s).",
+			claimed, has, eb.From, k.Format(val, fig.Unit), has, k.Format(other, fig.Unit), claimed, nWords)
+	}
+	return Pitfall{Code: pitfallEmittanceBasis, Text: text}, true
 }

@@ -75,9 +75,13 @@ const sriNote = "SRI (ASTM E1980) is defined for opaque, horizontal or low-slope
 
 // addSRI computes the SRI from the solar absorptance and thermal emittance
 // in f and their gradients.
-func addSRI(f *Figures, grads map[string]gradient) {
-	alpha, eps := float64(f.SolarAbsorptance), float64(f.ThermalEmittance)
-	f.SRI = SRI{SolarAbsorptance: f.SolarAbsorptance, ThermalEmittance: f.ThermalEmittance, Note: sriNote}
+func addSRI(f *Figures, grads map[string]gradient, ratio float64) {
+	alpha, eps := float64(f.SolarAbsorptance), ratio*float64(f.ThermalEmittance)
+	f.SRI = SRI{SolarAbsorptance: f.SolarAbsorptance, ThermalEmittance: Num(eps), Note: sriNote}
+	if ratio != 1 {
+		f.SRI.Note += fmt.Sprintf(" Its thermal emittance is the near-normal %.3f converted to hemispherical (× %.3f, a smooth dielectric of n %s).",
+			float64(f.ThermalEmittance), ratio, fmtG(float64(f.EmittanceBasis.RefractiveIndex)))
+	}
 	if t := float64(f.SolarTransmittance); t > 0.01 {
 		f.SRI.Translucent = true
 		f.SRI.Note += fmt.Sprintf(" This sample transmits %.1f %% of sunlight (more than 1 %%): it is not opaque and its SRI is outside the index's definition.", 100*t)
@@ -98,8 +102,8 @@ func addSRI(f *Figures, grads map[string]gradient) {
 		}
 		*w.dst = Num(v)
 		f.Figures = append(f.Figures, Figure{Key: w.key, Label: w.label, Value: Num(v), Band: c.SolarBand, BandUnit: "nm",
-			Weighting: fmt.Sprintf("ASTM E1980, h_c %g W m⁻² K⁻¹; solar absorptance over %s, thermal emittance over %s at %s K",
-				w.hc, bandText(c.SolarBand, "nm"), bandText(c.ThermalBand, "µm"), fmtG(c.TemperatureK)),
+			Weighting: fmt.Sprintf("ASTM E1980, h_c %g W m⁻² K⁻¹; solar absorptance over %s, %s over %s at %s K",
+				w.hc, bandText(c.SolarBand, "nm"), f.EmittanceBasis.short(), bandText(c.ThermalBand, "µm"), fmtG(c.TemperatureK)),
 			Coverage: Num(math.Min(float64(f.SolarCoverage), float64(f.ThermalCoverage)))})
 		if grads == nil || math.IsNaN(v) {
 			continue
@@ -109,6 +113,6 @@ func addSRI(f *Figures, grads map[string]gradient) {
 		const d = 1e-5
 		sa := (SolarReflectanceIndex(alpha+d, eps, w.hc) - SolarReflectanceIndex(alpha-d, eps, w.hc)) / (2 * d)
 		se := (SolarReflectanceIndex(alpha, eps+d, w.hc) - SolarReflectanceIndex(alpha, eps-d, w.hc)) / (2 * d)
-		grads[w.key] = grads["solar_absorptance"].scale(sa).plus(se, grads["thermal_emittance"])
+		grads[w.key] = grads["solar_absorptance"].scale(sa).plus(se*ratio, grads["thermal_emittance"])
 	}
 }

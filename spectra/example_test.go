@@ -37,6 +37,18 @@ func ExampleParse_error() {
 	// Output: white.csv:3: column 2 (R): "0,9x" is not a number
 }
 
+func ExampleSpectrum_MeasurementAt() {
+	in := "# resolution: 8 cm-1\n# emittance: hemispherical\nwavenumber_cm-1,R\n4000,0.1\n400,0.1\n"
+	s, _ := spectra.Parse(strings.NewReader(in), "ftir.csv")
+	g := &s.Segments[0]
+	m, _ := s.MeasurementAt(g, 10000)
+	fmt.Printf("%s: resolution %s (%.0f nm at 10 µm), %s emittance\n", m.Source, m.Resolution, m.Resolution.Width(10000), m.Emittance)
+	fmt.Println("default for a nm axis:", spectra.DefaultResolution("nm"))
+	// Output:
+	// ftir.csv: resolution 8 cm-1 (80 nm at 10 µm), hemispherical emittance
+	// default for a nm axis: 2 nm
+}
+
 // A file with R and A but no T: T is derived as 1 − R − A, and the
 // origins say so.
 func ExampleResolve_origin() {

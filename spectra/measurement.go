@@ -21,8 +21,10 @@ type Measurement struct {
 	Resolution       Resolution
 	ResolutionStated bool
 	// Emittance is the basis the file's "emittance" metadata states;
-	// EmittanceUnstated when it states none.
-	Emittance EmittanceBasis
+	// EmittanceUnstated when it states none. EmittanceFrom says where it
+	// was stated when not in the file (a material's front matter, say).
+	Emittance     EmittanceBasis
+	EmittanceFrom string
 }
 
 // Resolution is the spectral resolution of a measurement: the width of one

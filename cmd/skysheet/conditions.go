@@ -98,6 +98,7 @@ func conditionFlags(fs *flag.FlagSet, c *datasheet.Conditions) {
 	fs.Var(bandFlag{&c.ExchangeBand, "µm"}, "exchange-band", "thermal exchange band of the cooling integrals in µm, LO,HI")
 	fs.Var(optionalFlag{&c.HourOfDay}, "hour-of-day", "add the hour-of-day term of the clear-sky correlation at this `HOUR` (0–24 from local midnight), or off")
 	fs.Var(optionalFlag{&c.StationPressure}, "station-pressure", "add the station-pressure term of the clear-sky correlation at this pressure in `HPA`, or off")
+	fs.Var(optionalFlag{&c.RefractiveIndex}, "refractive-index", "convert near-normal emittance data to hemispherical for the cooling figures and the SRI, as a smooth dielectric of index `N` (Fresnel), or off")
 	fs.TextVar(&c.Weather, "weather", c.Weather, "hourly weather series `FILE` (docs/format.md) to run the hourly cooling model over")
 	fs.TextVar(&c.Sky, "sky", c.Sky, "sky of the cooling figures: a spectral sky `FILE` with a T column (zenith atmospheric transmittance), or clear two-band")
 }

@@ -204,6 +204,9 @@ func printFigures(w io.Writer, files []string, f *datasheet.Figures) {
 		fmt.Fprintf(w, "R, T and A: %s\n", o)
 	}
 	printSplices(w, f.Splices)
+	if !math.IsNaN(float64(f.ThermalEmittance)) {
+		fmt.Fprintf(w, "Emittance: %s\n", f.EmittanceBasis.Words())
+	}
 	printCooling(w, f)
 	if f.Stack != nil {
 		printStack(w, f.Stack, f)

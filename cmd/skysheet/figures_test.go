@@ -156,6 +156,28 @@ func TestFiguresJSONKeys(t *testing.T) {
 	}
 }
 
+// TestFiguresRefractiveIndex checks --refractive-index: the report says
+// the emittance basis and the conversion, and the cooling figures change.
+func TestFiguresRefractiveIndex(t *testing.T) {
+	_, plain, _ := runCLI(figuresArgs()...)
+	code, out, errs := runCLI(figuresArgs("--refractive-index", "1.5")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !strings.Contains(plain, "Emittance: near-normal (default for FTIR data)\n") {
+		t.Errorf("report without conversion does not state the basis")
+	}
+	for _, want := range []string{"Emittance: near-normal (default for FTIR data); cooling figures and SRI converted to hemispherical as a smooth dielectric of n 1.5 (× 0.946)",
+		"hemispherical emittance (from near-normal, n 1.5)"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("report lacks %q", want)
+		}
+	}
+	if code, _, errs := runCLI(figuresArgs("--refractive-index", "0.5")...); code != 2 || !strings.Contains(errs, "refractive index 0.5") {
+		t.Errorf("refractive index 0.5: exit %d, %s", code, errs)
+	}
+}
+
 func TestFiguresHumanOutput(t *testing.T) {
 	code, out, errs := runCLI(figuresArgs("--dew-point", "-20")...)
 	if code != 0 {

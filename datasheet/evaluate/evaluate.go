@@ -201,6 +201,13 @@ func evaluate(lib *library.Library, lm *library.Material) (*Material, error) {
 		return nil, err
 	}
 	c := lm.Conditions
+	if b := lm.Front.Measured.Emittance; b != spectra.EmittanceUnstated {
+		for i := range s.Measurements {
+			if m := &s.Measurements[i]; m.Emittance == spectra.EmittanceUnstated {
+				m.Emittance, m.EmittanceFrom = b, lm.Path
+			}
+		}
+	}
 	o := spectra.Resolve(s, c.ClosureTol)
 	f, err := datasheet.Compute(s, o, c)
 	if err != nil {

@@ -310,6 +310,39 @@ func TestReaderWarnings(t *testing.T) {
 	}
 }
 
+// TestEmittanceFrontMatter checks that a material's front matter states
+// the emittance basis of files that state none, that a file's own
+// statement wins, and that a bad basis is a content error naming the file.
+func TestEmittanceFrontMatter(t *testing.T) {
+	for _, tt := range []struct {
+		name, measured, thermal string
+		want                    spectra.EmittanceBasis
+		from                    string
+	}{
+		{"default", "{angle: 8°}", flatThermal, spectra.EmittanceNearNormal, "default for FTIR data"},
+		{"front matter", "{angle: 8°, emittance: hemispherical}", flatThermal, spectra.EmittanceHemispherical, "stated in content/flat.md"},
+		{"file wins", "{emittance: hemispherical}", "# emittance: near-normal\n" + flatThermal, spectra.EmittanceNearNormal, "stated in content/flat/thermal.csv"},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			fsys := baseFS()
+			fsys["content/flat.md"].Data = []byte(strings.Replace(flatMaterial, "measured: {angle: 8°}", "measured: "+tt.measured, 1))
+			fsys["content/flat/thermal.csv"].Data = []byte(tt.thermal)
+			ms, err := All(load(t, fsys), Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if b := ms[0].Figures.EmittanceBasis; b.Data != tt.want || b.From != tt.from {
+				t.Errorf("basis %+v, want %v %s", b, tt.want, tt.from)
+			}
+		})
+	}
+	fsys := baseFS()
+	fsys["content/flat.md"].Data = []byte(strings.Replace(flatMaterial, "measured: {angle: 8°}", "measured: {emittance: sideways}", 1))
+	if _, err := library.Load(fsys); err == nil || !strings.Contains(err.Error(), "content/flat.md") || !strings.Contains(err.Error(), "want near-normal or hemispherical") {
+		t.Errorf("bad basis: %v", err)
+	}
+}
+
 // TestPlausibilityWarnings checks that the readers' plausibility warnings
 // are warnings of the material, in its figures and its summary, and stop
 // nothing.

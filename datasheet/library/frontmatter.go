@@ -11,6 +11,7 @@ import (
 	"gopkg.in/yaml.v3"
 
 	"skysheet/datasheet"
+	"skysheet/spectra"
 	"skysheet/spectra/msg"
 )
 
@@ -64,7 +65,8 @@ type SpectrumRef struct {
 	Notes      string `yaml:"notes" json:"notes,omitempty"`
 }
 
-// Measured describes how a material was measured. All fields are free text.
+// Measured describes how a material was measured. All fields but
+// Emittance are free text.
 type Measured struct {
 	Date       string `yaml:"date" json:"date,omitempty"`
 	Instrument string `yaml:"instrument" json:"instrument,omitempty"`
@@ -72,6 +74,9 @@ type Measured struct {
 	Reference  string `yaml:"reference" json:"reference,omitempty"` // reference standard
 	Operator   string `yaml:"operator" json:"operator,omitempty"`
 	Notes      string `yaml:"notes" json:"notes,omitempty"`
+	// Emittance is the basis of the infrared data, near-normal or
+	// hemispherical, for the files that do not state their own.
+	Emittance spectra.EmittanceBasis `yaml:"emittance" json:"emittance,omitempty"`
 }
 
 // figureKeys are the figures a claim may name.

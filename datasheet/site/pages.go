@@ -20,7 +20,7 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	v := &materialView{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
 		Summary: fm.Summary, License: fm.License, Inputs: m.Inputs, Cautions: cautionsOf(f),
 		Conditions: conditionPairs(m.Conditions), Overridden: fm.Conditions.Keys(),
-		Assumptions: f.Assumptions, Closure: closureOf(f), Measured: measuredPairs(fm.Measured), Warnings: m.Warnings}
+		Assumptions: f.Assumptions, Closure: closureOf(f), Measured: measuredPairs(fm.Measured, f), Warnings: m.Warnings}
 	if s := library.Slugify(fm.Category); s != "" {
 		v.Category = link{Name: fm.Category, Href: root + listingDir("category", s) + "index.html"}
 	}

@@ -367,12 +367,23 @@ func closureOf(f *datasheet.Figures) closureView {
 	return v
 }
 
-// measuredPairs lists the measurement details given.
-func measuredPairs(m library.Measured) []pair {
+// measuredPairs lists the measurement details given and, when f has
+// emittance data, the basis of the emittance (beside the angle of
+// incidence when one is given: both say how the sample was seen).
+func measuredPairs(m library.Measured, f *datasheet.Figures) []pair {
 	var ps []pair
+	angle := pair{"Angle of incidence", m.Angle}
+	emittance := pair{"Emittance", ""}
+	if f != nil && !isNaN(f.ThermalEmittance) {
+		emittance.V = f.EmittanceBasis.Words()
+		if strings.TrimSpace(angle.V) != "" {
+			angle = pair{"Angle; emittance", angle.V + "; " + emittance.V}
+			emittance.V = ""
+		}
+	}
 	for _, p := range []pair{
-		{"Date", m.Date}, {"Instrument", m.Instrument}, {"Angle of incidence", m.Angle},
-		{"Reference standard", m.Reference}, {"Operator", m.Operator}, {"Notes", m.Notes},
+		{"Date", m.Date}, {"Instrument", m.Instrument}, angle,
+		{"Reference standard", m.Reference}, {"Operator", m.Operator}, {"Notes", m.Notes}, emittance,
 	} {
 		if strings.TrimSpace(p.V) != "" {
 			ps = append(ps, p)
