@@ -2,6 +2,7 @@ package datasheet_test
 
 import (
 	"fmt"
+	"strings"
 
 	"skysheet/datasheet"
 	"skysheet/spectra"
@@ -36,4 +37,23 @@ func ExampleSkinHeat() {
 	// Output:
 	// day: fabric 310.7 K, into skin 181.2 W/m²
 	// night: fabric 299.4 K, into skin -88.7 W/m²
+}
+
+// A clear film 5 mm thick (k = 0.03 W m⁻¹ K⁻¹) over a grey panel: the
+// optics are the panel's, the non-radiative exchange is halved.
+func ExampleComputeStack() {
+	film, _ := spectra.Parse(strings.NewReader("wavelength_nm,R,T\n250,0,1\n30000,0,1\n"), "film.csv")
+	panel, _ := spectra.Parse(strings.NewReader("wavelength_nm,R\n250,0.8\n2500,0.8\n2600,0.1\n30000,0.1\n"), "panel.csv")
+	st, err := datasheet.ComputeStack([]datasheet.Layer{
+		{Name: "film", Sample: film, Conductor: &datasheet.Conductor{ThicknessM: 0.005, ConductivityWmK: 0.03}},
+		{Name: "panel", Sample: panel},
+	}, datasheet.DefaultConditions())
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	f := st.Figures
+	fmt.Printf("R_sol %.3f, h_eff %.2f W m⁻² K⁻¹, absorbed in the film %.3f\n",
+		float64(f.SolarReflectance), float64(f.Stack.HEffWm2K), float64(f.Stack.Layers[0].SolarAbsorbed))
+	// Output: R_sol 0.800, h_eff 3.00 W m⁻² K⁻¹, absorbed in the film 0.000
 }

@@ -72,6 +72,9 @@ func TestErythemalTransmittance(t *testing.T) {
 		tol             float64
 	}{
 		{"opaque", uvSeries([]float64{250, 450}, []float64{0, 0}), 0, 1, nan, true, 0},
+		// T = 0 over the whole action spectrum (to 400 nm), clear beyond:
+		// the weighting is zero above 400 nm, so nothing erythemal passes.
+		{"opaque in the UV only", uvSeries([]float64{250, 400, 400.001, 2500}, []float64{0, 0, 0.9, 0.9}), 0, 1, nan, true, 0},
 		{"clear", uvSeries([]float64{250, 450}, []float64{1, 1}), 1, 1, 1, false, 1e-12},
 		{"constant 0.05", uvSeries([]float64{280, 400}, []float64{0.05, 0.05}), 0.05, 1, 20, false, 1e-12},
 		{"constant 0.2, sloped grid", uvSeries([]float64{260, 301.3, 333.3, 420}, []float64{0.2, 0.2, 0.2, 0.2}), 0.2, 1, 5, false, 1e-12},

@@ -287,12 +287,15 @@ func (b *builder) materialFiles(m *evaluate.Material, cmps []*library.Comparison
 	if err := m.Figures.WriteCSV(&figCSV); err != nil {
 		return fail(err)
 	}
-	return files{
-		dir + "index.html":   html,
-		dir + "spectrum.csv": csv.Bytes(),
-		dir + "figures.json": append(js, '\n'),
-		dir + "figures.csv":  figCSV.Bytes(),
-		dir + "claims.json":  claims,
-		dir + "source.md":    m.Source,
-	}, nil
+	out, err := b.weatherFiles(m)
+	if err != nil {
+		return nil, err
+	}
+	out[dir+"index.html"] = html
+	out[dir+"spectrum.csv"] = csv.Bytes()
+	out[dir+"figures.json"] = append(js, '\n')
+	out[dir+"figures.csv"] = figCSV.Bytes()
+	out[dir+"claims.json"] = claims
+	out[dir+"source.md"] = m.Source
+	return out, nil
 }
