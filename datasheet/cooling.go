@@ -731,6 +731,9 @@ func (m *cooling) heldUncertainty(a spectra.Series, base coolFigures) map[string
 		}
 		alt := g.load(a, s.k)
 		d := net(alt, c.AmbientK) - net(s, c.AmbientK) // the sun's term does not change
+		if math.Abs(d) < 1e-9 {
+			d = 0 // rounding: the held part cancels (a black sky there)
+		}
 		dDay, dNight = math.Max(dDay, math.Abs(d)), math.Max(dNight, math.Abs(d))
 		if !math.IsNaN(base.eqNight) {
 			dp := net(alt, base.eqNight) - net(s, base.eqNight)
