@@ -472,7 +472,7 @@ func (m *cooling) seriesAssumptions(s *weather.Series, absorbed float64, f *Seri
 		out = append(out, "The conditions' spectral sky is not used over the series: each hour's sky comes from its dew point.")
 	}
 	out = append(out, "The series gives the air temperature, dew point and sun of each hour: the conditions' air temperature, "+
-		"dew point and irradiance apply to the steady-state figures only.")
+		"dew point, irradiance and optional sky terms apply to the steady-state figures only.")
 	if f.Unbalanced > 0 {
 		out = append(out, fmt.Sprintf("In %d hours no surface temperature balances; they are left out of the free-floating figures.", f.Unbalanced))
 	}
