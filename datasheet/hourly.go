@@ -42,6 +42,7 @@ var seriesOptions = hourlyOptions{hourTerm: true, pressureTerm: true, clouds: tr
 type hourResult struct {
 	t          time.Time
 	airK       float64
+	ghi        float64 // global horizontal irradiance, W/m²
 	clearSky   float64 // clear-sky broadband emissivity, with the terms used
 	sky        float64 // with the cloud correction
 	windowHemi float64 // e_w, hemispherical sky emissivity in the window
@@ -155,7 +156,7 @@ func windowHemispherical(eps, airK float64) float64 {
 
 // hour runs the model for one hour of weather.
 func (m *hourlyModel) hour(w weather.Hour) hourResult {
-	r := hourResult{t: w.Time, airK: w.AirC + 273.15}
+	r := hourResult{t: w.Time, airK: w.AirC + 273.15, ghi: w.GlobalWm2}
 	dew := math.Min(w.DewPointC, w.AirC)
 	eps := BerdahlMartin(dew)
 	if m.opt.hourTerm {
@@ -379,7 +380,7 @@ func typicalDay(hours []hourResult, months []SeriesPeriod) TypicalDay {
 		n[k]++
 		sum[k][0] += h.airK - 273.15
 		sum[k][1] += h.power
-		sum[k][3] += h.psun
+		sum[k][3] += h.ghi
 		if !math.IsNaN(h.surfaceK) {
 			nSurf[k]++
 			sum[k][2] += h.surfaceK - 273.15
@@ -471,9 +472,21 @@ func (m *cooling) seriesAssumptions(s *weather.Series, absorbed float64, f *Seri
 		out = append(out, "The conditions' spectral sky is not used over the series: each hour's sky comes from its dew point.")
 	}
 	out = append(out, "The series gives the air temperature, dew point and sun of each hour: the conditions' air temperature, "+
-		"dew point and irradiance apply to the steady-state figures only.")
+		"dew point, irradiance and optional sky terms apply to the steady-state figures only.")
 	if f.Unbalanced > 0 {
 		out = append(out, fmt.Sprintf("In %d hours no surface temperature balances; they are left out of the free-floating figures.", f.Unbalanced))
 	}
 	return out
+}
+
+// Totals returns a copy of f with the totals and the months only: no days,
+// no typical day, no assumptions (catalog.json and the summaries a site
+// keeps of each material carry this; figures.json has everything).
+func (f *SeriesFigures) Totals() *SeriesFigures {
+	if f == nil {
+		return nil
+	}
+	t := *f
+	t.Days, t.TypicalDay, t.Assumptions = []SeriesPeriod{}, TypicalDay{Hours: []TypicalDayPoint{}}, []string{}
+	return &t
 }

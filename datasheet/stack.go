@@ -130,6 +130,8 @@ func ComputeStack(layers []Layer, c Conditions) (*Stacked, error) {
 		rep.Layers = append(rep.Layers, lr)
 	}
 	f.Stack = rep
+	// R and T come from the layers' own by multiple reflection, A from them.
+	f.Origins = Origins{R: "computed from the layers", T: "computed from the layers", A: "derived"}
 	f.Assumptions = append(f.Assumptions, stackAssumptions(layers, c.HWm2K, heff, len(conductors) > 0)...)
 	return &Stacked{Figures: f, Sample: s, Optics: so}, nil
 }

@@ -102,6 +102,9 @@ func TestComputeStackAbsorbedShares(t *testing.T) {
 	if h := float64(f.Stack.HEffWm2K); h != 6 || !strings.Contains(strings.Join(f.Assumptions, " "), "No layer gives a thickness") {
 		t.Errorf("no conducting layer: h_eff %g", h)
 	}
+	if got, want := f.Origins.Text(), "R computed from the layers; T computed from the layers; A derived as A = 1 − R − T"; got != want {
+		t.Errorf("origins %q, want %q", got, want)
+	}
 	if st.Sample.Len() == 0 || !st.Sample.Has(0) {
 		t.Error("the stack's spectrum is empty")
 	}

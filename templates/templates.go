@@ -5,8 +5,8 @@
 // # Templates
 //
 // The *.html files are html/template sources parsed together. Each page is
-// one named template: "index", "datasheet", "listing", "compare" and
-// "review". They share "top" and "bottom" (layout.html), which in turn call
+// one named template: "index", "datasheet", "listing", "compare",
+// "review" and "weather" (a material's figures over a weather series). They share "top" and "bottom" (layout.html), which in turn call
 // the blocks "head-extra", "site-header" and "site-footer", and the pieces
 // "verdict", "claim-detail" and "pitfall" that show a judged claim, and
 // "note-ref", a link from a table heading to the note that explains it. A file in the library's

@@ -808,6 +808,7 @@ func testPhone(t *testing.T, ctx context.Context, srv *httptest.Server, slugs []
 var pageKinds = []string{
 	"index.html",
 	"m/bw-93/index.html",
+	"m/sf-50/weather.html",
 	"materials/by-category/paint/index.html",
 	"compare/white-roof-surfaces/index.html",
 	"review/index.html",

@@ -72,7 +72,7 @@ func TestFiguresClaim(t *testing.T) {
 	}{
 		{"supported on its stated basis", []string{"--claim", "solar_reflectance=0.95±0.005", "--solar-band", "280,4000"}, bx7, 0,
 			[]string{"[=] supported: solar_reflectance 0.95 ± 0.005", "basis: solar band 280–4000 nm (stated)",
-				"On the default basis (280–2500 nm", "1 claims: 1 supported", "Result: consistent."}},
+				"On the default basis (280–2500 nm", "1 claim: 1 supported", "Result: consistent."}},
 		{"not supported on the default basis", []string{"--claim", "solar_reflectance=0.95±0.005"}, bx7, 1,
 			[]string{"[≠] not supported: solar_reflectance 0.95 ± 0.005", "0.9556", "Result: inconsistent"}},
 		{"percent for a fraction", []string{"--claim", "solar_reflectance=96±1"}, px2, 1,

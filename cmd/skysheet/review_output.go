@@ -96,8 +96,8 @@ func writeMaterialText(ew *errWriter, m reviewMaterial, lib string) {
 // writeResultText ends a report: the count of claims and the result.
 func writeResultText(ew *errWriter, r *reviewReport) {
 	c := r.Counts
-	ew.printf("%d claims: %d supported, %d not supported, %d cannot be checked.\n",
-		c.Claims, c.Supported, c.NotSupported, c.CannotCheck)
+	ew.printf("%s: %d supported, %d not supported, %d cannot be checked.\n",
+		plural(c.Claims, "claim"), c.Supported, c.NotSupported, c.CannotCheck)
 	switch {
 	case r.OK:
 		ew.printf("Result: consistent.\n")

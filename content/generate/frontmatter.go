@@ -22,6 +22,7 @@ type material struct {
 	files       []fileSpec
 	measured    measured
 	closureTol  float64 // a per-material closure tolerance, or 0 for the library's
+	weather     string  // a demo weather series under content/weather/ ("inland-dry.csv"), or ""
 	claims      []claim
 	body        string
 	model       model
@@ -130,8 +131,16 @@ func (m *material) markdown() []byte {
 	w("  reference: %s\n", yamlString(m.measured.reference))
 	w("  operator: %s\n", yamlString(m.measured.operator))
 	w("  notes: %s\n", yamlString(m.measured.notes))
+	var conds []string
 	if m.closureTol > 0 {
-		w("conditions: {closure_tolerance: %s}\n", yamlNumber(m.closureTol))
+		conds = append(conds, "closure_tolerance: "+yamlNumber(m.closureTol))
+	}
+	if m.weather != "" {
+		// Relative to the Markdown file, which sits in content/KIND/.
+		conds = append(conds, "weather: "+yamlString("../weather/"+m.weather))
+	}
+	if len(conds) > 0 {
+		w("conditions: {%s}\n", strings.Join(conds, ", "))
 	}
 	if len(m.claims) > 0 {
 		w("claims:\n")

@@ -313,7 +313,7 @@ func sf50() material {
 	uv := withMeta(uvFile("Lumaris SF-50 roll 12, piece 4", "2026-06-10", "R", "T"), "u_R", "0.3 %")
 	ir := irMicrons("Lumaris SF-50 roll 12, piece 4", "2026-06-11", "R", "T")
 	return material{
-		path:  "films/sf-50.md",
+		path: "films/sf-50.md", weather: "inland-dry.csv",
 		title: "Lumaris SF-50 silvered polyester film", maker: "Lumaris Films (invented)",
 		productCode: "SF-50", category: "film", tags: []string{"film", "polyester", "silver", "metal-backed"},
 		summary: "50 µm polyester film with a silver back mirror, laminated face up (invented product, synthetic spectra).",
@@ -386,7 +386,7 @@ func qlse3() material {
 	ir := irMicrons("QL-SE3 wafer 2", "2026-08-19", "R", "u_R")
 	ir.uR = func(nm float64) float64 { return 0.004 + 0.012*rise(nm, 18000, 1500) }
 	return material{
-		path:  "emitters/ql-se3.md",
+		path: "emitters/ql-se3.md", weather: "inland-dry.csv",
 		title: "QL-SE3 window-selective emitter (lab prototype)", lab: labName,
 		productCode: "QL-SE3", category: "emitter", tags: []string{"selective", "multilayer", "silver", "metal-backed", "prototype"},
 		summary: "Oxide-like and nitride-like layers on silver that emit mainly in the 8–13 µm window (invented prototype, synthetic spectra).",

@@ -60,7 +60,8 @@ type Options struct {
 // Library evaluates every material of lib, Workers at a time. When each is
 // not nil it is called with every evaluated material, from the worker
 // that evaluated it, as soon as it is done; calls may run at the same
-// time. Only the material's Summary is kept afterwards.
+// time. Only the material's Summary is kept afterwards (of figures over a
+// weather series, only the totals and months).
 //
 // It returns the summaries of the materials that were evaluated (and
 // whose callback succeeded), in library order. The error, if any, is a
@@ -90,6 +91,12 @@ func Library(lib *library.Library, opt Options, each func(*Material) error) ([]*
 				}
 				if err == nil {
 					s := m.Summary // a copy: m and its spectra can go
+					if f := s.Figures; f != nil && f.Weather != nil {
+						// Of a weather series, keep the totals and months.
+						g := *f
+						g.Weather = f.Weather.Totals()
+						s.Figures = &g
+					}
 					sums[i] = &s
 				}
 				errs[i] = err

@@ -88,6 +88,9 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	if err != nil {
 		return nil, err
 	}
+	if w := f.Weather; w != nil {
+		v.Series = &seriesLine{Text: seriesSummary(w), Href: seriesPage}
+	}
 	v.Downloads = []link{
 		{Name: "spectrum.csv", Href: "spectrum.csv", Note: "the spectrum, normalised to the neutral column format"},
 		{Name: "figures.json", Href: "figures.json", Note: fmt.Sprintf("every figure with its basis (schema %d)", f.Schema)},
@@ -745,6 +748,7 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 		}
 		v.Rows = append(v.Rows, r)
 	}
+	v.Rows = append(v.Rows, seriesRows(ms)...)
 	v.Rows = append(v.Rows, compareColors(ms)...)
 	cond := compareRow{Label: "Conditions"}
 	for _, m := range ms {

@@ -84,16 +84,17 @@ func Render(lib *library.Library, opt Options, out Writer) error {
 // keptFigures returns what the pages built after the datasheets need of
 // f: the headline numbers, the notes and colours, and the figures of the
 // material tables and colour charts (every figure when a comparison lists
-// the material). The cooling curve, the sensitivities, the sky, the
-// weather series, the assumptions, the provenance and the rest stay in the
-// material's figures.json.
+// the material), and the weather series' figures that catalog.json and the
+// comparisons give. The cooling curve, the sensitivities, the sky, the
+// assumptions, the provenance and the rest stay in the material's
+// figures.json.
 func keptFigures(f *datasheet.Figures, all bool) *datasheet.Figures {
 	if f == nil {
 		return nil
 	}
 	k := *f
 	k.Assumptions, k.Splices, k.CoolingCurve, k.Sensitivity, k.Cautions = nil, nil, nil, nil, nil
-	k.Sky, k.Provenance, k.Weather, k.Stack = datasheet.Sky{}, datasheet.Provenance{}, nil, nil
+	k.Sky, k.Provenance, k.Stack = datasheet.Sky{}, datasheet.Provenance{}, nil
 	if !all {
 		k.Figures = nil
 		for _, x := range f.Figures {
@@ -325,12 +326,15 @@ func (b *builder) materialFiles(m *evaluate.Material, cmps []*library.Comparison
 	if err := m.Figures.WriteCSV(&figCSV); err != nil {
 		return fail(err)
 	}
-	return files{
-		dir + "index.html":   html,
-		dir + "spectrum.csv": csv.Bytes(),
-		dir + "figures.json": append(js, '\n'),
-		dir + "figures.csv":  figCSV.Bytes(),
-		dir + "claims.json":  claims,
-		dir + "source.md":    m.Source,
-	}, nil
+	out, err := b.weatherFiles(m)
+	if err != nil {
+		return nil, err
+	}
+	out[dir+"index.html"] = html
+	out[dir+"spectrum.csv"] = csv.Bytes()
+	out[dir+"figures.json"] = append(js, '\n')
+	out[dir+"figures.csv"] = figCSV.Bytes()
+	out[dir+"claims.json"] = claims
+	out[dir+"source.md"] = m.Source
+	return out, nil
 }

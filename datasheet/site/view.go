@@ -23,6 +23,7 @@ type page struct {
 	L         *listingView
 	C         *compareView
 	R         *reviewView
+	W         *weatherView
 }
 
 type siteInfo struct {
@@ -112,6 +113,7 @@ type materialView struct {
 	Thresholds                                             *thresholds // of coverage, when a figure is partial or not given
 	Closure                                                closureView
 	Charts                                                 []chartView
+	Series                                                 *seriesLine // figures over a weather series, if any
 	Downloads                                              []link
 	Cautions                                               []string
 	Comparisons                                            []link
