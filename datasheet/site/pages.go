@@ -823,6 +823,9 @@ type catalogEntry struct {
 	// Headline holds the figures of the material tables, key to value
 	// (null when not computed); every figure is in FiguresFile.
 	Headline map[string]datasheet.Num `json:"headline"`
+	// Weather holds the totals and months of the material's weather
+	// series, when its conditions name one (every day is in FiguresFile).
+	Weather *datasheet.SeriesFigures `json:"weather,omitempty"`
 	// Stack lists the layers, top first, of a material computed as a
 	// stack; absent for a measured material.
 	Stack []catalogLayer `json:"stack,omitempty"`
@@ -879,6 +882,11 @@ func (b *builder) catalog(ms []*evaluate.Summary) ([]byte, error) {
 			Source: dir + "source.md", Inputs: m.Inputs, Claims: catalogClaims(m.Verdicts), Headline: map[string]datasheet.Num{}}
 		for _, col := range tableFigures {
 			e.Headline[col.Key] = figureOf(m.Figures, col.Key).Value
+		}
+		if w := m.Figures.Weather; w != nil {
+			totals := *w
+			totals.Days, totals.TypicalDay = nil, datasheet.TypicalDay{}
+			e.Weather = &totals
 		}
 		if e.Tags == nil {
 			e.Tags = []string{}

@@ -55,15 +55,13 @@ func TestSeriesPages(t *testing.T) {
 	var cat struct {
 		Materials []struct {
 			Slug    string `json:"slug"`
-			Figures struct {
-				Weather *struct {
-					Series string            `json:"series"`
-					SHA256 string            `json:"sha256"`
-					Energy float64           `json:"energy_kwh_m2"`
-					Days   []json.RawMessage `json:"days"`
-					Months []json.RawMessage `json:"months"`
-				} `json:"weather"`
-			} `json:"figures"`
+			Weather *struct {
+				Series string            `json:"series"`
+				SHA256 string            `json:"sha256"`
+				Energy float64           `json:"energy_kwh_m2"`
+				Days   []json.RawMessage `json:"days"`
+				Months []json.RawMessage `json:"months"`
+			} `json:"weather"`
 		} `json:"materials"`
 	}
 	if err := json.Unmarshal(out["catalog.json"], &cat); err != nil {
@@ -71,7 +69,7 @@ func TestSeriesPages(t *testing.T) {
 	}
 	n := 0
 	for _, m := range cat.Materials {
-		w := m.Figures.Weather
+		w := m.Weather
 		if w == nil {
 			continue
 		}
