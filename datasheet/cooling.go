@@ -39,6 +39,10 @@ type CoolingTerms struct {
 	HeldShare Num `json:"held_share"`
 	// HeldEmittedWm2 is what the sample emits at T_amb over the held part.
 	HeldEmittedWm2 Num `json:"held_emitted_w_m2"`
+	// HeldUncertainty is, by figure key, the standard uncertainty of
+	// each cooling figure from the held-constant extrapolation (see
+	// heldUncertainty); empty when nothing is held.
+	HeldUncertainty map[string]Num `json:"held_uncertainty"`
 	// HeldBands are the parts of the exchange band where the emittance is
 	// held constant, in nm (written in µm: held_bands_um).
 	HeldBands []spectra.Interval `json:"-"`
@@ -169,6 +173,10 @@ type coolSpan struct {
 	left, right lc      // emittance at the two ends, seen from inside
 	skyL, skyR  float64 // hemispherical sky emissivity at the two ends
 	held        bool    // the emittance is held constant here
+	// fixed, when set, replaces the held value (the extrapolation's
+	// alternatives, see heldUncertainty).
+	fixed    float64
+	hasFixed bool
 }
 
 // coolGrid is the integration grid of the exchange band for one sample's
@@ -352,6 +360,9 @@ func (g *coolGrid) load(a spectra.Series, k float64) *coolState {
 	for _, sp := range g.spans {
 		d := (g.nodes[sp.a+1] - g.nodes[sp.a]) / 2
 		el, er := k*sp.left.eval(a), k*sp.right.eval(a)
+		if sp.hasFixed {
+			el, er = sp.fixed, sp.fixed
+		}
 		s.wrad[sp.a] += d * el
 		s.wrad[sp.a+1] += d * er
 		s.patm += d * (el*sp.skyL*g.bAmb[sp.a] + er*sp.skyR*g.bAmb[sp.a+1])
@@ -635,7 +646,7 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 	f.EquilibriumDeltaNightK = Num(c.AmbientK - r.eqNight)
 	f.CoolingTerms = CoolingTerms{RadiatedWm2: Num(r.prad), AtmosphericWm2: Num(r.patm), SolarWm2: Num(r.psun),
 		SolarAbsorbed: Num(alpha), SolarAbsorbedCoverage: Num(sa.Coverage), EquilibriumK: Num(r.eqDay), EquilibriumNightK: Num(r.eqNight),
-		HeldShare: Num(math.NaN()), HeldEmittedWm2: Num(math.NaN()), HeldBands: []spectra.Interval{}}
+		HeldShare: Num(math.NaN()), HeldEmittedWm2: Num(math.NaN()), HeldBands: []spectra.Interval{}, HeldUncertainty: map[string]Num{}}
 	f.HeldPowerWm2 = Num(math.NaN())
 	if m.g != nil {
 		f.HeldPowerWm2 = Num(m.g.heldPower)
@@ -643,6 +654,9 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 		f.CoolingTerms.HeldEmittedWm2 = Num(r.state.heldEmit)
 		for _, h := range m.g.held {
 			f.CoolingTerms.HeldBands = append(f.CoolingTerms.HeldBands, spectra.Interval{Lo: h[0], Hi: h[1]})
+		}
+		if full {
+			f.CoolingTerms.HeldUncertainty = m.heldUncertainty(o.A, r)
 		}
 	}
 	cov := 0.0 // share of the band's blackbody power where the emittance is measured
@@ -682,6 +696,64 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 	}
 	f.Sensitivity = m.sensitivity(o.A, alpha, r)
 	f.Assumptions = append(f.Assumptions, m.assumptions(r, sa)...)
+}
+
+// heldAlternatives are the emittances the extrapolation beyond the data is
+// compared with: most coatings, paints and polymers are close to black
+// beyond 25 µm (common practice, no source).
+var heldAlternatives = []float64{0.9, 1}
+
+// heldUncertainty returns the standard uncertainty of each cooling figure
+// from holding the nearest measured emittance constant beyond the data:
+// the figure is recomputed with the held part at each of heldAlternatives
+// instead, and the largest change a is taken as the half-width of a
+// rectangular distribution, u = a/√3 (JCGM 100:2008 4.3.7, from memory).
+// The powers are recomputed exactly (they are linear in ε); the equilibria
+// are moved by the change of P_net at the equilibrium over ∂P_net/∂T_s
+// there, which saves the root searches. The map is empty when nothing is
+// held.
+func (m *cooling) heldUncertainty(a spectra.Series, base coolFigures) map[string]Num {
+	out := map[string]Num{}
+	if m.g == nil || len(m.g.held) == 0 || base.state == nil {
+		return out
+	}
+	c := m.c
+	s := base.state
+	net := func(st *coolState, t float64) float64 { return st.prad(t) - st.patm }
+	var dDay, dNight, dEqDay, dEqNight float64
+	for _, e := range heldAlternatives {
+		g := *m.g
+		g.spans = append([]coolSpan(nil), m.g.spans...)
+		for i := range g.spans {
+			if g.spans[i].held {
+				g.spans[i].fixed, g.spans[i].hasFixed = e, true
+			}
+		}
+		alt := g.load(a, s.k)
+		d := net(alt, c.AmbientK) - net(s, c.AmbientK) // the sun's term does not change
+		if math.Abs(d) < 1e-9 {
+			d = 0 // rounding: the held part cancels (a black sky there)
+		}
+		dDay, dNight = math.Max(dDay, math.Abs(d)), math.Max(dNight, math.Abs(d))
+		if !math.IsNaN(base.eqNight) {
+			dp := net(alt, base.eqNight) - net(s, base.eqNight)
+			dEqNight = math.Max(dEqNight, math.Abs(dp/s.slope(base.eqNight, c.HWm2K)))
+		}
+		if !math.IsNaN(base.eqDay) {
+			dp := net(alt, base.eqDay) - net(s, base.eqDay)
+			dEqDay = math.Max(dEqDay, math.Abs(dp/s.slope(base.eqDay, c.HWm2K)))
+		}
+	}
+	set := func(key string, v, a float64) {
+		if !math.IsNaN(v) {
+			out[key] = Num(a / math.Sqrt(3))
+		}
+	}
+	set("cooling_power_w_m2", base.day, dDay)
+	set("cooling_power_night_w_m2", base.night, dNight)
+	set("equilibrium_delta_k", base.eqDay, dEqDay)
+	set("equilibrium_delta_night_k", base.eqNight, dEqNight)
+	return out
 }
 
 // minSunCoverage is the share of the solar spectrum's power over

@@ -3,6 +3,7 @@ package datasheet
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -426,5 +427,57 @@ func TestAbsorbedSunlight(t *testing.T) {
 		if !strings.Contains(string(b), k) {
 			t.Errorf("cooling_terms JSON lacks %s: %s", k, b)
 		}
+	}
+}
+
+// TestHeldUncertainty checks the extrapolation's uncertainty against the
+// figures recomputed from data that extend over the held part explicitly
+// with emittance 0.9 and 1 (the alternatives), taking the largest change
+// as the half-width of a rectangular distribution (JCGM 100:2008 4.3.7,
+// from memory): exactly for the powers, within 3 % for the equilibria
+// (linearised at the equilibrium).
+func TestHeldUncertainty(t *testing.T) {
+	// A spectral sky that lets some of the held part (25–100 µm) through,
+	// so that the powers depend on it too (under the two-band sky it is
+	// black there).
+	const head = "wavelength_um,R\n0.28,0.9\n2.5,0.9\n2.5001,0.25\n25,0.25\n"
+	c := DefaultConditions()
+	c.Sky = SkyChoice{File: "sky.csv", Spectrum: mustParse(t, "wavelength_um,T\n2,0.3\n200,0.3\n", "sky.csv")}
+	base, err := compute(mustParse(t, head, "b.csv"), c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	alt := func(e float64) *Figures {
+		f, err := compute(mustParse(t, head+fmt.Sprintf("25.000001,%g\n100,%g\n", 1-e, 1-e), "a.csv"), c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return f
+	}
+	a9, a10 := alt(0.9), alt(1)
+	for _, tt := range []struct {
+		key string
+		tol float64 // relative
+	}{
+		{"cooling_power_w_m2", 1e-4}, {"cooling_power_night_w_m2", 1e-4},
+		{"equilibrium_delta_k", 0.03}, {"equilibrium_delta_night_k", 0.03},
+	} {
+		x, _ := base.Figure(tt.key)
+		y9, _ := a9.Figure(tt.key)
+		y10, _ := a10.Figure(tt.key)
+		want := math.Max(math.Abs(float64(y9.Value-x.Value)), math.Abs(float64(y10.Value-x.Value))) / math.Sqrt(3)
+		got, ok := base.CoolingTerms.HeldUncertainty[tt.key]
+		t.Logf("%s: %.5g, from the extended data %.5g (%v, %v, %v)", tt.key, float64(got), want, x.Value, y9.Value, y10.Value)
+		if !ok || !(want > 0) || math.Abs(float64(got)-want) > tt.tol*want {
+			t.Errorf("%s: held uncertainty %v (present %v), want %.6g", tt.key, got, ok, want)
+		}
+	}
+	// Data over the whole exchange band: nothing is held, no uncertainty.
+	full, err := compute(constSample(0.9, 250, 100000), c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n := len(full.CoolingTerms.HeldUncertainty); n != 0 {
+		t.Errorf("nothing held, yet %d held uncertainties", n)
 	}
 }

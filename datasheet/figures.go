@@ -277,6 +277,11 @@ func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, err
 	addUncertainty(f, s, o, grads, c.ClosureTol, eval)
 	addModelNotes(f, o, c)
 	applyCoverage(f)
+	for key := range f.CoolingTerms.HeldUncertainty {
+		if x, ok := f.Figure(key); !ok || math.IsNaN(float64(x.Value)) {
+			delete(f.CoolingTerms.HeldUncertainty, key) // the figure is not given
+		}
+	}
 	addColor(f, s, o) // after the coverage rule: colours have their own
 	f.Cautions = append([]string(nil), cautions...)
 	f.Provenance = provenanceOf(s, f, used)

@@ -272,6 +272,14 @@ func printCooling(w io.Writer, f *datasheet.Figures) {
 	if len(t.HeldBands) > 0 {
 		fmt.Fprintf(w, "  Emittance held constant beyond the data over %s: %s of blackbody power (%s of the band).\n",
 			fmtBands(t.HeldBands), fmtUnit(f.HeldPowerWm2, "W/m²"), fmtPercent(t.HeldShare))
+		u := t.HeldUncertainty
+		if p, ok := u["cooling_power_night_w_m2"]; ok {
+			fmt.Fprintf(w, "  With 0.9 to 1 there instead (standard uncertainty of the extrapolation): ±%s at night", fmtUnit(p, "W/m²"))
+			if d, ok := u["equilibrium_delta_night_k"]; ok {
+				fmt.Fprintf(w, ", ±%s on the night equilibrium", fmtUnit(d, "K"))
+			}
+			fmt.Fprintln(w, ".")
+		}
 	}
 	if len(f.Sensitivity) > 0 {
 		fmt.Fprintln(w, "\nSensitivity (change of the figures when one condition changes):")

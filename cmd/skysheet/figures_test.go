@@ -189,7 +189,7 @@ func TestFiguresHumanOutput(t *testing.T) {
 		"Solar Reflectance Index", "opaque, horizontal or low-sloped",
 		"Sensitivity", "dew point +5 °C",
 		"u noise", "u together", "u worst", // the white data give u_R
-		"held constant", "Cautions:", "not a certification",
+		"held constant", "With 0.9 to 1 there instead (standard uncertainty of the extrapolation): ±", "Cautions:", "not a certification",
 		"cooling: air 300 K, dew point -20 °C, sun 1000 W/m², h 6 W m⁻² K⁻¹, exchange band 2.5–100 µm, sky clear two-band",
 	} {
 		if !strings.Contains(out, want) {
