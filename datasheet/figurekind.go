@@ -116,7 +116,7 @@ func (k Kind) FormatSigned(x float64, unit string) string {
 // allConds are every condition a figure may rest on, in the order a
 // verdict's basis names them, for a figure the table below does not know.
 var allConds = []condition{condSolarBand, condSolarSpectrum, condThermalBand, condWindowBand, condTemperature,
-	condSky, condDewPoint, condHour, condPressure, condAmbient, condH, condIrradiance, condExchangeBand}
+	condSky, condDewPoint, condHour, condPressure, condAmbient, condH, condIrradiance, condExchangeBand, condRefractive}
 
 // figureSpec is how claims of one figure are judged.
 type figureSpec struct {

@@ -511,3 +511,15 @@ func TestSRITranslucentPitfall(t *testing.T) {
 		}
 	}
 }
+
+// TestAllConds checks that the conditions of a figure the kind table does
+// not know include every condition some known figure rests on.
+func TestAllConds(t *testing.T) {
+	for key, s := range figureSpecs {
+		for _, c := range s.conds {
+			if !slices.Contains(allConds, c) {
+				t.Errorf("%s rests on %s, which allConds lacks", key, c.key())
+			}
+		}
+	}
+}

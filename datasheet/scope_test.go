@@ -117,6 +117,12 @@ func TestCoverageGateCooling(t *testing.T) {
 			if tc.wantNull && !strings.Contains(x.Reason, "of the blackbody power at 300 K over 2.5–25 µm") {
 				t.Errorf("%s: reason %q", key, x.Reason)
 			}
+			// The coverage reported is the deciding share: the data
+			// (2.6–25 µm) against Planck's law at 300 K over 2.5–25 µm,
+			// not the 84 % of the whole exchange band to 100 µm.
+			if want := 1 - planckShare(2.5, 2.6, 25, 300); !tc.wantNull && math.Abs(float64(x.Coverage)-want) > 2e-3 {
+				t.Errorf("to %g µm: %s coverage %g, Planck's law gives %g", tc.toUM, key, x.Coverage, want)
+			}
 		}
 		if tc.wantNull != (len(f.CoolingCurve) == 0) || tc.wantNull != math.IsNaN(float64(f.CoolingPowerNightWm2)) {
 			t.Errorf("to %g µm: curve of %d points, night power %g", tc.toUM, len(f.CoolingCurve), f.CoolingPowerNightWm2)
