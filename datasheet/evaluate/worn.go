@@ -50,15 +50,33 @@ func wearing(lib *library.Library) *wearPlan {
 			if _, done := p.skins[sk.Slug]; done {
 				continue
 			}
-			m, err := evaluate(lib, sk)
+			o, err := opticsOf(lib, sk)
 			if err != nil {
 				p.skins[sk.Slug] = skinOptics{problem: fmt.Sprintf("the skin-like surface %s could not be evaluated", sk.Slug)}
 				continue
 			}
-			p.skins[sk.Slug] = skinOptics{o: m.Optics}
+			p.skins[sk.Slug] = skinOptics{o: o}
 		}
 	}
 	return p
+}
+
+// opticsOf returns the resolved optics of lm: of a measured sample read
+// and resolved without computing its figures (the library's own pass
+// computes those), of a stack through its evaluation.
+func opticsOf(lib *library.Library, lm *library.Material) (spectra.Optics, error) {
+	if lm.Stack != nil {
+		m, err := evaluate(lib, lm)
+		if err != nil {
+			return spectra.Optics{}, err
+		}
+		return m.Optics, nil
+	}
+	s, _, err := lib.ReadSample(lm)
+	if err != nil {
+		return spectra.Optics{}, err
+	}
+	return spectra.Resolve(s, lm.Conditions.ClosureTol), nil
 }
 
 // of returns m's figures as a textile in each comparison that asks for
