@@ -112,9 +112,6 @@ func loadSky(c *datasheet.Conditions, limit int64) error {
 		c.Sky.Spectrum = nil
 		return nil
 	}
-	if limit <= 0 {
-		limit = defaultMaxFileSize
-	}
 	data, err := readInputFile(c.Sky.File, limit)
 	if err != nil {
 		return fmt.Errorf("sky: %w", err)
@@ -133,9 +130,6 @@ func loadWeather(c *datasheet.Conditions, limit int64) error {
 	if c.Weather.File == "" {
 		c.Weather.Series = nil
 		return nil
-	}
-	if limit <= 0 {
-		limit = defaultMaxFileSize
 	}
 	data, err := readInputFile(c.Weather.File, limit)
 	if err != nil {

@@ -125,6 +125,15 @@ func fmtSize(n int64) string {
 	return strconv.FormatInt(n, 10) + " B"
 }
 
+// limitOrDefault returns limit, or defaultMaxFileSize when it is not
+// positive.
+func limitOrDefault(limit int64) int64 {
+	if limit <= 0 {
+		return defaultMaxFileSize
+	}
+	return limit
+}
+
 func tooLarge(size, limit int64) error { return &tooLargeError{size, limit} }
 
 func notRegular(m fs.FileMode) error { return &notRegularError{m} }
@@ -150,9 +159,11 @@ func readInputFile(name string, limit int64) ([]byte, error) {
 	return data, nil
 }
 
-// readLimited checks that f is a regular file of at most limit bytes and
-// reads it, never more than limit+1 bytes whatever its size claims.
+// readLimited checks that f is a regular file of at most limit bytes (0:
+// defaultMaxFileSize) and reads it, never more than limit+1 bytes whatever
+// its size claims.
 func readLimited(f *os.File, limit int64) ([]byte, error) {
+	limit = limitOrDefault(limit)
 	st, err := f.Stat()
 	if err != nil {
 		return nil, err
@@ -193,7 +204,7 @@ type inputFS struct {
 }
 
 func newInputFS(root *os.Root, limit int64) *inputFS {
-	return &inputFS{root: root, fsys: root.FS(), limit: limit}
+	return &inputFS{root: root, fsys: root.FS(), limit: limitOrDefault(limit)}
 }
 
 func (f *inputFS) Open(name string) (fs.File, error) {

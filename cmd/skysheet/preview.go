@@ -162,11 +162,7 @@ func (s *preview) render() (memSite, []string) {
 		return nil, problems(err)
 	}
 	defer root.Close()
-	limit := s.maxSize
-	if limit <= 0 {
-		limit = defaultMaxFileSize
-	}
-	fsys := newInputFS(root, limit)
+	fsys := newInputFS(root, s.maxSize)
 	lib, err := loadLibrary(fsys)
 	if err != nil {
 		return nil, problems(err)

@@ -240,11 +240,7 @@ func renderInto(ctx context.Context, dir, outDir string, o renderOptions) (rende
 
 // renderLibrary reads the library below root and renders it through w.
 func renderLibrary(root *os.Root, w *dirWriter, o renderOptions) (*library.Library, error) {
-	limit := o.maxSize
-	if limit <= 0 {
-		limit = defaultMaxFileSize
-	}
-	fsys := newInputFS(root, limit)
+	fsys := newInputFS(root, o.maxSize)
 	lib, err := loadLibrary(fsys)
 	if err != nil {
 		return nil, err

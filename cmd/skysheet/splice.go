@@ -87,9 +87,6 @@ func inputNames(s *spectra.Spectrum) []string {
 // readSpectrumFile reads one spectrum file of any supported format: a
 // regular file of at most limit bytes (0 means defaultMaxFileSize).
 func readSpectrumFile(name string, limit int64) (*spectra.Spectrum, error) {
-	if limit <= 0 {
-		limit = defaultMaxFileSize
-	}
 	data, err := readInputFile(name, limit)
 	if err != nil {
 		return nil, err
