@@ -98,7 +98,7 @@ func keptFigures(f *datasheet.Figures, all bool) *datasheet.Figures {
 	if !all {
 		k.Figures = nil
 		for _, x := range f.Figures {
-			if isTableFigure(x.Key) || strings.HasPrefix(x.Key, "color_") {
+			if isTableFigure(x.Key) || x.IsColor() {
 				k.Figures = append(k.Figures, x)
 			}
 		}
