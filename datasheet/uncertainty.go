@@ -348,6 +348,7 @@ type rowTable struct {
 	sorted  []float64
 	sortedK []int
 	added   map[float64]int
+	end     []int // see windows
 }
 
 // newRowTable returns the rows of s. A row whose file is not known (a
@@ -449,22 +450,39 @@ func elements(r spectra.Resolution, nm float64) float64 {
 func (rt *rowTable) spread(b []float64) float64 {
 	var sum float64
 	n := len(b)
+	end := rt.windows(n)
 	for k := 0; k < n; k++ {
 		x := b[k]
 		if x == 0 {
 			continue
 		}
 		sum += x * x
-		gk, pk := rt.group[k], rt.pos[k]
-		for l := k + 1; l < n && rt.group[l] == gk; l++ {
-			d := rt.pos[l] - pk
-			if d >= 1 {
-				break
-			}
-			sum += 2 * x * b[l] * (1 - d)
+		pk := rt.pos[k]
+		near, bl := rt.pos[k+1:end[k]], b[k+1:end[k]]
+		for l, pl := range near {
+			d := pl - pk
+			sum += 2 * x * bl[l] * (1 - d)
 		}
 	}
 	return math.Sqrt(math.Max(0, sum))
+}
+
+// windows returns, for each of the first n rows k, the end of the rows
+// after it in its file that lie less than one resolution element away
+// (the rows k+1 … end[k]−1): the same for every figure, found once.
+func (rt *rowTable) windows(n int) []int {
+	if len(rt.end) == n {
+		return rt.end
+	}
+	rt.end = make([]int, n)
+	for k := range n {
+		l := k + 1
+		for l < n && rt.group[l] == rt.group[k] && !(rt.pos[l]-rt.pos[k] >= 1) {
+			l++
+		}
+		rt.end[k] = l
+	}
+	return rt.end
 }
 
 // byGroup returns, with c_f = Σ_k∈f b_k the change of a linear figure when
