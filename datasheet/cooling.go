@@ -344,6 +344,7 @@ type coolState struct {
 	g        *coolGrid
 	a        spectra.Series
 	wrad     []float64 // per node: Σ (Δλ/2)·ε, so that P_rad(T) = π Σ wrad·B
+	wc, xs   []float64 // see compact
 	patm     float64   // P_atm, W/m²
 	heldEmit float64   // π ∫ ε B(T_amb) over the held part, W/m²
 	k        float64   // ε = k·a: the near-normal to hemispherical ratio, or 1
@@ -375,6 +376,7 @@ func (g *coolGrid) loadHeld(a spectra.Series, k, held float64) *coolState {
 	}
 	s.patm *= math.Pi
 	s.heldEmit *= math.Pi
+	s.compact()
 	return s
 }
 
@@ -401,12 +403,24 @@ func (s *coolState) prad(t float64) float64 {
 		return math.Pi * sum
 	}
 	inv := 1 / t
-	for i, w := range s.wrad {
-		if w != 0 {
-			sum += w * g.c1[i] / (math.Exp(g.x[i]*inv) - 1)
-		}
+	x := s.xs[:len(s.wc)]
+	for i, wc := range s.wc {
+		sum += wc / (math.Exp(x[i]*inv) - 1)
 	}
 	return math.Pi * sum
+}
+
+// compact keeps, for prad, the nodes where wrad is not zero, in order,
+// with wrad·c1 there: the sum over them is the sum over every node, term
+// for term (w·c1 is the product the sum would form first).
+func (s *coolState) compact() {
+	g := s.g
+	s.wc, s.xs = make([]float64, 0, len(s.wrad)), make([]float64, 0, len(s.wrad))
+	for i, w := range s.wrad {
+		if w != 0 {
+			s.wc, s.xs = append(s.wc, w*g.c1[i]), append(s.xs, g.x[i])
+		}
+	}
 }
 
 // net returns P_net(T) = P_rad(T) − P_atm − P_sun − h (T_amb − T).
