@@ -16,13 +16,17 @@ import (
 
 // copyDemo copies the demo library (config and content/) into a new
 // folder and returns it.
-func copyDemo(t *testing.T) string {
+func copyDemo(t *testing.T) string { return copyLibrary(t, "../..") }
+
+// copyLibrary copies the library in src (config and content/) into a new
+// folder and returns it.
+func copyLibrary(t *testing.T, src string) string {
 	t.Helper()
 	dst := t.TempDir()
-	if err := os.CopyFS(filepath.Join(dst, "content"), os.DirFS("../../content")); err != nil {
+	if err := os.CopyFS(filepath.Join(dst, "content"), os.DirFS(filepath.Join(src, "content"))); err != nil {
 		t.Fatal(err)
 	}
-	cfg, err := os.ReadFile("../../skysheet.yaml")
+	cfg, err := os.ReadFile(filepath.Join(src, "skysheet.yaml"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -190,9 +194,10 @@ func entryOf(t *testing.T, dir, slug string) string {
 
 // TestCacheInvalid checks that every kind of stale, truncated or corrupt
 // entry is detected and ignored: the render then equals one without the
-// cache, and takes from the cache only the materials left untouched.
+// cache, and takes from the cache only the materials left untouched. It
+// uses the small test library (TestCacheReuse covers the demo).
 func TestCacheInvalid(t *testing.T) {
-	const slug = "px-2" // a demo material on a comparison without a reference
+	const slug = "frostline" // a material on a comparison without a reference
 	tests := []struct {
 		name string
 		// change spoils the cache in cdir or changes the library in dir;
@@ -292,7 +297,7 @@ func TestCacheInvalid(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			dir, cdir := copyDemo(t), t.TempDir()
+			dir, cdir := copyLibrary(t, "../../testdata/library"), t.TempDir()
 			renderDir(t, dir, openCache(t, cdir, "build-1"), true)
 			missed := tt.change(t, dir, cdir)
 			want := renderDir(t, dir, nil, false)
