@@ -115,7 +115,6 @@ type plot struct {
 	lines          []line
 	points         *pointSet
 	noLegend       bool
-	maxPoints      int // about the most points per piece after thinning; 0 means the width in pixels
 }
 
 // pointSet is a set of marked points, each a link, drawn over the plot.
@@ -212,10 +211,6 @@ func (p plot) chart() chart.Chart {
 	c.YAxis = chart.YAxis{Style: chart.Hidden(), Ticks: yt}
 	c.YAxisSecondary = chart.YAxis{Style: axisStyle, Ticks: yt}
 
-	buckets := p.maxPoints / 4
-	if buckets == 0 {
-		buckets = p.width / 4 // at most 4 points per 4 px: finer than the eye
-	}
 	// Drawing order: shaded bands, shaded curves, grid, band edges and
 	// rules, then the curves, so that no shading hides a line. (go-chart
 	// would draw the grid first, under opaque shading.)
@@ -230,8 +225,13 @@ func (p plot) chart() chart.Chart {
 	}
 	var curves []chart.Series
 	for _, l := range p.lines {
+		var pieces []spectra.Piece
 		for _, pc := range l.pieces {
-			pc = thin(clip(pc, p.xLo, p.xHi), p.xLo, p.xHi, buckets)
+			// About one point per unit of the plot's width, which the
+			// page draws at a pixel or more (see thin).
+			pieces = append(pieces, thin(clip(pc, p.xLo, p.xHi), p.xLo, p.xHi, plotW)...)
+		}
+		for _, pc := range pieces {
 			if len(pc.NM) < 2 {
 				continue
 			}
@@ -470,48 +470,6 @@ func clip(p spectra.Piece, lo, hi float64) spectra.Piece {
 		if i > 0 && p.NM[i-1] < hi && x > hi {
 			out.NM, out.V = append(out.NM, hi), append(out.V, at(i, hi))
 		}
-	}
-	return out
-}
-
-// thin reduces a piece to at most about 4 points per bucket of (hi−lo)/n:
-// in each bucket the first, lowest, highest and last point are kept in
-// wavelength order, so peaks and dips survive. Charts only; figures are
-// always computed from the full data.
-func thin(p spectra.Piece, lo, hi float64, n int) spectra.Piece {
-	if len(p.NM) <= 2*n || n <= 0 || !(hi > lo) {
-		return p
-	}
-	var out spectra.Piece
-	width := (hi - lo) / float64(n)
-	for i := 0; i < len(p.NM); {
-		b := math.Floor((p.NM[i] - lo) / width)
-		j := i
-		lowest, highest := i, i
-		for j < len(p.NM) && math.Floor((p.NM[j]-lo)/width) == b {
-			if p.V[j] < p.V[lowest] {
-				lowest = j
-			}
-			if p.V[j] > p.V[highest] {
-				highest = j
-			}
-			j++
-		}
-		keep := []int{i, lowest, highest, j - 1}
-		// Sort the four indices and drop repeats.
-		for a := 1; a < len(keep); a++ {
-			for c := a; c > 0 && keep[c] < keep[c-1]; c-- {
-				keep[c], keep[c-1] = keep[c-1], keep[c]
-			}
-		}
-		last := -1
-		for _, k := range keep {
-			if k != last {
-				out.NM, out.V = append(out.NM, p.NM[k]), append(out.V, p.V[k])
-				last = k
-			}
-		}
-		i = j
 	}
 	return out
 }

@@ -140,34 +140,6 @@ func TestEscapedText(t *testing.T) {
 	}
 }
 
-func TestThin(t *testing.T) {
-	var p spectra.Piece
-	for i := range 10001 {
-		p.NM = append(p.NM, 1000+float64(i)*0.1)
-		p.V = append(p.V, 0.5)
-	}
-	p.V[5000] = 0.99 // a narrow peak must survive
-	p.V[7000] = 0.01 // and a narrow dip
-	got := thin(p, 1000, 2000, 200)
-	if len(got.NM) > 4*201 || len(got.NM) < 200 {
-		t.Errorf("thinned to %d points", len(got.NM))
-	}
-	lo, hi := 1.0, 0.0
-	for i, v := range got.V {
-		lo, hi = math.Min(lo, v), math.Max(hi, v)
-		if i > 0 && !(got.NM[i] > got.NM[i-1]) {
-			t.Fatalf("not increasing at %d", i)
-		}
-	}
-	if lo != 0.01 || hi != 0.99 || got.NM[0] != 1000 || got.NM[len(got.NM)-1] != 2000 {
-		t.Errorf("extremes or ends lost: min %v max %v ends %v %v", lo, hi, got.NM[0], got.NM[len(got.NM)-1])
-	}
-	short := spectra.Piece{NM: []float64{1, 2, 3}, V: []float64{1, 2, 3}}
-	if got := thin(short, 1, 3, 200); len(got.NM) != 3 {
-		t.Errorf("short piece changed")
-	}
-}
-
 func TestClip(t *testing.T) {
 	p := spectra.Piece{NM: []float64{100, 200, 300, 400}, V: []float64{0, 1, 2, 3}}
 	got := clip(p, 150, 350)
