@@ -12,7 +12,9 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"unicode"
 	"unicode/utf8"
+	"unsafe"
 
 	"skysheet/spectra/msg"
 )
@@ -139,7 +141,7 @@ func parseAxisHeader(h string) (axis, bool) {
 
 // parseColumnHeader returns the quantity named by a value header cell.
 func parseColumnHeader(h string) (column, bool) {
-	c := column{name: strings.TrimSpace(h)}
+	c := column{name: strings.Clone(strings.TrimSpace(h))} // h may be the caller's data (unsafeString)
 	s := strings.ToLower(c.name)
 	if loc := pctRE.FindStringIndex(s); loc != nil {
 		c.percent = true
@@ -165,11 +167,24 @@ func parseColumnHeader(h string) (column, bool) {
 // Parse reads a spectrum in the neutral column format (see the README) from
 // r; name is used in errors and recorded as the source.
 func Parse(r io.Reader, name string) (*Spectrum, error) {
-	data, err := io.ReadAll(r)
+	data, err := readAll(r)
 	if err != nil {
 		return nil, &ParseError{File: name, Err: err}
 	}
 	return parseBytes(data, name)
+}
+
+// readAll is io.ReadAll, reading into one buffer of the right size when r
+// knows how much is left (a bytes.Reader, strings.Reader or bytes.Buffer).
+func readAll(r io.Reader) ([]byte, error) {
+	sized, ok := r.(interface{ Len() int })
+	if !ok {
+		return io.ReadAll(r)
+	}
+	var b bytes.Buffer
+	b.Grow(sized.Len() + bytes.MinRead)
+	_, err := b.ReadFrom(r)
+	return b.Bytes(), err
 }
 
 // parseBytes reads a spectrum in the neutral column format from data.
@@ -180,6 +195,28 @@ func parseBytes(data []byte, name string) (*Spectrum, error) {
 	}
 	return p.s, nil
 }
+
+// seekLine returns the line of the row whose spectral axis value is x,
+// reading data again from the start with the parser that stopped there
+// (p): rows are read the same way each time, so the first row read with x
+// is the row p saw first. It is asked only when a row breaks the order of
+// the axis, to tell a repeated value from a value out of order without
+// keeping every value read; 0 means no earlier row has x.
+func (p *parser) seekLine(data []byte, x float64) int {
+	q := parser{file: p.file, s: &Spectrum{}, csvOnly: p.csvOnly, seek: true, seekX: x}
+	if err := q.run(data); err != nil {
+		var f *foundRow
+		if errors.As(err, &f) {
+			return f.line
+		}
+	}
+	return 0
+}
+
+// foundRow stops a parser seeking a value (see seekLine) at its row.
+type foundRow struct{ line int }
+
+func (f *foundRow) Error() string { return fmt.Sprintf("found at line %d", f.line) }
 
 type parser struct {
 	file string
@@ -194,11 +231,17 @@ type parser struct {
 	dir     int      // +1 ascending, -1 descending (in the file's own axis), 0 unknown
 	lastX   float64
 	lastLn  int
-	seenX   map[float64]int
-	dec     string    // the decimal form of the last number read
 	fm      *fileMeta // what the metadata set
 	grouped int       // axis values written like 2.500 (see thousandsWarning)
 	maxAbs  []float64 // per value column, the largest |value| as written
+
+	data    []byte // the whole file, for seekLine
+	text    string // data after the header as text, read row by row
+	lines   int    // lines in the file
+	prevLen int    // rows of the last segment closed
+	csvOnly bool   // split every delimited file with encoding/csv (tests)
+	seek    bool   // stop at the first row whose axis value is seekX
+	seekX   float64
 }
 
 func (p *parser) errf(col int, err error) error {
@@ -224,6 +267,7 @@ func (p *parser) errf(col int, err error) error {
 // runs of spaces.
 func (p *parser) run(data []byte) error {
 	p.fm = newFileMeta()
+	p.data, p.lines = data, bytes.Count(data, []byte{'\n'})+1
 	pos, header := 0, false
 	for pos < len(data) && !header {
 		start := pos
@@ -255,30 +299,14 @@ func (p *parser) run(data []byte) error {
 				pos = len(data)
 				break
 			}
-			if err := p.header(p.fields(text), text); err != nil {
+			if err := p.header(fields(nil, text), text); err != nil {
 				return err
 			}
 		}
 	}
-	for pos < len(data) { // space-separated rows
-		line, next := nextLine(data, pos)
-		pos = next
-		p.line++
-		text := string(line)
-		if !utf8.ValidString(text) {
-			return p.errf(0, fmt.Errorf("line %w", errEncoding))
-		}
-		trimmed := strings.TrimSpace(text)
-		switch {
-		case strings.HasPrefix(trimmed, "#"):
-		case trimmed == "":
-			if err := p.closeSegment(); err != nil {
-				return err
-			}
-		default:
-			if err := p.row(p.fields(text)); err != nil {
-				return err
-			}
+	if pos < len(data) {
+		if err := p.spaced(unsafeString(data[pos:])); err != nil {
+			return err
 		}
 	}
 	p.line = 0
@@ -322,6 +350,46 @@ func nextLine(data []byte, pos int) (line []byte, next int) {
 	return line, next
 }
 
+// nextLineString is nextLine for text.
+func nextLineString(text string, pos int) (line string, next int) {
+	end, next := len(text), len(text)
+	if i := strings.IndexByte(text[pos:], '\n'); i >= 0 {
+		end, next = pos+i, pos+i+1
+	}
+	line = text[pos:end]
+	if n := len(line); n > 0 && line[n-1] == '\r' {
+		line = line[:n-1]
+	}
+	return line, next
+}
+
+// spaced reads the rows of a space-separated file, text starting after
+// the header line: "#" lines are skipped, a blank line ends the segment.
+func (p *parser) spaced(text string) error {
+	var cells [8]string
+	for pos := 0; pos < len(text); {
+		line, next := nextLineString(text, pos)
+		pos = next
+		p.line++
+		if !utf8.ValidString(line) {
+			return p.errf(0, fmt.Errorf("line %w", errEncoding))
+		}
+		trimmed := strings.TrimSpace(line)
+		switch {
+		case strings.HasPrefix(trimmed, "#"):
+		case trimmed == "":
+			if err := p.closeSegment(); err != nil {
+				return err
+			}
+		default:
+			if err := p.row(fields(cells[:0], line)); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
+}
+
 // delimiterOf returns the delimiter a header line names: a tab, else a
 // semicolon, else a comma; 0 for runs of spaces.
 func delimiterOf(header string) rune {
@@ -337,10 +405,111 @@ func delimiterOf(header string) rune {
 }
 
 // delimited reads the header and rows of a delimited file, data starting
-// at the header line (file line p.line), with encoding/csv. csv skips
-// empty lines and lines starting with "#": where it skipped lines, they
-// are looked at, and an empty one ends the segment.
+// at the header line (file line p.line). A file with a quote anywhere is
+// read with encoding/csv (delimitedCSV); one without, line by line, giving
+// the same cells: csv's rules for a line without quotes are that empty
+// lines and lines starting with "#" are skipped (an empty one ends the
+// segment), and each cell starts after the spaces following a delimiter
+// (TrimLeadingSpace: with tabs as delimiters, a run of tabs is one).
 func (p *parser) delimited(data []byte) error {
+	if p.csvOnly || bytes.IndexByte(data, '"') >= 0 {
+		return p.delimitedCSV(data)
+	}
+	text := unsafeString(data)
+	base := p.line - 1 // line 1 of data is file line p.line
+	delim := byte(p.delim)
+	blank := false
+	var cells [8]string
+	for pos, ln := 0, 0; pos < len(text); {
+		line, next := nextLineString(text, pos)
+		pos = next
+		ln++
+		if line == "" {
+			blank = true
+			continue
+		}
+		if line[0] == '#' {
+			continue
+		}
+		if blank {
+			if err := p.closeSegment(); err != nil {
+				return err
+			}
+			blank = false
+		}
+		first := ln == 1
+		p.line = base + ln
+		if !utf8.ValidString(line) {
+			return p.errf(0, fmt.Errorf("line %w", errEncoding))
+		}
+		rec := split(cells[:0], line, delim)
+		switch {
+		case first:
+			if err := p.header(rec, line); err != nil {
+				return err
+			}
+		case len(rec) == 1 && rec[0] == "": // a line of spaces
+			if err := p.closeSegment(); err != nil {
+				return err
+			}
+		case strings.HasPrefix(rec[0], "#"): // a comment after spaces
+		default:
+			if err := p.row(rec); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
+}
+
+// split appends to c the cells of a line of a delimited file without
+// quotes, each trimmed of spaces, as encoding/csv with TrimLeadingSpace
+// and a TrimSpace of each cell would.
+func split(c []string, line string, delim byte) []string {
+	for {
+		if delim == '\t' {
+			line = trimLeftSpace(line)
+		}
+		i := strings.IndexByte(line, delim)
+		if i < 0 {
+			c = append(c, strings.TrimSpace(line))
+			break
+		}
+		c = append(c, strings.TrimSpace(line[:i]))
+		line = line[i+1:]
+	}
+	return c
+}
+
+// unsafeString returns data as a string without copying it. The parser
+// reads data only while it runs and never changes it; every string it
+// keeps afterwards (column names, messages, warnings) is a copy, so that
+// the caller may reuse data.
+func unsafeString(data []byte) string {
+	return unsafe.String(unsafe.SliceData(data), len(data))
+}
+
+// trimLeftSpace is strings.TrimLeftFunc(s, unicode.IsSpace), quicker on
+// ASCII.
+func trimLeftSpace(s string) string {
+	i := 0
+	for i < len(s) && asciiSpace[s[i]] {
+		i++
+	}
+	if i < len(s) && s[i] >= utf8.RuneSelf {
+		return strings.TrimLeftFunc(s[i:], unicode.IsSpace)
+	}
+	return s[i:]
+}
+
+// asciiSpace marks the ASCII bytes unicode.IsSpace calls spaces.
+var asciiSpace = [256]bool{'\t': true, '\n': true, '\v': true, '\f': true, '\r': true, ' ': true}
+
+// delimitedCSV is delimited for a file with quotes, read with encoding/csv
+// (a quoted cell may hold the delimiter or a line break). csv skips empty
+// lines and lines starting with "#": where it skipped lines, they are
+// looked at, and an empty one ends the segment.
+func (p *parser) delimitedCSV(data []byte) error {
 	r := csv.NewReader(bytes.NewReader(data))
 	r.Comma, r.Comment = p.delim, '#'
 	r.FieldsPerRecord, r.TrimLeadingSpace, r.ReuseRecord = -1, true, true
@@ -490,12 +659,36 @@ func normKey(k string) string {
 }
 
 // fields splits a space-separated line into its cells, stripping quotes.
-func (p *parser) fields(text string) []string {
-	f := strings.Fields(text)
+func fields(dst []string, text string) []string {
+	f := appendFields(dst, text)
 	for i := range f {
 		f[i] = strings.Trim(f[i], `"`)
 	}
 	return f
+}
+
+// appendFields appends the cells of strings.Fields(s) to dst, without
+// allocating on ASCII.
+func appendFields(dst []string, s string) []string {
+	n0, start := len(dst), -1
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		if c >= utf8.RuneSelf {
+			return append(dst[:n0], strings.Fields(s)...)
+		}
+		if asciiSpace[c] {
+			if start >= 0 {
+				dst = append(dst, s[start:i])
+				start = -1
+			}
+		} else if start < 0 {
+			start = i
+		}
+	}
+	if start >= 0 {
+		dst = append(dst, s[start:])
+	}
+	return dst
 }
 
 // header reads the header cells f (text is the header line, for messages).
@@ -542,7 +735,6 @@ func (p *parser) header(f []string, text string) error {
 			}
 		}
 	}
-	p.seenX = map[float64]int{}
 	p.maxAbs = make([]float64, len(p.cols))
 	return nil
 }
@@ -551,26 +743,78 @@ func (p *parser) header(f []string, text string) error {
 // follows when it carries none of its own.
 var uncertaintyOf = map[Quantity]Quantity{UR: R, UT: T}
 
-// number reads the cell orig of column col; the decimal form it read (a
-// decimal comma made a point) is left in p.dec for scaled.
-func (p *parser) number(orig string, col int) (float64, error) {
+// decimal is a number read from a cell. A plain decimal (sign, at most 15
+// significant digits, one point) keeps its digits m and the count of
+// digits after the point, so that it is scaled by a power of ten exactly
+// without being read again; any other keeps its decimal form dec for
+// [scaled].
+type decimal struct {
+	x     float64
+	dec   string // as read, a decimal comma made a point; set when !plain
+	m     uint64
+	frac  int
+	neg   bool
+	plain bool
+}
+
+// scaled returns the number times 10^exp, the double nearest the decimal
+// value (see [scaled]).
+func (d *decimal) scaled(exp int) float64 {
+	if d.plain {
+		if v, ok := exactDecimal(d.m, exp-d.frac, d.neg); ok {
+			return v
+		}
+		return scaled(d.text(), d.x, exp)
+	}
+	return scaled(d.dec, d.x, exp)
+}
+
+// text writes a plain decimal back (only on the rare way where a scaled
+// value leaves the exact powers of ten).
+func (d *decimal) text() string {
+	s := strconv.FormatUint(d.m, 10)
+	if d.frac > 0 {
+		if len(s) <= d.frac {
+			s = strings.Repeat("0", d.frac-len(s)+1) + s
+		}
+		s = s[:len(s)-d.frac] + "." + s[len(s)-d.frac:]
+	}
+	if d.neg {
+		s = "-" + s
+	}
+	return s
+}
+
+// number reads the cell orig of column col. In a file separated by tabs
+// or semicolons, a cell with one comma and no point has a decimal comma.
+// A plain decimal is read directly (exactDecimal gives the double
+// strconv.ParseFloat gives); anything else by strconv.ParseFloat.
+func (p *parser) number(orig string, col int) (decimal, error) {
+	point := byte('.')
+	if (p.delim == '\t' || p.delim == ';') && strings.Count(orig, ",") == 1 && !strings.Contains(orig, ".") {
+		point = ','
+	}
+	if m, frac, neg, ok := plainDecimal(orig, point); ok {
+		if x, ok := exactDecimal(m, -frac, neg); ok {
+			return decimal{x: x, m: m, frac: frac, neg: neg, plain: true}, nil
+		}
+	}
 	s := orig
-	if (p.delim == '\t' || p.delim == ';') && strings.Count(s, ",") == 1 && !strings.Contains(s, ".") {
+	if point == ',' {
 		s = strings.Replace(s, ",", ".", 1)
 	}
-	p.dec = s
 	x, err := strconv.ParseFloat(s, 64)
 	if err != nil {
 		var ne *strconv.NumError
 		if errors.As(err, &ne) && ne.Err == strconv.ErrRange {
-			return 0, p.errf(col, fmt.Errorf("%s %w", msg.Quote(orig), errNotFinite))
+			return decimal{}, p.errf(col, fmt.Errorf("%s %w", msg.Quote(orig), errNotFinite))
 		}
-		return 0, p.errf(col, fmt.Errorf("%s %w%s", msg.Quote(orig), errNotNumber, thousandsHint(orig)))
+		return decimal{}, p.errf(col, fmt.Errorf("%s %w%s", msg.Quote(orig), errNotNumber, thousandsHint(orig)))
 	}
 	if math.IsNaN(x) || math.IsInf(x, 0) {
-		return 0, p.errf(col, fmt.Errorf("%s %w", msg.Quote(orig), errNotFinite))
+		return decimal{}, p.errf(col, fmt.Errorf("%s %w", msg.Quote(orig), errNotFinite))
 	}
-	return x, nil
+	return decimal{x: x, dec: s}, nil
 }
 
 // row reads the cells f of one row.
@@ -585,26 +829,30 @@ func (p *parser) row(f []string) error {
 	if f[0] == "" {
 		return p.errf(1, errEmptyAxisValue)
 	}
-	x, err := p.number(f[0], 1)
+	xd, err := p.number(f[0], 1)
 	if err != nil {
 		return err
 	}
+	x := xd.x
 	var nm float64
 	switch p.unit {
 	case axisNM:
 		nm = x
 	case axisUM:
-		nm = scaled(p.dec, x, 3)
+		nm = xd.scaled(3)
 	case axisWavenumber:
 		nm = 1e7 / x
 	}
 	if !(x > 0) || math.IsInf(nm, 0) || !(nm > 0) {
 		return p.errf(1, fmt.Errorf("%s %w: the spectral axis must be positive", msg.Quote(f[0]), errOutOfRange))
 	}
-	if ln, dup := p.seenX[x]; dup {
-		return p.errf(1, fmt.Errorf("%s %w (line %d)", msg.Cut(f[0]), errDuplicate, ln))
-	}
+	// The axis is strictly monotonic up to the last row, so a repeated
+	// value is the last one or breaks the order; only then are the earlier
+	// rows looked at again (seekLine).
 	if p.rows > 0 {
+		if x == p.lastX {
+			return p.errf(1, fmt.Errorf("%s %w (line %d)", msg.Cut(f[0]), errDuplicate, p.lastLn))
+		}
 		d := 1
 		if x < p.lastX {
 			d = -1
@@ -612,6 +860,11 @@ func (p *parser) row(f []string) error {
 		if p.dir == 0 {
 			p.dir = d
 		} else if d != p.dir {
+			if !p.seek {
+				if ln := p.seekLine(p.data, x); ln > 0 {
+					return p.errf(1, fmt.Errorf("%s %w (line %d)", msg.Cut(f[0]), errDuplicate, ln))
+				}
+			}
 			order := "ascending"
 			if p.dir < 0 {
 				order = "descending"
@@ -619,16 +872,24 @@ func (p *parser) row(f []string) error {
 			return p.errf(1, fmt.Errorf("%s %w: the axis is %s but line %d has %g", msg.Cut(f[0]), errNotMonotonic, order, p.lastLn, p.lastX))
 		}
 	}
-	p.seenX[x] = p.line
+	if p.seek && x == p.seekX {
+		return &foundRow{line: p.line}
+	}
 	p.lastX, p.lastLn = x, p.line
-	if groupedRE.MatchString(f[0]) {
+	if isGrouped(f[0]) {
 		p.grouped++
 	}
 	p.rows++
 	if p.pending == nil {
-		p.pending = &Segment{Source: p.file}
+		// Room for every line left, or for as many rows as the last
+		// segment had; closeSegment gives back what is not used.
+		n := max(p.lines-p.line+1, 2)
+		if len(p.s.Segments) > 0 {
+			n = min(n, max(p.prevLen, 16))
+		}
+		p.pending = &Segment{Source: p.file, NM: make([]float64, 0, n)}
 		for _, c := range p.cols {
-			p.pending.Values[c.q] = []float64{}
+			p.pending.Values[c.q] = make([]float64, 0, n)
 		}
 	}
 	g := p.pending
@@ -637,16 +898,17 @@ func (p *parser) row(f []string) error {
 		s := f[i+1]
 		v := math.NaN()
 		if s != "" {
-			v, err = p.number(s, i+2)
+			d, err := p.number(s, i+2)
 			if err != nil {
 				return err
 			}
+			v = d.x
 			if err := p.checkRange(v, c, s, i+2); err != nil {
 				return err
 			}
 			p.maxAbs[i] = math.Max(p.maxAbs[i], math.Abs(v))
 			if c.percent {
-				v = scaled(p.dec, v, -2) // 88.112 % is 0.88112, not 88.112/100 = 0.8811199999999999
+				v = d.scaled(-2) // 88.112 % is 0.88112, not 88.112/100 = 0.8811199999999999
 			}
 		}
 		g.Values[c.q] = append(g.Values[c.q], v)
@@ -678,40 +940,58 @@ var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10,
 
 // scaledFast reads a plain decimal dec ("-88.112": sign, digits, one
 // point) times 10^exp when its digits fit in 2^53 and the power of ten is
-// exact: then one division or multiplication of exact doubles gives the
-// double nearest the decimal value (the fast path of decimal-to-binary
-// conversion, Clinger 1990, "How to read floating point numbers
-// accurately", PLDI; from memory). ok is false otherwise.
+// exact (see exactDecimal). ok is false otherwise.
 func scaledFast(dec string, exp int) (v float64, ok bool) {
-	neg := false
+	m, frac, neg, ok := plainDecimal(dec, '.')
+	if !ok {
+		return 0, false
+	}
+	return exactDecimal(m, exp-frac, neg)
+}
+
+// plainDecimal reads s as a plain decimal: an optional sign, digits with
+// at most one point (the byte point) and at least one digit, at most 15
+// significant digits. It returns the digits m and the count of digits
+// after the point; ok is false for anything else (exponents, hex, words,
+// more digits).
+func plainDecimal(s string, point byte) (m uint64, frac int, neg, ok bool) {
 	i := 0
-	if i < len(dec) && (dec[i] == '-' || dec[i] == '+') {
-		neg = dec[i] == '-'
+	if i < len(s) && (s[i] == '-' || s[i] == '+') {
+		neg = s[i] == '-'
 		i++
 	}
-	var m uint64
-	digits, frac, point := 0, 0, false
-	for ; i < len(dec); i++ {
-		c := dec[i]
+	digits, any, dot := 0, false, false
+	for ; i < len(s); i++ {
+		c := s[i]
 		switch {
 		case c >= '0' && c <= '9':
 			if digits == 15 {
-				return 0, false
+				return 0, 0, false, false
 			}
 			if m > 0 || c != '0' {
 				digits++
 			}
 			m = m*10 + uint64(c-'0')
-			if point {
+			any = true
+			if dot {
 				frac++
 			}
-		case c == '.' && !point:
-			point = true
+		case c == point && !dot:
+			dot = true
 		default:
-			return 0, false
+			return 0, 0, false, false
 		}
 	}
-	e := exp - frac
+	return m, frac, neg, any
+}
+
+// exactDecimal returns ±m·10^e when the power of ten is exact in a double
+// (|e| ≤ 22; m < 10^15 is exact too): then one division or multiplication
+// of exact doubles gives the double nearest the decimal value, the one
+// strconv.ParseFloat returns (the fast path of decimal-to-binary
+// conversion, Clinger 1990, "How to read floating point numbers
+// accurately", PLDI; from memory). ok is false for other e.
+func exactDecimal(m uint64, e int, neg bool) (v float64, ok bool) {
 	if e < -22 || e > 22 {
 		return 0, false
 	}
@@ -765,6 +1045,15 @@ func (p *parser) closeSegment() error {
 	if len(g.NM) < 2 {
 		return &ParseError{File: p.file, Line: p.lastLn, Err: fmt.Errorf("%w (segments are separated by blank lines)", errShortSegment)}
 	}
+	if n := len(g.NM); cap(g.NM) > n+n/4+16 { // lines of comments, or a longer segment before
+		g.NM = slices.Clone(g.NM)
+		for q, v := range g.Values {
+			if v != nil {
+				g.Values[q] = slices.Clone(v)
+			}
+		}
+	}
+	p.prevLen = len(g.NM)
 	p.s.Segments = append(p.s.Segments, *g)
 	return nil
 }

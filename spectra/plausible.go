@@ -11,10 +11,21 @@ import (
 // but are likely mislabelled give a warning in [Spectrum.Warnings], not an
 // error.
 
-// groupedRE matches a number written like a thousands-grouped integer:
-// one to three digits, a point or comma, exactly three digits ("2.500",
-// "1,000").
-var groupedRE = regexp.MustCompile(`^\d{1,3}[.,]\d{3}$`)
+// isGrouped reports whether s is written like a thousands-grouped
+// integer: one to three digits, a point or comma, exactly three digits
+// ("2.500", "1,000").
+func isGrouped(s string) bool {
+	n := len(s)
+	if n < 5 || n > 7 || s[n-4] != '.' && s[n-4] != ',' {
+		return false
+	}
+	for i := range n {
+		if i != n-4 && (s[i] < '0' || s[i] > '9') {
+			return false
+		}
+	}
+	return true
+}
 
 // groupedBothRE matches a number grouped by thousands with a decimal part,
 // in either convention ("1,234.5", "1.234,5", "12,345,678").
