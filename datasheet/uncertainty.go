@@ -359,7 +359,11 @@ func newRowTable(s *spectra.Spectrum) *rowTable {
 		nm, pos float64
 		group   int
 	}
-	var rows []row
+	n := 0
+	for _, g := range s.Segments {
+		n += len(g.NM)
+	}
+	rows := make([]row, 0, n)
 	for i := range s.Segments {
 		g := &s.Segments[i]
 		for _, nm := range g.NM {

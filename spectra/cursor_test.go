@@ -3,6 +3,7 @@ package spectra
 import (
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 )
 
@@ -37,6 +38,23 @@ func TestCursor(t *testing.T) {
 			got, ok := c.value(q)
 			if ok != wok || math.Float64bits(got) != math.Float64bits(want) {
 				t.Fatalf("piece %v at %v: %v %v, want %v %v", p.NM, q, got, ok, want, wok)
+			}
+		}
+	}
+}
+
+// TestSourceIn checks sourceIn against the rule it implements, written
+// with strings built for the purpose: file is the segment's source, or
+// one of the names it joins with "+".
+func TestSourceIn(t *testing.T) {
+	names := []string{"", "a", "b", "ab", "a+b", "+", "++", "a.csv", "b.csv", "a.csv+b.csv", "b.csv+a.csv+c.csv", "aa.csv+a.csv",
+		"a.csv+", "+a.csv", "xa.csv+b.csv", "a.csvx+b.csv", "c.csv+a.csv", "a+", "+a", "a++b"}
+	for _, seg := range names {
+		for _, file := range names {
+			want := seg == file || strings.HasPrefix(seg, file+"+") || strings.HasSuffix(seg, "+"+file) ||
+				strings.Contains(seg, "+"+file+"+")
+			if got := sourceIn(seg, file); got != want {
+				t.Errorf("sourceIn(%q, %q) = %v, want %v", seg, file, got, want)
 			}
 		}
 	}

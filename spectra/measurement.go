@@ -232,8 +232,24 @@ func (s *Spectrum) MeasurementAt(g *Segment, nm float64) (Measurement, bool) {
 // names one file or, for files joined where they touch, several joined by
 // "+".
 func sourceIn(segSource, file string) bool {
-	return segSource == file || strings.HasPrefix(segSource, file+"+") || strings.HasSuffix(segSource, "+"+file) ||
-		strings.Contains(segSource, "+"+file+"+")
+	if segSource == file {
+		return true
+	}
+	// Is file one of the "+"-separated names, without building "+file+"
+	// (asked for every row of a spectrum)?
+	for i := 0; i+len(file) <= len(segSource); {
+		j := strings.Index(segSource[i:], file)
+		if j < 0 {
+			return false
+		}
+		p := i + j
+		q := p + len(file)
+		if (p == 0 || segSource[p-1] == '+') && (q == len(segSource) || segSource[q] == '+') && (p > 0 || q < len(segSource)) {
+			return true
+		}
+		i = p + 1
+	}
+	return false
 }
 
 // String returns the unit as [DefaultResolution] takes it.
