@@ -69,7 +69,9 @@ type Figure struct {
 	// Partial marks a value whose weighting is covered by data less than
 	// fully (see docs/cooling.md, "Where the models stop").
 	Partial bool
-	short   string // Reason in a few words, when it is long
+	// Short is Reason in a few words when Reason is long ("coverage <
+	// 90 %"); "" otherwise. [Figure.ShortReason] gives whichever applies.
+	Short string
 }
 
 // figureJSON is the JSON form of a Figure.

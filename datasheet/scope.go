@@ -67,8 +67,8 @@ const withheldPrefix = "not given: "
 // ShortReason says in a few words why the figure has no value
 // ("coverage < 90 %"); "" when it has one.
 func (f Figure) ShortReason() string {
-	if f.short != "" {
-		return f.short
+	if f.Short != "" {
+		return f.Short
 	}
 	return f.Reason
 }
@@ -162,7 +162,7 @@ func applyCoverage(f *Figures) {
 		if p, short := shortOf(parts, minShownCoverage); short {
 			x.Reason = fmt.Sprintf(withheldPrefix+"the data cover only %.1f %% of %s%s (at least %g %% is needed)",
 				100*p.cov, p.what, p.rest, 100*minShownCoverage)
-			x.short = fmt.Sprintf("coverage < %g %%", 100*minShownCoverage)
+			x.Short = fmt.Sprintf("coverage < %g %%", 100*minShownCoverage)
 			withheld[x.Key] = true
 			g := fmt.Sprintf("the data cover only %.1f %% of %s (at least %g %% is needed)", 100*p.cov, p.what, 100*minShownCoverage)
 			if _, ok := groups[g]; !ok {

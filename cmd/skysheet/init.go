@@ -59,6 +59,9 @@ func runInit(e *env, args []string) error {
 // scaffold returns the files of a library set up by init.
 func scaffold() map[string]string {
 	return map[string]string{
+		// What render writes inside the library: the site and the render
+		// cache, neither of them worth keeping under version control.
+		".gitignore": "/" + siteDir + "/\n/" + cacheDir + "/\n",
 		"skysheet.yaml": `# Site configuration. Every key is optional; unknown keys are errors.
 title: My material library
 description: Datasheets computed from measured spectra.

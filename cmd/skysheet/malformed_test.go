@@ -61,7 +61,9 @@ func TestMalformed(t *testing.T) {
 		}
 	}
 	for p := range after {
-		if _, ok := before[p]; !ok {
+		// The render cache is skysheet's own folder: a render that read the
+		// library keeps there what it made of the materials it could read.
+		if _, ok := before[p]; !ok && !strings.Contains(p, "/"+cacheDir+"/") {
 			t.Errorf("%s appeared", p)
 		}
 	}

@@ -46,6 +46,7 @@ const (
 func runRender(e *env, args []string) error {
 	fl := newFlags(e, commands["render"])
 	out := fl.String("site", "", "folder the site is written to (default: site/ inside the library folder); its files are replaced only when the whole render succeeds, and files skysheet did not write are kept")
+	noCache := fl.Bool("no-cache", false, "neither read nor write the render cache ("+cacheDir+"/ in the library folder); every material is evaluated afresh")
 	maxSize := maxFileSizeFlag(fl)
 	pos, err := parseFlags(fl, args)
 	if err != nil {
@@ -68,11 +69,15 @@ func runRender(e *env, args []string) error {
 	// is removed and the old one stays as it was.
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
-	res, err := renderInto(ctx, dir, *out, renderOptions{version: version(), progress: e.stderr, terminal: e.isTerminal, maxSize: *maxSize})
+	res, err := renderInto(ctx, dir, *out, renderOptions{version: version(), progress: e.stderr, terminal: e.isTerminal, maxSize: *maxSize, cache: !*noCache})
 	if err != nil {
 		return reportRenderError(e, err)
 	}
-	fmt.Fprintf(e.stdout, "rendered %s: %s, %s, %d files in %s\n", dir, plural(res.materials, "material"), plural(res.comparisons, "comparison"), res.files, *out)
+	reused := ""
+	if res.reused > 0 {
+		reused = fmt.Sprintf(" (%d unchanged, from the cache)", res.reused)
+	}
+	fmt.Fprintf(e.stdout, "rendered %s: %s%s, %s, %d files in %s\n", dir, plural(res.materials, "material"), reused, plural(res.comparisons, "comparison"), res.files, *out)
 	return nil
 }
 
@@ -116,6 +121,7 @@ func loadLibrary(fsys fs.FS) (*library.Library, error) {
 // renderResult counts what a render wrote.
 type renderResult struct {
 	materials, comparisons, files int
+	reused                        int // materials taken from the cache
 }
 
 // renderOptions are the settings of one render.
@@ -124,6 +130,7 @@ type renderOptions struct {
 	progress io.Writer // progress and notes; a bar when terminal is set
 	terminal bool
 	maxSize  int64 // largest input file read; 0 means defaultMaxFileSize
+	cache    bool  // use the render cache in the library folder
 }
 
 // renderSite renders the library in dir into outDir (see renderInto).
@@ -180,7 +187,7 @@ func renderInto(ctx context.Context, dir, outDir string, o renderOptions) (rende
 	if err := os.Mkdir(tmp, 0o755); err != nil {
 		return res, err
 	}
-	w := &dirWriter{root: tmp}
+	w := &dirWriter{root: tmp, site: absOut}
 	committed := false
 	defer func() {
 		if !committed {
@@ -192,13 +199,14 @@ func renderInto(ctx context.Context, dir, outDir string, o renderOptions) (rende
 	// stops the render at once, even while the library is being read; once
 	// w is stopped the goroutine writes nothing more.
 	type result struct {
-		lib *library.Library
-		err error
+		lib    *library.Library
+		reused int
+		err    error
 	}
 	done := make(chan result, 1)
 	go func() {
-		lib, err := renderLibrary(root, w, o)
-		done <- result{lib, err}
+		lib, reused, err := renderLibrary(root, absDir, w, o)
+		done <- result{lib, reused, err}
 	}()
 	var r result
 	select {
@@ -235,17 +243,26 @@ func renderInto(ctx context.Context, dir, outDir string, o renderOptions) (rende
 	if err := install(commit, absOut); err != nil {
 		return res, fmt.Errorf("putting the new site in place: %w (the next render finishes this)", err)
 	}
-	return renderResult{materials: len(r.lib.Materials), comparisons: len(r.lib.Comparisons), files: len(files)}, nil
+	return renderResult{materials: len(r.lib.Materials), comparisons: len(r.lib.Comparisons), files: len(files), reused: r.reused}, nil
 }
 
-// renderLibrary reads the library below root and renders it through w.
-func renderLibrary(root *os.Root, w *dirWriter, o renderOptions) (*library.Library, error) {
+// renderLibrary reads the library below root, whose path is absDir, and
+// renders it through w. It returns the library and the number of its
+// materials taken from the render cache.
+func renderLibrary(root *os.Root, absDir string, w *dirWriter, o renderOptions) (*library.Library, int, error) {
 	fsys := newInputFS(root, o.maxSize)
 	lib, err := loadLibrary(fsys)
 	if err != nil {
-		return nil, err
+		return nil, 0, err
 	}
 	opt := site.Options{Version: o.version}
+	if o.cache {
+		// Opened once the library is read: a library that cannot be read
+		// gets no cache folder.
+		c, release := openRenderCache(absDir, o.progress)
+		defer release()
+		opt.Cache = c
+	}
 	if st, err := fs.Stat(fsys, templatesDir); err == nil && st.IsDir() {
 		opt.Templates, _ = fs.Sub(fsys, templatesDir)
 	}
@@ -256,7 +273,14 @@ func renderLibrary(root *os.Root, w *dirWriter, o renderOptions) (*library.Libra
 	if opt.Progress != nil {
 		fmt.Fprintln(o.progress)
 	}
-	return lib, err
+	if err != nil || opt.Cache == nil {
+		return lib, 0, err
+	}
+	// The index of the cache names the entries of renders that succeeded
+	// only. The cache does not rest on the site: committing it before the
+	// site is swapped in loses nothing if the swap fails.
+	closeRenderCache(opt.Cache, o.progress)
+	return lib, opt.Cache.Hits(), nil
 }
 
 // checkSiteFolder refuses site folders whose replacement would lose data or
@@ -277,6 +301,9 @@ func checkSiteFolder(absDir, absOut string) error {
 	if within(absOut, filepath.Join(absDir, templatesDir)) {
 		return usagef("site folder %s is inside %s/: its pages would be read as templates next time", absOut, templatesDir)
 	}
+	if within(absOut, filepath.Join(absDir, cacheDir)) {
+		return usagef("site folder %s is inside %s/, the render cache, which renders prune: choose another --site", absOut, cacheDir)
+	}
 	return nil
 }
 
@@ -284,6 +311,7 @@ func checkSiteFolder(absDir, absOut string) error {
 // their names. Once stopped, it writes nothing more.
 type dirWriter struct {
 	root string
+	site string // the site folder the files will replace, which may not exist
 
 	mu      sync.Mutex
 	files   []string
@@ -317,6 +345,44 @@ func (w *dirWriter) WriteFile(name string, data []byte) error {
 	}
 	p := filepath.Join(w.root, filepath.FromSlash(name))
 	if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
+		return err
+	}
+	return os.WriteFile(p, data, 0o644)
+}
+
+// LinkFile puts the file at src (in the render cache) in place as name:
+// a hard link when the site and the cache share a file system, else a
+// copy. When the site folder already holds that very file (a link to src
+// made by an earlier render), nothing is written: the file stays where it
+// is, and the swap keeps it since it is among the files written.
+func (w *dirWriter) LinkFile(name, src string) error {
+	if !fs.ValidPath(name) || name == siteMarker {
+		return fmt.Errorf("site file %q: invalid path", name)
+	}
+	if writeHook != nil {
+		writeHook(w, len(w.written())+1)
+	}
+	w.mu.Lock()
+	defer w.mu.Unlock()
+	if w.stopped {
+		return errInterrupted
+	}
+	w.files = append(w.files, name)
+	if failAfter > 0 && len(w.files) >= failAfter {
+		return errInjected
+	}
+	if sameFile(filepath.Join(w.site, filepath.FromSlash(name)), src) {
+		return nil
+	}
+	p := filepath.Join(w.root, filepath.FromSlash(name))
+	if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
+		return err
+	}
+	if os.Link(src, p) == nil {
+		return nil
+	}
+	data, err := os.ReadFile(src)
+	if err != nil {
 		return err
 	}
 	return os.WriteFile(p, data, 0o644)

@@ -203,6 +203,12 @@ func hook(step string) error {
 // finishes the work.
 func install(commit, out string) error {
 	if _, err := os.Lstat(out); errors.Is(err, fs.ErrNotExist) {
+		// A render leaves in place the files of the site that it would
+		// write again unchanged (see dirWriter.LinkFile): without the site,
+		// the commit folder alone is not the whole site.
+		if err := checkWhole(commit); err != nil {
+			return err
+		}
 		if err := os.Rename(commit, out); err != nil {
 			return err
 		}
@@ -334,12 +340,31 @@ func recoverSite(out string, log io.Writer) error {
 	return nil
 }
 
+// checkWhole returns an error unless the folder dir holds every file its
+// marker lists.
+func checkWhole(dir string) error {
+	files, err := readMarker(dir)
+	if err != nil {
+		return err
+	}
+	for f := range files {
+		if _, err := os.Lstat(filepath.Join(dir, filepath.FromSlash(f))); err != nil {
+			return fmt.Errorf("%s lacks %s, which the site it was to update held: the site is gone, render again", dir, f)
+		}
+	}
+	return nil
+}
+
 // lockSite takes the lock of the site folder out and returns the function
 // that releases it. A lock held by a running process is an error wrapping
 // errSiteLocked that says how to proceed; a lock left by a process that is
 // gone is broken.
 func lockSite(out string) (func(), error) {
-	lock := namesOf(out).lock()
+	return lockFile(namesOf(out).lock())
+}
+
+// lockFile takes the lock file lock as lockSite does.
+func lockFile(lock string) (func(), error) {
 	mine := strconv.Itoa(os.Getpid()) + "\n" + newID() + "\n"
 	for try := 0; ; try++ {
 		if try == 3 {

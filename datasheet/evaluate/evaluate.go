@@ -55,6 +55,12 @@ type Options struct {
 	// Progress, if set, is called after each material with the number
 	// done and the total, from one goroutine at a time.
 	Progress func(done, total int)
+	// Reuse, if set, is called for each material, from a worker, before
+	// it is evaluated. When it returns a summary (one kept from an earlier
+	// evaluation of the same inputs), that summary is the material's: it
+	// is neither evaluated nor given to each. When it returns an error,
+	// that is the material's error.
+	Reuse func(*library.Material) (*Summary, error)
 }
 
 // Library evaluates every material of lib, Workers at a time. When each is
@@ -82,24 +88,7 @@ func Library(lib *library.Library, opt Options, each func(*Material) error) ([]*
 	for range min(workers, max(n, 1)) {
 		wg.Go(func() {
 			for i := range next {
-				m, err := evaluate(lib, lib.Materials[i])
-				if err == nil {
-					m.Worn = wear.of(m)
-				}
-				if err == nil && each != nil {
-					err = each(m)
-				}
-				if err == nil {
-					s := m.Summary // a copy: m and its spectra can go
-					if f := s.Figures; f != nil && f.Weather != nil {
-						// Of a weather series, keep the totals and months.
-						g := *f
-						g.Weather = f.Weather.Totals()
-						s.Figures = &g
-					}
-					sums[i] = &s
-				}
-				errs[i] = err
+				sums[i], errs[i] = evaluateOne(lib, lib.Materials[i], wear, opt.Reuse, each)
 				done <- struct{}{}
 			}
 		})
@@ -131,6 +120,40 @@ func Library(lib *library.Library, opt Options, each func(*Material) error) ([]*
 		return out, all
 	}
 	return out, nil
+}
+
+// evaluateOne returns what Library keeps of lm: a summary that reuse
+// gives, else lm evaluated and passed to each.
+func evaluateOne(lib *library.Library, lm *library.Material, wear *wearPlan, reuse func(*library.Material) (*Summary, error), each func(*Material) error) (*Summary, error) {
+	if reuse != nil {
+		if s, err := reuse(lm); s != nil || err != nil {
+			return s, err
+		}
+	}
+	m, err := evaluate(lib, lm)
+	if err != nil {
+		return nil, err
+	}
+	m.Worn = wear.of(m)
+	if each != nil {
+		if err := each(m); err != nil {
+			return nil, err
+		}
+	}
+	return m.Kept(), nil
+}
+
+// Kept returns what [Library] keeps of m once its callback has returned:
+// a copy of its Summary (m and its spectra can go) holding, of figures
+// over a weather series, only the totals and months.
+func (m *Material) Kept() *Summary {
+	s := m.Summary
+	if f := s.Figures; f != nil && f.Weather != nil {
+		g := *f
+		g.Weather = f.Weather.Totals()
+		s.Figures = &g
+	}
+	return &s
 }
 
 // All evaluates every material of lib as [Library] does and returns the

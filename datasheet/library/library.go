@@ -5,6 +5,7 @@ import (
 	"encoding/hex"
 	"errors"
 	"fmt"
+	"io"
 	"io/fs"
 	"path"
 	"runtime"
@@ -103,6 +104,26 @@ type Input struct {
 func hashInput(p string, data []byte) Input {
 	sum := sha256.Sum256(data)
 	return Input{Path: p, SHA256: hex.EncodeToString(sum[:])}
+}
+
+// Unchanged reports whether every file of inputs still holds what its
+// SHA-256 records; when one does not (or cannot be read), it returns false
+// and that file's path.
+func (l *Library) Unchanged(inputs []Input) (bool, string) {
+	h := sha256.New()
+	for _, in := range inputs {
+		f, err := l.fsys.Open(in.Path)
+		if err != nil {
+			return false, in.Path
+		}
+		h.Reset()
+		_, err = io.Copy(h, f)
+		f.Close()
+		if err != nil || hex.EncodeToString(h.Sum(nil)) != in.SHA256 {
+			return false, in.Path
+		}
+	}
+	return true, ""
 }
 
 // Material returns the material with the given slug.

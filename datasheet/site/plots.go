@@ -260,13 +260,20 @@ func coolingChart(f *datasheet.Figures) (*chartView, error) {
 type overlay struct{ r, a spectra.Series }
 
 // keepOverlay keeps what the comparison charts draw of m.
-func (b *builder) keepOverlay(m *evaluate.Material) {
+// It returns the same for the cache.
+func (b *builder) keepOverlay(m *evaluate.Material) *cachedOverlay {
+	b.setOverlay(m.Slug, overlay{r: m.Optics.R, a: m.Optics.A})
+	return &cachedOverlay{R: m.Optics.R, A: m.Optics.A}
+}
+
+// setOverlay keeps o as what the comparison charts draw of material slug.
+func (b *builder) setOverlay(slug string, o overlay) {
 	b.mu.Lock()
 	defer b.mu.Unlock()
 	if b.overlays == nil {
 		b.overlays = map[string]overlay{}
 	}
-	b.overlays[m.Slug] = overlay{r: m.Optics.R, a: m.Optics.A}
+	b.overlays[slug] = o
 }
 
 // compareCharts overlays the reflectance (solar range) and emittance

@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"html/template"
 	"io/fs"
+	"os"
 	"path"
 	"sort"
 	"strings"
@@ -33,14 +34,29 @@ type Options struct {
 	// Progress, if set, is called after each material page with the number
 	// done and the total. It is called from one goroutine at a time.
 	Progress func(done, total int)
+	// Cache, if set, keeps what is rendered of each material for the next
+	// render and gives back what it kept from the last (see [Cache]).
+	Cache *Cache
 }
 
 // Writer receives the files of the site. Names are slash-separated paths
 // relative to the site root; each is written once. Render calls WriteFile
 // from one goroutine at a time, but not in name order: a material's files
 // are written as soon as it is rendered.
+//
+// With a [Cache], a Writer that also has the method
+//
+//	LinkFile(name, src string) error
+//
+// is given the files the cache holds by the path of the cache's copy
+// (to link, or copy), rather than read into memory and written again.
 type Writer interface {
 	WriteFile(name string, data []byte) error
+}
+
+// linker is a Writer that can take a file from the cache's folder.
+type linker interface {
+	LinkFile(name, src string) error
 }
 
 // Render evaluates every material of lib with [evaluate.Library] and writes
@@ -58,16 +74,33 @@ func Render(lib *library.Library, opt Options, out Writer) error {
 	}
 	w := &serialWriter{out: out}
 	cmpOf := b.comparisonsOf()
-	sums, err := evaluate.Library(lib, evaluate.Options{Workers: opt.Workers, Progress: opt.Progress}, func(m *evaluate.Material) error {
-		files, err := b.materialFiles(m, cmpOf[m.Slug])
+	eo := evaluate.Options{Workers: opt.Workers, Progress: opt.Progress}
+	if opt.Cache != nil {
+		eo.Reuse = func(m *library.Material) (*evaluate.Summary, error) {
+			return b.reuse(m, cmpOf[m.Slug], w)
+		}
+	}
+	sums, err := evaluate.Library(lib, eo, func(m *evaluate.Material) error {
+		cmps := cmpOf[m.Slug]
+		files, err := b.materialFiles(m, cmps)
 		if err != nil {
 			return err
 		}
-		if len(cmpOf[m.Slug]) > 0 {
-			b.keepOverlay(m)
+		var ov *cachedOverlay
+		if len(cmps) > 0 {
+			ov = b.keepOverlay(m)
 		}
 		// What stays of the material is what the later pages show.
-		m.Figures = keptFigures(m.Figures, len(cmpOf[m.Slug]) > 0)
+		m.Figures = keptFigures(m.Figures, len(cmps) > 0)
+		if opt.Cache != nil {
+			if key, ok := b.keyOf(m.Material, cmps); ok {
+				s := m.Kept()
+				e := &entry{Kept: kept{Inputs: s.Inputs, Figures: s.Figures, Verdicts: s.Verdicts, Warnings: s.Warnings, Overlay: ov}}
+				if paths, ok := opt.Cache.put(key, e, files); ok {
+					return w.takeAll(e.Files, paths, files)
+				}
+			}
+		}
 		return w.writeAll(files)
 	})
 	if err != nil {
@@ -122,6 +155,34 @@ type serialWriter struct {
 	out Writer
 }
 
+// takeAll writes the files a cache entry lists, in name order: by the
+// path of the cache's copy when the Writer can link, else from data or,
+// when data lacks a file, from the cache's copy.
+func (w *serialWriter) takeAll(list []cachedFile, paths []string, data files) error {
+	l, canLink := w.out.(linker)
+	w.mu.Lock()
+	defer w.mu.Unlock()
+	for i, f := range list {
+		if canLink {
+			if err := l.LinkFile(f.Name, paths[i]); err != nil {
+				return err
+			}
+			continue
+		}
+		b, ok := data[f.Name]
+		if !ok {
+			var err error
+			if b, err = os.ReadFile(paths[i]); err != nil {
+				return err
+			}
+		}
+		if err := w.out.WriteFile(f.Name, b); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
 // writeAll writes files in name order.
 func (w *serialWriter) writeAll(fs files) error {
 	names := make([]string, 0, len(fs))
@@ -149,6 +210,8 @@ type builder struct {
 	// rendered after the datasheets: the index, listings, review page and
 	// catalog.json.
 	sums []*evaluate.Summary
+	// cacheBase is the part of every cache key that all materials share.
+	cacheBase string
 	// overlays keeps, for each material a comparison lists, what its
 	// overlay charts draw; guarded by mu.
 	mu       sync.Mutex
@@ -161,9 +224,36 @@ func newBuilder(lib *library.Library, opt Options) (*builder, error) {
 		return nil, err
 	}
 	cfg := lib.Config
-	return &builder{lib: lib, opt: opt, tmpl: t, md: newMarkdown(cfg.AllowHTML),
+	b := &builder{lib: lib, opt: opt, tmpl: t, md: newMarkdown(cfg.AllowHTML),
 		site: siteInfo{Title: cfg.Title, Description: cfg.Description, Lab: cfg.Lab, Publisher: cfg.Publisher,
-			Version: opt.Version, SiteAddress: cfg.SiteAddress}}, nil
+			Version: opt.Version, SiteAddress: cfg.SiteAddress}}
+	if opt.Cache != nil {
+		if b.cacheBase, err = cacheBaseOf(opt.Cache, opt, cfg); err != nil {
+			return nil, err
+		}
+	}
+	return b, nil
+}
+
+// reuse writes what the cache kept of m, listed by comparisons cmps,
+// through w and returns its summary; nil when the cache holds no valid
+// entry for m.
+func (b *builder) reuse(m *library.Material, cmps []*library.Comparison, w *serialWriter) (*evaluate.Summary, error) {
+	key, ok := b.keyOf(m, cmps)
+	if !ok {
+		return nil, nil
+	}
+	e, paths := b.opt.Cache.get(key, b.lib)
+	if e == nil || (len(cmps) > 0) != (e.Kept.Overlay != nil) {
+		return nil, nil
+	}
+	if err := w.takeAll(e.Files, paths, nil); err != nil {
+		return nil, err
+	}
+	if o := e.Kept.Overlay; o != nil {
+		b.setOverlay(m.Slug, overlay{r: o.R, a: o.A})
+	}
+	return cachedSummary(m, e), nil
 }
 
 // parseTemplates parses the default templates, then the overrides.

@@ -1,0 +1,91 @@
+package main
+
+import (
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"sync"
+
+	"skysheet/datasheet/site"
+)
+
+// cacheDir is the folder, inside the library folder, of the render cache
+// (see [site.Cache]). Deleting it only makes the next render a full one.
+const cacheDir = ".skysheet-cache"
+
+// openRenderCache opens the render cache of the library in absDir and takes
+// its lock; the function returned releases it. The cache only saves time,
+// so a cache that cannot be used (a read-only library, another render
+// holding it) is named in a note on log and the render goes without it:
+// the cache is then nil.
+func openRenderCache(absDir string, log io.Writer) (*site.Cache, func()) {
+	none := func() {}
+	dir := filepath.Join(absDir, cacheDir)
+	build, err := buildID()
+	if err != nil {
+		fmt.Fprintf(log, "skysheet render: note: rendering without the cache: %v\n", err)
+		return nil, none
+	}
+	c, err := site.OpenCache(dir, build)
+	if err != nil {
+		fmt.Fprintf(log, "skysheet render: note: rendering without the cache: %v\n", err)
+		return nil, none
+	}
+	unlock, err := lockFile(filepath.Join(dir, "lock"))
+	if err != nil {
+		if errors.Is(err, errSiteLocked) {
+			err = fmt.Errorf("another render is using it (%w)", err)
+		}
+		fmt.Fprintf(log, "skysheet render: note: rendering without the cache in %s: %v\n", dir, err)
+		return nil, none
+	}
+	return c, unlock
+}
+
+// closeRenderCache commits the cache after a render that succeeded and
+// names, in a note, entries that could not be written.
+func closeRenderCache(c *site.Cache, log io.Writer) {
+	if errs := c.WriteErrors(); len(errs) > 0 {
+		fmt.Fprintf(log, "skysheet render: note: %s not written to the render cache (the site is complete): %v\n", plural(len(errs), "entry"), errs[0])
+	}
+	if err := c.Commit(); err != nil {
+		fmt.Fprintf(log, "skysheet render: note: writing the render cache: %v\n", err)
+	}
+}
+
+var (
+	buildOnce sync.Once
+	buildSum  string
+	buildErr  error
+)
+
+// buildID identifies this build of skysheet for the render cache: its
+// version and the SHA-256 of its executable, so that a rebuilt binary of
+// the same version (a development build) does not use the entries of
+// another.
+func buildID() (string, error) {
+	buildOnce.Do(func() {
+		exe, err := os.Executable()
+		if err != nil {
+			buildErr = fmt.Errorf("cannot find the running program: %w", err)
+			return
+		}
+		f, err := os.Open(exe)
+		if err != nil {
+			buildErr = fmt.Errorf("cannot read the running program: %w", err)
+			return
+		}
+		defer f.Close()
+		h := sha256.New()
+		if _, err := io.Copy(h, f); err != nil {
+			buildErr = fmt.Errorf("cannot read the running program: %w", err)
+			return
+		}
+		buildSum = version() + " " + hex.EncodeToString(h.Sum(nil))
+	})
+	return buildSum, buildErr
+}

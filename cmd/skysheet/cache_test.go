@@ -1,0 +1,193 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// renderCached renders lib into out with version ver and the render cache,
+// and returns what it printed and how many materials it took from the
+// cache.
+func renderCached(t *testing.T, lib, out, ver string) (string, int) {
+	t.Helper()
+	var log bytes.Buffer
+	res, err := renderInto(context.Background(), lib, out, renderOptions{version: ver, progress: &log, cache: true})
+	if err != nil {
+		t.Fatalf("render: %v (%s)", err, log.String())
+	}
+	return log.String(), res.reused
+}
+
+func inode(t *testing.T, p string) os.FileInfo {
+	t.Helper()
+	st, err := os.Stat(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return st
+}
+
+// TestRenderCache follows a library through the renders of a working day:
+// each site must be the one a render without cache gives.
+func TestRenderCache(t *testing.T) {
+	lib := copyLibrary(t)
+	out := filepath.Join(t.TempDir(), "site")
+	page := filepath.Join(out, "m", "frostline", "index.html")
+	check := func(step string, reused, want int) {
+		t.Helper()
+		if reused != want {
+			t.Errorf("%s: %d materials from the cache, want %d", step, reused, want)
+		}
+		sameTree(t, step, siteFiles(readTree(t, out)), siteFiles(cleanRender(t, lib, "v1")))
+	}
+
+	_, n := renderCached(t, lib, out, "v1")
+	check("first render", n, 0)
+	if st, err := os.Stat(filepath.Join(lib, cacheDir, "CACHEDIR.TAG")); err != nil || st.Size() == 0 {
+		t.Errorf("the cache folder has no tag: %v", err)
+	}
+
+	before := inode(t, page)
+	_, n = renderCached(t, lib, out, "v1")
+	check("nothing changed", n, 3)
+	if !os.SameFile(before, inode(t, page)) {
+		t.Error("nothing changed, yet the datasheet was written again")
+	}
+
+	// One spectrum changes: that material only is evaluated again.
+	spec := filepath.Join(lib, "content", "films", "clearview.csv")
+	data, err := os.ReadFile(spec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	writeAt(t, spec, string(data)+"\n")
+	_, n = renderCached(t, lib, out, "v1")
+	check("one spectrum changed", n, 2)
+
+	// A datasheet edited in place in the site (it is the cache's copy
+	// too): the cache sees it changed and renders that material again.
+	f, err := os.OpenFile(page, os.O_WRONLY, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f.WriteAt([]byte("<!-- edited by hand -->"), 0)
+	f.Close()
+	_, n = renderCached(t, lib, out, "v1")
+	check("a site page edited in place", n, 2)
+
+	// Another version: nothing is taken from the cache.
+	_, n = renderCached(t, lib, out, "v2")
+	if n != 0 {
+		t.Errorf("another version: %d materials from the cache", n)
+	}
+	_, n = renderCached(t, lib, out, "v1")
+	check("back to the first version", n, 0)
+
+	// The cache deleted: a full render, the same site.
+	if err := os.RemoveAll(filepath.Join(lib, cacheDir)); err != nil {
+		t.Fatal(err)
+	}
+	_, n = renderCached(t, lib, out, "v1")
+	check("cache deleted", n, 0)
+
+	// --no-cache neither reads nor writes it.
+	os.RemoveAll(filepath.Join(lib, cacheDir))
+	if code, _, stderr := runCLI("render", lib, "--site", out, "--no-cache"); code != 0 {
+		t.Fatalf("--no-cache: exit %d: %s", code, stderr)
+	}
+	if _, err := os.Stat(filepath.Join(lib, cacheDir)); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("--no-cache made the cache folder: %v", err)
+	}
+}
+
+// TestRenderCacheLocked checks that a render finding the cache held by
+// another one goes without it, and says so.
+func TestRenderCacheLocked(t *testing.T) {
+	lib := copyLibrary(t)
+	out := filepath.Join(t.TempDir(), "site")
+	renderCached(t, lib, out, "v1")
+	lock := filepath.Join(lib, cacheDir, "lock")
+	writeAt(t, lock, strconv.Itoa(os.Getpid())+"\nother\n") // a live process
+	log, n := renderCached(t, lib, out, "v1")
+	if n != 0 || !strings.Contains(log, "rendering without the cache") || !strings.Contains(log, "another render is using it") {
+		t.Errorf("locked cache: %d from the cache, log %q", n, log)
+	}
+	if data, _ := os.ReadFile(lock); !strings.Contains(string(data), "other") {
+		t.Error("the other render's lock was taken")
+	}
+	sameTree(t, "locked cache", siteFiles(readTree(t, out)), siteFiles(cleanRender(t, lib, "v1")))
+}
+
+// TestRenderCacheSwapInterrupted checks the swap of a site whose unchanged
+// files stayed in place: a crash during it is finished by the next render,
+// and a commit folder whose site has gone is not taken for a whole site.
+func TestRenderCacheSwapInterrupted(t *testing.T) {
+	lib := copyLibrary(t)
+	parent := t.TempDir()
+	out := filepath.Join(parent, "site")
+	renderCached(t, lib, out, "v1")
+	os.Remove(filepath.Join(lib, "content", "whites-vs-dark.md"))
+	want := siteFiles(cleanRender(t, lib, "v1"))
+
+	crash := errors.New("simulated crash")
+	swapHook = func(step string) error {
+		if step == "move" {
+			return crash
+		}
+		return nil
+	}
+	_, err := renderInto(context.Background(), lib, out, renderOptions{version: "v1", progress: &bytes.Buffer{}, cache: true})
+	swapHook = nil
+	if !errors.Is(err, crash) {
+		t.Fatalf("render: %v, want the simulated crash", err)
+	}
+	if _, n := renderCached(t, lib, out, "v1"); n != 3 {
+		t.Errorf("after the crash: %d from the cache, want 3", n)
+	}
+	sameTree(t, "after recovery", siteFiles(readTree(t, out)), want)
+
+	// A crash at the commit, then the site deleted by hand: the commit
+	// folder lacks the files that stayed in place, and says so.
+	swapHook = func(step string) error {
+		if step == "commit" {
+			return crash
+		}
+		return nil
+	}
+	writeAt(t, filepath.Join(lib, "content", "roof", "basalt.md"), strings.Replace(readFile(t, filepath.Join(lib, "content", "roof", "basalt.md")), "title:", "title: Renamed", 1))
+	_, err = renderInto(context.Background(), lib, out, renderOptions{version: "v1", progress: &bytes.Buffer{}, cache: true})
+	swapHook = nil
+	if !errors.Is(err, crash) {
+		t.Fatalf("render: %v, want the simulated crash", err)
+	}
+	if err := os.RemoveAll(out); err != nil {
+		t.Fatal(err)
+	}
+	err = recoverSite(out, &bytes.Buffer{})
+	if err == nil || !strings.Contains(err.Error(), "render again") {
+		t.Errorf("recovering a partial commit without its site: %v", err)
+	}
+}
+
+func readFile(t *testing.T, p string) string {
+	t.Helper()
+	data, err := os.ReadFile(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(data)
+}
+
+func TestRenderRefusesSiteInCache(t *testing.T) {
+	lib := copyLibrary(t)
+	code, _, stderr := runCLI("render", lib, "--site", filepath.Join(lib, cacheDir, "site"))
+	if code != 2 || !strings.Contains(stderr, "render cache") {
+		t.Errorf("site in the cache: exit %d, %q", code, stderr)
+	}
+}

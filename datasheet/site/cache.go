@@ -1,0 +1,488 @@
+package site
+
+import (
+	"bufio"
+	"bytes"
+	"crypto/rand"
+	"crypto/sha256"
+	"encoding/gob"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"hash"
+	"io"
+	"io/fs"
+	"maps"
+	"os"
+	"path/filepath"
+	"reflect"
+	"slices"
+	"sort"
+	"strconv"
+	"strings"
+	"sync"
+
+	"skysheet/datasheet"
+	"skysheet/datasheet/evaluate"
+	"skysheet/datasheet/library"
+	"skysheet/spectra"
+	"skysheet/templates"
+)
+
+// Cache is a folder that keeps, between renders, what a render made of
+// each material: its figures, verdicts and warnings, what a comparison
+// draws of it, and its files (page, downloads). A material is taken from
+// the cache, not read and evaluated again, when its entry was made by the
+// same build of skysheet with the same templates, config and Markdown
+// file, the same comparisons listing it and stack layers under it, and
+// every file it rests on (spectra, reference standards, sky and weather
+// files) still has the SHA-256 recorded in the entry.
+//
+// The cache only saves time: deleting it changes nothing else. An entry
+// that is stale (an input changed), truncated or corrupt (its checksum,
+// or the size or time of one of its files, differs from what was
+// recorded) is ignored and replaced. Materials that a comparison sets
+// against a reference are always evaluated afresh: their figures as a
+// textile rest on other materials' spectra.
+type Cache struct {
+	dir   string // entries are dir/cacheVersion/KEY/, the index dir/cacheVersion/index
+	build string
+
+	load  sync.Once
+	index map[string]*entry // the entries of the last render, by key
+
+	mu     sync.Mutex
+	next   map[string]*entry // entries read or written by this render
+	hits   int
+	errors []error // entries that could not be written
+}
+
+const (
+	// cacheVersion names the folder of entries in this format; a change
+	// of format changes it, and Commit removes the older folders.
+	cacheVersion = "v1"
+	// indexMagic starts the index.
+	indexMagic = "skysheet render cache index 1\n"
+	indexFile  = "index"
+)
+
+// OpenCache opens the cache in dir, creating it when missing. Build
+// identifies the build of the software (entries made by another build are
+// not used); it must not be empty.
+func OpenCache(dir, build string) (*Cache, error) {
+	if build == "" {
+		return nil, errors.New("render cache: no build identity")
+	}
+	if err := os.MkdirAll(filepath.Join(dir, cacheVersion), 0o755); err != nil {
+		return nil, fmt.Errorf("render cache: %w", err)
+	}
+	// The Cache Directory Tagging Specification's tag tells backup tools
+	// to skip the folder.
+	tag := filepath.Join(dir, "CACHEDIR.TAG")
+	if _, err := os.Stat(tag); errors.Is(err, fs.ErrNotExist) {
+		os.WriteFile(tag, []byte("Signature: 8a477f597d28d172789f06886806bc55\n# skysheet's render cache: safe to delete, the next render is then a full one.\n"), 0o644)
+	}
+	return &Cache{dir: dir, build: build, next: map[string]*entry{}}, nil
+}
+
+// Hits returns the number of materials taken from the cache so far.
+func (c *Cache) Hits() int {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	return c.hits
+}
+
+// WriteErrors returns the errors met while writing entries (the render
+// went on without them).
+func (c *Cache) WriteErrors() []error {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	return append([]error(nil), c.errors...)
+}
+
+// Commit writes the index of the entries this render used or wrote, then
+// removes every other entry (of materials gone or changed), what
+// interrupted renders left and the folders of older formats. Call it
+// after a render that succeeded; until then the last index stays.
+func (c *Cache) Commit() error {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	base := filepath.Join(c.dir, cacheVersion)
+	if err := writeIndex(base, c.build, c.next); err != nil {
+		return err
+	}
+	var errs []error
+	top, err := os.ReadDir(c.dir)
+	if err != nil {
+		return err
+	}
+	for _, e := range top {
+		if e.IsDir() && e.Name() != cacheVersion && strings.HasPrefix(e.Name(), "v") {
+			errs = append(errs, os.RemoveAll(filepath.Join(c.dir, e.Name())))
+		}
+	}
+	entries, err := os.ReadDir(base)
+	if err != nil {
+		return err
+	}
+	for _, e := range entries {
+		if _, ok := c.next[e.Name()]; !ok && e.IsDir() {
+			errs = append(errs, os.RemoveAll(filepath.Join(base, e.Name())))
+		}
+	}
+	return errors.Join(errs...)
+}
+
+// entry is what the cache keeps of a material, in its meta file.
+type entry struct {
+	Key   string
+	Kept  kept
+	Files []cachedFile // stored as files named 0, 1, … in the entry's folder
+	// Empty lists the slices and maps of Kept that are empty but not nil
+	// (by their number in the order of walkSlices): gob writes nothing
+	// of them and reads them back as nil, which JSON writes as null, not
+	// [].
+	Empty []int
+}
+
+// kept is the summary of a material, and what comparisons draw of it.
+type kept struct {
+	Inputs   []library.Input
+	Figures  *datasheet.Figures
+	Verdicts []datasheet.Verdict
+	Warnings []string
+	Overlay  *cachedOverlay // nil when no comparison lists the material
+}
+
+type cachedOverlay struct{ R, A spectra.Series }
+
+// cachedFile is a site file of an entry: its size and modification time
+// when it was stored, which must still hold when it is used.
+type cachedFile struct {
+	Name    string
+	Size    int64
+	ModTime int64 // nanoseconds since 1970
+}
+
+// keyOf returns the cache key of material m, listed by comparisons cmps,
+// and false when m is not to be cached.
+func (b *builder) keyOf(m *library.Material, cmps []*library.Comparison) (string, bool) {
+	for _, c := range cmps {
+		if c.Reference != nil || c.Skin != nil {
+			return "", false
+		}
+	}
+	h := sha256.New()
+	field := func(s string) { fmt.Fprintf(h, "%d:%s\n", len(s), s) }
+	field(b.cacheBase)
+	field(m.Path)
+	field(m.Slug)
+	field(m.Input.SHA256)
+	for _, l := range m.Stack {
+		if l.Material != nil {
+			field(l.Material.Path)
+			field(l.Material.Input.SHA256)
+		}
+	}
+	for _, c := range cmps {
+		sum := sha256.Sum256(c.Source)
+		field(c.Path)
+		field(hex.EncodeToString(sum[:]))
+	}
+	return hex.EncodeToString(h.Sum(nil)), true
+}
+
+// cacheBaseOf hashes what every page rests on: the build and version of
+// the software, the config file and the templates (defaults and
+// overrides).
+func cacheBaseOf(c *Cache, opt Options, cfg library.Config) (string, error) {
+	h := sha256.New()
+	fmt.Fprintf(h, "%d:%s\n%d:%s\n%s\n", len(c.build), c.build, len(opt.Version), opt.Version, cfg.Input.SHA256)
+	for _, t := range []fs.FS{templates.FS, opt.Templates} {
+		if t == nil {
+			continue
+		}
+		err := fs.WalkDir(t, ".", func(p string, d fs.DirEntry, err error) error {
+			if err != nil || d.IsDir() {
+				return err
+			}
+			data, err := fs.ReadFile(t, p)
+			if err != nil {
+				return err
+			}
+			fmt.Fprintf(h, "%d:%s\n%d:", len(p), p, len(data))
+			h.Write(data)
+			return nil
+		})
+		if err != nil {
+			return "", fmt.Errorf("templates: %w", err)
+		}
+	}
+	return hex.EncodeToString(h.Sum(nil)), nil
+}
+
+// get returns the entry under key, checked: nil when there is none or it
+// is stale or one of its files was changed. The paths of its files are
+// those of e.Files.
+func (c *Cache) get(key string, lib *library.Library) (*entry, []string) {
+	c.load.Do(func() { c.index = readIndex(filepath.Join(c.dir, cacheVersion), c.build) })
+	e := c.index[key]
+	if e == nil {
+		return nil, nil
+	}
+	if ok, _ := lib.Unchanged(e.Kept.Inputs); !ok {
+		return nil, nil
+	}
+	dir := filepath.Join(c.dir, cacheVersion, key)
+	paths := make([]string, len(e.Files))
+	for i, f := range e.Files {
+		paths[i] = filepath.Join(dir, strconv.Itoa(i))
+		st, err := os.Stat(paths[i])
+		if err != nil || !st.Mode().IsRegular() || st.Size() != f.Size || st.ModTime().UnixNano() != f.ModTime {
+			return nil, nil
+		}
+	}
+	c.mu.Lock()
+	c.next[key] = e
+	c.hits++
+	c.mu.Unlock()
+	return e, paths
+}
+
+// put stores e and the files under key and returns the paths of the
+// stored files, in e.Files order. A failure is recorded, not returned
+// as the material's: the render goes on without the entry.
+func (c *Cache) put(key string, e *entry, fs files) ([]string, bool) {
+	paths, err := c.write(key, e, fs)
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if err != nil {
+		c.errors = append(c.errors, err)
+		return nil, false
+	}
+	c.next[key] = e
+	return paths, true
+}
+
+func (c *Cache) write(key string, e *entry, fs files) ([]string, error) {
+	base := filepath.Join(c.dir, cacheVersion)
+	tmp, err := os.MkdirTemp(base, ".new-")
+	if err != nil {
+		return nil, err
+	}
+	defer os.RemoveAll(tmp) // a no-op once renamed
+	names := make([]string, 0, len(fs))
+	for n := range fs {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	e.Files = make([]cachedFile, len(names))
+	for i, n := range names {
+		p := filepath.Join(tmp, strconv.Itoa(i))
+		if err := os.WriteFile(p, fs[n], 0o644); err != nil {
+			return nil, err
+		}
+		st, err := os.Stat(p)
+		if err != nil {
+			return nil, err
+		}
+		e.Files[i] = cachedFile{Name: n, Size: st.Size(), ModTime: st.ModTime().UnixNano()}
+	}
+	e.Key = key
+	dst := filepath.Join(base, key)
+	if err := os.Rename(tmp, dst); err != nil {
+		// An older entry under the key: set it aside, then remove it.
+		aside := filepath.Join(base, ".old-"+randomID())
+		if err := os.Rename(dst, aside); err != nil {
+			return nil, err
+		}
+		defer os.RemoveAll(aside)
+		if err := os.Rename(tmp, dst); err != nil {
+			return nil, err
+		}
+	}
+	paths := make([]string, len(names))
+	for i := range names {
+		paths[i] = filepath.Join(dst, strconv.Itoa(i))
+	}
+	return paths, nil
+}
+
+// writeIndex writes the index of entries es into folder base, through a
+// temporary file: the magic line, then a gob stream of the build, the
+// number of entries and each entry in key order, then the SHA-256 of the
+// stream.
+func writeIndex(base, build string, es map[string]*entry) error {
+	f, err := os.CreateTemp(base, ".index-")
+	if err != nil {
+		return err
+	}
+	defer os.Remove(f.Name()) // a no-op once renamed
+	w := bufio.NewWriter(f)
+	w.WriteString(indexMagic)
+	h := sha256.New()
+	enc := gob.NewEncoder(io.MultiWriter(w, h))
+	keys := slices.Sorted(maps.Keys(es))
+	err = enc.Encode(indexHead{Build: build, Entries: len(keys)})
+	for _, k := range keys {
+		if err != nil {
+			break
+		}
+		e := es[k]
+		e.Empty = nil
+		n := 0
+		walkSlices(reflect.ValueOf(&e.Kept), func(v reflect.Value) {
+			if v.Len() == 0 && !v.IsNil() {
+				e.Empty = append(e.Empty, n)
+			}
+			n++
+		})
+		err = enc.Encode(e)
+	}
+	if err == nil {
+		_, err = w.Write(h.Sum(nil))
+	}
+	if err == nil {
+		err = w.Flush()
+	}
+	if cerr := f.Close(); err == nil {
+		err = cerr
+	}
+	if err != nil {
+		return err
+	}
+	return os.Rename(f.Name(), filepath.Join(base, indexFile))
+}
+
+// indexHead starts the index.
+type indexHead struct {
+	Build   string
+	Entries int
+}
+
+// readIndex reads the index that writeIndex wrote in folder base. An index
+// that is missing, of another build, truncated or corrupt gives none.
+func readIndex(base, build string) map[string]*entry {
+	f, err := os.Open(filepath.Join(base, indexFile))
+	if err != nil {
+		return nil
+	}
+	defer f.Close()
+	r := bufio.NewReader(f)
+	magic := make([]byte, len(indexMagic))
+	if _, err := io.ReadFull(r, magic); err != nil || string(magic) != indexMagic {
+		return nil
+	}
+	h := sha256.New()
+	dec := gob.NewDecoder(&hashReader{r: r, h: h})
+	var head indexHead
+	if err := dec.Decode(&head); err != nil || head.Build != build || head.Entries < 0 {
+		return nil
+	}
+	out := make(map[string]*entry, min(head.Entries, 1<<16))
+	for range head.Entries {
+		e := new(entry)
+		if err := dec.Decode(e); err != nil {
+			return nil
+		}
+		restoreEmpty(e)
+		out[e.Key] = e
+	}
+	// The checksum follows the stream; gob reads no further than it needs.
+	want := h.Sum(nil)
+	got := make([]byte, len(want))
+	if _, err := io.ReadFull(r, got); err != nil || !bytes.Equal(got, want) {
+		return nil
+	}
+	if _, err := r.ReadByte(); err != io.EOF {
+		return nil
+	}
+	return out
+}
+
+// hashReader hashes what is read through it. It is an io.ByteReader, so
+// that gob reads no further than each message.
+type hashReader struct {
+	r *bufio.Reader
+	h hash.Hash
+}
+
+func (r *hashReader) Read(p []byte) (int, error) {
+	n, err := r.r.Read(p)
+	r.h.Write(p[:n])
+	return n, err
+}
+
+func (r *hashReader) ReadByte() (byte, error) {
+	b, err := r.r.ReadByte()
+	if err == nil {
+		r.h.Write([]byte{b})
+	}
+	return b, err
+}
+
+// restoreEmpty makes the slices and maps of e.Kept that were empty when
+// written (e.Empty) empty again rather than nil.
+func restoreEmpty(e *entry) {
+	n, k := 0, 0
+	walkSlices(reflect.ValueOf(&e.Kept), func(v reflect.Value) {
+		if k < len(e.Empty) && e.Empty[k] == n {
+			k++
+			if v.IsNil() && v.CanSet() {
+				if v.Kind() == reflect.Map {
+					v.Set(reflect.MakeMap(v.Type()))
+				} else {
+					v.Set(reflect.MakeSlice(v.Type(), 0, 0))
+				}
+			}
+		}
+		n++
+	})
+}
+
+// walkSlices calls visit with every slice and map reachable from v
+// through exported fields, pointers and elements, depth first: the same
+// order for a value and its copy through gob. Map values are not entered
+// (their order is not fixed).
+func walkSlices(v reflect.Value, visit func(reflect.Value)) {
+	switch v.Kind() {
+	case reflect.Pointer, reflect.Interface:
+		if !v.IsNil() {
+			walkSlices(v.Elem(), visit)
+		}
+	case reflect.Struct:
+		t := v.Type()
+		for i := range t.NumField() {
+			if t.Field(i).IsExported() {
+				walkSlices(v.Field(i), visit)
+			}
+		}
+	case reflect.Slice:
+		visit(v)
+		for i := range v.Len() {
+			walkSlices(v.Index(i), visit)
+		}
+	case reflect.Array:
+		for i := range v.Len() {
+			walkSlices(v.Index(i), visit)
+		}
+	case reflect.Map:
+		visit(v)
+	}
+}
+
+func randomID() string {
+	var b [6]byte
+	rand.Read(b[:])
+	return hex.EncodeToString(b[:])
+}
+
+// cachedSummary returns the summary of m kept in e.
+func cachedSummary(m *library.Material, e *entry) *evaluate.Summary {
+	k := e.Kept
+	s := &evaluate.Summary{Material: m, Figures: k.Figures, Verdicts: k.Verdicts, Inputs: k.Inputs, Warnings: k.Warnings}
+	if s.Verdicts == nil {
+		s.Verdicts = []datasheet.Verdict{}
+	}
+	return s
+}

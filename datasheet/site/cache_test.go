@@ -1,0 +1,382 @@
+package site
+
+import (
+	"bytes"
+	"io/fs"
+	"maps"
+	"os"
+	"path/filepath"
+	"slices"
+	"strings"
+	"testing"
+	"time"
+
+	"skysheet/datasheet/library"
+)
+
+// copyDemo copies the demo library (config and content/) into a new
+// folder and returns it.
+func copyDemo(t *testing.T) string { return copyLibrary(t, "../..") }
+
+// copyLibrary copies the library in src (config and content/) into a new
+// folder and returns it.
+func copyLibrary(t *testing.T, src string) string {
+	t.Helper()
+	dst := t.TempDir()
+	if err := os.CopyFS(filepath.Join(dst, "content"), os.DirFS(filepath.Join(src, "content"))); err != nil {
+		t.Fatal(err)
+	}
+	cfg, err := os.ReadFile(filepath.Join(src, "skysheet.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dst, "skysheet.yaml"), cfg, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return dst
+}
+
+// mapWriter keeps the files written to it.
+type mapWriter map[string][]byte
+
+func (w mapWriter) WriteFile(name string, data []byte) error {
+	w[name] = bytes.Clone(data)
+	return nil
+}
+
+// linkWriter keeps the files written to it, and those given by path.
+type linkWriter struct{ mapWriter }
+
+func (w linkWriter) LinkFile(name, src string) error {
+	data, err := os.ReadFile(src)
+	w.mapWriter[name] = data
+	return err
+}
+
+// renderDir renders the library in dir with the given cache (nil for
+// none) and returns the site.
+func renderDir(t *testing.T, dir string, c *Cache, link bool) map[string][]byte {
+	t.Helper()
+	lib, err := library.Load(os.DirFS(dir))
+	if err != nil {
+		t.Fatal(err)
+	}
+	opt := Options{Version: "test", Cache: c}
+	if tdir := filepath.Join(dir, "templates"); isDir(tdir) {
+		opt.Templates = os.DirFS(tdir)
+	}
+	out := mapWriter{}
+	var w Writer = out
+	if link {
+		w = linkWriter{out}
+	}
+	if err := Render(lib, opt, w); err != nil {
+		t.Fatal(err)
+	}
+	if c != nil {
+		if err := c.Commit(); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return out
+}
+
+func isDir(p string) bool {
+	st, err := os.Stat(p)
+	return err == nil && st.IsDir()
+}
+
+func openCache(t *testing.T, dir, build string) *Cache {
+	t.Helper()
+	c, err := OpenCache(dir, build)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return c
+}
+
+// sameFiles fails unless got and want hold the same files, byte for byte.
+func sameFiles(t *testing.T, got, want map[string][]byte) {
+	t.Helper()
+	for _, n := range slices.Sorted(maps.Keys(want)) {
+		g, ok := got[n]
+		switch {
+		case !ok:
+			t.Errorf("%s: missing", n)
+		case !bytes.Equal(g, want[n]):
+			t.Errorf("%s: differs from the render without cache (%d bytes against %d)", n, len(g), len(want[n]))
+			if d := os.Getenv("CACHE_DIFF_DIR"); d != "" {
+				os.WriteFile(filepath.Join(d, "got-"+filepath.Base(n)), g, 0o644)
+				os.WriteFile(filepath.Join(d, "want-"+filepath.Base(n)), want[n], 0o644)
+			}
+		}
+	}
+	for n := range got {
+		if _, ok := want[n]; !ok {
+			t.Errorf("%s: not in the render without cache", n)
+		}
+	}
+}
+
+// cacheable counts the materials of the library in dir that the cache
+// keeps: those no comparison sets against a reference.
+func cacheable(t *testing.T, dir string) int {
+	lib, err := library.Load(os.DirFS(dir))
+	if err != nil {
+		t.Fatal(err)
+	}
+	worn := map[string]bool{}
+	for _, c := range lib.Comparisons {
+		if c.Reference != nil || c.Skin != nil {
+			for _, m := range c.Materials {
+				worn[m.Slug] = true
+			}
+		}
+	}
+	return len(lib.Materials) - len(worn)
+}
+
+func TestCacheReuse(t *testing.T) {
+	dir := copyDemo(t)
+	want := renderDir(t, dir, nil, false)
+	n := cacheable(t, dir)
+	if n < 10 {
+		t.Fatalf("only %d demo materials are cacheable", n)
+	}
+	for _, link := range []bool{false, true} {
+		cdir := t.TempDir()
+		cold := openCache(t, cdir, "build-1")
+		sameFiles(t, renderDir(t, dir, cold, link), want)
+		if cold.Hits() != 0 {
+			t.Errorf("link=%v: a render into an empty cache took %d materials from it", link, cold.Hits())
+		}
+		warm := openCache(t, cdir, "build-1")
+		sameFiles(t, renderDir(t, dir, warm, link), want)
+		if warm.Hits() != n {
+			t.Errorf("link=%v: the second render took %d materials from the cache, want all %d cacheable ones", link, warm.Hits(), n)
+		}
+		if errs := warm.WriteErrors(); len(errs) > 0 {
+			t.Errorf("write errors: %v", errs)
+		}
+	}
+}
+
+// entries returns the entry folders of the cache in dir.
+func entries(t *testing.T, dir string) []string {
+	t.Helper()
+	es, err := os.ReadDir(filepath.Join(dir, cacheVersion))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out []string
+	for _, e := range es {
+		if e.IsDir() {
+			out = append(out, filepath.Join(dir, cacheVersion, e.Name()))
+		}
+	}
+	return out
+}
+
+// entryOf returns the entry folder of the material whose datasheet is
+// m/SLUG/index.html, as the index of the cache in dir lists it.
+func entryOf(t *testing.T, dir, slug string) string {
+	t.Helper()
+	for key, e := range readIndex(filepath.Join(dir, cacheVersion), "build-1") {
+		for _, f := range e.Files {
+			if f.Name == "m/"+slug+"/index.html" {
+				return filepath.Join(dir, cacheVersion, key)
+			}
+		}
+	}
+	t.Fatalf("no cache entry for %s", slug)
+	return ""
+}
+
+// TestCacheInvalid checks that every kind of stale, truncated or corrupt
+// entry is detected and ignored: the render then equals one without the
+// cache, and takes from the cache only the materials left untouched. It
+// uses the small test library (TestCacheReuse covers the demo).
+func TestCacheInvalid(t *testing.T) {
+	const slug = "frostline" // a material on a comparison without a reference
+	tests := []struct {
+		name string
+		// change spoils the cache in cdir or changes the library in dir;
+		// it returns how many cacheable materials are no longer reused.
+		change func(t *testing.T, dir, cdir string) int
+		build  string
+	}{
+		{"nothing changed", func(t *testing.T, dir, cdir string) int { return 0 }, ""},
+		{"spectrum changed", func(t *testing.T, dir, cdir string) int {
+			p := spectrumOf(t, dir, slug)
+			data, _ := os.ReadFile(p)
+			// One more decimal on the last number: the same figures to
+			// the eye, another SHA-256.
+			data = append(bytes.TrimRight(data, "\r\n"), []byte("1\n")...)
+			write(t, p, data)
+			return 1
+		}, ""},
+		{"spectrum touched, content unchanged", func(t *testing.T, dir, cdir string) int {
+			p := spectrumOf(t, dir, slug)
+			later := time.Now().Add(time.Hour)
+			if err := os.Chtimes(p, later, later); err != nil {
+				t.Fatal(err)
+			}
+			return 0
+		}, ""},
+		{"Markdown changed", func(t *testing.T, dir, cdir string) int {
+			p := markdownOf(t, dir, slug)
+			data, _ := os.ReadFile(p)
+			write(t, p, append(data, []byte("\nOne more sentence.\n")...))
+			return 1
+		}, ""},
+		{"index truncated", func(t *testing.T, dir, cdir string) int {
+			p := filepath.Join(cdir, cacheVersion, indexFile)
+			data, _ := os.ReadFile(p)
+			write(t, p, data[:len(data)/2])
+			return cacheable(t, dir)
+		}, ""},
+		{"index short of its checksum", func(t *testing.T, dir, cdir string) int {
+			p := filepath.Join(cdir, cacheVersion, indexFile)
+			data, _ := os.ReadFile(p)
+			write(t, p, data[:len(data)-1])
+			return cacheable(t, dir)
+		}, ""},
+		{"index corrupt", func(t *testing.T, dir, cdir string) int {
+			p := filepath.Join(cdir, cacheVersion, indexFile)
+			data, _ := os.ReadFile(p)
+			data[len(data)/2] ^= 0x55
+			write(t, p, data)
+			return cacheable(t, dir)
+		}, ""},
+		{"index with bytes after its checksum", func(t *testing.T, dir, cdir string) int {
+			p := filepath.Join(cdir, cacheVersion, indexFile)
+			data, _ := os.ReadFile(p)
+			write(t, p, append(data, 0))
+			return cacheable(t, dir)
+		}, ""},
+		{"index empty", func(t *testing.T, dir, cdir string) int {
+			write(t, filepath.Join(cdir, cacheVersion, indexFile), nil)
+			return cacheable(t, dir)
+		}, ""},
+		{"cached page truncated", func(t *testing.T, dir, cdir string) int {
+			p := filepath.Join(entryOf(t, cdir, slug), "0")
+			data, _ := os.ReadFile(p)
+			write(t, p, data[:len(data)-1])
+			return 1
+		}, ""},
+		{"cached page rewritten at the same size", func(t *testing.T, dir, cdir string) int {
+			p := filepath.Join(entryOf(t, cdir, slug), "0")
+			data, _ := os.ReadFile(p)
+			data[0] ^= 0x20
+			time.Sleep(10 * time.Millisecond)
+			write(t, p, data)
+			return 1
+		}, ""},
+		{"cached file missing", func(t *testing.T, dir, cdir string) int {
+			os.Remove(filepath.Join(entryOf(t, cdir, slug), "0"))
+			return 1
+		}, ""},
+		{"cache deleted", func(t *testing.T, dir, cdir string) int {
+			os.RemoveAll(filepath.Join(cdir, cacheVersion))
+			os.MkdirAll(filepath.Join(cdir, cacheVersion), 0o755)
+			return cacheable(t, dir)
+		}, ""},
+		{"another build", func(t *testing.T, dir, cdir string) int { return cacheable(t, dir) }, "build-2"},
+		{"config changed", func(t *testing.T, dir, cdir string) int {
+			p := filepath.Join(dir, "skysheet.yaml")
+			data, _ := os.ReadFile(p)
+			write(t, p, append(data, []byte("\n# a comment\n")...))
+			return cacheable(t, dir)
+		}, ""},
+		{"template override added", func(t *testing.T, dir, cdir string) int {
+			os.MkdirAll(filepath.Join(dir, "templates"), 0o755)
+			css, _ := fs.ReadFile(os.DirFS("../../templates"), "style.css")
+			write(t, filepath.Join(dir, "templates", "style.css"), append(css, []byte("\n/* changed */\n")...))
+			return cacheable(t, dir)
+		}, ""},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			dir, cdir := copyLibrary(t, "../../testdata/library"), t.TempDir()
+			renderDir(t, dir, openCache(t, cdir, "build-1"), true)
+			missed := tt.change(t, dir, cdir)
+			want := renderDir(t, dir, nil, false)
+			build := "build-1"
+			if tt.build != "" {
+				build = tt.build
+			}
+			c := openCache(t, cdir, build)
+			sameFiles(t, renderDir(t, dir, c, true), want)
+			if got, n := c.Hits(), cacheable(t, dir)-missed; got != n {
+				t.Errorf("took %d materials from the cache, want %d", got, n)
+			}
+			// The entry is whole again: the next render reuses everything.
+			again := openCache(t, cdir, build)
+			sameFiles(t, renderDir(t, dir, again, true), want)
+			if got, n := again.Hits(), cacheable(t, dir); got != n {
+				t.Errorf("the render after took %d materials from the cache, want %d", got, n)
+			}
+		})
+	}
+}
+
+func write(t *testing.T, p string, data []byte) {
+	t.Helper()
+	if err := os.WriteFile(p, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// markdownOf returns the Markdown file of material slug in dir.
+func markdownOf(t *testing.T, dir, slug string) string {
+	t.Helper()
+	lib, err := library.Load(os.DirFS(dir))
+	if err != nil {
+		t.Fatal(err)
+	}
+	m, ok := lib.Material(slug)
+	if !ok {
+		t.Fatalf("no material %s in the demo", slug)
+	}
+	return filepath.Join(dir, filepath.FromSlash(m.Path))
+}
+
+// spectrumOf returns the first spectrum file of material slug in dir.
+func spectrumOf(t *testing.T, dir, slug string) string {
+	t.Helper()
+	lib, err := library.Load(os.DirFS(dir))
+	if err != nil {
+		t.Fatal(err)
+	}
+	m, _ := lib.Material(slug)
+	_, inputs, err := lib.ReadSample(m)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, in := range inputs[1:] {
+		if strings.HasSuffix(in.Path, ".csv") || strings.HasSuffix(in.Path, ".txt") {
+			return filepath.Join(dir, filepath.FromSlash(in.Path))
+		}
+	}
+	t.Fatalf("%s has no spectrum file in columns", slug)
+	return ""
+}
+
+func TestCacheCommit(t *testing.T) {
+	dir, cdir := copyDemo(t), t.TempDir()
+	renderDir(t, dir, openCache(t, cdir, "build-1"), true)
+	before := len(entries(t, cdir))
+	os.MkdirAll(filepath.Join(cdir, cacheVersion, ".new-left-by-a-killed-render"), 0o755)
+	os.MkdirAll(filepath.Join(cdir, "v0", "old-format"), 0o755)
+	// A material removed from the library: its entry goes at the next prune.
+	if err := os.Remove(markdownOf(t, dir, "kw-21")); err != nil {
+		t.Fatal(err)
+	}
+	renderDir(t, dir, openCache(t, cdir, "build-1"), true) // commits
+	if got := len(entries(t, cdir)); got != before-1 {
+		t.Errorf("after prune: %d entries, want %d", got, before-1)
+	}
+	if isDir(filepath.Join(cdir, "v0")) {
+		t.Error("the folder of an older format was kept")
+	}
+}
