@@ -47,7 +47,7 @@ func TestBrowser(t *testing.T) {
 		t.Skipf("%s not found: browser test skipped (apt-get install chromium to run it)", chromiumPath)
 	}
 	out := t.TempDir()
-	if code, stdout, stderr := runCLI("render", "--site", out, "../.."); code != 0 {
+	if code, stdout, stderr := runCLI("render", "--site", out, "--no-cache", "../.."); code != 0 {
 		t.Fatalf("skysheet render of the demo library exited %d\nstdout:\n%s\nstderr:\n%s", code, stdout, stderr)
 	}
 	srv := httptest.NewServer(http.FileServer(http.Dir(out)))
@@ -879,7 +879,7 @@ func testAxe(t *testing.T, ctx context.Context, base string) {
 // page that explains it.
 func TestFigureHeadingsExplained(t *testing.T) {
 	out := t.TempDir()
-	if code, stdout, stderr := runCLI("render", "--site", out, "../.."); code != 0 {
+	if code, stdout, stderr := runCLI("render", "--site", out, "--no-cache", "../.."); code != 0 {
 		t.Fatalf("skysheet render of the demo library exited %d\nstdout:\n%s\nstderr:\n%s", code, stdout, stderr)
 	}
 	pages, err := filepath.Glob(filepath.Join(out, "m", "*", "index.html"))

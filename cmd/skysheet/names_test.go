@@ -55,7 +55,7 @@ func TestDocsUseCurrentNames(t *testing.T) {
 // file of the site, and its paths.
 func TestDemoSiteUsesCurrentNames(t *testing.T) {
 	out := filepath.Join(t.TempDir(), "site")
-	if code, _, stderr := runCLI("render", "--site", out, filepath.Join("..", "..")); code != 0 {
+	if code, _, stderr := runCLI("render", "--site", out, "--no-cache", filepath.Join("..", "..")); code != 0 {
 		t.Fatalf("render of the demo library exited %d: %s", code, stderr)
 	}
 	files := readTree(t, out)
