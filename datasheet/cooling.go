@@ -173,10 +173,6 @@ type coolSpan struct {
 	left, right lc      // emittance at the two ends, seen from inside
 	skyL, skyR  float64 // hemispherical sky emissivity at the two ends
 	held        bool    // the emittance is held constant here
-	// fixed, when set, replaces the held value (the extrapolation's
-	// alternatives, see heldUncertainty).
-	fixed    float64
-	hasFixed bool
 }
 
 // coolGrid is the integration grid of the exchange band for one sample's
@@ -348,6 +344,7 @@ type coolState struct {
 	g        *coolGrid
 	a        spectra.Series
 	wrad     []float64 // per node: Σ (Δλ/2)·ε, so that P_rad(T) = π Σ wrad·B
+	wc, xs   []float64 // see compact
 	patm     float64   // P_atm, W/m²
 	heldEmit float64   // π ∫ ε B(T_amb) over the held part, W/m²
 	k        float64   // ε = k·a: the near-normal to hemispherical ratio, or 1
@@ -356,12 +353,19 @@ type coolState struct {
 // load loads emittance k·a, where a is the data's emittance and k converts
 // it to hemispherical (1 for none).
 func (g *coolGrid) load(a spectra.Series, k float64) *coolState {
+	return g.loadHeld(a, k, math.NaN())
+}
+
+// loadHeld is load with the emittance where it is held constant replaced
+// by held, unless held is NaN (the extrapolation's alternatives, see
+// heldUncertainty).
+func (g *coolGrid) loadHeld(a spectra.Series, k, held float64) *coolState {
 	s := &coolState{g: g, a: a, wrad: make([]float64, len(g.nodes)), k: k}
 	for _, sp := range g.spans {
 		d := (g.nodes[sp.a+1] - g.nodes[sp.a]) / 2
 		el, er := k*sp.left.eval(a), k*sp.right.eval(a)
-		if sp.hasFixed {
-			el, er = sp.fixed, sp.fixed
+		if sp.held && !math.IsNaN(held) {
+			el, er = held, held
 		}
 		s.wrad[sp.a] += d * el
 		s.wrad[sp.a+1] += d * er
@@ -372,6 +376,7 @@ func (g *coolGrid) load(a spectra.Series, k float64) *coolState {
 	}
 	s.patm *= math.Pi
 	s.heldEmit *= math.Pi
+	s.compact()
 	return s
 }
 
@@ -398,12 +403,24 @@ func (s *coolState) prad(t float64) float64 {
 		return math.Pi * sum
 	}
 	inv := 1 / t
-	for i, w := range s.wrad {
-		if w != 0 {
-			sum += w * g.c1[i] / (math.Exp(g.x[i]*inv) - 1)
-		}
+	x := s.xs[:len(s.wc)]
+	for i, wc := range s.wc {
+		sum += wc / (math.Exp(x[i]*inv) - 1)
 	}
 	return math.Pi * sum
+}
+
+// compact keeps, for prad, the nodes where wrad is not zero, in order,
+// with wrad·c1 there: the sum over them is the sum over every node, term
+// for term (w·c1 is the product the sum would form first).
+func (s *coolState) compact() {
+	g := s.g
+	s.wc, s.xs = make([]float64, 0, len(s.wrad)), make([]float64, 0, len(s.wrad))
+	for i, w := range s.wrad {
+		if w != 0 {
+			s.wc, s.xs = append(s.wc, w*g.c1[i]), append(s.xs, g.x[i])
+		}
+	}
 }
 
 // net returns P_net(T) = P_rad(T) − P_atm − P_sun − h (T_amb − T).
@@ -721,27 +738,29 @@ func (m *cooling) heldUncertainty(a spectra.Series, base coolFigures) map[string
 	s := base.state
 	net := func(st *coolState, t float64) float64 { return st.prad(t) - st.patm }
 	var dDay, dNight, dEqDay, dEqNight float64
+	// What the alternatives are compared with, computed once.
+	netAmb := net(s, c.AmbientK)
+	var netNight, slopeNight, netDay, slopeDay float64
+	if !math.IsNaN(base.eqNight) {
+		netNight, slopeNight = net(s, base.eqNight), s.slope(base.eqNight, c.HWm2K)
+	}
+	if !math.IsNaN(base.eqDay) {
+		netDay, slopeDay = net(s, base.eqDay), s.slope(base.eqDay, c.HWm2K)
+	}
 	for _, e := range heldAlternatives {
-		g := *m.g
-		g.spans = append([]coolSpan(nil), m.g.spans...)
-		for i := range g.spans {
-			if g.spans[i].held {
-				g.spans[i].fixed, g.spans[i].hasFixed = e, true
-			}
-		}
-		alt := g.load(a, s.k)
-		d := net(alt, c.AmbientK) - net(s, c.AmbientK) // the sun's term does not change
+		alt := m.g.loadHeld(a, s.k, e)
+		d := net(alt, c.AmbientK) - netAmb // the sun's term does not change
 		if math.Abs(d) < 1e-9 {
 			d = 0 // rounding: the held part cancels (a black sky there)
 		}
 		dDay, dNight = math.Max(dDay, math.Abs(d)), math.Max(dNight, math.Abs(d))
 		if !math.IsNaN(base.eqNight) {
-			dp := net(alt, base.eqNight) - net(s, base.eqNight)
-			dEqNight = math.Max(dEqNight, math.Abs(dp/s.slope(base.eqNight, c.HWm2K)))
+			dp := net(alt, base.eqNight) - netNight
+			dEqNight = math.Max(dEqNight, math.Abs(dp/slopeNight))
 		}
 		if !math.IsNaN(base.eqDay) {
-			dp := net(alt, base.eqDay) - net(s, base.eqDay)
-			dEqDay = math.Max(dEqDay, math.Abs(dp/s.slope(base.eqDay, c.HWm2K)))
+			dp := net(alt, base.eqDay) - netDay
+			dEqDay = math.Max(dEqDay, math.Abs(dp/slopeDay))
 		}
 	}
 	set := func(key string, v, a float64) {

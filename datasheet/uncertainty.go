@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"sort"
 
 	"skysheet/spectra"
 )
@@ -166,9 +167,14 @@ func newProbe(s *spectra.Spectrum, q spectra.Quantity, o spectra.Optics, tol flo
 			}
 			d := make([]float64, len(pc.V))
 			sl := make([]int, len(pc.V))
+			at := nmCursor{nm: rt.sorted}
 			for j, nm := range pc.NM {
 				d[j] = (up.Pieces[p].V[j] - dn.Pieces[p].V[j]) / 2
-				sl[j] = rt.slot(nm)
+				if i, ok := at.find(nm); ok {
+					sl[j] = rt.sortedK[i]
+				} else {
+					sl[j] = rt.slot(nm)
+				}
 			}
 			pr.delta[qi][p], pr.slot[qi][p] = d, sl
 		}
@@ -208,23 +214,45 @@ func (pr *probe) together(g gradient) float64 {
 // R and T behind it are given.
 func statedMask(s *spectra.Spectrum, o spectra.Optics) [3][][]bool {
 	type row struct{ r, t, a, ur, ut bool }
-	rows := map[float64]row{}
 	has := func(g spectra.Segment, q spectra.Quantity, j int) bool {
 		return g.Values[q] != nil && !math.IsNaN(g.Values[q][j])
 	}
+	// The rows by wavelength; where two segments share one, the later
+	// segment's row counts.
+	type entry struct {
+		nm float64
+		w  row
+	}
+	var rows []entry
 	for _, g := range s.Segments {
 		for j, nm := range g.NM {
-			rows[nm] = row{r: has(g, spectra.R, j), t: has(g, spectra.T, j), a: has(g, spectra.A, j),
-				ur: has(g, spectra.UR, j), ut: has(g, spectra.UT, j)}
+			rows = append(rows, entry{nm, row{r: has(g, spectra.R, j), t: has(g, spectra.T, j), a: has(g, spectra.A, j),
+				ur: has(g, spectra.UR, j), ut: has(g, spectra.UT, j)}})
 		}
+	}
+	if !slices.IsSortedFunc(rows, func(a, b entry) int { return cmp.Compare(a.nm, b.nm) }) {
+		slices.SortStableFunc(rows, func(a, b entry) int { return cmp.Compare(a.nm, b.nm) })
+	}
+	nms := make([]float64, 0, len(rows))
+	ws := make([]row, 0, len(rows))
+	for _, e := range rows {
+		if n := len(nms); n > 0 && nms[n-1] == e.nm {
+			ws[n-1] = e.w
+			continue
+		}
+		nms, ws = append(nms, e.nm), append(ws, e.w)
 	}
 	var out [3][][]bool
 	for q, x := range [3]spectra.Series{o.R, o.T, o.A} {
 		out[q] = make([][]bool, len(x.Pieces))
 		for p, pc := range x.Pieces {
 			m := make([]bool, len(pc.NM))
+			at := nmCursor{nm: nms}
 			for j, nm := range pc.NM {
-				w := rows[nm]
+				var w row
+				if i, ok := at.find(nm); ok {
+					w = ws[i]
+				}
 				switch q {
 				case int(spectra.R):
 					m[j] = w.r && w.ur
@@ -238,6 +266,29 @@ func statedMask(s *spectra.Spectrum, o spectra.Optics) [3][][]bool {
 		}
 	}
 	return out
+}
+
+// nmCursor finds wavelengths in a sorted list of distinct wavelengths,
+// walking on from the last one found when the next is near, else
+// searching: finding n increasing wavelengths costs about O(n).
+type nmCursor struct {
+	nm []float64
+	i  int
+}
+
+// find returns the index of the first wavelength at or after x, and
+// whether it is x.
+func (c *nmCursor) find(x float64) (int, bool) {
+	i := c.i
+	if i > 0 && c.nm[i-1] >= x || i+8 < len(c.nm) && c.nm[i+8] < x {
+		i = sort.SearchFloat64s(c.nm, x)
+	} else {
+		for i < len(c.nm) && c.nm[i] < x {
+			i++
+		}
+	}
+	c.i = i
+	return i, i < len(c.nm) && c.nm[i] == x
 }
 
 // reachOf returns Σ|g| where the value's uncertainty is known over Σ|g|.
@@ -291,7 +342,13 @@ type rowTable struct {
 	nm    []float64
 	group []int
 	pos   []float64 // ∫ dλ / w(λ): resolution elements from an arbitrary origin
-	index map[float64]int
+	// sorted are the rows' distinct wavelengths in increasing order,
+	// sortedK the row of each (the last, where rows share one); added
+	// holds the rows slot adds.
+	sorted  []float64
+	sortedK []int
+	added   map[float64]int
+	end     []int // see windows
 }
 
 // newRowTable returns the rows of s. A row whose file is not known (a
@@ -327,11 +384,22 @@ func newRowTable(s *spectra.Spectrum) *rowTable {
 		}
 		return cmp.Compare(a.nm, b.nm)
 	})
-	rt := &rowTable{nm: make([]float64, len(rows)), group: make([]int, len(rows)), pos: make([]float64, len(rows)),
-		index: make(map[float64]int, len(rows))}
+	rt := &rowTable{nm: make([]float64, len(rows)), group: make([]int, len(rows)), pos: make([]float64, len(rows))}
 	for k, r := range rows {
 		rt.nm[k], rt.group[k], rt.pos[k] = r.nm, r.group, r.pos
-		rt.index[r.nm] = k
+	}
+	order := make([]int, len(rows))
+	for k := range order {
+		order[k] = k
+	}
+	slices.SortStableFunc(order, func(a, b int) int { return cmp.Compare(rt.nm[a], rt.nm[b]) })
+	rt.sorted, rt.sortedK = make([]float64, 0, len(rows)), make([]int, 0, len(rows))
+	for _, k := range order {
+		if n := len(rt.sorted); n > 0 && rt.sorted[n-1] == rt.nm[k] {
+			rt.sortedK[n-1] = k // the last row of that wavelength
+			continue
+		}
+		rt.sorted, rt.sortedK = append(rt.sorted, rt.nm[k]), append(rt.sortedK, k)
 	}
 	return rt
 }
@@ -339,12 +407,18 @@ func newRowTable(s *spectra.Spectrum) *rowTable {
 // slot returns the row of wavelength nm, adding one (a group of its own)
 // if the spectrum has none there.
 func (rt *rowTable) slot(nm float64) int {
-	if k, ok := rt.index[nm]; ok {
+	if i, ok := slices.BinarySearch(rt.sorted, nm); ok {
+		return rt.sortedK[i]
+	}
+	if k, ok := rt.added[nm]; ok {
 		return k
 	}
 	k := len(rt.nm)
 	rt.nm, rt.group, rt.pos = append(rt.nm, nm), append(rt.group, -2-k), append(rt.pos, 0)
-	rt.index[nm] = k
+	if rt.added == nil {
+		rt.added = map[float64]int{}
+	}
+	rt.added[nm] = k
 	return k
 }
 
@@ -376,22 +450,39 @@ func elements(r spectra.Resolution, nm float64) float64 {
 func (rt *rowTable) spread(b []float64) float64 {
 	var sum float64
 	n := len(b)
+	end := rt.windows(n)
 	for k := 0; k < n; k++ {
 		x := b[k]
 		if x == 0 {
 			continue
 		}
 		sum += x * x
-		gk, pk := rt.group[k], rt.pos[k]
-		for l := k + 1; l < n && rt.group[l] == gk; l++ {
-			d := rt.pos[l] - pk
-			if d >= 1 {
-				break
-			}
-			sum += 2 * x * b[l] * (1 - d)
+		pk := rt.pos[k]
+		near, bl := rt.pos[k+1:end[k]], b[k+1:end[k]]
+		for l, pl := range near {
+			d := pl - pk
+			sum += 2 * x * bl[l] * (1 - d)
 		}
 	}
 	return math.Sqrt(math.Max(0, sum))
+}
+
+// windows returns, for each of the first n rows k, the end of the rows
+// after it in its file that lie less than one resolution element away
+// (the rows k+1 … end[k]−1): the same for every figure, found once.
+func (rt *rowTable) windows(n int) []int {
+	if len(rt.end) == n {
+		return rt.end
+	}
+	rt.end = make([]int, n)
+	for k := range n {
+		l := k + 1
+		for l < n && rt.group[l] == rt.group[k] && !(rt.pos[l]-rt.pos[k] >= 1) {
+			l++
+		}
+		rt.end[k] = l
+	}
+	return rt.end
 }
 
 // byGroup returns, with c_f = Σ_k∈f b_k the change of a linear figure when

@@ -102,9 +102,9 @@ func Resolve(s *Spectrum, tol float64) Optics {
 			put = newPiece(len(g.NM))
 		}
 		pieces := [numQuantities]*Piece{&pr, &pt, &pa, &pur, &put}
-		src := [numQuantities]Piece{}
+		src := [numQuantities]cursor{}
 		for q := range src {
-			src[q] = segmentPiece(g, Quantity(q))
+			src[q] = cursor{p: segmentPiece(g, Quantity(q))}
 		}
 		for _, nm := range g.NM {
 			var v [numQuantities]float64

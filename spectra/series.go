@@ -42,6 +42,36 @@ func (s Series) At(nm float64) (float64, bool) {
 	return math.NaN(), false
 }
 
+// cursor reads a piece at wavelengths that mostly increase, as
+// [Piece.value] does, walking on from the last point found instead of
+// searching from the start: reading a piece at each of n wavelengths in
+// order costs O(n) rather than O(n log n).
+type cursor struct {
+	p Piece
+	i int // the first point at or after the last wavelength read
+}
+
+// value is p.value(nm), the same arithmetic on the same points.
+func (c *cursor) value(nm float64) (float64, bool) {
+	p := c.p
+	if len(p.NM) == 0 || nm < p.NM[0] || nm > p.NM[len(p.NM)-1] {
+		return math.NaN(), false
+	}
+	if c.i > 0 && p.NM[c.i-1] >= nm { // gone back: search again
+		c.i = 0
+	}
+	i := c.i
+	for p.NM[i] < nm { // stops inside: nm ≤ the last point
+		i++
+	}
+	c.i = i
+	if p.NM[i] == nm {
+		return p.V[i], true
+	}
+	f := (nm - p.NM[i-1]) / (p.NM[i] - p.NM[i-1])
+	return p.V[i-1] + f*(p.V[i]-p.V[i-1]), true
+}
+
 // at interpolates within the piece; nm must lie inside it.
 func (p Piece) at(nm float64) float64 {
 	i := sort.SearchFloat64s(p.NM, nm)

@@ -1,0 +1,89 @@
+package datasheet
+
+import (
+	"math"
+	"math/rand/v2"
+	"sort"
+	"testing"
+)
+
+// TestNMCursor checks nmCursor.find against a binary search of the whole
+// list (sort.SearchFloat64s) for wavelengths read in order, repeated,
+// going back and jumping ahead.
+func TestNMCursor(t *testing.T) {
+	r := rand.New(rand.NewPCG(7, 8))
+	for range 100 {
+		var nm []float64
+		x := 0.0
+		for range r.IntN(40) {
+			x += 0.5 + r.Float64()
+			nm = append(nm, x)
+		}
+		c := nmCursor{nm: nm}
+		q := -1.0
+		for range 200 {
+			switch r.IntN(6) {
+			case 0:
+				q -= 5 * r.Float64()
+			case 1:
+				q += 20 * r.Float64()
+			case 2:
+				if len(nm) > 0 {
+					q = nm[r.IntN(len(nm))]
+				}
+			case 3:
+			default:
+				q += r.Float64()
+			}
+			want := sort.SearchFloat64s(nm, q)
+			got, ok := c.find(q)
+			if got != want || ok != (want < len(nm) && nm[want] == q) {
+				t.Fatalf("find(%v) in %v = %d %v, want %d", q, nm, got, ok, want)
+			}
+		}
+	}
+}
+
+// TestSpreadWindows checks that spread, summing over the rows windows
+// finds, gives to the bit what the sum that looks for the end of each
+// row's window as it goes gives (the form it replaces).
+func TestSpreadWindows(t *testing.T) {
+	r := rand.New(rand.NewPCG(9, 10))
+	for range 50 {
+		rt := &rowTable{}
+		pos := 0.0
+		for k := range 300 {
+			if r.IntN(40) == 0 {
+				pos = 10 * r.Float64()
+			}
+			pos += 0.4 * r.Float64()
+			rt.nm, rt.pos, rt.group = append(rt.nm, float64(k)), append(rt.pos, pos), append(rt.group, k/100)
+		}
+		for range 3 {
+			b := make([]float64, len(rt.nm))
+			for k := range b {
+				if r.IntN(3) > 0 {
+					b[k] = r.NormFloat64()
+				}
+			}
+			var sum float64
+			for k := range b {
+				x := b[k]
+				if x == 0 {
+					continue
+				}
+				sum += x * x
+				for l := k + 1; l < len(b) && rt.group[l] == rt.group[k]; l++ {
+					d := rt.pos[l] - rt.pos[k]
+					if d >= 1 {
+						break
+					}
+					sum += 2 * x * b[l] * (1 - d)
+				}
+			}
+			if got, want := rt.spread(b), math.Sqrt(math.Max(0, sum)); math.Float64bits(got) != math.Float64bits(want) {
+				t.Fatalf("spread %v, want %v", got, want)
+			}
+		}
+	}
+}
