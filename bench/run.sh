@@ -23,6 +23,9 @@ modes (-m):
   lab       the lab script only
   changed   re-render times: full render, re-render with nothing changed (one
             file touched), re-render after one material's spectrum changed
+  index     one full render, then the index opened from disk in headless
+            Chromium REPS times (bench/pageload): its size with what it
+            loads, the median and slowest load, the rows script, the first sort
 
   -w DIR    work folder (default: a new folder under /tmp, removed at the end)
   -k        keep the work folder (libraries, sites, PNGs)
@@ -35,6 +38,7 @@ environment:
   PYTHON           interpreter with numpy and matplotlib (default /usr/bin/python3)
   LAB_JOBS         worker processes of the lab script (default 1)
   SEED             seed of the generated libraries (default 1)
+  CHROMIUM         the browser of -m index (default /usr/bin/chromium)
 EOF
 }
 
@@ -50,7 +54,7 @@ while getopts "m:r:w:kh" opt; do
 	esac
 done
 shift $((OPTIND - 1))
-case $mode in full | skysheet | lab | changed) ;; *) echo "run.sh: unknown mode $mode" >&2; usage >&2; exit 2 ;; esac
+case $mode in full | skysheet | lab | changed | index) ;; *) echo "run.sh: unknown mode $mode" >&2; usage >&2; exit 2 ;; esac
 [[ $reps =~ ^[1-9][0-9]*$ ]] || { echo "run.sh: -r wants a positive count" >&2; exit 2; }
 sizes=("$@")
 [ ${#sizes[@]} -gt 0 ] || sizes=(100 1000)
@@ -99,6 +103,11 @@ else
 	bin=$work/skysheet
 fi
 (cd "$root" && go build -o "$work/genlib" ./bench/genlib)
+if [ "$mode" = index ]; then
+	chromium=${CHROMIUM:-/usr/bin/chromium}
+	[ -x "$chromium" ] || { echo "run.sh: -m index needs chromium at $chromium (apt-get install chromium)" >&2; exit 1; }
+	(cd "$root" && go build -o "$work/pageload" ./bench/pageload)
+fi
 
 # timed CMD...: runs CMD and prints "wall_s cpu_s rss_mib" (CPU = user +
 # system, RSS = peak resident set of the process and its children).
@@ -186,6 +195,15 @@ for n in "${sizes[@]}"; do
 		fi
 		rows+=("| $(printf "%'d" "$n") | $sw | $lw | $ratio | $sc | $lc | $sr | $lr |")
 		;;
+	index)
+		rm -rf "$site"
+		fresh_library "$lib"
+		r=$(timed "$bin" "$verb" "$lib" "$outflag" "$site")
+		log "N=$n: full render: $r"
+		read -r ib fb lm lx rb sm runs < <("$work/pageload" -runs "$reps" -chromium "$chromium" "$site")
+		kb() { awk -v b="$1" 'BEGIN { printf "%.0f", b / 1000 }'; }
+		rows+=("| $(printf "%'d" "$n") | ${r%% *} | $(kb "$ib") | $(kb "$fb") | $lm | $lx | $(kb "$rb") | $sm |")
+		;;
 	changed)
 		# Full renders from scratch (no site, no cache).
 		for ((k = 1; k <= reps; k++)); do
@@ -222,6 +240,10 @@ done
 load_end=$(cut -d' ' -f1-3 /proc/loadavg)
 echo
 case $mode in
+index)
+	echo "| materials | render (s) | index.html (KB) | first load with CSS and scripts (KB) | load, median (ms) | load, slowest (ms) | rows.js (KB) | first sort, median (ms) |"
+	echo "| ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |"
+	;;
 changed)
 	echo "| materials | full render, s (CPU s) | re-render, nothing changed, s (CPU s) | re-render, one material changed, s (CPU s) | unchanged / full | changed / full |"
 	echo "| ---: | ---: | ---: | ---: | ---: | ---: |"
@@ -234,8 +256,14 @@ esac
 printf '%s\n' "${rows[@]}"
 echo
 pyver=""
-if [ "$mode" != skysheet ] && [ "$mode" != changed ]; then
+if [ "$mode" = full ] || [ "$mode" = lab ]; then
 	pyver="; lab script: $("$python" -c 'import sys, numpy, matplotlib; print("Python %d.%d.%d, numpy %s, matplotlib %s" % (sys.version_info[:3] + (numpy.__version__, matplotlib.__version__)))'), $lab_jobs process(es)"
+fi
+if [ "$mode" = index ]; then
+	echo "One render per size (wall time). The index opened from file:// $reps times (after one warm-up run), each in a fresh" \
+		"headless $("$chromium" --version 2>/dev/null || echo chromium) with an empty profile; load = navigation start to the end of the" \
+		"load event (the page's navigation timing); first sort = click on the solar reflectance heading to the sorted rows, the rows" \
+		"script loaded. KB = 1000 bytes."
 fi
 echo "Medians of $reps runs; wall time and peak RSS per process, CPU = user + system. $cores cores (nproc)${cpu:+, $cpu}${mem:+, $mem RAM};" \
 	"load average ${load_start// /, } at the start, ${load_end// /, } at the end. $version (\`$SKYSHEET_RENDER\`, $rev)$pyver; seed $seed."
