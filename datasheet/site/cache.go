@@ -271,6 +271,9 @@ func (c *Cache) write(key string, e *entry, fs files) ([]string, error) {
 		return nil, err
 	}
 	defer os.RemoveAll(tmp) // a no-op once renamed
+	if err := os.Chmod(tmp, 0o755); err != nil {
+		return nil, err
+	}
 	names := make([]string, 0, len(fs))
 	for n := range fs {
 		names = append(names, n)
@@ -318,6 +321,10 @@ func writeIndex(base, build string, es map[string]*entry) error {
 		return err
 	}
 	defer os.Remove(f.Name()) // a no-op once renamed
+	if err := f.Chmod(0o644); err != nil {
+		f.Close()
+		return err
+	}
 	w := bufio.NewWriter(f)
 	w.WriteString(indexMagic)
 	h := sha256.New()

@@ -7,8 +7,10 @@ import (
 	"fmt"
 	"html/template"
 	"io/fs"
+	"maps"
 	"os"
 	"path"
+	"runtime"
 	"sort"
 	"strings"
 	"sync"
@@ -301,39 +303,75 @@ type files map[string][]byte
 // render renders the pages that rest on every material: index,
 // listings, comparisons, review and assets.
 func (b *builder) render() (files, error) {
-	out := files{}
-	var errs library.Errors
-	if err := b.indexFiles(out); err != nil {
-		errs = append(errs, err)
-	}
-	if err := b.listingFiles(out); err != nil {
-		errs = append(errs, err)
-	}
+	// The parts are independent: they are built at the same time, each
+	// into files of its own, and merged in this order.
+	parts := []func(files) error{b.indexFiles, b.listingFiles}
 	for _, c := range b.lib.Comparisons {
-		if err := b.comparisonFiles(c, out); err != nil {
-			errs = append(errs, err)
+		parts = append(parts, func(out files) error { return b.comparisonFiles(c, out) })
+	}
+	parts = append(parts, b.reviewFiles,
+		func(out files) error {
+			data, err := b.searchIndex()
+			out[searchIndexName] = data
+			return err
+		},
+		func(out files) error {
+			var errs library.Errors
+			for _, a := range []string{"style.css", "site.js"} {
+				data, err := b.asset(a)
+				if err != nil {
+					errs = append(errs, err)
+					continue
+				}
+				out["assets/"+a] = data
+			}
+			if len(errs) > 0 {
+				return errs
+			}
+			return nil
+		})
+	outs := make([]files, len(parts))
+	errs := make([]error, len(parts))
+	next := make(chan int)
+	var wg sync.WaitGroup
+	for range min(b.workers(), len(parts)) {
+		wg.Go(func() {
+			for i := range next {
+				outs[i] = files{}
+				errs[i] = parts[i](outs[i])
+			}
+		})
+	}
+	for i := range parts {
+		next <- i
+	}
+	close(next)
+	wg.Wait()
+	out := files{}
+	var all library.Errors
+	for i := range parts {
+		maps.Copy(out, outs[i])
+		var es library.Errors
+		switch {
+		case errs[i] == nil:
+		case errors.As(errs[i], &es):
+			all = append(all, es...)
+		default:
+			all = append(all, errs[i])
 		}
 	}
-	if err := b.reviewFiles(out); err != nil {
-		errs = append(errs, err)
-	}
-	if data, err := b.searchIndex(); err != nil {
-		errs = append(errs, err)
-	} else {
-		out[searchIndexName] = data
-	}
-	for _, a := range []string{"style.css", "site.js"} {
-		data, err := b.asset(a)
-		if err != nil {
-			errs = append(errs, err)
-			continue
-		}
-		out["assets/"+a] = data
-	}
-	if len(errs) > 0 {
-		return nil, errs
+	if len(all) > 0 {
+		return nil, all
 	}
 	return out, nil
+}
+
+// workers is the number of goroutines rendering at once.
+func (b *builder) workers() int {
+	if b.opt.Workers > 0 {
+		return b.opt.Workers
+	}
+	return runtime.GOMAXPROCS(0)
 }
 
 // execute runs a page template.
