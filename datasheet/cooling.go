@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -191,6 +192,11 @@ type coolGrid struct {
 	bbPower   float64      // π ∫ B(T_amb) over the band, W/m²
 	heldPower float64      // π ∫ B(T_amb) over the held part, W/m²
 	held      [][2]float64 // held ranges, nm
+	// steps and den are kept for the root searches (bracketSteps,
+	// pradShared); grids copied by withSky share den, which rests on the
+	// nodes only.
+	steps []float64
+	den   map[float64][]float64
 }
 
 // newCoolGrid returns the grid for emittance series a, or nil when a does
@@ -345,6 +351,7 @@ type coolState struct {
 	a        spectra.Series
 	wrad     []float64 // per node: Σ (Δλ/2)·ε, so that P_rad(T) = π Σ wrad·B
 	wc, xs   []float64 // see compact
+	idx      []int32   // the node of each of wc
 	patm     float64   // P_atm, W/m²
 	heldEmit float64   // π ∫ ε B(T_amb) over the held part, W/m²
 	k        float64   // ε = k·a: the near-normal to hemispherical ratio, or 1
@@ -415,10 +422,10 @@ func (s *coolState) prad(t float64) float64 {
 // for term (w·c1 is the product the sum would form first).
 func (s *coolState) compact() {
 	g := s.g
-	s.wc, s.xs = make([]float64, 0, len(s.wrad)), make([]float64, 0, len(s.wrad))
+	s.wc, s.xs, s.idx = make([]float64, 0, len(s.wrad)), make([]float64, 0, len(s.wrad)), make([]int32, 0, len(s.wrad))
 	for i, w := range s.wrad {
 		if w != 0 {
-			s.wc, s.xs = append(s.wc, w*g.c1[i]), append(s.xs, g.x[i])
+			s.wc, s.xs, s.idx = append(s.wc, w*g.c1[i]), append(s.xs, g.x[i]), append(s.idx, int32(i))
 		}
 	}
 }
@@ -431,9 +438,62 @@ func (s *coolState) net(t, psun, h float64) float64 {
 // equilibrium returns T_eq where P_net(T_eq) = 0, found by bracketing and
 // Brent's method to 1e-9 K. P_net increases with T.
 func (s *coolState) equilibrium(psun, h float64) (float64, error) {
-	f := func(t float64) float64 { return s.net(t, psun, h) }
 	ta := s.g.ambientK
-	return increasingRoot(f, ta, 0.05*ta, 10*ta)
+	lo, hi := 0.05*ta, 10*ta
+	steps := s.g.bracketSteps(lo, hi)
+	f := func(t float64) float64 {
+		if slices.Contains(steps, t) { // a first step of every search: shared
+			return s.pradShared(t) - s.patm - psun - h*(s.g.ambientK-t)
+		}
+		return s.net(t, psun, h)
+	}
+	return increasingRoot(f, ta, lo, hi)
+}
+
+// bracketSteps returns the temperatures increasingRoot, searching from
+// T_amb within [lo, hi], tries first whatever the state: T_amb ∓ 4, 8, 16 …
+// K, computed as it computes them.
+func (g *coolGrid) bracketSteps(lo, hi float64) []float64 {
+	if g.steps == nil {
+		x0 := g.ambientK
+		for step := 4.0; ; step *= 2 {
+			a, b := math.Max(lo, x0-step), math.Min(hi, x0+step)
+			g.steps = append(g.steps, a, b)
+			if a == lo && b == hi || step > 1e9 { // the second: a NaN ambient
+				break
+			}
+		}
+	}
+	return g.steps
+}
+
+// pradShared is prad at a temperature that many states of the grid are
+// asked at (bracketSteps): the Planck denominators exp(x/T) − 1 of every
+// node at t are kept in the grid, so that each state after the first only
+// sums. The terms and their order are prad's.
+func (s *coolState) pradShared(t float64) float64 {
+	g := s.g
+	if t == g.ambientK {
+		return s.prad(t)
+	}
+	den, ok := g.den[t]
+	if !ok {
+		inv := 1 / t
+		den = make([]float64, len(g.x))
+		for i, x := range g.x {
+			den[i] = math.Exp(x*inv) - 1
+		}
+		if g.den == nil {
+			g.den = map[float64][]float64{}
+		}
+		g.den[t] = den
+	}
+	var sum float64
+	idx := s.idx[:len(s.wc)]
+	for k, wc := range s.wc {
+		sum += wc / den[idx[k]]
+	}
+	return math.Pi * sum
 }
 
 // increasingRoot finds the zero of an increasing function f within

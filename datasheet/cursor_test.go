@@ -5,6 +5,8 @@ import (
 	"math/rand/v2"
 	"sort"
 	"testing"
+
+	"skysheet/spectra"
 )
 
 // TestNMCursor checks nmCursor.find against a binary search of the whole
@@ -85,5 +87,37 @@ func TestSpreadWindows(t *testing.T) {
 				t.Fatalf("spread %v, want %v", got, want)
 			}
 		}
+	}
+}
+
+// TestPradShared checks that P_rad from the grid's kept Planck
+// denominators is prad's to the bit, for states of one grid loaded with
+// different emittances, at every temperature a root search tries first.
+func TestPradShared(t *testing.T) {
+	s := whiteSample(t)
+	c := DefaultConditions()
+	o := spectra.Resolve(s, c.ClosureTol)
+	sky, err := skyFor(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	g := newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK)
+	if g == nil {
+		t.Fatal("no grid")
+	}
+	steps := g.bracketSteps(0.05*c.AmbientK, 10*c.AmbientK)
+	if len(steps) < 4 {
+		t.Fatalf("steps %v", steps)
+	}
+	for _, k := range []float64{1, 0.93} {
+		st := g.load(o.A, k)
+		for _, temp := range steps {
+			if got, want := st.pradShared(temp), st.prad(temp); math.Float64bits(got) != math.Float64bits(want) {
+				t.Errorf("k %g, %g K: %v, prad %v", k, temp, got, want)
+			}
+		}
+	}
+	if len(g.den) == 0 {
+		t.Error("no denominators kept")
 	}
 }
