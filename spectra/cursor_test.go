@@ -59,3 +59,23 @@ func TestSourceIn(t *testing.T) {
 		}
 	}
 }
+
+// TestWeightReader checks that reading the ASTM G173-03 tables in order
+// with a cursor gives At's values to the bit, inside, at and beyond the
+// table's ends.
+func TestWeightReader(t *testing.T) {
+	for _, w := range []Weighting{SolarGlobal(), SolarDirect(), Blackbody{K: 300}} {
+		r := newWeightReader(w)
+		for nm := 200.0; nm < 5000; nm += 0.37 {
+			if got, want := r.at(nm), w.At(nm); math.Float64bits(got) != math.Float64bits(want) {
+				t.Fatalf("%s at %g: %v, At %v", w, nm, got, want)
+			}
+		}
+		r = newWeightReader(w)
+		for _, nm := range append(append([]float64{100}, w.Knots(0, 1e6)...), 1e6) { // its own points
+			if got, want := r.at(nm), w.At(nm); math.Float64bits(got) != math.Float64bits(want) {
+				t.Fatalf("%s at %g: %v, At %v", w, nm, got, want)
+			}
+		}
+	}
+}

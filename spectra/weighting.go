@@ -99,6 +99,34 @@ func (t *table) Knots(lo, hi float64) []float64 {
 
 func (t *table) String() string { return t.name }
 
+// weightReader reads a weighting at increasing wavelengths: a table with a
+// cursor (the same values as At, without a search for each), any other
+// weighting through At.
+type weightReader struct {
+	w Weighting
+	t *table
+	c cursor
+}
+
+func newWeightReader(w Weighting) weightReader {
+	r := weightReader{w: w}
+	if t, ok := w.(*table); ok {
+		r.t, r.c = t, cursor{p: Piece{NM: t.nm, V: t.w}}
+	}
+	return r
+}
+
+func (r *weightReader) at(nm float64) float64 {
+	if r.t == nil {
+		return r.w.At(nm)
+	}
+	v, ok := r.c.value(nm)
+	if !ok {
+		return 0 // outside the table, as At
+	}
+	return v
+}
+
 //go:embed astm-g173-03.csv
 var g173CSV string
 
@@ -171,6 +199,7 @@ func BandMean(x Series, w Weighting, lo, hi float64) Mean {
 		m.Covered = append(m.Covered, Interval{a, b})
 		c := make([]float64, len(p.NM))
 		grid := unionGrid(a, b, p.NM, w.Knots(a, b))
+		wr := newWeightReader(w)
 		// t[k] is the trapezoid weight of grid point k, times w there.
 		j := sort.SearchFloat64s(p.NM, a) // data interval [j-1, j] or point j
 		for k, g := range grid {
@@ -181,7 +210,7 @@ func BandMean(x Series, w Weighting, lo, hi float64) Mean {
 			if k < len(grid)-1 {
 				t += (grid[k+1] - g) / 2
 			}
-			t *= w.At(g)
+			t *= wr.at(g)
 			m.W += t
 			for j < len(p.NM)-1 && p.NM[j] < g {
 				j++
@@ -223,10 +252,11 @@ func BandMean(x Series, w Weighting, lo, hi float64) Mean {
 // knots and the limits.
 func integrateWeight(w Weighting, lo, hi float64) float64 {
 	grid := unionGrid(lo, hi, nil, w.Knots(lo, hi))
+	wr := newWeightReader(w)
 	var sum float64
-	prev := w.At(grid[0])
+	prev := wr.at(grid[0])
 	for k := 1; k < len(grid); k++ {
-		cur := w.At(grid[k])
+		cur := wr.at(grid[k])
 		sum += (grid[k] - grid[k-1]) * (prev + cur) / 2
 		prev = cur
 	}
