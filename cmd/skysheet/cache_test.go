@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"io"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -189,5 +190,29 @@ func TestRenderRefusesSiteInCache(t *testing.T) {
 	code, _, stderr := runCLI("render", lib, "--site", filepath.Join(lib, cacheDir, "site"))
 	if code != 2 || !strings.Contains(stderr, "render cache") {
 		t.Errorf("site in the cache: exit %d, %q", code, stderr)
+	}
+}
+
+// TestPreviewCache checks that preview renders through the same cache and
+// serves the same files as without it.
+func TestPreviewCache(t *testing.T) {
+	lib := copyLibrary(t)
+	plain, problems := (&preview{dir: lib, version: "test", log: io.Discard}).render()
+	if problems != nil {
+		t.Fatal(problems)
+	}
+	if _, err := os.Stat(filepath.Join(lib, cacheDir)); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("a preview without the cache made its folder: %v", err)
+	}
+	s := &preview{dir: lib, version: "test", log: io.Discard, cache: true}
+	for i := range 2 {
+		files, problems := s.render()
+		if problems != nil {
+			t.Fatal(problems)
+		}
+		sameTree(t, "preview "+strconv.Itoa(i+1), files, plain)
+	}
+	if _, err := os.Stat(filepath.Join(lib, cacheDir, "v1", "index")); err != nil {
+		t.Errorf("the preview left no cache index: %v", err)
 	}
 }

@@ -39,6 +39,7 @@ func init() {
 func runPreview(e *env, args []string) error {
 	fl := newFlags(e, commands["preview"])
 	port := fl.Int("port", 8080, "port on 127.0.0.1 (0 picks a free one)")
+	noCache := fl.Bool("no-cache", false, "neither read nor write the render cache ("+cacheDir+"/ in the library folder)")
 	maxSize := maxFileSizeFlag(fl)
 	pos, err := parseFlags(fl, args)
 	if err != nil {
@@ -57,7 +58,7 @@ func runPreview(e *env, args []string) error {
 	if st, err := os.Stat(dir); err != nil || !st.IsDir() {
 		return usagef("library folder %s: not a folder", dir)
 	}
-	s := &preview{dir: dir, version: version(), log: e.stderr, maxSize: *maxSize}
+	s := &preview{dir: dir, version: version(), log: e.stderr, maxSize: *maxSize, cache: !*noCache}
 	s.rerender()
 	ln, err := net.Listen("tcp", fmt.Sprintf("127.0.0.1:%d", *port))
 	if err != nil {
@@ -89,6 +90,7 @@ type preview struct {
 	dir, version string
 	log          io.Writer
 	maxSize      int64 // largest file read; 0 means defaultMaxFileSize
+	cache        bool  // use the render cache, as render does
 
 	// changed, if set, is called from the watcher with the name of every
 	// change that leads to a new render (tests follow the watcher with it).
@@ -171,9 +173,19 @@ func (s *preview) render() (memSite, []string) {
 	if st, err := fs.Stat(fsys, templatesDir); err == nil && st.IsDir() {
 		opt.Templates, _ = fs.Sub(fsys, templatesDir)
 	}
+	if s.cache {
+		// The same cache as render's: a rebuild after an edit evaluates
+		// only the materials whose files changed.
+		c, release := openRenderCache(s.dir, s.log)
+		defer release()
+		opt.Cache = c
+	}
 	out := memSite{}
 	if err := site.Render(lib, opt, out); err != nil {
 		return nil, problems(err)
+	}
+	if opt.Cache != nil {
+		closeRenderCache(opt.Cache, s.log)
 	}
 	return out, nil
 }

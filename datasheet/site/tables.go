@@ -35,8 +35,8 @@ func (b *builder) tableCSV(ms []*evaluate.Summary, numbers map[string]int) ([]by
 	w.Write(append(head, "page"))
 	for _, m := range ms {
 		fm := m.Front
-		r := []string{strconv.Itoa(numbers[m.Slug]), fm.Title, m.Slug, fm.Maker, fm.Lab, fm.ProductCode, fm.Category,
-			strings.Join(uniqueTags(fm.Tags), "; ")}
+		r := []string{strconv.Itoa(numbers[m.Slug]), textCell(fm.Title), m.Slug, textCell(fm.Maker), textCell(fm.Lab),
+			textCell(fm.ProductCode), textCell(fm.Category), textCell(strings.Join(uniqueTags(fm.Tags), "; "))}
 		for _, col := range tableFigures {
 			x := figureOf(m.Figures, col.Key)
 			u := ""
@@ -49,6 +49,17 @@ func (b *builder) tableCSV(ms []*evaluate.Summary, numbers map[string]int) ([]by
 	}
 	w.Flush()
 	return buf.Bytes(), w.Error()
+}
+
+// textCell returns the text of a CSV cell so that a spreadsheet shows it
+// as text: a cell starting with "=", "+", "-", "@", a tab or a carriage
+// return would be run as a formula, so it gets a leading apostrophe (the
+// guidance of the OWASP page "CSV Injection").
+func textCell(s string) string {
+	if s != "" && strings.ContainsRune("=+-@\t\r", rune(s[0])) {
+		return "'" + s
+	}
+	return s
 }
 
 // csvNumber writes v in full precision; "" when it is not a finite number.

@@ -92,3 +92,24 @@ func TestTableCSV(t *testing.T) {
 		}
 	}
 }
+
+// TestTextCell checks that text a spreadsheet would run as a formula is
+// written as text (OWASP, "CSV Injection": cells starting with =, +, -, @,
+// tab or carriage return get a leading apostrophe), and other text as is.
+func TestTextCell(t *testing.T) {
+	for _, tc := range []struct{ in, want string }{
+		{`=HYPERLINK("http://example.invalid","x")`, `'=HYPERLINK("http://example.invalid","x")`},
+		{"+1+2", "'+1+2"},
+		{"-2+3", "'-2+3"},
+		{"@SUM(A1)", "'@SUM(A1)"},
+		{"\t=1", "'\t=1"},
+		{"\r=1", "'\r=1"},
+		{"White roof coating = cool", "White roof coating = cool"},
+		{"BX-7", "BX-7"},
+		{"", ""},
+	} {
+		if got := textCell(tc.in); got != tc.want {
+			t.Errorf("textCell(%q) = %q, want %q", tc.in, got, tc.want)
+		}
+	}
+}
