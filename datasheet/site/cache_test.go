@@ -380,3 +380,53 @@ func TestCacheCommit(t *testing.T) {
 		t.Error("the folder of an older format was kept")
 	}
 }
+
+// FuzzReadIndex feeds the cache's index reader arbitrary bytes: it must
+// never panic, and an index it accepts must be written back and read again
+// to the same entries.
+func FuzzReadIndex(f *testing.F) {
+	seed := indexBytes(f, map[string]*entry{
+		"k1": {Key: "k1", Kept: kept{Warnings: []string{}, Inputs: []library.Input{{Path: "a.csv", SHA256: "00"}}},
+			Files: []cachedFile{{Name: "m/a/index.html", Size: 3, ModTime: 1}}},
+		"k2": {Key: "k2"},
+	})
+	f.Add(seed)
+	f.Add(seed[:len(seed)/2])
+	f.Add([]byte(indexMagic))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		base := t.TempDir()
+		if err := os.WriteFile(filepath.Join(base, indexFile), data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		es := readIndex(base, "b")
+		if es == nil {
+			return
+		}
+		again := t.TempDir()
+		if err := writeIndex(again, "b", es); err != nil {
+			t.Fatal(err)
+		}
+		back := readIndex(again, "b")
+		if len(back) != len(es) {
+			t.Fatalf("written back, %d entries read again, want %d", len(back), len(es))
+		}
+		for k := range es {
+			if back[k] == nil {
+				t.Fatalf("entry %q lost when written back", k)
+			}
+		}
+	})
+}
+
+// indexBytes returns the bytes of an index of es, of build "b".
+func indexBytes(tb testing.TB, es map[string]*entry) []byte {
+	base := tb.TempDir()
+	if err := writeIndex(base, "b", es); err != nil {
+		tb.Fatal(err)
+	}
+	data, err := os.ReadFile(filepath.Join(base, indexFile))
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return data
+}
