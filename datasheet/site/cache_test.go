@@ -430,3 +430,28 @@ func indexBytes(tb testing.TB, es map[string]*entry) []byte {
 	}
 	return data
 }
+
+// TestOpenCacheRefusesForeignFolder checks that a folder holding files
+// but no tag is not taken for a cache (which would prune them).
+func TestOpenCacheRefusesForeignFolder(t *testing.T) {
+	dir := t.TempDir()
+	write(t, filepath.Join(dir, "notes.txt"), []byte("mine"))
+	if _, err := OpenCache(dir, "b"); err == nil || !strings.Contains(err.Error(), "CACHEDIR.TAG") {
+		t.Errorf("a folder of notes opened as a cache: %v", err)
+	}
+	empty := filepath.Join(t.TempDir(), "new")
+	c, err := OpenCache(empty, "b")
+	if err != nil {
+		t.Fatal(err)
+	}
+	os.MkdirAll(filepath.Join(empty, "vintage"), 0o755) // not a format folder
+	if err := c.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if !isDir(filepath.Join(empty, "vintage")) {
+		t.Error("Commit removed a folder that is not one of the cache's")
+	}
+	if _, err := OpenCache(empty, "b"); err != nil {
+		t.Errorf("the cache made there does not open again: %v", err)
+	}
+}
