@@ -328,26 +328,7 @@ var writeHook func(w *dirWriter, n int)
 var errInjected = errors.New("injected write failure")
 
 func (w *dirWriter) WriteFile(name string, data []byte) error {
-	if !fs.ValidPath(name) || name == siteMarker {
-		return fmt.Errorf("site file %q: invalid path", name)
-	}
-	if writeHook != nil {
-		writeHook(w, len(w.written())+1)
-	}
-	w.mu.Lock()
-	defer w.mu.Unlock()
-	if w.stopped {
-		return errInterrupted
-	}
-	w.files = append(w.files, name)
-	if failAfter > 0 && len(w.files) >= failAfter {
-		return errInjected
-	}
-	p := filepath.Join(w.root, filepath.FromSlash(name))
-	if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
-		return err
-	}
-	return os.WriteFile(p, data, 0o644)
+	return w.put(name, func(p string) error { return os.WriteFile(p, data, 0o644) })
 }
 
 // LinkFile puts the file at src (in the render cache) in place as name:
@@ -356,6 +337,24 @@ func (w *dirWriter) WriteFile(name string, data []byte) error {
 // made by an earlier render), nothing is written: the file stays where it
 // is, and the swap keeps it since it is among the files written.
 func (w *dirWriter) LinkFile(name, src string) error {
+	if sameFile(filepath.Join(w.site, filepath.FromSlash(name)), src) {
+		return w.put(name, nil)
+	}
+	return w.put(name, func(p string) error {
+		if os.Link(src, p) == nil {
+			return nil
+		}
+		data, err := os.ReadFile(src)
+		if err != nil {
+			return err
+		}
+		return os.WriteFile(p, data, 0o644)
+	})
+}
+
+// put records the site file name and, unless write is nil, makes its
+// folder and calls write with its path.
+func (w *dirWriter) put(name string, write func(path string) error) error {
 	if !fs.ValidPath(name) || name == siteMarker {
 		return fmt.Errorf("site file %q: invalid path", name)
 	}
@@ -371,21 +370,14 @@ func (w *dirWriter) LinkFile(name, src string) error {
 	if failAfter > 0 && len(w.files) >= failAfter {
 		return errInjected
 	}
-	if sameFile(filepath.Join(w.site, filepath.FromSlash(name)), src) {
+	if write == nil {
 		return nil
 	}
 	p := filepath.Join(w.root, filepath.FromSlash(name))
 	if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
 		return err
 	}
-	if os.Link(src, p) == nil {
-		return nil
-	}
-	data, err := os.ReadFile(src)
-	if err != nil {
-		return err
-	}
-	return os.WriteFile(p, data, 0o644)
+	return write(p)
 }
 
 // stop makes every later write fail and waits for a write under way.

@@ -73,17 +73,29 @@ func OpenCache(dir, build string) (*Cache, error) {
 	if build == "" {
 		return nil, errors.New("render cache: no build identity")
 	}
+	// The cache prunes what it did not list: a folder of that name that
+	// holds anything but a cache is not taken for one.
+	tag := filepath.Join(dir, "CACHEDIR.TAG")
+	if _, err := os.Stat(tag); errors.Is(err, fs.ErrNotExist) {
+		if es, err := os.ReadDir(dir); err == nil && len(es) > 0 {
+			return nil, fmt.Errorf("render cache: %s holds files but no CACHEDIR.TAG: not a cache skysheet made, left alone", dir)
+		}
+	}
 	if err := os.MkdirAll(filepath.Join(dir, cacheVersion), 0o755); err != nil {
 		return nil, fmt.Errorf("render cache: %w", err)
 	}
 	// The Cache Directory Tagging Specification's tag tells backup tools
 	// to skip the folder.
-	tag := filepath.Join(dir, "CACHEDIR.TAG")
 	if _, err := os.Stat(tag); errors.Is(err, fs.ErrNotExist) {
-		os.WriteFile(tag, []byte("Signature: 8a477f597d28d172789f06886806bc55\n# skysheet's render cache: safe to delete, the next render is then a full one.\n"), 0o644)
+		if err := os.WriteFile(tag, []byte(cacheTag), 0o644); err != nil {
+			return nil, fmt.Errorf("render cache: %w", err)
+		}
 	}
 	return &Cache{dir: dir, build: build, next: map[string]*entry{}}, nil
 }
+
+// cacheTag is the CACHEDIR.TAG that marks the folder as a cache.
+const cacheTag = "Signature: 8a477f597d28d172789f06886806bc55\n# skysheet's render cache: safe to delete, the next render is then a full one.\n"
 
 // Hits returns the number of materials taken from the cache so far.
 func (c *Cache) Hits() int {
@@ -117,7 +129,7 @@ func (c *Cache) Commit() error {
 		return err
 	}
 	for _, e := range top {
-		if e.IsDir() && e.Name() != cacheVersion && strings.HasPrefix(e.Name(), "v") {
+		if e.IsDir() && e.Name() != cacheVersion && isFormatFolder(e.Name()) {
 			errs = append(errs, os.RemoveAll(filepath.Join(c.dir, e.Name())))
 		}
 	}
@@ -131,6 +143,14 @@ func (c *Cache) Commit() error {
 		}
 	}
 	return errors.Join(errs...)
+}
+
+// isFormatFolder reports whether name is that of a folder of entries of
+// some format: "v" and a number.
+func isFormatFolder(name string) bool {
+	n, ok := strings.CutPrefix(name, "v")
+	_, err := strconv.Atoi(n)
+	return ok && err == nil
 }
 
 // entry is what the cache keeps of a material, in its meta file.

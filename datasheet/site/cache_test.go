@@ -380,3 +380,78 @@ func TestCacheCommit(t *testing.T) {
 		t.Error("the folder of an older format was kept")
 	}
 }
+
+// FuzzReadIndex feeds the cache's index reader arbitrary bytes: it must
+// never panic, and an index it accepts must be written back and read again
+// to the same entries.
+func FuzzReadIndex(f *testing.F) {
+	seed := indexBytes(f, map[string]*entry{
+		"k1": {Key: "k1", Kept: kept{Warnings: []string{}, Inputs: []library.Input{{Path: "a.csv", SHA256: "00"}}},
+			Files: []cachedFile{{Name: "m/a/index.html", Size: 3, ModTime: 1}}},
+		"k2": {Key: "k2"},
+	})
+	f.Add(seed)
+	f.Add(seed[:len(seed)/2])
+	f.Add([]byte(indexMagic))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		base := t.TempDir()
+		if err := os.WriteFile(filepath.Join(base, indexFile), data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		es := readIndex(base, "b")
+		if es == nil {
+			return
+		}
+		again := t.TempDir()
+		if err := writeIndex(again, "b", es); err != nil {
+			t.Fatal(err)
+		}
+		back := readIndex(again, "b")
+		if len(back) != len(es) {
+			t.Fatalf("written back, %d entries read again, want %d", len(back), len(es))
+		}
+		for k := range es {
+			if back[k] == nil {
+				t.Fatalf("entry %q lost when written back", k)
+			}
+		}
+	})
+}
+
+// indexBytes returns the bytes of an index of es, of build "b".
+func indexBytes(tb testing.TB, es map[string]*entry) []byte {
+	base := tb.TempDir()
+	if err := writeIndex(base, "b", es); err != nil {
+		tb.Fatal(err)
+	}
+	data, err := os.ReadFile(filepath.Join(base, indexFile))
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return data
+}
+
+// TestOpenCacheRefusesForeignFolder checks that a folder holding files
+// but no tag is not taken for a cache (which would prune them).
+func TestOpenCacheRefusesForeignFolder(t *testing.T) {
+	dir := t.TempDir()
+	write(t, filepath.Join(dir, "notes.txt"), []byte("mine"))
+	if _, err := OpenCache(dir, "b"); err == nil || !strings.Contains(err.Error(), "CACHEDIR.TAG") {
+		t.Errorf("a folder of notes opened as a cache: %v", err)
+	}
+	empty := filepath.Join(t.TempDir(), "new")
+	c, err := OpenCache(empty, "b")
+	if err != nil {
+		t.Fatal(err)
+	}
+	os.MkdirAll(filepath.Join(empty, "vintage"), 0o755) // not a format folder
+	if err := c.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if !isDir(filepath.Join(empty, "vintage")) {
+		t.Error("Commit removed a folder that is not one of the cache's")
+	}
+	if _, err := OpenCache(empty, "b"); err != nil {
+		t.Errorf("the cache made there does not open again: %v", err)
+	}
+}
