@@ -7,6 +7,7 @@ import (
 	"html"
 	"math"
 	"slices"
+	"sort"
 	"strconv"
 	"strings"
 	"sync"
@@ -454,7 +455,9 @@ func clip(p spectra.Piece, lo, hi float64) spectra.Piece {
 	if n == 0 || p.NM[n-1] < lo || p.NM[0] > hi {
 		return spectra.Piece{}
 	}
-	var out spectra.Piece
+	// At most the points inside and the two ends: sized once, not grown.
+	inside := sort.Search(n, func(i int) bool { return p.NM[i] > hi }) - sort.SearchFloat64s(p.NM, lo)
+	out := spectra.Piece{NM: make([]float64, 0, max(inside, 0)+2), V: make([]float64, 0, max(inside, 0)+2)}
 	at := func(i int, x float64) float64 {
 		f := (x - p.NM[i-1]) / (p.NM[i] - p.NM[i-1])
 		return p.V[i-1] + f*(p.V[i]-p.V[i-1])
