@@ -455,24 +455,21 @@ func clip(p spectra.Piece, lo, hi float64) spectra.Piece {
 	if n == 0 || p.NM[n-1] < lo || p.NM[0] > hi {
 		return spectra.Piece{}
 	}
-	// At most the points inside and the two ends: sized once, not grown.
-	inside := sort.Search(n, func(i int) bool { return p.NM[i] > hi }) - sort.SearchFloat64s(p.NM, lo)
-	out := spectra.Piece{NM: make([]float64, 0, max(inside, 0)+2), V: make([]float64, 0, max(inside, 0)+2)}
+	// The points inside are p[i0:i1]; an end is interpolated where the
+	// point before it lies outside.
+	i0, _ := slices.BinarySearch(p.NM, lo)                         // first ≥ lo
+	i1 := sort.Search(n, func(i int) bool { return p.NM[i] > hi }) // first > hi
 	at := func(i int, x float64) float64 {
 		f := (x - p.NM[i-1]) / (p.NM[i] - p.NM[i-1])
 		return p.V[i-1] + f*(p.V[i]-p.V[i-1])
 	}
-	for i := range n {
-		x := p.NM[i]
-		if i > 0 && p.NM[i-1] < lo && x > lo {
-			out.NM, out.V = append(out.NM, lo), append(out.V, at(i, lo))
-		}
-		if x >= lo && x <= hi {
-			out.NM, out.V = append(out.NM, x), append(out.V, p.V[i])
-		}
-		if i > 0 && p.NM[i-1] < hi && x > hi {
-			out.NM, out.V = append(out.NM, hi), append(out.V, at(i, hi))
-		}
+	out := spectra.Piece{NM: make([]float64, 0, i1-i0+2), V: make([]float64, 0, i1-i0+2)}
+	if i0 > 0 && p.NM[i0] > lo {
+		out.NM, out.V = append(out.NM, lo), append(out.V, at(i0, lo))
+	}
+	out.NM, out.V = append(out.NM, p.NM[i0:i1]...), append(out.V, p.V[i0:i1]...)
+	if i1 < n && p.NM[i1-1] < hi {
+		out.NM, out.V = append(out.NM, hi), append(out.V, at(i1, hi))
 	}
 	return out
 }

@@ -155,6 +155,28 @@ func TestClip(t *testing.T) {
 	if got := clip(p, 500, 600); len(got.NM) != 0 {
 		t.Errorf("outside: %+v", got)
 	}
+	// Ends on data points, and a range between two points; linear
+	// interpolation by hand.
+	for _, tt := range []struct {
+		lo, hi float64
+		want   spectra.Piece
+	}{
+		{200, 300, spectra.Piece{NM: []float64{200, 300}, V: []float64{1, 2}}},
+		{100, 400, p},
+		{50, 450, p},
+		{220, 260, spectra.Piece{NM: []float64{220, 260}, V: []float64{1.2, 1.6}}},
+		{400, 500, spectra.Piece{NM: []float64{400}, V: []float64{3}}},
+	} {
+		got := clip(p, tt.lo, tt.hi)
+		if len(got.NM) != len(tt.want.NM) {
+			t.Fatalf("[%g, %g]: got %+v, want %+v", tt.lo, tt.hi, got, tt.want)
+		}
+		for i := range tt.want.NM {
+			if got.NM[i] != tt.want.NM[i] || math.Abs(got.V[i]-tt.want.V[i]) > 1e-12 {
+				t.Errorf("[%g, %g]: got %+v, want %+v", tt.lo, tt.hi, got, tt.want)
+			}
+		}
+	}
 }
 
 func TestTicks(t *testing.T) {
