@@ -16,6 +16,7 @@ import (
 	"github.com/wcharczuk/go-chart/v2"
 	"github.com/wcharczuk/go-chart/v2/drawing"
 	"golang.org/x/image/font"
+	"golang.org/x/image/math/fixed"
 
 	"skysheet/spectra"
 )
@@ -717,7 +718,7 @@ func textWidth(s string, size px) int {
 		face = truetype.NewFace(f, &truetype.Options{DPI: k.dpi, Size: k.size})
 		faceCache.faces[k] = face
 	}
-	w := font.MeasureString(face, s)
+	w := measureCached(k, face, s)
 	faceCache.Unlock()
 	return int(math.Ceil(float64(w) / 64 * fallbackWiden))
 }
@@ -989,12 +990,40 @@ type faceKey struct {
 	size, dpi float64
 }
 
-// faceCache holds faces for all charts. A face is not safe for concurrent
-// use, so measuring holds the lock.
+// faceCache holds faces for all charts, and the widths of the strings
+// measured with them: a library's charts measure the same tick labels and
+// axis names over and over, and a face loads a glyph's outline for each
+// advance. A face is not safe for concurrent use, so measuring holds the
+// lock.
 var faceCache = struct {
 	sync.Mutex
-	faces map[faceKey]font.Face
-}{faces: map[faceKey]font.Face{}}
+	faces  map[faceKey]font.Face
+	widths map[widthKey]fixed.Int26_6
+}{faces: map[faceKey]font.Face{}, widths: map[widthKey]fixed.Int26_6{}}
+
+// widthKey is a string measured with a face.
+type widthKey struct {
+	face faceKey
+	s    string
+}
+
+// maxCachedWidths bounds the width cache; it is emptied when full.
+const maxCachedWidths = 1 << 16
+
+// measureCached returns font.MeasureString(face, s), from the cache when
+// s was measured with the face of key k before. faceCache must be locked.
+func measureCached(k faceKey, face font.Face, s string) fixed.Int26_6 {
+	wk := widthKey{k, s}
+	if w, ok := faceCache.widths[wk]; ok {
+		return w
+	}
+	w := font.MeasureString(face, s)
+	if len(faceCache.widths) >= maxCachedWidths {
+		clear(faceCache.widths)
+	}
+	faceCache.widths[wk] = w
+	return w
+}
 
 // measuredSVG tracks the text state that go-chart's SVG renderer keeps to
 // itself, and measures text with a cached face.
@@ -1026,7 +1055,7 @@ func (r *measuredSVG) MeasureText(body string) chart.Box {
 		face = truetype.NewFace(r.font, &truetype.Options{DPI: r.dpi, Size: r.size})
 		faceCache.faces[k] = face
 	}
-	w := font.MeasureString(face, body).Ceil()
+	w := measureCached(k, face, body).Ceil()
 	faceCache.Unlock()
 	box.Right = w
 	box.Bottom = int(drawing.PointsToPixels(r.dpi, r.size))
