@@ -349,12 +349,13 @@ func (g *coolGrid) fits(a spectra.Series) bool {
 type coolState struct {
 	g        *coolGrid
 	a        spectra.Series
-	wrad     []float64 // per node: Σ (Δλ/2)·ε, so that P_rad(T) = π Σ wrad·B
-	wc, xs   []float64 // see compact
-	idx      []int32   // the node of each of wc
-	patm     float64   // P_atm, W/m²
-	heldEmit float64   // π ∫ ε B(T_amb) over the held part, W/m²
-	k        float64   // ε = k·a: the near-normal to hemispherical ratio, or 1
+	wrad     []float64  // per node: Σ (Δλ/2)·ε, so that P_rad(T) = π Σ wrad·B
+	wc, xs   []float64  // see compact
+	idx      []int32    // the node of each of wc
+	patm     float64    // P_atm, W/m²
+	heldEmit float64    // π ∫ ε B(T_amb) over the held part, W/m²
+	k        float64    // ε = k·a: the near-normal to hemispherical ratio, or 1
+	fit      *smoothFit // P_rad(T) about T_amb, once smooth has made it
 }
 
 // load loads emittance k·a, where a is the data's emittance and k converts
@@ -385,6 +386,22 @@ func (g *coolGrid) loadHeld(a spectra.Series, k, held float64) *coolState {
 	s.heldEmit *= math.Pi
 	s.compact()
 	return s
+}
+
+// underSky returns s under the sky of g, a copy of s's grid under another
+// sky (withSky): P_atm is summed again as load sums it; P_rad's sums and
+// interpolant are shared.
+func (s *coolState) underSky(g *coolGrid) *coolState {
+	u := *s
+	u.g = g
+	u.patm = 0
+	for _, sp := range g.spans {
+		d := (g.nodes[sp.a+1] - g.nodes[sp.a]) / 2
+		el, er := s.k*sp.left.eval(s.a), s.k*sp.right.eval(s.a)
+		u.patm += d * (el*sp.skyL*g.bAmb[sp.a] + er*sp.skyR*g.bAmb[sp.a+1])
+	}
+	u.patm *= math.Pi
+	return &u
 }
 
 // planck returns B(λ, T) at every node.
@@ -435,9 +452,46 @@ func (s *coolState) net(t, psun, h float64) float64 {
 	return s.prad(t) - s.patm - psun - h*(s.g.ambientK-t)
 }
 
+// The surface temperatures T_amb + smoothBelowK … T_amb + smoothAboveK
+// hold the cooling curve and most equilibria; over them smooth
+// interpolates P_rad.
+const (
+	smoothBelowK = curveFromK
+	smoothAboveK = 40
+	// smoothTol is the accuracy, relative to P_rad, that the interpolant
+	// must reach to be used.
+	smoothTol = 1e-13
+)
+
+// smooth interpolates P_rad(T) over T_amb + smoothBelowK … smoothAboveK
+// for a state that is asked for it many times (the curve, the equilibria
+// of the sensitivity table, the slopes): a smoothFit at 18 temperatures
+// replaces a full sum at each. P_rad is a sum of Bose-Einstein terms,
+// analytic near that range, and is kept only when resolved to smoothTol.
+func (s *coolState) smooth() {
+	lo, hi := s.g.ambientK+smoothBelowK, s.g.ambientK+smoothAboveK
+	if !(lo > 0) || math.IsInf(hi, 0) {
+		return
+	}
+	if p := newSmoothFit(s.prad, lo, hi); p.converged(smoothTol) {
+		s.fit = p
+	}
+}
+
+// pradNear is prad, from the interpolant where there is one.
+func (s *coolState) pradNear(t float64) float64 {
+	if s.fit != nil && s.fit.covers(t) {
+		return s.fit.at(t)
+	}
+	return s.prad(t)
+}
+
 // equilibrium returns T_eq where P_net(T_eq) = 0, found by bracketing and
 // Brent's method to 1e-9 K. P_net increases with T.
 func (s *coolState) equilibrium(psun, h float64) (float64, error) {
+	if t, ok := s.equilibriumNear(psun, h); ok {
+		return t, nil
+	}
 	ta := s.g.ambientK
 	lo, hi := 0.05*ta, 10*ta
 	steps := s.g.bracketSteps(lo, hi)
@@ -448,6 +502,29 @@ func (s *coolState) equilibrium(psun, h float64) (float64, error) {
 		return s.net(t, psun, h)
 	}
 	return increasingRoot(f, ta, lo, hi)
+}
+
+// equilibriumNear finds T_eq with the interpolant, when the state has one
+// and T_eq lies in its range, and checks it with P_net itself: P_net must
+// change sign across T_eq ± 1e-9 K, the tolerance of equilibrium. ok is
+// false otherwise.
+func (s *coolState) equilibriumNear(psun, h float64) (t float64, ok bool) {
+	p := s.fit
+	if p == nil {
+		return 0, false
+	}
+	ta := s.g.ambientK
+	f := func(t float64) float64 { return p.at(t) - s.patm - psun - h*(ta-t) }
+	flo, fhi := f(p.lo), f(p.hi)
+	if !(flo <= 0 && fhi >= 0) {
+		return 0, false
+	}
+	const tol = 1e-9
+	t = brent(f, p.lo, p.hi, flo, fhi, tol/10)
+	if !(s.net(t-tol, psun, h) <= 0 && s.net(t+tol, psun, h) >= 0) {
+		return 0, false
+	}
+	return t, true
 }
 
 // bracketSteps returns the temperatures increasingRoot, searching from
@@ -615,8 +692,12 @@ func (s *coolState) gradA(t float64) [][]float64 {
 	return out
 }
 
-// slope returns ∂P_net/∂T at t, W m⁻² K⁻¹.
+// slope returns ∂P_net/∂T at t, W m⁻² K⁻¹: the interpolant's where
+// there is one, else a central difference.
 func (s *coolState) slope(t, h float64) float64 {
+	if s.fit != nil && s.fit.covers(t) {
+		return s.fit.slope(t) + h
+	}
 	const dt = 0.01
 	return (s.prad(t+dt)-s.prad(t-dt))/(2*dt) + h
 }
@@ -645,8 +726,9 @@ type coolFigures struct {
 }
 
 // evaluate computes the cooling figures for emittance a and solar
-// absorptance alpha (NaN when unknown).
-func (m *cooling) evaluate(a spectra.Series, alpha float64) coolFigures {
+// absorptance alpha (NaN when unknown). smooth interpolates P_rad first,
+// for a state that will be asked for much more (see coolState.smooth).
+func (m *cooling) evaluate(a spectra.Series, alpha float64, smooth bool) coolFigures {
 	nan := math.NaN()
 	r := coolFigures{day: nan, night: nan, eqDay: nan, eqNight: nan, prad: nan, patm: nan, psun: nan}
 	if m.g == nil {
@@ -660,7 +742,15 @@ func (m *cooling) evaluate(a spectra.Series, alpha float64) coolFigures {
 		k = m.ratio
 	}
 	s := m.g.load(a, k)
-	r.state = s
+	if smooth {
+		s.smooth()
+	}
+	return m.figuresOf(s, alpha)
+}
+
+// figuresOf computes the cooling figures of a loaded state.
+func (m *cooling) figuresOf(s *coolState, alpha float64) coolFigures {
+	r := coolFigures{eqDay: math.NaN(), state: s}
 	r.prad, r.patm = s.prad(m.c.AmbientK), s.patm
 	r.psun = m.c.IrradianceWm2 * alpha
 	r.night = r.prad - r.patm
@@ -716,7 +806,7 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 		sunReason = fmt.Sprintf("the data cover only %.1f %% of the %s power over %g–%g nm, on which the absorbed sunlight rests "+
 			"(at least %g %% is needed)", 100*sa.Coverage, m.sun, spectra.SolarRangeNM.Lo, spectra.SolarRangeNM.Hi, 100*minSunCoverage)
 	}
-	r := m.evaluate(o.A, alpha)
+	r := m.evaluate(o.A, alpha, full)
 	f.Sky = m.sky
 	f.CoolingPowerWm2, f.CoolingPowerNightWm2 = Num(r.day), Num(r.night)
 	f.EquilibriumDeltaK = Num(c.AmbientK - r.eqDay)
@@ -767,7 +857,7 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 	if r.state != nil {
 		for d := curveFromK; d <= curveToK; d++ {
 			t := c.AmbientK + float64(d)
-			night := r.state.net(t, 0, c.HWm2K)
+			night := r.state.pradNear(t) - r.state.patm - c.HWm2K*(c.AmbientK-t)
 			f.CoolingCurve = append(f.CoolingCurve, CurvePoint{SurfaceK: t, NetWm2: Num(night - r.psun), NetNightWm2: Num(night)})
 		}
 	}
@@ -878,13 +968,17 @@ func (m *cooling) sensitivity(a spectra.Series, alpha float64, base coolFigures)
 		return out
 	}
 	c := m.c
+	// P_rad does not depend on h or the sky: every row shares the base
+	// state's sums and interpolant.
 	row := func(param, unit string, change float64, alt Conditions, note string) {
 		mm := &cooling{c: alt, sun: m.sun, sky: m.sky, g: m.g, basis: m.basis, ratio: m.ratio}
+		s := base.state
 		if alt.DewPointC != c.DewPointC {
 			mm.sky = ClearSky(alt)
 			mm.g = m.g.withSky(mm.sky)
+			s = s.underSky(mm.g)
 		}
-		r := mm.evaluate(a, alpha)
+		r := mm.figuresOf(s, alpha)
 		out = append(out, Sensitivity{Parameter: param, Change: change, Unit: unit,
 			DeltaDayWm2: Num(r.day - base.day), DeltaNightWm2: Num(r.night - base.night),
 			DeltaEquilibriumDayK:   Num(base.eqDay - r.eqDay),

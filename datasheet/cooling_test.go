@@ -70,7 +70,7 @@ func coolingOf(t *testing.T, s *spectra.Spectrum, c Conditions) (*Figures, coolF
 	}
 	o := spectra.Resolve(s, c.ClosureTol)
 	m := &cooling{c: c, sky: sky, sun: spectra.SolarGlobal(), g: newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK)}
-	return f, m.evaluate(o.A, float64(f.CoolingTerms.SolarAbsorbed))
+	return f, m.evaluate(o.A, float64(f.CoolingTerms.SolarAbsorbed), true)
 }
 
 func TestBlackbodyNetPower(t *testing.T) {
@@ -185,7 +185,7 @@ func TestGridFineEnough(t *testing.T) {
 		var got [2]coolFigures
 		for i, step := range []float64{referenceStep, referenceStep / 4} {
 			m := &cooling{c: c, sky: sky, g: newCoolGridStep(o.A, sky, c.ExchangeBand, c.AmbientK, step)}
-			got[i] = m.evaluate(o.A, 0.05)
+			got[i] = m.evaluate(o.A, 0.05, false)
 		}
 		if d := math.Abs(got[0].night - got[1].night); d > 0.01 {
 			t.Errorf("refining the reference grid moves the cooling power by %.4f W/m²", d)
@@ -479,5 +479,71 @@ func TestHeldUncertainty(t *testing.T) {
 	}
 	if n := len(full.CoolingTerms.HeldUncertainty); n != 0 {
 		t.Errorf("nothing held, yet %d held uncertainties", n)
+	}
+}
+
+// The interpolated P_rad of a full evaluation against the sums themselves
+// (the sums are checked against Planck's law and Stefan-Boltzmann in
+// TestBlackbodyNetPower): the equilibria agree to the root searches'
+// tolerance, the curve to 1e-12 of P_rad.
+func TestSmoothAgreesWithSums(t *testing.T) {
+	hot := DefaultConditions()
+	hot.AmbientK, hot.HWm2K = 318.15, 0
+	for _, tc := range []struct {
+		name  string
+		s     *spectra.Spectrum
+		c     Conditions
+		alpha float64
+	}{
+		{"white", whiteSample(t), DefaultConditions(), 0.05},
+		{"selective", selectiveSample(), DefaultConditions(), 0.03},
+		{"selective, hot, h = 0", selectiveSample(), hot, 0.03},
+		{"grey 0.9", constSample(0.9, 250, 30000), DefaultConditions(), 0.9},
+		{"grey 0.1", constSample(0.1, 250, 30000), hot, 0.1},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			o := spectra.Resolve(tc.s, tc.c.ClosureTol)
+			sky := ClearSky(tc.c)
+			m := &cooling{c: tc.c, sky: sky, g: newCoolGrid(o.A, sky, tc.c.ExchangeBand, tc.c.AmbientK)}
+			smooth, exact := m.evaluate(o.A, tc.alpha, true), m.evaluate(o.A, tc.alpha, false)
+			if smooth.state.fit == nil {
+				t.Fatal("no interpolant: P_rad not resolved to smoothTol")
+			}
+			for _, x := range [][2]float64{{smooth.eqNight, exact.eqNight}, {smooth.eqDay, exact.eqDay}} {
+				if math.Abs(x[0]-x[1]) > 2e-9 {
+					t.Errorf("equilibrium %.12f K, by the sums %.12f K", x[0], x[1])
+				}
+			}
+			s := smooth.state
+			for d := float64(smoothBelowK); d <= smoothAboveK; d += 0.37 {
+				T := tc.c.AmbientK + d
+				if got, want := s.pradNear(T), s.prad(T); math.Abs(got-want) > 1e-12*want {
+					t.Errorf("P_rad(%g K) = %.15g, by the sums %.15g", T, got, want)
+				}
+				const dt = 0.01
+				want := (s.prad(T+dt)-s.prad(T-dt))/(2*dt) + tc.c.HWm2K
+				if got := s.slope(T, tc.c.HWm2K); math.Abs(got-want) > 1e-6*want {
+					t.Errorf("slope at %g K = %.10g, central difference of the sums %.10g", T, got, want)
+				}
+			}
+		})
+	}
+}
+
+// A state under another sky sums P_atm as a state loaded under that sky.
+func TestUnderSky(t *testing.T) {
+	c := DefaultConditions()
+	s := whiteSample(t)
+	o := spectra.Resolve(s, c.ClosureTol)
+	sky := ClearSky(c)
+	g := newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK)
+	wet := c
+	wet.DewPointC += 5
+	h := g.withSky(ClearSky(wet))
+	if got, want := g.load(o.A, 1).underSky(h).patm, h.load(o.A, 1).patm; got != want {
+		t.Errorf("P_atm under the wetter sky %.17g, loaded under it %.17g", got, want)
+	}
+	if got, want := g.load(o.A, 1).patm, h.load(o.A, 1).patm; got == want {
+		t.Errorf("P_atm %g does not depend on the dew point", got)
 	}
 }

@@ -269,7 +269,7 @@ func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, err
 	eval := func(o spectra.Optics, lin func(string) float64) map[string]float64 {
 		alpha := float64(f.SolarAbsorptance) + lin("solar_absorptance")
 		eps := ratio * (float64(f.ThermalEmittance) + lin("thermal_emittance"))
-		r := m.evaluate(o.A, float64(f.CoolingTerms.SolarAbsorbed)+lin(absorbedSunKey))
+		r := m.evaluate(o.A, float64(f.CoolingTerms.SolarAbsorbed)+lin(absorbedSunKey), false)
 		out := map[string]float64{"equilibrium_delta_k": c.AmbientK - r.eqDay, "equilibrium_delta_night_k": c.AmbientK - r.eqNight}
 		for key, hc := range map[string]float64{"sri_low": WindLow, "sri_medium": WindMedium, "sri_high": WindHigh} {
 			out[key] = SolarReflectanceIndex(alpha, eps, hc)
