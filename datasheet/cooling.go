@@ -519,12 +519,45 @@ func (s *coolState) equilibriumNear(psun, h float64) (t float64, ok bool) {
 	if !(flo <= 0 && fhi >= 0) {
 		return 0, false
 	}
-	const tol = 1e-9
-	t = brent(f, p.lo, p.hi, flo, fhi, tol/10)
-	if !(s.net(t-tol, psun, h) <= 0 && s.net(t+tol, psun, h) >= 0) {
+	t = brent(f, p.lo, p.hi, flo, fhi, 1e-10)
+	return s.refine(t, p.slope(t)+h, psun, h)
+}
+
+// refine returns T_eq from t, close to it, and slope, about ∂P_net/∂T
+// near it: secant steps on P_net itself, the first with slope, until a step
+// is below 1e-10 K, well within equilibrium's 1e-9 K. ok is false when
+// that takes more than 8 evaluations or a step leaves equilibrium's range
+// (its search then runs). P_net increases with T, so the root is unique.
+func (s *coolState) refine(t, slope, psun, h float64) (float64, bool) {
+	const tol = 1e-10
+	lo, hi := 0.05*s.g.ambientK, 10*s.g.ambientK
+	f := s.net(t, psun, h)
+	if f == 0 {
+		return t, true
+	}
+	if !(slope > 0) || math.IsInf(slope, 0) {
 		return 0, false
 	}
-	return t, true
+	step := -f / slope
+	for range 8 {
+		if math.Abs(step) <= tol {
+			return t + step, true
+		}
+		t1 := t + step
+		if !(t1 > lo && t1 < hi) {
+			return 0, false
+		}
+		f1 := s.net(t1, psun, h)
+		if f1 == 0 {
+			return t1, true
+		}
+		if f1 == f {
+			return 0, false
+		}
+		step = -f1 * (t1 - t) / (f1 - f)
+		t, f = t1, f1
+	}
+	return 0, false
 }
 
 // bracketSteps returns the temperatures increasingRoot, searching from
@@ -713,6 +746,10 @@ type cooling struct {
 	// band to make it hemispherical (0: none).
 	basis EmittanceBasis
 	ratio float64
+	// near, once set, is the full evaluation of the data's emittance: the
+	// evaluations of the emittance moved by its uncertainty start their
+	// root searches from its equilibria.
+	near *coolFigures
 }
 
 // coolFigures are the scalar results of one evaluation.
@@ -755,9 +792,22 @@ func (m *cooling) figuresOf(s *coolState, alpha float64) coolFigures {
 	r.psun = m.c.IrradianceWm2 * alpha
 	r.night = r.prad - r.patm
 	r.day = r.night - r.psun
-	r.eqNight, r.errNgt = s.equilibrium(0, m.c.HWm2K)
+	h := m.c.HWm2K
+	eq := func(psun, near float64) (float64, error) {
+		if m.near != nil && !math.IsNaN(near) {
+			if t, ok := s.refine(near, m.near.state.slope(near, h), psun, h); ok {
+				return t, nil
+			}
+		}
+		return s.equilibrium(psun, h)
+	}
+	nearNight, nearDay := math.NaN(), math.NaN()
+	if m.near != nil {
+		nearNight, nearDay = m.near.eqNight, m.near.eqDay
+	}
+	r.eqNight, r.errNgt = eq(0, nearNight)
 	if !math.IsNaN(alpha) {
-		r.eqDay, r.errDay = s.equilibrium(r.psun, m.c.HWm2K)
+		r.eqDay, r.errDay = eq(r.psun, nearDay)
 	}
 	return r
 }
@@ -807,6 +857,9 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 			"(at least %g %% is needed)", 100*sa.Coverage, m.sun, spectra.SolarRangeNM.Lo, spectra.SolarRangeNM.Hi, 100*minSunCoverage)
 	}
 	r := m.evaluate(o.A, alpha, full)
+	if full && r.state != nil {
+		m.near = &r
+	}
 	f.Sky = m.sky
 	f.CoolingPowerWm2, f.CoolingPowerNightWm2 = Num(r.day), Num(r.night)
 	f.EquilibriumDeltaK = Num(c.AmbientK - r.eqDay)

@@ -547,3 +547,47 @@ func TestUnderSky(t *testing.T) {
 		t.Errorf("P_atm %g does not depend on the dew point", got)
 	}
 }
+
+// The equilibria of an emittance moved by its uncertainty, found from the
+// unmoved one's, against the full search of the same sums.
+func TestRefineFromNearby(t *testing.T) {
+	c := DefaultConditions()
+	o := spectra.Resolve(whiteSample(t), c.ClosureTol)
+	sky := ClearSky(c)
+	m := &cooling{c: c, sky: sky, g: newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK)}
+	base := m.evaluate(o.A, 0.05, true)
+	for _, k := range []float64{0.98, 1.003} {
+		moved := spectra.Series{}
+		for _, p := range o.A.Pieces {
+			q := spectra.Piece{NM: p.NM, V: make([]float64, len(p.V))}
+			for i, v := range p.V {
+				q.V[i] = k * v
+			}
+			moved.Pieces = append(moved.Pieces, q)
+		}
+		want := m.evaluate(moved, 0.05, false)
+		m.near = &base
+		got := m.evaluate(moved, 0.05, false)
+		m.near = nil
+		if math.Abs(got.eqNight-want.eqNight) > 2e-9 || math.Abs(got.eqDay-want.eqDay) > 2e-9 {
+			t.Errorf("emittance ×%g: equilibria %.12f, %.12f K from the nearby ones, %.12f, %.12f K by the full search",
+				k, got.eqNight, got.eqDay, want.eqNight, want.eqDay)
+		}
+		if got.eqNight == base.eqNight {
+			t.Errorf("emittance ×%g: the equilibrium did not move from %.12f K", k, base.eqNight)
+		}
+	}
+	s := base.state
+	for _, tc := range []struct {
+		name     string
+		t, slope float64
+	}{
+		{"no slope", base.eqNight - 1, 0},
+		{"a NaN slope", base.eqNight - 1, math.NaN()},
+		{"a slope that steps out of range", base.eqNight - 1, 1e-12},
+	} {
+		if got, ok := s.refine(tc.t, tc.slope, 0, c.HWm2K); ok {
+			t.Errorf("%s: refine gave %g K, want no result (the full search runs)", tc.name, got)
+		}
+	}
+}
