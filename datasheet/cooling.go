@@ -489,7 +489,7 @@ func (s *coolState) pradNear(t float64) float64 {
 // equilibrium returns T_eq where P_net(T_eq) = 0, found by bracketing and
 // Brent's method to 1e-9 K. P_net increases with T.
 func (s *coolState) equilibrium(psun, h float64) (float64, error) {
-	if t, ok := s.equilibriumNear(psun, h); ok {
+	if t, ok := s.equilibriumNear(psun, h, true); ok {
 		return t, nil
 	}
 	ta := s.g.ambientK
@@ -505,10 +505,10 @@ func (s *coolState) equilibrium(psun, h float64) (float64, error) {
 }
 
 // equilibriumNear finds T_eq with the interpolant, when the state has one
-// and T_eq lies in its range, and checks it with P_net itself: P_net must
-// change sign across T_eq ± 1e-9 K, the tolerance of equilibrium. ok is
-// false otherwise.
-func (s *coolState) equilibriumNear(psun, h float64) (t float64, ok bool) {
+// and T_eq lies in its range; check refines it on P_net itself (see
+// refine). Unchecked, it is as close as the interpolant is to P_rad
+// (smoothTol, about 1e-11 K). ok is false otherwise.
+func (s *coolState) equilibriumNear(psun, h float64, check bool) (t float64, ok bool) {
 	p := s.fit
 	if p == nil {
 		return 0, false
@@ -520,6 +520,9 @@ func (s *coolState) equilibriumNear(psun, h float64) (t float64, ok bool) {
 		return 0, false
 	}
 	t = brent(f, p.lo, p.hi, flo, fhi, 1e-10)
+	if !check {
+		return t, true
+	}
 	return s.refine(t, p.slope(t)+h, psun, h)
 }
 
@@ -750,6 +753,10 @@ type cooling struct {
 	// evaluations of the emittance moved by its uncertainty start their
 	// root searches from its equilibria.
 	near *coolFigures
+	// unchecked takes the equilibria from the interpolant alone, when
+	// there is one (the sensitivity table's, which shows changes of
+	// tenths of a kelvin).
+	unchecked bool
 }
 
 // coolFigures are the scalar results of one evaluation.
@@ -794,6 +801,11 @@ func (m *cooling) figuresOf(s *coolState, alpha float64) coolFigures {
 	r.day = r.night - r.psun
 	h := m.c.HWm2K
 	eq := func(psun, near float64) (float64, error) {
+		if m.unchecked {
+			if t, ok := s.equilibriumNear(psun, h, false); ok {
+				return t, nil
+			}
+		}
 		if m.near != nil && !math.IsNaN(near) {
 			if t, ok := s.refine(near, m.near.state.slope(near, h), psun, h); ok {
 				return t, nil
@@ -1024,7 +1036,7 @@ func (m *cooling) sensitivity(a spectra.Series, alpha float64, base coolFigures)
 	// P_rad does not depend on h or the sky: every row shares the base
 	// state's sums and interpolant.
 	row := func(param, unit string, change float64, alt Conditions, note string) {
-		mm := &cooling{c: alt, sun: m.sun, sky: m.sky, g: m.g, basis: m.basis, ratio: m.ratio}
+		mm := &cooling{c: alt, sun: m.sun, sky: m.sky, g: m.g, basis: m.basis, ratio: m.ratio, unchecked: true}
 		s := base.state
 		if alt.DewPointC != c.DewPointC {
 			mm.sky = ClearSky(alt)

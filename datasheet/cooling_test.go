@@ -489,6 +489,12 @@ func TestHeldUncertainty(t *testing.T) {
 func TestSmoothAgreesWithSums(t *testing.T) {
 	hot := DefaultConditions()
 	hot.AmbientK, hot.HWm2K = 318.15, 0
+	interpolated := 0 // equilibria within the interpolant's range
+	defer func() {
+		if interpolated < 3 {
+			t.Errorf("only %d equilibria within the interpolant's range: the test checks too little", interpolated)
+		}
+	}()
 	for _, tc := range []struct {
 		name  string
 		s     *spectra.Spectrum
@@ -515,6 +521,21 @@ func TestSmoothAgreesWithSums(t *testing.T) {
 				}
 			}
 			s := smooth.state
+			// Unchecked (the sensitivity table's) against refined on the sums.
+			for i, psun := range []float64{0, tc.c.IrradianceWm2 * tc.alpha} {
+				u, ok1 := s.equilibriumNear(psun, tc.c.HWm2K, false)
+				r, ok2 := s.equilibriumNear(psun, tc.c.HWm2K, true)
+				inside := s.fit.covers([]float64{exact.eqNight, exact.eqDay}[i])
+				if ok1 != inside || ok2 != inside {
+					t.Errorf("P_sun %g W/m²: found with the interpolant %v, %v; want %v (T_eq %g K)", psun, ok1, ok2, inside, []float64{exact.eqNight, exact.eqDay}[i])
+				}
+				if inside {
+					interpolated++
+				}
+				if inside && math.Abs(u-r) > 1e-10 {
+					t.Errorf("P_sun %g W/m²: equilibrium from the interpolant %.13f K, refined on the sums %.13f K", psun, u, r)
+				}
+			}
 			for d := float64(smoothBelowK); d <= smoothAboveK; d += 0.37 {
 				T := tc.c.AmbientK + d
 				if got, want := s.pradNear(T), s.prad(T); math.Abs(got-want) > 1e-12*want {

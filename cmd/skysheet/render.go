@@ -326,6 +326,7 @@ type dirWriter struct {
 	mu      sync.Mutex
 	files   []string
 	stopped bool
+	made    map[string]bool // folders known to exist below root
 }
 
 // failAfter, when positive, makes the n-th write fail (tests of atomicity).
@@ -384,8 +385,14 @@ func (w *dirWriter) put(name string, write func(path string) error) error {
 		return nil
 	}
 	p := filepath.Join(w.root, filepath.FromSlash(name))
-	if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
-		return err
+	if dir := filepath.Dir(p); !w.made[dir] {
+		if err := os.MkdirAll(dir, 0o755); err != nil {
+			return err
+		}
+		if w.made == nil {
+			w.made = map[string]bool{}
+		}
+		w.made[dir] = true
 	}
 	return write(p)
 }
