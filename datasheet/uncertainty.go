@@ -149,7 +149,7 @@ type probe struct {
 // recomputes the nonlinear figures both ways with eval.
 func newProbe(s *spectra.Spectrum, q spectra.Quantity, o spectra.Optics, tol float64, grads map[string]gradient, eval nonlinearEval, rt *rowTable) *probe {
 	op := spectra.Resolve(shifted(s, q, +1), tol)
-	om := spectra.Resolve(shifted(s, q, -1), tol)
+	om := mirrored(o, op)
 	pr := &probe{}
 	// Pointwise changes. Resolve works wavelength by wavelength, so the
 	// change at one point comes from that wavelength's own uncertainty; the
@@ -186,6 +186,33 @@ func newProbe(s *spectra.Spectrum, q spectra.Quantity, o spectra.Optics, tol flo
 	}
 	pr.plus, pr.mins = eval(op, lin(+1)), eval(om, lin(-1))
 	return pr
+}
+
+// mirrored returns the optics moved down by the change that moved o up to
+// op: 2o − op, point by point. Resolve is affine in each measured value,
+// wavelength by wavelength (A = 1 − R − T and the like, nothing clipped),
+// so this is Resolve of the spectrum moved down, to rounding, without
+// resolving it (see TestMirroredIsResolved).
+func mirrored(o, op spectra.Optics) spectra.Optics {
+	om := spectra.Optics{UR: op.UR, UT: op.UT, Origin: o.Origin, Closure: o.Closure}
+	for _, x := range [][3]*spectra.Series{{&o.R, &op.R, &om.R}, {&o.T, &op.T, &om.T}, {&o.A, &op.A, &om.A}} {
+		base, up, dn := x[0], x[1], x[2]
+		if len(up.Pieces) != len(base.Pieces) {
+			continue // cannot happen: Resolve's shape does not depend on values
+		}
+		dn.Pieces = make([]spectra.Piece, len(base.Pieces))
+		for p, pc := range base.Pieces {
+			u := up.Pieces[p].V
+			v := make([]float64, len(pc.V))
+			for j, b := range pc.V {
+				if j < len(u) {
+					v[j] = 2*b - u[j]
+				}
+			}
+			dn.Pieces[p] = spectra.Piece{NM: pc.NM, V: v}
+		}
+	}
+	return om
 }
 
 // together returns Σ g·δ: the change of a linear figure when the quantity

@@ -475,3 +475,52 @@ func TestUncertaintyMonteCarloCorrelated(t *testing.T) {
 		}
 	}
 }
+
+// The optics moved down by symmetry against Resolve of the spectrum moved
+// down, for every way Resolve obtains R, T and A (R and T measured, R and A
+// measured, R alone).
+func TestMirroredIsResolved(t *testing.T) {
+	texts := map[string]string{
+		"R and T": "# u_R: 0.01\n# u_T: 0.02\nwavelength_nm,R,T\n300,0.91,0.05\n800,0.93,0.04\n2500,0.4,0.01\n9000,0.05,0.02\n20000,0.04,0.01\n",
+		"R and A": "wavelength_nm,R,A,u_R\n300,0.91,0.05,0.01\n800,0.93,0.06,0.02\n2500,0.4,0.5,0.01\n9000,0.05,0.9,0.005\n",
+		"R alone": "# u_R: 0.3 %\nwavelength_nm,R\n300,0.9\n1000,0.95\n9000,0.06\n",
+	}
+	for name, text := range texts {
+		t.Run(name, func(t *testing.T) {
+			s := mustParse(t, text, "mirror.csv")
+			o := spectra.Resolve(s, 0.02)
+			probed := 0
+			defer func() {
+				if probed == 0 {
+					t.Error("no quantity has an uncertainty: nothing was checked")
+				}
+			}()
+			for _, q := range []spectra.Quantity{spectra.R, spectra.T} {
+				if ok, _, _ := hasUncertainty(s, q); !ok {
+					continue
+				}
+				probed++
+				got := mirrored(o, spectra.Resolve(shifted(s, q, +1), 0.02))
+				want := spectra.Resolve(shifted(s, q, -1), 0.02)
+				moved := false
+				for k, x := range [][3]spectra.Series{{got.R, want.R, o.R}, {got.T, want.T, o.T}, {got.A, want.A, o.A}} {
+					if len(x[0].Pieces) != len(x[1].Pieces) {
+						t.Fatalf("%s moved: quantity %d has %d pieces, Resolve gives %d", q, k, len(x[0].Pieces), len(x[1].Pieces))
+					}
+					for p := range x[1].Pieces {
+						for j, w := range x[1].Pieces[p].V {
+							g := x[0].Pieces[p].V[j]
+							if math.Abs(g-w) > 1e-15 {
+								t.Errorf("%s moved: quantity %d at %g nm: %.17g, Resolve gives %.17g", q, k, x[1].Pieces[p].NM[j], g, w)
+							}
+							moved = moved || w != x[2].Pieces[p].V[j]
+						}
+					}
+				}
+				if !moved {
+					t.Errorf("%s moved: nothing moved", q)
+				}
+			}
+		})
+	}
+}
