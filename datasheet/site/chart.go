@@ -711,15 +711,7 @@ func textWidth(s string, size px) int {
 	if err != nil || s == "" {
 		return 0
 	}
-	k := faceKey{f, size.points(), chart.DefaultDPI}
-	faceCache.Lock()
-	face, ok := faceCache.faces[k]
-	if !ok {
-		face = truetype.NewFace(f, &truetype.Options{DPI: k.dpi, Size: k.size})
-		faceCache.faces[k] = face
-	}
-	w := measureCached(k, face, s)
-	faceCache.Unlock()
+	w := measureWith(faceKey{f, size.points(), chart.DefaultDPI}, s)
 	return int(math.Ceil(float64(w) / 64 * fallbackWiden))
 }
 
@@ -971,18 +963,11 @@ type escapedText struct{ chart.Renderer }
 
 func (r escapedText) Text(body string, x, y int) { r.Renderer.Text(html.EscapeString(body), x, y) }
 
-// cachedSVG is chart.SVG with font faces cached across charts. go-chart's
-// SVG renderer builds a new TrueType face for every text measurement, which
-// dominates the time of a chart; the face depends only on font, size and
-// DPI, and measuring with a cached face gives the same widths, so the SVG
-// is byte-identical (see TestCachedSVGIdentical).
-func cachedSVG(w, h int) (chart.Renderer, error) {
-	r, err := chart.SVG(w, h)
-	if err != nil {
-		return nil, err
-	}
-	return &measuredSVG{Renderer: r, dpi: chart.DefaultDPI}, nil
-}
+// cachedSVG writes what chart.SVG writes, with font faces and text widths
+// cached across charts (go-chart's SVG renderer builds a new TrueType face
+// for every text measurement) and paths and styles written straight into
+// one buffer: the SVG is byte-identical (see TestCachedSVGIdentical).
+func cachedSVG(w, h int) (chart.Renderer, error) { return newSVGWriter(w, h) }
 
 // faceKey identifies a font face.
 type faceKey struct {
@@ -1025,42 +1010,15 @@ func measureCached(k faceKey, face font.Face, s string) fixed.Int26_6 {
 	return w
 }
 
-// measuredSVG tracks the text state that go-chart's SVG renderer keeps to
-// itself, and measures text with a cached face.
-type measuredSVG struct {
-	chart.Renderer
-	font      *truetype.Font
-	size, dpi float64
-	theta     *float64
-}
-
-func (r *measuredSVG) ResetStyle()                 { r.Renderer.ResetStyle(); r.size = 0 } // the font is kept
-func (r *measuredSVG) SetDPI(dpi float64)          { r.Renderer.SetDPI(dpi); r.dpi = dpi }
-func (r *measuredSVG) SetFont(f *truetype.Font)    { r.Renderer.SetFont(f); r.font = f }
-func (r *measuredSVG) SetFontSize(size float64)    { r.Renderer.SetFontSize(size); r.size = size }
-func (r *measuredSVG) SetTextRotation(rad float64) { r.Renderer.SetTextRotation(rad); r.theta = &rad }
-func (r *measuredSVG) ClearTextRotation()          { r.Renderer.ClearTextRotation(); r.theta = nil }
-
-// MeasureText does what the SVG renderer's MeasureText does, with a face
-// from the cache.
-func (r *measuredSVG) MeasureText(body string) chart.Box {
-	var box chart.Box
-	if r.font == nil {
-		return box
-	}
-	k := faceKey{r.font, r.size, r.dpi}
+// measureWith returns the width of s measured with the face of k, which
+// it makes once.
+func measureWith(k faceKey, s string) fixed.Int26_6 {
 	faceCache.Lock()
+	defer faceCache.Unlock()
 	face, ok := faceCache.faces[k]
 	if !ok {
-		face = truetype.NewFace(r.font, &truetype.Options{DPI: r.dpi, Size: r.size})
+		face = truetype.NewFace(k.font, &truetype.Options{DPI: k.dpi, Size: k.size})
 		faceCache.faces[k] = face
 	}
-	w := measureCached(k, face, body).Ceil()
-	faceCache.Unlock()
-	box.Right = w
-	box.Bottom = int(drawing.PointsToPixels(r.dpi, r.size))
-	if r.theta == nil {
-		return box
-	}
-	return box.Corners().Rotate(chart.RadiansToDegrees(*r.theta)).Box()
+	return measureCached(k, face, s)
 }
