@@ -256,6 +256,21 @@ func newCoolGridStep(a spectra.Series, sky Sky, band spectra.Interval, ambientK,
 		}
 		return lc{p: p, j: j - 1, f: (nm - v[j-1]) / (v[j] - v[j-1])}
 	}
+	// The spans inside a piece ask for increasing wavelengths: a cursor
+	// per piece finds what at finds without a search each time.
+	next := make([]int, len(a.Pieces))
+	atNext := func(p int, nm float64) lc {
+		v := a.Pieces[p].NM
+		j := next[p]
+		for j < len(v) && v[j] < nm {
+			j++
+		}
+		next[p] = j
+		if j < len(v) && v[j] == nm {
+			return lc{p: p, j: j}
+		}
+		return lc{p: p, j: j - 1, f: (nm - v[j-1]) / (v[j] - v[j-1])}
+	}
 	g.spans = make([]coolSpan, n-1)
 	for i := range g.spans {
 		x0, x1 := g.nodes[i], g.nodes[i+1]
@@ -269,7 +284,7 @@ func newCoolGridStep(a spectra.Series, sky Sky, band spectra.Interval, ambientK,
 			}
 		}
 		if inside >= 0 {
-			sp.left, sp.right = at(cov[inside].p, x0), at(cov[inside].p, x1)
+			sp.left, sp.right = atNext(cov[inside].p, x0), atNext(cov[inside].p, x1)
 		} else {
 			// Hold the nearest measured value.
 			best := math.Inf(1)

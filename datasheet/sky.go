@@ -501,7 +501,30 @@ func referenceGrid(lo, hi float64) []float64 {
 	return geometricGrid(lo, hi, referenceStep)
 }
 
+// geometricGrid returns the nodes lo·(1+step)^k strictly inside (lo, hi).
+// The grids are kept: every material under the same conditions asks for
+// the same one. The slice returned is shared and must not be written to.
 func geometricGrid(lo, hi, step float64) []float64 {
+	k := [3]float64{lo, hi, step}
+	geometricGrids.Lock()
+	defer geometricGrids.Unlock()
+	if g, ok := geometricGrids.m[k]; ok {
+		return g
+	}
+	g := makeGeometricGrid(lo, hi, step)
+	if len(geometricGrids.m) >= 64 {
+		clear(geometricGrids.m) // conditions varied that much: start again
+	}
+	geometricGrids.m[k] = g[:len(g):len(g)]
+	return geometricGrids.m[k]
+}
+
+var geometricGrids = struct {
+	sync.Mutex
+	m map[[3]float64][]float64
+}{m: map[[3]float64][]float64{}}
+
+func makeGeometricGrid(lo, hi, step float64) []float64 {
 	n := int(math.Ceil(math.Log(hi/lo) / math.Log1p(step)))
 	out := make([]float64, 0, n)
 	for k := 1; k < n; k++ {

@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"strings"
 	"sync"
+	"sync/atomic"
 )
 
 // Weighting is a spectral weighting function w(λ) ≥ 0.
@@ -249,8 +250,42 @@ func BandMean(x Series, w Weighting, lo, hi float64) Mean {
 }
 
 // integrateWeight returns ∫ w dλ over [lo, hi] by the trapezoid rule on w's
-// knots and the limits.
+// knots and the limits. The integrals of the package's own weightings are
+// kept: every figure of every material asks for the same few.
 func integrateWeight(w Weighting, lo, hi float64) float64 {
+	switch w.(type) {
+	case *table, Blackbody, *erythemal: // comparable, and fixed once made
+	default:
+		return integrateWeightOnce(w, lo, hi)
+	}
+	k := weightKey{w, lo, hi}
+	if v, ok := weightIntegrals.Load(k); ok {
+		return v.(float64)
+	}
+	v := integrateWeightOnce(w, lo, hi)
+	if weightIntegralsStored.Add(1) <= maxWeightIntegrals {
+		weightIntegrals.Store(k, v)
+	}
+	return v
+}
+
+// weightKey is a band of a weighting.
+type weightKey struct {
+	w      Weighting
+	lo, hi float64
+}
+
+var (
+	weightIntegrals       sync.Map // weightKey → float64
+	weightIntegralsStored atomic.Int64
+)
+
+// maxWeightIntegrals bounds weightIntegrals: beyond it, integrals are
+// computed each time.
+const maxWeightIntegrals = 4096
+
+// integrateWeightOnce is integrateWeight without the cache.
+func integrateWeightOnce(w Weighting, lo, hi float64) float64 {
 	grid := unionGrid(lo, hi, nil, w.Knots(lo, hi))
 	wr := newWeightReader(w)
 	var sum float64

@@ -206,3 +206,18 @@ func TestKnotsAppendSafe(t *testing.T) {
 		t.Fatalf("G173 at 400.5 nm changed from %g to %g after appending to Knots", before, got)
 	}
 }
+
+// The kept integrals are the integrals: computed again, the same bits.
+func TestIntegrateWeightKept(t *testing.T) {
+	for _, tc := range []struct {
+		w      Weighting
+		lo, hi float64
+	}{{SolarGlobal(), 280, 4000}, {SolarGlobal(), 300, 2500}, {Blackbody{K: 300}, 2500, 25000}, {Blackbody{K: math.NaN()}, 2500, 25000}} {
+		want := integrateWeightOnce(tc.w, tc.lo, tc.hi)
+		for range 2 {
+			if got := integrateWeight(tc.w, tc.lo, tc.hi); got != want && !(math.IsNaN(got) && math.IsNaN(want)) {
+				t.Errorf("%s over %g–%g nm: %.17g, computed again %.17g", tc.w, tc.lo, tc.hi, got, want)
+			}
+		}
+	}
+}
