@@ -380,8 +380,8 @@ func (g *coolGrid) load(a spectra.Series, k float64) *coolState {
 }
 
 // loadHeld is load with the emittance where it is held constant replaced
-// by held, unless held is NaN (the extrapolation's alternatives, see
-// heldUncertainty).
+// by held, unless held is NaN (the extrapolation's alternatives: the tests
+// check heldChange against it).
 func (g *coolGrid) loadHeld(a spectra.Series, k, held float64) *coolState {
 	s := &coolState{g: g, a: a, wrad: make([]float64, len(g.nodes)), k: k}
 	for _, sp := range g.spans {
@@ -955,10 +955,10 @@ var heldAlternatives = []float64{0.9, 1}
 // the figure is recomputed with the held part at each of heldAlternatives
 // instead, and the largest change a is taken as the half-width of a
 // rectangular distribution, u = a/√3 (JCGM 100:2008 4.3.7, from memory).
-// The powers are recomputed exactly (they are linear in ε); the equilibria
-// are moved by the change of P_net at the equilibrium over ∂P_net/∂T_s
-// there, which saves the root searches. The map is empty when nothing is
-// held.
+// The powers are recomputed exactly (they are linear in ε: heldChange sums
+// the change over the held part alone); the equilibria are moved by the
+// change of P_net at the equilibrium over ∂P_net/∂T_s there, which saves
+// the root searches. The map is empty when nothing is held.
 func (m *cooling) heldUncertainty(a spectra.Series, base coolFigures) map[string]Num {
 	out := map[string]Num{}
 	if m.g == nil || len(m.g.held) == 0 || base.state == nil {
@@ -966,31 +966,26 @@ func (m *cooling) heldUncertainty(a spectra.Series, base coolFigures) map[string
 	}
 	c := m.c
 	s := base.state
-	net := func(st *coolState, t float64) float64 { return st.prad(t) - st.patm }
 	var dDay, dNight, dEqDay, dEqNight float64
-	// What the alternatives are compared with, computed once.
-	netAmb := net(s, c.AmbientK)
-	var netNight, slopeNight, netDay, slopeDay float64
+	var slopeNight, slopeDay float64
 	if !math.IsNaN(base.eqNight) {
-		netNight, slopeNight = net(s, base.eqNight), s.slope(base.eqNight, c.HWm2K)
+		slopeNight = s.slope(base.eqNight, c.HWm2K)
 	}
 	if !math.IsNaN(base.eqDay) {
-		netDay, slopeDay = net(s, base.eqDay), s.slope(base.eqDay, c.HWm2K)
+		slopeDay = s.slope(base.eqDay, c.HWm2K)
 	}
 	for _, e := range heldAlternatives {
-		alt := m.g.loadHeld(a, s.k, e)
-		d := net(alt, c.AmbientK) - netAmb // the sun's term does not change
+		ch := s.heldChange(e)
+		d := ch(c.AmbientK) // the sun's term does not change
 		if math.Abs(d) < 1e-9 {
 			d = 0 // rounding: the held part cancels (a black sky there)
 		}
 		dDay, dNight = math.Max(dDay, math.Abs(d)), math.Max(dNight, math.Abs(d))
 		if !math.IsNaN(base.eqNight) {
-			dp := net(alt, base.eqNight) - netNight
-			dEqNight = math.Max(dEqNight, math.Abs(dp/slopeNight))
+			dEqNight = math.Max(dEqNight, math.Abs(ch(base.eqNight)/slopeNight))
 		}
 		if !math.IsNaN(base.eqDay) {
-			dp := net(alt, base.eqDay) - netDay
-			dEqDay = math.Max(dEqDay, math.Abs(dp/slopeDay))
+			dEqDay = math.Max(dEqDay, math.Abs(ch(base.eqDay)/slopeDay))
 		}
 	}
 	set := func(key string, v, a float64) {
@@ -1003,6 +998,45 @@ func (m *cooling) heldUncertainty(a spectra.Series, base coolFigures) map[string
 	set("equilibrium_delta_k", base.eqDay, dEqDay)
 	set("equilibrium_delta_night_k", base.eqNight, dEqNight)
 	return out
+}
+
+// heldChange returns the change of P_rad(T) − P_atm, as a function of T,
+// when the emittance over the held part of the band is held instead of
+// the nearest measured value: the same trapezoid sums as load's, over the
+// held spans only.
+func (s *coolState) heldChange(held float64) func(t float64) float64 {
+	g := s.g
+	var nodes []int32
+	var dw []float64 // per node of nodes: Σ (Δλ/2)·Δε
+	var dpatm float64
+	add := func(i int, w float64) {
+		if k := len(nodes) - 1; k >= 0 && nodes[k] == int32(i) {
+			dw[k] += w
+			return
+		}
+		nodes, dw = append(nodes, int32(i)), append(dw, w)
+	}
+	for _, sp := range g.spans {
+		if !sp.held {
+			continue
+		}
+		d := (g.nodes[sp.a+1] - g.nodes[sp.a]) / 2
+		dl, dr := held-s.k*sp.left.eval(s.a), held-s.k*sp.right.eval(s.a)
+		add(sp.a, d*dl)
+		add(sp.a+1, d*dr)
+		dpatm += d * (dl*sp.skyL*g.bAmb[sp.a] + dr*sp.skyR*g.bAmb[sp.a+1])
+	}
+	return func(t float64) float64 {
+		var sum float64
+		for k, i := range nodes {
+			b := g.bAmb[i]
+			if t != g.ambientK {
+				b = g.c1[i] / math.Expm1(g.x[i]/t)
+			}
+			sum += dw[k] * b
+		}
+		return math.Pi * (sum - dpatm)
+	}
 }
 
 // minSunCoverage is the share of the solar spectrum's power over

@@ -612,3 +612,27 @@ func TestRefineFromNearby(t *testing.T) {
 		}
 	}
 }
+
+// The change over the held part alone against the difference of two full
+// loads, under a spectral sky that lets the held part through.
+func TestHeldChange(t *testing.T) {
+	c := DefaultConditions()
+	c.Sky = SkyChoice{File: "sky.csv", Spectrum: mustParse(t, "wavelength_um,T\n2,0.3\n200,0.3\n", "sky.csv")}
+	sky, err := skyFor(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	o := spectra.Resolve(mustParse(t, "wavelength_um,R\n0.28,0.9\n2.5,0.9\n2.5001,0.25\n25,0.25\n", "b.csv"), c.ClosureTol)
+	g := newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK)
+	base := g.load(o.A, 0.97)
+	for _, e := range heldAlternatives {
+		alt := g.loadHeld(o.A, 0.97, e)
+		ch := base.heldChange(e)
+		for _, T := range []float64{c.AmbientK, c.AmbientK - 17.3, c.AmbientK + 4.1} {
+			want := (alt.prad(T) - alt.patm) - (base.prad(T) - base.patm)
+			if got := ch(T); math.Abs(got-want) > 1e-9*math.Abs(want) || want == 0 {
+				t.Errorf("held at %g, %g K: change %.12g W/m², two full loads %.12g W/m²", e, T, got, want)
+			}
+		}
+	}
+}
