@@ -12,6 +12,7 @@ import (
 	"runtime/debug"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"syscall"
 
 	"skysheet/datasheet/evaluate"
@@ -330,11 +331,13 @@ type dirWriter struct {
 }
 
 // failAfter, when positive, makes the n-th write fail (tests of atomicity).
-var failAfter int
+// Atomic, as writeHook: an interrupted render's goroutine may still write
+// (and fail) after the command returned and a test reset it.
+var failAfter atomic.Int64
 
 // writeHook, when set, is called before each write with the writer and the
 // number of the write (tests of interruption).
-var writeHook func(w *dirWriter, n int)
+var writeHook atomic.Pointer[func(w *dirWriter, n int)]
 
 var errInjected = errors.New("injected write failure")
 
@@ -369,8 +372,8 @@ func (w *dirWriter) put(name string, write func(path string) error) error {
 	if !fs.ValidPath(name) || name == siteMarker {
 		return fmt.Errorf("site file %q: invalid path", name)
 	}
-	if writeHook != nil {
-		writeHook(w, len(w.written())+1)
+	if hook := writeHook.Load(); hook != nil {
+		(*hook)(w, len(w.written())+1)
 	}
 	w.mu.Lock()
 	defer w.mu.Unlock()
@@ -378,7 +381,7 @@ func (w *dirWriter) put(name string, write func(path string) error) error {
 		return errInterrupted
 	}
 	w.files = append(w.files, name)
-	if failAfter > 0 && len(w.files) >= failAfter {
+	if n := failAfter.Load(); n > 0 && int64(len(w.files)) >= n {
 		return errInjected
 	}
 	if write == nil {

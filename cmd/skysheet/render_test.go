@@ -172,9 +172,9 @@ func TestRenderAtomic(t *testing.T) {
 	}
 
 	// A failure while writing files, midway through the site.
-	failAfter = 10
+	failAfter.Store(10)
 	_, err := renderSite(lib, out, "v2", &bytes.Buffer{}, false)
-	failAfter = 0
+	failAfter.Store(0)
 	if err == nil {
 		t.Fatal("injected failure not reported")
 	}

@@ -252,13 +252,14 @@ func TestRenderConcurrent(t *testing.T) {
 	out := filepath.Join(t.TempDir(), "site")
 	var second error
 	tried := false
-	writeHook = func(w *dirWriter, n int) {
+	hook := func(w *dirWriter, n int) {
 		if n == 3 && !tried {
 			tried = true
 			_, second = renderSite(lib, out, "second", &bytes.Buffer{}, false)
 		}
 	}
-	defer func() { writeHook = nil }()
+	writeHook.Store(&hook)
+	defer writeHook.Store(nil)
 	if _, err := renderSite(lib, out, "first", &bytes.Buffer{}, false); err != nil {
 		t.Fatal(err)
 	}
@@ -350,7 +351,7 @@ func TestRenderInterrupted(t *testing.T) {
 	defer signal.Stop(sigs)
 	var fired atomic.Bool
 	stopped := make(chan bool, 1)
-	writeHook = func(w *dirWriter, n int) {
+	hook := func(w *dirWriter, n int) {
 		if n < 5 || !fired.CompareAndSwap(false, true) {
 			return
 		}
@@ -366,7 +367,8 @@ func TestRenderInterrupted(t *testing.T) {
 		}
 		stopped <- false
 	}
-	defer func() { writeHook = nil }()
+	writeHook.Store(&hook)
+	defer writeHook.Store(nil)
 	// Without the cache, as the render before: the render goroutine goes
 	// on after the command returns (it only stops writing the site), and
 	// cache entries it would still write inside the library folder race
