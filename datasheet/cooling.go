@@ -501,8 +501,10 @@ func (s *coolState) pradNear(t float64) float64 {
 	return s.prad(t)
 }
 
-// equilibrium returns T_eq where P_net(T_eq) = 0, found by bracketing and
-// Brent's method to 1e-9 K. P_net increases with T.
+// equilibrium returns T_eq where P_net(T_eq) = 0 to 1e-9 K: with the
+// interpolant and refined on the sums when the state has one and T_eq is
+// in its range (equilibriumNear), else by bracketing and Brent's method.
+// P_net increases with T.
 func (s *coolState) equilibrium(psun, h float64) (float64, error) {
 	if t, ok := s.equilibriumNear(psun, h, true); ok {
 		return t, nil
