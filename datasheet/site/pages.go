@@ -656,40 +656,39 @@ func (b *builder) rowsScript(ms []*evaluate.Summary, numbers map[string]int) ([]
 // category or tag; kind is "category" or "tag".
 func listingDir(kind, slug string) string { return "materials/by-" + kind + "/" + slug + "/" }
 
-// listingFiles renders one page per category and per tag.
-func (b *builder) listingFiles(out files) error {
-	for _, kind := range []string{"category", "tag"} {
-		slugs, names, members := b.groups(kind == "tag")
-		for _, s := range slugs {
-			name := listingDir(kind, s) + "index.html"
-			label := map[string]string{"category": "Category", "tag": "Tag"}[kind]
-			p := b.newPage("listing", label+": "+names[s], name)
-			// Rows are numbered within the listing, in its order (the index's).
-			numbers := map[string]int{}
-			for i, m := range members[s] {
-				numbers[m.Slug] = i + 1
+// listingFiles renders one page per category (kind "category") or per tag
+// (kind "tag").
+func (b *builder) listingFiles(kind string, out files) error {
+	slugs, names, members := b.groups(kind == "tag")
+	for _, s := range slugs {
+		name := listingDir(kind, s) + "index.html"
+		label := map[string]string{"category": "Category", "tag": "Tag"}[kind]
+		p := b.newPage("listing", label+": "+names[s], name)
+		// Rows are numbered within the listing, in its order (the index's).
+		numbers := map[string]int{}
+		for i, m := range members[s] {
+			numbers[m.Slug] = i + 1
+		}
+		tables := b.pagedTables("", name, listingDir(kind, s)+"page/", members[s], numbers)
+		var csv tableView
+		if err := b.addTableCSV(out, listingDir(kind, s), &csv, members[s], numbers); err != nil {
+			return err
+		}
+		for i, t := range tables {
+			q := p
+			if i > 0 {
+				q = b.newPage("listing", fmt.Sprintf("%s: %s, page %d", label, names[s], i+1), t.name)
 			}
-			tables := b.pagedTables("", name, listingDir(kind, s)+"page/", members[s], numbers)
-			var csv tableView
-			if err := b.addTableCSV(out, listingDir(kind, s), &csv, members[s], numbers); err != nil {
-				return err
+			t.table.CSV = csv.CSV // beside the first page; page/K/ is two folders below
+			if i > 0 {
+				t.table.CSV = "../../" + csv.CSV
 			}
-			for i, t := range tables {
-				q := p
-				if i > 0 {
-					q = b.newPage("listing", fmt.Sprintf("%s: %s, page %d", label, names[s], i+1), t.name)
-				}
-				t.table.CSV = csv.CSV // beside the first page; page/K/ is two folders below
-				if i > 0 {
-					t.table.CSV = "../../" + csv.CSV
-				}
-				q.L = &listingView{Kind: label, Name: names[s], Table: t.table}
-				html, err := b.execute("listing", q)
-				if err != nil {
-					return &library.Error{File: t.name, Err: err}
-				}
-				out[t.name] = html
+			q.L = &listingView{Kind: label, Name: names[s], Table: t.table}
+			html, err := b.execute("listing", q)
+			if err != nil {
+				return &library.Error{File: t.name, Err: err}
 			}
+			out[t.name] = html
 		}
 	}
 	return nil

@@ -305,7 +305,13 @@ type files map[string][]byte
 func (b *builder) render() (files, error) {
 	// The parts are independent: they are built at the same time, each
 	// into files of its own, and merged in this order.
-	parts := []func(files) error{b.indexFiles, b.listingFiles}
+	// The listings of tags, of categories and the index take the longest:
+	// parts of their own, so that the workers share them.
+	parts := []func(files) error{
+		b.indexFiles,
+		func(out files) error { return b.listingFiles("tag", out) },
+		func(out files) error { return b.listingFiles("category", out) },
+	}
 	for _, c := range b.lib.Comparisons {
 		parts = append(parts, func(out files) error { return b.comparisonFiles(c, out) })
 	}
