@@ -248,28 +248,25 @@ func newCoolGridStep(a spectra.Series, sky Sky, band spectra.Interval, ambientK,
 		g.x[i] = h * c / (l * k)
 		g.bAmb[i] = g.c1[i] / math.Expm1(g.x[i]/ambientK)
 	}
-	at := func(p int, nm float64) lc {
+	// lcAt is the value at nm of piece p, whose first point at or after
+	// nm is j.
+	lcAt := func(p, j int, nm float64) lc {
 		v := a.Pieces[p].NM
-		j := sort.SearchFloat64s(v, nm)
 		if j < len(v) && v[j] == nm {
 			return lc{p: p, j: j}
 		}
 		return lc{p: p, j: j - 1, f: (nm - v[j-1]) / (v[j] - v[j-1])}
 	}
+	at := func(p int, nm float64) lc { return lcAt(p, sort.SearchFloat64s(a.Pieces[p].NM, nm), nm) }
 	// The spans inside a piece ask for increasing wavelengths: a cursor
 	// per piece finds what at finds without a search each time.
-	next := make([]int, len(a.Pieces))
+	cursors := make([]nmCursor, len(a.Pieces))
+	for p, pc := range a.Pieces {
+		cursors[p].nm = pc.NM
+	}
 	atNext := func(p int, nm float64) lc {
-		v := a.Pieces[p].NM
-		j := next[p]
-		for j < len(v) && v[j] < nm {
-			j++
-		}
-		next[p] = j
-		if j < len(v) && v[j] == nm {
-			return lc{p: p, j: j}
-		}
-		return lc{p: p, j: j - 1, f: (nm - v[j-1]) / (v[j] - v[j-1])}
+		j, _ := cursors[p].find(nm)
+		return lcAt(p, j, nm)
 	}
 	g.spans = make([]coolSpan, n-1)
 	for i := range g.spans {
@@ -392,7 +389,7 @@ func (g *coolGrid) loadHeld(a spectra.Series, k, held float64) *coolState {
 		}
 		s.wrad[sp.a] += d * el
 		s.wrad[sp.a+1] += d * er
-		s.patm += d * (el*sp.skyL*g.bAmb[sp.a] + er*sp.skyR*g.bAmb[sp.a+1])
+		s.patm += g.atm(sp, el, er)
 		if sp.held {
 			s.heldEmit += d * (el*g.bAmb[sp.a] + er*g.bAmb[sp.a+1])
 		}
@@ -403,6 +400,13 @@ func (g *coolGrid) loadHeld(a spectra.Series, k, held float64) *coolState {
 	return s
 }
 
+// atm returns the trapezoid term of span sp in the sum for P_atm/π, for
+// emittance el and er at its two ends.
+func (g *coolGrid) atm(sp coolSpan, el, er float64) float64 {
+	d := (g.nodes[sp.a+1] - g.nodes[sp.a]) / 2
+	return d * (el*sp.skyL*g.bAmb[sp.a] + er*sp.skyR*g.bAmb[sp.a+1])
+}
+
 // underSky returns s under the sky of g, a copy of s's grid under another
 // sky (withSky): P_atm is summed again as load sums it; P_rad's sums and
 // interpolant are shared.
@@ -411,9 +415,7 @@ func (s *coolState) underSky(g *coolGrid) *coolState {
 	u.g = g
 	u.patm = 0
 	for _, sp := range g.spans {
-		d := (g.nodes[sp.a+1] - g.nodes[sp.a]) / 2
-		el, er := s.k*sp.left.eval(s.a), s.k*sp.right.eval(s.a)
-		u.patm += d * (el*sp.skyL*g.bAmb[sp.a] + er*sp.skyR*g.bAmb[sp.a+1])
+		u.patm += g.atm(sp, s.k*sp.left.eval(s.a), s.k*sp.right.eval(s.a))
 	}
 	u.patm *= math.Pi
 	return &u
@@ -501,6 +503,11 @@ func (s *coolState) pradNear(t float64) float64 {
 	return s.prad(t)
 }
 
+// netNear is net with pradNear.
+func (s *coolState) netNear(t, psun, h float64) float64 {
+	return s.pradNear(t) - s.patm - psun - h*(s.g.ambientK-t)
+}
+
 // equilibrium returns T_eq where P_net(T_eq) = 0 to 1e-9 K: with the
 // interpolant and refined on the sums when the state has one and T_eq is
 // in its range (equilibriumNear), else by bracketing and Brent's method.
@@ -510,7 +517,7 @@ func (s *coolState) equilibrium(psun, h float64) (float64, error) {
 		return t, nil
 	}
 	ta := s.g.ambientK
-	lo, hi := 0.05*ta, 10*ta
+	lo, hi := s.g.searchRange()
 	steps := s.g.bracketSteps(lo, hi)
 	f := func(t float64) float64 {
 		if slices.Contains(steps, t) { // a first step of every search: shared
@@ -521,6 +528,10 @@ func (s *coolState) equilibrium(psun, h float64) (float64, error) {
 	return increasingRoot(f, ta, lo, hi)
 }
 
+// searchRange is the range of surface temperatures in which equilibrium
+// looks for T_eq.
+func (g *coolGrid) searchRange() (lo, hi float64) { return 0.05 * g.ambientK, 10 * g.ambientK }
+
 // equilibriumNear finds T_eq with the interpolant, when the state has one
 // and T_eq lies in its range; check refines it on P_net itself (see
 // refine). Unchecked, it is as close as the interpolant is to P_rad
@@ -530,8 +541,7 @@ func (s *coolState) equilibriumNear(psun, h float64, check bool) (t float64, ok 
 	if p == nil {
 		return 0, false
 	}
-	ta := s.g.ambientK
-	f := func(t float64) float64 { return p.at(t) - s.patm - psun - h*(ta-t) }
+	f := func(t float64) float64 { return s.netNear(t, psun, h) }
 	flo, fhi := f(p.lo), f(p.hi)
 	if !(flo <= 0 && fhi >= 0) {
 		return 0, false
@@ -550,7 +560,7 @@ func (s *coolState) equilibriumNear(psun, h float64, check bool) (t float64, ok 
 // (its search then runs). P_net increases with T, so the root is unique.
 func (s *coolState) refine(t, slope, psun, h float64) (float64, bool) {
 	const tol = 1e-10
-	lo, hi := 0.05*s.g.ambientK, 10*s.g.ambientK
+	lo, hi := s.g.searchRange()
 	f := s.net(t, psun, h)
 	if f == 0 {
 		return t, true
@@ -905,7 +915,7 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 			f.CoolingTerms.HeldBands = append(f.CoolingTerms.HeldBands, spectra.Interval{Lo: h[0], Hi: h[1]})
 		}
 		if full {
-			f.CoolingTerms.HeldUncertainty = m.heldUncertainty(o.A, r)
+			f.CoolingTerms.HeldUncertainty = m.heldUncertainty(r)
 		}
 	}
 	cov := 0.0 // share of the band's blackbody power where the emittance is measured
@@ -939,11 +949,11 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 	if r.state != nil {
 		for d := curveFromK; d <= curveToK; d++ {
 			t := c.AmbientK + float64(d)
-			night := r.state.pradNear(t) - r.state.patm - c.HWm2K*(c.AmbientK-t)
+			night := r.state.netNear(t, 0, c.HWm2K)
 			f.CoolingCurve = append(f.CoolingCurve, CurvePoint{SurfaceK: t, NetWm2: Num(night - r.psun), NetNightWm2: Num(night)})
 		}
 	}
-	f.Sensitivity = m.sensitivity(o.A, alpha, r)
+	f.Sensitivity = m.sensitivity(alpha, r)
 	f.Assumptions = append(f.Assumptions, m.assumptions(r, sa)...)
 }
 
@@ -961,7 +971,7 @@ var heldAlternatives = []float64{0.9, 1}
 // the change over the held part alone); the equilibria are moved by the
 // change of P_net at the equilibrium over ∂P_net/∂T_s there, which saves
 // the root searches. The map is empty when nothing is held.
-func (m *cooling) heldUncertainty(a spectra.Series, base coolFigures) map[string]Num {
+func (m *cooling) heldUncertainty(base coolFigures) map[string]Num {
 	out := map[string]Num{}
 	if m.g == nil || len(m.g.held) == 0 || base.state == nil {
 		return out
@@ -1026,7 +1036,7 @@ func (s *coolState) heldChange(held float64) func(t float64) float64 {
 		dl, dr := held-s.k*sp.left.eval(s.a), held-s.k*sp.right.eval(s.a)
 		add(sp.a, d*dl)
 		add(sp.a+1, d*dr)
-		dpatm += d * (dl*sp.skyL*g.bAmb[sp.a] + dr*sp.skyR*g.bAmb[sp.a+1])
+		dpatm += g.atm(sp, dl, dr)
 	}
 	return func(t float64) float64 {
 		var sum float64
@@ -1078,7 +1088,7 @@ func (m *cooling) addGradients(grads map[string]gradient, r coolFigures, c Condi
 
 // sensitivity returns the change of the cooling figures when h or the dew
 // point change.
-func (m *cooling) sensitivity(a spectra.Series, alpha float64, base coolFigures) []Sensitivity {
+func (m *cooling) sensitivity(alpha float64, base coolFigures) []Sensitivity {
 	out := []Sensitivity{}
 	if m.g == nil {
 		return out

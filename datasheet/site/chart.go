@@ -995,12 +995,20 @@ type widthKey struct {
 // maxCachedWidths bounds the width cache; it is emptied when full.
 const maxCachedWidths = 1 << 16
 
-// measureCached returns font.MeasureString(face, s), from the cache when
-// s was measured with the face of key k before. faceCache must be locked.
-func measureCached(k faceKey, face font.Face, s string) fixed.Int26_6 {
+// measureWith returns font.MeasureString of s with the face of k: from
+// the cache when s was measured with it before, else with the face, which
+// it makes once.
+func measureWith(k faceKey, s string) fixed.Int26_6 {
+	faceCache.Lock()
+	defer faceCache.Unlock()
 	wk := widthKey{k, s}
 	if w, ok := faceCache.widths[wk]; ok {
 		return w
+	}
+	face, ok := faceCache.faces[k]
+	if !ok {
+		face = truetype.NewFace(k.font, &truetype.Options{DPI: k.dpi, Size: k.size})
+		faceCache.faces[k] = face
 	}
 	w := font.MeasureString(face, s)
 	if len(faceCache.widths) >= maxCachedWidths {
@@ -1008,17 +1016,4 @@ func measureCached(k faceKey, face font.Face, s string) fixed.Int26_6 {
 	}
 	faceCache.widths[wk] = w
 	return w
-}
-
-// measureWith returns the width of s measured with the face of k, which
-// it makes once.
-func measureWith(k faceKey, s string) fixed.Int26_6 {
-	faceCache.Lock()
-	defer faceCache.Unlock()
-	face, ok := faceCache.faces[k]
-	if !ok {
-		face = truetype.NewFace(k.font, &truetype.Options{DPI: k.dpi, Size: k.size})
-		faceCache.faces[k] = face
-	}
-	return measureCached(k, face, s)
 }

@@ -660,9 +660,9 @@ func listingDir(kind, slug string) string { return "materials/by-" + kind + "/" 
 // (kind "tag").
 func (b *builder) listingFiles(kind string, out files) error {
 	slugs, names, members := b.groups(kind == "tag")
+	label := map[string]string{"category": "Category", "tag": "Tag"}[kind]
 	for _, s := range slugs {
 		name := listingDir(kind, s) + "index.html"
-		label := map[string]string{"category": "Category", "tag": "Tag"}[kind]
 		p := b.newPage("listing", label+": "+names[s], name)
 		// Rows are numbered within the listing, in its order (the index's).
 		numbers := map[string]int{}

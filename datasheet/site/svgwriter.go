@@ -60,38 +60,37 @@ func (r *svgWriter) LineTo(x, y int)                     { r.point('L', x, y) }
 func (r *svgWriter) QuadCurveTo(cx, cy, x, y int) {
 	r.command(fmt.Sprintf("Q%d,%d %d,%d", cx, cy, x, y))
 }
-func (r *svgWriter) Circle(radius float64, x, y int)   { r.circle(x, y, int(radius)) }
-func (r *svgWriter) Text(body string, x, y int)        { r.text(body, x, y) }
-func (r *svgWriter) MeasureText(body string) chart.Box { return r.measure(body) }
 func (r *svgWriter) Save(w io.Writer) error {
 	r.b.WriteString("</svg>")
 	_, err := w.Write(r.b.Bytes())
 	return err
 }
-func (r *svgWriter) ArcTo(cx, cy int, rx, ry, a, d float64) { r.arc(cx, cy, rx, ry, a, d) }
 
-// command adds a path command.
-func (r *svgWriter) command(c string) {
+// next starts a path command: commands are separated by newlines.
+func (r *svgWriter) next() {
 	if len(r.path) > 0 {
 		r.path = append(r.path, '\n')
 	}
+}
+
+// command adds a path command.
+func (r *svgWriter) command(c string) {
+	r.next()
 	r.path = append(r.path, c...)
 }
 
 // point adds "M x y" or "L x y".
 func (r *svgWriter) point(op byte, x, y int) {
-	if len(r.path) > 0 {
-		r.path = append(r.path, '\n')
-	}
+	r.next()
 	r.path = append(r.path, op, ' ')
 	r.path = strconv.AppendInt(r.path, int64(x), 10)
 	r.path = append(r.path, ' ')
 	r.path = strconv.AppendInt(r.path, int64(y), 10)
 }
 
-// arc adds an arc as go-chart does: a line or move to its start, then the
-// arc.
-func (r *svgWriter) arc(cx, cy int, rx, ry, startAngle, delta float64) {
+// ArcTo adds an arc as go-chart does: a line or move to its start, then
+// the arc.
+func (r *svgWriter) ArcTo(cx, cy int, rx, ry, startAngle, delta float64) {
 	startAngle = chart.RadianAdd(startAngle, math.Pi/2)
 	endAngle := chart.RadianAdd(startAngle, delta)
 	startx := cx + int(rx*math.Sin(startAngle))
@@ -133,19 +132,19 @@ func (r *svgWriter) drawPath() {
 	r.path = r.path[:0]
 }
 
-func (r *svgWriter) circle(x, y, radius int) {
+func (r *svgWriter) Circle(radius float64, x, y int) {
 	r.b.WriteString(`<circle cx="`)
 	r.int(x)
 	r.b.WriteString(`" cy="`)
 	r.int(y)
 	r.b.WriteString(`" r="`)
-	r.int(radius)
+	r.int(int(radius))
 	r.b.WriteString(`" `)
 	r.style(r.s.GetFillAndStrokeOptions())
 	r.b.WriteString("/>")
 }
 
-func (r *svgWriter) text(body string, x, y int) {
+func (r *svgWriter) Text(body string, x, y int) {
 	r.b.WriteString(`<text x="`)
 	r.int(x)
 	r.b.WriteString(`" y="`)
@@ -231,8 +230,9 @@ func (r *svgWriter) color(c drawing.Color) {
 	r.b.Write(buf)
 }
 
-// measure measures text as go-chart's renderer does, with the cached face.
-func (r *svgWriter) measure(body string) chart.Box {
+// MeasureText measures text as go-chart's renderer does, with the cached
+// face.
+func (r *svgWriter) MeasureText(body string) chart.Box {
 	var box chart.Box
 	if r.s.Font == nil {
 		return box
