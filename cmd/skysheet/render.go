@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"fmt"
@@ -198,7 +199,7 @@ func renderInto(ctx context.Context, dir, outDir string, o renderOptions) (rende
 	if err := os.Mkdir(tmp, 0o755); err != nil {
 		return res, err
 	}
-	w := &dirWriter{root: tmp, site: absOut}
+	w := &dirWriter{root: tmp, site: absOut, prev: prev}
 	committed := false
 	defer func() {
 		if !committed {
@@ -322,7 +323,8 @@ func checkSiteFolder(absDir, absOut string) error {
 // their names. Once stopped, it writes nothing more.
 type dirWriter struct {
 	root string
-	site string // the site folder the files will replace, which may not exist
+	site string          // the site folder the files will replace, which may not exist
+	prev map[string]bool // the files of the site the last render wrote (its marker)
 
 	mu      sync.Mutex
 	files   []string
@@ -341,8 +343,41 @@ var writeHook atomic.Pointer[func(w *dirWriter, n int)]
 
 var errInjected = errors.New("injected write failure")
 
+// WriteFile puts data in place as name. When the last render wrote that
+// file with the same bytes, nothing is written: the file stays where it
+// is, and the swap keeps it since it is among the files written. A
+// re-render thus writes only what changed.
 func (w *dirWriter) WriteFile(name string, data []byte) error {
+	if w.prev[name] && holds(filepath.Join(w.site, filepath.FromSlash(name)), data) {
+		return w.put(name, nil)
+	}
 	return w.put(name, func(p string) error { return os.WriteFile(p, data, 0o644) })
+}
+
+// holds reports whether p is a regular file (not a link) holding data.
+func holds(p string, data []byte) bool {
+	st, err := os.Lstat(p)
+	if err != nil || !st.Mode().IsRegular() || st.Size() != int64(len(data)) {
+		return false
+	}
+	f, err := os.Open(p)
+	if err != nil {
+		return false
+	}
+	defer f.Close()
+	if fst, err := f.Stat(); err != nil || !os.SameFile(st, fst) {
+		return false
+	}
+	var buf [32 << 10]byte
+	for len(data) > 0 {
+		n, err := io.ReadFull(f, buf[:min(len(buf), len(data))])
+		if err != nil || !bytes.Equal(buf[:n], data[:n]) {
+			return false
+		}
+		data = data[n:]
+	}
+	n, _ := f.Read(buf[:1])
+	return n == 0
 }
 
 // LinkFile puts the file at src (in the render cache) in place as name:

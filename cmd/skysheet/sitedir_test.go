@@ -391,3 +391,84 @@ func TestRenderInterrupted(t *testing.T) {
 		t.Errorf("left beside the site: %v", names)
 	}
 }
+
+// TestRenderWritesOnlyWhatChanged re-renders without the cache: files the
+// last render wrote with the same bytes stay in place (the same file),
+// the rest is written anew, and the site is always the one a render into
+// a fresh folder gives.
+func TestRenderWritesOnlyWhatChanged(t *testing.T) {
+	lib := copyLibrary(t)
+	out := filepath.Join(t.TempDir(), "site")
+	render := func(step string) {
+		t.Helper()
+		if _, err := renderSite(lib, out, "v1", &bytes.Buffer{}, false); err != nil {
+			t.Fatalf("%s: %v", step, err)
+		}
+		sameTree(t, step, siteFiles(readTree(t, out)), siteFiles(cleanRender(t, lib, "v1")))
+	}
+	at := func(rel string) string { return filepath.Join(out, filepath.FromSlash(rel)) }
+	// Files are marked by a modification time long past (inode numbers
+	// may be reused at once): a file written anew has today's.
+	past := time.Date(2001, 1, 1, 0, 0, 0, 0, time.UTC)
+	mark := func(rels ...string) {
+		t.Helper()
+		for _, rel := range rels {
+			if err := os.Chtimes(at(rel), past, past); err != nil {
+				t.Fatal(err)
+			}
+		}
+	}
+	stays := func(step, rel string, want bool) {
+		t.Helper()
+		if got := inode(t, at(rel)).ModTime().Equal(past); got != want {
+			t.Errorf("%s: %s kept in place = %v, want %v", step, rel, got, want)
+		}
+	}
+	tracked := []string{"index.html", "m/frostline/index.html", "m/clearview/index.html"}
+
+	render("first render")
+	mark(tracked...)
+	render("nothing changed")
+	for _, rel := range tracked {
+		stays("nothing changed", rel, true)
+	}
+
+	// One spectrum changes: its datasheet and the index are written anew,
+	// another material's datasheet stays.
+	spec := filepath.Join(lib, "content", "films", "clearview.csv")
+	data, err := os.ReadFile(spec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	writeAt(t, spec, strings.Replace(string(data), "440,0.0800,0.8800", "440,0.1000,0.8600", 1))
+	render("one spectrum changed")
+	stays("one spectrum changed", "m/clearview/index.html", false)
+	stays("one spectrum changed", "m/frostline/index.html", true)
+
+	// A site file edited by hand, or replaced by a link to a file with the
+	// same bytes, is written again.
+	page := at("m/frostline/index.html")
+	f, err := os.OpenFile(page, os.O_WRONLY, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f.WriteAt([]byte("<!-- edited by hand -->"), 0)
+	f.Close()
+	csv := at("materials.csv")
+	keep, err := os.ReadFile(csv)
+	if err != nil {
+		t.Fatal(err)
+	}
+	elsewhere := filepath.Join(t.TempDir(), "materials.csv")
+	writeAt(t, elsewhere, string(keep))
+	if err := os.Remove(csv); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.Symlink(elsewhere, csv); err != nil {
+		t.Skipf("no symbolic links here: %v", err)
+	}
+	render("edited by hand")
+	if st, err := os.Lstat(csv); err != nil || !st.Mode().IsRegular() {
+		t.Errorf("materials.csv, a link before the render, is not a regular file after it: %v", err)
+	}
+}
