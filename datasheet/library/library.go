@@ -13,6 +13,7 @@ import (
 	"sort"
 	"strings"
 	"sync"
+	"time"
 
 	"gopkg.in/yaml.v3"
 
@@ -31,7 +32,8 @@ type Library struct {
 	Materials   []*Material   // in path order
 	Comparisons []*Comparison // in path order
 
-	fsys fs.FS // the library folder, for ReadSample
+	fsys   fs.FS     // the library folder, for ReadSample
+	loaded time.Time // when Load began reading it, for Stamps
 }
 
 // Material is one material file: its front matter, body and conditions,
@@ -108,10 +110,17 @@ func hashInput(p string, data []byte) Input {
 
 // Unchanged reports whether every file of inputs still holds what its
 // SHA-256 records; when one does not (or cannot be read), it returns false
-// and that file's path.
-func (l *Library) Unchanged(inputs []Input) (bool, string) {
+// and that file's path. A file whose stamp is still stamps[i] (when given
+// and not zero, see [Library.Stamps]) is taken as unchanged without being
+// read again.
+func (l *Library) Unchanged(inputs []Input, stamps []Stamp) (bool, string) {
 	h := sha256.New()
-	for _, in := range inputs {
+	for i, in := range inputs {
+		if i < len(stamps) && stamps[i] != (Stamp{}) {
+			if st, ok := l.stamp(in.Path); ok && st == stamps[i] {
+				continue
+			}
+		}
 		f, err := l.fsys.Open(in.Path)
 		if err != nil {
 			return false, in.Path
@@ -124,6 +133,51 @@ func (l *Library) Unchanged(inputs []Input) (bool, string) {
 		}
 	}
 	return true, ""
+}
+
+// A Stamp is what the file system tells of a file without reading it: the
+// device and inode, the size, and the times of the last change of its
+// bytes and of its inode (the change time, which any write, rename or
+// change of times moves to the present and no program can set). A file
+// whose stamp is what it was when its SHA-256 was taken still holds those
+// bytes, barring a clock set back.
+type Stamp struct {
+	Dev, Ino              uint64
+	Size, ModTime, Change int64 // bytes; nanoseconds since 1970
+}
+
+// stampMargin is how long before Load began a file must have last changed
+// to be stamped: a change within the file system's time resolution of
+// the last one would not move the change time (common practice, no
+// source: the coarsest change time of common file systems is 1 s, twice
+// that kept for safety).
+const stampMargin = 2 * time.Second
+
+// Stamps returns the stamps of the files of inputs, which were read (and
+// their SHA-256 taken) after Load began, for [Library.Unchanged] to trust
+// later instead of reading the files again. A stamp is zero where the file
+// system gives none (no change time, as on Windows) or where the file
+// changed less than stampMargin before Load began, since the bytes read
+// might then not be those its stamp vouches for.
+func (l *Library) Stamps(inputs []Input) []Stamp {
+	out := make([]Stamp, len(inputs))
+	limit := l.loaded.Add(-stampMargin).UnixNano()
+	for i, in := range inputs {
+		if st, ok := l.stamp(in.Path); ok && !l.loaded.IsZero() && st.Change < limit {
+			out[i] = st
+		}
+	}
+	return out
+}
+
+// stamp returns the stamp of the regular file p, and false when there is
+// none.
+func (l *Library) stamp(p string) (Stamp, bool) {
+	fi, err := fs.Stat(l.fsys, p)
+	if err != nil || !fi.Mode().IsRegular() {
+		return Stamp{}, false
+	}
+	return sysStamp(fi)
 }
 
 // Material returns the material with the given slug.
@@ -143,7 +197,7 @@ func (l *Library) Material(slug string) (*Material, bool) {
 // an [Errors] in file order, and the returned library still holds the
 // config and every file that could be read.
 func Load(fsys fs.FS) (*Library, error) {
-	lib := &Library{fsys: fsys}
+	lib := &Library{fsys: fsys, loaded: time.Now()}
 	var errs Errors
 	add := func(err error) {
 		switch e := err.(type) {

@@ -36,7 +36,10 @@ import (
 // same build of skysheet with the same templates, config and Markdown
 // file, the same comparisons listing it and stack layers under it, and
 // every file it rests on (spectra, reference standards, sky and weather
-// files) still has the SHA-256 recorded in the entry.
+// files) still has the SHA-256 recorded in the entry. A file whose
+// device, inode, size, modification and change times are those recorded
+// with the entry is not read again to be checked (see
+// library.Library.Stamps for when they are recorded).
 //
 // The cache only saves time: deleting it changes nothing else. An entry
 // that is stale (an input changed), truncated or corrupt (its checksum,
@@ -155,9 +158,12 @@ func isFormatFolder(name string) bool {
 
 // entry is what the cache keeps of a material, in its meta file.
 type entry struct {
-	Key   string
-	Kept  kept
-	Files []cachedFile // stored as files named 0, 1, … in the entry's folder
+	Key  string
+	Kept kept
+	// Stamps vouch for Kept.Inputs unchanged without reading them again
+	// (see library.Library.Stamps); a zero stamp, or none, means read.
+	Stamps []library.Stamp
+	Files  []cachedFile // stored as files named 0, 1, … in the entry's folder
 	// Empty lists the slices and maps of Kept that are empty but not nil
 	// (by their number in the order of walkSlices): gob writes nothing
 	// of them and reads them back as nil, which JSON writes as null, not
@@ -250,8 +256,12 @@ func (c *Cache) get(key string, lib *library.Library) (*entry, []string) {
 	if e == nil {
 		return nil, nil
 	}
-	if ok, _ := lib.Unchanged(e.Kept.Inputs); !ok {
+	if ok, _ := lib.Unchanged(e.Kept.Inputs, e.Stamps); !ok {
 		return nil, nil
+	}
+	if len(e.Stamps) != len(e.Kept.Inputs) || slices.Contains(e.Stamps, library.Stamp{}) {
+		// Read again and found unchanged: a file may be old enough now.
+		e.Stamps = lib.Stamps(e.Kept.Inputs)
 	}
 	dir := filepath.Join(c.dir, cacheVersion, key)
 	paths := make([]string, len(e.Files))
