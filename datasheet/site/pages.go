@@ -4,10 +4,13 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"html/template"
 	"math"
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
+	"sync/atomic"
 
 	"skysheet/datasheet"
 	"skysheet/datasheet/evaluate"
@@ -416,24 +419,8 @@ func (b *builder) table(id, root string, ms []*evaluate.Summary, numbers map[str
 		if s := library.Slugify(m.Front.Category); s != "" {
 			r.Category = link{Name: m.Front.Category, Href: root + listingDir("category", s) + "index.html"}
 		}
-		for _, col := range tableFigures {
-			x := figureOf(m.Figures, col.Key)
-			if x.Key == "color_lab" { // a swatch and L*
-				cl := cell{Key: col.Key, Text: "—", Value: sortValue(x.Value)}
-				if !isNaN(x.Value) && m.Figures != nil {
-					cl.Text, cl.Swatch = strconv.FormatFloat(float64(x.Value), 'f', 1, 64), m.Figures.Color.Reflectance.SRGB
-				}
-				r.Cells = append(r.Cells, cl)
-				continue
-			}
-			c := cell{Key: col.Key, Text: fmtNumber(x.Kind(), x.Value, "") + plusMinus(x), Value: sortValue(x.Value), Partial: x.Partial}
-			switch {
-			case !isNaN(x.Value):
-			case x.Reason != "":
-				c.Text, c.Why = "n/a", x.ShortReason()
-			}
-			r.Cells = append(r.Cells, c)
-		}
+		rf := b.rowFigs[m.Slug]
+		r.Cells, r.CellsHTML = rf.cells, rf.html
 		if m.Figures != nil {
 			refs := noteRefs(m.Figures, r.Href)
 			for _, n := range m.Figures.ModelNotes {
@@ -443,6 +430,64 @@ func (b *builder) table(id, root string, ms []*evaluate.Summary, numbers map[str
 		t.Rows = append(t.Rows, r)
 	}
 	return t
+}
+
+// rowFigures are the figure cells of a material's row in the material
+// tables, and their HTML: the same in every table, made once per render.
+type rowFigures struct {
+	cells []cell
+	html  template.HTML
+}
+
+// prepareRows makes the rowFigures of every material, in parallel.
+func (b *builder) prepareRows() error {
+	out := make([]rowFigures, len(b.sums))
+	errs := make([]error, len(b.sums))
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range b.workers() {
+		wg.Go(func() {
+			for i := int(next.Add(1)) - 1; i < len(b.sums); i = int(next.Add(1)) - 1 {
+				cells := figureCells(b.sums[i])
+				var buf bytes.Buffer
+				errs[i] = b.tmpl.ExecuteTemplate(&buf, "material-cells", cells)
+				out[i] = rowFigures{cells: cells, html: template.HTML(buf.String())}
+			}
+		})
+	}
+	wg.Wait()
+	b.rowFigs = make(map[string]rowFigures, len(b.sums))
+	for i, m := range b.sums {
+		if errs[i] != nil {
+			return &library.Error{File: m.Path, Err: fmt.Errorf("material tables: %w", errs[i])}
+		}
+		b.rowFigs[m.Slug] = out[i]
+	}
+	return nil
+}
+
+// figureCells returns the figure cells of m's row in the material tables.
+func figureCells(m *evaluate.Summary) []cell {
+	cells := make([]cell, 0, len(tableFigures))
+	for _, col := range tableFigures {
+		x := figureOf(m.Figures, col.Key)
+		if x.Key == "color_lab" { // a swatch and L*
+			cl := cell{Key: col.Key, Text: "—", Value: sortValue(x.Value)}
+			if !isNaN(x.Value) && m.Figures != nil {
+				cl.Text, cl.Swatch = strconv.FormatFloat(float64(x.Value), 'f', 1, 64), m.Figures.Color.Reflectance.SRGB
+			}
+			cells = append(cells, cl)
+			continue
+		}
+		c := cell{Key: col.Key, Text: fmtNumber(x.Kind(), x.Value, "") + plusMinus(x), Value: sortValue(x.Value), Partial: x.Partial}
+		switch {
+		case !isNaN(x.Value):
+		case x.Reason != "":
+			c.Text, c.Why = "n/a", x.ShortReason()
+		}
+		cells = append(cells, c)
+	}
+	return cells
 }
 
 func firstOf(s ...string) string {

@@ -218,6 +218,9 @@ type builder struct {
 	// overlay charts draw; guarded by mu.
 	mu       sync.Mutex
 	overlays map[string]overlay
+	// rowFigs are the figure cells of each material's table row, by slug,
+	// made by prepareRows before the pages with tables.
+	rowFigs map[string]rowFigures
 }
 
 func newBuilder(lib *library.Library, opt Options) (*builder, error) {
@@ -303,6 +306,9 @@ type files map[string][]byte
 // render renders the pages that rest on every material: index,
 // listings, comparisons, review and assets.
 func (b *builder) render() (files, error) {
+	if err := b.prepareRows(); err != nil {
+		return nil, err
+	}
 	// The parts are independent: they are built at the same time, each
 	// into files of its own, and merged in this order.
 	// The listings of tags, of categories and the index take the longest:

@@ -158,7 +158,8 @@ type row struct {
 	Slug, Href, Title, Maker string
 	Category                 link
 	Cells                    []cell
-	Notes                    []noteRef // the model notes of the material, linking to its datasheet
+	CellsHTML                template.HTML // Cells as the "material-cells" template writes them
+	Notes                    []noteRef     // the model notes of the material, linking to its datasheet
 }
 
 type tableView struct {
