@@ -263,17 +263,27 @@ func renderInto(ctx context.Context, dir, outDir string, o renderOptions) (rende
 // materials taken from the render cache.
 func renderLibrary(root *os.Root, absDir string, w *dirWriter, o renderOptions) (*library.Library, int, error) {
 	fsys := newInputFS(root, o.maxSize)
+	opt := site.Options{Version: o.version}
+	release, opened := func() {}, false
+	defer func() { release() }()
+	if o.cache {
+		// An existing cache's index is read while the library is.
+		if st, err := os.Stat(filepath.Join(absDir, cacheDir)); err == nil && st.IsDir() {
+			opt.Cache, release = openRenderCache(absDir, o.progress)
+			opened = true
+			if opt.Cache != nil {
+				opt.Cache.Prefetch()
+			}
+		}
+	}
 	lib, err := loadLibrary(fsys)
 	if err != nil {
 		return nil, 0, err
 	}
-	opt := site.Options{Version: o.version}
-	if o.cache {
-		// Opened once the library is read: a library that cannot be read
+	if o.cache && !opened {
+		// Made once the library is read: a library that cannot be read
 		// gets no cache folder.
-		c, release := openRenderCache(absDir, o.progress)
-		defer release()
-		opt.Cache = c
+		opt.Cache, release = openRenderCache(absDir, o.progress)
 	}
 	if st, err := fs.Stat(fsys, templatesDir); err == nil && st.IsDir() {
 		opt.Templates, _ = fs.Sub(fsys, templatesDir)

@@ -247,11 +247,19 @@ func cacheBaseOf(c *Cache, opt Options, cfg library.Config) (string, error) {
 	return hex.EncodeToString(h.Sum(nil)), nil
 }
 
+// Prefetch starts reading the index of the last render in the
+// background, to have it at hand when the first material is looked up.
+func (c *Cache) Prefetch() { go c.loadIndex() }
+
+func (c *Cache) loadIndex() {
+	c.load.Do(func() { c.index = readIndex(filepath.Join(c.dir, cacheVersion), c.build) })
+}
+
 // get returns the entry under key, checked: nil when there is none or it
 // is stale or one of its files was changed. The paths of its files are
 // those of e.Files.
 func (c *Cache) get(key string, lib *library.Library) (*entry, []string) {
-	c.load.Do(func() { c.index = readIndex(filepath.Join(c.dir, cacheVersion), c.build) })
+	c.loadIndex()
 	e := c.index[key]
 	if e == nil {
 		return nil, nil

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"html/template"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -502,17 +503,25 @@ func firstOf(s ...string) string {
 // ordered returns the materials sorted by title (then slug), the order of
 // the index; and each material's number in it.
 func (b *builder) ordered() ([]*evaluate.Summary, map[string]int) {
-	ms := append([]*evaluate.Summary(nil), b.sums...)
-	sort.SliceStable(ms, func(i, j int) bool {
-		ti, tj := strings.ToLower(ms[i].Front.Title), strings.ToLower(ms[j].Front.Title)
-		if ti != tj {
-			return ti < tj
+	type keyed struct {
+		title string // lower case
+		m     *evaluate.Summary
+	}
+	ks := make([]keyed, len(b.sums))
+	for i, m := range b.sums {
+		ks[i] = keyed{strings.ToLower(m.Front.Title), m}
+	}
+	slices.SortStableFunc(ks, func(a, b keyed) int {
+		if c := strings.Compare(a.title, b.title); c != 0 {
+			return c
 		}
-		return ms[i].Slug < ms[j].Slug
+		return strings.Compare(a.m.Slug, b.m.Slug)
 	})
-	n := map[string]int{}
-	for i, m := range ms {
-		n[m.Slug] = i + 1
+	ms := make([]*evaluate.Summary, len(ks))
+	n := make(map[string]int, len(ks))
+	for i, k := range ks {
+		ms[i] = k.m
+		n[k.m.Slug] = i + 1
 	}
 	return ms, n
 }
