@@ -291,6 +291,7 @@ func (c *Cache) get(key string, lib *library.Library) (*entry, []string) {
 // stored files, in e.Files order. A failure is recorded, not returned
 // as the material's: the render goes on without the entry.
 func (c *Cache) put(key string, e *entry, fs files) ([]string, bool) {
+	e.Empty = emptyOf(e)
 	paths, err := c.write(key, e, fs)
 	c.mu.Lock()
 	defer c.mu.Unlock()
@@ -373,16 +374,7 @@ func writeIndex(base, build string, es map[string]*entry) error {
 		if err != nil {
 			break
 		}
-		e := es[k]
-		e.Empty = nil
-		n := 0
-		walkSlices(reflect.ValueOf(&e.Kept), func(v reflect.Value) {
-			if v.Len() == 0 && !v.IsNil() {
-				e.Empty = append(e.Empty, n)
-			}
-			n++
-		})
-		err = enc.Encode(e)
+		err = enc.Encode(es[k])
 	}
 	if err == nil {
 		_, err = w.Write(h.Sum(nil))
@@ -466,9 +458,26 @@ func (r *hashReader) ReadByte() (byte, error) {
 	return b, err
 }
 
+// emptyOf returns the numbers of the slices and maps of e.Kept that are
+// empty but not nil, in the order of walkSlices (see entry.Empty).
+func emptyOf(e *entry) []int {
+	var empty []int
+	n := 0
+	walkSlices(reflect.ValueOf(&e.Kept), func(v reflect.Value) {
+		if v.Len() == 0 && !v.IsNil() {
+			empty = append(empty, n)
+		}
+		n++
+	})
+	return empty
+}
+
 // restoreEmpty makes the slices and maps of e.Kept that were empty when
 // written (e.Empty) empty again rather than nil.
 func restoreEmpty(e *entry) {
+	if len(e.Empty) == 0 {
+		return
+	}
 	n, k := 0, 0
 	walkSlices(reflect.ValueOf(&e.Kept), func(v reflect.Value) {
 		if k < len(e.Empty) && e.Empty[k] == n {

@@ -553,7 +553,7 @@ func (b *builder) groups(tags bool) (slugs []string, names map[string]string, me
 	return slugs, names, members
 }
 
-// indexFiles renders index.html and catalog.json.
+// indexFiles renders index.html, the pages and the CSV of its table.
 func (b *builder) indexFiles(out files) error {
 	p := b.newPage("index", b.site.Title, "index.html")
 	ms, numbers := b.ordered()
@@ -616,6 +616,12 @@ func (b *builder) indexFiles(out files) error {
 		return &library.Error{File: "index.html", Err: err}
 	}
 	out["index.html"] = html
+	return nil
+}
+
+// catalogFiles writes catalog.json.
+func (b *builder) catalogFiles(out files) error {
+	ms, _ := b.ordered()
 	cat, err := b.catalog(ms)
 	if err != nil {
 		return &library.Error{File: "catalog.json", Err: err}
@@ -710,40 +716,37 @@ func (b *builder) rowsScript(ms []*evaluate.Summary, numbers map[string]int) ([]
 // category or tag; kind is "category" or "tag".
 func listingDir(kind, slug string) string { return "materials/by-" + kind + "/" + slug + "/" }
 
-// listingFiles renders one page per category (kind "category") or per tag
-// (kind "tag").
-func (b *builder) listingFiles(kind string, out files) error {
-	slugs, names, members := b.groups(kind == "tag")
+// listingFiles renders the pages that list the members of the category
+// or tag (kind "category" or "tag") with the given slug and name.
+func (b *builder) listingFiles(kind, slug, name string, members []*evaluate.Summary, out files) error {
 	label := map[string]string{"category": "Category", "tag": "Tag"}[kind]
-	for _, s := range slugs {
-		name := listingDir(kind, s) + "index.html"
-		p := b.newPage("listing", label+": "+names[s], name)
-		// Rows are numbered within the listing, in its order (the index's).
-		numbers := map[string]int{}
-		for i, m := range members[s] {
-			numbers[m.Slug] = i + 1
+	first := listingDir(kind, slug) + "index.html"
+	p := b.newPage("listing", label+": "+name, first)
+	// Rows are numbered within the listing, in its order (the index's).
+	numbers := make(map[string]int, len(members))
+	for i, m := range members {
+		numbers[m.Slug] = i + 1
+	}
+	tables := b.pagedTables("", first, listingDir(kind, slug)+"page/", members, numbers)
+	var csv tableView
+	if err := b.addTableCSV(out, listingDir(kind, slug), &csv, members, numbers); err != nil {
+		return err
+	}
+	for i, t := range tables {
+		q := p
+		if i > 0 {
+			q = b.newPage("listing", fmt.Sprintf("%s: %s, page %d", label, name, i+1), t.name)
 		}
-		tables := b.pagedTables("", name, listingDir(kind, s)+"page/", members[s], numbers)
-		var csv tableView
-		if err := b.addTableCSV(out, listingDir(kind, s), &csv, members[s], numbers); err != nil {
-			return err
+		t.table.CSV = csv.CSV // beside the first page; page/K/ is two folders below
+		if i > 0 {
+			t.table.CSV = "../../" + csv.CSV
 		}
-		for i, t := range tables {
-			q := p
-			if i > 0 {
-				q = b.newPage("listing", fmt.Sprintf("%s: %s, page %d", label, names[s], i+1), t.name)
-			}
-			t.table.CSV = csv.CSV // beside the first page; page/K/ is two folders below
-			if i > 0 {
-				t.table.CSV = "../../" + csv.CSV
-			}
-			q.L = &listingView{Kind: label, Name: names[s], Table: t.table}
-			html, err := b.execute("listing", q)
-			if err != nil {
-				return &library.Error{File: t.name, Err: err}
-			}
-			out[t.name] = html
+		q.L = &listingView{Kind: label, Name: name, Table: t.table}
+		html, err := b.execute("listing", q)
+		if err != nil {
+			return &library.Error{File: t.name, Err: err}
 		}
+		out[t.name] = html
 	}
 	return nil
 }

@@ -311,12 +311,14 @@ func (b *builder) render() (files, error) {
 	}
 	// The parts are independent: they are built at the same time, each
 	// into files of its own, and merged in this order.
-	// The listings of tags, of categories and the index take the longest:
-	// parts of their own, so that the workers share them.
-	parts := []func(files) error{
-		b.indexFiles,
-		func(out files) error { return b.listingFiles("tag", out) },
-		func(out files) error { return b.listingFiles("category", out) },
+	// The index and catalog.json take the longest: first, so that the
+	// workers share the rest (each listing is a part).
+	parts := []func(files) error{b.indexFiles, b.catalogFiles}
+	for _, kind := range []string{"tag", "category"} {
+		slugs, names, members := b.groups(kind == "tag")
+		for _, s := range slugs {
+			parts = append(parts, func(out files) error { return b.listingFiles(kind, s, names[s], members[s], out) })
+		}
 	}
 	for _, c := range b.lib.Comparisons {
 		parts = append(parts, func(out files) error { return b.comparisonFiles(c, out) })
