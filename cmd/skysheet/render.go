@@ -264,19 +264,23 @@ func renderInto(ctx context.Context, dir, outDir string, o renderOptions) (rende
 func renderLibrary(root *os.Root, absDir string, w *dirWriter, o renderOptions) (*library.Library, int, error) {
 	fsys := newInputFS(root, o.maxSize)
 	opt := site.Options{Version: o.version}
-	release, opened := func() {}, false
+	release := func() {}
 	defer func() { release() }()
-	if o.cache {
-		// An existing cache's index is read while the library is.
-		if st, err := os.Stat(filepath.Join(absDir, cacheDir)); err == nil && st.IsDir() {
+	var opening sync.WaitGroup
+	opened := false
+	if st, err := os.Stat(filepath.Join(absDir, cacheDir)); o.cache && err == nil && st.IsDir() {
+		// An existing cache is opened (the build identified, the lock
+		// taken) and its index read while the library is.
+		opened = true
+		opening.Go(func() {
 			opt.Cache, release = openRenderCache(absDir, o.progress)
-			opened = true
 			if opt.Cache != nil {
 				opt.Cache.Prefetch()
 			}
-		}
+		})
 	}
 	lib, err := loadLibrary(fsys)
+	opening.Wait()
 	if err != nil {
 		return nil, 0, err
 	}
