@@ -134,10 +134,29 @@ med() { awk -v k="$1" '{ print $k }' "$3" | median | awk -v f="$2" '{ printf f, 
 # cell FILE: median wall time and, in brackets, median CPU time of FILE.
 cell() { echo "$(med 1 %.2f "$1") ($(med 2 %.1f "$1"))"; }
 
-# fresh_library DIR: removes what a render may have left in the library
+# set_aside PATH...: moves each existing PATH into $work/trash, which is
+# emptied when the benchmark ends. Deleting thousands of files just before
+# a timed run can slow that run's file creation by seconds on some file
+# systems (see bench/README.md, "The file system's share"): no run pays for
+# the one before it.
+set_aside() {
+	local p
+	mkdir -p "$work/trash"
+	for p in "$@"; do
+		[ -e "$p" ] || [ -L "$p" ] || continue
+		mv "$p" "$(mktemp -d "$work/trash/XXXXXX")/"
+	done
+}
+
+# fresh_library DIR: sets aside what a render may have left in the library
 # folder (a cache, a default site folder): the generator writes only
 # skysheet.yaml and content/ there.
-fresh_library() { find "$1" -mindepth 1 -maxdepth 1 ! -name skysheet.yaml ! -name content -exec rm -rf {} +; }
+fresh_library() {
+	local p
+	for p in "$1"/* "$1"/.[!.]* "$1"/..?*; do
+		case ${p##*/} in skysheet.yaml | content) ;; *) set_aside "$p" ;; esac
+	done
+}
 
 # change_spectrum FILE K: changes the R value at 1000 nm, differently for each K.
 change_spectrum() {
@@ -166,14 +185,14 @@ for n in "${sizes[@]}"; do
 	full | skysheet | lab)
 		for ((k = 1; k <= reps; k++)); do
 			if [ "$mode" != lab ]; then
-				rm -rf "$site"
+				set_aside "$site"
 				fresh_library "$lib"
 				r=$(timed "$bin" "$verb" "$lib" "$outflag" "$site")
 				echo "$r" >>"$work/sky-$n.txt"
 				log "N=$n run $k: skysheet $SKYSHEET_RENDER: wall ${r%% *} s (wall, CPU s, RSS MiB: $r)"
 			fi
 			if [ "$mode" != skysheet ]; then
-				rm -rf "$lab"
+				set_aside "$lab"
 				r=$(timed "$python" "$here/labscript.py" "$lib" -o "$lab" --jobs "$lab_jobs")
 				echo "$r" >>"$work/lab-$n.txt"
 				log "N=$n run $k: lab script: wall ${r%% *} s (wall, CPU s, RSS MiB: $r)"
@@ -196,7 +215,7 @@ for n in "${sizes[@]}"; do
 		rows+=("| $(printf "%'d" "$n") | $sw | $lw | $ratio | $sc | $lc | $sr | $lr |")
 		;;
 	index)
-		rm -rf "$site"
+		set_aside "$site"
 		fresh_library "$lib"
 		r=$(timed "$bin" "$verb" "$lib" "$outflag" "$site")
 		log "N=$n: full render: $r"
@@ -207,7 +226,7 @@ for n in "${sizes[@]}"; do
 	changed)
 		# Full renders from scratch (no site, no cache).
 		for ((k = 1; k <= reps; k++)); do
-			rm -rf "$site"
+			set_aside "$site"
 			fresh_library "$lib"
 			r=$(timed "$bin" "$verb" "$lib" "$outflag" "$site")
 			echo "$r" >>"$work/sky-$n.txt"
@@ -267,3 +286,4 @@ if [ "$mode" = index ]; then
 fi
 echo "Medians of $reps runs; wall time and peak RSS per process, CPU = user + system. $cores cores (nproc)${cpu:+, $cpu}${mem:+, $mem RAM};" \
 	"load average ${load_start// /, } at the start, ${load_end// /, } at the end. $version (\`$SKYSHEET_RENDER\`, $rev)$pyver; seed $seed."
+rm -rf "$work/trash" # the outputs set aside between runs
