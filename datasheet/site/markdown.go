@@ -14,8 +14,8 @@ import (
 )
 
 // markdown converts Markdown bodies to HTML: tables and footnotes on; raw
-// HTML dropped unless allowHTML; headings moved down two levels so that a
-// body's "#" sits under the page's own section heading.
+// HTML dropped unless allowHTML; headings moved so that the body's top
+// level is h3, under the page's own section heading (h2).
 type markdown struct{ md goldmark.Markdown }
 
 func newMarkdown(allowHTML bool) markdown {
@@ -40,14 +40,22 @@ func (m markdown) render(src []byte) (template.HTML, error) {
 	return template.HTML(buf.String()), nil
 }
 
-// demote moves headings down two levels (at most to h6).
+// demote moves every heading by the same number of levels, so that the
+// body's top level is h3 and no level is skipped below the page's h2
+// (at most h6).
 type demote struct{}
 
 func (demote) Transform(doc *ast.Document, _ text.Reader, _ parser.Context) {
+	var hs []*ast.Heading
+	top := 7
 	_ = ast.Walk(doc, func(n ast.Node, entering bool) (ast.WalkStatus, error) {
 		if h, ok := n.(*ast.Heading); ok && entering {
-			h.Level = min(h.Level+2, 6)
+			hs = append(hs, h)
+			top = min(top, h.Level)
 		}
 		return ast.WalkContinue, nil
 	})
+	for _, h := range hs {
+		h.Level = min(h.Level+3-top, 6)
+	}
 }
