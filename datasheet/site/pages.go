@@ -10,8 +10,6 @@ import (
 	"sort"
 	"strconv"
 	"strings"
-	"sync"
-	"sync/atomic"
 
 	"skysheet/datasheet"
 	"skysheet/datasheet/evaluate"
@@ -440,29 +438,26 @@ type rowFigures struct {
 	html  template.HTML
 }
 
-// prepareRows makes the rowFigures of every material, in parallel.
-func (b *builder) prepareRows() error {
-	out := make([]rowFigures, len(b.sums))
+// prepare makes what the pages that rest on every material share: the
+// index order, the categories and tags, and the rowFigures of every
+// material (in parallel).
+func (b *builder) prepare() error {
+	b.order, b.numbers = b.sortSums()
+	b.categories, b.tags = b.groupBy(false), b.groupBy(true)
+	figs := make([]rowFigures, len(b.sums))
 	errs := make([]error, len(b.sums))
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range b.workers() {
-		wg.Go(func() {
-			for i := int(next.Add(1)) - 1; i < len(b.sums); i = int(next.Add(1)) - 1 {
-				cells := figureCells(b.sums[i])
-				var buf bytes.Buffer
-				errs[i] = b.tmpl.ExecuteTemplate(&buf, "material-cells", cells)
-				out[i] = rowFigures{cells: cells, html: template.HTML(buf.String())}
-			}
-		})
-	}
-	wg.Wait()
+	b.each(len(b.sums), func(i int) {
+		cells := figureCells(b.sums[i])
+		var buf bytes.Buffer
+		errs[i] = b.tmpl.ExecuteTemplate(&buf, "material-cells", cells)
+		figs[i] = rowFigures{cells: cells, html: template.HTML(buf.String())}
+	})
 	b.rowFigs = make(map[string]rowFigures, len(b.sums))
 	for i, m := range b.sums {
 		if errs[i] != nil {
 			return &library.Error{File: m.Path, Err: fmt.Errorf("material tables: %w", errs[i])}
 		}
-		b.rowFigs[m.Slug] = out[i]
+		b.rowFigs[m.Slug] = figs[i]
 	}
 	return nil
 }
@@ -500,9 +495,13 @@ func firstOf(s ...string) string {
 	return ""
 }
 
-// ordered returns the materials sorted by title (then slug), the order of
-// the index; and each material's number in it.
-func (b *builder) ordered() ([]*evaluate.Summary, map[string]int) {
+// ordered returns the materials in the order of the index and each
+// material's number in it (made by prepare; not to be changed).
+func (b *builder) ordered() ([]*evaluate.Summary, map[string]int) { return b.order, b.numbers }
+
+// sortSums returns the materials sorted by title (then slug), the order
+// of the index; and each material's number in it.
+func (b *builder) sortSums() ([]*evaluate.Summary, map[string]int) {
 	type keyed struct {
 		title string // lower case
 		m     *evaluate.Summary
@@ -526,11 +525,27 @@ func (b *builder) ordered() ([]*evaluate.Summary, map[string]int) {
 	return ms, n
 }
 
-// groups returns category or tag names by slug, with their materials.
-func (b *builder) groups(tags bool) (slugs []string, names map[string]string, members map[string][]*evaluate.Summary) {
-	names, members = map[string]string{}, map[string][]*evaluate.Summary{}
-	ms, _ := b.ordered()
-	for _, m := range ms {
+// groupSet is the categories or the tags of the materials: their slugs in
+// order, their names by slug and their materials in index order.
+type groupSet struct {
+	slugs   []string
+	names   map[string]string
+	members map[string][]*evaluate.Summary
+}
+
+// groups returns the tags (tags true) or the categories (made by
+// prepare).
+func (b *builder) groups(tags bool) groupSet {
+	if tags {
+		return b.tags
+	}
+	return b.categories
+}
+
+// groupBy returns the categories or tags of b.order.
+func (b *builder) groupBy(tags bool) groupSet {
+	g := groupSet{names: map[string]string{}, members: map[string][]*evaluate.Summary{}}
+	for _, m := range b.order {
 		var keys []string
 		if tags {
 			keys = uniqueTags(m.Front.Tags)
@@ -542,15 +557,15 @@ func (b *builder) groups(tags bool) (slugs []string, names map[string]string, me
 			if s == "" {
 				continue
 			}
-			if _, ok := names[s]; !ok {
-				names[s] = k
-				slugs = append(slugs, s)
+			if _, ok := g.names[s]; !ok {
+				g.names[s] = k
+				g.slugs = append(g.slugs, s)
 			}
-			members[s] = append(members[s], m)
+			g.members[s] = append(g.members[s], m)
 		}
 	}
-	sort.Strings(slugs)
-	return slugs, names, members
+	sort.Strings(g.slugs)
+	return g
 }
 
 // indexFiles renders index.html, the pages and the CSV of its table.
@@ -597,9 +612,9 @@ func (b *builder) indexFiles(out files) error {
 		return &library.Error{File: "index.html", Err: fmt.Errorf("colour charts: %w", err)}
 	}
 	for _, kind := range []string{"category", "tag"} {
-		slugs, names, members := b.groups(kind == "tag")
-		for _, s := range slugs {
-			l := link{Name: names[s], Href: listingDir(kind, s) + "index.html", Count: len(members[s])}
+		g := b.groups(kind == "tag")
+		for _, s := range g.slugs {
+			l := link{Name: g.names[s], Href: listingDir(kind, s) + "index.html", Count: len(g.members[s])}
 			if kind == "tag" {
 				v.Tags = append(v.Tags, l)
 			} else {

@@ -218,9 +218,15 @@ type builder struct {
 	// overlay charts draw; guarded by mu.
 	mu       sync.Mutex
 	overlays map[string]overlay
-	// rowFigs are the figure cells of each material's table row, by slug,
-	// made by prepareRows before the pages with tables.
-	rowFigs map[string]rowFigures
+	// Made by prepare before the pages that rest on every material, and
+	// read-only after: the materials in index order and their numbers in
+	// it, the categories and tags, the figure cells of each material's
+	// table row by slug.
+	order      []*evaluate.Summary
+	numbers    map[string]int
+	categories groupSet
+	tags       groupSet
+	rowFigs    map[string]rowFigures
 }
 
 func newBuilder(lib *library.Library, opt Options) (*builder, error) {
@@ -306,7 +312,7 @@ type files map[string][]byte
 // render renders the pages that rest on every material: index,
 // listings, comparisons, review and assets.
 func (b *builder) render() (files, error) {
-	if err := b.prepareRows(); err != nil {
+	if err := b.prepare(); err != nil {
 		return nil, err
 	}
 	// The parts are independent: they are built at the same time, each
@@ -315,9 +321,9 @@ func (b *builder) render() (files, error) {
 	// workers share the rest (each listing is a part).
 	parts := []func(files) error{b.indexFiles, b.catalogFiles}
 	for _, kind := range []string{"tag", "category"} {
-		slugs, names, members := b.groups(kind == "tag")
-		for _, s := range slugs {
-			parts = append(parts, func(out files) error { return b.listingFiles(kind, s, names[s], members[s], out) })
+		g := b.groups(kind == "tag")
+		for _, s := range g.slugs {
+			parts = append(parts, func(out files) error { return b.listingFiles(kind, s, g.names[s], g.members[s], out) })
 		}
 	}
 	for _, c := range b.lib.Comparisons {
@@ -346,21 +352,10 @@ func (b *builder) render() (files, error) {
 		})
 	outs := make([]files, len(parts))
 	errs := make([]error, len(parts))
-	next := make(chan int)
-	var wg sync.WaitGroup
-	for range min(b.workers(), len(parts)) {
-		wg.Go(func() {
-			for i := range next {
-				outs[i] = files{}
-				errs[i] = parts[i](outs[i])
-			}
-		})
-	}
-	for i := range parts {
-		next <- i
-	}
-	close(next)
-	wg.Wait()
+	b.each(len(parts), func(i int) {
+		outs[i] = files{}
+		errs[i] = parts[i](outs[i])
+	})
 	out := files{}
 	var all library.Errors
 	for i := range parts {
@@ -378,6 +373,25 @@ func (b *builder) render() (files, error) {
 		return nil, all
 	}
 	return out, nil
+}
+
+// each calls do(i) for every i in [0, n), taken in order by at most
+// workers goroutines at once, and returns when all have returned.
+func (b *builder) each(n int, do func(i int)) {
+	next := make(chan int)
+	var wg sync.WaitGroup
+	for range min(b.workers(), n) {
+		wg.Go(func() {
+			for i := range next {
+				do(i)
+			}
+		})
+	}
+	for i := range n {
+		next <- i
+	}
+	close(next)
+	wg.Wait()
 }
 
 // workers is the number of goroutines rendering at once.
