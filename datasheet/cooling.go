@@ -776,10 +776,6 @@ type cooling struct {
 	// band to make it hemispherical (0: none).
 	basis EmittanceBasis
 	ratio float64
-	// near, once set, is the full evaluation of the data's emittance: the
-	// evaluations of the emittance moved by its uncertainty start their
-	// root searches from its equilibria.
-	near *coolFigures
 	// unchecked takes the equilibria from the interpolant alone, when
 	// there is one (the sensitivity table's, which shows changes of
 	// tenths of a kelvin).
@@ -797,9 +793,9 @@ type coolFigures struct {
 }
 
 // evaluate computes the cooling figures for emittance a and solar
-// absorptance alpha (NaN when unknown). smooth interpolates P_rad first,
-// for a state that will be asked for much more (see coolState.smooth).
-func (m *cooling) evaluate(a spectra.Series, alpha float64, smooth bool) coolFigures {
+// absorptance alpha (NaN when unknown). P_rad is interpolated first: the
+// state will be asked for much more (see coolState.smooth).
+func (m *cooling) evaluate(a spectra.Series, alpha float64) coolFigures {
 	nan := math.NaN()
 	r := coolFigures{day: nan, night: nan, eqDay: nan, eqNight: nan, prad: nan, patm: nan, psun: nan}
 	if m.g == nil {
@@ -813,9 +809,7 @@ func (m *cooling) evaluate(a spectra.Series, alpha float64, smooth bool) coolFig
 		k = m.ratio
 	}
 	s := m.g.load(a, k)
-	if smooth {
-		s.smooth()
-	}
+	s.smooth()
 	return m.figuresOf(s, alpha)
 }
 
@@ -827,26 +821,17 @@ func (m *cooling) figuresOf(s *coolState, alpha float64) coolFigures {
 	r.night = r.prad - r.patm
 	r.day = r.night - r.psun
 	h := m.c.HWm2K
-	eq := func(psun, near float64) (float64, error) {
+	eq := func(psun float64) (float64, error) {
 		if m.unchecked {
 			if t, ok := s.equilibriumNear(psun, h, false); ok {
 				return t, nil
 			}
 		}
-		if m.near != nil && !math.IsNaN(near) {
-			if t, ok := s.refine(near, m.near.state.slope(near, h), psun, h); ok {
-				return t, nil
-			}
-		}
 		return s.equilibrium(psun, h)
 	}
-	nearNight, nearDay := math.NaN(), math.NaN()
-	if m.near != nil {
-		nearNight, nearDay = m.near.eqNight, m.near.eqDay
-	}
-	r.eqNight, r.errNgt = eq(0, nearNight)
+	r.eqNight, r.errNgt = eq(0)
 	if !math.IsNaN(alpha) {
-		r.eqDay, r.errDay = eq(r.psun, nearDay)
+		r.eqDay, r.errDay = eq(r.psun)
 	}
 	return r
 }
@@ -882,11 +867,10 @@ func (m *cooling) weighting(withSun, withH bool) string {
 	return out
 }
 
-// addCooling computes the cooling figures of o into f. grads holds the
-// gradients of the figures already in f and receives those of the new ones;
-// full adds the curve and the sensitivity table (skipped for the perturbed
-// evaluations of the uncertainty).
-func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]gradient, full bool) {
+// addCooling computes the cooling figures of o into f, with the curve and
+// the sensitivity table. grads holds the gradients of the figures already
+// in f and receives those of the new ones.
+func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]gradient) {
 	c := m.c
 	sa := absorbedSun(o.A, m.sun)
 	alpha, sunReason := sa.Value, ""
@@ -895,10 +879,7 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 		sunReason = fmt.Sprintf("the data cover only %.1f %% of the %s power over %g–%g nm, on which the absorbed sunlight rests "+
 			"(at least %g %% is needed)", 100*sa.Coverage, m.sun, spectra.SolarRangeNM.Lo, spectra.SolarRangeNM.Hi, 100*minSunCoverage)
 	}
-	r := m.evaluate(o.A, alpha, full)
-	if full && r.state != nil {
-		m.near = &r
-	}
+	r := m.evaluate(o.A, alpha)
 	f.Sky = m.sky
 	f.CoolingPowerWm2, f.CoolingPowerNightWm2 = Num(r.day), Num(r.night)
 	f.EquilibriumDeltaK = Num(c.AmbientK - r.eqDay)
@@ -914,9 +895,7 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 		for _, h := range m.g.held {
 			f.CoolingTerms.HeldBands = append(f.CoolingTerms.HeldBands, spectra.Interval{Lo: h[0], Hi: h[1]})
 		}
-		if full {
-			f.CoolingTerms.HeldUncertainty = m.heldUncertainty(r)
-		}
+		f.CoolingTerms.HeldUncertainty = m.heldUncertainty(r)
 	}
 	cov := 0.0 // share of the band's blackbody power where the emittance is measured
 	if m.g != nil {
@@ -941,9 +920,6 @@ func (m *cooling) addCooling(f *Figures, o spectra.Optics, grads map[string]grad
 		if r.state != nil {
 			m.addGradients(grads, r, c)
 		}
-	}
-	if !full {
-		return
 	}
 	f.CoolingCurve = []CurvePoint{}
 	if r.state != nil {

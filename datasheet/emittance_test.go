@@ -143,7 +143,10 @@ func TestEmittanceConversion(t *testing.T) {
 		t.Errorf("basis without conversion %+v", b)
 	}
 	// The uncertainty with the conversion: the figure recomputed from the
-	// scaled emittance moved by ±u (JCGM 100:2008 5.2.2).
+	// scaled emittance moved by ±u (JCGM 100:2008 5.2.2). The power is
+	// linear in the emittance; the equilibrium's uncertainty is first order
+	// (JCGM 100:2008 5.1.2), within a few 1e-5 of the half-difference here,
+	// while a conversion left out would be some 5 % off.
 	up, _ := compute(mustParse(t, scaledText(0.01), "s.csv"), DefaultConditions())
 	dn, _ := compute(mustParse(t, scaledText(-0.01), "s.csv"), DefaultConditions())
 	// Without sun: the scaled sample scales the solar band's absorptance too.
@@ -152,7 +155,11 @@ func TestEmittanceConversion(t *testing.T) {
 		a, _ := up.Figure(key)
 		b, _ := dn.Figure(key)
 		want := math.Abs(float64(a.Value-b.Value)) / 2
-		if x.Uncertainty == nil || math.Abs(float64(x.Uncertainty.Correlated)-want) > 1e-6*math.Max(1, want) {
+		tol := 1e-6 * math.Max(1, want)
+		if strings.HasPrefix(key, "equilibrium") {
+			tol = 1e-3 * want
+		}
+		if x.Uncertainty == nil || math.Abs(float64(x.Uncertainty.Correlated)-want) > tol {
 			t.Errorf("%s: together %+v, want %.8g", key, x.Uncertainty, want)
 		}
 	}

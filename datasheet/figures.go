@@ -263,20 +263,10 @@ func Compute(s *spectra.Spectrum, o spectra.Optics, c Conditions) (*Figures, err
 	f.EmittanceBasis = basis
 	f.Splices = append([]spectra.SpliceRecord{}, s.Splices...)
 	f.Warnings = append([]string{}, s.Warnings...)
-	m.addCooling(f, o, grads, true)
+	m.addCooling(f, o, grads)
 	m.addSeries(f, withEmittanceRatio(o, ratio))
 	addSRI(f, grads, ratio)
-	eval := func(o spectra.Optics, lin func(string) float64) map[string]float64 {
-		alpha := float64(f.SolarAbsorptance) + lin("solar_absorptance")
-		eps := ratio * (float64(f.ThermalEmittance) + lin("thermal_emittance"))
-		r := m.evaluate(o.A, float64(f.CoolingTerms.SolarAbsorbed)+lin(absorbedSunKey), false)
-		out := map[string]float64{"equilibrium_delta_k": c.AmbientK - r.eqDay, "equilibrium_delta_night_k": c.AmbientK - r.eqNight}
-		for key, hc := range map[string]float64{"sri_low": WindLow, "sri_medium": WindMedium, "sri_high": WindHigh} {
-			out[key] = SolarReflectanceIndex(alpha, eps, hc)
-		}
-		return out
-	}
-	addUncertainty(f, s, o, grads, c.ClosureTol, eval)
+	addUncertainty(f, s, o, grads, c.ClosureTol)
 	addModelNotes(f, o, c)
 	applyCoverage(f)
 	for key := range f.CoolingTerms.HeldUncertainty {

@@ -130,46 +130,40 @@ func hasUncertainty(s *spectra.Spectrum, q spectra.Quantity) (ok bool, lo, hi fl
 	return ok, lo, hi
 }
 
-// nonlinearEval recomputes the figures that are not linear in the data
-// (equilibria, SRI) from optics o, given the change lin(key) of any linear
-// figure that they build on. It returns them by key.
-type nonlinearEval func(o spectra.Optics, lin func(key string) float64) map[string]float64
-
 // probe is the effect on the resolved optics of moving one measured
 // quantity by its standard uncertainty everywhere at once: the change of
-// every value and the nonlinear figures recomputed with the quantity moved
-// up and down.
+// every value, and the row of the table each value belongs to.
 type probe struct {
-	delta      gradient // (o⁺ − o⁻)/2 at every point, indexed like o
-	slot       [3][][]int
-	plus, mins map[string]float64
+	delta gradient // o⁺ − o at every point, indexed like o
+	slot  [3][][]int
 }
 
-// newProbe moves quantity q of s up and down by its uncertainty and
-// recomputes the nonlinear figures both ways with eval.
-func newProbe(s *spectra.Spectrum, q spectra.Quantity, o spectra.Optics, tol float64, grads map[string]gradient, eval nonlinearEval, rt *rowTable) *probe {
+// newProbe moves quantity q of s up by its uncertainty and resolves it
+// again. Resolve is affine in each measured value, wavelength by
+// wavelength (A = 1 − R − T and the like, nothing clipped), so the change
+// is the same, with the opposite sign, for a move down.
+func newProbe(s *spectra.Spectrum, q spectra.Quantity, o spectra.Optics, tol float64, rt *rowTable) *probe {
 	op := spectra.Resolve(shifted(s, q, +1), tol)
-	om := mirrored(o, op)
 	pr := &probe{}
 	// Pointwise changes. Resolve works wavelength by wavelength, so the
 	// change at one point comes from that wavelength's own uncertainty; the
 	// slots (the rows of rt) group the R, T and A values of one wavelength.
-	for qi, pair := range [3][3]spectra.Series{{o.R, op.R, om.R}, {o.T, op.T, om.T}, {o.A, op.A, om.A}} {
-		base, up, dn := pair[0], pair[1], pair[2]
+	for qi, pair := range [3][2]spectra.Series{{o.R, op.R}, {o.T, op.T}, {o.A, op.A}} {
+		base, up := pair[0], pair[1]
 		pr.delta[qi] = make([][]float64, len(base.Pieces))
 		pr.slot[qi] = make([][]int, len(base.Pieces))
-		if len(up.Pieces) != len(base.Pieces) || len(dn.Pieces) != len(base.Pieces) {
+		if len(up.Pieces) != len(base.Pieces) {
 			continue // cannot happen: Resolve's shape does not depend on values
 		}
 		for p, pc := range base.Pieces {
-			if len(up.Pieces[p].V) != len(pc.V) || len(dn.Pieces[p].V) != len(pc.V) {
+			if len(up.Pieces[p].V) != len(pc.V) {
 				continue
 			}
 			d := make([]float64, len(pc.V))
 			sl := make([]int, len(pc.V))
 			at := nmCursor{nm: rt.sorted}
 			for j, nm := range pc.NM {
-				d[j] = (up.Pieces[p].V[j] - dn.Pieces[p].V[j]) / 2
+				d[j] = up.Pieces[p].V[j] - pc.V[j]
 				if i, ok := at.find(nm); ok {
 					sl[j] = rt.sortedK[i]
 				} else {
@@ -179,40 +173,7 @@ func newProbe(s *spectra.Spectrum, q spectra.Quantity, o spectra.Optics, tol flo
 			pr.delta[qi][p], pr.slot[qi][p] = d, sl
 		}
 	}
-	// Linear figures move by exactly ±Σ g·δ; the nonlinear ones are
-	// recomputed from the moved optics.
-	lin := func(sign float64) func(string) float64 {
-		return func(key string) float64 { return sign * pr.together(grads[key]) }
-	}
-	pr.plus, pr.mins = eval(op, lin(+1)), eval(om, lin(-1))
 	return pr
-}
-
-// mirrored returns the optics moved down by the change that moved o up to
-// op: 2o − op, point by point. Resolve is affine in each measured value,
-// wavelength by wavelength (A = 1 − R − T and the like, nothing clipped),
-// so this is Resolve of the spectrum moved down, to rounding, without
-// resolving it (see TestMirroredIsResolved).
-func mirrored(o, op spectra.Optics) spectra.Optics {
-	om := spectra.Optics{UR: op.UR, UT: op.UT, Origin: o.Origin, Closure: o.Closure}
-	for _, x := range [][3]*spectra.Series{{&o.R, &op.R, &om.R}, {&o.T, &op.T, &om.T}, {&o.A, &op.A, &om.A}} {
-		base, up, dn := x[0], x[1], x[2]
-		if len(up.Pieces) != len(base.Pieces) {
-			continue // cannot happen: Resolve's shape does not depend on values
-		}
-		dn.Pieces = make([]spectra.Piece, len(base.Pieces))
-		for p, pc := range base.Pieces {
-			u := up.Pieces[p].V
-			v := make([]float64, len(pc.V))
-			for j, b := range pc.V {
-				if j < len(u) {
-					v[j] = 2*b - u[j]
-				}
-			}
-			dn.Pieces[p] = spectra.Piece{NM: pc.NM, V: v}
-		}
-	}
-	return om
 }
 
 // together returns Σ g·δ: the change of a linear figure when the quantity
@@ -539,14 +500,14 @@ func (rt *rowTable) byGroup(b []float64) (together, bound float64, files int) {
 }
 
 // addUncertainty sets the uncertainty of every figure in f when s gives
-// standard uncertainties of R or T.
-//
-// Uncorrelated: u² = Σ_λ (Σ_q ∂F/∂q(λ) δq(λ))², with the gradients grads
-// and δ the pointwise change of the resolved R, T and A when the measured
-// quantity moves by its uncertainty. Correlated: half the difference of F
-// with the quantity moved up and down everywhere at once; for a linear
-// figure that is Σ ∂F/∂q δq exactly, the others are recomputed by eval.
-func addUncertainty(f *Figures, s *spectra.Spectrum, o spectra.Optics, grads map[string]gradient, tol float64, eval nonlinearEval) {
+// standard uncertainties of R or T, by the law of propagation of
+// uncertainty (JCGM 100:2008 5.1.2 and 5.2.2): with b_k = Σ_q ∂F/∂q δq at
+// row k, from the gradients grads and the pointwise change δ of the
+// resolved R, T and A when the measured quantity moves by its uncertainty,
+// "noise" is spread(b), "together" and the worst case come from the sums
+// of b over each file (byGroup). The sums are exact for the linear
+// figures and first order for the others (the equilibria, the SRI).
+func addUncertainty(f *Figures, s *spectra.Spectrum, o spectra.Optics, grads map[string]gradient, tol float64) {
 	var probes []*probe
 	var rt *rowTable
 	for _, q := range []spectra.Quantity{spectra.R, spectra.T} {
@@ -557,7 +518,7 @@ func addUncertainty(f *Figures, s *spectra.Spectrum, o spectra.Optics, grads map
 		if rt == nil {
 			rt = newRowTable(s)
 		}
-		probes = append(probes, newProbe(s, q, o, tol, grads, eval, rt))
+		probes = append(probes, newProbe(s, q, o, tol, rt))
 		f.Assumptions = append(f.Assumptions, fmt.Sprintf("The standard uncertainty of %s is given over %s–%s nm; "+
 			"elsewhere %s is taken as exact, which understates the uncertainty of figures that reach there.",
 			q, fmtNM(lo), fmtNM(hi), q))
@@ -586,16 +547,12 @@ func addUncertainty(f *Figures, s *spectra.Spectrum, o spectra.Optics, grads map
 		var u2, t2, w2 float64
 		for _, pr := range probes {
 			w := pr.together(g)
-			if xp, ok := pr.plus[x.Key]; ok {
-				w = (xp - pr.mins[x.Key]) / 2
-			}
 			pr.bySlot(g, buf)
 			u := rt.spread(buf)
 			u2 += u * u
 			t, bound, files := rt.byGroup(buf)
 			if files <= 1 {
-				// One file: together is the worst case, recomputed
-				// where the figure is not linear.
+				// One file: together is the worst case.
 				t, bound = w, w
 			}
 			t2 += t * t

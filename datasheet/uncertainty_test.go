@@ -57,16 +57,36 @@ func TestCorrelatedOffset(t *testing.T) {
 		t.Fatalf("solar reflectance uncertainty %+v, want correlated %g", x.Uncertainty, delta)
 	}
 	// With R moved everywhere by δ and absorptance A = 1 − R, the cooling
-	// power at ambient moves by P_rad + P_atm terms linear in A and by
-	// I·δ from the sun; recompute the moved spectra directly.
-	up := Compute2(t, text, +delta)
-	dn := Compute2(t, text, -delta)
-	for _, key := range []string{"cooling_power_w_m2", "cooling_power_night_w_m2", "equilibrium_delta_k", "sri_medium", "thermal_emittance"} {
+	// powers move by terms linear in A (P_rad, P_atm, and I·δ from the sun),
+	// as does the thermal emittance: exactly the half-difference of the
+	// figures recomputed from the moved spectra. The equilibrium and the SRI
+	// are not linear in A; their uncertainty is first order (the law of
+	// propagation, JCGM 100:2008 5.1.2), which the half-difference (f(δ) −
+	// f(−δ))/2 = f′δ + f‴δ³/6 + … meets to second order: the gap, relative,
+	// falls about fourfold when δ halves.
+	for _, key := range []string{"cooling_power_w_m2", "cooling_power_night_w_m2", "thermal_emittance", "equilibrium_delta_k", "sri_medium"} {
 		x, _ := f.Figure(key)
-		a, _ := up.Figure(key)
-		b, _ := dn.Figure(key)
-		want := math.Abs(float64(a.Value-b.Value)) / 2
-		if x.Uncertainty == nil || math.Abs(float64(x.Uncertainty.Correlated)-want) > 1e-9*math.Max(1, want) {
+		if x.Uncertainty == nil {
+			t.Fatalf("%s: no uncertainty", key)
+		}
+		got := float64(x.Uncertainty.Correlated)
+		half := func(d float64) float64 {
+			a, _ := Compute2(t, text, +d).Figure(key)
+			b, _ := Compute2(t, text, -d).Figure(key)
+			return math.Abs(float64(a.Value-b.Value)) / 2
+		}
+		want := half(delta)
+		if key == "equilibrium_delta_k" || key == "sri_medium" {
+			gap := math.Abs(got-want) / want
+			gapHalf := math.Abs(got/2-half(delta/2)) / (want / 2)
+			t.Logf("%s: propagated %.10g, half-difference %.10g; gap %.2g, with δ/2 %.2g", key, got, want, gap, gapHalf)
+			if gap > 1e-3 || !(gapHalf < gap/3) {
+				t.Errorf("%s: correlated uncertainty %.10g against the half-difference %.10g (gap %.2g), "+
+					"with δ/2 gap %.2g: not first order", key, got, want, gap, gapHalf)
+			}
+			continue
+		}
+		if math.Abs(got-want) > 1e-9*math.Max(1, want) {
 			t.Errorf("%s: correlated uncertainty %+v, want %.10g from the moved spectra", key, x.Uncertainty, want)
 		}
 	}
@@ -476,10 +496,10 @@ func TestUncertaintyMonteCarloCorrelated(t *testing.T) {
 	}
 }
 
-// The optics moved down by symmetry against Resolve of the spectrum moved
-// down, for every way Resolve obtains R, T and A (R and T measured, R and A
-// measured, R alone).
-func TestMirroredIsResolved(t *testing.T) {
+// A probe's change, found by moving the data up, against Resolve of the
+// spectrum moved down: the same with the opposite sign, for every way
+// Resolve obtains R, T and A (R and T measured, R and A measured, R alone).
+func TestProbeIsSymmetric(t *testing.T) {
 	texts := map[string]string{
 		"R and T": "# u_R: 0.01\n# u_T: 0.02\nwavelength_nm,R,T\n300,0.91,0.05\n800,0.93,0.04\n2500,0.4,0.01\n9000,0.05,0.02\n20000,0.04,0.01\n",
 		"R and A": "wavelength_nm,R,A,u_R\n300,0.91,0.05,0.01\n800,0.93,0.06,0.02\n2500,0.4,0.5,0.01\n9000,0.05,0.9,0.005\n",
@@ -500,20 +520,20 @@ func TestMirroredIsResolved(t *testing.T) {
 					continue
 				}
 				probed++
-				got := mirrored(o, spectra.Resolve(shifted(s, q, +1), 0.02))
-				want := spectra.Resolve(shifted(s, q, -1), 0.02)
+				pr := newProbe(s, q, o, 0.02, newRowTable(s))
+				down := spectra.Resolve(shifted(s, q, -1), 0.02)
 				moved := false
-				for k, x := range [][3]spectra.Series{{got.R, want.R, o.R}, {got.T, want.T, o.T}, {got.A, want.A, o.A}} {
-					if len(x[0].Pieces) != len(x[1].Pieces) {
-						t.Fatalf("%s moved: quantity %d has %d pieces, Resolve gives %d", q, k, len(x[0].Pieces), len(x[1].Pieces))
+				for k, x := range [3][2]spectra.Series{{o.R, down.R}, {o.T, down.T}, {o.A, down.A}} {
+					if len(pr.delta[k]) != len(x[1].Pieces) {
+						t.Fatalf("%s moved: quantity %d has %d pieces, Resolve gives %d", q, k, len(pr.delta[k]), len(x[1].Pieces))
 					}
 					for p := range x[1].Pieces {
 						for j, w := range x[1].Pieces[p].V {
-							g := x[0].Pieces[p].V[j]
-							if math.Abs(g-w) > 1e-15 {
-								t.Errorf("%s moved: quantity %d at %g nm: %.17g, Resolve gives %.17g", q, k, x[1].Pieces[p].NM[j], g, w)
+							want := x[0].Pieces[p].V[j] - w // o − o⁻
+							if g := pr.delta[k][p][j]; math.Abs(g-want) > 1e-15 {
+								t.Errorf("%s moved: quantity %d at %g nm: change %.17g up, %.17g down", q, k, x[1].Pieces[p].NM[j], g, want)
 							}
-							moved = moved || w != x[2].Pieces[p].V[j]
+							moved = moved || want != 0
 						}
 					}
 				}
