@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"sync"
 	"syscall"
 )
 
@@ -197,28 +198,93 @@ func readLimited(f *os.File, limit int64) ([]byte, error) {
 // files of at most limit bytes (folders are opened to be listed). It reads
 // through an os.Root, which refuses any path, symbolic links included, that
 // leads out of the folder.
+//
+// An os.Root opens every folder of a path in turn, so a path is reached
+// from the folder two levels down (content/CATEGORY) through that folder's
+// own os.Root, opened once (for up to maxSubRoots folders) and confined
+// like the first: a file of a material folder is then one folder away, not
+// three. Close closes them.
 type inputFS struct {
 	root  *os.Root
 	fsys  fs.FS // root.FS(), for Stat and ReadDir
 	limit int64
+
+	mu     sync.Mutex
+	subs   map[string]*os.Root // by slash path; nil: not a folder that could be opened
+	closed bool                // Close was called: the root alone serves
 }
+
+// maxSubRoots bounds the folders inputFS keeps open.
+const maxSubRoots = 64
 
 func newInputFS(root *os.Root, limit int64) *inputFS {
 	return &inputFS{root: root, fsys: root.FS(), limit: limitOrDefault(limit)}
+}
+
+// Close closes the folders the file system opened; not its root.
+func (f *inputFS) Close() {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	for _, r := range f.subs {
+		if r != nil {
+			r.Close()
+		}
+	}
+	f.subs, f.closed = nil, true
+}
+
+// at returns the root to reach the valid path name through, and name
+// relative to it.
+func (f *inputFS) at(name string) (*os.Root, string) {
+	i := strings.IndexByte(name, '/')
+	if i < 0 {
+		return f.root, name
+	}
+	j := strings.IndexByte(name[i+1:], '/')
+	if j < 0 {
+		return f.root, name
+	}
+	dir, rest := name[:i+1+j], name[i+1+j+1:]
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	r, ok := f.subs[dir]
+	if !ok {
+		if f.closed || len(f.subs) >= maxSubRoots {
+			return f.root, name
+		}
+		r, _ = f.root.OpenRoot(filepath.FromSlash(dir)) // nil when it cannot be
+		if f.subs == nil {
+			f.subs = map[string]*os.Root{}
+		}
+		f.subs[dir] = r
+	}
+	if r == nil {
+		return f.root, name
+	}
+	return r, rest
+}
+
+// named gives a path error the path name had in the file system.
+func named(err error, name string) error {
+	if pe, ok := err.(*fs.PathError); ok {
+		return &fs.PathError{Op: pe.Op, Path: name, Err: pe.Err}
+	}
+	return err
 }
 
 func (f *inputFS) Open(name string) (fs.File, error) {
 	if !fs.ValidPath(name) {
 		return nil, &fs.PathError{Op: "open", Path: name, Err: fs.ErrInvalid}
 	}
-	file, err := f.root.OpenFile(filepath.FromSlash(name), openNonBlocking, 0)
+	r, rel := f.at(name)
+	file, err := r.OpenFile(filepath.FromSlash(rel), openNonBlocking, 0)
 	if err != nil {
-		return nil, err
+		return nil, named(err, name)
 	}
 	st, err := file.Stat()
 	if err != nil {
 		file.Close()
-		return nil, err
+		return nil, named(err, name)
 	}
 	switch {
 	case st.IsDir():
@@ -234,10 +300,30 @@ func (f *inputFS) Open(name string) (fs.File, error) {
 }
 
 // Stat returns the file information of name without opening it.
-func (f *inputFS) Stat(name string) (fs.FileInfo, error) { return fs.Stat(f.fsys, name) }
+func (f *inputFS) Stat(name string) (fs.FileInfo, error) {
+	if !fs.ValidPath(name) {
+		return nil, &fs.PathError{Op: "stat", Path: name, Err: fs.ErrInvalid}
+	}
+	r, rel := f.at(name)
+	if r == f.root {
+		return fs.Stat(f.fsys, name)
+	}
+	st, err := r.Stat(filepath.FromSlash(rel))
+	return st, named(err, name)
+}
 
 // ReadDir lists the folder name.
-func (f *inputFS) ReadDir(name string) ([]fs.DirEntry, error) { return fs.ReadDir(f.fsys, name) }
+func (f *inputFS) ReadDir(name string) ([]fs.DirEntry, error) {
+	if !fs.ValidPath(name) {
+		return nil, &fs.PathError{Op: "readdir", Path: name, Err: fs.ErrInvalid}
+	}
+	r, rel := f.at(name)
+	if r == f.root {
+		return fs.ReadDir(f.fsys, name)
+	}
+	es, err := fs.ReadDir(r.FS(), rel)
+	return es, named(err, name)
+}
 
 // limitedFile fails a read that goes past its limit, in case a file grows
 // after it was opened.

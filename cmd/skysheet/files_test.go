@@ -3,6 +3,7 @@ package main
 import (
 	"errors"
 	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"strings"
@@ -276,5 +277,61 @@ func TestWarningsShown(t *testing.T) {
 	if code != 0 || !strings.Contains(errs, "warning: "+pct+": column 2 (R (%)) is marked as percent") ||
 		!strings.Contains(out, `"warnings": [`) || !strings.Contains(out, "fractions in a percent column?") {
 		t.Errorf("exit %d\n%s%s", code, out, errs)
+	}
+}
+
+// TestInputFSDeepPaths checks the paths inputFS reaches through a folder
+// two levels down: the same files and listings as through the root, errors
+// that name the whole path, a symbolic link out of the library refused,
+// and the root alone after Close.
+func TestInputFSDeepPaths(t *testing.T) {
+	dir, outside := t.TempDir(), t.TempDir()
+	if err := os.MkdirAll(filepath.Join(dir, "content", "film", "a"), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	writeAt(t, filepath.Join(dir, "content", "film", "a", "r.csv"), "1,2\n")
+	writeAt(t, filepath.Join(dir, "content", "film", "a.md"), "---\ntitle: a\n---\n")
+	writeAt(t, filepath.Join(outside, "secret.csv"), "3,4\n")
+	if err := os.Symlink(filepath.Join(outside, "secret.csv"), filepath.Join(dir, "content", "film", "a", "link.csv")); err != nil {
+		t.Skip("no symbolic links here:", err)
+	}
+	root, err := os.OpenRoot(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer root.Close()
+	fsys := newInputFS(root, 64)
+	check := func(when string) {
+		if data, err := fs.ReadFile(fsys, "content/film/a/r.csv"); err != nil || string(data) != "1,2\n" {
+			t.Errorf("%s: read %q, %v", when, data, err)
+		}
+		if st, err := fsys.Stat("content/film/a.md"); err != nil || st.Name() != "a.md" || st.Size() != 17 {
+			t.Errorf("%s: stat %v, %v", when, st, err)
+		}
+		if es, err := fsys.ReadDir("content/film/a"); err != nil || len(es) != 2 || es[0].Name() != "link.csv" || es[1].Name() != "r.csv" {
+			t.Errorf("%s: listing %v, %v", when, es, err)
+		}
+		for _, op := range []func(string) error{
+			func(p string) error { _, err := fsys.Open(p); return err },
+			func(p string) error { _, err := fsys.Stat(p); return err },
+		} {
+			var pe *fs.PathError
+			if err := op("content/film/a/none.csv"); !errors.As(err, &pe) || pe.Path != "content/film/a/none.csv" {
+				t.Errorf("%s: missing file: error %v, want one naming content/film/a/none.csv", when, err)
+			}
+			if err := op("content/film/a/link.csv"); err == nil {
+				t.Errorf("%s: a link out of the library was followed", when)
+			}
+		}
+	}
+	check("first")
+	if fsys.subs["content/film"] == nil {
+		t.Error("content/film was not opened as a folder of its own")
+	}
+	check("again")
+	fsys.Close()
+	check("after Close")
+	if len(fsys.subs) != 0 {
+		t.Errorf("%d folders opened after Close", len(fsys.subs))
 	}
 }

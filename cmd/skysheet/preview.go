@@ -165,6 +165,7 @@ func (s *preview) render() (memSite, []string) {
 	}
 	defer root.Close()
 	fsys := newInputFS(root, s.maxSize)
+	defer fsys.Close()
 	lib, err := loadLibrary(fsys)
 	if err != nil {
 		return nil, problems(err)

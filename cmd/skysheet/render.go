@@ -263,6 +263,7 @@ func renderInto(ctx context.Context, dir, outDir string, o renderOptions) (rende
 // materials taken from the render cache.
 func renderLibrary(root *os.Root, absDir string, w *dirWriter, o renderOptions) (*library.Library, int, error) {
 	fsys := newInputFS(root, o.maxSize)
+	defer fsys.Close()
 	opt := site.Options{Version: o.version}
 	release := func() {}
 	defer func() { release() }()
@@ -399,8 +400,11 @@ func holds(p string, data []byte) bool {
 // copy. When the site folder already holds that very file (a link to src
 // made by an earlier render), nothing is written: the file stays where it
 // is, and the swap keeps it since it is among the files written.
-func (w *dirWriter) LinkFile(name, src string) error {
-	if sameFile(filepath.Join(w.site, filepath.FromSlash(name)), src) {
+func (w *dirWriter) LinkFile(name, src string, srcInfo fs.FileInfo) error {
+	if srcInfo == nil {
+		srcInfo, _ = os.Stat(src) // nil on error
+	}
+	if st, err := os.Stat(filepath.Join(w.site, filepath.FromSlash(name))); err == nil && srcInfo != nil && os.SameFile(st, srcInfo) {
 		return w.put(name, nil)
 	}
 	return w.put(name, func(p string) error {

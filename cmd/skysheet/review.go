@@ -117,7 +117,8 @@ func openLibrary(dir string, maxSize int64) (fs.FS, func(), error) {
 	if err != nil {
 		return nil, nil, err
 	}
-	return newInputFS(root, maxSize), func() { root.Close() }, nil
+	fsys := newInputFS(root, maxSize)
+	return fsys, func() { fsys.Close(); root.Close() }, nil
 }
 
 // reviewLibrary evaluates every material of lib (see evaluate.Library) and

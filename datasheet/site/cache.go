@@ -258,14 +258,14 @@ func (c *Cache) loadIndex() {
 // get returns the entry under key, checked: nil when there is none or it
 // is stale or one of its files was changed. The paths of its files are
 // those of e.Files.
-func (c *Cache) get(key string, lib *library.Library) (*entry, []string) {
+func (c *Cache) get(key string, lib *library.Library) (*entry, []string, []fs.FileInfo) {
 	c.loadIndex()
 	e := c.index[key]
 	if e == nil {
-		return nil, nil
+		return nil, nil, nil
 	}
 	if ok, _ := lib.Unchanged(e.Kept.Inputs, e.Stamps); !ok {
-		return nil, nil
+		return nil, nil, nil
 	}
 	if len(e.Stamps) != len(e.Kept.Inputs) || slices.Contains(e.Stamps, library.Stamp{}) {
 		// Read again and found unchanged: a file may be old enough now.
@@ -273,18 +273,20 @@ func (c *Cache) get(key string, lib *library.Library) (*entry, []string) {
 	}
 	dir := filepath.Join(c.dir, cacheVersion, key)
 	paths := make([]string, len(e.Files))
+	infos := make([]fs.FileInfo, len(e.Files))
 	for i, f := range e.Files {
 		paths[i] = filepath.Join(dir, strconv.Itoa(i))
 		st, err := os.Stat(paths[i])
 		if err != nil || !st.Mode().IsRegular() || st.Size() != f.Size || st.ModTime().UnixNano() != f.ModTime {
-			return nil, nil
+			return nil, nil, nil
 		}
+		infos[i] = st
 	}
 	c.mu.Lock()
 	c.next[key] = e
 	c.hits++
 	c.mu.Unlock()
-	return e, paths
+	return e, paths, infos
 }
 
 // put stores e and the files under key and returns the paths of the

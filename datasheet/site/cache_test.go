@@ -47,7 +47,7 @@ func (w mapWriter) WriteFile(name string, data []byte) error {
 // linkWriter keeps the files written to it, and those given by path.
 type linkWriter struct{ mapWriter }
 
-func (w linkWriter) LinkFile(name, src string) error {
+func (w linkWriter) LinkFile(name, src string, _ fs.FileInfo) error {
 	data, err := os.ReadFile(src)
 	w.mapWriter[name] = data
 	return err

@@ -48,17 +48,18 @@ type Options struct {
 //
 // With a [Cache], a Writer that also has the method
 //
-//	LinkFile(name, src string) error
+//	LinkFile(name, src string, srcInfo fs.FileInfo) error
 //
 // is given the files the cache holds by the path of the cache's copy
-// (to link, or copy), rather than read into memory and written again.
+// (to link, or copy), rather than read into memory and written again;
+// srcInfo is that copy's, when the cache has just looked at it, else nil.
 type Writer interface {
 	WriteFile(name string, data []byte) error
 }
 
 // linker is a Writer that can take a file from the cache's folder.
 type linker interface {
-	LinkFile(name, src string) error
+	LinkFile(name, src string, srcInfo fs.FileInfo) error
 }
 
 // Render evaluates every material of lib with [evaluate.Library] and writes
@@ -99,7 +100,7 @@ func Render(lib *library.Library, opt Options, out Writer) error {
 				s := m.Kept()
 				e := &entry{Kept: kept{Inputs: s.Inputs, Figures: s.Figures, Verdicts: s.Verdicts, Warnings: s.Warnings, Overlay: ov}, Stamps: lib.Stamps(s.Inputs)}
 				if paths, ok := opt.Cache.put(key, e, files); ok {
-					return w.takeAll(e.Files, paths, files)
+					return w.takeAll(e.Files, paths, nil, files)
 				}
 			}
 		}
@@ -158,15 +159,20 @@ type serialWriter struct {
 }
 
 // takeAll writes the files a cache entry lists, in name order: by the
-// path of the cache's copy when the Writer can link, else from data or,
-// when data lacks a file, from the cache's copy.
-func (w *serialWriter) takeAll(list []cachedFile, paths []string, data files) error {
+// path of the cache's copy (and its file information when infos has it)
+// when the Writer can link, else from data or, when data lacks a file,
+// from the cache's copy.
+func (w *serialWriter) takeAll(list []cachedFile, paths []string, infos []fs.FileInfo, data files) error {
 	l, canLink := w.out.(linker)
 	w.mu.Lock()
 	defer w.mu.Unlock()
 	for i, f := range list {
 		if canLink {
-			if err := l.LinkFile(f.Name, paths[i]); err != nil {
+			var info fs.FileInfo
+			if i < len(infos) {
+				info = infos[i]
+			}
+			if err := l.LinkFile(f.Name, paths[i], info); err != nil {
 				return err
 			}
 			continue
@@ -254,11 +260,11 @@ func (b *builder) reuse(m *library.Material, cmps []*library.Comparison, w *seri
 	if !ok {
 		return nil, nil
 	}
-	e, paths := b.opt.Cache.get(key, b.lib)
+	e, paths, infos := b.opt.Cache.get(key, b.lib)
 	if e == nil || (len(cmps) > 0) != (e.Kept.Overlay != nil) {
 		return nil, nil
 	}
-	if err := w.takeAll(e.Files, paths, nil); err != nil {
+	if err := w.takeAll(e.Files, paths, infos, nil); err != nil {
 		return nil, err
 	}
 	if o := e.Kept.Overlay; o != nil {
