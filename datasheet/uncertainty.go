@@ -66,13 +66,11 @@ func (g gradient) plus(a float64, h gradient) gradient {
 				continue
 			}
 			row := make([]float64, max(len(x), len(y)))
-			for j := range row {
-				if j < len(x) {
-					row[j] += x[j]
-				}
-				if j < len(y) {
-					row[j] += a * y[j]
-				}
+			for j, v := range x {
+				row[j] += v
+			}
+			for j, v := range y {
+				row[j] += a * v
 			}
 			out[q][p] = row
 		}
@@ -351,21 +349,37 @@ func newRowTable(s *spectra.Spectrum) *rowTable {
 	for _, g := range s.Segments {
 		n += len(g.NM)
 	}
+	// firstOf[i] is the first measurement from the file of measurement i:
+	// the group of its rows.
+	firstOf := make([]int, len(s.Measurements))
+	for i, m := range s.Measurements {
+		firstOf[i] = slices.IndexFunc(s.Measurements, func(x spectra.Measurement) bool { return x.Source == m.Source })
+	}
 	rows := make([]row, 0, n)
+	var cands []int
 	for i := range s.Segments {
 		g := &s.Segments[i]
+		// The measurements behind the segment, as MeasurementAt finds
+		// them: the first whose range holds the wavelength, else the
+		// first.
+		cands = cands[:0]
+		for k := range s.Measurements {
+			if s.MeasurementOf(g, k) {
+				cands = append(cands, k)
+			}
+		}
 		for _, nm := range g.NM {
-			m, ok := s.MeasurementAt(g, nm)
 			group := -1
 			res := spectra.DefaultResolution("nm")
-			if ok {
-				res = m.Resolution
-				for k := range s.Measurements {
-					if s.Measurements[k].Source == m.Source {
-						group = k
+			if len(cands) > 0 {
+				k := cands[0]
+				for _, c := range cands {
+					if m := &s.Measurements[c]; nm >= m.Lo && nm <= m.Hi {
+						k = c
 						break
 					}
 				}
+				res, group = s.Measurements[k].Resolution, firstOf[k]
 			}
 			rows = append(rows, row{nm: nm, pos: elements(res, nm), group: group})
 		}

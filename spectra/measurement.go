@@ -228,6 +228,12 @@ func (s *Spectrum) MeasurementAt(g *Segment, nm float64) (Measurement, bool) {
 	return Measurement{}, false
 }
 
+// MeasurementOf reports whether measurement k of s is behind segment g:
+// its file is among the segment's sources (see MeasurementAt).
+func (s *Spectrum) MeasurementOf(g *Segment, k int) bool {
+	return sourceIn(g.Source, s.Measurements[k].Source)
+}
+
 // sourceIn reports whether file is among the sources of a segment, which
 // names one file or, for files joined where they touch, several joined by
 // "+".
