@@ -9,6 +9,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 
 	"skysheet/spectra"
 )
@@ -192,11 +193,75 @@ type coolGrid struct {
 	bbPower   float64      // π ∫ B(T_amb) over the band, W/m²
 	heldPower float64      // π ∫ B(T_amb) over the held part, W/m²
 	held      [][2]float64 // held ranges, nm
-	// steps and den are kept for the root searches (bracketSteps,
-	// pradShared); grids copied by withSky share den, which rests on the
-	// nodes only.
+	// steps are kept for the root searches (bracketSteps); den holds the
+	// Planck denominators at the temperatures that many states ask for
+	// (pradShared), shared by every grid with the same nodes.
 	steps []float64
-	den   map[float64][]float64
+	den   *planckTable
+}
+
+// planckTable holds exp(x/T) − 1 at every node of the cooling grids whose
+// nodes give x (x = hc/λk), by temperature T, for up to
+// maxPlanckTableValues values in all.
+type planckTable struct {
+	x   []float64
+	mu  sync.Mutex
+	den map[float64][]float64
+}
+
+// maxPlanckTableValues bounds a planckTable: 8 MiB of float64.
+const maxPlanckTableValues = 1 << 20
+
+// at returns exp(x/t) − 1 at every node, computing them the first time,
+// or false when the table is full.
+func (p *planckTable) at(t float64) ([]float64, bool) {
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	if den, ok := p.den[t]; ok {
+		return den, true
+	}
+	if (len(p.den)+1)*len(p.x) > maxPlanckTableValues {
+		return nil, false
+	}
+	inv := 1 / t
+	den := make([]float64, len(p.x))
+	for i, x := range p.x {
+		den[i] = math.Exp(x*inv) - 1
+	}
+	p.den[t] = den
+	return den, true
+}
+
+// planckTables are the tables of the grids built last, the most recent
+// first: materials measured on the same instruments have the same nodes,
+// and their interpolants of P_rad ask at the same temperatures (see
+// coolState.smooth).
+var planckTables struct {
+	sync.Mutex
+	list []*planckTable
+}
+
+// maxPlanckTables bounds planckTables.
+const maxPlanckTables = 4
+
+// planckTableFor returns the table of a grid whose nodes give x.
+func planckTableFor(x []float64) *planckTable {
+	pt := &planckTables
+	pt.Lock()
+	defer pt.Unlock()
+	for i, p := range pt.list {
+		if slices.Equal(p.x, x) {
+			copy(pt.list[1:i+1], pt.list[:i])
+			pt.list[0] = p
+			return p
+		}
+	}
+	p := &planckTable{x: x, den: map[float64][]float64{}}
+	pt.list = slices.Insert(pt.list, 0, p)
+	if len(pt.list) > maxPlanckTables {
+		pt.list = pt.list[:maxPlanckTables]
+	}
+	return p
 }
 
 // newCoolGrid returns the grid for emittance series a, or nil when a does
@@ -248,6 +313,7 @@ func newCoolGridStep(a spectra.Series, sky Sky, band spectra.Interval, ambientK,
 		g.x[i] = h * c / (l * k)
 		g.bAmb[i] = g.c1[i] / math.Expm1(g.x[i]/ambientK)
 	}
+	g.den = planckTableFor(g.x)
 	// lcAt is the value at nm of piece p, whose first point at or after
 	// nm is j.
 	lcAt := func(p, j int, nm float64) lc {
@@ -483,14 +549,16 @@ const (
 // smooth interpolates P_rad(T) over T_amb + smoothBelowK … smoothAboveK
 // for a state that is asked for it many times (the curve, the equilibria
 // of the sensitivity table, the slopes): a smoothFit at 18 temperatures
-// replaces a full sum at each. P_rad is a sum of Bose-Einstein terms,
+// replaces a full sum at each. Its temperatures are the same for every
+// state of a grid with the same air temperature, so their Planck
+// denominators are kept (pradShared). P_rad is a sum of Bose-Einstein terms,
 // analytic near that range, and is kept only when resolved to smoothTol.
 func (s *coolState) smooth() {
 	lo, hi := s.g.ambientK+smoothBelowK, s.g.ambientK+smoothAboveK
 	if !(lo > 0) || math.IsInf(hi, 0) {
 		return
 	}
-	if p := newSmoothFit(s.prad, lo, hi); p.converged(smoothTol) {
+	if p := newSmoothFit(s.pradShared, lo, hi); p.converged(smoothTol) {
 		s.fit = p
 	}
 }
@@ -607,26 +675,19 @@ func (g *coolGrid) bracketSteps(lo, hi float64) []float64 {
 	return g.steps
 }
 
-// pradShared is prad at a temperature that many states of the grid are
-// asked at (bracketSteps): the Planck denominators exp(x/T) − 1 of every
-// node at t are kept in the grid, so that each state after the first only
-// sums. The terms and their order are prad's.
+// pradShared is prad at a temperature that many states are asked at (the
+// interpolant's points, bracketSteps): the Planck denominators
+// exp(x/T) − 1 of every node at t are kept in the grid's planckTable, so
+// that each state after the first only sums. The terms and their order are
+// prad's.
 func (s *coolState) pradShared(t float64) float64 {
 	g := s.g
 	if t == g.ambientK {
 		return s.prad(t)
 	}
-	den, ok := g.den[t]
+	den, ok := g.den.at(t)
 	if !ok {
-		inv := 1 / t
-		den = make([]float64, len(g.x))
-		for i, x := range g.x {
-			den[i] = math.Exp(x*inv) - 1
-		}
-		if g.den == nil {
-			g.den = map[float64][]float64{}
-		}
-		g.den[t] = den
+		return s.prad(t)
 	}
 	var sum float64
 	idx := s.idx[:len(s.wc)]

@@ -117,7 +117,52 @@ func TestPradShared(t *testing.T) {
 			}
 		}
 	}
-	if len(g.den) == 0 {
+	if len(g.den.den) == 0 {
 		t.Error("no denominators kept")
+	}
+}
+
+// TestPlanckTables checks the Planck denominators kept across grids: two
+// grids with the same nodes share one table and another grid gets its own;
+// the interpolant of P_rad made from the table is the one made from prad,
+// coefficient for coefficient to the bit; and a full table gives prad's
+// sums without keeping more.
+func TestPlanckTables(t *testing.T) {
+	c := DefaultConditions()
+	sky, err := skyFor(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	o := spectra.Resolve(whiteSample(t), c.ClosureTol)
+	g1 := newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK)
+	g2 := newCoolGrid(o.A, sky, c.ExchangeBand, c.AmbientK)
+	other := newCoolGrid(spectra.Resolve(selectiveSample(), c.ClosureTol).A, sky, c.ExchangeBand, c.AmbientK)
+	if g1 == nil || g2 == nil || other == nil {
+		t.Fatal("no grid")
+	}
+	if g1.den != g2.den || g1.den == other.den {
+		t.Errorf("tables: same nodes %p, %p; other nodes %p", g1.den, g2.den, other.den)
+	}
+	s := g2.load(o.A, 0.97)
+	lo, hi := c.AmbientK+smoothBelowK, c.AmbientK+smoothAboveK
+	byTable, bySums := newSmoothFit(s.pradShared, lo, hi), newSmoothFit(s.prad, lo, hi)
+	for j := range byTable.c {
+		if math.Float64bits(byTable.c[j]) != math.Float64bits(bySums.c[j]) {
+			t.Errorf("coefficient %d: %v from the table, %v from prad", j, byTable.c[j], bySums.c[j])
+		}
+	}
+	full := &planckTable{x: g1.x, den: map[float64][]float64{}}
+	for i := 0; (i+1)*len(full.x) <= maxPlanckTableValues; i++ {
+		full.den[-1-float64(i)] = nil // temperatures never asked for
+	}
+	h := *g1
+	h.den = full
+	st := h.load(o.A, 1)
+	kept := len(full.den)
+	if got, want := st.pradShared(290), st.prad(290); math.Float64bits(got) != math.Float64bits(want) {
+		t.Errorf("full table: %v, prad %v", got, want)
+	}
+	if len(full.den) != kept {
+		t.Errorf("a full table kept %d temperatures, had %d", len(full.den), kept)
 	}
 }
