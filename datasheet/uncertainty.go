@@ -174,8 +174,9 @@ func newProbe(s *spectra.Spectrum, q spectra.Quantity, o spectra.Optics, tol flo
 	return pr
 }
 
-// together returns Σ g·δ: the change of a linear figure when the quantity
-// moves by its uncertainty everywhere at once.
+// together returns Σ g·δ: the change of a figure (exact for a linear one,
+// else to first order) when the quantity moves by its uncertainty
+// everywhere at once.
 func (pr *probe) together(g gradient) float64 {
 	var sum float64
 	for q := range g {

@@ -256,8 +256,8 @@ func (c *Cache) loadIndex() {
 }
 
 // get returns the entry under key, checked: nil when there is none or it
-// is stale or one of its files was changed. The paths of its files are
-// those of e.Files.
+// is stale or one of its files was changed. The paths of its files, and
+// what Stat told of each, are those of e.Files.
 func (c *Cache) get(key string, lib *library.Library) (*entry, []string, []fs.FileInfo) {
 	c.loadIndex()
 	e := c.index[key]

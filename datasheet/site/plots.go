@@ -4,8 +4,10 @@ import (
 	"fmt"
 	"html/template"
 	"math"
+	"reflect"
 	"strconv"
 	"strings"
+	"sync"
 
 	"skysheet/datasheet"
 	"skysheet/datasheet/evaluate"
@@ -35,8 +37,46 @@ func scaled(s spectra.Series, div float64) []spectra.Piece {
 }
 
 // weightingShade samples a weighting over [lo, hi] nm, scaled to a peak of
-// 1, with x divided by div.
+// 1, with x divided by div. The piece is shared (every material's chart
+// shades the same sun and blackbody): it must not be changed.
 func weightingShade(w spectra.Weighting, lo, hi, div float64) spectra.Piece {
+	if reflect.TypeOf(w) == nil || !reflect.TypeOf(w).Comparable() {
+		return sampleShade(w, lo, hi, div)
+	}
+	key := shadeKey{w, lo, hi, div}
+	shades.Lock()
+	p, ok := shades.m[key]
+	shades.Unlock()
+	if ok {
+		return p
+	}
+	p = sampleShade(w, lo, hi, div)
+	shades.Lock()
+	if len(shades.m) < maxShades {
+		if shades.m == nil {
+			shades.m = map[shadeKey]spectra.Piece{}
+		}
+		shades.m[key] = p
+	}
+	shades.Unlock()
+	return p
+}
+
+// shades holds the shades made so far, up to maxShades.
+var shades struct {
+	sync.Mutex
+	m map[shadeKey]spectra.Piece
+}
+
+const maxShades = 64
+
+type shadeKey struct {
+	w           spectra.Weighting
+	lo, hi, div float64
+}
+
+// sampleShade is weightingShade without the memo.
+func sampleShade(w spectra.Weighting, lo, hi, div float64) spectra.Piece {
 	knots := w.Knots(lo, hi)
 	var p spectra.Piece
 	peak := 0.0

@@ -590,3 +590,32 @@ func TestYRange(t *testing.T) {
 		t.Errorf("tick labels %q, want %q", labels, want)
 	}
 }
+
+// gridWeighting is a weighting of a type that cannot be a map key.
+type gridWeighting struct{ nm []float64 }
+
+func (g gridWeighting) At(nm float64) float64          { return nm }
+func (g gridWeighting) Knots(lo, hi float64) []float64 { return g.nm }
+func (g gridWeighting) String() string                 { return "grid" }
+
+// TestWeightingShadeShared checks that a shade is sampled once and shared
+// by every chart that asks for it, the same points as a fresh sample, and
+// that a weighting that cannot be a map key is sampled each time.
+func TestWeightingShadeShared(t *testing.T) {
+	sun := spectra.SolarGlobal()
+	a, b := weightingShade(sun, 300, 2400, 1), weightingShade(sun, 300, 2400, 1)
+	fresh := sampleShade(sun, 300, 2400, 1)
+	if len(a.NM) < 100 || !slices.Equal(a.NM, fresh.NM) || !slices.Equal(a.V, fresh.V) {
+		t.Fatalf("shade of %d points, fresh sample of %d", len(a.NM), len(fresh.NM))
+	}
+	if &a.NM[0] != &b.NM[0] {
+		t.Error("the second chart sampled the sun again")
+	}
+	if c := weightingShade(sun, 300, 2000, 1); len(c.NM) >= len(a.NM) {
+		t.Errorf("a narrower band gave %d points, the wider %d", len(c.NM), len(a.NM))
+	}
+	g := gridWeighting{nm: []float64{400, 500, 600}}
+	if p := weightingShade(g, 300, 700, 1); !slices.Equal(p.NM, g.nm) || p.V[2] != 1 {
+		t.Errorf("shade of an uncomparable weighting %v", p)
+	}
+}
