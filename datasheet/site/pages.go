@@ -414,8 +414,7 @@ func tagSlug(t string) string { return library.Slugify(t) }
 func (b *builder) table(id, root string, ms []*evaluate.Summary, numbers map[string]int) tableView {
 	t := tableView{ID: id, Columns: append([]column{{Key: "title", Label: "Material"}, {Key: "category", Label: "Category"}}, tableFigures...)}
 	for _, m := range ms {
-		r := row{N: numbers[m.Slug], Slug: m.Slug, Href: root + materialDir(m.Slug) + "index.html", Title: m.Front.Title,
-			Maker: firstOf(m.Front.Maker, m.Front.Lab), b: b, root: root}
+		r := row{N: numbers[m.Slug], Slug: m.Slug, Href: root + materialDir(m.Slug) + "index.html", Title: m.Front.Title, Maker: firstOf(m.Front.Maker, m.Front.Lab)}
 		if s := library.Slugify(m.Front.Category); s != "" {
 			r.Category = link{Name: m.Front.Category, Href: root + listingDir("category", s) + "index.html"}
 		}
@@ -430,33 +429,6 @@ func (b *builder) table(id, root string, ms []*evaluate.Summary, numbers map[str
 		t.Rows = append(t.Rows, r)
 	}
 	return t
-}
-
-// HTML returns the row after its number as the "material-row" template
-// writes it: the same in every table on a page at the same depth, so made
-// once per render and depth (a material is in the index and in the
-// listings of its category and of each of its tags).
-func (r row) HTML() (template.HTML, error) {
-	b := r.b
-	key := r.root + "\x00" + r.Slug
-	b.rowsMu.Lock()
-	h, ok := b.rows[key]
-	b.rowsMu.Unlock()
-	if ok {
-		return h, nil
-	}
-	var buf bytes.Buffer
-	if err := b.tmpl.ExecuteTemplate(&buf, "material-row", r); err != nil {
-		return "", err
-	}
-	h = template.HTML(buf.String())
-	b.rowsMu.Lock()
-	if b.rows == nil {
-		b.rows = map[string]template.HTML{}
-	}
-	b.rows[key] = h
-	b.rowsMu.Unlock()
-	return h, nil
 }
 
 // rowFigures are the figure cells of a material's row in the material

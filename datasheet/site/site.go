@@ -233,10 +233,6 @@ type builder struct {
 	categories groupSet
 	tags       groupSet
 	rowFigs    map[string]rowFigures
-	// rows holds the HTML of material table rows after their number, by
-	// the depth of the page (its root) and slug: see row.HTML.
-	rowsMu sync.Mutex
-	rows   map[string]template.HTML
 }
 
 func newBuilder(lib *library.Library, opt Options) (*builder, error) {

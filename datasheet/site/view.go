@@ -160,9 +160,6 @@ type row struct {
 	Cells                    []cell
 	CellsHTML                template.HTML // Cells as the "material-cells" template writes them
 	Notes                    []noteRef     // the model notes of the material, linking to its datasheet
-
-	b    *builder // for HTML
-	root string   // the root of the page the row is on
 }
 
 type tableView struct {
