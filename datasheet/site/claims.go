@@ -152,7 +152,7 @@ func (b *builder) claimsJSON(m *evaluate.Summary) ([]byte, error) {
 		f.Inputs = []library.Input{}
 	}
 	f.Counts.Add(vs...)
-	data, err := json.MarshalIndent(f, "", "  ")
+	data, err := marshalIndent(f)
 	if err != nil {
 		return nil, err
 	}

@@ -988,7 +988,7 @@ func (b *builder) catalog(ms []*evaluate.Summary) ([]byte, error) {
 		}
 		c.Comparisons = append(c.Comparisons, cc)
 	}
-	data, err := json.MarshalIndent(c, "", "  ")
+	data, err := marshalIndent(c)
 	if err != nil {
 		return nil, err
 	}

@@ -2,7 +2,6 @@ package site
 
 import (
 	"bytes"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"html/template"
@@ -476,7 +475,7 @@ func (b *builder) materialFiles(m *evaluate.Material, cmps []*library.Comparison
 	if err := spectra.Write(&csv, m.Sample); err != nil {
 		return fail(err)
 	}
-	js, err := json.MarshalIndent(m.Figures, "", "  ")
+	js, err := marshalIndent(m.Figures)
 	if err != nil {
 		return fail(err)
 	}
