@@ -290,10 +290,11 @@ func (c *Cache) get(key string, lib *library.Library) (*entry, []string, []fs.Fi
 }
 
 // put stores e and the files under key and returns the paths of the
-// stored files, in e.Files order. A failure is recorded, not returned
+// stored files, in e.Files order; it records the stamps of e's inputs in
+// lib and the empty slices of e.Kept. A failure is recorded, not returned
 // as the material's: the render goes on without the entry.
-func (c *Cache) put(key string, e *entry, fs files) ([]string, bool) {
-	e.Empty = emptyOf(e)
+func (c *Cache) put(key string, e *entry, lib *library.Library, fs files) ([]string, bool) {
+	e.Stamps, e.Empty = lib.Stamps(e.Kept.Inputs), emptyOf(e)
 	paths, err := c.write(key, e, fs)
 	c.mu.Lock()
 	defer c.mu.Unlock()

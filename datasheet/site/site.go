@@ -97,8 +97,8 @@ func Render(lib *library.Library, opt Options, out Writer) error {
 		if opt.Cache != nil {
 			if key, ok := b.keyOf(m.Material, cmps); ok {
 				s := m.Kept()
-				e := &entry{Kept: kept{Inputs: s.Inputs, Figures: s.Figures, Verdicts: s.Verdicts, Warnings: s.Warnings, Overlay: ov}, Stamps: lib.Stamps(s.Inputs)}
-				if paths, ok := opt.Cache.put(key, e, files); ok {
+				e := &entry{Kept: kept{Inputs: s.Inputs, Figures: s.Figures, Verdicts: s.Verdicts, Warnings: s.Warnings, Overlay: ov}}
+				if paths, ok := opt.Cache.put(key, e, lib, files); ok {
 					return w.takeAll(e.Files, paths, nil, files)
 				}
 			}
