@@ -218,6 +218,70 @@ func (b *builder) keyOf(m *library.Material, cmps []*library.Comparison) (string
 	return hex.EncodeToString(h.Sum(nil)), true
 }
 
+// pageKey returns the cache key of site files that rest only on the rows
+// of materials ms (each a function of the material's summary, which
+// setKey identifies) and on what parts name: "" when there is no cache
+// or a material of ms is not cached.
+func (b *builder) pageKey(ms []*evaluate.Summary, parts ...string) string {
+	if b.opt.Cache == nil {
+		return ""
+	}
+	h := sha256.New()
+	field := func(s string) { fmt.Fprintf(h, "%d:%s\n", len(s), s) }
+	field("pages") // never the first field of a material's key
+	field(b.cacheBase)
+	for _, p := range parts {
+		field(p)
+	}
+	for _, m := range ms {
+		k, ok := b.keys[m.Slug]
+		if !ok {
+			return ""
+		}
+		field(k)
+	}
+	return hex.EncodeToString(h.Sum(nil))
+}
+
+// memo makes files with make into out, or, when the cache holds the
+// files made under key (not ""), takes them from the cache instead; files
+// made under a key are stored in the cache and taken from there.
+func (b *builder) memo(key string, out files, make func(files) error) error {
+	c := b.opt.Cache
+	if c == nil || key == "" {
+		return make(out)
+	}
+	if e, paths, infos := c.get(key, b.lib); e != nil && e.Kept.Figures == nil && len(e.Kept.Inputs) == 0 {
+		b.take(e.Files, paths, infos)
+		return nil
+	}
+	own := files{}
+	if err := make(own); err != nil {
+		return err
+	}
+	e := &entry{}
+	if paths, ok := c.put(key, e, b.lib, own); ok {
+		b.take(e.Files, paths, nil)
+		return nil
+	}
+	maps.Copy(out, own)
+	return nil
+}
+
+// take records files of the cache for Render to write.
+func (b *builder) take(list []cachedFile, paths []string, infos []fs.FileInfo) {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	b.taken = append(b.taken, takenFiles{list, paths, infos})
+}
+
+// takenFiles are site files that the cache holds (see serialWriter.takeAll).
+type takenFiles struct {
+	list  []cachedFile
+	paths []string
+	infos []fs.FileInfo
+}
+
 // cacheBaseOf hashes what every page rests on: the build and version of
 // the software, the config file and the templates (defaults and
 // overrides).
@@ -284,9 +348,15 @@ func (c *Cache) get(key string, lib *library.Library) (*entry, []string, []fs.Fi
 	}
 	c.mu.Lock()
 	c.next[key] = e
-	c.hits++
 	c.mu.Unlock()
 	return e, paths, infos
+}
+
+// hit counts a material taken from the cache.
+func (c *Cache) hit() {
+	c.mu.Lock()
+	c.hits++
+	c.mu.Unlock()
 }
 
 // put stores e and the files under key and returns the paths of the

@@ -9,6 +9,7 @@ import (
 	"slices"
 	"strings"
 	"testing"
+	"testing/fstest"
 	"time"
 
 	"skysheet/datasheet/library"
@@ -175,6 +176,31 @@ func entries(t *testing.T, dir string) []string {
 		}
 	}
 	return out
+}
+
+// materialEntries returns the number of materials' entries in the cache
+// in dir (the index lists them with their inputs, pages' entries have
+// none) and checks that the folder holds the entries the index lists and
+// no others.
+func materialEntries(t *testing.T, dir string) int {
+	t.Helper()
+	index := readIndex(filepath.Join(dir, cacheVersion), "build-1")
+	n := 0
+	for _, e := range index {
+		if len(e.Kept.Inputs) > 0 {
+			n++
+		}
+	}
+	folders := entries(t, dir)
+	for _, f := range folders {
+		if index[filepath.Base(f)] == nil {
+			t.Errorf("entry %s is not in the index", filepath.Base(f))
+		}
+	}
+	if len(folders) != len(index) {
+		t.Errorf("%d entry folders, %d entries in the index", len(folders), len(index))
+	}
+	return n
 }
 
 // entryOf returns the entry folder of the material whose datasheet is
@@ -365,7 +391,7 @@ func spectrumOf(t *testing.T, dir, slug string) string {
 func TestCacheCommit(t *testing.T) {
 	dir, cdir := copyDemo(t), t.TempDir()
 	renderDir(t, dir, openCache(t, cdir, "build-1"), true)
-	before := len(entries(t, cdir))
+	before := materialEntries(t, cdir)
 	os.MkdirAll(filepath.Join(cdir, cacheVersion, ".new-left-by-a-killed-render"), 0o755)
 	os.MkdirAll(filepath.Join(cdir, "v0", "old-format"), 0o755)
 	// A material removed from the library: its entry goes at the next prune.
@@ -373,8 +399,8 @@ func TestCacheCommit(t *testing.T) {
 		t.Fatal(err)
 	}
 	renderDir(t, dir, openCache(t, cdir, "build-1"), true) // commits
-	if got := len(entries(t, cdir)); got != before-1 {
-		t.Errorf("after prune: %d entries, want %d", got, before-1)
+	if got := materialEntries(t, cdir); got != before-1 {
+		t.Errorf("after prune: %d material entries, want %d", got, before-1)
 	}
 	if isDir(filepath.Join(cdir, "v0")) {
 		t.Error("the folder of an older format was kept")
@@ -453,5 +479,82 @@ func TestOpenCacheRefusesForeignFolder(t *testing.T) {
 	}
 	if _, err := OpenCache(empty, "b"); err != nil {
 		t.Errorf("the cache made there does not open again: %v", err)
+	}
+}
+
+// recordWriter keeps the files written to it, and those given by path,
+// and records the path each of the latter was given by.
+type recordWriter struct {
+	mapWriter
+	src map[string]string
+}
+
+func (w recordWriter) LinkFile(name, src string, _ fs.FileInfo) error {
+	w.src[name] = src
+	data, err := os.ReadFile(src)
+	w.mapWriter[name] = data
+	return err
+}
+
+// TestCachePages checks that the pages that list materials (the pages of
+// the index after the first, the category and tag listings and their
+// tables as CSV) are taken from the cache when the materials they list
+// are unchanged, and made afresh, as a render without cache makes them,
+// when one of them changed.
+func TestCachePages(t *testing.T) {
+	const n = 3*pageRows + 7
+	fsys := bigLibraryFS(t, n)
+	render := func(c *Cache) recordWriter {
+		t.Helper()
+		lib, err := library.Load(fsys)
+		if err != nil {
+			t.Fatal(err)
+		}
+		out := recordWriter{mapWriter{}, map[string]string{}}
+		if err := Render(lib, Options{Version: "test", Cache: c}, out); err != nil {
+			t.Fatal(err)
+		}
+		if c != nil {
+			if err := c.Commit(); err != nil {
+				t.Fatal(err)
+			}
+		}
+		return out
+	}
+	cdir := t.TempDir()
+	cold := render(openCache(t, cdir, "build-1"))
+	sameFiles(t, cold.mapWriter, render(nil).mapWriter)
+
+	// Panel 0150 (index page 2, category "film": odd numbers are paint)
+	// gets a new title that keeps its place in the index order.
+	md := "content/roof/p-0150.md"
+	fsys[md] = &fstest.MapFile{Data: bytes.Replace(fsys[md].Data, []byte("Panel 0150 (invented)"), []byte("Panel 0150 (invented, revised)"), 1)}
+	warm := render(openCache(t, cdir, "build-1"))
+	sameFiles(t, warm.mapWriter, render(nil).mapWriter)
+	// Files made afresh are stored in the cache and given from there too,
+	// but under a new key: a file taken from the cache is given by the
+	// path it was given by before.
+	for name, want := range map[string]bool{
+		"materials/page/2/index.html":                   false, // lists the changed material
+		"materials/page/3/index.html":                   true,
+		"materials/page/4/index.html":                   true,
+		"materials/by-category/film/index.html":         false,
+		"materials/by-category/film/materials.csv":      false,
+		"materials/by-category/paint/index.html":        true,
+		"materials/by-category/paint/page/2/index.html": true,
+		"materials/by-category/paint/materials.csv":     true,
+		"index.html":          false, // rests on every material
+		"materials.csv":       false,
+		"m/p-0001/index.html": true,
+		"m/p-0150/index.html": false,
+	} {
+		if _, ok := warm.mapWriter[name]; !ok {
+			t.Errorf("%s: not in the site", name)
+		} else if got := warm.src[name] != "" && warm.src[name] == cold.src[name]; got != want {
+			t.Errorf("%s: taken from the cache %v, want %v", name, got, want)
+		}
+	}
+	if !strings.Contains(string(warm.mapWriter["materials/page/2/index.html"]), "Panel 0150 (invented, revised)") {
+		t.Error("index page 2 does not name the new title")
 	}
 }

@@ -16,6 +16,17 @@ import (
 // known: "Panel 0001", "Panel 0002", …
 func bigLibrary(t *testing.T, n int) *library.Library {
 	t.Helper()
+	lib, err := library.Load(bigLibraryFS(t, n))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return lib
+}
+
+// bigLibraryFS returns the files of bigLibrary(t, n); material number i
+// is content/roof/p-%04d.md.
+func bigLibraryFS(t *testing.T, n int) fstest.MapFS {
+	t.Helper()
 	read := func(p string) []byte {
 		data, err := os.ReadFile("../../testdata/library/" + p)
 		if err != nil {
@@ -33,11 +44,7 @@ func bigLibrary(t *testing.T, n int) *library.Library {
 		fsys[fmt.Sprintf("content/roof/p-%04d.md", i+1)] = &fstest.MapFile{Data: fmt.Appendf(nil,
 			"---\ntitle: Panel %04d (invented)\nmaker: Invented Panels (invented)\ncategory: %s\nspectra:\n  - file: basalt-uvvis.csv\n  - file: basalt-ftir.csv\n---\nInvented.\n", i+1, cat)}
 	}
-	lib, err := library.Load(fsys)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return lib
+	return fsys
 }
 
 // TestPagedTables checks a library longer than a page: the index shows

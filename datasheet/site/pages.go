@@ -10,6 +10,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 
 	"skysheet/datasheet"
 	"skysheet/datasheet/evaluate"
@@ -418,8 +419,9 @@ func (b *builder) table(id, root string, ms []*evaluate.Summary, numbers map[str
 		if s := library.Slugify(m.Front.Category); s != "" {
 			r.Category = link{Name: m.Front.Category, Href: root + listingDir("category", s) + "index.html"}
 		}
-		rf := b.rowFigs[m.Slug]
-		r.Cells, r.CellsHTML = rf.cells, rf.html
+		if rf := b.rowFigs[m.Slug]; rf != nil {
+			r.Cells, r.figs = rf.cells, rf
+		}
 		if m.Figures != nil {
 			refs := noteRefs(m.Figures, r.Href)
 			for _, n := range m.Figures.ModelNotes {
@@ -432,34 +434,42 @@ func (b *builder) table(id, root string, ms []*evaluate.Summary, numbers map[str
 }
 
 // rowFigures are the figure cells of a material's row in the material
-// tables, and their HTML: the same in every table, made once per render.
+// tables, and their HTML: the same in every table, made once per render,
+// the HTML only when a page shows the row (pages taken from the cache do
+// not).
 type rowFigures struct {
 	cells []cell
-	html  template.HTML
+	path  string // the material's file, for errors
+	tmpl  *template.Template
+
+	once    sync.Once
+	text    template.HTML
+	textErr error
+}
+
+// html returns the cells as the "material-cells" template writes them.
+func (f *rowFigures) html() (template.HTML, error) {
+	f.once.Do(func() {
+		var buf bytes.Buffer
+		if err := f.tmpl.ExecuteTemplate(&buf, "material-cells", f.cells); err != nil {
+			f.textErr = &library.Error{File: f.path, Err: fmt.Errorf("material tables: %w", err)}
+			return
+		}
+		f.text = template.HTML(buf.String())
+	})
+	return f.text, f.textErr
 }
 
 // prepare makes what the pages that rest on every material share: the
 // index order, the categories and tags, and the rowFigures of every
-// material (in parallel).
-func (b *builder) prepare() error {
+// material.
+func (b *builder) prepare() {
 	b.order, b.numbers = b.sortSums()
 	b.categories, b.tags = b.groupBy(false), b.groupBy(true)
-	figs := make([]rowFigures, len(b.sums))
-	errs := make([]error, len(b.sums))
-	b.each(len(b.sums), func(i int) {
-		cells := figureCells(b.sums[i])
-		var buf bytes.Buffer
-		errs[i] = b.tmpl.ExecuteTemplate(&buf, "material-cells", cells)
-		figs[i] = rowFigures{cells: cells, html: template.HTML(buf.String())}
-	})
-	b.rowFigs = make(map[string]rowFigures, len(b.sums))
-	for i, m := range b.sums {
-		if errs[i] != nil {
-			return &library.Error{File: m.Path, Err: fmt.Errorf("material tables: %w", errs[i])}
-		}
-		b.rowFigs[m.Slug] = figs[i]
+	b.rowFigs = make(map[string]*rowFigures, len(b.sums))
+	for _, m := range b.sums {
+		b.rowFigs[m.Slug] = &rowFigures{cells: figureCells(m), path: m.Path, tmpl: b.tmpl}
 	}
-	return nil
 }
 
 // figureCells returns the figure cells of m's row in the material tables.
@@ -590,13 +600,21 @@ func (b *builder) indexFiles(out files) error {
 		}
 		out[rowsScript] = data
 		for i, t := range tables[1:] {
-			q := b.newPage("listing", fmt.Sprintf("All materials, page %d", i+2), t.name)
-			q.L = &listingView{Kind: "All materials", Name: fmt.Sprintf("Page %d of %d", i+2, len(tables)), Table: t.table}
-			html, err := b.execute("listing", q)
+			title, name := fmt.Sprintf("All materials, page %d", i+2), fmt.Sprintf("Page %d of %d", i+2, len(tables))
+			key := b.pageKey(t.ms, "index page", t.name, title, name, t.table.CSV, strconv.Itoa(len(ms)))
+			err := b.memo(key, out, func(out files) error {
+				q := b.newPage("listing", title, t.name)
+				q.L = &listingView{Kind: "All materials", Name: name, Table: t.table}
+				html, err := b.execute("listing", q)
+				if err != nil {
+					return &library.Error{File: t.name, Err: err}
+				}
+				out[t.name] = html
+				return nil
+			})
 			if err != nil {
-				return &library.Error{File: t.name, Err: err}
+				return err
 			}
-			out[t.name] = html
 		}
 	}
 	for _, m := range ms {
@@ -663,6 +681,7 @@ const (
 type pagedTable struct {
 	name  string
 	table tableView
+	ms    []*evaluate.Summary // the materials of its rows
 }
 
 // pagedTables splits the table of ms into pages of pageRows rows: the
@@ -697,7 +716,7 @@ func (b *builder) pagedTables(id, first, dir string, ms []*evaluate.Summary, num
 			}
 			t.Pager = pg
 		}
-		out[k] = pagedTable{name: names[k], table: t}
+		out[k] = pagedTable{name: names[k], table: t, ms: ms[lo:hi]}
 	}
 	return out
 }

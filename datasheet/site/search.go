@@ -3,6 +3,8 @@ package site
 import (
 	"bytes"
 	"encoding/json"
+	"iter"
+	"slices"
 	"strings"
 	"unicode"
 	"unicode/utf8"
@@ -57,13 +59,13 @@ func searchEntry(m *evaluate.Summary) [4]string {
 	fm := m.Front
 	who := firstOf(fm.Maker, fm.Lab)
 	seen := map[string]bool{}
-	for _, w := range searchWords(fm.Title + " " + who) {
+	for w := range wordsOf(fm.Title + " " + who) {
 		seen[w] = true // found in the title or maker already
 	}
 	var words []string
 	add := func(text string, limit int) {
 		n := 0
-		for _, w := range searchWords(text) {
+		for w := range wordsOf(text) {
 			if seen[w] {
 				continue
 			}
@@ -87,16 +89,35 @@ func searchEntry(m *evaluate.Summary) [4]string {
 // (joined by inner hyphens, points or commas, as in "bw-93" or "0.95"),
 // leaving out words shorter than three characters, numbers without a
 // letter, stop words and Markdown.
-func searchWords(text string) []string {
-	var out []string
-	for _, f := range strings.FieldsFunc(strings.ToLower(text), func(r rune) bool {
-		return !(unicode.IsLetter(r) || unicode.IsNumber(r) || r == '-' || r == '.' || r == ',')
-	}) {
-		w := strings.Trim(f, "-.,")
-		if utf8.RuneCountInString(w) < 3 || stopWords[w] || !strings.ContainsFunc(w, unicode.IsLetter) {
-			continue
+func searchWords(text string) []string { return slices.Collect(wordsOf(text)) }
+
+// wordsOf yields the words of searchWords(text) one by one, as it finds
+// them: a caller that stops early does not split the rest of the text.
+// Each rune is lowered as strings.ToLower lowers it (invalid UTF-8 gives
+// U+FFFD, which separates words).
+func wordsOf(text string) iter.Seq[string] {
+	return func(yield func(string) bool) {
+		var w []byte // the lowered field being read
+		emit := func() bool {
+			f := bytes.Trim(w, "-.,")
+			w = w[:0]
+			if utf8.RuneCount(f) < 3 || stopWords[string(f)] || !bytes.ContainsFunc(f, unicode.IsLetter) {
+				return true
+			}
+			return yield(string(f))
 		}
-		out = append(out, w)
+		for _, r := range text {
+			r = unicode.ToLower(r)
+			if unicode.IsLetter(r) || unicode.IsNumber(r) || r == '-' || r == '.' || r == ',' {
+				w = utf8.AppendRune(w, r)
+				continue
+			}
+			if len(w) > 0 && !emit() {
+				return
+			}
+		}
+		if len(w) > 0 {
+			emit()
+		}
 	}
-	return out
 }

@@ -3,8 +3,11 @@ package site
 import (
 	"bytes"
 	"encoding/json"
+	"slices"
 	"strings"
 	"testing"
+	"unicode"
+	"unicode/utf8"
 
 	"skysheet/datasheet/evaluate"
 	"skysheet/datasheet/library"
@@ -20,6 +23,38 @@ func TestSearchWords(t *testing.T) {
 			t.Errorf("searchWords(%q) = %q, want %q", tt.in, got, tt.want)
 		}
 	}
+}
+
+// searchWordsSplit is searchWords as the whole text split at once: what
+// wordsOf must yield, word for word.
+func searchWordsSplit(text string) []string {
+	var out []string
+	for _, f := range strings.FieldsFunc(strings.ToLower(text), func(r rune) bool {
+		return !(unicode.IsLetter(r) || unicode.IsNumber(r) || r == '-' || r == '.' || r == ',')
+	}) {
+		w := strings.Trim(f, "-.,")
+		if utf8.RuneCountInString(w) < 3 || stopWords[w] || !strings.ContainsFunc(w, unicode.IsLetter) {
+			continue
+		}
+		out = append(out, w)
+	}
+	return out
+}
+
+func FuzzSearchWords(f *testing.F) {
+	for _, s := range []string{"Rutile TiO₂ (the *pigment*) in BW-93.", "ÀÉÎ ǅungla ΣΑΣ İstanbul", "a\xffb\xc3cde-.,fgh", "ⅫⅪ ⓐⓑⓒ ＡＢＣ", "--x--yz--"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, text string) {
+		got, want := searchWords(text), searchWordsSplit(text)
+		if !slices.Equal(got, want) {
+			t.Fatalf("searchWords(%q) = %q, split at once %q", text, got, want)
+		}
+		for w := range wordsOf(text) { // stopping early is allowed
+			_ = w
+			break
+		}
+	})
 }
 
 // TestSearchIndex checks the search index of the test library: one entry

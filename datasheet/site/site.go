@@ -2,6 +2,8 @@ package site
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"fmt"
 	"html/template"
@@ -97,6 +99,7 @@ func Render(lib *library.Library, opt Options, out Writer) error {
 		if opt.Cache != nil {
 			if key, ok := b.keyOf(m.Material, cmps); ok {
 				s := m.Kept()
+				b.setKey(m.Slug, key, s.Inputs)
 				e := &entry{Kept: kept{Inputs: s.Inputs, Figures: s.Figures, Verdicts: s.Verdicts, Warnings: s.Warnings, Overlay: ov}}
 				if paths, ok := opt.Cache.put(key, e, lib, files); ok {
 					return w.takeAll(e.Files, paths, nil, files)
@@ -112,6 +115,11 @@ func Render(lib *library.Library, opt Options, out Writer) error {
 	files, err := b.render()
 	if err != nil {
 		return err
+	}
+	for _, t := range b.taken {
+		if err := w.takeAll(t.list, t.paths, t.infos, nil); err != nil {
+			return err
+		}
 	}
 	return w.writeAll(files)
 }
@@ -220,9 +228,14 @@ type builder struct {
 	// cacheBase is the part of every cache key that all materials share.
 	cacheBase string
 	// overlays keeps, for each material a comparison lists, what its
-	// overlay charts draw; guarded by mu.
+	// overlay charts draw; keys, what identifies each cached material's
+	// summary, by slug (see setKey, pageKey); taken, the site files that pages rendered after the
+	// datasheets take from the cache (see memo). Guarded by mu, but keys
+	// is read-only once the materials are evaluated.
 	mu       sync.Mutex
 	overlays map[string]overlay
+	keys     map[string]string
+	taken    []takenFiles
 	// Made by prepare before the pages that rest on every material, and
 	// read-only after: the materials in index order and their numbers in
 	// it, the categories and tags, the figure cells of each material's
@@ -231,7 +244,7 @@ type builder struct {
 	numbers    map[string]int
 	categories groupSet
 	tags       groupSet
-	rowFigs    map[string]rowFigures
+	rowFigs    map[string]*rowFigures
 }
 
 func newBuilder(lib *library.Library, opt Options) (*builder, error) {
@@ -266,10 +279,29 @@ func (b *builder) reuse(m *library.Material, cmps []*library.Comparison, w *seri
 	if err := w.takeAll(e.Files, paths, infos, nil); err != nil {
 		return nil, err
 	}
+	b.opt.Cache.hit()
+	b.setKey(m.Slug, key, e.Kept.Inputs)
 	if o := e.Kept.Overlay; o != nil {
 		b.setOverlay(m.Slug, overlay{r: o.R, a: o.A})
 	}
 	return cachedSummary(m, e), nil
+}
+
+// setKey records what identifies the summary of the material with the
+// given slug: its cache key, which names the Markdown file, and the files
+// it rests on with their SHA-256 (a spectrum changed keeps the key).
+func (b *builder) setKey(slug, key string, inputs []library.Input) {
+	h := sha256.New()
+	fmt.Fprintf(h, "%d:%s\n", len(key), key)
+	for _, in := range inputs {
+		fmt.Fprintf(h, "%d:%s\n%d:%s\n", len(in.Path), in.Path, len(in.SHA256), in.SHA256)
+	}
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	if b.keys == nil {
+		b.keys = map[string]string{}
+	}
+	b.keys[slug] = hex.EncodeToString(h.Sum(nil))
 }
 
 // parseTemplates parses the default templates, then the overrides.
@@ -317,9 +349,7 @@ type files map[string][]byte
 // render renders the pages that rest on every material: index,
 // listings, comparisons, review and assets.
 func (b *builder) render() (files, error) {
-	if err := b.prepare(); err != nil {
-		return nil, err
-	}
+	b.prepare()
 	// The parts are independent: they are built at the same time, each
 	// into files of its own, and merged in this order.
 	// The index and catalog.json take the longest: first, so that the
@@ -328,7 +358,12 @@ func (b *builder) render() (files, error) {
 	for _, kind := range []string{"tag", "category"} {
 		g := b.groups(kind == "tag")
 		for _, s := range g.slugs {
-			parts = append(parts, func(out files) error { return b.listingFiles(kind, s, g.names[s], g.members[s], out) })
+			parts = append(parts, func(out files) error {
+				ms := g.members[s]
+				return b.memo(b.pageKey(ms, "listing", kind, s, g.names[s]), out, func(out files) error {
+					return b.listingFiles(kind, s, g.names[s], ms, out)
+				})
+			})
 		}
 	}
 	for _, c := range b.lib.Comparisons {

@@ -285,6 +285,13 @@ func TestTemplateOverride(t *testing.T) {
 	if err == nil || !strings.Contains(err.Error(), "bad.html") {
 		t.Errorf("broken template: %v", err)
 	}
+	// An override of a row's figure cells that fails when run is an error
+	// naming a material and the tables, not a page with the cells missing.
+	over = fstest.MapFS{"cells.html": {Data: []byte(`{{define "material-cells"}}{{.Nope}}{{end}}`)}}
+	err = Render(testLibrary(t), Options{Templates: over}, memWriter{})
+	if err == nil || !strings.Contains(err.Error(), "material tables") || !strings.Contains(err.Error(), "content/") {
+		t.Errorf("failing cells template: %v", err)
+	}
 }
 
 // TestKeyCards checks the headline cards: a figure without its data says

@@ -158,8 +158,17 @@ type row struct {
 	Slug, Href, Title, Maker string
 	Category                 link
 	Cells                    []cell
-	CellsHTML                template.HTML // Cells as the "material-cells" template writes them
-	Notes                    []noteRef     // the model notes of the material, linking to its datasheet
+	Notes                    []noteRef // the model notes of the material, linking to its datasheet
+	figs                     *rowFigures
+}
+
+// CellsHTML returns Cells as the "material-cells" template writes them:
+// made once per material and render, when a page first shows the row.
+func (r row) CellsHTML() (template.HTML, error) {
+	if r.figs == nil {
+		return "", nil
+	}
+	return r.figs.html()
 }
 
 type tableView struct {
