@@ -9,6 +9,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 
 	"gopkg.in/yaml.v3"
 
@@ -200,8 +201,22 @@ func (d doc) decode(n *yaml.Node, out any) (usable bool, err error) {
 	return true, nil
 }
 
-// yamlFields returns the fields of struct type t by YAML key.
+// yamlFields returns the fields of struct type t by YAML key. The map is
+// made once per type (the front matter has a few struct types) and shared:
+// not to be changed.
 func yamlFields(t reflect.Type) map[string]reflect.StructField {
+	if m, ok := fieldsByType.Load(t); ok {
+		return m.(map[string]reflect.StructField)
+	}
+	m, _ := fieldsByType.LoadOrStore(t, fieldsOf(t))
+	return m.(map[string]reflect.StructField)
+}
+
+// fieldsByType holds what yamlFields returned, by type.
+var fieldsByType sync.Map
+
+// fieldsOf returns the fields of struct type t by YAML key.
+func fieldsOf(t reflect.Type) map[string]reflect.StructField {
 	out := map[string]reflect.StructField{}
 	for i := range t.NumField() {
 		f := t.Field(i)

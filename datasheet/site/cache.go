@@ -268,6 +268,31 @@ func (b *builder) memo(key string, out files, make func(files) error) error {
 	return nil
 }
 
+// memoBytes returns what make returns, or, when the cache holds what it
+// returned under key (not ""), that instead; what make returns under a
+// key is stored in the cache. For parts of files that rest on many
+// materials, such as catalog.json.
+func (b *builder) memoBytes(key string, make func() ([]byte, error)) ([]byte, error) {
+	c := b.opt.Cache
+	if c == nil || key == "" {
+		return make()
+	}
+	if e, paths, _ := c.get(key, b.lib); e != nil && len(paths) == 1 && e.Files[0].Name == memoPart {
+		if data, err := os.ReadFile(paths[0]); err == nil && int64(len(data)) == e.Files[0].Size {
+			return data, nil
+		}
+	}
+	data, err := make()
+	if err != nil {
+		return nil, err
+	}
+	c.put(key, &entry{}, b.lib, files{memoPart: data})
+	return data, nil
+}
+
+// memoPart names the one file of an entry of memoBytes.
+const memoPart = "part"
+
 // take records files of the cache for Render to write.
 func (b *builder) take(list []cachedFile, paths []string, infos []fs.FileInfo) {
 	b.mu.Lock()

@@ -1,6 +1,8 @@
 package site
 
 import (
+	"bytes"
+	"encoding/json"
 	"fmt"
 	"os"
 	"regexp"
@@ -108,4 +110,68 @@ func TestPagedTables(t *testing.T) {
 		t.Errorf("pages too large: index %d, listing %d bytes", len(index), len(out[cat+"index.html"]))
 	}
 	checkLinks(t, out)
+}
+
+// TestCatalogParts checks that catalog.json, whose materials' entries are
+// made in parts of pageRows (each kept in the cache) and put into the
+// document, lists every material once, in index order, indented as
+// json.Indent indents it; and, for libraries whose catalog the catalog
+// type reads back without loss, that it is the document
+// json.MarshalIndent makes of the whole catalog.
+func TestCatalogParts(t *testing.T) {
+	type testCase struct {
+		lib       *library.Library
+		roundTrip bool
+	}
+	cases := map[string]testCase{"test library": {testLibrary(t), false}} // stacks, weather, claims
+	for _, n := range []int{0, 1, pageRows, 2*pageRows + 37} {
+		cases[fmt.Sprintf("%d materials", n)] = testCase{bigLibrary(t, n), true}
+	}
+	for name, tc := range cases {
+		out := renderTest(t, tc.lib, Options{})
+		// search.js, made in parts the same way, is the whole index as
+		// json.Encoder writes it.
+		js, ok := bytes.CutPrefix(out[searchIndexName], []byte("window.skysheetSearchIndex = "))
+		var idx [][4]string
+		if err := json.Unmarshal(js, &idx); !ok || err != nil || len(idx) != len(tc.lib.Materials) {
+			t.Errorf("%s: %s holds %d entries (%v), want %d", name, searchIndexName, len(idx), err, len(tc.lib.Materials))
+		}
+		var whole bytes.Buffer
+		json.NewEncoder(&whole).Encode(idx)
+		if !bytes.Equal(js, whole.Bytes()) {
+			t.Errorf("%s: %s is not the whole index as json.Encoder writes it", name, searchIndexName)
+		}
+		got := out["catalog.json"]
+		var c catalog
+		if err := json.Unmarshal(got, &c); err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		if len(c.Materials) != len(tc.lib.Materials) {
+			t.Errorf("%s: catalog.json lists %d materials, want %d", name, len(c.Materials), len(tc.lib.Materials))
+		}
+		for i := 1; i < len(c.Materials); i++ {
+			if a, b := c.Materials[i-1], c.Materials[i]; a.Title > b.Title || a.Slug == b.Slug {
+				t.Errorf("%s: %s listed before %s", name, a.Slug, b.Slug)
+			}
+		}
+		var compact, indented bytes.Buffer
+		if err := json.Compact(&compact, got); err != nil {
+			t.Fatal(err)
+		}
+		json.Indent(&indented, compact.Bytes(), "", "  ")
+		indented.WriteByte('\n')
+		if !bytes.Equal(got, indented.Bytes()) {
+			t.Errorf("%s: catalog.json is not indented as json.Indent indents it", name)
+		}
+		if !tc.roundTrip {
+			continue
+		}
+		want, err := json.MarshalIndent(c, "", "  ")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !bytes.Equal(got, append(want, '\n')) {
+			t.Errorf("%s: catalog.json (%d bytes) is not the whole catalog indented (%d bytes)", name, len(got), len(want)+1)
+		}
+	}
 }

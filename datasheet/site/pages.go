@@ -3,6 +3,7 @@ package site
 import (
 	"bytes"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"html/template"
 	"math"
@@ -963,37 +964,6 @@ func (b *builder) catalog(ms []*evaluate.Summary) ([]byte, error) {
 	c := catalog{Schema: CatalogSchema, Title: cfg.Title, Description: cfg.Description, SiteAddress: cfg.SiteAddress,
 		Generator: "skysheet " + b.site.Version, Conditions: cfg.Conditions, Config: cfg.Input,
 		Materials: []catalogEntry{}, Comparisons: []catalogCompare{}}
-	for _, m := range ms {
-		fm := m.Front
-		dir := materialDir(m.Slug)
-		e := catalogEntry{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
-			Category: fm.Category, Tags: uniqueTags(fm.Tags), Summary: fm.Summary, License: fm.License, Measured: fm.Measured,
-			Page: dir + "index.html", Spectrum: dir + "spectrum.csv", FiguresFile: dir + "figures.json", ClaimsFile: dir + "claims.json",
-			Source: dir + "source.md", Inputs: m.Inputs, Claims: catalogClaims(m.Verdicts), Headline: map[string]datasheet.Num{}}
-		for _, col := range tableFigures {
-			e.Headline[col.Key] = figureOf(m.Figures, col.Key).Value
-		}
-		if w := m.Figures.Weather; w != nil {
-			totals := *w
-			totals.Days, totals.TypicalDay = nil, datasheet.TypicalDay{}
-			e.Weather = &totals
-		}
-		if e.Tags == nil {
-			e.Tags = []string{}
-		}
-		for i, l := range m.Stack {
-			cl := catalogLayer{Name: l.Name}
-			if l.Material != nil {
-				cl.Slug, cl.Page = l.Material.Slug, materialDir(l.Material.Slug)+"index.html"
-			}
-			if l.Conductor != nil {
-				lr := fm.Stack[i]
-				cl.ThicknessMM, cl.ConductivityWmK = lr.ThicknessMM, lr.ConductivityWmK
-			}
-			e.Stack = append(e.Stack, cl)
-		}
-		c.Materials = append(c.Materials, e)
-	}
 	for _, x := range b.lib.Comparisons {
 		cc := catalogCompare{Slug: x.Slug, Title: x.Front.Title, Page: "compare/" + x.Slug + "/index.html"}
 		for _, m := range x.Materials {
@@ -1007,9 +977,79 @@ func (b *builder) catalog(ms []*evaluate.Summary) ([]byte, error) {
 		}
 		c.Comparisons = append(c.Comparisons, cc)
 	}
-	data, err := marshalIndent(c)
+	// The materials' entries are made in parts of pageRows materials, each
+	// kept in the cache (see memoBytes), and put in place of the empty
+	// list: the first `"materials":[]` of the compact document is the
+	// key's, since a string holds a quote only as \".
+	doc, err := json.Marshal(c)
 	if err != nil {
 		return nil, err
 	}
-	return append(data, '\n'), nil
+	at := bytes.Index(doc, []byte(`"materials":[]`))
+	if at < 0 {
+		return nil, errors.New(`no "materials" in the catalog`)
+	}
+	at += len(`"materials":[`)
+	compact := append(make([]byte, 0, len(doc)+len(ms)*4096), doc[:at]...)
+	for lo := 0; lo < len(ms); lo += pageRows {
+		part := ms[lo:min(len(ms), lo+pageRows)]
+		entries, err := b.memoBytes(b.pageKey(part, "catalog entries"), func() ([]byte, error) { return b.catalogEntries(part) })
+		if err != nil {
+			return nil, err
+		}
+		if lo > 0 {
+			compact = append(compact, ',')
+		}
+		compact = append(compact, entries...)
+	}
+	compact = append(compact, doc[at:]...)
+	out := indentJSON(make([]byte, 0, len(compact)+len(compact)/2), compact)
+	return append(out, '\n'), nil
+}
+
+// catalogEntries returns the catalog.json entries of ms as compact JSON,
+// separated by commas.
+func (b *builder) catalogEntries(ms []*evaluate.Summary) ([]byte, error) {
+	es := make([]catalogEntry, 0, len(ms))
+	for _, m := range ms {
+		es = append(es, catalogEntryOf(m))
+	}
+	data, err := json.Marshal(es)
+	if err != nil {
+		return nil, err
+	}
+	return data[1 : len(data)-1], nil // without the brackets
+}
+
+// catalogEntryOf returns the catalog.json entry of m.
+func catalogEntryOf(m *evaluate.Summary) catalogEntry {
+	fm := m.Front
+	dir := materialDir(m.Slug)
+	e := catalogEntry{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
+		Category: fm.Category, Tags: uniqueTags(fm.Tags), Summary: fm.Summary, License: fm.License, Measured: fm.Measured,
+		Page: dir + "index.html", Spectrum: dir + "spectrum.csv", FiguresFile: dir + "figures.json", ClaimsFile: dir + "claims.json",
+		Source: dir + "source.md", Inputs: m.Inputs, Claims: catalogClaims(m.Verdicts), Headline: map[string]datasheet.Num{}}
+	for _, col := range tableFigures {
+		e.Headline[col.Key] = figureOf(m.Figures, col.Key).Value
+	}
+	if w := m.Figures.Weather; w != nil {
+		totals := *w
+		totals.Days, totals.TypicalDay = nil, datasheet.TypicalDay{}
+		e.Weather = &totals
+	}
+	if e.Tags == nil {
+		e.Tags = []string{}
+	}
+	for i, l := range m.Stack {
+		cl := catalogLayer{Name: l.Name}
+		if l.Material != nil {
+			cl.Slug, cl.Page = l.Material.Slug, materialDir(l.Material.Slug)+"index.html"
+		}
+		if l.Conductor != nil {
+			lr := fm.Stack[i]
+			cl.ThicknessMM, cl.ConductivityWmK = lr.ThicknessMM, lr.ConductivityWmK
+		}
+		e.Stack = append(e.Stack, cl)
+	}
+	return e
 }

@@ -41,17 +41,39 @@ func init() {
 // the distinct words of the notes, in lower case. site.js loads it when
 // the search box is first used.
 func (b *builder) searchIndex() ([]byte, error) {
-	entries := make([][4]string, 0, len(b.sums))
-	for _, m := range b.sums {
+	// The entries are made in parts of pageRows materials, each kept in
+	// the cache (see memoBytes).
+	var buf bytes.Buffer
+	buf.WriteString("window.skysheetSearchIndex = [")
+	for lo := 0; lo < len(b.sums); lo += pageRows {
+		part := b.sums[lo:min(len(b.sums), lo+pageRows)]
+		entries, err := b.memoBytes(b.pageKey(part, "search entries"), func() ([]byte, error) { return searchEntries(part) })
+		if err != nil {
+			return nil, err
+		}
+		if lo > 0 {
+			buf.WriteByte(',')
+		}
+		buf.Write(entries)
+	}
+	buf.WriteString("]\n")
+	return buf.Bytes(), nil
+}
+
+// searchEntries returns the search index entries of ms as JSON, separated
+// by commas, as json.Encoder writes them (escaping <, > and &: safe in a
+// script).
+func searchEntries(ms []*evaluate.Summary) ([]byte, error) {
+	entries := make([][4]string, 0, len(ms))
+	for _, m := range ms {
 		entries = append(entries, searchEntry(m))
 	}
 	var buf bytes.Buffer
-	buf.WriteString("window.skysheetSearchIndex = ")
-	enc := json.NewEncoder(&buf) // escapes <, > and &: safe in a script
-	if err := enc.Encode(entries); err != nil {
+	if err := json.NewEncoder(&buf).Encode(entries); err != nil {
 		return nil, err
 	}
-	return buf.Bytes(), nil
+	data := buf.Bytes()
+	return data[1 : len(data)-2], nil // without "[" and "]\n"
 }
 
 // searchEntry is one material's entry of the search index.
