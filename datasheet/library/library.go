@@ -34,6 +34,9 @@ type Library struct {
 
 	fsys   fs.FS     // the library folder, for ReadSample
 	loaded time.Time // when Load began reading it, for Stamps
+	// seen holds what Load learnt of the spectrum files it checked, by
+	// path (an fs.FileInfo): their stamps need not look again.
+	seen *sync.Map
 }
 
 // Material is one material file: its front matter, body and conditions,
@@ -171,13 +174,35 @@ func (l *Library) Stamps(inputs []Input) []Stamp {
 }
 
 // stamp returns the stamp of the regular file p, and false when there is
-// none.
+// none. For a spectrum file it is what the file was when Load checked it:
+// a change since then moves its change time, so that the stamp, recorded
+// or compared, vouches for no bytes the file held later.
 func (l *Library) stamp(p string) (Stamp, bool) {
-	fi, err := fs.Stat(l.fsys, p)
-	if err != nil || !fi.Mode().IsRegular() {
+	var fi fs.FileInfo
+	if v, ok := l.seenInfo(p); ok {
+		fi = v
+	} else {
+		var err error
+		if fi, err = fs.Stat(l.fsys, p); err != nil {
+			return Stamp{}, false
+		}
+	}
+	if !fi.Mode().IsRegular() {
 		return Stamp{}, false
 	}
 	return sysStamp(fi)
+}
+
+// seenInfo returns what Load learnt of file p, if anything.
+func (l *Library) seenInfo(p string) (fs.FileInfo, bool) {
+	if l.seen == nil {
+		return nil, false
+	}
+	v, ok := l.seen.Load(p)
+	if !ok {
+		return nil, false
+	}
+	return v.(fs.FileInfo), true
 }
 
 // Material returns the material with the given slug.
@@ -197,7 +222,7 @@ func (l *Library) Material(slug string) (*Material, bool) {
 // an [Errors] in file order, and the returned library still holds the
 // config and every file that could be read.
 func Load(fsys fs.FS) (*Library, error) {
-	lib := &Library{fsys: fsys, loaded: time.Now()}
+	lib := &Library{fsys: fsys, loaded: time.Now(), seen: new(sync.Map)}
 	var errs Errors
 	add := func(err error) {
 		switch e := err.(type) {
@@ -230,7 +255,7 @@ func Load(fsys fs.FS) (*Library, error) {
 	for range min(runtime.GOMAXPROCS(0), max(len(files), 1)) {
 		wg.Go(func() {
 			for i := range next {
-				results[i] = readFile(fsys, files[i], lib.Config)
+				results[i] = readFile(fsys, files[i], lib.Config, lib.seen)
 			}
 		})
 	}
@@ -486,8 +511,9 @@ type fileResult struct {
 	err          error
 }
 
-// readFile reads one content file.
-func readFile(fsys fs.FS, file string, cfg Config) fileResult {
+// readFile reads one content file; what it learns of the spectrum files
+// named goes into seen (see Library.seen).
+func readFile(fsys fs.FS, file string, cfg Config, seen *sync.Map) fileResult {
 	var r fileResult
 	src, err := fs.ReadFile(fsys, file)
 	if err != nil {
@@ -545,7 +571,7 @@ func readFile(fsys fs.FS, file string, cfg Config) fileResult {
 	}
 	m := &Material{Path: file, Slug: r.slug, Front: fm, Body: body, BodyLine: bodyLine, Source: src,
 		Input: hashInput(file, src), spectraLine: valueNode(fl.root, "spectra").Line + d.offset}
-	d.fsys = fsys
+	d.fsys, d.seen = fsys, seen
 	m.Conditions, m.files, err = d.apply(fm.Conditions, cfg.Conditions)
 	if err != nil {
 		errs = append(errs, err)
@@ -600,9 +626,13 @@ func (d doc) spectrumFiles(refs []SpectrumRef, nodes []*yaml.Node) ([]spectrumFi
 			errs = append(errs, &Error{File: d.file, Line: line, Column: col, Err: fmt.Errorf("spectra file %s: %w", msg.Quote(ref.File), err)})
 			continue
 		}
-		if _, err := fs.Stat(d.fsys, p); err != nil {
+		fi, err := fs.Stat(d.fsys, p)
+		if err != nil {
 			errs = append(errs, &Error{File: d.file, Line: line, Column: col, Err: fmt.Errorf("%w %s: %w%s", ErrSpectrum, p, unwrapPath(err), nearbyFile(d.fsys, p, ref.File))})
 			continue
+		}
+		if d.seen != nil {
+			d.seen.Store(p, fi)
 		}
 		out = append(out, spectrumFile{path: p, line: line, column: col})
 	}

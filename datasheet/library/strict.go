@@ -21,7 +21,8 @@ import (
 type doc struct {
 	file   string
 	offset int
-	fsys   fs.FS // for files named in the document (a sky file)
+	fsys   fs.FS     // for files named in the document (a sky file)
+	seen   *sync.Map // what was learnt of the spectrum files (see Library.seen)
 }
 
 // parse reads the YAML text src into a node. An empty text gives an empty
