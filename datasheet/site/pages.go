@@ -463,13 +463,18 @@ func (f *rowFigures) html() (template.HTML, error) {
 
 // prepare makes what the pages that rest on every material share: the
 // index order, the categories and tags, and the rowFigures of every
-// material.
+// material (in parallel).
 func (b *builder) prepare() {
 	b.order, b.numbers = b.sortSums()
 	b.categories, b.tags = b.groupBy(false), b.groupBy(true)
+	figs := make([]*rowFigures, len(b.sums))
+	b.each(len(b.sums), func(i int) {
+		m := b.sums[i]
+		figs[i] = &rowFigures{cells: figureCells(m), path: m.Path, tmpl: b.tmpl}
+	})
 	b.rowFigs = make(map[string]*rowFigures, len(b.sums))
-	for _, m := range b.sums {
-		b.rowFigs[m.Slug] = &rowFigures{cells: figureCells(m), path: m.Path, tmpl: b.tmpl}
+	for i, m := range b.sums {
+		b.rowFigs[m.Slug] = figs[i]
 	}
 }
 
