@@ -150,7 +150,7 @@ func TestCatalogParts(t *testing.T) {
 			t.Errorf("%s: catalog.json lists %d materials, want %d", name, len(c.Materials), len(tc.lib.Materials))
 		}
 		for i := 1; i < len(c.Materials); i++ {
-			if a, b := c.Materials[i-1], c.Materials[i]; a.Title > b.Title || a.Slug == b.Slug {
+			if a, b := c.Materials[i-1], c.Materials[i]; strings.ToLower(a.Title) > strings.ToLower(b.Title) || a.Slug == b.Slug {
 				t.Errorf("%s: %s listed before %s", name, a.Slug, b.Slug)
 			}
 		}
