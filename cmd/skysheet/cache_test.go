@@ -107,6 +107,45 @@ func TestRenderCache(t *testing.T) {
 	}
 }
 
+// TestRenderCacheCopies follows renders whose site is on another file
+// system than the cache (hard links fail, the files are copied): a
+// re-render keeps the copies it made, and a copy edited in the site is
+// copied again.
+func TestRenderCacheCopies(t *testing.T) {
+	linkFile = func(string, string) error { return errors.New("invalid cross-device link") }
+	defer func() { linkFile = os.Link }()
+	lib := copyLibrary(t)
+	out := filepath.Join(t.TempDir(), "site")
+	page := filepath.Join(out, "m", "frostline", "index.html")
+	want := siteFiles(cleanRender(t, lib, "v1"))
+
+	renderCached(t, lib, out, "v1") // fills the cache
+	_, n := renderCached(t, lib, out, "v1")
+	if n != 3 {
+		t.Errorf("second render: %d materials from the cache, want 3", n)
+	}
+	sameTree(t, "copies", siteFiles(readTree(t, out)), want)
+	before := inode(t, page)
+	_, n = renderCached(t, lib, out, "v1")
+	if n != 3 {
+		t.Errorf("third render: %d materials from the cache, want 3", n)
+	}
+	sameTree(t, "copies kept", siteFiles(readTree(t, out)), want)
+	if !os.SameFile(before, inode(t, page)) {
+		t.Error("nothing changed, yet the copy of the datasheet was written again")
+	}
+
+	// The copy edited in place, at the same size: copied again.
+	f, err := os.OpenFile(page, os.O_WRONLY, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f.WriteAt([]byte("<!-- edited by hand -->"), 0)
+	f.Close()
+	renderCached(t, lib, out, "v1")
+	sameTree(t, "an edited copy", siteFiles(readTree(t, out)), want)
+}
+
 // TestRenderCacheLocked checks that a render finding the cache held by
 // another one goes without it, and says so.
 func TestRenderCacheLocked(t *testing.T) {

@@ -15,6 +15,7 @@ import (
 	"sync"
 	"sync/atomic"
 	"syscall"
+	"time"
 
 	"skysheet/datasheet/evaluate"
 	"skysheet/datasheet/library"
@@ -397,27 +398,41 @@ func holds(p string, data []byte) bool {
 
 // LinkFile puts the file at src (in the render cache) in place as name:
 // a hard link when the site and the cache share a file system, else a
-// copy. When the site folder already holds that very file (a link to src
-// made by an earlier render), nothing is written: the file stays where it
-// is, and the swap keeps it since it is among the files written.
+// copy, given the modification time of src. When the site folder already
+// holds that very file (a link to src made by an earlier render), or a
+// copy an earlier render made of it (a regular file the last render wrote,
+// of the size and modification time of src: a change to either file moves
+// its time), nothing is written: the file stays where it is, and the swap
+// keeps it since it is among the files written.
 func (w *dirWriter) LinkFile(name, src string, srcInfo fs.FileInfo) error {
 	if srcInfo == nil {
 		srcInfo, _ = os.Stat(src) // nil on error
 	}
-	if st, err := os.Stat(filepath.Join(w.site, filepath.FromSlash(name))); err == nil && srcInfo != nil && os.SameFile(st, srcInfo) {
-		return w.put(name, nil)
+	if st, err := os.Lstat(filepath.Join(w.site, filepath.FromSlash(name))); err == nil && srcInfo != nil {
+		if os.SameFile(st, srcInfo) || (w.prev[name] && st.Mode().IsRegular() && st.Size() == srcInfo.Size() && st.ModTime().Equal(srcInfo.ModTime())) {
+			return w.put(name, nil)
+		}
 	}
 	return w.put(name, func(p string) error {
-		if os.Link(src, p) == nil {
+		if linkFile(src, p) == nil {
 			return nil
 		}
 		data, err := os.ReadFile(src)
 		if err != nil {
 			return err
 		}
-		return os.WriteFile(p, data, 0o644)
+		if err := os.WriteFile(p, data, 0o644); err != nil {
+			return err
+		}
+		if srcInfo != nil && int64(len(data)) == srcInfo.Size() {
+			return os.Chtimes(p, time.Time{}, srcInfo.ModTime())
+		}
+		return nil
 	})
 }
+
+// linkFile makes a hard link (a variable for the tests of copies).
+var linkFile = os.Link
 
 // put records the site file name and, unless write is nil, makes its
 // folder and calls write with its path.
