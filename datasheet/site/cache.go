@@ -243,20 +243,20 @@ func (b *builder) pageKey(ms []*evaluate.Summary, parts ...string) string {
 	return hex.EncodeToString(h.Sum(nil))
 }
 
-// memo makes files with make into out, or, when the cache holds the
+// memo makes files with build into out, or, when the cache holds the
 // files made under key (not ""), takes them from the cache instead; files
 // made under a key are stored in the cache and taken from there.
-func (b *builder) memo(key string, out files, make func(files) error) error {
+func (b *builder) memo(key string, out files, build func(files) error) error {
 	c := b.opt.Cache
 	if c == nil || key == "" {
-		return make(out)
+		return build(out)
 	}
 	if e, paths, infos := c.get(key, b.lib); e != nil && e.Kept.Figures == nil && len(e.Kept.Inputs) == 0 {
 		b.take(e.Files, paths, infos)
 		return nil
 	}
 	own := files{}
-	if err := make(own); err != nil {
+	if err := build(own); err != nil {
 		return err
 	}
 	e := &entry{}
@@ -268,21 +268,21 @@ func (b *builder) memo(key string, out files, make func(files) error) error {
 	return nil
 }
 
-// memoBytes returns what make returns, or, when the cache holds what it
-// returned under key (not ""), that instead; what make returns under a
+// memoBytes returns what build returns, or, when the cache holds what it
+// returned under key (not ""), that instead; what build returns under a
 // key is stored in the cache. For parts of files that rest on many
 // materials, such as catalog.json.
-func (b *builder) memoBytes(key string, make func() ([]byte, error)) ([]byte, error) {
+func (b *builder) memoBytes(key string, build func() ([]byte, error)) ([]byte, error) {
 	c := b.opt.Cache
 	if c == nil || key == "" {
-		return make()
+		return build()
 	}
 	if e, paths, _ := c.get(key, b.lib); e != nil && len(paths) == 1 && e.Files[0].Name == memoPart {
 		if data, err := os.ReadFile(paths[0]); err == nil && int64(len(data)) == e.Files[0].Size {
 			return data, nil
 		}
 	}
-	data, err := make()
+	data, err := build()
 	if err != nil {
 		return nil, err
 	}

@@ -227,11 +227,11 @@ type builder struct {
 	sums []*evaluate.Summary
 	// cacheBase is the part of every cache key that all materials share.
 	cacheBase string
-	// overlays keeps, for each material a comparison lists, what its
-	// overlay charts draw; keys, what identifies each cached material's
-	// summary, by slug (see setKey, pageKey); taken, the site files that pages rendered after the
-	// datasheets take from the cache (see memo). Guarded by mu, but keys
-	// is read-only once the materials are evaluated.
+	// Guarded by mu: overlays keeps, for each material a comparison
+	// lists, what its overlay charts draw; keys, what identifies each
+	// cached material's summary, by slug (see setKey and pageKey; read-only
+	// once the materials are evaluated); taken, the site files that the
+	// pages made after the datasheets take from the cache (see memo).
 	mu       sync.Mutex
 	overlays map[string]overlay
 	keys     map[string]string
