@@ -398,18 +398,18 @@ func holds(p string, data []byte) bool {
 
 // LinkFile puts the file at src (in the render cache) in place as name:
 // a hard link when the site and the cache share a file system, else a
-// copy, given the modification time of src. When the site folder already
-// holds that very file (a link to src made by an earlier render), or a
-// copy an earlier render made of it (a regular file the last render wrote,
-// of the size and modification time of src: a change to either file moves
-// its time), nothing is written: the file stays where it is, and the swap
-// keeps it since it is among the files written.
+// copy, given the modification time of src. When the file the last render
+// wrote as name is that very file (a link to src), or a copy of it (a
+// regular file of the size and modification time of src: a change to
+// either file moves its time), nothing is written: the file stays where it
+// is, and the swap keeps it since it is among the files written.
 func (w *dirWriter) LinkFile(name, src string, srcInfo fs.FileInfo) error {
 	if srcInfo == nil {
 		srcInfo, _ = os.Stat(src) // nil on error
 	}
-	if st, err := os.Lstat(filepath.Join(w.site, filepath.FromSlash(name))); err == nil && srcInfo != nil {
-		if os.SameFile(st, srcInfo) || (w.prev[name] && st.Mode().IsRegular() && st.Size() == srcInfo.Size() && st.ModTime().Equal(srcInfo.ModTime())) {
+	if w.prev[name] && srcInfo != nil { // else there is no such file to keep (see checkKept)
+		st, err := os.Lstat(filepath.Join(w.site, filepath.FromSlash(name)))
+		if err == nil && (os.SameFile(st, srcInfo) || (st.Mode().IsRegular() && st.Size() == srcInfo.Size() && st.ModTime().Equal(srcInfo.ModTime()))) {
 			return w.put(name, nil)
 		}
 	}

@@ -147,11 +147,13 @@ func topName(p string) string {
 // checkKept returns an error when the new site's files would replace a file
 // of out that the last render did not write (prev) or a kept name.
 func checkKept(out string, prev map[string]bool, files []string) error {
+	_, err := os.Lstat(out)
+	fresh := errors.Is(err, fs.ErrNotExist) // no folder, no file to look for
 	for _, f := range files {
 		if keptNames[topName(f)] {
 			return fmt.Errorf("the site would hold %s, a name skysheet keeps untouched in the site folder", f)
 		}
-		if prev[f] {
+		if prev[f] || fresh {
 			continue
 		}
 		if _, err := os.Lstat(filepath.Join(out, filepath.FromSlash(f))); err == nil {
