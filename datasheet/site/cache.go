@@ -595,7 +595,8 @@ func restoreEmpty(e *entry) {
 // walkSlices calls visit with every slice and map reachable from v
 // through exported fields, pointers and elements, depth first: the same
 // order for a value and its copy through gob. Map values are not entered
-// (their order is not fixed).
+// (their order is not fixed), nor values of a type that can hold no slice
+// or map (see holdsSlices).
 func walkSlices(v reflect.Value, visit func(reflect.Value)) {
 	switch v.Kind() {
 	case reflect.Pointer, reflect.Interface:
@@ -605,22 +606,62 @@ func walkSlices(v reflect.Value, visit func(reflect.Value)) {
 	case reflect.Struct:
 		t := v.Type()
 		for i := range t.NumField() {
-			if t.Field(i).IsExported() {
+			if f := t.Field(i); f.IsExported() && holdsSlices(f.Type) {
 				walkSlices(v.Field(i), visit)
 			}
 		}
 	case reflect.Slice:
 		visit(v)
-		for i := range v.Len() {
-			walkSlices(v.Index(i), visit)
+		if holdsSlices(v.Type().Elem()) {
+			for i := range v.Len() {
+				walkSlices(v.Index(i), visit)
+			}
 		}
 	case reflect.Array:
-		for i := range v.Len() {
-			walkSlices(v.Index(i), visit)
+		if holdsSlices(v.Type().Elem()) {
+			for i := range v.Len() {
+				walkSlices(v.Index(i), visit)
+			}
 		}
 	case reflect.Map:
 		visit(v)
 	}
+}
+
+// holdsSlices reports whether a value of type t can hold a slice or map
+// that walkSlices visits (an interface might); known once per type.
+func holdsSlices(t reflect.Type) bool {
+	if v, ok := slicesByType.Load(t); ok {
+		return v.(bool)
+	}
+	has := typeHoldsSlices(t, map[reflect.Type]bool{})
+	slicesByType.Store(t, has)
+	return has
+}
+
+var slicesByType sync.Map // reflect.Type → bool, see holdsSlices
+
+// typeHoldsSlices is holdsSlices without the memo; seen are the types
+// being looked at, whose every other path is looked at where they were
+// first met.
+func typeHoldsSlices(t reflect.Type, seen map[reflect.Type]bool) bool {
+	if seen[t] {
+		return false
+	}
+	seen[t] = true
+	switch t.Kind() {
+	case reflect.Slice, reflect.Map, reflect.Interface:
+		return true
+	case reflect.Pointer, reflect.Array:
+		return typeHoldsSlices(t.Elem(), seen)
+	case reflect.Struct:
+		for i := range t.NumField() {
+			if f := t.Field(i); f.IsExported() && typeHoldsSlices(f.Type, seen) {
+				return true
+			}
+		}
+	}
+	return false
 }
 
 func randomID() string {

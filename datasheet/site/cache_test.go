@@ -2,10 +2,12 @@ package site
 
 import (
 	"bytes"
+	"fmt"
 	"io/fs"
 	"maps"
 	"os"
 	"path/filepath"
+	"reflect"
 	"slices"
 	"strings"
 	"testing"
@@ -556,5 +558,72 @@ func TestCachePages(t *testing.T) {
 	}
 	if !strings.Contains(string(warm.mapWriter["materials/page/2/index.html"]), "Panel 0150 (invented, revised)") {
 		t.Error("index page 2 does not name the new title")
+	}
+}
+
+// walkAll is walkSlices entering every value: what walkSlices must visit,
+// in the same order.
+func walkAll(v reflect.Value, visit func(reflect.Value)) {
+	switch v.Kind() {
+	case reflect.Pointer, reflect.Interface:
+		if !v.IsNil() {
+			walkAll(v.Elem(), visit)
+		}
+	case reflect.Struct:
+		for i := range v.NumField() {
+			if v.Type().Field(i).IsExported() {
+				walkAll(v.Field(i), visit)
+			}
+		}
+	case reflect.Slice:
+		visit(v)
+		for i := range v.Len() {
+			walkAll(v.Index(i), visit)
+		}
+	case reflect.Array:
+		for i := range v.Len() {
+			walkAll(v.Index(i), visit)
+		}
+	case reflect.Map:
+		visit(v)
+	}
+}
+
+// TestWalkSlicesSkipsOnlyWhatHoldsNone checks that walkSlices, which does
+// not enter values of types that can hold no slice or map, visits what a
+// walk entering everything visits, in the same order: on every entry of
+// the cache of a demo render, and on values of recursive, array and
+// interface types.
+func TestWalkSlicesSkipsOnlyWhatHoldsNone(t *testing.T) {
+	type node struct {
+		Name  string
+		Next  *node
+		Pairs [2]struct{ A, B []int }
+		Any   any
+		Plain [3]float64
+	}
+	values := []any{
+		&node{Name: "a", Next: &node{Any: []string{}, Next: &node{Pairs: [2]struct{ A, B []int }{{A: []int{1}}, {B: []int{}}}}}, Any: map[string]int{}},
+		&node{Any: struct{ S []int }{S: []int{}}},
+	}
+	dir, cdir := copyDemo(t), t.TempDir()
+	renderDir(t, dir, openCache(t, cdir, "build-1"), true)
+	for _, e := range readIndex(filepath.Join(cdir, cacheVersion), "build-1") {
+		values = append(values, &e.Kept)
+	}
+	if len(values) < 12 {
+		t.Fatalf("only %d values", len(values))
+	}
+	for i, x := range values {
+		var got, want []string
+		walkSlices(reflect.ValueOf(x), func(v reflect.Value) {
+			got = append(got, fmt.Sprintf("%v %d %p", v.Type(), v.Len(), v.UnsafePointer()))
+		})
+		walkAll(reflect.ValueOf(x), func(v reflect.Value) {
+			want = append(want, fmt.Sprintf("%v %d %p", v.Type(), v.Len(), v.UnsafePointer()))
+		})
+		if !slices.Equal(got, want) {
+			t.Errorf("value %d: walkSlices visited %d slices and maps, a full walk %d:\n%q\n%q", i, len(got), len(want), got, want)
+		}
 	}
 }
