@@ -54,10 +54,11 @@ type Cache struct {
 	load  sync.Once
 	index map[string]*entry // the entries of the last render, by key
 
-	mu     sync.Mutex
-	next   map[string]*entry // entries read or written by this render
-	hits   int
-	errors []error // entries that could not be written
+	mu      sync.Mutex
+	next    map[string]*entry // entries read or written by this render
+	changed bool              // an entry of next differs from the index's
+	hits    int
+	errors  []error // entries that could not be written
 }
 
 const (
@@ -120,11 +121,17 @@ func (c *Cache) WriteErrors() []error {
 // interrupted renders left and the folders of older formats. Call it
 // after a render that succeeded; until then the last index stays.
 func (c *Cache) Commit() error {
+	c.loadIndex()
 	c.mu.Lock()
 	defer c.mu.Unlock()
 	base := filepath.Join(c.dir, cacheVersion)
-	if err := writeIndex(base, c.build, c.next); err != nil {
-		return err
+	// Entries come into next from the index (get) or new (put): an index
+	// that put did not add to, whose stamps get did not renew and whose
+	// every entry this render used is the one on disk.
+	if c.changed || len(c.next) != len(c.index) {
+		if err := writeIndex(base, c.build, c.next); err != nil {
+			return err
+		}
 	}
 	var errs []error
 	top, err := os.ReadDir(c.dir)
@@ -356,9 +363,12 @@ func (c *Cache) get(key string, lib *library.Library) (*entry, []string, []fs.Fi
 	if ok, _ := lib.Unchanged(e.Kept.Inputs, e.Stamps); !ok {
 		return nil, nil, nil
 	}
+	renewed := false
 	if len(e.Stamps) != len(e.Kept.Inputs) || slices.Contains(e.Stamps, library.Stamp{}) {
 		// Read again and found unchanged: a file may be old enough now.
-		e.Stamps = lib.Stamps(e.Kept.Inputs)
+		stamps := lib.Stamps(e.Kept.Inputs)
+		renewed = !slices.Equal(stamps, e.Stamps)
+		e.Stamps = stamps
 	}
 	dir := filepath.Join(c.dir, cacheVersion, key)
 	paths := make([]string, len(e.Files))
@@ -373,6 +383,7 @@ func (c *Cache) get(key string, lib *library.Library) (*entry, []string, []fs.Fi
 	}
 	c.mu.Lock()
 	c.next[key] = e
+	c.changed = c.changed || renewed
 	c.mu.Unlock()
 	return e, paths, infos
 }
@@ -397,7 +408,7 @@ func (c *Cache) put(key string, e *entry, lib *library.Library, fs files) ([]str
 		c.errors = append(c.errors, err)
 		return nil, false
 	}
-	c.next[key] = e
+	c.next[key], c.changed = e, true
 	return paths, true
 }
 

@@ -627,3 +627,35 @@ func TestWalkSlicesSkipsOnlyWhatHoldsNone(t *testing.T) {
 		}
 	}
 }
+
+// TestCacheIndexKept checks that a render that changed no entry leaves
+// the cache's index file as it was, and that one that changed an entry
+// writes it again.
+func TestCacheIndexKept(t *testing.T) {
+	dir, cdir := copyDemo(t), t.TempDir()
+	index := filepath.Join(cdir, cacheVersion, indexFile)
+	renderDir(t, dir, openCache(t, cdir, "build-1"), true)
+	first, err := os.Stat(index)
+	if err != nil {
+		t.Fatal(err)
+	}
+	renderDir(t, dir, openCache(t, cdir, "build-1"), true)
+	if st, err := os.Stat(index); err != nil || !os.SameFile(st, first) {
+		t.Errorf("nothing changed, yet the index was written again (%v)", err)
+	}
+	spec := spectrumOf(t, dir, "kw-21")
+	data, err := os.ReadFile(spec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(spec, append(data, '\n'), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	renderDir(t, dir, openCache(t, cdir, "build-1"), true)
+	if st, err := os.Stat(index); err != nil || os.SameFile(st, first) {
+		t.Errorf("a spectrum changed, yet the index was not written again (%v)", err)
+	}
+	if got := materialEntries(t, cdir); got != cacheable(t, dir) {
+		t.Errorf("%d materials' entries, want %d", got, cacheable(t, dir))
+	}
+}
