@@ -40,7 +40,9 @@ func scaled(s spectra.Series, div float64) []spectra.Piece {
 // 1, with x divided by div. The piece is shared (every material's chart
 // shades the same sun and blackbody): it must not be changed.
 func weightingShade(w spectra.Weighting, lo, hi, div float64) spectra.Piece {
-	if reflect.TypeOf(w) == nil || !reflect.TypeOf(w).Comparable() {
+	// A weighting that cannot be a map key (its value, not only its type:
+	// a struct may hold one that cannot) is sampled each time.
+	if v := reflect.ValueOf(w); !v.IsValid() || !v.Comparable() {
 		return sampleShade(w, lo, hi, div)
 	}
 	key := shadeKey{w, lo, hi, div}

@@ -598,6 +598,10 @@ func (g gridWeighting) At(nm float64) float64          { return nm }
 func (g gridWeighting) Knots(lo, hi float64) []float64 { return g.nm }
 func (g gridWeighting) String() string                 { return "grid" }
 
+// wrappedWeighting is of a comparable type, but holds a weighting that may
+// not be: as a map key it panics when it does not.
+type wrappedWeighting struct{ spectra.Weighting }
+
 // TestWeightingShadeShared checks that a shade is sampled once and shared
 // by every chart that asks for it, the same points as a fresh sample, and
 // that a weighting that cannot be a map key is sampled each time.
@@ -617,5 +621,8 @@ func TestWeightingShadeShared(t *testing.T) {
 	g := gridWeighting{nm: []float64{400, 500, 600}}
 	if p := weightingShade(g, 300, 700, 1); !slices.Equal(p.NM, g.nm) || p.V[2] != 1 {
 		t.Errorf("shade of an uncomparable weighting %v", p)
+	}
+	if p := weightingShade(wrappedWeighting{g}, 300, 700, 1); !slices.Equal(p.NM, g.nm) || p.V[2] != 1 {
+		t.Errorf("shade of a weighting holding an uncomparable one %v", p)
 	}
 }
