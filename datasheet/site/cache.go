@@ -297,6 +297,25 @@ func (b *builder) memoBytes(key string, build func() ([]byte, error)) ([]byte, e
 	return data, nil
 }
 
+// appendParts appends to dst the elements that elements makes of ms (JSON
+// separated by commas), pageRows materials at a time, each part kept in
+// the cache under the key of its materials and what (see memoBytes), and
+// the parts separated by commas.
+func (b *builder) appendParts(dst []byte, ms []*evaluate.Summary, what string, elements func([]*evaluate.Summary) ([]byte, error)) ([]byte, error) {
+	for lo := 0; lo < len(ms); lo += pageRows {
+		part := ms[lo:min(len(ms), lo+pageRows)]
+		data, err := b.memoBytes(b.pageKey(part, what), func() ([]byte, error) { return elements(part) })
+		if err != nil {
+			return nil, err
+		}
+		if lo > 0 {
+			dst = append(dst, ',')
+		}
+		dst = append(dst, data...)
+	}
+	return dst, nil
+}
+
 // memoPart names the one file of an entry of memoBytes.
 const memoPart = "part"
 

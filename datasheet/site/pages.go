@@ -996,16 +996,9 @@ func (b *builder) catalog(ms []*evaluate.Summary) ([]byte, error) {
 	}
 	at += len(`"materials":[`)
 	compact := append(make([]byte, 0, len(doc)+len(ms)*4096), doc[:at]...)
-	for lo := 0; lo < len(ms); lo += pageRows {
-		part := ms[lo:min(len(ms), lo+pageRows)]
-		entries, err := b.memoBytes(b.pageKey(part, "catalog entries"), func() ([]byte, error) { return b.catalogEntries(part) })
-		if err != nil {
-			return nil, err
-		}
-		if lo > 0 {
-			compact = append(compact, ',')
-		}
-		compact = append(compact, entries...)
+	compact, err = b.appendParts(compact, ms, "catalog entries", b.catalogEntries)
+	if err != nil {
+		return nil, err
 	}
 	compact = append(compact, doc[at:]...)
 	out := indentJSON(make([]byte, 0, len(compact)+len(compact)/2), compact)

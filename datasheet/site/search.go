@@ -41,23 +41,11 @@ func init() {
 // the distinct words of the notes, in lower case. site.js loads it when
 // the search box is first used.
 func (b *builder) searchIndex() ([]byte, error) {
-	// The entries are made in parts of pageRows materials, each kept in
-	// the cache (see memoBytes).
-	var buf bytes.Buffer
-	buf.WriteString("window.skysheetSearchIndex = [")
-	for lo := 0; lo < len(b.sums); lo += pageRows {
-		part := b.sums[lo:min(len(b.sums), lo+pageRows)]
-		entries, err := b.memoBytes(b.pageKey(part, "search entries"), func() ([]byte, error) { return searchEntries(part) })
-		if err != nil {
-			return nil, err
-		}
-		if lo > 0 {
-			buf.WriteByte(',')
-		}
-		buf.Write(entries)
+	out, err := b.appendParts([]byte("window.skysheetSearchIndex = ["), b.sums, "search entries", searchEntries)
+	if err != nil {
+		return nil, err
 	}
-	buf.WriteString("]\n")
-	return buf.Bytes(), nil
+	return append(out, "]\n"...), nil
 }
 
 // searchEntries returns the search index entries of ms as JSON, separated
