@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"sync"
 
+	"skysheet/datasheet/library"
 	"skysheet/datasheet/site"
 )
 
@@ -46,15 +47,69 @@ func openRenderCache(absDir string, log io.Writer) (*site.Cache, func()) {
 	return c, unlock
 }
 
-// closeRenderCache commits the cache after a render that succeeded and
+// closeRenderCache commits the cache after a render that succeeded, writes
+// the front matter cache fc (if any) when the render changed it, and
 // names, in a note, entries that could not be written.
-func closeRenderCache(c *site.Cache, log io.Writer) {
+func closeRenderCache(c *site.Cache, fc *library.FrontCache, absDir string, log io.Writer) {
 	if errs := c.WriteErrors(); len(errs) > 0 {
 		fmt.Fprintf(log, "skysheet render: note: %s not written to the render cache (the site is complete): %v\n", plural(len(errs), "entry"), errs[0])
 	}
 	if err := c.Commit(); err != nil {
 		fmt.Fprintf(log, "skysheet render: note: writing the render cache: %v\n", err)
 	}
+	if fc != nil && fc.Changed() {
+		if err := writeFrontCache(filepath.Join(absDir, cacheDir, frontCacheFile), fc); err != nil {
+			fmt.Fprintf(log, "skysheet render: note: writing the render cache: %v\n", err)
+		}
+	}
+}
+
+// frontCacheFile is the file, in the cache folder, of the front matter
+// cache (see [library.FrontCache]).
+const frontCacheFile = "front"
+
+// frontCacheOf returns the front matter cache of the library in absDir
+// for this build: one that is missing, damaged or of another build gives
+// an empty cache, as does a build that cannot be identified (the render
+// cache is then not used, nor the front matter cache written). The file
+// is read while the build is identified.
+func frontCacheOf(absDir string) *library.FrontCache {
+	read := make(chan *library.FrontCache, 1)
+	go func() {
+		f, err := os.Open(filepath.Join(absDir, cacheDir, frontCacheFile))
+		if err != nil {
+			read <- nil
+			return
+		}
+		defer f.Close()
+		read <- library.ReadFrontCache(f)
+	}()
+	build, _ := buildID()
+	if fc := <-read; fc != nil && build != "" && fc.Build() == build {
+		return fc
+	}
+	return library.NewFrontCache(build)
+}
+
+// writeFrontCache writes fc at name through a temporary file renamed over
+// it. It is not synced: a cache damaged by a crash reads as empty.
+func writeFrontCache(name string, fc *library.FrontCache) error {
+	f, err := os.CreateTemp(filepath.Dir(name), "."+frontCacheFile+"-*")
+	if err != nil {
+		return err
+	}
+	defer os.Remove(f.Name()) // a no-op once renamed
+	_, err = fc.WriteTo(f)
+	if cerr := f.Close(); err == nil {
+		err = cerr
+	}
+	if err == nil {
+		err = os.Chmod(f.Name(), 0o644)
+	}
+	if err != nil {
+		return err
+	}
+	return os.Rename(f.Name(), name)
 }
 
 var (

@@ -10,6 +10,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"skysheet/datasheet/library"
 )
 
 // renderCached renders lib into out with version ver and the render cache,
@@ -254,4 +256,58 @@ func TestPreviewCache(t *testing.T) {
 	if _, err := os.Stat(filepath.Join(lib, cacheDir, "v1", "index")); err != nil {
 		t.Errorf("the preview left no cache index: %v", err)
 	}
+}
+
+// TestRenderFrontCache: the front matter of the Markdown files is kept in
+// the render cache and taken from it while unchanged; a changed file, a
+// damaged cache or one of another build gives the site a render without
+// cache gives.
+func TestRenderFrontCache(t *testing.T) {
+	lib := copyLibrary(t)
+	out := filepath.Join(t.TempDir(), "site")
+	front := filepath.Join(lib, cacheDir, frontCacheFile)
+	render := func(step string, wantFronts int) {
+		t.Helper()
+		var log bytes.Buffer
+		res, err := renderInto(context.Background(), lib, out, renderOptions{version: "v1", progress: &log, cache: true})
+		if err != nil {
+			t.Fatalf("%s: %v (%s)", step, err, log.String())
+		}
+		if res.fronts != wantFronts {
+			t.Errorf("%s: %d front matters from the cache, want %d", step, res.fronts, wantFronts)
+		}
+		sameTree(t, step, siteFiles(readTree(t, out)), siteFiles(cleanRender(t, lib, "v1")))
+	}
+	render("first render", 0)
+	render("nothing changed", 3) // two materials and the comparison; basalt sets conditions:
+
+	md := filepath.Join(lib, "content", "films", "clearview.md")
+	data, err := os.ReadFile(md)
+	if err != nil {
+		t.Fatal(err)
+	}
+	writeAt(t, md, strings.Replace(string(data), "title: ", "title: Renamed ", 1))
+	render("a title changed", 2)
+	render("after the change", 3)
+
+	kept, err := os.ReadFile(front)
+	if err != nil {
+		t.Fatal(err)
+	}
+	damaged := bytes.Clone(kept)
+	damaged[len(damaged)/2] ^= 1
+	writeAt(t, front, string(damaged))
+	render("damaged", 0)
+	render("after the damage", 3)
+
+	// Another build's cache, though whole, is not taken.
+	fc := library.NewFrontCache("another build")
+	library.LoadWith(os.DirFS(lib), fc)
+	var other bytes.Buffer
+	if _, err := fc.WriteTo(&other); err != nil || fc.Hits() != 0 {
+		t.Fatal(err, fc.Hits())
+	}
+	writeAt(t, front, other.String())
+	render("another build", 0)
+	render("after another build", 3)
 }

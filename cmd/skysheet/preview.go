@@ -166,7 +166,11 @@ func (s *preview) render() (memSite, []string) {
 	defer root.Close()
 	fsys := newInputFS(root, s.maxSize)
 	defer fsys.Close()
-	lib, err := loadLibrary(fsys)
+	var fc *library.FrontCache
+	if s.cache {
+		fc = frontCacheOf(s.dir)
+	}
+	lib, err := loadLibrary(fsys, fc)
 	if err != nil {
 		return nil, problems(err)
 	}
@@ -186,7 +190,7 @@ func (s *preview) render() (memSite, []string) {
 		return nil, problems(err)
 	}
 	if opt.Cache != nil {
-		closeRenderCache(opt.Cache, s.log)
+		closeRenderCache(opt.Cache, fc, s.dir, s.log)
 	}
 	return out, nil
 }

@@ -122,8 +122,8 @@ func plural(n int, what string) string {
 // are bad, the materials that could be read are evaluated all the same, so
 // that the problems of their spectra are reported with the rest, in file
 // order.
-func loadLibrary(fsys fs.FS) (*library.Library, error) {
-	lib, err := library.Load(fsys)
+func loadLibrary(fsys fs.FS, fc *library.FrontCache) (*library.Library, error) {
+	lib, err := library.LoadWith(fsys, fc)
 	if err != nil {
 		_, evalErr := evaluate.Library(lib, evaluate.Options{}, nil)
 		return nil, library.Join(err, evalErr)
@@ -135,6 +135,7 @@ func loadLibrary(fsys fs.FS) (*library.Library, error) {
 type renderResult struct {
 	materials, comparisons, files int
 	reused                        int // materials taken from the cache
+	fronts                        int // Markdown files whose front matter came from the cache
 }
 
 // renderOptions are the settings of one render.
@@ -213,7 +214,7 @@ func renderInto(ctx context.Context, dir, outDir string, o renderOptions) (rende
 	// w is stopped the goroutine writes nothing more.
 	type result struct {
 		lib    *library.Library
-		reused int
+		reused cacheUse
 		err    error
 	}
 	done := make(chan result, 1)
@@ -256,13 +257,19 @@ func renderInto(ctx context.Context, dir, outDir string, o renderOptions) (rende
 	if err := install(commit, absOut); err != nil {
 		return res, fmt.Errorf("putting the new site in place: %w (the next render finishes this)", err)
 	}
-	return renderResult{materials: len(r.lib.Materials), comparisons: len(r.lib.Comparisons), files: len(files), reused: r.reused}, nil
+	return renderResult{materials: len(r.lib.Materials), comparisons: len(r.lib.Comparisons), files: len(files), reused: r.reused.materials, fronts: r.reused.fronts}, nil
+}
+
+// cacheUse counts what a render took from the render cache.
+type cacheUse struct {
+	materials int // materials
+	fronts    int // front matter of Markdown files
 }
 
 // renderLibrary reads the library below root, whose path is absDir, and
-// renders it through w. It returns the library and the number of its
-// materials taken from the render cache.
-func renderLibrary(root *os.Root, absDir string, w *dirWriter, o renderOptions) (*library.Library, int, error) {
+// renders it through w. It returns the library and what it took from the
+// render cache.
+func renderLibrary(root *os.Root, absDir string, w *dirWriter, o renderOptions) (*library.Library, cacheUse, error) {
 	fsys := newInputFS(root, o.maxSize)
 	defer fsys.Close()
 	opt := site.Options{Version: o.version}
@@ -281,10 +288,14 @@ func renderLibrary(root *os.Root, absDir string, w *dirWriter, o renderOptions) 
 			}
 		})
 	}
-	lib, err := loadLibrary(fsys)
+	var fc *library.FrontCache // the front matter the last render kept
+	if o.cache {
+		fc = frontCacheOf(absDir)
+	}
+	lib, err := loadLibrary(fsys, fc)
 	opening.Wait()
 	if err != nil {
-		return nil, 0, err
+		return nil, cacheUse{}, err
 	}
 	if o.cache && !opened {
 		// Made once the library is read: a library that cannot be read
@@ -302,13 +313,17 @@ func renderLibrary(root *os.Root, absDir string, w *dirWriter, o renderOptions) 
 		fmt.Fprintln(o.progress)
 	}
 	if err != nil || opt.Cache == nil {
-		return lib, 0, err
+		return lib, cacheUse{}, err
 	}
 	// The index of the cache names the entries of renders that succeeded
 	// only. The cache does not rest on the site: committing it before the
 	// site is swapped in loses nothing if the swap fails.
-	closeRenderCache(opt.Cache, o.progress)
-	return lib, opt.Cache.Hits(), nil
+	closeRenderCache(opt.Cache, fc, absDir, o.progress)
+	use := cacheUse{materials: opt.Cache.Hits()}
+	if fc != nil {
+		use.fronts = fc.Hits()
+	}
+	return lib, use, nil
 }
 
 // checkSiteFolder refuses site folders whose replacement would lose data or

@@ -232,8 +232,69 @@ type frontLines struct {
 	stack   []*yaml.Node // one per stack layer
 }
 
-// parseFront reads and checks the front matter of file.
-func parseFront(file string, yamlText []byte) (FrontMatter, frontLines, doc, error) {
+// place is a file line and column.
+type place struct{ Line, Column int }
+
+// frontPlaces records where the checks made after parsing (see readFile)
+// point in a front matter that parsed: the file lines and columns of its
+// values. A key that is missing has the place of the front matter itself.
+type frontPlaces struct {
+	Slug, Skin, Spectra place
+	Compare             []place // one per compare entry
+	Files               []place // one per spectra entry: its file value, or the entry
+	Stack               []layerPlaces
+}
+
+// layerPlaces are the places of one stack layer.
+type layerPlaces struct {
+	At, Material place
+	Files        []place // one per spectra entry of the layer's own
+}
+
+// places returns where the values of the front matter are, in file lines.
+func (fl frontLines) places(d doc) frontPlaces {
+	at := func(n *yaml.Node) place { return place{n.Line + d.offset, n.Column} }
+	files := func(nodes []*yaml.Node) []place {
+		var ps []place
+		for _, n := range nodes {
+			if v := valueNode(n, "file"); v != n {
+				n = v
+			}
+			ps = append(ps, at(n))
+		}
+		return ps
+	}
+	p := frontPlaces{
+		Slug:    at(valueNode(fl.root, "slug")),
+		Skin:    at(valueNode(fl.root, "skin")),
+		Spectra: at(valueNode(fl.root, "spectra")),
+		Files:   files(fl.spectra),
+	}
+	for _, n := range fl.compare {
+		p.Compare = append(p.Compare, at(n))
+	}
+	for _, n := range fl.stack {
+		var nodes []*yaml.Node
+		if v := valueNode(n, "spectra"); v != n && v.Kind == yaml.SequenceNode {
+			nodes = v.Content
+		}
+		p.Stack = append(p.Stack, layerPlaces{At: at(n), Material: at(valueNode(n, "material")), Files: files(nodes)})
+	}
+	return p
+}
+
+// parseFront reads and checks the front matter of file and returns where
+// its values are (see frontPlaces) when it parsed.
+func parseFront(file string, yamlText []byte) (FrontMatter, frontPlaces, error) {
+	fm, fl, d, err := parseFrontNodes(file, yamlText)
+	if fl.root == nil {
+		return fm, frontPlaces{}, err
+	}
+	return fm, fl.places(d), err
+}
+
+// parseFrontNodes is parseFront with the YAML nodes of the front matter.
+func parseFrontNodes(file string, yamlText []byte) (FrontMatter, frontLines, doc, error) {
 	d := doc{file: file, offset: 1}
 	var fm FrontMatter
 	var fl frontLines

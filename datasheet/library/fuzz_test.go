@@ -9,7 +9,8 @@ import (
 // FuzzLoad feeds arbitrary bytes as a material file and as the config.
 // Load must not panic; every error must be an *Error or a spectrum's
 // ParseError with a file name; an accepted material must satisfy the
-// documented invariants.
+// documented invariants; loading through a front matter cache that an
+// earlier load filled must give the same library and errors.
 func FuzzLoad(f *testing.F) {
 	f.Add([]byte(goodMaterial), []byte("title: x\n"))
 	f.Add([]byte("---\ntitle: c\ncompare: [flat]\n---\n"), []byte("conditions: {temperature_k: 280}\n"))
@@ -57,5 +58,6 @@ func FuzzLoad(f *testing.F) {
 				t.Fatalf("accepted comparison breaks invariants: %+v", c)
 			}
 		}
+		sameLoad(t, fsys, warmCache(t, fsys))
 	})
 }

@@ -15,8 +15,6 @@ import (
 	"sync"
 	"time"
 
-	"gopkg.in/yaml.v3"
-
 	"skysheet/datasheet"
 	"skysheet/spectra"
 	"skysheet/spectra/msg"
@@ -221,7 +219,12 @@ func (l *Library) Material(slug string) (*Material, bool) {
 // in parallel. Problems of every file are collected: the error, if any, is
 // an [Errors] in file order, and the returned library still holds the
 // config and every file that could be read.
-func Load(fsys fs.FS) (*Library, error) {
+func Load(fsys fs.FS) (*Library, error) { return LoadWith(fsys, nil) }
+
+// LoadWith is [Load] taking the front matter that fc holds instead of
+// parsing it again, and adding to fc what it parses. A nil fc is none.
+func LoadWith(fsys fs.FS, fc *FrontCache) (*Library, error) {
+	fc.begin()
 	lib := &Library{fsys: fsys, loaded: time.Now(), seen: new(sync.Map)}
 	var errs Errors
 	add := func(err error) {
@@ -255,7 +258,7 @@ func Load(fsys fs.FS) (*Library, error) {
 	for range min(runtime.GOMAXPROCS(0), max(len(files), 1)) {
 		wg.Go(func() {
 			for i := range next {
-				results[i] = readFile(fsys, files[i], lib.Config, lib.seen)
+				results[i] = readFile(fsys, files[i], lib.Config, lib.seen, fc)
 			}
 		})
 	}
@@ -511,9 +514,10 @@ type fileResult struct {
 	err          error
 }
 
-// readFile reads one content file; what it learns of the spectrum files
-// named goes into seen (see Library.seen).
-func readFile(fsys fs.FS, file string, cfg Config, seen *sync.Map) fileResult {
+// readFile reads one content file, its front matter through fc (see
+// FrontCache.parse); what it learns of the spectrum files named goes into
+// seen (see Library.seen).
+func readFile(fsys fs.FS, file string, cfg Config, seen *sync.Map, fc *FrontCache) fileResult {
 	var r fileResult
 	src, err := fs.ReadFile(fsys, file)
 	if err != nil {
@@ -525,7 +529,7 @@ func readFile(fsys fs.FS, file string, cfg Config, seen *sync.Map) fileResult {
 		r.err = err
 		return r
 	}
-	fm, fl, d, err := parseFront(file, yamlText)
+	fm, fp, err := fc.parse(file, yamlText)
 	if err != nil {
 		// Known by its slug all the same, so that comparisons listing it
 		// do not report it missing on top of its own errors.
@@ -540,8 +544,8 @@ func readFile(fsys fs.FS, file string, cfg Config, seen *sync.Map) fileResult {
 	}
 	var errs Errors
 	errs = append(errs, bodyBlanks(file, body, bodyLine)...)
-	slugNode := valueNode(fl.root, "slug")
-	r.slugLine = slugNode.Line + d.offset
+	d := doc{file: file, offset: 1}
+	r.slugLine = fp.Slug.Line
 	if fm.Slug == "" {
 		r.slug = Slugify(strings.TrimSuffix(path.Base(file), path.Ext(file)))
 		r.slugLine = 1
@@ -551,16 +555,16 @@ func readFile(fsys fs.FS, file string, cfg Config, seen *sync.Map) fileResult {
 	} else {
 		r.slug = fm.Slug
 		if Slugify(fm.Slug) != fm.Slug {
-			errs = append(errs, d.at(slugNode, ErrBadSlug, "%s: want lower-case letters, digits and single hyphens, e.g. %s", msg.Quote(fm.Slug), msg.Quote(Slugify(fm.Slug))))
+			errs = append(errs, errorf(file, fp.Slug.Line, fp.Slug.Column, ErrBadSlug, "%s: want lower-case letters, digits and single hyphens, e.g. %s", msg.Quote(fm.Slug), msg.Quote(Slugify(fm.Slug))))
 		}
 	}
 	fm.Slug = r.slug
 	if len(fm.Compare) > 0 {
 		r.isCompare = true
 		c := &Comparison{Path: file, Slug: r.slug, Front: fm, Body: body, BodyLine: bodyLine, Source: src,
-			skinLine: valueNode(fl.root, "skin").Line + d.offset}
-		for _, n := range fl.compare {
-			r.compareLines = append(r.compareLines, n.Line+d.offset)
+			skinLine: fp.Skin.Line}
+		for _, p := range fp.Compare {
+			r.compareLines = append(r.compareLines, p.Line)
 		}
 		if len(errs) > 0 {
 			r.err = errs
@@ -570,7 +574,7 @@ func readFile(fsys fs.FS, file string, cfg Config, seen *sync.Map) fileResult {
 		return r
 	}
 	m := &Material{Path: file, Slug: r.slug, Front: fm, Body: body, BodyLine: bodyLine, Source: src,
-		Input: hashInput(file, src), spectraLine: valueNode(fl.root, "spectra").Line + d.offset}
+		Input: hashInput(file, src), spectraLine: fp.Spectra.Line}
 	d.fsys, d.seen = fsys, seen
 	m.Conditions, m.files, err = d.apply(fm.Conditions, cfg.Conditions)
 	if err != nil {
@@ -583,22 +587,15 @@ func readFile(fsys fs.FS, file string, cfg Config, seen *sync.Map) fileResult {
 		m.files.weather = cfg.files.weather // the config's series
 	}
 	var es []error
-	m.spectra, es = d.spectrumFiles(fm.Spectra, fl.spectra)
+	m.spectra, es = d.spectrumFiles(fm.Spectra, fp.Files)
 	errs = append(errs, es...)
 	for i, lr := range fm.Stack {
-		n := fl.stack[i]
-		l := &Layer{slug: strings.TrimSpace(lr.Material), Name: strings.TrimSpace(lr.Name), line: n.Line + d.offset, column: n.Column}
-		if v := valueNode(n, "material"); v != n {
-			l.line, l.column = v.Line+d.offset, v.Column
-		}
+		lp := fp.Stack[i]
+		l := &Layer{slug: strings.TrimSpace(lr.Material), Name: strings.TrimSpace(lr.Name), line: lp.Material.Line, column: lp.Material.Column}
 		if lr.ThicknessMM != nil && lr.ConductivityWmK != nil {
 			l.Conductor = &datasheet.Conductor{ThicknessM: *lr.ThicknessMM / 1000, ConductivityWmK: *lr.ConductivityWmK}
 		}
-		var nodes []*yaml.Node
-		if v := valueNode(n, "spectra"); v != n && v.Kind == yaml.SequenceNode {
-			nodes = v.Content
-		}
-		l.spectra, es = d.spectrumFiles(lr.Spectra, nodes)
+		l.spectra, es = d.spectrumFiles(lr.Spectra, lp.Files)
 		errs = append(errs, es...)
 		m.Stack = append(m.Stack, l)
 	}
@@ -610,17 +607,13 @@ func readFile(fsys fs.FS, file string, cfg Config, seen *sync.Map) fileResult {
 	return r
 }
 
-// spectrumFiles resolves the spectra entries refs (at nodes) and checks
+// spectrumFiles resolves the spectra entries refs (at places) and checks
 // that their files exist.
-func (d doc) spectrumFiles(refs []SpectrumRef, nodes []*yaml.Node) ([]spectrumFile, []error) {
+func (d doc) spectrumFiles(refs []SpectrumRef, places []place) ([]spectrumFile, []error) {
 	var out []spectrumFile
 	var errs []error
 	for i, ref := range refs {
-		at := nodes[i]
-		if v := valueNode(at, "file"); v != at {
-			at = v
-		}
-		line, col := at.Line+d.offset, at.Column
+		line, col := places[i].Line, places[i].Column
 		p, err := resolvePath(d.file, ref.File)
 		if err != nil {
 			errs = append(errs, &Error{File: d.file, Line: line, Column: col, Err: fmt.Errorf("spectra file %s: %w", msg.Quote(ref.File), err)})

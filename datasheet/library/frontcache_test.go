@@ -1,0 +1,204 @@
+package library
+
+import (
+	"bytes"
+	"fmt"
+	"io/fs"
+	"os"
+	"reflect"
+	"strings"
+	"testing"
+	"testing/fstest"
+)
+
+// warmCache loads fsys through a new front matter cache and returns the
+// cache as written and read back, as the next render finds it.
+func warmCache(t testing.TB, fsys fs.FS) *FrontCache {
+	t.Helper()
+	fc := NewFrontCache("build 1")
+	LoadWith(fsys, fc)
+	var buf bytes.Buffer
+	if _, err := fc.WriteTo(&buf); err != nil {
+		t.Fatal(err)
+	}
+	return ReadFrontCache(&buf)
+}
+
+// sameLoad checks that loading fsys through fc gives the library and the
+// errors that loading it afresh gives.
+func sameLoad(t testing.TB, fsys fs.FS, fc *FrontCache) {
+	t.Helper()
+	want, wantErr := Load(fsys)
+	got, gotErr := LoadWith(fsys, fc)
+	if fmt.Sprint(gotErr) != fmt.Sprint(wantErr) {
+		t.Fatalf("errors through the cache:\n%v\nafresh:\n%v", gotErr, wantErr)
+	}
+	if !reflect.DeepEqual(got.Materials, want.Materials) {
+		t.Fatalf("materials through the cache differ:\n%+v\nafresh:\n%+v", got.Materials, want.Materials)
+	}
+	if !reflect.DeepEqual(got.Comparisons, want.Comparisons) {
+		t.Fatalf("comparisons through the cache differ")
+	}
+}
+
+func TestFrontCache(t *testing.T) {
+	fsys := baseFS()
+	// goodMaterial sets conditions: kept out of the cache.
+	fsys["content/plain.md"] = &fstest.MapFile{Data: []byte(strings.Replace(strings.Replace(goodMaterial, "conditions: {temperature_k: 290}\n", "", 1), "title: Flat", "slug: plain\ntitle: Flat", 1))}
+	fsys["content/cmp.md"] = &fstest.MapFile{Data: []byte("---\ntitle: c\ncompare: [flat, plain]\nreference: flat\n---\n")}
+	fc := warmCache(t, fsys)
+	if fc.Build() != "build 1" {
+		t.Errorf("build %q read back", fc.Build())
+	}
+	sameLoad(t, fsys, fc)
+	if got := fc.Hits(); got != 2 {
+		t.Errorf("%d hits, want 2 (plain.md and cmp.md; flat.md sets conditions)", got)
+	}
+	if fc.Changed() {
+		t.Error("changed, with every kept entry used and none added")
+	}
+
+	// A load that leaves an entry unused, and one that adds one, change it.
+	delete(fsys, "content/cmp.md")
+	sameLoad(t, fsys, fc)
+	if !fc.Changed() {
+		t.Error("not changed after a file went")
+	}
+	fsys["content/cmp.md"] = &fstest.MapFile{Data: []byte("---\ntitle: c2\ncompare: [flat, plain]\n---\n")}
+	sameLoad(t, fsys, fc)
+	if !fc.Changed() || fc.Hits() != 1 {
+		t.Errorf("changed %v, %d hits after a file was added; want true, 1", fc.Changed(), fc.Hits())
+	}
+}
+
+// TestFrontCacheErrors: what is checked after parsing (the slug, the
+// files named, the layers of a stack, the materials compared) is checked
+// afresh on every load, with the lines and columns of a parse.
+func TestFrontCacheErrors(t *testing.T) {
+	stack := "---\ntitle: s\nmaker: m\nstack:\n  - material: flat\n  - name: back\n    spectra:\n      - file: back/x.csv\n  - material: nowhere\n---\n"
+	for name, files := range map[string]map[string]string{
+		"bad slug":            {"content/a.md": "---\ntitle: a\nslug: A b\nmaker: m\nspectra:\n  - file: flat/solar.csv\n---\n"},
+		"file missing":        {"content/a.md": "---\ntitle: a\nmaker: m\nspectra:\n  - file: flat/solar.csv\n  - {role: thermal, file: flat/nothere.csv}\n---\n"},
+		"stack":               {"content/s.md": stack},
+		"unknown compared":    {"content/c.md": "---\ntitle: c\ncompare:\n  - flat\n  - nowhere\n---\n"},
+		"same front matter":   {"content/a.md": "---\ntitle: a\nslug: a\nmaker: m\nspectra:\n  - file: flat/solar.csv\n---\n", "content/b.md": "---\ntitle: a\nslug: a\nmaker: m\nspectra:\n  - file: flat/solar.csv\n---\n"},
+		"blank in the body":   {"content/a.md": "---\ntitle: a\nmaker: m\nspectra:\n  - file: flat/solar.csv\n---\nFILL IN: the text\n"},
+		"empty tags":          {"content/a.md": "---\ntitle: a\nmaker: m\ntags: []\nspectra:\n  - file: flat/solar.csv\n---\n"},
+		"a file seen earlier": {"content/a.md": "---\ntitle: a\nmaker: m\nspectra:\n  - file: flat/solar.csv\n---\n"},
+	} {
+		t.Run(name, func(t *testing.T) {
+			fsys := baseFS()
+			for f, text := range files {
+				fsys[f] = &fstest.MapFile{Data: []byte(text)}
+			}
+			fc := warmCache(t, fsys)
+			sameLoad(t, fsys, fc)
+			want := len(files) // goodMaterial sets conditions: not kept
+			switch name {
+			case "same front matter":
+				want = 1 // given out once: the other file is parsed
+			case "empty tags":
+				want = 0 // read back from gob, [] is nil: not kept
+			}
+			if fc.Hits() != want {
+				t.Errorf("%d hits, want %d", fc.Hits(), want)
+			}
+			if name == "file missing" {
+				// The file named comes back: found through the cache too.
+				fsys["content/flat/nothere.csv"] = fsys["content/flat/solar.csv"]
+				sameLoad(t, fsys, fc)
+			}
+		})
+	}
+}
+
+// TestFrontCacheDemo loads the demo library through a warm cache: every
+// file without conditions: is taken from it, and the library is the same.
+func TestFrontCacheDemo(t *testing.T) {
+	fsys := os.DirFS("../..")
+	fc := warmCache(t, fsys)
+	sameLoad(t, fsys, fc)
+	files, err := contentFiles(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := 0
+	for _, f := range files {
+		if b, _ := fs.ReadFile(fsys, f); !bytes.Contains(b, []byte("\nconditions:")) {
+			want++
+		}
+	}
+	if fc.Hits() != want || want < 10 {
+		t.Errorf("%d hits, want %d (the demo's files without conditions:)", fc.Hits(), want)
+	}
+}
+
+// TestReadFrontCacheDamaged: a cache that is truncated, altered or of
+// another format reads as empty, and loads as none.
+func TestReadFrontCacheDamaged(t *testing.T) {
+	fsys := baseFS()
+	fsys["content/a.md"] = &fstest.MapFile{Data: []byte("---\ntitle: a\nmaker: m\nspectra:\n  - file: flat/solar.csv\n---\n")}
+	fc := NewFrontCache("b")
+	LoadWith(fsys, fc)
+	var buf bytes.Buffer
+	fc.WriteTo(&buf)
+	good := buf.Bytes()
+	if n := len(ReadFrontCache(bytes.NewReader(good)).old); n != 1 {
+		t.Fatalf("the cache as written holds %d entries, want 1", n)
+	}
+	damaged := map[string][]byte{
+		"empty":     nil,
+		"truncated": good[:len(good)-1],
+		"longer":    append(bytes.Clone(good), 0),
+		"magic":     append([]byte("X"), good[1:]...),
+	}
+	for i := len(frontMagic); i < len(good); i += 7 {
+		b := bytes.Clone(good)
+		b[i] ^= 0x20
+		damaged[fmt.Sprintf("byte %d", i)] = b
+	}
+	for name, b := range damaged {
+		fc := ReadFrontCache(bytes.NewReader(b))
+		if len(fc.old) != 0 || fc.Build() != "" {
+			t.Errorf("%s: %d entries of build %q read", name, len(fc.old), fc.Build())
+		}
+		sameLoad(t, fsys, fc)
+	}
+}
+
+// TestFrontFieldsAll: frontFields has every field of FrontMatter but
+// Conditions, of the same type; a field it missed would keep the file out
+// of the cache (see FrontCache.parse), not lose its value.
+func TestFrontFieldsAll(t *testing.T) {
+	ft, kt := reflect.TypeFor[FrontMatter](), reflect.TypeFor[frontFields]()
+	for i := range ft.NumField() {
+		f := ft.Field(i)
+		if f.Name == "Conditions" {
+			continue
+		}
+		k, ok := kt.FieldByName(f.Name)
+		if !ok || k.Type != f.Type {
+			t.Errorf("frontFields lacks %s %s", f.Name, f.Type)
+		}
+	}
+	if kt.NumField() != ft.NumField()-1 {
+		t.Errorf("frontFields has %d fields, FrontMatter %d", kt.NumField(), ft.NumField())
+	}
+}
+
+func TestClone(t *testing.T) {
+	x := 2.5
+	v := frontFields{Tags: []string{"a"}, Stack: []LayerRef{{ThicknessMM: &x, Spectra: []SpectrumRef{{File: "f"}}}}}
+	c := clone(v)
+	if !reflect.DeepEqual(c, v) {
+		t.Fatalf("clone differs: %+v", c)
+	}
+	c.Tags[0], *c.Stack[0].ThicknessMM, c.Stack[0].Spectra[0].File = "b", 3, "g"
+	if v.Tags[0] != "a" || x != 2.5 || v.Stack[0].Spectra[0].File != "f" {
+		t.Errorf("the clone shares memory with the original: %+v", v)
+	}
+	m := clone(map[string][]int{"k": {1}})
+	if !reflect.DeepEqual(m, map[string][]int{"k": {1}}) {
+		t.Errorf("map clone %v", m)
+	}
+}
