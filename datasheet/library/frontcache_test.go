@@ -118,7 +118,7 @@ func TestFrontCacheDemo(t *testing.T) {
 	fsys := os.DirFS("../..")
 	fc := warmCache(t, fsys)
 	sameLoad(t, fsys, fc)
-	files, err := contentFiles(fsys)
+	files, _, err := contentFiles(fsys)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -250,7 +250,7 @@ func LoadWith(fsys fs.FS, fc *FrontCache) (*Library, error) {
 		add(err)
 	}
 
-	files, err := contentFiles(fsys)
+	files, listed, err := contentFiles(fsys)
 	add(err)
 	results := make([]fileResult, len(files))
 	var wg sync.WaitGroup
@@ -258,7 +258,7 @@ func LoadWith(fsys fs.FS, fc *FrontCache) (*Library, error) {
 	for range min(runtime.GOMAXPROCS(0), max(len(files), 1)) {
 		wg.Go(func() {
 			for i := range next {
-				results[i] = readFile(fsys, files[i], lib.Config, lib.seen, fc)
+				results[i] = readFile(fsys, files[i], lib.Config, lib.seen, listed, fc)
 			}
 		})
 	}
@@ -475,9 +475,11 @@ func nearbyFile(fsys fs.FS, p, ref string) string {
 	return ""
 }
 
-// contentFiles lists the Markdown files under content/, sorted.
-func contentFiles(fsys fs.FS) ([]string, error) {
+// contentFiles lists the Markdown files under content/, sorted, and the
+// other regular files met on the way, by path.
+func contentFiles(fsys fs.FS) ([]string, map[string]fs.DirEntry, error) {
 	var files []string
+	others := map[string]fs.DirEntry{}
 	err := fs.WalkDir(fsys, ContentDir, func(p string, d fs.DirEntry, err error) error {
 		if err != nil {
 			return err
@@ -488,19 +490,22 @@ func contentFiles(fsys fs.FS) ([]string, error) {
 			}
 			return nil
 		}
-		if !d.IsDir() && strings.EqualFold(path.Ext(p), ".md") {
+		switch {
+		case !d.IsDir() && strings.EqualFold(path.Ext(p), ".md"):
 			files = append(files, p)
+		case d.Type().IsRegular():
+			others[p] = d
 		}
 		return nil
 	})
 	if err != nil {
 		if errors.Is(err, fs.ErrNotExist) {
-			return nil, errorf(ContentDir, 0, 0, ErrMissing, "no %s/ folder: materials go in %s/*.md", ContentDir, ContentDir)
+			return nil, nil, errorf(ContentDir, 0, 0, ErrMissing, "no %s/ folder: materials go in %s/*.md", ContentDir, ContentDir)
 		}
-		return nil, &Error{File: ContentDir, Err: err}
+		return nil, nil, &Error{File: ContentDir, Err: err}
 	}
 	sort.Strings(files)
-	return files, nil
+	return files, others, nil
 }
 
 // fileResult is what readFile found in one content file.
@@ -516,8 +521,8 @@ type fileResult struct {
 
 // readFile reads one content file, its front matter through fc (see
 // FrontCache.parse); what it learns of the spectrum files named goes into
-// seen (see Library.seen).
-func readFile(fsys fs.FS, file string, cfg Config, seen *sync.Map, fc *FrontCache) fileResult {
+// seen (see Library.seen). Listed are the regular files contentFiles met.
+func readFile(fsys fs.FS, file string, cfg Config, seen *sync.Map, listed map[string]fs.DirEntry, fc *FrontCache) fileResult {
 	var r fileResult
 	src, err := fs.ReadFile(fsys, file)
 	if err != nil {
@@ -575,7 +580,7 @@ func readFile(fsys fs.FS, file string, cfg Config, seen *sync.Map, fc *FrontCach
 	}
 	m := &Material{Path: file, Slug: r.slug, Front: fm, Body: body, BodyLine: bodyLine, Source: src,
 		Input: hashInput(file, src), spectraLine: fp.Spectra.Line}
-	d.fsys, d.seen = fsys, seen
+	d.fsys, d.seen, d.listed = fsys, seen, listed
 	m.Conditions, m.files, err = d.apply(fm.Conditions, cfg.Conditions)
 	if err != nil {
 		errs = append(errs, err)
@@ -619,7 +624,7 @@ func (d doc) spectrumFiles(refs []SpectrumRef, places []place) ([]spectrumFile, 
 			errs = append(errs, &Error{File: d.file, Line: line, Column: col, Err: fmt.Errorf("spectra file %s: %w", msg.Quote(ref.File), err)})
 			continue
 		}
-		fi, err := fs.Stat(d.fsys, p)
+		fi, err := d.stat(p)
 		if err != nil {
 			errs = append(errs, &Error{File: d.file, Line: line, Column: col, Err: fmt.Errorf("%w %s: %w%s", ErrSpectrum, p, unwrapPath(err), nearbyFile(d.fsys, p, ref.File))})
 			continue
@@ -630,6 +635,18 @@ func (d doc) spectrumFiles(refs []SpectrumRef, places []place) ([]spectrumFile, 
 		out = append(out, spectrumFile{path: p, line: line, column: col})
 	}
 	return out, errs
+}
+
+// stat returns what the file system tells of file p: what listing its
+// folder told, for a regular file (os.Root lists a folder with the lstat
+// of each entry), else its fs.Stat.
+func (d doc) stat(p string) (fs.FileInfo, error) {
+	if e, ok := d.listed[p]; ok {
+		if fi, err := e.Info(); err == nil && fi.Mode().IsRegular() {
+			return fi, nil
+		}
+	}
+	return fs.Stat(d.fsys, p)
 }
 
 // splitJoined returns the errors joined in err by errors.Join, or err

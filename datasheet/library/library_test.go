@@ -586,3 +586,44 @@ func TestWeatherFile(t *testing.T) {
 		t.Errorf("weather: none gave %+v, %v", lib.Materials[0].Conditions.Weather, err)
 	}
 }
+
+// statCountingFS counts the fs.Stat calls made through it, by path.
+type statCountingFS struct {
+	fstest.MapFS
+	stats map[string]int
+}
+
+func (c *statCountingFS) Stat(name string) (fs.FileInfo, error) {
+	c.stats[name]++
+	return c.MapFS.Stat(name)
+}
+
+// TestLoadStatsListedFiles: a spectrum file that listing content/ met as
+// a regular file is known from the listing; one outside content/, or met
+// as something else, is asked for.
+func TestLoadStatsListedFiles(t *testing.T) {
+	fsys := baseFS()
+	fsys["content/flat.md"] = &fstest.MapFile{Data: []byte(strings.Replace(goodMaterial, "file: flat/thermal.csv", "file: ../data/thermal.csv", 1))}
+	fsys["data/thermal.csv"] = fsys["content/flat/thermal.csv"]
+	fsys["content/flat/solar-data.csv"] = fsys["content/flat/solar.csv"]
+	fsys["content/flat/solar.csv"] = &fstest.MapFile{Data: []byte("solar-data.csv"), Mode: fs.ModeSymlink}
+	c := &statCountingFS{MapFS: fsys, stats: map[string]int{}}
+	lib, err := Load(c)
+	if err != nil || len(lib.Materials) != 1 {
+		t.Fatal(err)
+	}
+	if n := c.stats["data/thermal.csv"]; n != 1 {
+		t.Errorf("a file outside content/: %d stats, want 1", n)
+	}
+	if n := c.stats["content/flat/solar.csv"]; n != 1 {
+		t.Errorf("a file listed as a link: %d stats, want 1", n)
+	}
+	fsys["content/flat/solar.csv"] = fsys["content/flat/solar-data.csv"]
+	c.stats = map[string]int{}
+	if _, err := Load(c); err != nil {
+		t.Fatal(err)
+	}
+	if n := c.stats["content/flat/solar.csv"]; n != 0 {
+		t.Errorf("a regular file listed: %d stats, want 0", n)
+	}
+}

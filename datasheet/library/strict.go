@@ -21,8 +21,9 @@ import (
 type doc struct {
 	file   string
 	offset int
-	fsys   fs.FS     // for files named in the document (a sky file)
-	seen   *sync.Map // what was learnt of the spectrum files (see Library.seen)
+	fsys   fs.FS                  // for files named in the document (a sky file)
+	seen   *sync.Map              // what was learnt of the spectrum files (see Library.seen)
+	listed map[string]fs.DirEntry // the regular files under content/, as listed (see contentFiles)
 }
 
 // parse reads the YAML text src into a node. An empty text gives an empty
