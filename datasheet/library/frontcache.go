@@ -175,7 +175,7 @@ func (c *FrontCache) parse(file string, yamlText []byte) (FrontMatter, frontPlac
 	}
 	c.mu.Unlock()
 	if e != nil {
-		return clone(e.Front).front(), clone(e.Places), nil
+		return e.Front.copy().front(), e.Places.copy(), nil
 	}
 	fm, fp, err := parseFront(file, yamlText)
 	if err != nil || fm.Conditions.node != nil || !reflect.DeepEqual(keptFields(fm).front(), fm) {
@@ -184,7 +184,7 @@ func (c *FrontCache) parse(file string, yamlText []byte) (FrontMatter, frontPlac
 	}
 	c.mu.Lock()
 	if _, ok := c.next[key]; !ok {
-		c.next = mapSet(c.next, key, &frontEntry{Key: key, Front: clone(keptFields(fm)), Places: clone(fp), fresh: true})
+		c.next = mapSet(c.next, key, &frontEntry{Key: key, Front: keptFields(fm).copy(), Places: fp.copy(), fresh: true})
 		c.added = true
 	}
 	c.mu.Unlock()
@@ -294,51 +294,41 @@ func (w *countingWriter) Write(p []byte) (int, error) {
 	return n, err
 }
 
-// clone returns a deep copy of v: the slices, maps and pointers in its
-// exported fields are copied, so that the copy shares no memory with v.
-func clone[T any](v T) T {
-	var out T
-	copyValue(reflect.ValueOf(&out).Elem(), reflect.ValueOf(v))
-	return out
+// copy returns a copy of f that shares no memory with it (strings aside,
+// which cannot change). TestCopiesShareNothing checks every field.
+func (f frontFields) copy() frontFields {
+	c := f
+	c.Tags = slices.Clone(f.Tags)
+	c.Spectra = slices.Clone(f.Spectra)
+	c.Claims = slices.Clone(f.Claims)
+	for i, cl := range c.Claims {
+		c.Claims[i].Values = slices.Clone(cl.Values)
+		b := &c.Claims[i].Basis
+		b.SolarBandNM, b.ThermalBandUM, b.WindowBandUM = slices.Clone(b.SolarBandNM), slices.Clone(b.ThermalBandUM), slices.Clone(b.WindowBandUM)
+	}
+	c.Compare = slices.Clone(f.Compare)
+	c.Stack = slices.Clone(f.Stack)
+	for i, l := range c.Stack {
+		c.Stack[i].Spectra = slices.Clone(l.Spectra)
+		c.Stack[i].ThicknessMM, c.Stack[i].ConductivityWmK = clonePtr(l.ThicknessMM), clonePtr(l.ConductivityWmK)
+	}
+	return c
 }
 
-func copyValue(dst, src reflect.Value) {
-	switch src.Kind() {
-	case reflect.Slice:
-		if src.IsNil() {
-			return
-		}
-		s := reflect.MakeSlice(src.Type(), src.Len(), src.Len())
-		for i := range src.Len() {
-			copyValue(s.Index(i), src.Index(i))
-		}
-		dst.Set(s)
-	case reflect.Map:
-		if src.IsNil() {
-			return
-		}
-		m := reflect.MakeMapWithSize(src.Type(), src.Len())
-		for it := src.MapRange(); it.Next(); {
-			v := reflect.New(src.Type().Elem()).Elem()
-			copyValue(v, it.Value())
-			m.SetMapIndex(it.Key(), v)
-		}
-		dst.Set(m)
-	case reflect.Pointer:
-		if src.IsNil() {
-			return
-		}
-		p := reflect.New(src.Type().Elem())
-		copyValue(p.Elem(), src.Elem())
-		dst.Set(p)
-	case reflect.Struct:
-		dst.Set(src)
-		for i := range src.NumField() {
-			if src.Type().Field(i).IsExported() {
-				copyValue(dst.Field(i), src.Field(i))
-			}
-		}
-	default:
-		dst.Set(src)
+// copy returns a copy of p that shares no memory with it.
+func (p frontPlaces) copy() frontPlaces {
+	c := p
+	c.Compare, c.Files, c.Stack = slices.Clone(p.Compare), slices.Clone(p.Files), slices.Clone(p.Stack)
+	for i, l := range c.Stack {
+		c.Stack[i].Files = slices.Clone(l.Files)
 	}
+	return c
+}
+
+func clonePtr[T any](p *T) *T {
+	if p == nil {
+		return nil
+	}
+	v := *p
+	return &v
 }

@@ -186,19 +186,91 @@ func TestFrontFieldsAll(t *testing.T) {
 	}
 }
 
-func TestClone(t *testing.T) {
-	x := 2.5
-	v := frontFields{Tags: []string{"a"}, Stack: []LayerRef{{ThicknessMM: &x, Spectra: []SpectrumRef{{File: "f"}}}}}
-	c := clone(v)
-	if !reflect.DeepEqual(c, v) {
-		t.Fatalf("clone differs: %+v", c)
+// TestCopiesShareNothing fills frontFields and frontPlaces, every slice
+// with elements and every pointer set, and checks that their copies equal
+// them and share no slice or pointer with them (a field added to
+// FrontMatter with a slice inside, and missed by copy, fails here).
+func TestCopiesShareNothing(t *testing.T) {
+	for _, v := range []any{&frontFields{}, &frontPlaces{}} {
+		x := reflect.ValueOf(v).Elem()
+		fill(x, 1)
+		var c reflect.Value
+		switch v := v.(type) {
+		case *frontFields:
+			c = reflect.ValueOf(v.copy())
+		case *frontPlaces:
+			c = reflect.ValueOf(v.copy())
+		}
+		if !reflect.DeepEqual(c.Interface(), x.Interface()) {
+			t.Fatalf("the copy of a %s differs", x.Type())
+		}
+		mem := map[uintptr]bool{}
+		n := 0
+		memoryOf(x, func(p uintptr) { mem[p] = true; n++ })
+		memoryOf(c, func(p uintptr) {
+			if mem[p] {
+				t.Errorf("the copy of a %s shares memory with it", x.Type())
+			}
+		})
+		if n < 5 {
+			t.Errorf("%s: only %d slices and pointers filled", x.Type(), n)
+		}
 	}
-	c.Tags[0], *c.Stack[0].ThicknessMM, c.Stack[0].Spectra[0].File = "b", 3, "g"
-	if v.Tags[0] != "a" || x != 2.5 || v.Stack[0].Spectra[0].File != "f" {
-		t.Errorf("the clone shares memory with the original: %+v", v)
+}
+
+// fill sets every field reachable from v: two elements in each slice,
+// each pointer to a value, numbers and strings from seed.
+func fill(v reflect.Value, seed int) int {
+	switch v.Kind() {
+	case reflect.Slice:
+		v.Set(reflect.MakeSlice(v.Type(), 2, 2))
+		for i := range 2 {
+			seed = fill(v.Index(i), seed)
+		}
+	case reflect.Pointer:
+		v.Set(reflect.New(v.Type().Elem()))
+		seed = fill(v.Elem(), seed)
+	case reflect.Struct:
+		for i := range v.NumField() {
+			if v.Type().Field(i).IsExported() {
+				seed = fill(v.Field(i), seed)
+			}
+		}
+	case reflect.String:
+		v.SetString(fmt.Sprint("s", seed))
+	case reflect.Int, reflect.Int64:
+		v.SetInt(int64(seed))
+	case reflect.Float64:
+		v.SetFloat(float64(seed) + 0.5)
+	case reflect.Bool:
+		v.SetBool(seed%2 == 0)
 	}
-	m := clone(map[string][]int{"k": {1}})
-	if !reflect.DeepEqual(m, map[string][]int{"k": {1}}) {
-		t.Errorf("map clone %v", m)
+	return seed + 1
+}
+
+// memoryOf calls f with the address of every slice's array and every
+// pointer's target reachable from v.
+func memoryOf(v reflect.Value, f func(uintptr)) {
+	switch v.Kind() {
+	case reflect.Slice:
+		if v.Len() > 0 {
+			f(v.Pointer())
+		}
+		for i := range v.Len() {
+			memoryOf(v.Index(i), f)
+		}
+	case reflect.Pointer:
+		if !v.IsNil() {
+			f(v.Pointer())
+			memoryOf(v.Elem(), f)
+		}
+	case reflect.Struct:
+		for i := range v.NumField() {
+			memoryOf(v.Field(i), f)
+		}
+	case reflect.Map:
+		if v.Len() > 0 {
+			f(v.Pointer())
+		}
 	}
 }
