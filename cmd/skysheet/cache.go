@@ -8,7 +8,9 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"strings"
 	"sync"
+	"time"
 
 	"skysheet/datasheet/library"
 	"skysheet/datasheet/site"
@@ -26,7 +28,7 @@ const cacheDir = ".skysheet-cache"
 func openRenderCache(absDir string, log io.Writer) (*site.Cache, func()) {
 	none := func() {}
 	dir := filepath.Join(absDir, cacheDir)
-	build, err := buildID()
+	build, err := buildID(absDir)
 	if err != nil {
 		fmt.Fprintf(log, "skysheet render: note: rendering without the cache: %v\n", err)
 		return nil, none
@@ -84,32 +86,19 @@ func frontCacheOf(absDir string) *library.FrontCache {
 		defer f.Close()
 		read <- library.ReadFrontCache(f)
 	}()
-	build, _ := buildID()
+	build, _ := buildID(absDir)
 	if fc := <-read; fc != nil && build != "" && fc.Build() == build {
 		return fc
 	}
 	return library.NewFrontCache(build)
 }
 
-// writeFrontCache writes fc at name through a temporary file renamed over
-// it. It is not synced: a cache damaged by a crash reads as empty.
+// writeFrontCache writes fc at name (see writeCacheFile).
 func writeFrontCache(name string, fc *library.FrontCache) error {
-	f, err := os.CreateTemp(filepath.Dir(name), "."+frontCacheFile+"-*")
-	if err != nil {
+	return writeCacheFile(name, func(w io.Writer) error {
+		_, err := fc.WriteTo(w)
 		return err
-	}
-	defer os.Remove(f.Name()) // a no-op once renamed
-	_, err = fc.WriteTo(f)
-	if cerr := f.Close(); err == nil {
-		err = cerr
-	}
-	if err == nil {
-		err = os.Chmod(f.Name(), 0o644)
-	}
-	if err != nil {
-		return err
-	}
-	return os.Rename(f.Name(), name)
+	})
 }
 
 var (
@@ -121,26 +110,89 @@ var (
 // buildID identifies this build of skysheet for the render cache: its
 // version and the SHA-256 of its executable, so that a rebuilt binary of
 // the same version (a development build) does not use the entries of
-// another.
-func buildID() (string, error) {
+// another. The SHA-256 is remembered in the cache folder of the library in
+// absDir (see executableSum).
+func buildID(absDir string) (string, error) {
 	buildOnce.Do(func() {
 		exe, err := os.Executable()
 		if err != nil {
 			buildErr = fmt.Errorf("cannot find the running program: %w", err)
 			return
 		}
-		f, err := os.Open(exe)
+		sum, err := executableSum(exe, filepath.Join(absDir, cacheDir, buildFile), time.Now())
 		if err != nil {
 			buildErr = fmt.Errorf("cannot read the running program: %w", err)
 			return
 		}
-		defer f.Close()
-		h := sha256.New()
-		if _, err := io.Copy(h, f); err != nil {
-			buildErr = fmt.Errorf("cannot read the running program: %w", err)
-			return
-		}
-		buildSum = version() + " " + hex.EncodeToString(h.Sum(nil))
+		buildSum = version() + " " + sum
 	})
 	return buildSum, buildErr
+}
+
+// buildFile is the file, in the cache folder, that remembers the SHA-256
+// of the executable.
+const buildFile = "build"
+
+// executableSum returns the SHA-256, in hex, of the file exe. The file memo
+// remembers it with exe's path and stamp (device, inode, size, times of
+// change of bytes and inode; see library.StampOf): while exe has that
+// stamp, the sum is taken from memo instead of reading exe, whose bytes a
+// change would have moved the stamp of. A sum read is remembered when exe
+// has a stamp and memo's folder exists.
+func executableSum(exe, memo string, now time.Time) (string, error) {
+	f, err := os.Open(exe)
+	if err != nil {
+		return "", err
+	}
+	defer f.Close()
+	fi, err := f.Stat()
+	if err != nil {
+		return "", err
+	}
+	st, stamped := library.StampOf(fi, now)
+	head := fmt.Sprintf("skysheet executable 1 %q %d %d %d %d %d\n", exe, st.Dev, st.Ino, st.Size, st.ModTime, st.Change)
+	if stamped {
+		if b, err := os.ReadFile(memo); err == nil {
+			if sum, ok := strings.CutPrefix(string(b), head); ok && len(sum) == 2*sha256.Size+1 && sum[len(sum)-1] == '\n' {
+				if _, err := hex.DecodeString(sum[:len(sum)-1]); err == nil {
+					return sum[:len(sum)-1], nil
+				}
+			}
+		}
+	}
+	h := sha256.New()
+	if _, err := io.Copy(h, f); err != nil {
+		return "", err
+	}
+	sum := hex.EncodeToString(h.Sum(nil))
+	if stamped {
+		// A memo not written: the executable is read again next time.
+		writeCacheFile(memo, func(w io.Writer) error {
+			_, err := io.WriteString(w, head+sum+"\n")
+			return err
+		})
+	}
+	return sum, nil
+}
+
+// writeCacheFile writes the file name of the cache folder, which must
+// exist, through a temporary file renamed over it. It is not synced: a
+// cache file damaged by a crash is detected and ignored.
+func writeCacheFile(name string, write func(io.Writer) error) error {
+	f, err := os.CreateTemp(filepath.Dir(name), "."+filepath.Base(name)+"-*")
+	if err != nil {
+		return err
+	}
+	defer os.Remove(f.Name()) // a no-op once renamed
+	err = write(f)
+	if cerr := f.Close(); err == nil {
+		err = cerr
+	}
+	if err == nil {
+		err = os.Chmod(f.Name(), 0o644)
+	}
+	if err != nil {
+		return err
+	}
+	return os.Rename(f.Name(), name)
 }

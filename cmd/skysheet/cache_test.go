@@ -3,13 +3,18 @@ package main
 import (
 	"bytes"
 	"context"
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
+	"runtime"
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 
 	"skysheet/datasheet/library"
 )
@@ -310,4 +315,54 @@ func TestRenderFrontCache(t *testing.T) {
 	writeAt(t, front, other.String())
 	render("another build", 0)
 	render("after another build", 3)
+}
+
+// TestExecutableSum: the SHA-256 of the executable is remembered with its
+// stamp and taken from the memo while the stamp holds; a changed
+// executable, a damaged memo or a file too new to stamp is read.
+func TestExecutableSum(t *testing.T) {
+	if runtime.GOOS != "linux" && runtime.GOOS != "darwin" {
+		t.Skip("no stamps on", runtime.GOOS)
+	}
+	dir := t.TempDir()
+	exe, memo := filepath.Join(dir, "prog"), filepath.Join(dir, "cache", buildFile)
+	os.Mkdir(filepath.Dir(memo), 0o755)
+	writeAt(t, exe, "program bytes")
+	sumOf := func(s string) string { h := sha256.Sum256([]byte(s)); return hex.EncodeToString(h[:]) }
+	later := time.Now().Add(time.Minute) // the file is old enough to stamp by then
+
+	// Too new to stamp: read, and not remembered.
+	if got, err := executableSum(exe, memo, time.Now()); err != nil || got != sumOf("program bytes") {
+		t.Fatalf("sum %s, %v", got, err)
+	}
+	if _, err := os.Stat(memo); !errors.Is(err, fs.ErrNotExist) {
+		t.Fatalf("a file changed just now was remembered: %v", err)
+	}
+	// Old enough: read and remembered.
+	if got, _ := executableSum(exe, memo, later); got != sumOf("program bytes") {
+		t.Fatalf("sum %s", got)
+	}
+	b, err := os.ReadFile(memo)
+	if err != nil || !strings.HasSuffix(string(b), sumOf("program bytes")+"\n") {
+		t.Fatalf("memo %q, %v", b, err)
+	}
+	// The memo is what is used: a sum put in it comes back.
+	fake := strings.Repeat("ab", sha256.Size)
+	writeAt(t, memo, strings.Replace(string(b), sumOf("program bytes"), fake, 1))
+	if got, _ := executableSum(exe, memo, later); got != fake {
+		t.Errorf("the memo was not used: %s", got)
+	}
+	// A damaged memo: read again.
+	writeAt(t, memo, strings.Replace(string(b), sumOf("program bytes"), "xyz", 1))
+	if got, _ := executableSum(exe, memo, later); got != sumOf("program bytes") {
+		t.Errorf("damaged memo: %s", got)
+	}
+	// The executable changed: its stamp moved, read again. (Its size
+	// changes too: within one tick of a coarse file system clock the
+	// times might not move, a case the stamps' margin keeps out in use.)
+	writeAt(t, memo, strings.Replace(string(b), sumOf("program bytes"), fake, 1))
+	writeAt(t, exe, "program bytes, new")
+	if got, _ := executableSum(exe, memo, later); got != sumOf("program bytes, new") {
+		t.Errorf("changed executable: %s", got)
+	}
 }

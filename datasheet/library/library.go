@@ -171,6 +171,22 @@ func (l *Library) Stamps(inputs []Input) []Stamp {
 	return out
 }
 
+// StampOf returns the stamp of the regular file fi as it is at time now,
+// and false when there is none: where the file system gives none, or where
+// the file changed less than stampMargin before now (its bytes read now
+// might not be those the stamp vouches for). Take it before reading the
+// file: a later change then moves the stamp.
+func StampOf(fi fs.FileInfo, now time.Time) (Stamp, bool) {
+	if !fi.Mode().IsRegular() {
+		return Stamp{}, false
+	}
+	st, ok := sysStamp(fi)
+	if !ok || st.Change >= now.Add(-stampMargin).UnixNano() {
+		return Stamp{}, false
+	}
+	return st, true
+}
+
 // stamp returns the stamp of the regular file p, and false when there is
 // none. For a spectrum file it is what the file was when Load checked it:
 // a change since then moves its change time, so that the stamp, recorded

@@ -3,9 +3,13 @@ package library
 import (
 	"errors"
 	"io/fs"
+	"os"
+	"path/filepath"
+	"runtime"
 	"strings"
 	"testing"
 	"testing/fstest"
+	"time"
 
 	"skysheet/spectra"
 )
@@ -625,5 +629,30 @@ func TestLoadStatsListedFiles(t *testing.T) {
 	}
 	if n := c.stats["content/flat/solar.csv"]; n != 0 {
 		t.Errorf("a regular file listed: %d stats, want 0", n)
+	}
+}
+
+func TestStampOf(t *testing.T) {
+	if runtime.GOOS != "linux" && runtime.GOOS != "darwin" {
+		t.Skip("no stamps on", runtime.GOOS)
+	}
+	p := filepath.Join(t.TempDir(), "f")
+	if err := os.WriteFile(p, []byte("x"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	fi, err := os.Stat(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, ok := StampOf(fi, time.Now()); ok {
+		t.Error("a file changed just now has a stamp")
+	}
+	st, ok := StampOf(fi, time.Now().Add(stampMargin+time.Second))
+	if !ok || st.Size != 1 || st.Ino == 0 || st.Change == 0 {
+		t.Errorf("stamp %+v, %v", st, ok)
+	}
+	dir, _ := os.Stat(filepath.Dir(p))
+	if _, ok := StampOf(dir, time.Now().Add(time.Hour)); ok {
+		t.Error("a folder has a stamp")
 	}
 }
