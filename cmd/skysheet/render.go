@@ -218,13 +218,19 @@ func renderInto(ctx context.Context, dir, outDir string, o renderOptions) (rende
 		err    error
 	}
 	done := make(chan result, 1)
+	cached := make(chan struct{})
 	go func() {
-		lib, reused, err := renderLibrary(root, absDir, w, o)
+		defer close(cached)
+		lib, reused, finish, err := renderLibrary(root, absDir, w, o)
 		done <- result{lib, reused, err}
+		finish()
 	}()
 	var r result
 	select {
 	case r = <-done:
+		// The render cache is committed while the site is put in place;
+		// the render returns once both are done.
+		defer func() { <-cached }()
 	case <-ctx.Done():
 		return res, fmt.Errorf("%w: the site in %s was left as it was", errInterrupted, absOut)
 	}
@@ -267,14 +273,17 @@ type cacheUse struct {
 }
 
 // renderLibrary reads the library below root, whose path is absDir, and
-// renders it through w. It returns the library and what it took from the
-// render cache.
-func renderLibrary(root *os.Root, absDir string, w *dirWriter, o renderOptions) (*library.Library, cacheUse, error) {
+// renders it through w. It returns the library, what it took from the
+// render cache, and a function to call next: it commits the render cache
+// after a render that succeeded (the cache does not rest on the site:
+// committing it before the site is in place loses nothing if that fails)
+// and releases the cache.
+func renderLibrary(root *os.Root, absDir string, w *dirWriter, o renderOptions) (*library.Library, cacheUse, func(), error) {
 	fsys := newInputFS(root, o.maxSize)
 	defer fsys.Close()
 	opt := site.Options{Version: o.version}
 	release := func() {}
-	defer func() { release() }()
+	finish := func() { release() }
 	var opening sync.WaitGroup
 	opened := false
 	if st, err := os.Stat(filepath.Join(absDir, cacheDir)); o.cache && err == nil && st.IsDir() {
@@ -295,7 +304,7 @@ func renderLibrary(root *os.Root, absDir string, w *dirWriter, o renderOptions) 
 	lib, err := loadLibrary(fsys, fc)
 	opening.Wait()
 	if err != nil {
-		return nil, cacheUse{}, err
+		return nil, cacheUse{}, finish, err
 	}
 	if o.cache && !opened {
 		// Made once the library is read: a library that cannot be read
@@ -313,17 +322,18 @@ func renderLibrary(root *os.Root, absDir string, w *dirWriter, o renderOptions) 
 		fmt.Fprintln(o.progress)
 	}
 	if err != nil || opt.Cache == nil {
-		return lib, cacheUse{}, err
+		return lib, cacheUse{}, finish, err
 	}
-	// The index of the cache names the entries of renders that succeeded
-	// only. The cache does not rest on the site: committing it before the
-	// site is swapped in loses nothing if the swap fails.
-	closeRenderCache(opt.Cache, fc, absDir, o.progress)
 	use := cacheUse{materials: opt.Cache.Hits()}
 	if fc != nil {
 		use.fronts = fc.Hits()
 	}
-	return lib, use, nil
+	// The index of the cache names the entries of renders that succeeded
+	// only.
+	return lib, use, func() {
+		closeRenderCache(opt.Cache, fc, absDir, o.progress)
+		release()
+	}, nil
 }
 
 // checkSiteFolder refuses site folders whose replacement would lose data or
