@@ -1,6 +1,7 @@
 package library
 
 import (
+	"bytes"
 	"errors"
 	"testing"
 	"testing/fstest"
@@ -59,5 +60,30 @@ func FuzzLoad(f *testing.F) {
 			}
 		}
 		sameLoad(t, fsys, warmCache(t, fsys))
+	})
+}
+
+// FuzzReadFrontCache feeds arbitrary bytes as a front matter cache: reading
+// must not panic, and a load through what was read must give what a load
+// without it gives (a damaged cache reads as empty; the checksum keeps a
+// changed one out).
+func FuzzReadFrontCache(f *testing.F) {
+	fsys := baseFS()
+	fsys["content/plain.md"] = &fstest.MapFile{Data: []byte("---\ntitle: p\nmaker: m\ntags: [a]\nspectra:\n  - file: flat/solar.csv\n---\n")}
+	fc := NewFrontCache("b")
+	LoadWith(fsys, fc)
+	var seed bytes.Buffer
+	if _, err := fc.WriteTo(&seed); err != nil {
+		f.Fatal(err)
+	}
+	f.Add(seed.Bytes())
+	f.Add(seed.Bytes()[:seed.Len()/2])
+	f.Add([]byte(frontMagic))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		fc := ReadFrontCache(bytes.NewReader(data))
+		if len(fc.old) == 0 {
+			return // read as empty: a load through it is one without (TestReadFrontCacheDamaged)
+		}
+		sameLoad(t, fsys, fc)
 	})
 }
