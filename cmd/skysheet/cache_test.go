@@ -366,3 +366,57 @@ func TestExecutableSum(t *testing.T) {
 		t.Errorf("changed executable: %s", got)
 	}
 }
+
+// TestRenderCacheKeptLink: a site file that is the cache's very file (a
+// hard link of the same device, inode, size and time as recorded) is
+// kept on the strength of one look at the site: the cache's path is not
+// looked at (here it is gone, and the material still comes from the
+// cache); a site file that is another file is not taken for it.
+func TestRenderCacheKeptLink(t *testing.T) {
+	if runtime.GOOS != "linux" && runtime.GOOS != "darwin" {
+		t.Skip("no inodes read on", runtime.GOOS)
+	}
+	lib := copyLibrary(t)
+	out := filepath.Join(t.TempDir(), "site")
+	page := filepath.Join(out, "m", "frostline", "index.html")
+	want := siteFiles(cleanRender(t, lib, "v1"))
+	renderCached(t, lib, out, "v1")
+
+	// The cache's own path to the page removed: the site's link holds it.
+	var cached string
+	filepath.WalkDir(filepath.Join(lib, cacheDir), func(p string, d fs.DirEntry, err error) error {
+		if err == nil && !d.IsDir() && os.SameFile(inode(t, p), inode(t, page)) {
+			cached = p
+		}
+		return nil
+	})
+	if cached == "" {
+		t.Fatal("the site's page is not a link to a cache file")
+	}
+	if err := os.Remove(cached); err != nil {
+		t.Fatal(err)
+	}
+	if _, n := renderCached(t, lib, out, "v1"); n != 3 {
+		t.Errorf("the cache's path gone, the site's link there: %d materials from the cache, want 3", n)
+	}
+	sameTree(t, "kept by the site's link", siteFiles(readTree(t, out)), want)
+
+	// The site's page replaced by another file of the same bytes, size and
+	// time: not the cache's file, whose path is gone, so the material is
+	// rendered again.
+	data, err := os.ReadFile(page)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st := inode(t, page)
+	tmp := page + ".tmp"
+	writeAt(t, tmp, string(data))
+	os.Chtimes(tmp, st.ModTime(), st.ModTime())
+	if err := os.Rename(tmp, page); err != nil {
+		t.Fatal(err)
+	}
+	if _, n := renderCached(t, lib, out, "v1"); n != 2 {
+		t.Errorf("another file at the page's name: %d materials from the cache, want 2", n)
+	}
+	sameTree(t, "another file", siteFiles(readTree(t, out)), want)
+}

@@ -429,6 +429,10 @@ func holds(p string, data []byte) bool {
 // either file moves its time), nothing is written: the file stays where it
 // is, and the swap keeps it since it is among the files written.
 func (w *dirWriter) LinkFile(name, src string, srcInfo fs.FileInfo) error {
+	if k, ok := srcInfo.(keptInfo); ok && k.name == name {
+		// KeptFile's, which the cache found to be its very copy.
+		return w.put(name, nil)
+	}
 	if srcInfo == nil {
 		srcInfo, _ = os.Stat(src) // nil on error
 	}
@@ -454,6 +458,26 @@ func (w *dirWriter) LinkFile(name, src string, srcInfo fs.FileInfo) error {
 		}
 		return nil
 	})
+}
+
+// KeptFile returns what is at name in the site now (not following a
+// link), when the last render wrote that file; else nil. Given back to
+// LinkFile as the source's information, it keeps the file where it is.
+func (w *dirWriter) KeptFile(name string) fs.FileInfo {
+	if !w.prev[name] {
+		return nil
+	}
+	st, err := os.Lstat(filepath.Join(w.site, filepath.FromSlash(name)))
+	if err != nil {
+		return nil
+	}
+	return keptInfo{st, name}
+}
+
+// keptInfo is what KeptFile found at name.
+type keptInfo struct {
+	fs.FileInfo
+	name string
 }
 
 // linkFile makes a hard link (a variable for the tests of copies).

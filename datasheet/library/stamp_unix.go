@@ -16,3 +16,13 @@ func sysStamp(fi fs.FileInfo) (Stamp, bool) {
 	}
 	return Stamp{Dev: uint64(st.Dev), Ino: uint64(st.Ino), Size: st.Size, ModTime: fi.ModTime().UnixNano(), Change: changeTime(st)}, true
 }
+
+// FileID returns the device and inode of fi, and false where the file
+// system gives none.
+func FileID(fi fs.FileInfo) (dev, ino uint64, ok bool) {
+	st, ok := fi.Sys().(*syscall.Stat_t)
+	if !ok {
+		return 0, 0, false
+	}
+	return uint64(st.Dev), uint64(st.Ino), true
+}

@@ -190,11 +190,13 @@ type kept struct {
 type cachedOverlay struct{ R, A spectra.Series }
 
 // cachedFile is a site file of an entry: its size and modification time
-// when it was stored, which must still hold when it is used.
+// when it was stored, which must still hold when it is used, and its
+// device and inode (zero where the file system gives none).
 type cachedFile struct {
-	Name    string
-	Size    int64
-	ModTime int64 // nanoseconds since 1970
+	Name     string
+	Size     int64
+	ModTime  int64 // nanoseconds since 1970
+	Dev, Ino uint64
 }
 
 // keyOf returns the cache key of material m, listed by comparisons cmps,
@@ -258,7 +260,7 @@ func (b *builder) memo(key string, out files, build func(files) error) error {
 	if c == nil || key == "" {
 		return build(out)
 	}
-	if e, paths, infos := c.get(key, b.lib); e != nil && e.Kept.Figures == nil && len(e.Kept.Inputs) == 0 {
+	if e, paths, infos := c.get(key, b.lib, b.kept); e != nil && e.Kept.Figures == nil && len(e.Kept.Inputs) == 0 {
 		b.take(e.Files, paths, infos)
 		return nil
 	}
@@ -284,7 +286,7 @@ func (b *builder) memoBytes(key string, build func() ([]byte, error)) ([]byte, e
 	if c == nil || key == "" {
 		return build()
 	}
-	if e, paths, _ := c.get(key, b.lib); e != nil && len(paths) == 1 && e.Files[0].Name == memoPart {
+	if e, paths, _ := c.get(key, b.lib, nil); e != nil && len(paths) == 1 && e.Files[0].Name == memoPart {
 		if data, err := os.ReadFile(paths[0]); err == nil && int64(len(data)) == e.Files[0].Size {
 			return data, nil
 		}
@@ -373,7 +375,7 @@ func (c *Cache) loadIndex() {
 // get returns the entry under key, checked: nil when there is none or it
 // is stale or one of its files was changed. The paths of its files, and
 // what Stat told of each, are those of e.Files.
-func (c *Cache) get(key string, lib *library.Library) (*entry, []string, []fs.FileInfo) {
+func (c *Cache) get(key string, lib *library.Library, kept func(name string) fs.FileInfo) (*entry, []string, []fs.FileInfo) {
 	c.loadIndex()
 	e := c.index[key]
 	if e == nil {
@@ -394,6 +396,10 @@ func (c *Cache) get(key string, lib *library.Library) (*entry, []string, []fs.Fi
 	infos := make([]fs.FileInfo, len(e.Files))
 	for i, f := range e.Files {
 		paths[i] = filepath.Join(dir, strconv.Itoa(i))
+		if st := keptCopy(kept, f); st != nil {
+			infos[i] = st
+			continue
+		}
 		st, err := os.Stat(paths[i])
 		if err != nil || !st.Mode().IsRegular() || st.Size() != f.Size || st.ModTime().UnixNano() != f.ModTime {
 			return nil, nil, nil
@@ -405,6 +411,23 @@ func (c *Cache) get(key string, lib *library.Library) (*entry, []string, []fs.Fi
 	c.changed = c.changed || renewed
 	c.mu.Unlock()
 	return e, paths, infos
+}
+
+// keptCopy returns what kept tells of the site file f, when that is the
+// cache's very copy of it as stored: the same device and inode, size and
+// modification time. Else nil.
+func keptCopy(kept func(name string) fs.FileInfo, f cachedFile) fs.FileInfo {
+	if kept == nil || f.Ino == 0 {
+		return nil
+	}
+	st := kept(f.Name)
+	if st == nil || !st.Mode().IsRegular() || st.Size() != f.Size || st.ModTime().UnixNano() != f.ModTime {
+		return nil
+	}
+	if dev, ino, ok := library.FileID(st); !ok || dev != f.Dev || ino != f.Ino {
+		return nil
+	}
+	return st
 }
 
 // hit counts a material taken from the cache.
@@ -457,6 +480,7 @@ func (c *Cache) write(key string, e *entry, fs files) ([]string, error) {
 			return nil, err
 		}
 		e.Files[i] = cachedFile{Name: n, Size: st.Size(), ModTime: st.ModTime().UnixNano()}
+		e.Files[i].Dev, e.Files[i].Ino, _ = library.FileID(st)
 	}
 	e.Key = key
 	dst := filepath.Join(base, key)

@@ -54,6 +54,16 @@ type Options struct {
 // is given the files the cache holds by the path of the cache's copy
 // (to link, or copy), rather than read into memory and written again;
 // srcInfo is that copy's, when the cache has just looked at it, else nil.
+// A Writer that keeps in place the files of the last render that it is
+// given again may also have the method
+//
+//	KeptFile(name string) fs.FileInfo
+//
+// returning what is at name now (not following a link), or nil when it
+// keeps no such file. When that is the very file of the cache (the same
+// device and inode, size and modification time as recorded), the cache
+// does not look at its own copy, and passes what KeptFile returned to
+// LinkFile as srcInfo.
 type Writer interface {
 	WriteFile(name string, data []byte) error
 }
@@ -61,6 +71,11 @@ type Writer interface {
 // linker is a Writer that can take a file from the cache's folder.
 type linker interface {
 	LinkFile(name, src string, srcInfo fs.FileInfo) error
+}
+
+// keeper is a Writer that tells the files of the last render it keeps.
+type keeper interface {
+	KeptFile(name string) fs.FileInfo
 }
 
 // Render evaluates every material of lib with [evaluate.Library] and writes
@@ -77,6 +92,9 @@ func Render(lib *library.Library, opt Options, out Writer) error {
 		return err
 	}
 	w := &serialWriter{out: out}
+	if k, ok := out.(keeper); ok {
+		b.kept = k.KeptFile
+	}
 	cmpOf := b.comparisonsOf()
 	eo := evaluate.Options{Workers: opt.Workers, Progress: opt.Progress}
 	if opt.Cache != nil {
@@ -227,6 +245,8 @@ type builder struct {
 	sums []*evaluate.Summary
 	// cacheBase is the part of every cache key that all materials share.
 	cacheBase string
+	// kept is the Writer's KeptFile, if it has one (see Cache.get).
+	kept func(name string) fs.FileInfo
 	// Guarded by mu: overlays keeps, for each material a comparison
 	// lists, what its overlay charts draw; keys, what identifies each
 	// cached material's summary, by slug (see setKey and pageKey; read-only
@@ -272,7 +292,7 @@ func (b *builder) reuse(m *library.Material, cmps []*library.Comparison, w *seri
 	if !ok {
 		return nil, nil
 	}
-	e, paths, infos := b.opt.Cache.get(key, b.lib)
+	e, paths, infos := b.opt.Cache.get(key, b.lib, b.kept)
 	if e == nil || (len(cmps) > 0) != (e.Kept.Overlay != nil) {
 		return nil, nil
 	}
