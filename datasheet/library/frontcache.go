@@ -179,7 +179,8 @@ func (c *FrontCache) parse(file string, yamlText []byte) (FrontMatter, frontPlac
 	}
 	fm, fp, err := parseFront(file, yamlText)
 	if err != nil || fm.Conditions.node != nil || !reflect.DeepEqual(keptFields(fm).front(), fm) {
-		// The last: a field of FrontMatter that frontFields misses.
+		// Not kept: front matter with errors, with conditions: (whose
+		// YAML node apply needs), or with a field frontFields misses.
 		return fm, fp, err
 	}
 	c.mu.Lock()
