@@ -658,11 +658,8 @@ func walkSlices(v reflect.Value, visit func(reflect.Value)) {
 			walkSlices(v.Elem(), visit)
 		}
 	case reflect.Struct:
-		t := v.Type()
-		for i := range t.NumField() {
-			if f := t.Field(i); f.IsExported() && holdsSlices(f.Type) {
-				walkSlices(v.Field(i), visit)
-			}
+		for _, i := range slicedFields(v.Type()) {
+			walkSlices(v.Field(i), visit)
 		}
 	case reflect.Slice:
 		visit(v)
@@ -694,6 +691,25 @@ func holdsSlices(t reflect.Type) bool {
 }
 
 var slicesByType sync.Map // reflect.Type → bool, see holdsSlices
+
+// slicedFields returns the numbers of the exported fields of the struct
+// type t that can hold a slice or map (see holdsSlices); known once per
+// type.
+func slicedFields(t reflect.Type) []int {
+	if v, ok := fieldsByType.Load(t); ok {
+		return v.([]int)
+	}
+	var fields []int
+	for i := range t.NumField() {
+		if f := t.Field(i); f.IsExported() && holdsSlices(f.Type) {
+			fields = append(fields, i)
+		}
+	}
+	fieldsByType.Store(t, fields)
+	return fields
+}
+
+var fieldsByType sync.Map // reflect.Type → []int, see slicedFields
 
 // typeHoldsSlices is holdsSlices without the memo; seen are the types
 // being looked at, whose every other path is looked at where they were
