@@ -299,19 +299,19 @@ func (b *builder) memoBytes(key string, build func() ([]byte, error)) ([]byte, e
 	return data, nil
 }
 
-// appendParts appends to dst the elements that elements makes of ms (JSON
-// separated by commas), pageRows materials at a time, each part kept in
-// the cache under the key of its materials and what (see memoBytes), and
-// the parts separated by commas.
-func (b *builder) appendParts(dst []byte, ms []*evaluate.Summary, what string, elements func([]*evaluate.Summary) ([]byte, error)) ([]byte, error) {
+// appendParts appends to dst what elements makes of ms, pageRows
+// materials at a time, the parts separated by sep; each part is kept in
+// the cache under the key of its materials, what, and where in ms it
+// starts (see memoBytes).
+func (b *builder) appendParts(dst []byte, ms []*evaluate.Summary, what, sep string, elements func([]*evaluate.Summary) ([]byte, error)) ([]byte, error) {
 	for lo := 0; lo < len(ms); lo += pageRows {
 		part := ms[lo:min(len(ms), lo+pageRows)]
-		data, err := b.memoBytes(b.pageKey(part, what), func() ([]byte, error) { return elements(part) })
+		data, err := b.memoBytes(b.pageKey(part, what, strconv.Itoa(lo)), func() ([]byte, error) { return elements(part) })
 		if err != nil {
 			return nil, err
 		}
 		if lo > 0 {
-			dst = append(dst, ',')
+			dst = append(dst, sep...)
 		}
 		dst = append(dst, data...)
 	}

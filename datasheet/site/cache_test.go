@@ -659,3 +659,36 @@ func TestCacheIndexKept(t *testing.T) {
 		t.Errorf("%d materials' entries, want %d", got, cacheable(t, dir))
 	}
 }
+
+// TestCachePartsShifted: the parts of files made of every material
+// (rows.js, materials.csv, catalog.json, search.js) are kept by where they
+// start too: a hundred materials put before all the others leave the
+// same hundreds of materials in parts that now start further on, whose
+// rows are numbered anew, not taken from the cache.
+func TestCachePartsShifted(t *testing.T) {
+	fsys := bigLibraryFS(t, 2*pageRows)
+	render := func(c *Cache) mapWriter {
+		t.Helper()
+		lib, err := library.Load(fsys)
+		if err != nil {
+			t.Fatal(err)
+		}
+		out := mapWriter{}
+		if err := Render(lib, Options{Version: "test", Cache: c}, out); err != nil {
+			t.Fatal(err)
+		}
+		if c != nil {
+			if err := c.Commit(); err != nil {
+				t.Fatal(err)
+			}
+		}
+		return out
+	}
+	cdir := t.TempDir()
+	render(openCache(t, cdir, "build-1"))
+	for i := range pageRows {
+		fsys[fmt.Sprintf("content/roof/a-%04d.md", i)] = &fstest.MapFile{Data: fmt.Appendf(nil,
+			"---\ntitle: Added panel %04d (invented)\nmaker: Invented Panels (invented)\ncategory: paint\nspectra:\n  - file: basalt-uvvis.csv\n  - file: basalt-ftir.csv\n---\nInvented.\n", i)}
+	}
+	sameFiles(t, render(openCache(t, cdir, "build-1")), render(nil))
+}

@@ -2,10 +2,12 @@ package site
 
 import (
 	"bytes"
+	"encoding/csv"
 	"encoding/json"
 	"fmt"
 	"os"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 	"testing/fstest"
@@ -162,6 +164,39 @@ func TestCatalogParts(t *testing.T) {
 		indented.WriteByte('\n')
 		if !bytes.Equal(got, indented.Bytes()) {
 			t.Errorf("%s: catalog.json is not indented as json.Indent indents it", name)
+		}
+		// The index's rows.js and materials.csv, made in parts the same way,
+		// are every row once, in index order, as json.Marshal and
+		// csv.Writer write the whole.
+		if js, ok := out[rowsScript]; ok || len(tc.lib.Materials) > pageRows {
+			_, js, _ = bytes.Cut(js, []byte("window.skysheetRows = "))
+			js, ok = bytes.CutSuffix(js, []byte(";\n"))
+			var rows [][]any
+			if err := json.Unmarshal(js, &rows); !ok || err != nil || len(rows) != len(tc.lib.Materials) {
+				t.Errorf("%s: %s holds %d rows (%v), want %d", name, rowsScript, len(rows), err, len(tc.lib.Materials))
+			}
+			for i, r := range rows {
+				if n, _ := r[0].(float64); int(n) != i+1 {
+					t.Fatalf("%s: %s row %d is numbered %v", name, rowsScript, i+1, r[0])
+				}
+			}
+			if whole, _ := json.Marshal(rows); !bytes.Equal(js, whole) {
+				t.Errorf("%s: %s is not the whole as json.Marshal writes it", name, rowsScript)
+			}
+		}
+		records, err := csv.NewReader(bytes.NewReader(out[tableCSVName])).ReadAll()
+		if err != nil || len(records) != len(tc.lib.Materials)+1 {
+			t.Fatalf("%s: %s: %d records (%v), want %d", name, tableCSVName, len(records), err, len(tc.lib.Materials)+1)
+		}
+		for i, r := range records[1:] {
+			if r[0] != strconv.Itoa(i+1) {
+				t.Fatalf("%s: %s line %d is numbered %s", name, tableCSVName, i+2, r[0])
+			}
+		}
+		var wholeCSV bytes.Buffer
+		csv.NewWriter(&wholeCSV).WriteAll(records)
+		if !bytes.Equal(out[tableCSVName], wholeCSV.Bytes()) {
+			t.Errorf("%s: %s is not the whole as csv.Writer writes it", name, tableCSVName)
 		}
 		if !tc.roundTrip {
 			continue

@@ -41,7 +41,7 @@ func init() {
 // the distinct words of the notes, in lower case. site.js loads it when
 // the search box is first used.
 func (b *builder) searchIndex() ([]byte, error) {
-	out, err := b.appendParts([]byte("window.skysheetSearchIndex = ["), b.sums, "search entries", searchEntries)
+	out, err := b.appendParts([]byte("window.skysheetSearchIndex = ["), b.sums, "search entries", ",", searchEntries)
 	if err != nil {
 		return nil, err
 	}

@@ -22,6 +22,15 @@ const tableCSVName = "materials.csv"
 // full precision, and the page of each material (an address when the site
 // has one, else a path from the site's root).
 func (b *builder) tableCSV(ms []*evaluate.Summary, numbers map[string]int) ([]byte, error) {
+	rows, err := b.csvRows(ms, numbers)
+	if err != nil {
+		return nil, err
+	}
+	return append(csvHead(), rows...), nil
+}
+
+// csvHead returns the first line of a materials.csv.
+func csvHead() []byte {
 	var buf bytes.Buffer
 	w := csv.NewWriter(&buf)
 	head := []string{"#", "material", "slug", "maker", "lab", "product_code", "category", "tags"}
@@ -33,6 +42,14 @@ func (b *builder) tableCSV(ms []*evaluate.Summary, numbers map[string]int) ([]by
 		head = append(head, col.Key+" ("+unit+")", col.Key+" u ("+unit+")")
 	}
 	w.Write(append(head, "page"))
+	w.Flush()
+	return buf.Bytes()
+}
+
+// csvRows returns the lines of a materials.csv for ms.
+func (b *builder) csvRows(ms []*evaluate.Summary, numbers map[string]int) ([]byte, error) {
+	var buf bytes.Buffer
+	w := csv.NewWriter(&buf)
 	for _, m := range ms {
 		fm := m.Front
 		r := []string{strconv.Itoa(numbers[m.Slug]), textCell(fm.Title), m.Slug, textCell(fm.Maker), textCell(fm.Lab),
@@ -49,6 +66,14 @@ func (b *builder) tableCSV(ms []*evaluate.Summary, numbers map[string]int) ([]by
 	}
 	w.Flush()
 	return buf.Bytes(), w.Error()
+}
+
+// indexCSV is tableCSV of the index's materials ms, its rows made in parts
+// kept in the cache (see appendParts).
+func (b *builder) indexCSV(ms []*evaluate.Summary, numbers map[string]int) ([]byte, error) {
+	return b.appendParts(csvHead(), ms, "materials.csv rows", "", func(part []*evaluate.Summary) ([]byte, error) {
+		return b.csvRows(part, numbers)
+	})
 }
 
 // textCell returns the text of a CSV cell so that a spreadsheet shows it
