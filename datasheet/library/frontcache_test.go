@@ -15,13 +15,20 @@ import (
 // cache as written and read back, as the next render finds it.
 func warmCache(t testing.TB, fsys fs.FS) *FrontCache {
 	t.Helper()
-	fc := NewFrontCache("build 1")
+	return ReadFrontCache(bytes.NewReader(filledCache(t, fsys, "build 1")))
+}
+
+// filledCache loads fsys through a new front matter cache of the given
+// build and returns what the cache writes.
+func filledCache(t testing.TB, fsys fs.FS, build string) []byte {
+	t.Helper()
+	fc := NewFrontCache(build)
 	LoadWith(fsys, fc)
 	var buf bytes.Buffer
 	if _, err := fc.WriteTo(&buf); err != nil {
 		t.Fatal(err)
 	}
-	return ReadFrontCache(&buf)
+	return buf.Bytes()
 }
 
 // sameLoad checks that loading fsys through fc gives the library and the
@@ -138,11 +145,7 @@ func TestFrontCacheDemo(t *testing.T) {
 func TestReadFrontCacheDamaged(t *testing.T) {
 	fsys := baseFS()
 	fsys["content/a.md"] = &fstest.MapFile{Data: []byte("---\ntitle: a\nmaker: m\nspectra:\n  - file: flat/solar.csv\n---\n")}
-	fc := NewFrontCache("b")
-	LoadWith(fsys, fc)
-	var buf bytes.Buffer
-	fc.WriteTo(&buf)
-	good := buf.Bytes()
+	good := filledCache(t, fsys, "b")
 	if n := len(ReadFrontCache(bytes.NewReader(good)).old); n != 1 {
 		t.Fatalf("the cache as written holds %d entries, want 1", n)
 	}

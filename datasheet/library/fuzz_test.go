@@ -70,14 +70,9 @@ func FuzzLoad(f *testing.F) {
 func FuzzReadFrontCache(f *testing.F) {
 	fsys := baseFS()
 	fsys["content/plain.md"] = &fstest.MapFile{Data: []byte("---\ntitle: p\nmaker: m\ntags: [a]\nspectra:\n  - file: flat/solar.csv\n---\n")}
-	fc := NewFrontCache("b")
-	LoadWith(fsys, fc)
-	var seed bytes.Buffer
-	if _, err := fc.WriteTo(&seed); err != nil {
-		f.Fatal(err)
-	}
-	f.Add(seed.Bytes())
-	f.Add(seed.Bytes()[:seed.Len()/2])
+	seed := filledCache(f, fsys, "b")
+	f.Add(seed)
+	f.Add(seed[:len(seed)/2])
 	f.Add([]byte(frontMagic))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		fc := ReadFrontCache(bytes.NewReader(data))

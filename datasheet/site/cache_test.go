@@ -498,6 +498,24 @@ func (w recordWriter) LinkFile(name, src string, _ fs.FileInfo) error {
 	return err
 }
 
+// renderCommit loads fsys and renders it into out with the cache c (nil:
+// none), then commits the cache.
+func renderCommit(t *testing.T, fsys fs.FS, c *Cache, out Writer) {
+	t.Helper()
+	lib, err := library.Load(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := Render(lib, Options{Version: "test", Cache: c}, out); err != nil {
+		t.Fatal(err)
+	}
+	if c != nil {
+		if err := c.Commit(); err != nil {
+			t.Fatal(err)
+		}
+	}
+}
+
 // TestCachePages checks that the pages that list materials (the pages of
 // the index after the first, the category and tag listings and their
 // tables as CSV) are taken from the cache when the materials they list
@@ -508,19 +526,8 @@ func TestCachePages(t *testing.T) {
 	fsys := bigLibraryFS(t, n)
 	render := func(c *Cache) recordWriter {
 		t.Helper()
-		lib, err := library.Load(fsys)
-		if err != nil {
-			t.Fatal(err)
-		}
 		out := recordWriter{mapWriter{}, map[string]string{}}
-		if err := Render(lib, Options{Version: "test", Cache: c}, out); err != nil {
-			t.Fatal(err)
-		}
-		if c != nil {
-			if err := c.Commit(); err != nil {
-				t.Fatal(err)
-			}
-		}
+		renderCommit(t, fsys, c, out)
 		return out
 	}
 	cdir := t.TempDir()
@@ -674,19 +681,8 @@ func TestCachePartsShifted(t *testing.T) {
 	fsys := bigLibraryFS(t, 2*pageRows)
 	render := func(c *Cache) mapWriter {
 		t.Helper()
-		lib, err := library.Load(fsys)
-		if err != nil {
-			t.Fatal(err)
-		}
 		out := mapWriter{}
-		if err := Render(lib, Options{Version: "test", Cache: c}, out); err != nil {
-			t.Fatal(err)
-		}
-		if c != nil {
-			if err := c.Commit(); err != nil {
-				t.Fatal(err)
-			}
-		}
+		renderCommit(t, fsys, c, out)
 		return out
 	}
 	cdir := t.TempDir()
