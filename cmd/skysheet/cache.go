@@ -93,12 +93,13 @@ func frontCacheOf(absDir string) *library.FrontCache {
 	return library.NewFrontCache(build)
 }
 
-// writeFrontCache writes fc at name (see writeCacheFile).
+// writeFrontCache writes fc at name, through a temporary file, not synced
+// (see writeThrough).
 func writeFrontCache(name string, fc *library.FrontCache) error {
-	return writeCacheFile(name, func(w io.Writer) error {
+	return writeThrough(name, func(w io.Writer) error {
 		_, err := fc.WriteTo(w)
 		return err
-	})
+	}, false)
 }
 
 var (
@@ -167,32 +168,10 @@ func executableSum(exe, memo string, now time.Time) (string, error) {
 	sum := hex.EncodeToString(h.Sum(nil))
 	if stamped {
 		// A memo not written: the executable is read again next time.
-		writeCacheFile(memo, func(w io.Writer) error {
+		writeThrough(memo, func(w io.Writer) error {
 			_, err := io.WriteString(w, head+sum+"\n")
 			return err
-		})
+		}, false)
 	}
 	return sum, nil
-}
-
-// writeCacheFile writes the file name of the cache folder, which must
-// exist, through a temporary file renamed over it. It is not synced: a
-// cache file damaged by a crash is detected and ignored.
-func writeCacheFile(name string, write func(io.Writer) error) error {
-	f, err := os.CreateTemp(filepath.Dir(name), "."+filepath.Base(name)+"-*")
-	if err != nil {
-		return err
-	}
-	defer os.Remove(f.Name()) // a no-op once renamed
-	err = write(f)
-	if cerr := f.Close(); err == nil {
-		err = cerr
-	}
-	if err == nil {
-		err = os.Chmod(f.Name(), 0o644)
-	}
-	if err != nil {
-		return err
-	}
-	return os.Rename(f.Name(), name)
 }

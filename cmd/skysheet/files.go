@@ -349,7 +349,14 @@ func (f *limitedFile) Read(p []byte) (int, error) {
 // is synced. On any failure (a full disk, a failed write) the temporary file
 // is removed and name keeps its old content or stays absent. A symbolic link
 // at name is replaced, not written through.
-func writeFileAtomic(name string, write func(w io.Writer) error) (err error) {
+func writeFileAtomic(name string, write func(w io.Writer) error) error {
+	return writeThrough(name, write, true)
+}
+
+// writeThrough is writeFileAtomic, syncing the file and folder only when
+// sync is set (a cache file damaged by a crash is detected and ignored,
+// so it need not pay for a sync).
+func writeThrough(name string, write func(w io.Writer) error, sync bool) (err error) {
 	dir := filepath.Dir(name)
 	tmp, err := os.CreateTemp(dir, "."+filepath.Base(name)+".tmp-*")
 	if err != nil {
@@ -367,8 +374,10 @@ func writeFileAtomic(name string, write func(w io.Writer) error) (err error) {
 	if err := tmp.Chmod(0o644); err != nil {
 		return err
 	}
-	if err := tmp.Sync(); err != nil {
-		return fmt.Errorf("writing %s: %w", name, err)
+	if sync {
+		if err := tmp.Sync(); err != nil {
+			return fmt.Errorf("writing %s: %w", name, err)
+		}
 	}
 	if err := tmp.Close(); err != nil {
 		return fmt.Errorf("writing %s: %w", name, err)
@@ -376,7 +385,9 @@ func writeFileAtomic(name string, write func(w io.Writer) error) (err error) {
 	if err := os.Rename(tmp.Name(), name); err != nil {
 		return err
 	}
-	syncDir(dir)
+	if sync {
+		syncDir(dir)
+	}
 	return nil
 }
 
