@@ -745,11 +745,7 @@ func (b *builder) rowsScript(ms []*evaluate.Summary, numbers map[string]int) ([]
 			}
 			rows = append(rows, x)
 		}
-		data, err := json.Marshal(rows)
-		if err != nil {
-			return nil, err
-		}
-		return data[1 : len(data)-1], nil // without "[" and "]"
+		return jsonElements(rows)
 	})
 	if err != nil {
 		return nil, err
@@ -1017,11 +1013,7 @@ func (b *builder) catalogEntries(ms []*evaluate.Summary) ([]byte, error) {
 	for _, m := range ms {
 		es = append(es, catalogEntryOf(m))
 	}
-	data, err := json.Marshal(es)
-	if err != nil {
-		return nil, err
-	}
-	return data[1 : len(data)-1], nil // without the brackets
+	return jsonElements(es)
 }
 
 // catalogEntryOf returns the catalog.json entry of m.

@@ -49,19 +49,23 @@ func (b *builder) searchIndex() ([]byte, error) {
 }
 
 // searchEntries returns the search index entries of ms as JSON, separated
-// by commas, as json.Encoder writes them (escaping <, > and &: safe in a
-// script).
+// by commas (json.Marshal escapes <, > and &: safe in a script).
 func searchEntries(ms []*evaluate.Summary) ([]byte, error) {
 	entries := make([][4]string, 0, len(ms))
 	for _, m := range ms {
 		entries = append(entries, searchEntry(m))
 	}
-	var buf bytes.Buffer
-	if err := json.NewEncoder(&buf).Encode(entries); err != nil {
+	return jsonElements(entries)
+}
+
+// jsonElements returns the JSON of the slice v without its brackets: its
+// elements separated by commas, a part of a longer array.
+func jsonElements[T any](v []T) ([]byte, error) {
+	data, err := json.Marshal(v)
+	if err != nil {
 		return nil, err
 	}
-	data := buf.Bytes()
-	return data[1 : len(data)-2], nil // without "[" and "]\n"
+	return data[1 : len(data)-1], nil
 }
 
 // searchEntry is one material's entry of the search index.
