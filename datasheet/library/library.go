@@ -268,13 +268,14 @@ func LoadWith(fsys fs.FS, fc *FrontCache) (*Library, error) {
 
 	files, listed, err := contentFiles(fsys)
 	add(err)
+	base := doc{offset: 1, fsys: fsys, seen: lib.seen, listed: listed} // each file's, but for its name
 	results := make([]fileResult, len(files))
 	var wg sync.WaitGroup
 	next := make(chan int)
 	for range min(runtime.GOMAXPROCS(0), max(len(files), 1)) {
 		wg.Go(func() {
 			for i := range next {
-				results[i] = readFile(fsys, files[i], lib.Config, lib.seen, listed, fc)
+				results[i] = readFile(base, files[i], lib.Config, fc)
 			}
 		})
 	}
@@ -536,11 +537,12 @@ type fileResult struct {
 }
 
 // readFile reads one content file, its front matter through fc (see
-// FrontCache.parse); what it learns of the spectrum files named goes into
-// seen (see Library.seen). Listed are the regular files contentFiles met.
-func readFile(fsys fs.FS, file string, cfg Config, seen *sync.Map, listed map[string]fs.DirEntry, fc *FrontCache) fileResult {
+// FrontCache.parse). Base is the file's doc but for the file's name: what
+// it learns of the spectrum files named goes into base.seen (see
+// Library.seen).
+func readFile(base doc, file string, cfg Config, fc *FrontCache) fileResult {
 	var r fileResult
-	src, err := fs.ReadFile(fsys, file)
+	src, err := fs.ReadFile(base.fsys, file)
 	if err != nil {
 		r.err = &Error{File: file, Err: err}
 		return r
@@ -565,7 +567,8 @@ func readFile(fsys fs.FS, file string, cfg Config, seen *sync.Map, listed map[st
 	}
 	var errs Errors
 	errs = append(errs, bodyBlanks(file, body, bodyLine)...)
-	d := doc{file: file, offset: 1}
+	d := base
+	d.file = file
 	r.slugLine = fp.Slug.Line
 	if fm.Slug == "" {
 		r.slug = Slugify(strings.TrimSuffix(path.Base(file), path.Ext(file)))
@@ -596,7 +599,6 @@ func readFile(fsys fs.FS, file string, cfg Config, seen *sync.Map, listed map[st
 	}
 	m := &Material{Path: file, Slug: r.slug, Front: fm, Body: body, BodyLine: bodyLine, Source: src,
 		Input: hashInput(file, src), spectraLine: fp.Spectra.Line}
-	d.fsys, d.seen, d.listed = fsys, seen, listed
 	m.Conditions, m.files, err = d.apply(fm.Conditions, cfg.Conditions)
 	if err != nil {
 		errs = append(errs, err)
