@@ -61,22 +61,28 @@ func wearing(lib *library.Library) *wearPlan {
 	return p
 }
 
-// opticsOf returns the resolved optics of lm: of a measured sample read
-// and resolved without computing its figures (the library's own pass
-// computes those), of a stack through its evaluation.
+// opticsOf returns the resolved optics of lm (see [Optics]).
 func opticsOf(lib *library.Library, lm *library.Material) (spectra.Optics, error) {
+	o, _, err := Optics(lib, lm)
+	return o, err
+}
+
+// Optics reads the files of lm and returns its resolved optics, as its
+// evaluation resolves them, and the files read; a measured sample's
+// figures are not computed (a stack's are: its optics come from them).
+func Optics(lib *library.Library, lm *library.Material) (spectra.Optics, []library.Input, error) {
 	if lm.Stack != nil {
 		m, err := evaluate(lib, lm)
 		if err != nil {
-			return spectra.Optics{}, err
+			return spectra.Optics{}, nil, err
 		}
-		return m.Optics, nil
+		return m.Optics, m.Inputs, nil
 	}
-	s, _, err := lib.ReadSample(lm)
+	s, inputs, err := lib.ReadSample(lm)
 	if err != nil {
-		return spectra.Optics{}, err
+		return spectra.Optics{}, nil, err
 	}
-	return spectra.Resolve(s, lm.Conditions.ClosureTol), nil
+	return spectra.Resolve(s, lm.Conditions.ClosureTol), inputs, nil
 }
 
 // of returns m's figures as a textile in each comparison that asks for

@@ -25,7 +25,6 @@ import (
 	"skysheet/datasheet"
 	"skysheet/datasheet/evaluate"
 	"skysheet/datasheet/library"
-	"skysheet/spectra"
 	"skysheet/templates"
 )
 
@@ -178,16 +177,15 @@ type entry struct {
 	Empty []int
 }
 
-// kept is the summary of a material, and what comparisons draw of it.
+// kept is the summary of a material. What a comparison draws of it is not
+// kept: a comparison page made afresh reads its materials' files again
+// (see builder.overlayOf).
 type kept struct {
 	Inputs   []library.Input
 	Figures  *datasheet.Figures
 	Verdicts []datasheet.Verdict
 	Warnings []string
-	Overlay  *cachedOverlay // nil when no comparison lists the material
 }
-
-type cachedOverlay struct{ R, A spectra.Series }
 
 // cachedFile is a site file of an entry: its size and modification time
 // when it was stored, which must still hold when it is used, and its

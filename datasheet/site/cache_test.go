@@ -14,6 +14,7 @@ import (
 	"testing/fstest"
 	"time"
 
+	"skysheet/datasheet/evaluate"
 	"skysheet/datasheet/library"
 )
 
@@ -692,4 +693,79 @@ func TestCachePartsShifted(t *testing.T) {
 			"---\ntitle: Added panel %04d (invented)\nmaker: Invented Panels (invented)\ncategory: paint\nspectra:\n  - file: basalt-uvvis.csv\n  - file: basalt-ftir.csv\n---\nInvented.\n", i)}
 	}
 	sameFiles(t, render(openCache(t, cdir, "build-1")), render(nil))
+}
+
+// TestCacheComparisons checks that a comparison page is taken from the
+// cache while its Markdown file and materials are unchanged, and made
+// afresh, as a render without cache makes it, when one of its materials
+// changed: the charts then draw the others from their files read again.
+// A comparison against a reference or over skin is made afresh each time.
+func TestCacheComparisons(t *testing.T) {
+	dir := copyDemo(t)
+	render := func(c *Cache) recordWriter {
+		t.Helper()
+		out := recordWriter{mapWriter{}, map[string]string{}}
+		renderCommit(t, os.DirFS(dir), c, out)
+		return out
+	}
+	cdir := t.TempDir()
+	cold := render(openCache(t, cdir, "build-1"))
+	sameFiles(t, cold.mapWriter, render(nil).mapWriter)
+
+	// tc-31 is in "cool-colours" only, beside tr-30, sg-12 and dg-40.
+	p := filepath.Join(dir, "content/paints/tc-31/uvvis.csv")
+	data, err := os.ReadFile(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	changed := bytes.Replace(data, []byte("\n1000,0.4241\n"), []byte("\n1000,0.4300\n"), 1)
+	if bytes.Equal(changed, data) {
+		t.Fatal("tc-31: the line to change is not in the file")
+	}
+	if err := os.WriteFile(p, changed, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	warm := render(openCache(t, cdir, "build-1"))
+	sameFiles(t, warm.mapWriter, render(nil).mapWriter)
+	for name, want := range map[string]bool{
+		"compare/cool-colours/index.html":        false, // lists tc-31
+		"compare/white-roof-surfaces/index.html": true,
+		"compare/covered-emitter/index.html":     true,
+		"compare/textiles-over-skin/index.html":  false, // a reference and skin: never kept
+	} {
+		if _, ok := warm.mapWriter[name]; !ok {
+			t.Errorf("%s: not in the site", name)
+		} else if got := warm.src[name] != "" && warm.src[name] == cold.src[name]; got != want {
+			t.Errorf("%s: taken from the cache %v, want %v", name, got, want)
+		}
+	}
+}
+
+// TestOverlayOfChangedFiles checks that a material taken from the cache
+// whose files changed since (the summary's SHA-256 no longer theirs) is
+// not drawn on a comparison: the render stops and says why.
+func TestOverlayOfChangedFiles(t *testing.T) {
+	lib, err := library.Load(os.DirFS("../.."))
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := newBuilder(lib, Options{Version: "test"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := lib.Materials[slices.IndexFunc(lib.Materials, func(m *library.Material) bool { return m.Slug == "tc-31" })]
+	s := &evaluate.Summary{Material: m, Inputs: []library.Input{{Path: "content/paints/tc-31/uvvis.csv", SHA256: "0"}}}
+	_, err = b.overlayOf(s)
+	if err == nil || !strings.Contains(err.Error(), "tc-31.md") || !strings.Contains(err.Error(), "changed while the site was rendered") {
+		t.Errorf("overlayOf with a stale summary: %v, want an error naming tc-31.md and the change", err)
+	}
+	// With the summary's inputs those of the files, it draws them.
+	_, inputs, err := evaluate.Optics(lib, m)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s.Inputs = inputs
+	if o, err := b.overlayOf(s); err != nil || o.r.Empty() || o.a.Empty() {
+		t.Errorf("overlayOf: %v, reflectance empty %v, emittance empty %v", err, o.r.Empty(), o.a.Empty())
+	}
 }

@@ -2,6 +2,8 @@ package site
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -792,8 +794,27 @@ func (b *builder) listingFiles(kind, slug, name string, members []*evaluate.Summ
 	return nil
 }
 
-// comparisonFiles renders a comparison page.
+// comparisonFiles renders a comparison page, or takes it from the cache
+// while its Markdown file and materials are unchanged.
 func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
+	bySlug := map[string]*evaluate.Summary{}
+	for _, m := range b.sums {
+		bySlug[m.Slug] = m
+	}
+	var ms []*evaluate.Summary
+	for _, x := range c.Materials {
+		if m := bySlug[x.Slug]; m != nil {
+			ms = append(ms, m)
+		}
+	}
+	sum := sha256.Sum256(c.Source)
+	return b.memo(b.pageKey(ms, "comparison", c.Path, hex.EncodeToString(sum[:])), out, func(out files) error {
+		return b.comparisonPage(c, ms, out)
+	})
+}
+
+// comparisonPage renders the page of comparison c of materials ms.
+func (b *builder) comparisonPage(c *library.Comparison, ms []*evaluate.Summary, out files) error {
 	name := "compare/" + c.Slug + "/index.html"
 	fail := func(err error) error { return &library.Error{File: c.Path, Err: fmt.Errorf("page %s: %w", name, err)} }
 	p := b.newPage("compare", c.Front.Title, name)
@@ -803,16 +824,10 @@ func (b *builder) comparisonFiles(c *library.Comparison, out files) error {
 		return fail(err)
 	}
 	v.Body = body
-	bySlug := map[string]*evaluate.Summary{}
-	for _, m := range b.sums {
-		bySlug[m.Slug] = m
-	}
-	var ms []*evaluate.Summary
-	var overlays []overlay
-	for _, x := range c.Materials {
-		if m := bySlug[x.Slug]; m != nil {
-			ms = append(ms, m)
-			overlays = append(overlays, b.overlays[x.Slug])
+	overlays := make([]overlay, len(ms))
+	for i, m := range ms {
+		if overlays[i], err = b.overlayOf(m); err != nil {
+			return err
 		}
 	}
 	if v.Charts, err = compareCharts(ms, overlays); err != nil {

@@ -1,16 +1,19 @@
 package site
 
 import (
+	"errors"
 	"fmt"
 	"html/template"
 	"math"
 	"reflect"
+	"slices"
 	"strconv"
 	"strings"
 	"sync"
 
 	"skysheet/datasheet"
 	"skysheet/datasheet/evaluate"
+	"skysheet/datasheet/library"
 	"skysheet/spectra"
 )
 
@@ -301,13 +304,6 @@ func coolingChart(f *datasheet.Figures) (*chartView, error) {
 // resolved reflectance and emittance.
 type overlay struct{ r, a spectra.Series }
 
-// keepOverlay keeps what the comparison charts draw of m.
-// It returns the same for the cache.
-func (b *builder) keepOverlay(m *evaluate.Material) *cachedOverlay {
-	b.setOverlay(m.Slug, overlay{r: m.Optics.R, a: m.Optics.A})
-	return &cachedOverlay{R: m.Optics.R, A: m.Optics.A}
-}
-
 // setOverlay keeps o as what the comparison charts draw of material slug.
 func (b *builder) setOverlay(slug string, o overlay) {
 	b.mu.Lock()
@@ -316,6 +312,29 @@ func (b *builder) setOverlay(slug string, o overlay) {
 		b.overlays = map[string]overlay{}
 	}
 	b.overlays[slug] = o
+}
+
+// overlayOf returns what the comparison charts draw of m: what its
+// evaluation in this render kept (see setOverlay), or, for a material
+// taken from the cache, its files read and resolved again, which must be
+// those its summary rests on.
+func (b *builder) overlayOf(m *evaluate.Summary) (overlay, error) {
+	b.mu.Lock()
+	o, ok := b.overlays[m.Slug]
+	b.mu.Unlock()
+	if ok {
+		return o, nil
+	}
+	optics, inputs, err := evaluate.Optics(b.lib, m.Material)
+	if err != nil {
+		return overlay{}, err
+	}
+	if !slices.Equal(inputs, m.Inputs) {
+		return overlay{}, &library.Error{File: m.Path, Err: errors.New("its files changed while the site was rendered: render again")}
+	}
+	o = overlay{r: optics.R, a: optics.A}
+	b.setOverlay(m.Slug, o)
+	return o, nil
 }
 
 // compareCharts overlays the reflectance (solar range) and emittance

@@ -108,9 +108,8 @@ func Render(lib *library.Library, opt Options, out Writer) error {
 		if err != nil {
 			return err
 		}
-		var ov *cachedOverlay
 		if len(cmps) > 0 {
-			ov = b.keepOverlay(m)
+			b.setOverlay(m.Slug, overlay{r: m.Optics.R, a: m.Optics.A})
 		}
 		// What stays of the material is what the later pages show.
 		m.Figures = keptFigures(m.Figures, len(cmps) > 0)
@@ -118,7 +117,7 @@ func Render(lib *library.Library, opt Options, out Writer) error {
 			if key, ok := b.keyOf(m.Material, cmps); ok {
 				s := m.Kept()
 				b.setKey(m.Slug, key, s.Inputs)
-				e := &entry{Kept: kept{Inputs: s.Inputs, Figures: s.Figures, Verdicts: s.Verdicts, Warnings: s.Warnings, Overlay: ov}}
+				e := &entry{Kept: kept{Inputs: s.Inputs, Figures: s.Figures, Verdicts: s.Verdicts, Warnings: s.Warnings}}
 				if paths, ok := opt.Cache.put(key, e, lib, files); ok {
 					return w.takeAll(e.Files, paths, nil, files)
 				}
@@ -293,7 +292,7 @@ func (b *builder) reuse(m *library.Material, cmps []*library.Comparison, w *seri
 		return nil, nil
 	}
 	e, paths, infos := b.opt.Cache.get(key, b.lib, b.kept)
-	if e == nil || (len(cmps) > 0) != (e.Kept.Overlay != nil) {
+	if e == nil {
 		return nil, nil
 	}
 	if err := w.takeAll(e.Files, paths, infos, nil); err != nil {
@@ -301,9 +300,6 @@ func (b *builder) reuse(m *library.Material, cmps []*library.Comparison, w *seri
 	}
 	b.opt.Cache.hit()
 	b.setKey(m.Slug, key, e.Kept.Inputs)
-	if o := e.Kept.Overlay; o != nil {
-		b.setOverlay(m.Slug, overlay{r: o.R, a: o.A})
-	}
 	return cachedSummary(m, e), nil
 }
 
