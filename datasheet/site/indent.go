@@ -18,13 +18,26 @@ func marshalIndent(v any) ([]byte, error) {
 // "  ") indents it: each element on a line of its own, two spaces a level,
 // ": " after a key, and empty objects and arrays kept as {} and [].
 func indentJSON(dst, src []byte) []byte {
+	var in indenter
+	return in.indent(dst, src)
+}
+
+// indenter is indentJSON fed a document in pieces: where it stands after
+// the last piece.
+type indenter struct {
+	depth                   int
+	open, inString, escaped bool
+}
+
+// indent appends src, the next piece of the document, indented.
+func (in *indenter) indent(dst, src []byte) []byte {
 	newline := func(depth int) {
 		dst = append(dst, '\n')
 		for range depth {
 			dst = append(dst, ' ', ' ')
 		}
 	}
-	depth, open, inString, escaped := 0, false, false, false
+	depth, open, inString, escaped := in.depth, in.open, in.inString, in.escaped
 	for _, c := range src {
 		if inString {
 			dst = append(dst, c)
@@ -68,5 +81,6 @@ func indentJSON(dst, src []byte) []byte {
 			dst = append(dst, c)
 		}
 	}
+	in.depth, in.open, in.inString, in.escaped = depth, open, inString, escaped
 	return dst
 }

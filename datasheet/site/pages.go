@@ -1011,13 +1011,27 @@ func (b *builder) catalog(ms []*evaluate.Summary) ([]byte, error) {
 		return nil, errors.New(`no "materials" in the catalog`)
 	}
 	at += len(`"materials":[`)
-	compact := append(make([]byte, 0, len(doc)+len(ms)*4096), doc[:at]...)
-	compact, err = b.appendParts(compact, ms, "catalog entries", ",", b.catalogEntries)
-	if err != nil {
-		return nil, err
+	var in indenter
+	out := in.indent(make([]byte, 0, len(doc)+len(ms)*4096), doc[:at])
+	if len(ms) > 0 {
+		// The entries stand two levels down, where indenter puts the
+		// first of them on a new line and separates them by a comma and a
+		// new line; each part is kept indented from there.
+		out = append(out, "\n    "...)
+		in = indenter{depth: 2}
+		out, err = b.appendParts(out, ms, "catalog entries, indented", ",\n    ", func(ms []*evaluate.Summary) ([]byte, error) {
+			entries, err := b.catalogEntries(ms)
+			if err != nil {
+				return nil, err
+			}
+			part := indenter{depth: 2}
+			return part.indent(make([]byte, 0, len(entries)+len(entries)/2), entries), nil
+		})
+		if err != nil {
+			return nil, err
+		}
 	}
-	compact = append(compact, doc[at:]...)
-	out := indentJSON(make([]byte, 0, len(compact)+len(compact)/2), compact)
+	out = in.indent(out, doc[at:])
 	return append(out, '\n'), nil
 }
 
