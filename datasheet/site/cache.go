@@ -50,12 +50,18 @@ type Cache struct {
 	dir   string // entries are dir/cacheVersion/KEY/, the index dir/cacheVersion/index
 	build string
 
-	load  sync.Once
-	index map[string]*entry // the entries of the last render, by key
+	// Read once: the entries of the last render by key (index), those of
+	// them in the index file itself (indexed; the others come from its
+	// journal) and the SHA-256 of that file (nil when none was read).
+	load    sync.Once
+	index   map[string]*entry
+	indexed map[string]*entry
+	sum     []byte
 
 	mu      sync.Mutex
 	next    map[string]*entry // entries read or written by this render
 	changed bool              // an entry of next differs from the index's
+	renewed map[string]bool   // entries of the index whose stamps get renewed
 	hits    int
 	errors  []error // entries that could not be written
 }
@@ -64,9 +70,12 @@ const (
 	// cacheVersion names the folder of entries in this format; a change
 	// of format changes it, and Commit removes the older folders.
 	cacheVersion = "v1"
-	// indexMagic starts the index.
-	indexMagic = "skysheet render cache index 1\n"
-	indexFile  = "index"
+	// indexMagic starts the index, journalMagic the journal of changes
+	// written on it (see writeJournal).
+	indexMagic   = "skysheet render cache index 1\n"
+	indexFile    = "index"
+	journalMagic = "skysheet render cache journal 1\n"
+	journalFile  = "journal"
 )
 
 // OpenCache opens the cache in dir, creating it when missing. Build
@@ -128,7 +137,7 @@ func (c *Cache) Commit() error {
 	// that put did not add to, whose stamps get did not renew and whose
 	// every entry this render used is the one on disk.
 	if c.changed || len(c.next) != len(c.index) {
-		if err := writeIndex(base, c.build, c.next); err != nil {
+		if err := c.writeIndex(base); err != nil {
 			return err
 		}
 	}
@@ -153,6 +162,37 @@ func (c *Cache) Commit() error {
 	}
 	return errors.Join(errs...)
 }
+
+// writeIndex records the entries of this render in folder base: as a
+// journal on the index file read, while the changes from it are few (see
+// journalLimit), else as a new index file.
+func (c *Cache) writeIndex(base string) error {
+	if c.sum != nil {
+		var puts []*entry
+		for _, k := range slices.Sorted(maps.Keys(c.next)) {
+			if e := c.next[k]; c.indexed[k] != e || c.renewed[k] {
+				puts = append(puts, e)
+			}
+		}
+		var drops []string
+		for _, k := range slices.Sorted(maps.Keys(c.indexed)) {
+			if _, ok := c.next[k]; !ok {
+				drops = append(drops, k)
+			}
+		}
+		if len(puts)+len(drops) <= journalLimit(len(c.next)) {
+			return writeJournal(base, journalHead{Build: c.build, Index: c.sum}, puts, drops)
+		}
+	}
+	_, err := writeIndex(base, c.build, c.next)
+	return err
+}
+
+// journalLimit is the most changes a journal holds on an index of about n
+// entries: an eighth of them, at least 64. A render that would go beyond
+// writes a new index instead. (Common practice, no source: a journal
+// kept small against the file it changes.)
+func journalLimit(n int) int { return max(64, n/8) }
 
 // isFormatFolder reports whether name is that of a folder of entries of
 // some format: "v" and a number.
@@ -367,7 +407,7 @@ func cacheBaseOf(c *Cache, opt Options, cfg library.Config) (string, error) {
 func (c *Cache) Prefetch() { go c.loadIndex() }
 
 func (c *Cache) loadIndex() {
-	c.load.Do(func() { c.index = readIndex(filepath.Join(c.dir, cacheVersion), c.build) })
+	c.load.Do(func() { c.index, c.indexed, c.sum = readIndex(filepath.Join(c.dir, cacheVersion), c.build) })
 }
 
 // get returns the entry under key, checked: nil when there is none or it
@@ -406,7 +446,13 @@ func (c *Cache) get(key string, lib *library.Library, kept func(name string) fs.
 	}
 	c.mu.Lock()
 	c.next[key] = e
-	c.changed = c.changed || renewed
+	if renewed {
+		c.changed = true
+		if c.renewed == nil {
+			c.renewed = map[string]bool{}
+		}
+		c.renewed[key] = true
+	}
 	c.mu.Unlock()
 	return e, paths, infos
 }
@@ -503,31 +549,80 @@ func (c *Cache) write(key string, e *entry, fs files) ([]string, error) {
 // writeIndex writes the index of entries es into folder base, through a
 // temporary file: the magic line, then a gob stream of the build, the
 // number of entries and each entry in key order, then the SHA-256 of the
-// stream.
-func writeIndex(base, build string, es map[string]*entry) error {
-	f, err := os.CreateTemp(base, ".index-")
+// stream, which it returns. The journal written on an earlier index is
+// removed.
+func writeIndex(base, build string, es map[string]*entry) ([]byte, error) {
+	sum, err := writeStream(base, indexFile, indexMagic, func(enc *gob.Encoder) error {
+		keys := slices.Sorted(maps.Keys(es))
+		if err := enc.Encode(indexHead{Build: build, Entries: len(keys)}); err != nil {
+			return err
+		}
+		for _, k := range keys {
+			if err := enc.Encode(es[k]); err != nil {
+				return err
+			}
+		}
+		return nil
+	})
 	if err != nil {
-		return err
+		return nil, err
+	}
+	if err := os.Remove(filepath.Join(base, journalFile)); err != nil && !errors.Is(err, fs.ErrNotExist) {
+		return nil, err
+	}
+	return sum, nil
+}
+
+// writeJournal writes into folder base the journal of the changes from
+// the index whose SHA-256 is indexSum to entries es: the entries of es
+// that are not the index's (puts), and the keys of the index's entries
+// not in es (drops). The journal is written whole each time, through a
+// temporary file, as the index is: the magic line, then a gob stream of
+// its head, each entry put in key order and the keys dropped, then the
+// SHA-256 of the stream.
+func writeJournal(base string, head journalHead, puts []*entry, drops []string) error {
+	head.Puts, head.Drops = len(puts), len(drops)
+	_, err := writeStream(base, journalFile, journalMagic, func(enc *gob.Encoder) error {
+		if err := enc.Encode(head); err != nil {
+			return err
+		}
+		for _, e := range puts {
+			if err := enc.Encode(e); err != nil {
+				return err
+			}
+		}
+		return enc.Encode(drops)
+	})
+	return err
+}
+
+// journalHead starts the journal.
+type journalHead struct {
+	Build       string
+	Index       []byte // the SHA-256 of the index the journal changes
+	Puts, Drops int
+}
+
+// writeStream writes the file name into folder base through a temporary
+// file: magic, then what write encodes, then the SHA-256 of the encoded
+// stream, which it returns.
+func writeStream(base, name, magic string, write func(*gob.Encoder) error) ([]byte, error) {
+	f, err := os.CreateTemp(base, "."+name+"-")
+	if err != nil {
+		return nil, err
 	}
 	defer os.Remove(f.Name()) // a no-op once renamed
 	if err := f.Chmod(0o644); err != nil {
 		f.Close()
-		return err
+		return nil, err
 	}
 	w := bufio.NewWriter(f)
-	w.WriteString(indexMagic)
+	w.WriteString(magic)
 	h := sha256.New()
-	enc := gob.NewEncoder(io.MultiWriter(w, h))
-	keys := slices.Sorted(maps.Keys(es))
-	err = enc.Encode(indexHead{Build: build, Entries: len(keys)})
-	for _, k := range keys {
-		if err != nil {
-			break
-		}
-		err = enc.Encode(es[k])
-	}
+	err = write(gob.NewEncoder(io.MultiWriter(w, h)))
+	sum := h.Sum(nil)
 	if err == nil {
-		_, err = w.Write(h.Sum(nil))
+		_, err = w.Write(sum)
 	}
 	if err == nil {
 		err = w.Flush()
@@ -536,9 +631,9 @@ func writeIndex(base, build string, es map[string]*entry) error {
 		err = cerr
 	}
 	if err != nil {
-		return err
+		return nil, err
 	}
-	return os.Rename(f.Name(), filepath.Join(base, indexFile))
+	return sum, os.Rename(f.Name(), filepath.Join(base, name))
 }
 
 // indexHead starts the index.
@@ -547,44 +642,110 @@ type indexHead struct {
 	Entries int
 }
 
-// readIndex reads the index that writeIndex wrote in folder base. An index
-// that is missing, of another build, truncated or corrupt gives none.
-func readIndex(base, build string) map[string]*entry {
-	f, err := os.Open(filepath.Join(base, indexFile))
-	if err != nil {
+// readIndex reads the index that writeIndex wrote in folder base, with
+// the changes of the journal written on it (see writeJournal). It
+// returns the entries, those of the index alone, and the index's
+// SHA-256. An index that is missing, of another build, truncated or
+// corrupt gives none, as does a journal on it that is of another build,
+// truncated or corrupt; a journal on another index (an earlier one, left
+// by a render stopped as it replaced the index) is not read.
+func readIndex(base, build string) (es, indexed map[string]*entry, sum []byte) {
+	var head indexHead
+	sum, err := readStream(base, indexFile, indexMagic, func(dec *gob.Decoder) error {
+		if err := dec.Decode(&head); err != nil {
+			return err
+		}
+		if head.Build != build || head.Entries < 0 {
+			return errors.New("another build's index")
+		}
+		indexed = make(map[string]*entry, min(head.Entries, 1<<16))
+		for range head.Entries {
+			e := new(entry)
+			if err := dec.Decode(e); err != nil {
+				return err
+			}
+			restoreEmpty(e)
+			indexed[e.Key] = e
+		}
 		return nil
+	})
+	if err != nil {
+		return nil, nil, nil
+	}
+	es = maps.Clone(indexed)
+	var jh journalHead
+	_, err = readStream(base, journalFile, journalMagic, func(dec *gob.Decoder) error {
+		if err := dec.Decode(&jh); err != nil {
+			return err
+		}
+		if !bytes.Equal(jh.Index, sum) {
+			return errOtherIndex
+		}
+		if jh.Build != build || jh.Puts < 0 || jh.Drops < 0 {
+			return errors.New("not a journal of this build")
+		}
+		for range jh.Puts {
+			e := new(entry)
+			if err := dec.Decode(e); err != nil {
+				return err
+			}
+			restoreEmpty(e)
+			es[e.Key] = e
+		}
+		var drops []string
+		if err := dec.Decode(&drops); err != nil {
+			return err
+		}
+		if len(drops) != jh.Drops {
+			return errors.New("drops miscounted")
+		}
+		for _, k := range drops {
+			delete(es, k)
+		}
+		return nil
+	})
+	switch {
+	case err == nil:
+	case errors.Is(err, fs.ErrNotExist), errors.Is(err, errOtherIndex):
+		es = indexed // no journal, or one on an earlier index
+	default:
+		return nil, nil, nil
+	}
+	return es, indexed, sum
+}
+
+// errOtherIndex marks a journal written on another index than the one read.
+var errOtherIndex = errors.New("a journal on another index")
+
+// readStream reads the file name that writeStream wrote in folder base:
+// it checks magic, lets read decode the stream, then checks the SHA-256
+// that follows it and that nothing follows that. It returns the SHA-256,
+// or an error (wrapping fs.ErrNotExist for a missing file).
+func readStream(base, name, magic string, read func(*gob.Decoder) error) ([]byte, error) {
+	f, err := os.Open(filepath.Join(base, name))
+	if err != nil {
+		return nil, err
 	}
 	defer f.Close()
 	r := bufio.NewReader(f)
-	magic := make([]byte, len(indexMagic))
-	if _, err := io.ReadFull(r, magic); err != nil || string(magic) != indexMagic {
-		return nil
+	head := make([]byte, len(magic))
+	if _, err := io.ReadFull(r, head); err != nil || string(head) != magic {
+		return nil, fmt.Errorf("%s: not a %q file", name, strings.TrimSpace(magic))
 	}
 	h := sha256.New()
-	dec := gob.NewDecoder(&hashReader{r: r, h: h})
-	var head indexHead
-	if err := dec.Decode(&head); err != nil || head.Build != build || head.Entries < 0 {
-		return nil
-	}
-	out := make(map[string]*entry, min(head.Entries, 1<<16))
-	for range head.Entries {
-		e := new(entry)
-		if err := dec.Decode(e); err != nil {
-			return nil
-		}
-		restoreEmpty(e)
-		out[e.Key] = e
+	if err := read(gob.NewDecoder(&hashReader{r: r, h: h})); err != nil {
+		return nil, err
 	}
 	// The checksum follows the stream; gob reads no further than it needs.
 	want := h.Sum(nil)
 	got := make([]byte, len(want))
 	if _, err := io.ReadFull(r, got); err != nil || !bytes.Equal(got, want) {
-		return nil
+		return nil, fmt.Errorf("%s: checksum", name)
 	}
 	if _, err := r.ReadByte(); err != io.EOF {
-		return nil
+		return nil, fmt.Errorf("%s: bytes after the checksum", name)
 	}
-	return out
+	return want, nil
 }
 
 // hashReader hashes what is read through it. It is an io.ByteReader, so

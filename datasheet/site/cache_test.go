@@ -2,6 +2,7 @@ package site
 
 import (
 	"bytes"
+	"crypto/sha256"
 	"fmt"
 	"io/fs"
 	"maps"
@@ -187,7 +188,7 @@ func entries(t *testing.T, dir string) []string {
 // no others.
 func materialEntries(t *testing.T, dir string) int {
 	t.Helper()
-	index := readIndex(filepath.Join(dir, cacheVersion), "build-1")
+	index := readEntries(filepath.Join(dir, cacheVersion), "build-1")
 	n := 0
 	for _, e := range index {
 		if len(e.Kept.Inputs) > 0 {
@@ -210,7 +211,7 @@ func materialEntries(t *testing.T, dir string) int {
 // m/SLUG/index.html, as the index of the cache in dir lists it.
 func entryOf(t *testing.T, dir, slug string) string {
 	t.Helper()
-	for key, e := range readIndex(filepath.Join(dir, cacheVersion), "build-1") {
+	for key, e := range readEntries(filepath.Join(dir, cacheVersion), "build-1") {
 		for _, f := range e.Files {
 			if f.Name == "m/"+slug+"/index.html" {
 				return filepath.Join(dir, cacheVersion, key)
@@ -301,6 +302,31 @@ func TestCacheInvalid(t *testing.T) {
 			write(t, p, data)
 			return 1
 		}, ""},
+		{"journal corrupt", func(t *testing.T, dir, cdir string) int {
+			p := journalOf(t, dir, cdir, slug)
+			data, _ := os.ReadFile(p)
+			data[len(data)/2] ^= 0x55
+			write(t, p, data)
+			return cacheable(t, dir)
+		}, ""},
+		{"journal truncated", func(t *testing.T, dir, cdir string) int {
+			p := journalOf(t, dir, cdir, slug)
+			data, _ := os.ReadFile(p)
+			write(t, p, data[:len(data)-1])
+			return cacheable(t, dir)
+		}, ""},
+		{"journal on an earlier index", func(t *testing.T, dir, cdir string) int {
+			// A render stopped between writing a new index and removing
+			// the journal on the one before: the journal is not read.
+			p := journalOf(t, dir, cdir, slug)
+			old, _ := os.ReadFile(p)
+			base := filepath.Join(cdir, cacheVersion)
+			if _, err := writeIndex(base, "build-1", readEntries(base, "build-1")); err != nil {
+				t.Fatal(err)
+			}
+			write(t, p, old)
+			return 0
+		}, ""},
 		{"cached file missing", func(t *testing.T, dir, cdir string) int {
 			os.Remove(filepath.Join(entryOf(t, cdir, slug), "0"))
 			return 1
@@ -347,6 +373,22 @@ func TestCacheInvalid(t *testing.T) {
 			}
 		})
 	}
+}
+
+// journalOf changes the spectrum of material slug in dir and renders
+// with the cache in cdir, which writes a journal on its index; it returns
+// the journal's path.
+func journalOf(t *testing.T, dir, cdir, slug string) string {
+	t.Helper()
+	p := spectrumOf(t, dir, slug)
+	data, _ := os.ReadFile(p)
+	write(t, p, append(bytes.TrimRight(data, "\r\n"), []byte("1\n")...))
+	renderDir(t, dir, openCache(t, cdir, "build-1"), true)
+	j := filepath.Join(cdir, cacheVersion, journalFile)
+	if !isFile(j) {
+		t.Fatal("no journal written")
+	}
+	return j
 }
 
 func write(t *testing.T, p string, data []byte) {
@@ -410,15 +452,18 @@ func TestCacheCommit(t *testing.T) {
 	}
 }
 
+// readEntries returns the entries of the index in folder base, its
+// journal's changes made (see readIndex).
+func readEntries(base, build string) map[string]*entry {
+	es, _, _ := readIndex(base, build)
+	return es
+}
+
 // FuzzReadIndex feeds the cache's index reader arbitrary bytes: it must
 // never panic, and an index it accepts must be written back and read again
 // to the same entries.
 func FuzzReadIndex(f *testing.F) {
-	seed := indexBytes(f, map[string]*entry{
-		"k1": {Key: "k1", Kept: kept{Warnings: []string{}, Inputs: []library.Input{{Path: "a.csv", SHA256: "00"}}},
-			Files: []cachedFile{{Name: "m/a/index.html", Size: 3, ModTime: 1}}},
-		"k2": {Key: "k2"},
-	})
+	seed := indexBytes(f, seedEntries())
 	f.Add(seed)
 	f.Add(seed[:len(seed)/2])
 	f.Add([]byte(indexMagic))
@@ -427,30 +472,75 @@ func FuzzReadIndex(f *testing.F) {
 		if err := os.WriteFile(filepath.Join(base, indexFile), data, 0o644); err != nil {
 			t.Fatal(err)
 		}
-		es := readIndex(base, "b")
-		if es == nil {
-			return
-		}
-		again := t.TempDir()
-		if err := writeIndex(again, "b", es); err != nil {
+		writtenBack(t, readEntries(base, "b"))
+	})
+}
+
+// FuzzReadJournal feeds the cache's index reader a valid index and
+// arbitrary bytes as its journal: it must never panic, and what it accepts
+// must be written back as an index and read again to the same entries.
+func FuzzReadJournal(f *testing.F) {
+	index := indexBytes(f, seedEntries())
+	sum := index[len(index)-sha256.Size:]
+	base := f.TempDir()
+	put := &entry{Key: "k3", Kept: kept{Warnings: []string{"w"}}}
+	if err := writeJournal(base, journalHead{Build: "b", Index: sum}, []*entry{put}, []string{"k2"}); err != nil {
+		f.Fatal(err)
+	}
+	seed, err := os.ReadFile(filepath.Join(base, journalFile))
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Add(seed)
+	f.Add(seed[:len(seed)/2])
+	f.Add([]byte(journalMagic))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		base := t.TempDir()
+		if err := os.WriteFile(filepath.Join(base, indexFile), index, 0o644); err != nil {
 			t.Fatal(err)
 		}
-		back := readIndex(again, "b")
-		if len(back) != len(es) {
-			t.Fatalf("written back, %d entries read again, want %d", len(back), len(es))
+		if err := os.WriteFile(filepath.Join(base, journalFile), data, 0o644); err != nil {
+			t.Fatal(err)
 		}
-		for k := range es {
-			if back[k] == nil {
-				t.Fatalf("entry %q lost when written back", k)
-			}
-		}
+		writtenBack(t, readEntries(base, "b"))
 	})
+}
+
+// seedEntries are entries of an index for the fuzz targets' seeds.
+func seedEntries() map[string]*entry {
+	return map[string]*entry{
+		"k1": {Key: "k1", Kept: kept{Warnings: []string{}, Inputs: []library.Input{{Path: "a.csv", SHA256: "00"}}},
+			Files: []cachedFile{{Name: "m/a/index.html", Size: 3, ModTime: 1}}},
+		"k2": {Key: "k2"},
+	}
+}
+
+// writtenBack checks that entries es (none: nothing to check), written
+// as an index and read again, are the same entries.
+func writtenBack(t *testing.T, es map[string]*entry) {
+	t.Helper()
+	if es == nil {
+		return
+	}
+	again := t.TempDir()
+	if _, err := writeIndex(again, "b", es); err != nil {
+		t.Fatal(err)
+	}
+	back := readEntries(again, "b")
+	if len(back) != len(es) {
+		t.Fatalf("written back, %d entries read again, want %d", len(back), len(es))
+	}
+	for k := range es {
+		if back[k] == nil {
+			t.Fatalf("entry %q lost when written back", k)
+		}
+	}
 }
 
 // indexBytes returns the bytes of an index of es, of build "b".
 func indexBytes(tb testing.TB, es map[string]*entry) []byte {
 	base := tb.TempDir()
-	if err := writeIndex(base, "b", es); err != nil {
+	if _, err := writeIndex(base, "b", es); err != nil {
 		tb.Fatal(err)
 	}
 	data, err := os.ReadFile(filepath.Join(base, indexFile))
@@ -616,7 +706,7 @@ func TestWalkSlicesSkipsOnlyWhatHoldsNone(t *testing.T) {
 	}
 	dir, cdir := copyDemo(t), t.TempDir()
 	renderDir(t, dir, openCache(t, cdir, "build-1"), true)
-	for _, e := range readIndex(filepath.Join(cdir, cacheVersion), "build-1") {
+	for _, e := range readEntries(filepath.Join(cdir, cacheVersion), "build-1") {
 		values = append(values, &e.Kept)
 	}
 	if len(values) < 12 {
@@ -665,12 +755,160 @@ func TestCacheIndexKept(t *testing.T) {
 		t.Fatal(err)
 	}
 	renderDir(t, dir, openCache(t, cdir, "build-1"), true)
-	if st, err := os.Stat(index); err != nil || os.SameFile(st, first) {
-		t.Errorf("a spectrum changed, yet the index was not written again (%v)", err)
+	// The change goes into the journal on the index (see writeJournal).
+	if st, err := os.Stat(index); err != nil || !os.SameFile(st, first) {
+		t.Errorf("a spectrum changed: the index was written again (%v), want a journal on it", err)
+	}
+	if _, err := os.Stat(filepath.Join(cdir, cacheVersion, journalFile)); err != nil {
+		t.Errorf("a spectrum changed, yet no journal was written: %v", err)
 	}
 	if got := materialEntries(t, cdir); got != cacheable(t, dir) {
 		t.Errorf("%d materials' entries, want %d", got, cacheable(t, dir))
 	}
+	// The entries of the index and its journal are those of the render
+	// that wrote them, and give every material to the next.
+	c := openCache(t, cdir, "build-1")
+	renderDir(t, dir, c, true)
+	if c.Hits() != cacheable(t, dir) {
+		t.Errorf("took %d materials from the index and its journal, want %d", c.Hits(), cacheable(t, dir))
+	}
+	if got := readEntries(filepath.Join(cdir, cacheVersion), "build-1"); !sameValues(reflect.ValueOf(got), reflect.ValueOf(c.next)) {
+		t.Errorf("the entries read (%d) are not those the render committed (%d)", len(got), len(c.next))
+	}
+}
+
+// TestCacheJournalStamps checks that the stamps a render records for
+// entries of the index (their files having become old enough to stamp,
+// see library.Library.Stamps) go into the journal: the render after,
+// finding them, has nothing to write.
+func TestCacheJournalStamps(t *testing.T) {
+	dir, cdir := copyDemo(t), t.TempDir()
+	base := filepath.Join(cdir, cacheVersion)
+	renderDir(t, dir, openCache(t, cdir, "build-1"), true) // the copies too new to stamp
+	time.Sleep(2100 * time.Millisecond)
+	renderDir(t, dir, openCache(t, cdir, "build-1"), true) // stamps them
+	index, err := os.Stat(filepath.Join(base, indexFile))
+	if err != nil {
+		t.Fatal(err)
+	}
+	journal, err := os.Stat(filepath.Join(base, journalFile))
+	if err != nil {
+		t.Fatalf("stamps recorded, yet no journal: %v", err)
+	}
+	renderDir(t, dir, openCache(t, cdir, "build-1"), true)
+	if st, err := os.Stat(filepath.Join(base, indexFile)); err != nil || !os.SameFile(st, index) {
+		t.Errorf("nothing changed, yet the index was written again (%v)", err)
+	}
+	if st, err := os.Stat(filepath.Join(base, journalFile)); err != nil || !os.SameFile(st, journal) {
+		t.Errorf("nothing changed, yet the journal was written again (%v)", err)
+	}
+}
+
+// TestCacheJournalFolds checks that a render that changes more entries
+// than a journal holds (see journalLimit) writes a new index, with no
+// journal on it, and that a render changing one material after that
+// writes a journal again.
+func TestCacheJournalFolds(t *testing.T) {
+	fsys := bigLibraryFS(t, 3*pageRows)
+	cdir := t.TempDir()
+	base := filepath.Join(cdir, cacheVersion)
+	render := func() {
+		t.Helper()
+		renderCommit(t, fsys, openCache(t, cdir, "build-1"), mapWriter{})
+	}
+	render()
+	first, err := os.Stat(filepath.Join(base, indexFile))
+	if err != nil {
+		t.Fatal(err)
+	}
+	md := "content/roof/p-0150.md"
+	fsys[md] = &fstest.MapFile{Data: bytes.Replace(fsys[md].Data, []byte("Invented."), []byte("Invented, revised."), 1)}
+	render()
+	if st, err := os.Stat(filepath.Join(base, indexFile)); err != nil || !os.SameFile(st, first) {
+		t.Errorf("one material changed: the index was written again (%v)", err)
+	}
+	if !isFile(filepath.Join(base, journalFile)) {
+		t.Error("one material changed: no journal")
+	}
+	// Every material changes with the config.
+	fsys["skysheet.yaml"] = &fstest.MapFile{Data: append(bytes.Clone(fsys["skysheet.yaml"].Data), "\n# a comment\n"...)}
+	render()
+	if st, err := os.Stat(filepath.Join(base, indexFile)); err != nil || os.SameFile(st, first) {
+		t.Errorf("every material changed, yet the index was not written again (%v)", err)
+	}
+	if isFile(filepath.Join(base, journalFile)) {
+		t.Error("every material changed: a journal was left on the new index")
+	}
+	if n := len(readEntries(base, "build-1")); n <= journalLimit(n) {
+		t.Fatalf("%d entries: within one journal's limit, the test shows nothing", n)
+	}
+	fsys[md] = &fstest.MapFile{Data: bytes.Replace(fsys[md].Data, []byte("revised"), []byte("revised again"), 1)}
+	render()
+	if !isFile(filepath.Join(base, journalFile)) {
+		t.Error("one material changed after the new index: no journal")
+	}
+	c := openCache(t, cdir, "build-1")
+	renderCommit(t, fsys, c, mapWriter{})
+	if c.Hits() != 3*pageRows {
+		t.Errorf("took %d materials from the index and its journal, want %d", c.Hits(), 3*pageRows)
+	}
+}
+
+// sameValues is reflect.DeepEqual of what gob keeps (exported fields)
+// but for NaN, which it takes as equal to NaN (figures out of reach are
+// NaN).
+func sameValues(a, b reflect.Value) bool {
+	if a.Kind() != b.Kind() || a.Type() != b.Type() {
+		return false
+	}
+	switch a.Kind() {
+	case reflect.Float32, reflect.Float64:
+		x, y := a.Float(), b.Float()
+		return x == y || x != x && y != y
+	case reflect.Pointer, reflect.Interface:
+		if a.IsNil() || b.IsNil() {
+			return a.IsNil() == b.IsNil()
+		}
+		return sameValues(a.Elem(), b.Elem())
+	case reflect.Struct:
+		for i := range a.NumField() {
+			if a.Type().Field(i).IsExported() && !sameValues(a.Field(i), b.Field(i)) {
+				return false
+			}
+		}
+		return true
+	case reflect.Slice:
+		if a.IsNil() != b.IsNil() {
+			return false
+		}
+		fallthrough
+	case reflect.Array:
+		if a.Len() != b.Len() {
+			return false
+		}
+		for i := range a.Len() {
+			if !sameValues(a.Index(i), b.Index(i)) {
+				return false
+			}
+		}
+		return true
+	case reflect.Map:
+		if a.IsNil() != b.IsNil() || a.Len() != b.Len() {
+			return false
+		}
+		for _, k := range a.MapKeys() {
+			if v := b.MapIndex(k); !v.IsValid() || !sameValues(a.MapIndex(k), v) {
+				return false
+			}
+		}
+		return true
+	}
+	return reflect.DeepEqual(a.Interface(), b.Interface())
+}
+
+func isFile(p string) bool {
+	st, err := os.Stat(p)
+	return err == nil && st.Mode().IsRegular()
 }
 
 // TestCachePartsShifted: the parts of files made of every material
