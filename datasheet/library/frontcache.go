@@ -9,6 +9,7 @@ import (
 	"io"
 	"reflect"
 	"slices"
+	"strings"
 	"sync"
 
 	"skysheet/datasheet"
@@ -17,22 +18,40 @@ import (
 // FrontCache keeps, from one load of a library to the next, what parsing
 // and checking found in the front matter of its content files, by the
 // SHA-256 of the YAML text: a file whose front matter is unchanged is not
-// parsed again (the Markdown file is still read, and everything the front
-// matter names checked afresh). It keeps only front matter that parsed
-// with no error and sets no conditions:, and only values that read back
-// equal to what parsing gave (see WriteTo).
+// parsed again (everything the front matter names is still checked
+// afresh). It keeps only front matter that parsed with no error and sets
+// no conditions:, and only values that read back equal to what parsing
+// gave (see WriteTo).
+//
+// It also keeps, for each material's Markdown file read whole with no
+// error, the file's stamp (see [StampOf]), SHA-256 and where its body
+// starts: a file whose stamp still holds is not read again at all, its
+// text read only when asked for (see [Material.Text]). Comparisons'
+// files are always read.
 //
 // A FrontCache serves one load at a time; what a load leaves unused is
 // dropped when the next one starts.
 type FrontCache struct {
 	build string // the software build that wrote or is to write it
 
-	mu    sync.Mutex
-	old   map[[sha256.Size]byte]*frontEntry // read, not yet taken
-	read  int                               // entries read
-	next  map[[sha256.Size]byte]*frontEntry // taken or added by the last load
-	added bool
-	hits  int
+	mu        sync.Mutex
+	old       map[[sha256.Size]byte]*frontEntry // read, not yet taken
+	read      int                               // entries read
+	next      map[[sha256.Size]byte]*frontEntry // taken or added by the last load
+	oldFiles  map[string]*fileRecord            // read, by path
+	readFiles int                               // file records read
+	nextFiles map[string]*fileRecord            // taken or added by the last load
+	added     bool
+	hits      int
+}
+
+// fileRecord is what the cache keeps of a Markdown file read whole.
+type fileRecord struct {
+	Path     string
+	Stamp    Stamp
+	SHA256   string            // of the whole file (see Input)
+	Key      [sha256.Size]byte // of its YAML text: its frontEntry
+	BodyLine int
 }
 
 // frontEntry is what the cache keeps of one front matter.
@@ -75,12 +94,12 @@ func NewFrontCache(build string) *FrontCache {
 }
 
 // frontMagic starts a front matter cache.
-const frontMagic = "skysheet front matter cache 1\n"
+const frontMagic = "skysheet front matter cache 2\n"
 
 // frontHead starts the gob stream of a front matter cache.
 type frontHead struct {
-	Build   string
-	Entries int
+	Build          string
+	Entries, Files int
 }
 
 // ReadFrontCache reads a cache that WriteTo wrote. A stream that is
@@ -104,6 +123,10 @@ func ReadFrontCache(r io.Reader) *FrontCache {
 	if err := dec.Decode(&es); err != nil || len(es) != head.Entries {
 		return c
 	}
+	var files []*fileRecord
+	if err := dec.Decode(&files); err != nil || len(files) != head.Files {
+		return c
+	}
 	want := h.Sum(nil)
 	got := make([]byte, len(want))
 	if _, err := io.ReadFull(br, got); err != nil || !bytes.Equal(got, want) {
@@ -120,6 +143,13 @@ func ReadFrontCache(r io.Reader) *FrontCache {
 		}
 	}
 	c.read = len(c.old)
+	c.oldFiles = make(map[string]*fileRecord, len(files))
+	for _, f := range files {
+		if f != nil && c.old[f.Key] != nil {
+			c.oldFiles[f.Path] = f
+		}
+	}
+	c.readFiles = len(c.oldFiles)
 	return c
 }
 
@@ -140,7 +170,7 @@ func (c *FrontCache) Hits() int {
 func (c *FrontCache) Changed() bool {
 	c.mu.Lock()
 	defer c.mu.Unlock()
-	return c.added || len(c.next) != c.read
+	return c.added || len(c.next) != c.read || len(c.nextFiles) != c.readFiles
 }
 
 // begin starts a load: what the last one took or added can be taken again.
@@ -150,10 +180,55 @@ func (c *FrontCache) begin() {
 	}
 	c.mu.Lock()
 	defer c.mu.Unlock()
-	if c.next != nil || c.hits > 0 || c.added {
-		c.old = c.next // a load before this one: what it used
+	if c.next != nil || c.nextFiles != nil || c.hits > 0 || c.added {
+		// A load before this one: what it used.
+		c.old, c.oldFiles = c.next, c.nextFiles
 	}
 	c.next, c.read, c.hits, c.added = nil, len(c.old), 0, false
+	c.nextFiles, c.readFiles = nil, len(c.oldFiles)
+}
+
+// unchanged returns the front matter of the Markdown file file and the
+// record of it, when the cache holds a record of the file under stamp st
+// and its front matter, which names no comparison: the file as it was
+// when last read whole. A nil cache holds none.
+func (c *FrontCache) unchanged(file string, st Stamp) (FrontMatter, frontPlaces, *fileRecord, bool) {
+	if c == nil {
+		return FrontMatter{}, frontPlaces{}, nil, false
+	}
+	c.mu.Lock()
+	r := c.oldFiles[file]
+	var e *frontEntry
+	if r != nil && r.Stamp == st {
+		e = c.old[r.Key]
+	}
+	if e == nil || len(e.Front.Compare) > 0 {
+		c.mu.Unlock()
+		return FrontMatter{}, frontPlaces{}, nil, false
+	}
+	delete(c.old, r.Key)
+	c.next = mapSet(c.next, r.Key, e)
+	c.nextFiles = mapSet(c.nextFiles, file, r)
+	c.hits++
+	c.mu.Unlock()
+	return e.Front.copy().front(), e.Places.copy(), r, true
+}
+
+// keepFile records that the Markdown file file, under stamp st, was read
+// whole with no error: its SHA-256, that of its YAML text, and the line
+// its body starts on. WriteTo writes the record only with the front
+// matter it names.
+func (c *FrontCache) keepFile(file string, st Stamp, sum string, yamlText []byte, bodyLine int) {
+	if c == nil {
+		return
+	}
+	r := &fileRecord{Path: file, Stamp: st, SHA256: sum, Key: sha256.Sum256(yamlText), BodyLine: bodyLine}
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if old := c.oldFiles[file]; old == nil || *old != *r {
+		c.added = true
+	}
+	c.nextFiles = mapSet(c.nextFiles, file, r)
 }
 
 // parse returns the front matter of file and where its values are, from
@@ -219,14 +294,28 @@ func (c *FrontCache) WriteTo(w io.Writer) (int64, error) {
 	}
 	es = append(es, readBack(fresh)...)
 	slices.SortFunc(es, func(a, b *frontEntry) int { return bytes.Compare(a.Key[:], b.Key[:]) })
+	written := make(map[[sha256.Size]byte]bool, len(es))
+	for _, e := range es {
+		written[e.Key] = true
+	}
+	files := make([]*fileRecord, 0, len(c.nextFiles))
+	for _, f := range c.nextFiles {
+		if written[f.Key] {
+			files = append(files, f)
+		}
+	}
+	slices.SortFunc(files, func(a, b *fileRecord) int { return strings.Compare(a.Path, b.Path) })
 	cw := &countingWriter{w: w}
 	bw := bufio.NewWriter(cw)
 	bw.WriteString(frontMagic)
 	h := sha256.New()
 	enc := gob.NewEncoder(io.MultiWriter(bw, h))
-	err := enc.Encode(frontHead{Build: c.build, Entries: len(es)})
+	err := enc.Encode(frontHead{Build: c.build, Entries: len(es), Files: len(files)})
 	if err == nil {
 		err = enc.Encode(es)
+	}
+	if err == nil {
+		err = enc.Encode(files)
 	}
 	if err == nil {
 		_, err = bw.Write(h.Sum(nil))

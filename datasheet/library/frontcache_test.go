@@ -9,6 +9,7 @@ import (
 	"strings"
 	"testing"
 	"testing/fstest"
+	"time"
 )
 
 // warmCache loads fsys through a new front matter cache and returns the
@@ -39,6 +40,15 @@ func sameLoad(t testing.TB, fsys fs.FS, fc *FrontCache) {
 	got, gotErr := LoadWith(fsys, fc)
 	if fmt.Sprint(gotErr) != fmt.Sprint(wantErr) {
 		t.Fatalf("errors through the cache:\n%v\nafresh:\n%v", gotErr, wantErr)
+	}
+	// A file the load did not read gives its text when asked.
+	for _, m := range got.Materials {
+		if m.Source == nil {
+			var err error
+			if m.Source, m.Body, err = m.Text(); err != nil {
+				t.Fatalf("%s: %v", m.Path, err)
+			}
+		}
 	}
 	if !reflect.DeepEqual(got.Materials, want.Materials) {
 		t.Fatalf("materials through the cache differ:\n%+v\nafresh:\n%+v", got.Materials, want.Materials)
@@ -275,5 +285,138 @@ func memoryOf(v reflect.Value, f func(uintptr)) {
 		if v.Len() > 0 {
 			f(v.Pointer())
 		}
+	}
+}
+
+// TestFrontCacheUnreadFiles checks that a material's Markdown file whose
+// stamp holds is not read again (its text read only when asked for, and
+// the same), that one changed since is read again, that a comparison's
+// file is always read, and that Text refuses a file changed after the
+// load.
+func TestFrontCacheUnreadFiles(t *testing.T) {
+	dir := t.TempDir()
+	if err := os.CopyFS(dir+"/content", os.DirFS("../../content")); err != nil {
+		t.Fatal(err)
+	}
+	cfg, err := os.ReadFile("../../skysheet.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(dir+"/skysheet.yaml", cfg, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	// Files are stamped only once they last changed at least 2 s before a
+	// load (see StampOf).
+	time.Sleep(2100 * time.Millisecond)
+	fsys := os.DirFS(dir)
+	fc := warmCache(t, fsys)
+	unread := func() map[string]bool {
+		t.Helper()
+		lib, err := LoadWith(fsys, fc)
+		if err != nil {
+			t.Fatal(err)
+		}
+		out := map[string]bool{}
+		for _, m := range lib.Materials {
+			if m.Source == nil {
+				out[m.Slug] = true
+			}
+		}
+		for _, c := range lib.Comparisons {
+			if c.Source == nil {
+				t.Errorf("comparison %s: not read", c.Slug)
+			}
+		}
+		return out
+	}
+	first := unread()
+	lib, err := Load(fsys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, m := range lib.Materials {
+		// Front matter with conditions: is not kept, so neither is its
+		// file's record.
+		if want := !bytes.Contains(m.Source, []byte("\nconditions:")); first[m.Slug] != want {
+			t.Errorf("%s: not read %v, want %v", m.Slug, first[m.Slug], want)
+		}
+	}
+	if len(first) < 10 {
+		t.Fatalf("only %d files not read", len(first))
+	}
+	sameLoad(t, fsys, fc)
+
+	// A file changed since is read again, and read as it is now: changed
+	// long enough ago to stamp (another stamp than the one recorded), or
+	// just now (too new to stamp).
+	m, _ := lib.Material("bw-93")
+	p := dir + "/" + m.Path
+	src := append(bytes.Clone(m.Source), "\nOne more sentence.\n"...)
+	if err := os.WriteFile(p, src, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	time.Sleep(2100 * time.Millisecond)
+	if unread()["bw-93"] {
+		t.Error("bw-93 changed 2 s ago, yet not read again")
+	}
+	sameLoad(t, fsys, fc)
+	src = append(src, "And another.\n"...)
+	if err := os.WriteFile(p, src, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if unread()["bw-93"] {
+		t.Error("bw-93 changed just now, yet not read again")
+	}
+	sameLoad(t, fsys, fc)
+
+	// Changed after a load that did not read it: Text refuses it.
+	time.Sleep(2100 * time.Millisecond)
+	unread() // records bw-93 anew, now old enough to stamp
+	got, err := LoadWith(fsys, fc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lm, _ := got.Material("bw-93")
+	if lm.Source != nil {
+		t.Fatal("bw-93 read, want it taken from the cache")
+	}
+	if err := os.WriteFile(p, append(src, "And a third.\n"...), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, _, err := lm.Text(); err == nil || !strings.Contains(err.Error(), "changed while") || !strings.Contains(err.Error(), m.Path) {
+		t.Errorf("Text of a file changed since the load: %v", err)
+	}
+}
+
+// TestFrontCacheFileRecords checks that the records of files read whole
+// are written with the front matter they name, read back, and dropped
+// when that front matter is not in the cache.
+func TestFrontCacheFileRecords(t *testing.T) {
+	fsys := baseFS()
+	fsys["content/plain.md"] = &fstest.MapFile{Data: []byte("---\ntitle: p\nmaker: m\nspectra:\n  - file: flat/solar.csv\n---\nText.\n")}
+	fc := NewFrontCache("b")
+	LoadWith(fsys, fc)
+	yamlText, _, bodyLine, _ := splitFront("content/plain.md", fsys["content/plain.md"].Data)
+	st := Stamp{Dev: 1, Ino: 2, Size: 3, ModTime: 4, Change: 5}
+	fc.keepFile("content/plain.md", st, "ab", yamlText, bodyLine)
+	fc.keepFile("content/gone.md", st, "cd", []byte("title: not in the cache\n"), 1)
+	var buf bytes.Buffer
+	if _, err := fc.WriteTo(&buf); err != nil {
+		t.Fatal(err)
+	}
+	back := ReadFrontCache(bytes.NewReader(buf.Bytes()))
+	if len(back.oldFiles) != 1 {
+		t.Fatalf("%d file records read back, want 1 (plain.md)", len(back.oldFiles))
+	}
+	r := back.oldFiles["content/plain.md"]
+	if r == nil || r.Stamp != st || r.SHA256 != "ab" || r.BodyLine != bodyLine {
+		t.Errorf("record read back: %+v", r)
+	}
+	if _, _, got, ok := back.unchanged("content/plain.md", st); !ok || got != r {
+		t.Error("the record's file under its stamp not given")
+	}
+	back.begin()
+	if _, _, _, ok := back.unchanged("content/plain.md", Stamp{Dev: 1}); ok {
+		t.Error("the file under another stamp given")
 	}
 }

@@ -74,6 +74,17 @@ func FuzzReadFrontCache(f *testing.F) {
 	f.Add(seed)
 	f.Add(seed[:len(seed)/2])
 	f.Add([]byte(frontMagic))
+	// With the record of a file read whole (a file system of stamps would
+	// make it; fstest.MapFS gives none).
+	fc := NewFrontCache("b")
+	LoadWith(fsys, fc)
+	yamlText, _, bodyLine, _ := splitFront("content/plain.md", fsys["content/plain.md"].Data)
+	fc.keepFile("content/plain.md", Stamp{Dev: 1, Ino: 2, Size: 3, ModTime: 4, Change: 5}, "00", yamlText, bodyLine)
+	var withFile bytes.Buffer
+	if _, err := fc.WriteTo(&withFile); err != nil {
+		f.Fatal(err)
+	}
+	f.Add(withFile.Bytes())
 	f.Fuzz(func(t *testing.T, data []byte) {
 		fc := ReadFrontCache(bytes.NewReader(data))
 		if len(fc.old) == 0 {

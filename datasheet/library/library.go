@@ -41,12 +41,15 @@ type Library struct {
 // and where its spectrum files are. Its spectra are read by
 // [Library.ReadSample].
 type Material struct {
-	Path       string // the Markdown file, relative to the library root
-	Slug       string
-	Front      FrontMatter
-	Body       []byte               // Markdown after the front matter
-	BodyLine   int                  // file line on which Body starts
-	Source     []byte               // the whole file
+	Path  string // the Markdown file, relative to the library root
+	Slug  string
+	Front FrontMatter
+	// Body is the Markdown after the front matter and Source the whole
+	// file; both nil when the load took the file from its FrontCache
+	// without reading it (see Text).
+	Body       []byte
+	BodyLine   int // file line on which Body starts
+	Source     []byte
 	Conditions datasheet.Conditions // library conditions with the front matter's overrides
 	Input      Input                // the Markdown file and its SHA-256
 	// Stack holds the layers, top first, of a material declared as a stack
@@ -56,6 +59,29 @@ type Material struct {
 	spectra     []spectrumFile // the spectra entries, in front matter order
 	spectraLine int            // file line of the "spectra:" key
 	files       condFiles      // the sky and weather files of the conditions, if any
+	fsys        fs.FS          // to read Source and Body when the load did not (see Text)
+}
+
+// Text returns the Markdown file's whole text and its body after the
+// front matter: Source and Body, or, when the load did not read the file
+// (see FrontCache), the file read now, which must be the one loaded (its
+// SHA-256 that of Input).
+func (m *Material) Text() (source, body []byte, err error) {
+	if m.Source != nil || m.fsys == nil {
+		return m.Source, m.Body, nil
+	}
+	src, err := fs.ReadFile(m.fsys, m.Path)
+	if err != nil {
+		return nil, nil, &Error{File: m.Path, Err: err}
+	}
+	if hashInput(m.Path, src) != m.Input {
+		return nil, nil, &Error{File: m.Path, Err: errors.New("changed while the library was being used: load it again")}
+	}
+	_, body, _, err = splitFront(m.Path, src)
+	if err != nil {
+		return nil, nil, err
+	}
+	return src, body, nil
 }
 
 // spectrumFile is a spectra entry: the file's path in the library and
@@ -268,7 +294,7 @@ func LoadWith(fsys fs.FS, fc *FrontCache) (*Library, error) {
 
 	files, listed, err := contentFiles(fsys)
 	add(err)
-	base := doc{offset: 1, fsys: fsys, seen: lib.seen, listed: listed} // each file's, but for its name
+	base := doc{offset: 1, fsys: fsys, seen: lib.seen, listed: listed, loaded: lib.loaded} // each file's, but for its name
 	results := make([]fileResult, len(files))
 	var wg sync.WaitGroup
 	next := make(chan int)
@@ -496,7 +522,7 @@ func nearbyFile(fsys fs.FS, p, ref string) string {
 // other regular files met on the way, by path.
 func contentFiles(fsys fs.FS) ([]string, map[string]fs.DirEntry, error) {
 	var files []string
-	others := map[string]fs.DirEntry{}
+	listed := map[string]fs.DirEntry{}
 	err := fs.WalkDir(fsys, ContentDir, func(p string, d fs.DirEntry, err error) error {
 		if err != nil {
 			return err
@@ -507,11 +533,11 @@ func contentFiles(fsys fs.FS) ([]string, map[string]fs.DirEntry, error) {
 			}
 			return nil
 		}
-		switch {
-		case !d.IsDir() && strings.EqualFold(path.Ext(p), ".md"):
+		if !d.IsDir() && strings.EqualFold(path.Ext(p), ".md") {
 			files = append(files, p)
-		case d.Type().IsRegular():
-			others[p] = d
+		}
+		if d.Type().IsRegular() {
+			listed[p] = d
 		}
 		return nil
 	})
@@ -522,7 +548,7 @@ func contentFiles(fsys fs.FS) ([]string, map[string]fs.DirEntry, error) {
 		return nil, nil, &Error{File: ContentDir, Err: err}
 	}
 	sort.Strings(files)
-	return files, others, nil
+	return files, listed, nil
 }
 
 // fileResult is what readFile found in one content file.
@@ -542,31 +568,60 @@ type fileResult struct {
 // Library.seen).
 func readFile(base doc, file string, cfg Config, fc *FrontCache) fileResult {
 	var r fileResult
-	src, err := fs.ReadFile(base.fsys, file)
-	if err != nil {
-		r.err = &Error{File: file, Err: err}
-		return r
-	}
-	yamlText, body, bodyLine, err := splitFront(file, src)
-	if err != nil {
-		r.err = err
-		return r
-	}
-	fm, fp, err := fc.parse(file, yamlText)
-	if err != nil {
-		// Known by its slug all the same, so that comparisons listing it
-		// do not report it missing on top of its own errors.
-		if bb := bodyBlanks(file, body, bodyLine); len(bb) > 0 {
-			err = Join(err, Errors(bb))
+	// The file's stamp, taken before it is read (a later change moves it):
+	// while it holds, the file is what the cache recorded.
+	var st Stamp
+	stamped := false
+	if e, ok := base.listed[file]; ok && fc != nil {
+		if fi, err := e.Info(); err == nil {
+			st, stamped = StampOf(fi, base.loaded)
 		}
-		r.err, r.isCompare = err, len(fm.Compare) > 0
-		if r.slug = fm.Slug; r.slug == "" {
-			r.slug = Slugify(strings.TrimSuffix(path.Base(file), path.Ext(file)))
-		}
-		return r
 	}
-	var errs Errors
-	errs = append(errs, bodyBlanks(file, body, bodyLine)...)
+	var (
+		src, body []byte
+		bodyLine  int
+		input     Input
+		fm        FrontMatter
+		fp        frontPlaces
+		errs      Errors
+	)
+	var rec *fileRecord
+	if stamped {
+		fm, fp, rec, _ = fc.unchanged(file, st)
+	}
+	if rec != nil {
+		bodyLine, input = rec.BodyLine, Input{Path: file, SHA256: rec.SHA256}
+	} else {
+		var err error
+		if src, err = fs.ReadFile(base.fsys, file); err != nil {
+			r.err = &Error{File: file, Err: err}
+			return r
+		}
+		var yamlText []byte
+		if yamlText, body, bodyLine, err = splitFront(file, src); err != nil {
+			r.err = err
+			return r
+		}
+		fm, fp, err = fc.parse(file, yamlText)
+		bb := bodyBlanks(file, body, bodyLine)
+		if err != nil {
+			// Known by its slug all the same, so that comparisons listing it
+			// do not report it missing on top of its own errors.
+			if len(bb) > 0 {
+				err = Join(err, Errors(bb))
+			}
+			r.err, r.isCompare = err, len(fm.Compare) > 0
+			if r.slug = fm.Slug; r.slug == "" {
+				r.slug = Slugify(strings.TrimSuffix(path.Base(file), path.Ext(file)))
+			}
+			return r
+		}
+		errs = append(errs, bb...)
+		input = hashInput(file, src)
+		if stamped && len(bb) == 0 && len(fm.Compare) == 0 {
+			fc.keepFile(file, st, input.SHA256, yamlText, bodyLine)
+		}
+	}
 	d := base
 	d.file = file
 	r.slugLine = fp.Slug.Line
@@ -598,7 +653,8 @@ func readFile(base doc, file string, cfg Config, fc *FrontCache) fileResult {
 		return r
 	}
 	m := &Material{Path: file, Slug: r.slug, Front: fm, Body: body, BodyLine: bodyLine, Source: src,
-		Input: hashInput(file, src), spectraLine: fp.Spectra.Line}
+		Input: input, spectraLine: fp.Spectra.Line, fsys: base.fsys}
+	var err error
 	m.Conditions, m.files, err = d.apply(fm.Conditions, cfg.Conditions)
 	if err != nil {
 		errs = append(errs, err)

@@ -10,6 +10,7 @@ import (
 	"strconv"
 	"strings"
 	"sync"
+	"time"
 
 	"gopkg.in/yaml.v3"
 
@@ -24,6 +25,7 @@ type doc struct {
 	fsys   fs.FS                  // for files named in the document (a sky file)
 	seen   *sync.Map              // what was learnt of the spectrum files (see Library.seen)
 	listed map[string]fs.DirEntry // the regular files under content/, as listed (see contentFiles)
+	loaded time.Time              // when Load began (see StampOf)
 }
 
 // parse reads the YAML text src into a node. An empty text gives an empty

@@ -22,7 +22,7 @@ import (
 )
 
 // materialView builds the datasheet data of m for a page at root.
-func (b *builder) materialView(m *evaluate.Material, root string, cmps []*library.Comparison) (*materialView, error) {
+func (b *builder) materialView(m *evaluate.Material, body []byte, root string, cmps []*library.Comparison) (*materialView, error) {
 	fm, f, vs := m.Front, m.Figures, m.Verdicts
 	v := &materialView{Slug: m.Slug, Title: fm.Title, Maker: fm.Maker, Lab: fm.Lab, ProductCode: fm.ProductCode,
 		Summary: fm.Summary, License: fm.License, Inputs: m.Inputs, Cautions: cautionsOf(f),
@@ -85,11 +85,11 @@ func (b *builder) materialView(m *evaluate.Material, root string, cmps []*librar
 	if f.Stack != nil {
 		v.Stack = stackViewOf(f, root)
 	}
-	body, err := b.md.render(m.Body)
+	html, err := b.md.render(body)
 	if err != nil {
 		return nil, err
 	}
-	v.Body = body
+	v.Body = html
 	v.Charts, err = materialCharts(m)
 	if err != nil {
 		return nil, err

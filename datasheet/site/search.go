@@ -53,7 +53,11 @@ func (b *builder) searchIndex() ([]byte, error) {
 func searchEntries(ms []*evaluate.Summary) ([]byte, error) {
 	entries := make([][4]string, 0, len(ms))
 	for _, m := range ms {
-		entries = append(entries, searchEntry(m))
+		e, err := searchEntry(m)
+		if err != nil {
+			return nil, err
+		}
+		entries = append(entries, e)
 	}
 	return jsonElements(entries)
 }
@@ -69,7 +73,11 @@ func jsonElements[T any](v []T) ([]byte, error) {
 }
 
 // searchEntry is one material's entry of the search index.
-func searchEntry(m *evaluate.Summary) [4]string {
+func searchEntry(m *evaluate.Summary) ([4]string, error) {
+	_, body, err := m.Text()
+	if err != nil {
+		return [4]string{}, err
+	}
 	fm := m.Front
 	who := firstOf(fm.Maker, fm.Lab)
 	seen := map[string]bool{}
@@ -95,8 +103,8 @@ func searchEntry(m *evaluate.Summary) [4]string {
 		add(fm.Lab, 0)
 	}
 	add(fm.ProductCode+" "+fm.Category+" "+strings.Join(fm.Tags, " "), 0)
-	add(string(m.Body), maxNoteBytes)
-	return [4]string{m.Slug, fm.Title, who, strings.Join(words, " ")}
+	add(string(body), maxNoteBytes)
+	return [4]string{m.Slug, fm.Title, who, strings.Join(words, " ")}, nil
 }
 
 // searchWords splits text into lower-case words of letters and digits

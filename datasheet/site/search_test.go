@@ -122,7 +122,10 @@ func TestSearchNotesCapped(t *testing.T) {
 	}
 	m := &evaluate.Summary{Material: &library.Material{Slug: "long", Front: library.FrontMatter{Title: "Long notes", Maker: "Maker",
 		Category: "paint", Tags: []string{"white"}}, Body: []byte(body.String())}}
-	e := searchEntry(m)
+	e, err := searchEntry(m)
+	if err != nil {
+		t.Fatal(err)
+	}
 	if !strings.HasPrefix(e[3], "paint white wordaa ") {
 		t.Errorf("words %.40q…", e[3])
 	}

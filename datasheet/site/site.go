@@ -513,7 +513,11 @@ func (b *builder) materialFiles(m *evaluate.Material, cmps []*library.Comparison
 		return nil, &library.Error{File: m.Path, Err: fmt.Errorf("page %sindex.html: %w", dir, err)}
 	}
 	p := b.newPage("datasheet", m.Front.Title, dir+"index.html")
-	v, err := b.materialView(m, p.Root, cmps)
+	source, body, err := m.Text()
+	if err != nil {
+		return nil, err
+	}
+	v, err := b.materialView(m, body, p.Root, cmps)
 	if err != nil {
 		return fail(err)
 	}
@@ -547,6 +551,6 @@ func (b *builder) materialFiles(m *evaluate.Material, cmps []*library.Comparison
 	out[dir+"figures.json"] = append(js, '\n')
 	out[dir+"figures.csv"] = figCSV.Bytes()
 	out[dir+"claims.json"] = claims
-	out[dir+"source.md"] = m.Source
+	out[dir+"source.md"] = source
 	return out, nil
 }
