@@ -225,6 +225,7 @@ type kept struct {
 	Figures  *datasheet.Figures
 	Verdicts []datasheet.Verdict
 	Warnings []string
+	Search   [4]string // its entry in the search index
 }
 
 // cachedFile is a site file of an entry: its size and modification time

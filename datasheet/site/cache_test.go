@@ -11,6 +11,7 @@ import (
 	"reflect"
 	"slices"
 	"strings"
+	"sync"
 	"testing"
 	"testing/fstest"
 	"time"
@@ -1005,5 +1006,83 @@ func TestOverlayOfChangedFiles(t *testing.T) {
 	s.Inputs = inputs
 	if o, err := b.overlayOf(s); err != nil || o.r.Empty() || o.a.Empty() {
 		t.Errorf("overlayOf: %v, reflectance empty %v, emittance empty %v", err, o.r.Empty(), o.a.Empty())
+	}
+}
+
+// openCounter counts the Markdown files opened through it (to be read).
+type openCounter struct {
+	fs.FS
+	mu     sync.Mutex
+	opened []string
+}
+
+func (c *openCounter) Open(name string) (fs.File, error) {
+	if strings.HasSuffix(name, ".md") {
+		c.mu.Lock()
+		c.opened = append(c.opened, name)
+		c.mu.Unlock()
+	}
+	return c.FS.Open(name)
+}
+
+// Stat looks without opening, as the CLI's file system does.
+func (c *openCounter) Stat(name string) (fs.FileInfo, error) { return fs.Stat(c.FS, name) }
+
+// TestCacheReadsChangedText checks that a render with the cache and a
+// front matter cache reads the text of no Markdown file but those of the
+// materials it evaluates (for their datasheets): the search index takes
+// the others' entries from the cache.
+func TestCacheReadsChangedText(t *testing.T) {
+	dir, cdir := copyDemo(t), t.TempDir()
+	time.Sleep(2100 * time.Millisecond) // old enough to stamp (see library.StampOf)
+	fsys := &openCounter{FS: os.DirFS(dir)}
+	fc := library.NewFrontCache("build-1")
+	render := func() []string {
+		t.Helper()
+		lib, err := library.LoadWith(fsys, fc)
+		if err != nil {
+			t.Fatal(err)
+		}
+		fsys.mu.Lock()
+		fsys.opened = nil
+		fsys.mu.Unlock()
+		c := openCache(t, cdir, "build-1")
+		if err := Render(lib, Options{Version: "test", Cache: c}, linkWriter{mapWriter{}}); err != nil {
+			t.Fatal(err)
+		}
+		if err := c.Commit(); err != nil {
+			t.Fatal(err)
+		}
+		return slices.Sorted(slices.Values(fsys.opened))
+	}
+	render()
+	render()
+	spec := spectrumOf(t, dir, "kw-21")
+	data, err := os.ReadFile(spec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	write(t, spec, append(data, '\n'))
+	// The changed material's file, and those of the materials a
+	// comparison sets against a reference (never kept, see keyOf).
+	lib, err := library.Load(os.DirFS(dir))
+	if err != nil {
+		t.Fatal(err)
+	}
+	m, _ := lib.Material("kw-21")
+	want := []string{m.Path}
+	for _, c := range lib.Comparisons {
+		if c.Reference != nil || c.Skin != nil {
+			for _, x := range c.Materials {
+				want = append(want, x.Path)
+			}
+		}
+	}
+	slices.Sort(want)
+	if len(want) < 2 {
+		t.Fatal("the demo has no comparison against a reference")
+	}
+	if got := render(); !slices.Equal(got, slices.Compact(want)) {
+		t.Errorf("Markdown files read by the render: %q, want %q", got, want)
 	}
 }

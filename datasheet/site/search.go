@@ -41,7 +41,7 @@ func init() {
 // the distinct words of the notes, in lower case. site.js loads it when
 // the search box is first used.
 func (b *builder) searchIndex() ([]byte, error) {
-	out, err := b.appendParts([]byte("window.skysheetSearchIndex = ["), b.sums, "search entries", ",", searchEntries)
+	out, err := b.appendParts([]byte("window.skysheetSearchIndex = ["), b.sums, "search entries", ",", b.searchEntries)
 	if err != nil {
 		return nil, err
 	}
@@ -50,16 +50,50 @@ func (b *builder) searchIndex() ([]byte, error) {
 
 // searchEntries returns the search index entries of ms as JSON, separated
 // by commas (json.Marshal escapes <, > and &: safe in a script).
-func searchEntries(ms []*evaluate.Summary) ([]byte, error) {
+func (b *builder) searchEntries(ms []*evaluate.Summary) ([]byte, error) {
 	entries := make([][4]string, 0, len(ms))
 	for _, m := range ms {
-		e, err := searchEntry(m)
+		e, err := b.searchEntryOf(m)
 		if err != nil {
 			return nil, err
 		}
 		entries = append(entries, e)
 	}
 	return jsonElements(entries)
+}
+
+// searchEntryOf returns m's entry of the search index: the one made when
+// its datasheet was, or kept in the cache with it (see setSearchEntry);
+// else made from its Markdown file read now.
+func (b *builder) searchEntryOf(m *evaluate.Summary) ([4]string, error) {
+	b.mu.Lock()
+	e, ok := b.search[m.Slug]
+	b.mu.Unlock()
+	if ok {
+		return e, nil
+	}
+	_, body, err := m.Text()
+	if err != nil {
+		return [4]string{}, err
+	}
+	return searchEntry(m, body), nil
+}
+
+// keptSearchEntry returns the search index entry kept for material slug.
+func (b *builder) keptSearchEntry(slug string) [4]string {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	return b.search[slug]
+}
+
+// setSearchEntry keeps e as the search index entry of material slug.
+func (b *builder) setSearchEntry(slug string, e [4]string) {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	if b.search == nil {
+		b.search = map[string][4]string{}
+	}
+	b.search[slug] = e
 }
 
 // jsonElements returns the JSON of the slice v without its brackets: its
@@ -72,12 +106,9 @@ func jsonElements[T any](v []T) ([]byte, error) {
 	return data[1 : len(data)-1], nil
 }
 
-// searchEntry is one material's entry of the search index.
-func searchEntry(m *evaluate.Summary) ([4]string, error) {
-	_, body, err := m.Text()
-	if err != nil {
-		return [4]string{}, err
-	}
+// searchEntry is the entry of the search index of material m, whose
+// Markdown body is body.
+func searchEntry(m *evaluate.Summary, body []byte) [4]string {
 	fm := m.Front
 	who := firstOf(fm.Maker, fm.Lab)
 	seen := map[string]bool{}
@@ -104,7 +135,7 @@ func searchEntry(m *evaluate.Summary) ([4]string, error) {
 	}
 	add(fm.ProductCode+" "+fm.Category+" "+strings.Join(fm.Tags, " "), 0)
 	add(string(body), maxNoteBytes)
-	return [4]string{m.Slug, fm.Title, who, strings.Join(words, " ")}, nil
+	return [4]string{m.Slug, fm.Title, who, strings.Join(words, " ")}
 }
 
 // searchWords splits text into lower-case words of letters and digits

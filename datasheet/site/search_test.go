@@ -121,11 +121,8 @@ func TestSearchNotesCapped(t *testing.T) {
 		body.WriteString("word" + strings.Repeat("x", i%7) + string(rune('a'+i%26)) + string(rune('a'+i/26)) + " ")
 	}
 	m := &evaluate.Summary{Material: &library.Material{Slug: "long", Front: library.FrontMatter{Title: "Long notes", Maker: "Maker",
-		Category: "paint", Tags: []string{"white"}}, Body: []byte(body.String())}}
-	e, err := searchEntry(m)
-	if err != nil {
-		t.Fatal(err)
-	}
+		Category: "paint", Tags: []string{"white"}}}}
+	e := searchEntry(m, []byte(body.String()))
 	if !strings.HasPrefix(e[3], "paint white wordaa ") {
 		t.Errorf("words %.40q…", e[3])
 	}

@@ -117,7 +117,8 @@ func Render(lib *library.Library, opt Options, out Writer) error {
 			if key, ok := b.keyOf(m.Material, cmps); ok {
 				s := m.Kept()
 				b.setKey(m.Slug, key, s.Inputs)
-				e := &entry{Kept: kept{Inputs: s.Inputs, Figures: s.Figures, Verdicts: s.Verdicts, Warnings: s.Warnings}}
+				e := &entry{Kept: kept{Inputs: s.Inputs, Figures: s.Figures, Verdicts: s.Verdicts, Warnings: s.Warnings,
+					Search: b.keptSearchEntry(m.Slug)}}
 				if paths, ok := opt.Cache.put(key, e, lib, files); ok {
 					return w.takeAll(e.Files, paths, nil, files)
 				}
@@ -253,6 +254,7 @@ type builder struct {
 	// pages made after the datasheets take from the cache (see memo).
 	mu       sync.Mutex
 	overlays map[string]overlay
+	search   map[string][4]string // each material's search index entry (see searchEntryOf)
 	keys     map[string]string
 	taken    []takenFiles
 	// Made by prepare before the pages that rest on every material, and
@@ -300,6 +302,7 @@ func (b *builder) reuse(m *library.Material, cmps []*library.Comparison, w *seri
 	}
 	b.opt.Cache.hit()
 	b.setKey(m.Slug, key, e.Kept.Inputs)
+	b.setSearchEntry(m.Slug, e.Kept.Search)
 	return cachedSummary(m, e), nil
 }
 
@@ -517,6 +520,7 @@ func (b *builder) materialFiles(m *evaluate.Material, cmps []*library.Comparison
 	if err != nil {
 		return nil, err
 	}
+	b.setSearchEntry(m.Slug, searchEntry(&m.Summary, body))
 	v, err := b.materialView(m, body, p.Root, cmps)
 	if err != nil {
 		return fail(err)
