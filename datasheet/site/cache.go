@@ -316,48 +316,69 @@ func (b *builder) memo(key string, out files, build func(files) error) error {
 	return nil
 }
 
-// memoBytes returns what build returns, or, when the cache holds what it
-// returned under key (not ""), that instead; what build returns under a
-// key is stored in the cache. For parts of files that rest on many
-// materials, such as catalog.json.
-func (b *builder) memoBytes(key string, build func() ([]byte, error)) ([]byte, error) {
+// appendMemo appends to dst what build returns, or, when the cache holds
+// what it returned under key (not ""), that instead, read from the cache
+// straight into dst; what build returns under a key is stored in the
+// cache. For parts of files that rest on many materials, such as
+// catalog.json.
+func (b *builder) appendMemo(dst []byte, key string, build func() ([]byte, error)) ([]byte, error) {
 	c := b.opt.Cache
 	if c == nil || key == "" {
-		return build()
+		data, err := build()
+		return append(dst, data...), err
 	}
 	if e, paths, _ := c.get(key, b.lib, nil); e != nil && len(paths) == 1 && e.Files[0].Name == memoPart {
-		if data, err := os.ReadFile(paths[0]); err == nil && int64(len(data)) == e.Files[0].Size {
-			return data, nil
+		if out, ok := appendFile(dst, paths[0], e.Files[0].Size); ok {
+			return out, nil
 		}
 	}
 	data, err := build()
 	if err != nil {
-		return nil, err
+		return dst, err
 	}
 	c.put(key, &entry{}, b.lib, files{memoPart: data})
-	return data, nil
+	return append(dst, data...), nil
+}
+
+// appendFile appends to dst the file p, which must be size bytes long.
+func appendFile(dst []byte, p string, size int64) ([]byte, bool) {
+	f, err := os.Open(p)
+	if err != nil {
+		return dst, false
+	}
+	defer f.Close()
+	n := len(dst)
+	dst = slices.Grow(dst, int(size)+1)[:n+int(size)]
+	if _, err := io.ReadFull(f, dst[n:]); err != nil {
+		return dst[:n], false
+	}
+	// Nothing more: the file is the size recorded.
+	if m, _ := f.Read(dst[len(dst):cap(dst)][:1]); m != 0 {
+		return dst[:n], false
+	}
+	return dst, true
 }
 
 // appendParts appends to dst what elements makes of ms, pageRows
 // materials at a time, the parts separated by sep; each part is kept in
 // the cache under the key of its materials, what, and where in ms it
-// starts (see memoBytes).
+// starts (see appendMemo).
 func (b *builder) appendParts(dst []byte, ms []*evaluate.Summary, what, sep string, elements func([]*evaluate.Summary) ([]byte, error)) ([]byte, error) {
 	for lo := 0; lo < len(ms); lo += pageRows {
 		part := ms[lo:min(len(ms), lo+pageRows)]
-		data, err := b.memoBytes(b.pageKey(part, what, strconv.Itoa(lo)), func() ([]byte, error) { return elements(part) })
-		if err != nil {
-			return nil, err
-		}
 		if lo > 0 {
 			dst = append(dst, sep...)
 		}
-		dst = append(dst, data...)
+		var err error
+		dst, err = b.appendMemo(dst, b.pageKey(part, what, strconv.Itoa(lo)), func() ([]byte, error) { return elements(part) })
+		if err != nil {
+			return nil, err
+		}
 	}
 	return dst, nil
 }
 
-// memoPart names the one file of an entry of memoBytes.
+// memoPart names the one file of an entry of appendMemo.
 const memoPart = "part"
 
 // take records files of the cache for Render to write.

@@ -1086,3 +1086,72 @@ func TestCacheReadsChangedText(t *testing.T) {
 		t.Errorf("Markdown files read by the render: %q, want %q", got, want)
 	}
 }
+
+// TestCachePartDamaged checks that a kept part of a file made of every
+// material (see appendMemo) that is shorter or longer than recorded is made
+// afresh.
+func TestCachePartDamaged(t *testing.T) {
+	fsys := bigLibraryFS(t, 2*pageRows)
+	render := func(c *Cache) mapWriter {
+		t.Helper()
+		out := mapWriter{}
+		renderCommit(t, fsys, c, out)
+		return out
+	}
+	cdir := t.TempDir()
+	render(openCache(t, cdir, "build-1"))
+	base := filepath.Join(cdir, cacheVersion)
+	var parts []string
+	for key, e := range readEntries(base, "build-1") {
+		if len(e.Files) == 1 && e.Files[0].Name == memoPart {
+			parts = append(parts, filepath.Join(base, key, "0"))
+		}
+	}
+	if len(parts) < 8 {
+		t.Fatalf("%d kept parts, want at least 8 (4 files, 2 parts each)", len(parts))
+	}
+	for i, p := range parts {
+		st, err := os.Stat(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		data, err := os.ReadFile(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if i%2 == 0 {
+			data = data[:len(data)-1]
+		} else {
+			data = append(data, ' ')
+		}
+		write(t, p, data)
+		// The time recorded kept, so that only the size tells.
+		if err := os.Chtimes(p, st.ModTime(), st.ModTime()); err != nil {
+			t.Fatal(err)
+		}
+	}
+	sameFiles(t, render(openCache(t, cdir, "build-1")), render(nil))
+}
+
+// TestAppendFile checks that appendFile appends a file of the size given
+// and refuses one shorter or longer, leaving dst as it was.
+func TestAppendFile(t *testing.T) {
+	p := filepath.Join(t.TempDir(), "part")
+	write(t, p, []byte("12345"))
+	for _, tt := range []struct {
+		size int64
+		ok   bool
+	}{{5, true}, {4, false}, {6, false}} {
+		got, ok := appendFile([]byte("ab"), p, tt.size)
+		want := "ab"
+		if tt.ok {
+			want = "ab12345"
+		}
+		if ok != tt.ok || string(got) != want {
+			t.Errorf("size %d: %q, %v; want %q, %v", tt.size, got, ok, want, tt.ok)
+		}
+	}
+	if got, ok := appendFile([]byte("ab"), p+".missing", 5); ok || string(got) != "ab" {
+		t.Errorf("a missing file: %q, %v", got, ok)
+	}
+}

@@ -999,7 +999,7 @@ func (b *builder) catalog(ms []*evaluate.Summary) ([]byte, error) {
 		c.Comparisons = append(c.Comparisons, cc)
 	}
 	// The materials' entries are made in parts of pageRows materials, each
-	// kept in the cache (see memoBytes), and put in place of the empty
+	// kept in the cache (see appendMemo), and put in place of the empty
 	// list: the first `"materials":[]` of the compact document is the
 	// key's, since a string holds a quote only as \".
 	doc, err := json.Marshal(c)
